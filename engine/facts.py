@@ -1,0 +1,121 @@
+"""Measured facts of a system file: the `[[check]]` and `[[measured]]` lists (systems/FORMAT.md)."""
+
+from __future__ import annotations
+
+import math
+from typing import Any, Callable
+
+import numpy as np
+
+from .units import kelvin_from, mole_from_mass
+
+KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary")
+REACTIONS = ("eutectic", "peritectic", "monotectic", "eutectoid", "peritectoid", "syntectic", "metatectic", "congruent")
+_COMMON = {"kind", "source", "note"}
+_KIND_KEYS = {
+    "melting": {"element", "temperature_C", "temperature_K"},
+    "invariant": {"reaction", "phases", "temperature_C", "temperature_K"},
+    "liquidus": {"at_percent", "wt_percent", "temperature_C", "temperature_K"},
+    "solidus": {"at_percent", "wt_percent", "temperature_C", "temperature_K"},
+    "boundary": {"phase", "partner", "at_percent", "wt_percent", "temperature_C", "temperature_K"},
+}
+_SPREAD_KEYS = {"check": ("tolerance_K", "tolerance_at"), "measured": ("uncertainty_K", "uncertainty_at")}
+
+
+def _num(v: Any) -> bool:
+    return not isinstance(v, bool) and isinstance(v, (int, float)) and math.isfinite(v)
+
+
+def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], Exception]) -> list:
+    """Validate the `[[check]]` or `[[measured]]` list of a document into Fact objects."""
+    from .system import Fact
+
+    if not isinstance(items, list):
+        raise fail(list_name, f"expected a list of tables ([[{list_name}]])")
+    k_key, at_key = _SPREAD_KEYS[list_name]
+    facts = []
+    for i, item in enumerate(items):
+        key = f"{list_name}[{i}]"
+        if not isinstance(item, dict):
+            raise fail(key, "expected a table")
+        kind = item.get("kind")
+        if kind not in KINDS:
+            raise fail(f"{key}.kind", f"expected one of {', '.join(KINDS)}, found {kind!r}")
+        allowed = _COMMON | _KIND_KEYS[kind] | {k_key, at_key}
+        for k in item:
+            if k not in allowed:
+                raise fail(f"{key}.{k}", f"unknown key for a {kind} fact; expected one of {', '.join(sorted(allowed))}")
+        source = item.get("source")
+        if not isinstance(source, str) or not source.strip():
+            raise fail(f"{key}.source", "missing: every fact names its source (handbook with edition, or paper)")
+        temps = [k for k in ("temperature_C", "temperature_K") if k in item]
+        if len(temps) != 1:
+            raise fail(key, "give the temperature once, as temperature_C or temperature_K")
+        tval = item[temps[0]]
+        if not _num(tval):
+            raise fail(f"{key}.{temps[0]}", f"expected a number, found {tval!r}")
+        T = kelvin_from(tval, temps[0][-1])
+        if T <= 0:
+            raise fail(f"{key}.{temps[0]}", "expected a temperature above absolute zero")
+        fields: dict[str, Any] = {"kind": kind, "source": source, "temperature_K": T, "index": i}
+
+        spread: dict[str, float] = {}
+        if k_key in item:
+            if not _num(item[k_key]) or item[k_key] <= 0:
+                raise fail(f"{key}.{k_key}", "expected a positive number of kelvin")
+            spread["K"] = float(item[k_key])
+        if at_key in item:
+            v = item[at_key]
+            if isinstance(v, dict):
+                for ph, s in v.items():
+                    if not _num(s) or s <= 0:
+                        raise fail(f"{key}.{at_key}.{ph}", "expected a positive number of at%")
+                    spread[f"at:{ph}"] = float(s)
+            elif _num(v) and v > 0:
+                spread["at"] = float(v)
+            else:
+                raise fail(f"{key}.{at_key}", "expected a positive number of at% (or a table per phase)")
+        fields["spread"] = spread
+
+        if kind == "melting":
+            el = item.get("element")
+            if el not in system.elements:
+                raise fail(f"{key}.element", f"expected one of {', '.join(system.elements)}, found {el!r}")
+            fields["element"] = el
+        if kind in ("liquidus", "solidus", "boundary"):
+            comps = [k for k in ("at_percent", "wt_percent") if k in item]
+            if kind != "boundary" and len(comps) != 1:
+                raise fail(key, f"give the composition once, as at_percent or wt_percent of {system.elements[1]}")
+            if comps:
+                v = item[comps[0]]
+                if not _num(v) or not 0 <= v <= 100:
+                    raise fail(f"{key}.{comps[0]}", f"expected a percentage from 0 to 100, found {v!r}")
+                frac = v / 100.0
+                if comps[0] == "wt_percent":
+                    frac = float(mole_from_mass(np.array([1 - frac, frac]), system.molar_mass)[1])
+                fields["x_B"] = frac
+        if kind == "boundary":
+            for k in ("phase", "partner"):
+                if item.get(k) not in system.phases:
+                    raise fail(f"{key}.{k}", f"expected a phase of this system ({', '.join(system.phases)}), found {item.get(k)!r}")
+            if "x_B" not in fields:
+                raise fail(key, f"give the boundary composition as at_percent or wt_percent of {system.elements[1]}")
+            fields["phase"], fields["partner"] = item["phase"], item["partner"]
+        if kind == "invariant":
+            reaction = item.get("reaction")
+            if reaction not in REACTIONS:
+                raise fail(f"{key}.reaction", f"expected one of {', '.join(REACTIONS)}, found {reaction!r}")
+            fields["reaction"] = reaction
+            ph = item.get("phases", {})
+            if not isinstance(ph, dict):
+                raise fail(f"{key}.phases", "expected a table of phase = at% of " + system.elements[1])
+            comp = {}
+            for name, v in ph.items():
+                if name not in system.phases:
+                    raise fail(f"{key}.phases.{name}", f"not a phase of this system ({', '.join(system.phases)})")
+                if not _num(v) or not 0 <= v <= 100:
+                    raise fail(f"{key}.phases.{name}", f"expected at% from 0 to 100, found {v!r}")
+                comp[name] = v / 100.0
+            fields["phase_x_B"] = comp
+        facts.append(Fact(**fields))
+    return facts

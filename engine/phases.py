@@ -1,0 +1,233 @@
+"""Phase models: substitutional solutions and stoichiometric compounds.
+
+Compositions are mole fractions with the elements on the last axis, shape (..., n_elements). The
+mole fractions of the two elements of a binary are always carried as two separately computed
+numbers (never 1 - x recomputed from a stored x) so that compositions within 1e-20 of a pure
+element keep their digits.
+
+Derivatives "in x" are taken along the binary direction: B replaces A, so dx_B = -dx_A.
+All energies in J per mole of atoms, temperatures in K.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .magnetic import hillert_jarl
+from .polynomials import TemperatureFunction
+from .units import GAS_CONSTANT as R
+
+
+def _xlogx(x: np.ndarray) -> np.ndarray:
+    if isinstance(x, float):
+        return x * math.log(x) if x > 0.0 else 0.0
+    safe = np.where(x > 0.0, x, 1.0)
+    return np.where(x > 0.0, x * np.log(safe), 0.0)
+
+
+def _log(x):
+    """Natural log of a Python float (fast path for scalar Newton loops) or of an array."""
+    return math.log(x) if isinstance(x, float) else np.log(x)
+
+
+def redlich_kister(L: np.ndarray, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
+    """Excess Gibbs energy xA xB sum_k L[k] (xA - xB)^k and its derivatives along x_B.
+
+    Returns (G, dG/dxB, d2G/dxB2, d3G/dxB3, mu_A, mu_B), all J/mol, with the partial molar
+    excess energies mu_A and mu_B in closed form (no G - x dG/dx subtraction).
+    O. Redlich and A.T. Kister, Ind. Eng. Chem. 40 (1948) 345-348.
+    """
+    p = xa * xb
+    d = xa - xb
+    g = g1 = g2 = g3 = mua = mub = 0.0 * p
+    for k, Lk in enumerate(L):
+        if Lk == 0.0:
+            continue
+        dk = d**k
+        g = g + Lk * p * dk
+        g1 = g1 + Lk * (d ** (k + 1) - 2 * k * p * (d ** (k - 1) if k >= 1 else 0.0))
+        g2 = g2 + Lk * (-2 * (2 * k + 1) * dk + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0))
+        g3 = g3 + Lk * ((12 * k * k * d ** (k - 1) if k >= 1 else 0.0)
+                        - (8 * k * (k - 1) * (k - 2) * p * d ** (k - 3) if k >= 3 else 0.0))
+        if k == 0:
+            mua = mua + Lk * xb * xb
+            mub = mub + Lk * xa * xa
+        else:
+            dkm1 = d ** (k - 1)
+            mua = mua + Lk * xb * xb * dkm1 * ((2 * k + 1) * xa - xb)
+            mub = mub + Lk * xa * xa * dkm1 * (xa - (2 * k + 1) * xb)
+    return g, g1, g2, g3, mua, mub
+
+
+@dataclass(frozen=True)
+class MagneticModel:
+    """Composition-dependent Curie temperature (K) and mean moment (Bohr magnetons) of a phase."""
+
+    above_curie_fraction: float
+    curie_K: np.ndarray          # per element
+    moment: np.ndarray           # per element
+    curie_L: tuple[TemperatureFunction, ...] = ()
+    moment_L: tuple[TemperatureFunction, ...] = ()
+    antiferro_factor: float = -3.0
+
+
+@dataclass(frozen=True)
+class SolutionPhase:
+    """Substitutional solution: ideal mixing, Redlich-Kister excess, optional magnetic term.
+
+    `endmembers[i]` is the Gibbs energy of pure element i in this structure (J/mol);
+    `interactions[k]` is L[k] (J/mol) of the binary Redlich-Kister series.
+    """
+
+    name: str
+    elements: tuple[str, ...]
+    endmembers: tuple[TemperatureFunction, ...]
+    interactions: tuple[TemperatureFunction, ...] = ()
+    magnetic: MagneticModel | None = None
+    kind: str = field(default="solution", init=False)
+
+    def at(self, T: float) -> "SolutionAtT":
+        """The phase with all temperature-dependent coefficients evaluated at T (K)."""
+        return SolutionAtT(self, T)
+
+    def valid_range_K(self) -> tuple[float, float]:
+        funcs = self.endmembers + self.interactions
+        if self.magnetic:
+            funcs = funcs + self.magnetic.curie_L + self.magnetic.moment_L
+        return max(f.lower_K for f in funcs), min(f.upper_K for f in funcs)
+
+
+class SolutionAtT:
+    """A solution phase at one temperature; vectorised over compositions."""
+
+    def __init__(self, phase: SolutionPhase, T: float) -> None:
+        self.phase = phase
+        self.T = T
+        self.RT = R * T
+        self.g0 = np.array([f.value(T) for f in phase.endmembers])
+        self.g0_dT = np.array([f.derivative(T) for f in phase.endmembers])
+        self.g0a, self.g0b = float(self.g0[0]), float(self.g0[1])
+        self.L = [f.value(T) for f in phase.interactions]
+        self.L_dT = [f.derivative(T) for f in phase.interactions]
+        mag = phase.magnetic
+        if mag is not None:
+            self.curie_L = [f.value(T) for f in mag.curie_L]
+            self.moment_L = [f.value(T) for f in mag.moment_L]
+
+    # --- magnetic part -------------------------------------------------------------------
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
+        """(G, dG/dx, d2G/dx2, dG/dT) of the magnetic term along x_B."""
+        mag = self.phase.magnetic
+        tc, tc1, tc2 = self._linear_plus_excess(mag.curie_K, self.curie_L, xa, xb)
+        be, be1, be2 = self._linear_plus_excess(mag.moment, self.moment_L, xa, xb)
+        sign_tc = np.where(tc < 0.0, 1.0 / mag.antiferro_factor, 1.0)
+        sign_be = np.where(be < 0.0, 1.0 / mag.antiferro_factor, 1.0)
+        tc, tc1, tc2 = tc * sign_tc, tc1 * sign_tc, tc2 * sign_tc
+        be, be1, be2 = be * sign_be, be1 * sign_be, be2 * sign_be
+        active = tc > 1e-9
+        tc_safe = np.where(active, tc, 1.0)
+        tau = np.where(active, self.T / tc_safe, 1e9)
+        f, f1, f2 = hillert_jarl(tau, mag.above_curie_fraction)
+        u = np.log1p(be)
+        u1 = be1 / (1.0 + be)
+        u2 = be2 / (1.0 + be) - u1 * u1
+        tau1 = -tau * tc1 / tc_safe
+        tau2 = -tau * tc2 / tc_safe + 2.0 * tau * (tc1 / tc_safe) ** 2
+        RT = self.RT
+        g = RT * u * f
+        g1 = RT * (u1 * f + u * f1 * tau1)
+        g2 = RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
+        g_dT = R * u * (f + tau * f1)
+        zero = np.zeros_like(g)
+        return tuple(np.where(active, v, zero) for v in (g, g1, g2, g_dT))
+
+    @staticmethod
+    def _linear_plus_excess(pure: np.ndarray, L: np.ndarray, xa: np.ndarray, xb: np.ndarray):
+        g, g1, g2, _g3, _a, _b = redlich_kister(L, xa, xb)
+        return xa * pure[0] + xb * pure[1] + g, pure[1] - pure[0] + g1, g2
+
+    # --- public ------------------------------------------------------------------------
+    def gibbs(self, xa: np.ndarray, xb: np.ndarray, mixing: np.ndarray | None = None) -> np.ndarray:
+        """Molar Gibbs energy G (J/mol) at mole fractions (xa, xb).
+
+        `mixing` may hold xa ln xa + xb ln xb already computed for these compositions."""
+        g_ex = redlich_kister(self.L, xa, xb)[0]
+        if mixing is None:
+            mixing = _xlogx(xa) + _xlogx(xb)
+        g = xa * self.g0a + xb * self.g0b + self.RT * mixing + g_ex
+        if self.phase.magnetic is not None:
+            g = g + self._magnetic(xa, xb)[0]
+        return g
+
+    def potentials(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Chemical potentials (mu_A, mu_B), J/mol, computed term by term."""
+        _g, _g1, _g2, _g3, mua, mub = redlich_kister(self.L, xa, xb)
+        mua = self.g0a + self.RT * _log(xa) + mua
+        mub = self.g0b + self.RT * _log(xb) + mub
+        if self.phase.magnetic is not None:
+            gm, gm1, _gm2, _ = self._magnetic(xa, xb)
+            mua = mua + gm - xb * gm1
+            mub = mub + gm + xa * gm1
+        return mua, mub
+
+    def slope(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """dG/dx_B = mu_B - mu_A (J/mol), computed without subtracting two large numbers."""
+        g1 = redlich_kister(self.L, xa, xb)[1]
+        s = self.g0b - self.g0a + self.RT * (_log(xb) - _log(xa)) + g1
+        if self.phase.magnetic is not None:
+            s = s + self._magnetic(xa, xb)[1]
+        return s
+
+    def scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """xA xB d2G/dx_B2 (J/mol): the curvature in the variable y = ln(xB/xA)."""
+        g2 = redlich_kister(self.L, xa, xb)[2]
+        if self.phase.magnetic is not None:
+            g2 = g2 + self._magnetic(xa, xb)[2]
+        return self.RT + xa * xb * g2
+
+    def curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """d2G/dx_B2 (J/mol); negative inside a spinodal."""
+        return self.scaled_curvature(xa, xb) / (xa * xb)
+
+    def third_derivative(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """d3G/dx_B3 (J/mol) without the magnetic term (used only to locate curvature minima)."""
+        g3 = redlich_kister(self.L, xa, xb)[3]
+        return self.RT * (xb - xa) / (xa * xb) ** 2 + g3
+
+    def gibbs_dT(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """dG/dT = -S (J/(mol K)) at fixed composition."""
+        g_ex_dT = redlich_kister(self.L_dT, xa, xb)[0]
+        s = xa * self.g0_dT[0] + xb * self.g0_dT[1] + R * (_xlogx(xa) + _xlogx(xb)) + g_ex_dT
+        if self.phase.magnetic is not None:
+            s = s + self._magnetic(xa, xb)[3]
+        return s
+
+
+@dataclass(frozen=True)
+class CompoundPhase:
+    """A stoichiometric compound: fixed composition, G = sum_i x_i G_i(reference) + formation (J/mol)."""
+
+    name: str
+    elements: tuple[str, ...]
+    x: np.ndarray                              # mole fractions (sums to 1)
+    references: tuple[TemperatureFunction, ...]  # pure-element G of each element's reference phase
+    formation: TemperatureFunction
+    kind: str = field(default="compound", init=False)
+
+    def gibbs(self, T: float) -> float:
+        """Molar Gibbs energy (J per mole of atoms) at T (K)."""
+        return float(sum(xi * f.value(T) for xi, f in zip(self.x, self.references)) + self.formation.value(T))
+
+    def gibbs_dT(self, T: float) -> float:
+        """dG/dT (J/(mol K)) at T (K)."""
+        return float(sum(xi * f.derivative(T) for xi, f in zip(self.x, self.references)) + self.formation.derivative(T))
+
+    def valid_range_K(self) -> tuple[float, float]:
+        funcs = self.references + (self.formation,)
+        return max(f.lower_K for f in funcs), min(f.upper_K for f in funcs)
+
+
+Phase = SolutionPhase | CompoundPhase

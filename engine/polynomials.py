@@ -1,0 +1,94 @@
+"""Gibbs energies as piecewise functions of temperature.
+
+Each piece is  G(T) = a + b T + c T ln T + d T^2 + e T^3 + f / T + g T^7 + h / T^9  (J/mol, T in K),
+valid from the previous piece's upper limit (or the first piece's lower limit) up to its own.
+"""
+
+from __future__ import annotations
+
+import math
+from bisect import bisect_left
+from dataclasses import dataclass
+from functools import cached_property
+
+import numpy as np
+
+#: Names of the coefficients, in the order of the terms above.
+COEFFICIENTS = ("a", "b", "c", "d", "e", "f", "g", "h")
+
+
+class TemperatureOutOfRange(ValueError):
+    """Raised when a temperature lies outside every piece of a function."""
+
+
+def _terms(T: float) -> tuple[float, ...]:
+    lnT = math.log(T)
+    return (1.0, T, T * lnT, T * T, T**3, 1.0 / T, T**7, T**-9)
+
+
+def _terms_dT(T: float) -> tuple[float, ...]:
+    lnT = math.log(T)
+    return (0.0, 1.0, lnT + 1.0, 2.0 * T, 3.0 * T * T, -1.0 / (T * T), 7.0 * T**6, -9.0 * T**-10)
+
+
+def _dot(row: tuple[float, ...], terms: tuple[float, ...]) -> float:
+    return sum(c * t for c, t in zip(row, terms) if c)
+
+
+@dataclass(frozen=True, eq=False)
+class TemperatureFunction:
+    """A piecewise temperature polynomial.
+
+    `bounds` holds the lower limit of the first piece followed by each piece's upper limit (K);
+    `coefficients` has one row of the eight coefficients (a..h) per piece.
+    """
+
+    bounds: tuple[float, ...]
+    coefficients: np.ndarray
+
+    @classmethod
+    def constant_terms(cls, coefficients: dict[str, float], lower: float = 0.0, upper: float = math.inf) -> "TemperatureFunction":
+        """One piece valid from `lower` to `upper` K, from a mapping of coefficient letters."""
+        row = np.array([float(coefficients.get(k, 0.0)) for k in COEFFICIENTS])
+        return cls((lower, upper), row[None, :])
+
+    @property
+    def lower_K(self) -> float:
+        return self.bounds[0]
+
+    @property
+    def upper_K(self) -> float:
+        return self.bounds[-1]
+
+    @cached_property
+    def _rows(self) -> tuple[tuple[float, ...], ...]:
+        return tuple(tuple(float(c) for c in row) for row in self.coefficients)
+
+    def _row(self, T: float) -> tuple[float, ...]:
+        if not (self.bounds[0] <= T <= self.bounds[-1]) or T <= 0.0:
+            raise TemperatureOutOfRange(
+                f"temperature {T:.2f} K is outside the model's range {self.bounds[0]:g}-{self.bounds[-1]:g} K"
+            )
+        i = bisect_left(self.bounds, T, 1) - 1
+        return self._rows[min(max(i, 0), len(self._rows) - 1)]
+
+    def value(self, T: float) -> float:
+        """G(T) in J/mol."""
+        return _dot(self._row(T), _terms(T))
+
+    def derivative(self, T: float) -> float:
+        """dG/dT in J/(mol K)."""
+        return _dot(self._row(T), _terms_dT(T))
+
+    def plus(self, other: "TemperatureFunction") -> "TemperatureFunction":
+        """The sum of two functions, valid where both are (pieces split where either changes)."""
+        lower = max(self.lower_K, other.lower_K)
+        upper = min(self.upper_K, other.upper_K)
+        cuts = sorted({b for b in self.bounds[1:] + other.bounds[1:] if lower < b < upper} | {upper})
+        rows = []
+        start = lower
+        for cut in cuts:
+            mid = 0.5 * (start + cut) if math.isfinite(cut) else start + 1.0
+            rows.append(np.add(self._row(max(mid, 1e-9)), other._row(max(mid, 1e-9))))
+            start = cut
+        return TemperatureFunction((lower, *cuts), np.array(rows))

@@ -1,0 +1,71 @@
+"""Transitions of a pure element between the phases of a system.
+
+The stable phase of pure element i at T is the phase with the lowest G_i(T); a transition is a
+temperature where the lowest two cross. Found by scanning and bisection on the element's
+temperature functions only (no mixing involved).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .phases import SolutionPhase
+
+
+@dataclass(frozen=True)
+class PureTransition:
+    """Pure `element` changes from phase `below` to phase `above` at `temperature_K`."""
+
+    element: str
+    temperature_K: float
+    below: str
+    above: str
+
+
+def _pure_gibbs(phases: dict, index: int, T: float) -> dict[str, float]:
+    """G (J/mol) of pure element `index` in every solution phase that is defined at T."""
+    out = {}
+    for name, ph in phases.items():
+        if isinstance(ph, SolutionPhase):
+            f = ph.endmembers[index]
+            if f.lower_K <= T <= f.upper_K:
+                out[name] = f.value(T)
+    return out
+
+
+def stable_pure_phase(phases: dict, index: int, T: float) -> str:
+    """Name of the solution phase in which pure element `index` has the lowest G at T (K)."""
+    g = _pure_gibbs(phases, index, T)
+    return min(g, key=g.get)
+
+
+def pure_transitions(phases: dict, index: int, element: str, lo_K: float, hi_K: float,
+                     tol_K: float = 1e-7) -> list[PureTransition]:
+    """Every change of the stable pure phase of element `index` between lo_K and hi_K (K)."""
+    grid = np.linspace(lo_K, hi_K, 400)
+    names = [stable_pure_phase(phases, index, T) for T in grid]
+    found = []
+    for i in range(len(grid) - 1):
+        if names[i] == names[i + 1]:
+            continue
+        a, b = grid[i], grid[i + 1]
+        low, high = names[i], names[i + 1]
+        while b - a > tol_K:
+            m = 0.5 * (a + b)
+            if stable_pure_phase(phases, index, m) == low:
+                a = m
+            else:
+                b = m
+        found.append(PureTransition(element, 0.5 * (a + b), low, high))
+    return found
+
+
+def melting_point(phases: dict, index: int, element: str, lo_K: float, hi_K: float) -> float | None:
+    """Melting temperature (K) of the pure element: the transition whose upper phase is `liquid`."""
+    for t in pure_transitions(phases, index, element, lo_K, hi_K):
+        if t.above == "liquid":
+            return t.temperature_K
+    return None
+

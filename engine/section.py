@@ -1,0 +1,419 @@
+"""An isothermal section: the stable phases of a binary at one temperature, for every composition.
+
+The method (the CALPHAD way of finding the global minimum of G in a binary): sample every solution
+phase on one composition grid, take the lower convex hull of all samples and compounds, refine each
+hull edge that joins two different phases (or two distant parts of one phase: a miscibility gap)
+into an exact common tangent by Newton's method, then check that no phase lies below any tangent
+line anywhere (its driving force), adding the missing phase and rebuilding where one does.
+
+Point queries take a fast path (refine only the edge under the composition and check its line);
+the whole section, with every tie-line, is built on demand and cached.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from functools import cached_property
+
+import numpy as np
+
+from .grid import DEFAULT_POINTS, composition_grid, ideal_mixing_on_grid
+from .hull import lower_hull
+from .phases import CompoundPhase, SolutionAtT
+from .tangent import common_tangent, lowest_against_line, tangent_to_point
+
+#: The hull is taken over every HULL_STRIDE-th grid point; checks use the whole grid.
+HULL_STRIDE = 4
+#: A phase below a tangent line by more than this (J/mol) makes the line wrong.
+DRIVING_FORCE_TOLERANCE = 1e-7
+_MAX_REPAIRS = 6
+
+
+@dataclass(frozen=True)
+class TieLine:
+    """Two phases in equilibrium at one temperature.
+
+    `x` holds (x_A, x_B) of each phase (mole fractions), left phase first (smaller x_B);
+    `mu` holds the common chemical potentials (mu_A, mu_B) in J/mol.
+    """
+
+    phases: tuple[str, str]
+    x: tuple[tuple[float, float], tuple[float, float]]
+    mu: tuple[float, float]
+    converged: bool = True
+
+    @property
+    def x_B(self) -> tuple[float, float]:
+        return self.x[0][1], self.x[1][1]
+
+    @property
+    def slope(self) -> float:
+        """dG/dx_B of the common tangent, J/mol."""
+        return self.mu[1] - self.mu[0]
+
+
+@dataclass(frozen=True)
+class LocalState:
+    """The stable state at one overall composition: (phase, (x_A, x_B), mole amount) per phase,
+    the chemical potentials (mu_A, mu_B) in J/mol (None where undefined at a pure element) and the
+    molar Gibbs energy of the alloy in J/mol."""
+
+    phases: tuple[tuple[str, tuple[float, float], float], ...]
+    mu: tuple[float | None, float | None]
+    gibbs: float
+    converged: bool
+
+
+class Section:
+    """Stable phases of `system` at temperature T (K), for any overall composition."""
+
+    def __init__(self, system, T: float, points: int = DEFAULT_POINTS) -> None:
+        self.system = system
+        self.T = float(T)
+        self.xa, self.xb = composition_grid(points)
+        self.names: list[str] = list(system.solutions) + list(system.compounds)
+        self.n_sol = len(system.solutions)
+        self.solutions: list[SolutionAtT] = [p.at(self.T) for p in system.solutions.values()]
+        self.compounds: list[CompoundPhase] = list(system.compounds.values())
+        mixing = ideal_mixing_on_grid(points)
+        self.G = np.vstack([s.gibbs(self.xa, self.xb, mixing) for s in self.solutions])
+        self.comp_x = [(float(c.x[0]), float(c.x[1])) for c in self.compounds]
+        self.comp_g = [c.gibbs(self.T) for c in self.compounds]
+        self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
+        self._points = self._hull_points([])
+        self._ties: dict[tuple[int, int], TieLine | None] = {}
+
+    # --- hull --------------------------------------------------------------------------------
+    def _hull_points(self, extra: list[tuple[int, float, float, float]]):
+        """Sorted candidate points: grid envelope, compounds and `extra` (phase, xA, xB, G);
+        returns (xb, xa, g, phase index, grid index (-1 if none), hull vertex indices)."""
+        coarse = self.G[:, ::HULL_STRIDE]
+        which = np.argmin(coarse, axis=0)
+        g = coarse[which, np.arange(coarse.shape[1])]
+        xb, xa = self.xb[::HULL_STRIDE], self.xa[::HULL_STRIDE]
+        phase = which
+        grid = np.arange(len(xb))
+        add = [(self.n_sol + k, cx[0], cx[1], cg) for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g))] + extra
+        if add:
+            a_ph = np.array([a[0] for a in add])
+            a_xa = np.array([a[1] for a in add])
+            a_xb = np.array([a[2] for a in add])
+            a_g = np.array([a[3] for a in add])
+            xb = np.concatenate([xb, a_xb])
+            xa = np.concatenate([xa, a_xa])
+            g = np.concatenate([g, a_g])
+            phase = np.concatenate([phase, a_ph])
+            grid = np.concatenate([grid, -np.ones(len(add), dtype=int)])
+            order = np.lexsort((g, xb))
+            xb, xa, g, phase, grid = xb[order], xa[order], g[order], phase[order], grid[order]
+            first = np.ones(len(xb), dtype=bool)
+            first[1:] = xb[1:] != xb[:-1]        # keep the lowest point at equal x_B
+            xb, xa, g, phase, grid = xb[first], xa[first], g[first], phase[first], grid[first]
+        return xb, xa, g, phase, grid, lower_hull(xb, g)
+
+    def _is_single_phase_edge(self, pts, i: int, j: int) -> bool:
+        _xb, _xa, _g, phase, grid, _h = pts
+        return phase[i] == phase[j] and phase[i] < self.n_sol and grid[i] >= 0 and grid[j] == grid[i] + 1
+
+    # --- tie-lines ----------------------------------------------------------------------------
+    def _line_through(self, p1: tuple[float, float], g1: float, p2: tuple[float, float], g2: float) -> tuple[float, float]:
+        """(mu_A, mu_B) of the line through two points (x, G)."""
+        slope = (g2 - g1) / (p2[1] - p1[1])
+        mu_a = g1 - slope * p1[1]
+        return mu_a, mu_a + slope
+
+    def refine(self, p: int, q: int, xp: tuple[float, float], xq: tuple[float, float], gp: float, gq: float) -> TieLine | None:
+        """Exact tie-line between phases p and q (indices) started from two hull vertices.
+        None where a gap inside one phase closes (no tie-line)."""
+        names = (self.names[p], self.names[q])
+        if p < self.n_sol and q < self.n_sol:
+            r = common_tangent(self.solutions[p], self.solutions[q], xp, xq)
+            if p == q and not r.converged and abs(r.x[0][1] - r.x[1][1]) < 1e-6:
+                return None
+            (xa1, xb1), (xa2, xb2) = r.x
+            if r.converged and xb1 < xb2:
+                mu = self.solutions[p].potentials(xa1, xb1)
+                return TieLine(names, r.x, (float(mu[0]), float(mu[1])), True)
+            return TieLine(names, (xp, xq), self._line_through(xp, gp, xq, gq), False)
+        if p < self.n_sol or q < self.n_sol:
+            sol, start, comp = (p, xp, q) if p < self.n_sol else (q, xq, p)
+            k = comp - self.n_sol
+            r = tangent_to_point(self.solutions[sol], self.comp_x[k], self.comp_g[k], start)
+            xs = r.x[0]
+            if r.converged:
+                mu = self.solutions[sol].potentials(*xs)
+                pair = (xs, self.comp_x[k]) if sol == p else (self.comp_x[k], xs)
+                return TieLine(names, pair, (float(mu[0]), float(mu[1])), True)
+            return TieLine(names, (xp, xq), self._line_through(xp, gp, xq, gq), False)
+        return TieLine(names, (xp, xq), self._line_through(xp, gp, xq, gq), True)
+
+    def _edge_tie(self, pts, i: int, j: int) -> TieLine | None:
+        key = (i, j) if pts is self._points else None
+        if key is not None and key in self._ties:
+            return self._ties[key]
+        xb, xa, g, phase, _grid, _h = pts
+        tie = self.refine(int(phase[i]), int(phase[j]), (float(xa[i]), float(xb[i])), (float(xa[j]), float(xb[j])),
+                          float(g[i]), float(g[j]))
+        if key is not None:
+            self._ties[key] = tie
+        return tie
+
+    # --- driving forces -------------------------------------------------------------------------
+    def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
+                   skip_tol: float = DRIVING_FORCE_TOLERANCE) -> list[tuple[int, float, float, float]]:
+        """Points (phase, xA, xB, G) of any phase lying below the line mu_A xA + mu_B xB (J/mol)
+        by more than the tolerance: each phase's local dips on the grid, refined by Newton.
+        `touching` lists (phase index, x_B) where a phase is known to touch the line; the grid
+        dip next to it is that touching point and is not refined again."""
+        mu_a, mu_b = mu
+        found = []
+        line = mu_a * self.xa + mu_b * self.xb
+        df = self.G - line
+        margin = 2e-3 * self.RT
+        for s, row in enumerate(df):
+            interior = (row[1:-1] <= row[:-2]) & (row[1:-1] <= row[2:]) & (row[1:-1] < margin)
+            dips = np.flatnonzero(interior) + 1
+            for ph, xt in touching:
+                if ph == s:
+                    near = int(np.searchsorted(self.xb, xt))
+                    dips = dips[np.abs(dips - near) > 1]
+            for i in dips:
+                r = lowest_against_line(self.solutions[s], mu_b - mu_a, (float(self.xa[i]), float(self.xb[i])))
+                xa_, xb_ = r.x[0]
+                g = float(self.solutions[s].gibbs(xa_, xb_))
+                d = g - (mu_a * xa_ + mu_b * xb_)
+                if not r.converged or d > row[i]:
+                    xa_, xb_, g, d = float(self.xa[i]), float(self.xb[i]), float(self.G[s, i]), float(row[i])
+                if d < -skip_tol:
+                    found.append((s, xa_, xb_, g))
+            for end in (0, len(row) - 1):
+                if row[end] < -skip_tol:
+                    found.append((s, float(self.xa[end]), float(self.xb[end]), float(self.G[s, end])))
+        for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g)):
+            if cg - (mu_a * cx[0] + mu_b * cx[1]) < -skip_tol:
+                found.append((self.n_sol + k, cx[0], cx[1], cg))
+        return found
+
+    def spinodal(self, s: int, lo: float, hi: float) -> tuple[float, float] | None:
+        """The first interval of x_B in [lo, hi] (widened by one grid cell each side) where
+        solution s has negative curvature (its spinodal), ends located to 1e-12, or None.
+        Curvature minima between grid points are examined on a finer local grid so that a
+        spinodal narrower than a grid cell is found."""
+        sol = self.solutions[s]
+        n = len(self.xb)
+        i0 = max(int(np.searchsorted(self.xb, lo)) - 1, 1)
+        i1 = min(int(np.searchsorted(self.xb, hi, side="right")) + 1, n - 1)
+        if i1 - i0 < 1:
+            return None
+        inside = np.arange(i0, i1)
+        xb = self.xb[inside]
+        c = sol.scaled_curvature(self.xa[inside], xb)
+        neg = np.flatnonzero(c < 0)
+        if len(neg) == 0:
+            small = np.flatnonzero((c[1:-1] <= c[:-2]) & (c[1:-1] <= c[2:]) & (c[1:-1] < 0.05 * self.RT)) + 1
+            for i in small:
+                u = np.linspace(xb[i - 1], xb[i + 1], 65)
+                cu = sol.scaled_curvature(1.0 - u, u)
+                if (cu < 0).any():
+                    xb, c = u, cu
+                    neg = np.flatnonzero(c < 0)
+                    break
+            else:
+                return None
+        first, last = neg[0], neg[0]
+        while last + 1 < len(c) and c[last + 1] < 0:
+            last += 1
+        left = self._curvature_root(sol, xb[first - 1], xb[first]) if first > 0 else float(xb[first])
+        right = self._curvature_root(sol, xb[last], xb[last + 1]) if last + 1 < len(c) else float(xb[last])
+        return left, right
+
+    @staticmethod
+    def _curvature_root(sol: SolutionAtT, a: float, b: float) -> float:
+        """x_B between a and b where the curvature of `sol` changes sign (bisection)."""
+        ca = float(sol.scaled_curvature(1.0 - a, a))
+        for _ in range(60):
+            m = 0.5 * (a + b)
+            cm = float(sol.scaled_curvature(1.0 - m, m))
+            if (cm < 0) == (ca < 0):
+                a, ca = m, cm
+            else:
+                b = m
+            if b - a < 1e-13:
+                break
+        return 0.5 * (a + b)
+
+    def _gap_points(self, s: int, lo: float, hi: float) -> list[tuple[int, float, float, float]]:
+        """The two compositions of a miscibility gap of solution s hidden inside (lo, hi), as
+        hull points (phase, xA, xB, G); empty when there is none."""
+        sp = self.spinodal(s, lo, hi)
+        if sp is None:
+            return []
+        w = max(sp[1] - sp[0], 1e-9)
+        left = max(sp[0] - w, 0.5 * (lo + sp[0]))
+        right = min(sp[1] + w, 0.5 * (hi + sp[1]))
+        sol = self.solutions[s]
+        r = common_tangent(sol, sol, (1.0 - left, left), (1.0 - right, right))
+        if not r.converged:
+            return []
+        return [(s, xa, xb, float(sol.gibbs(xa, xb))) for xa, xb in r.x]
+
+    # --- whole section ------------------------------------------------------------------------------
+    @cached_property
+    def tie_lines(self) -> list[TieLine]:
+        """Every tie-line of the section, ordered by composition, checked against every phase."""
+        extra: list[tuple[int, float, float, float]] = []
+        ties: list[TieLine] = []
+        for _round in range(_MAX_REPAIRS):
+            pts = self._points if not extra else self._hull_points(extra)
+            hull = pts[5]
+            ties = []
+            for i, j in zip(hull[:-1], hull[1:]):
+                if not self._is_single_phase_edge(pts, i, j):
+                    tie = self._edge_tie(pts, int(i), int(j))
+                    if tie is not None:
+                        ties.append(tie)
+            ties = self._merge_crossings(ties)
+            missing = [v for t in ties for v in self.violations(t.mu)]
+            missing += self._envelope_violations(ties)
+            if not missing:
+                break
+            extra = extra + missing
+        return ties
+
+    def _merge_crossings(self, ties: list[TieLine]) -> list[TieLine]:
+        """Replace two neighbouring tie-lines whose middle phase has no range of its own."""
+        index = {n: i for i, n in enumerate(self.names)}
+        k = 0
+        while k < len(ties) - 1:
+            a, b = ties[k], ties[k + 1]
+            if a.x_B[1] > b.x_B[0] + 1e-12:
+                p, q = index[a.phases[0]], index[b.phases[1]]
+                gp = self._gibbs_of(p, a.x[0])
+                gq = self._gibbs_of(q, b.x[1])
+                merged = self.refine(p, q, a.x[0], b.x[1], gp, gq)
+                ties[k:k + 2] = [merged] if merged is not None else []
+                k = max(k - 1, 0)
+            else:
+                k += 1
+        return ties
+
+    def _gibbs_of(self, phase: int, x: tuple[float, float]) -> float:
+        if phase < self.n_sol:
+            return float(self.solutions[phase].gibbs(*x))
+        return self.comp_g[phase - self.n_sol]
+
+    def _envelope_violations(self, ties: list[TieLine]) -> list[tuple[int, float, float, float]]:
+        """Grid points of any phase below the single-phase stretches of the envelope."""
+        found: list[tuple[int, float, float, float]] = []
+        index = {n: i for i, n in enumerate(self.names)}
+        bounds = [0.0] + [v for t in ties for v in t.x_B] + [1.0]
+        if ties:
+            owners = [ties[0].phases[0]] + [t.phases[1] for t in ties]
+        else:
+            owners = [self.names[int(self._points[3][0])]]
+        for (lo, hi), owner in zip(zip(bounds[::2], bounds[1::2]), owners):
+            p = index[owner]
+            if p >= self.n_sol:
+                continue
+            found += self._gap_points(p, lo, hi)
+            inside = (self.xb > lo) & (self.xb < hi)
+            if not inside.any():
+                continue
+            below = self.G[:, inside] < self.G[p, inside] - 1e-9 * (1.0 + np.abs(self.G[p, inside]))
+            for s, cols in zip(*np.nonzero(below)):
+                i = np.flatnonzero(inside)[cols]
+                found.append((int(s), float(self.xa[i]), float(self.xb[i]), float(self.G[s, i])))
+                break
+        return found
+
+    # --- queries --------------------------------------------------------------------------------------
+    def state_at(self, xa0: float, xb0: float) -> LocalState:
+        """The stable state at overall composition (x_A, x_B): fast path, verified, else the
+        whole section."""
+        if xb0 <= 0.0 or xa0 <= 0.0:
+            return self._pure_state(0 if xb0 <= 0.0 else 1)
+        state = self._fast_state(xa0, xb0)
+        if state is not None and state.mu[0] is not None:
+            index = {n: i for i, n in enumerate(self.names)}
+            touching = tuple((index[name], x[1]) for name, x, _amount in state.phases)
+            if not self.violations(state.mu, touching):
+                return state
+        return self._state_from_ties(self.tie_lines, xa0, xb0)
+
+    def _pure_state(self, end: int) -> LocalState:
+        col = 0 if end == 0 else self.G.shape[1] - 1
+        s = int(np.argmin(self.G[:, col]))
+        x = (1.0, 0.0) if end == 0 else (0.0, 1.0)
+        g = float(self.G[s, col])
+        mu = (g, None) if end == 0 else (None, g)
+        return LocalState(((self.names[s], x, 1.0),), mu, g, True)
+
+    def _single(self, phase: int, xa0: float, xb0: float, converged: bool = True) -> LocalState:
+        if phase >= self.n_sol:
+            k = phase - self.n_sol
+            g = self.comp_g[k]
+            return LocalState(((self.names[phase], self.comp_x[k], 1.0),), (None, None), g, converged)
+        sol = self.solutions[phase]
+        mu = sol.potentials(xa0, xb0)
+        g = float(sol.gibbs(xa0, xb0))
+        return LocalState(((self.names[phase], (xa0, xb0), 1.0),), (float(mu[0]), float(mu[1])), g, converged)
+
+    def _two(self, tie: TieLine, xa0: float, xb0: float) -> LocalState:
+        (_, xb1), (_, xb2) = tie.x
+        width = xb2 - xb1
+        f2 = (xb0 - xb1) / width
+        f1 = (xb2 - xb0) / width
+        g = tie.mu[0] * xa0 + tie.mu[1] * xb0
+        return LocalState(((tie.phases[0], tie.x[0], f1), (tie.phases[1], tie.x[1], f2)), tie.mu, g, tie.converged)
+
+    def _fast_state(self, xa0: float, xb0: float) -> LocalState | None:
+        pts = self._points
+        xb, _xa, _g, phase, _grid, hull = pts
+        hx = xb[hull]
+        k = int(np.searchsorted(hx, xb0))
+        k = min(max(k, 1), len(hull) - 1)
+        i, j = int(hull[k - 1]), int(hull[k])
+        if xb0 == xb[j] and phase[j] >= self.n_sol:
+            return None
+        if self._is_single_phase_edge(pts, i, j):
+            if self.spinodal(int(phase[i]), float(xb[i]), float(xb[j])) is not None:
+                return None
+            return self._single(int(phase[i]), xa0, xb0)
+        tie = self._edge_tie(pts, i, j)
+        if tie is None:
+            return self._single(int(phase[i]), xa0, xb0)
+        if not tie.converged:
+            return None
+        lo, hi = tie.x_B
+        if lo <= xb0 <= hi:
+            return self._two(tie, xa0, xb0)
+        side = int(phase[i]) if xb0 < lo else int(phase[j])
+        if side >= self.n_sol or self.spinodal(side, min(xb0, lo, float(xb[i])), max(xb0, hi, float(xb[j]))) is not None:
+            return None
+        return self._single(side, xa0, xb0)
+
+    def _state_from_ties(self, ties: list[TieLine], xa0: float, xb0: float) -> LocalState:
+        index = {n: i for i, n in enumerate(self.names)}
+        for t in ties:
+            lo, hi = t.x_B
+            if lo <= xb0 <= hi and hi > lo:
+                return self._two(t, xa0, xb0)
+        owner = None
+        for t in ties:
+            if xb0 < t.x_B[0]:
+                owner = t.phases[0]
+                break
+            owner = t.phases[1]
+        if owner is None:
+            owner = self.names[int(np.argmin(self.G[:, int(np.searchsorted(self.xb, xb0))]))]
+        converged = all(t.converged for t in ties)
+        return self._single(index[owner], xa0, xb0, converged)
+
+    # --- curves for display ---------------------------------------------------------------------------
+    def curves(self) -> dict[str, tuple[np.ndarray, np.ndarray]]:
+        """Each phase's G (J/mol) against x_B on the grid; a compound is a single point."""
+        out = {n: (self.xb, self.G[s]) for s, n in enumerate(self.names[:self.n_sol])}
+        for k, name in enumerate(self.names[self.n_sol:]):
+            out[name] = (np.array([self.comp_x[k][1]]), np.array([self.comp_g[k]]))
+        return out

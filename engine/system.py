@@ -1,0 +1,90 @@
+"""The System: one binary alloy system as loaded from its file."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from functools import cached_property
+from pathlib import Path
+
+import numpy as np
+
+from .phases import CompoundPhase, Phase, SolutionPhase
+from .pure import melting_point
+
+
+@dataclass(frozen=True)
+class Fact:
+    """One measured fact of a system file (`[[check]]` or `[[measured]]`), validated.
+
+    `temperature_K` and `x_B` (mole fraction of B) are None where the kind does not use them;
+    `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K" and
+    "at" (at%), or per-phase at% under "at:<phase>".
+    """
+
+    kind: str
+    source: str
+    temperature_K: float | None = None
+    x_B: float | None = None
+    element: str | None = None
+    reaction: str | None = None
+    phase: str | None = None
+    partner: str | None = None
+    phase_x_B: dict[str, float] = field(default_factory=dict)
+    spread: dict[str, float] = field(default_factory=dict)
+    index: int = 0
+
+
+@dataclass(eq=False)
+class System:
+    """A binary alloy system: elements A and B, molar masses (g/mol) and phase models.
+
+    `covers` is the range of x_B (mole fraction) the model is meant for.
+    """
+
+    name: str
+    path: Path
+    elements: tuple[str, str]
+    molar_mass: np.ndarray
+    source: str
+    phases: dict[str, Phase]
+    title: str = ""
+    safety: str = ""
+    notes: str = ""
+    covers: tuple[float, float] = (0.0, 1.0)
+    declared_temperature_range_K: tuple[float, float] | None = None
+    checks: list[Fact] = field(default_factory=list)
+    measured: list[Fact] = field(default_factory=list)
+    fit_free: list[str] = field(default_factory=list)
+    document: dict = field(default_factory=dict, repr=False)
+
+    @property
+    def solutions(self) -> dict[str, SolutionPhase]:
+        return {n: p for n, p in self.phases.items() if isinstance(p, SolutionPhase)}
+
+    @property
+    def compounds(self) -> dict[str, CompoundPhase]:
+        return {n: p for n, p in self.phases.items() if isinstance(p, CompoundPhase)}
+
+    @cached_property
+    def model_range_K(self) -> tuple[float, float]:
+        """Temperatures (K) where every phase of the system is defined."""
+        ranges = [p.valid_range_K() for p in self.phases.values()]
+        return max(1.0, max(r[0] for r in ranges)), min(r[1] for r in ranges)
+
+    @cached_property
+    def melting_points(self) -> dict[str, float | None]:
+        """Melting temperature (K) of each pure element in this system (None if it does not melt in range)."""
+        lo, hi = self.model_range_K
+        hi = min(hi, 6000.0)
+        return {el: melting_point(self.phases, i, el, max(lo, 10.0), hi) for i, el in enumerate(self.elements)}
+
+    @cached_property
+    def temperature_range_K(self) -> tuple[float, float]:
+        """The window (K) diagrams are mapped over: declared in the file, or from the melting points."""
+        if self.declared_temperature_range_K is not None:
+            return self.declared_temperature_range_K
+        melts = [t for t in self.melting_points.values() if t]
+        lo, hi = self.model_range_K
+        if not melts:
+            return max(lo, 300.0), min(hi, 2000.0)
+        return max(lo, 0.6 * min(melts)), min(hi, 1.15 * max(melts))

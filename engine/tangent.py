@@ -1,0 +1,147 @@
+"""Newton's method for common tangents (tie-lines) and tangent-plane distances in a binary.
+
+Compositions are solved in y = ln(xB / xA), in which dilute solubilities of 1e-20 are reached in
+a few steps; xA = 1 / (1 + e^y) and xB = 1 / (1 + e^-y) are computed separately so that neither
+loses digits next to a pure element.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from .phases import SolutionAtT
+
+#: Largest change of y = ln(xB/xA) allowed in one Newton step.
+_MAX_STEP = 6.0
+_MAX_ITER = 60
+
+
+def fractions(y: float) -> tuple[float, float]:
+    """(xA, xB) from y = ln(xB/xA)."""
+    if y >= 0:
+        e = math.exp(-y)
+        return e / (1.0 + e), 1.0 / (1.0 + e)
+    e = math.exp(y)
+    return 1.0 / (1.0 + e), e / (1.0 + e)
+
+
+#: Starting value of y for a start exactly at a pure element (x about 1e-17 from it).
+_PURE_END_Y = 40.0
+
+
+def logit(xa: float, xb: float) -> float:
+    """y = ln(xB/xA); a start exactly at a pure element is moved just inside the range."""
+    if xb <= 0.0:
+        return -_PURE_END_Y
+    if xa <= 0.0:
+        return _PURE_END_Y
+    return math.log(xb) - math.log(xa)
+
+
+def _clip(step: float) -> float:
+    return max(-_MAX_STEP, min(_MAX_STEP, step))
+
+
+@dataclass(frozen=True)
+class TangentResult:
+    """Outcome of a tangent solve. `x` holds (xA, xB) of each solution phase solved for."""
+
+    converged: bool
+    x: tuple[tuple[float, float], ...]
+    iterations: int
+    residual: float  # J/mol
+
+
+def _tolerance(RT: float, rtol: float) -> float:
+    return rtol * RT
+
+
+def common_tangent(P: SolutionAtT, Q: SolutionAtT, start_p: tuple[float, float], start_q: tuple[float, float],
+                   rtol: float = 1e-12) -> TangentResult:
+    """Compositions of phases P and Q with equal chemical potentials of both elements.
+
+    Starts from (xA, xB) of each phase; stops when the largest potential difference is below
+    rtol * RT (J/mol), then takes one more step. For P is Q (a miscibility gap) the trivial
+    solution with equal compositions is reported as not converged.
+    """
+    y1, y2 = logit(*start_p), logit(*start_q)
+    tol = _tolerance(P.RT, rtol)
+    done = False
+    res = math.inf
+    for it in range(1, _MAX_ITER + 1):
+        xa1, xb1 = fractions(y1)
+        xa2, xb2 = fractions(y2)
+        ma1, mb1 = P.potentials(xa1, xb1)
+        ma2, mb2 = Q.potentials(xa2, xb2)
+        f1, f2 = float(ma1 - ma2), float(mb1 - mb2)
+        res = max(abs(f1), abs(f2))
+        if done:
+            break
+        if res < tol:
+            done = True
+        s1 = float(P.scaled_curvature(xa1, xb1))
+        s2 = float(Q.scaled_curvature(xa2, xb2))
+        # d mu_A / dy = -xB s,  d mu_B / dy = xA s  (s = xA xB G'')
+        j11, j12, j21, j22 = -xb1 * s1, xb2 * s2, xa1 * s1, -xa2 * s2
+        det = j11 * j22 - j12 * j21
+        if det == 0.0 or not math.isfinite(det):
+            return TangentResult(False, ((xa1, xb1), (xa2, xb2)), it, res)
+        dy1 = (-f1 * j22 + f2 * j12) / det
+        dy2 = (-j11 * f2 + j21 * f1) / det
+        y1 += _clip(dy1)
+        y2 += _clip(dy2)
+    xa1, xb1 = fractions(y1)
+    xa2, xb2 = fractions(y2)
+    trivial = P is Q and abs(y1 - y2) < 1e-7
+    return TangentResult(res < 10 * tol and not trivial, ((xa1, xb1), (xa2, xb2)), it, res)
+
+
+def tangent_to_point(P: SolutionAtT, point: tuple[float, float], g_point: float, start: tuple[float, float],
+                     rtol: float = 1e-12) -> TangentResult:
+    """Composition of solution P whose tangent passes through the fixed point (xA, xB, G) of a compound."""
+    xa_c, xb_c = point
+    y = logit(*start)
+    side = 1.0 if start[1] > xb_c else -1.0
+    tol = _tolerance(P.RT, rtol)
+    done = False
+    res = math.inf
+    for it in range(1, _MAX_ITER + 1):
+        xa, xb = fractions(y)
+        ma, mb = P.potentials(xa, xb)
+        f = float(xa_c * ma + xb_c * mb - g_point)
+        res = abs(f)
+        if done:
+            break
+        if res < tol:
+            done = True
+        d = float(P.scaled_curvature(xa, xb)) * (xb_c - xb)
+        if d == 0.0:
+            break
+        y_new = y - _clip(f / d)
+        # never cross the compound's composition: halve the step instead
+        while (fractions(y_new)[1] - xb_c) * side <= 0:
+            y_new = 0.5 * (y + y_new)
+            if abs(y_new - y) < 1e-15:
+                break
+        y = y_new
+    xa, xb = fractions(y)
+    return TangentResult(res < 10 * tol, ((xa, xb),), it, res)
+
+
+def lowest_against_line(P: SolutionAtT, slope: float, start: tuple[float, float], rtol: float = 1e-12) -> TangentResult:
+    """Composition where P's G has the given slope dG/dxB (J/mol): the local extremum of
+    G_P(x) minus a line of that slope, found by Newton from `start` (a local minimum on a grid)."""
+    y = logit(*start)
+    tol = _tolerance(P.RT, rtol)
+    res = math.inf
+    for it in range(1, _MAX_ITER + 1):
+        xa, xb = fractions(y)
+        h = float(P.slope(xa, xb)) - slope
+        res = abs(h)
+        s = float(P.scaled_curvature(xa, xb))
+        if res < tol or s <= 0.0:
+            break
+        y -= _clip(h / s)
+    xa, xb = fractions(y)
+    return TangentResult(res < 10 * tol, ((xa, xb),), it, res)

@@ -1,0 +1,1 @@
+"""The shipped alloy systems, as data files (see FORMAT.md)."""
