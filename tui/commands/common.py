@@ -1,0 +1,55 @@
+"""Pieces several commands share: opening a system, reading the alloy, printing JSON."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+from ..errors import CommandError
+from ..parsing import Composition, mole_fraction_of_B, parse_composition, parse_temperature
+
+
+def add_system_argument(p: argparse.ArgumentParser) -> None:
+    p.add_argument("system", metavar="SYSTEM", help="a system name such as cu-ni (elements joined by '-'), or a path to a system file")
+
+
+def add_composition_argument(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--comp", required=True, metavar="SPEC", help="alloy composition, e.g. Ni=40wt%% or Ni=40at%%")
+
+
+def open_system(name: str):
+    """The System named on the command line; conflicts in the user's folder go to stderr."""
+    from ladle.engine import find_system
+    from ladle.engine.catalog import catalog
+
+    system = find_system(name)
+    for line in catalog()[1]:
+        print(f"ladle: note: {line}", file=sys.stderr)
+    return system
+
+
+def alloy_composition(system, spec: str) -> tuple[float, Composition]:
+    """(x_B, parsed spec) for a --comp value, refused outside the range the model covers."""
+    comp = parse_composition(spec)
+    x_b = mole_fraction_of_B(comp, system.elements, system.molar_mass)
+    lo, hi = system.covers
+    if not lo - 1e-12 <= x_b <= hi + 1e-12:
+        b = system.elements[1]
+        raise CommandError(f"{spec} lies outside the range this model covers "
+                           f"({100 * lo:g}-{100 * hi:g} at% {b}); no answer is given there")
+    return x_b, comp
+
+
+def temperature_kelvin(system, text: str):
+    """Parsed --temp, refused outside the temperatures the models are defined for."""
+    t = parse_temperature(text)
+    lo, hi = system.model_range_K
+    if not lo <= t.kelvin <= hi:
+        raise CommandError(f"temperature {text} is outside the range of this system's models ({lo:g}-{hi:g} K)")
+    return t
+
+
+def print_json(obj) -> None:
+    json.dump(obj, sys.stdout, indent=None, allow_nan=False)
+    sys.stdout.write("\n")

@@ -1,0 +1,69 @@
+"""`ladle point`: the phases of one alloy at one temperature."""
+
+from __future__ import annotations
+
+import argparse
+
+from .. import quote
+from .common import add_composition_argument, add_system_argument, alloy_composition, open_system, print_json, temperature_kelvin
+
+HELP = "phases, their compositions and amounts for one alloy at one temperature"
+
+
+def add_arguments(p: argparse.ArgumentParser) -> None:
+    add_system_argument(p)
+    p.add_argument("--temp", required=True, metavar="T", help="temperature, e.g. 1250, 1250C, 1523.15K, 2282F (no unit: C)")
+    add_composition_argument(p)
+    p.add_argument("--json", action="store_true", help="print one JSON object")
+
+
+def run(args: argparse.Namespace) -> int:
+    from ladle.engine import equilibrate
+
+    system = open_system(args.system)
+    t = temperature_kelvin(system, args.temp)
+    x_b, comp = alloy_composition(system, args.comp)
+    result = equilibrate(system, t.kelvin, x_b)
+    if args.json:
+        print_json(result.to_json(system))
+        return 0
+    print("\n".join(render(system, result, t.unit, comp.element or system.elements[1], comp.basis)))
+    return 0
+
+
+def render(system, result, unit: str, element: str, basis: str) -> list[str]:
+    """The human-readable table: the person's units first, the other unit beside them."""
+    i = system.elements.index(element)
+    other_unit = "K" if unit != "K" else "C"
+    first, second = ("w", "x") if basis == "wt" else ("x", "w")
+    names = {"w": "wt%", "x": "at%"}
+    amount_names = {"w": "wt%", "x": "mol%"}
+
+    def comp(share) -> str:
+        a, b = getattr(share, first)[i], getattr(share, second)[i]
+        return f"{element} {quote.percent(a)} {names[first]} ({quote.percent(b)} {names[second]})"
+
+    def amount(p) -> str:
+        a = p.amount_mass if first == "w" else p.amount_mol
+        b = p.amount_mol if first == "w" else p.amount_mass
+        return f"{quote.percent(a)} {amount_names[first]} ({quote.percent(b)} {amount_names[second]})"
+
+    title = system.title or "-".join(system.elements)
+    lines = [
+        f"{title} at {quote.temperature(result.temperature_K, unit)} ({quote.temperature(result.temperature_K, other_unit)})",
+        f"alloy: {comp(result)}",
+        f"stable: {' + '.join(result.phase_names)}",
+        "",
+    ]
+    rows = [("phase", "amount", "composition")] + [(p.name, amount(p), comp(p)) for p in result.phases]
+    w0 = max(len(r[0]) for r in rows)
+    w1 = max(len(r[1]) for r in rows)
+    lines += [f"{r[0]:<{w0}}  {r[1]:<{w1}}  {r[2]}" for r in rows]
+    lines.append("")
+    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)}")
+    if not result.converged:
+        lines.append("warning: a tie-line did not converge to its tolerance; treat this answer with suspicion")
+    if system.safety:
+        lines.append(f"safety: {system.safety}")
+    lines.append("Computed estimate: defer to the alloy's specification and certified data.")
+    return lines

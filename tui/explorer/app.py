@@ -1,0 +1,55 @@
+"""The explorer application: one main screen, its stylesheet, and remembering the point."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from textual.app import App
+
+from .exploration import Exploration
+from .glyphs import Glyphs
+from .saved_state import save_state
+from .screens.explore import ExploreScreen
+
+
+class ExplorerApp(App[None]):
+    """ladle's full-screen explorer of binary phase diagrams."""
+
+    CSS_PATH = "explorer.tcss"
+    ENABLE_COMMAND_PALETTE = False
+    TITLE = "ladle"
+
+    def __init__(self, exploration: Exploration, glyphs: Glyphs, state_file: Path | None,
+                 no_color: bool = False) -> None:
+        # With NO_COLOR, ansi_color=True makes Textual drop colours instead of greying them.
+        super().__init__(ansi_color=True if no_color else None)
+        self.glyphs = glyphs
+        self.state_file = state_file
+        self._first_exploration = exploration
+        self._save_problem_shown = False
+        if glyphs.ascii_only:
+            self.add_class("-ascii")
+
+    def get_default_screen(self) -> ExploreScreen:
+        return ExploreScreen(self._first_exploration, self.glyphs)
+
+    @property
+    def explore_screen(self) -> ExploreScreen:
+        """The main screen (under any dialog)."""
+        return self.screen_stack[0]  # type: ignore[return-value]
+
+    def remember(self) -> None:
+        """Write the system, cursor and units to the state file (atomically)."""
+        if self.state_file is None:
+            return
+        try:
+            save_state(self.state_file, self.explore_screen.exploration.saved())
+        except OSError as error:
+            if not self._save_problem_shown:
+                self._save_problem_shown = True
+                self.notify(f"cannot remember the point in {self.state_file}: {error.strerror}",
+                            severity="warning")
+
+    async def action_quit(self) -> None:
+        self.remember()
+        self.exit()

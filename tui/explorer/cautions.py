@@ -1,0 +1,13 @@
+"""The safety cautions the help screen shows (the README carries the same ones)."""
+
+GENERAL_CAUTIONS: tuple[str, ...] = (
+    "Molten metal burns, and it explodes on contact with water: preheat and dry every tool, "
+    "mould and charge that touches the melt; wear a face shield, leather and flame-resistant "
+    "clothing; keep the floor dry.",
+    "Fumes from melting, soldering, brazing and fluxes (zinc, cadmium, lead, fluorides) harm "
+    "lungs and nerves: work under extraction.",
+    "Lead and cadmium are poisons: no eating, drinking or smoking where they are handled; wash "
+    "hands; keep dust down; follow the local rules for exposure and waste.",
+    "Every number here is an estimate computed from a model. Defer to the alloy's "
+    "specification, certified data, local codes and licensed practice.",
+)

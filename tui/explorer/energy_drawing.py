@@ -1,0 +1,110 @@
+"""The free-energy view's picture: at the cursor's temperature, each phase's Gibbs energy
+against composition, the lower envelope (the alloy's equilibrium Gibbs energy), the common
+tangents that make the two-phase fields, and the cursor's composition.
+
+Energies are drawn relative to the straight line joining the envelope's values at the
+window's two edges, in kJ/mol: subtracting a straight line changes no tangent, and it makes
+curves that differ by a few hundred J/mol visible beside totals of tens of kJ/mol.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .exploration import Exploration
+from .glyphs import Glyphs
+from .plotting import Frame, Label, joined, place_labels, round_ticks, thin_polyline
+from .diagram_drawing import plot_area
+
+ENVELOPE_POINTS = 120        # envelope samples across the window
+CURVE_COLOURS = ("cyan", "magenta", "green", "blue", "yellow", "white")
+TANGENT_COLOUR = "yellow"
+ENVELOPE_COLOUR = "white"
+CURSOR_COLOUR = "red+"
+HEADROOM = 0.8               # room above the envelope, as a share of its own height
+SMALLEST_SPAN_KJ = 0.5       # the y range never shrinks below this (kJ/mol)
+
+
+@dataclass(frozen=True)
+class EnergyScene:
+    """The picture in screen units: composition of B (%), energy (kJ/mol, relative)."""
+
+    frame: Frame
+    curves: list[tuple[str, list[float], list[float]]]    # phase, x, y (NaN-joined pieces)
+    points: list[tuple[str, float, float]]                # compounds: name, x, y
+    envelope: tuple[list[float], list[float]]
+    tangents: tuple[list[float], list[float]]
+    labels: list[Label]
+    x_title: str
+
+
+def energy_scene(exploration: Exploration, width: int, height: int) -> EnergyScene:
+    """The curves, envelope and tangents at the cursor's temperature, for this window and size."""
+    scales, window = exploration.scales, exploration.window
+    section = exploration.section()
+    x_env = np.linspace(window.x_low, window.x_high, ENVELOPE_POINTS)
+    g_env = np.array([section.state_at(1.0 - x, x).gibbs for x in x_env])
+    slope = (g_env[-1] - g_env[0]) / max(window.x_high - window.x_low, 1e-12)
+
+    def relative(x: np.ndarray, g: np.ndarray) -> np.ndarray:
+        """kJ/mol above the reference line through the envelope's ends."""
+        return (np.asarray(g) - (g_env[0] + slope * (np.asarray(x) - window.x_low))) / 1000.0
+
+    env_rel = relative(x_env, g_env)
+    low, high = float(env_rel.min()), float(env_rel.max())
+    span = max(high - low, SMALLEST_SPAN_KJ)
+    columns, rows = plot_area(width, height)
+    frame = Frame(scales.shown_composition(window.x_low), scales.shown_composition(window.x_high),
+                  low - 0.1 * span, high + HEADROOM * span, columns, rows)
+    curves, points, labels = [], [], []
+    inside = (lambda x: (x >= window.x_low) & (x <= window.x_high))
+    for name, (x, g) in section.curves().items():
+        x = np.asarray(x, dtype=float)
+        y = relative(x, g)
+        shown_x = scales.shown_composition(x)
+        if x.size == 1:
+            if inside(x[0]) and frame.y_low <= y[0] <= frame.y_high:
+                points.append((name, float(shown_x[0]), float(y[0])))
+                labels.append(Label(name, float(shown_x[0]), float(y[0]) + span * 0.12))
+            continue
+        keep = inside(x) & (y <= frame.y_high + span)
+        if not keep.any():
+            continue
+        xs, ys = thin_polyline(shown_x[keep], y[keep], frame)
+        curves.append((name, xs.tolist(), ys.tolist()))
+        lowest = int(np.argmin(ys))
+        labels.append(Label(name, float(xs[lowest]), float(ys[lowest]) - span * 0.08))
+    tangents = []
+    for tie in section.tie_lines:
+        ends = np.array(tie.x_B)
+        g_ends = np.array([tie.mu[0] * (1 - xb) + tie.mu[1] * xb for xb in ends])
+        tangents.append((scales.shown_composition(ends), relative(ends, g_ends)))
+    element_B = exploration.system.elements[1]
+    return EnergyScene(frame, curves, points, (scales.shown_composition(x_env).tolist(),
+                                               env_rel.tolist()),
+                       joined(tangents), place_labels(labels, frame),
+                       f"{element_B} {scales.composition_unit}%   G kJ/mol (relative)")
+
+
+def draw_energy(plt, scene: EnergyScene, cursor_x: float, glyphs: Glyphs) -> None:
+    """Issue the plot calls: curves, envelope, tangents, labels, then the cursor line."""
+    frame = scene.frame
+    plt.xlim(frame.x_low, frame.x_high)
+    plt.ylim(frame.y_low, frame.y_high)
+    plt.xticks(round_ticks(frame.x_low, frame.x_high, frame.columns // 10))
+    plt.yticks(round_ticks(frame.y_low, frame.y_high, frame.rows // 4))
+    plt.xlabel(scene.x_title)
+    for index, (_, xs, ys) in enumerate(scene.curves):
+        plt.plot(xs, ys, marker=glyphs.boundary_marker,
+                 color=CURVE_COLOURS[index % len(CURVE_COLOURS)])
+    plt.plot(*scene.envelope, marker=glyphs.envelope_marker, color=ENVELOPE_COLOUR)
+    if scene.tangents[0]:
+        plt.plot(*scene.tangents, marker=glyphs.invariant_marker, color=TANGENT_COLOUR)
+    for _, x, y in scene.points:
+        plt.scatter([x], [y], marker=glyphs.cursor_marker)
+    for label in scene.labels:
+        plt.text(label.text, label.x, label.y, alignment="center")
+    plt.plot([cursor_x, cursor_x], [frame.y_low, frame.y_high], marker=glyphs.crosshair_marker,
+             color=CURSOR_COLOUR)

@@ -1,0 +1,87 @@
+"""Reading a typed point: "650C 12wt%", "923K 20at%", "Sn=12wt%", "1200F".
+
+The words are read by the same parser as the line-mode commands (`ladle.tui.parsing`): a
+temperature is a number with an optional unit C, K or F (no unit: degrees Celsius), a
+composition a number with wt% or at%, optionally after an element and "=". Either part may be
+left out; the cursor keeps its other coordinate. A bad entry raises EntryError, one line.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+from ladle.tui.quote import percent
+from ladle.tui.parsing import mole_fraction_of_B, parse_composition, parse_temperature
+
+from .cursor import Window
+from .glyphs import Glyphs
+from .readout import format_temperature_value
+from .scales import Scales
+
+
+class EntryError(ValueError):
+    """A typed point that cannot be used; the message says why, in one line."""
+
+
+@dataclass(frozen=True)
+class TypedPoint:
+    """What the user typed: temperature in K and mole fraction of B, each None if not given."""
+
+    temperature_K: float | None
+    x_B: float | None
+
+
+def _words(text: str) -> list[str]:
+    """Split on spaces and commas, keeping "Sn = 12 wt %" and "650 C" together."""
+    text = re.sub(r"\s*=\s*", "=", text.strip())
+    text = re.sub(r"(\d\.?)\s+(?=°?[CFKcfk]\b|wt|at|WT|AT|%)", r"\1", text)
+    text = re.sub(r"(wt|at)\s+%", r"\1%", text, flags=re.IGNORECASE)
+    return [word for word in re.split(r"[\s,;]+", text) if word]
+
+
+def _is_composition(word: str) -> bool:
+    return (re.search(r"(wt|at)%?$", word, flags=re.IGNORECASE) is not None
+            or word.endswith("%") or "=" in word)
+
+
+def parse_point(text: str, elements: tuple[str, str], molar_mass) -> TypedPoint:
+    """Read a typed point for a system of `elements` (A, B) with molar masses (g/mol)."""
+    words = _words(text)
+    if not words:
+        raise EntryError("type a temperature and/or a composition, for example 650C 12wt%")
+    temperature_K: float | None = None
+    x_B: float | None = None
+    for word in words:
+        try:
+            if _is_composition(word):
+                if x_B is not None:
+                    raise EntryError(f"{word}: a second composition; give one")
+                x_B = mole_fraction_of_B(parse_composition(word), elements, molar_mass)
+            else:
+                if temperature_K is not None:
+                    raise EntryError(f"{word}: a second temperature; give one")
+                temperature_K = parse_temperature(word).kelvin
+        except EntryError:
+            raise
+        except ValueError as error:
+            raise EntryError(str(error)) from None
+    return TypedPoint(temperature_K, x_B)
+
+
+def check_inside(point: TypedPoint, limits: Window, scales: Scales, glyphs: Glyphs) -> None:
+    """Raise EntryError when the typed point lies outside the system's mapped window."""
+    shown_unit = glyphs.temperature_unit(scales.temperature_unit)
+    if point.temperature_K is not None and not (
+            limits.T_low <= point.temperature_K <= limits.T_high):
+        low, high = sorted((scales.shown_temperature(limits.T_low),
+                            scales.shown_temperature(limits.T_high)))
+        raise EntryError(
+            f"{format_temperature_value(scales.shown_temperature(point.temperature_K))} "
+            f"{shown_unit} is outside this system's range, "
+            f"{format_temperature_value(low)} to {format_temperature_value(high)} {shown_unit}")
+    if point.x_B is not None and not (limits.x_low - 1e-12 <= point.x_B <= limits.x_high + 1e-12):
+        low = scales.shown_composition(limits.x_low) / 100.0
+        high = scales.shown_composition(limits.x_high) / 100.0
+        raise EntryError(f"the model covers {percent(low)} to {percent(high)} "
+                         f"{scales.composition_unit}% only")

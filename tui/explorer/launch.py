@@ -1,0 +1,64 @@
+"""Starting the explorer from the command line: options, the system to open, the saved point."""
+
+from __future__ import annotations
+
+import os
+import sys
+
+from ladle.engine import SystemFileError, UnknownSystem, find_system, list_systems
+
+from .cursor import Cursor
+from .exploration import Exploration
+from .glyphs import glyphs_for
+from .options import OptionsError, parse_options
+from .saved_state import SavedState, load_state, state_path
+from .scales import Scales
+
+
+def _open(name: str):
+    """The system, or a one-line reason it cannot be opened."""
+    try:
+        return find_system(name), None
+    except (SystemFileError, UnknownSystem, OSError) as error:
+        return None, str(error)
+
+
+def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration:
+    """The exploration to open: the system asked for, else the last one used, else the first
+    shipped; with the saved cursor and units where the system is the saved one.
+    Raises ValueError (one line) when the asked-for system cannot be opened."""
+    if asked is not None:
+        system, problem = _open(asked)
+        if system is None:
+            raise ValueError(problem)
+    else:
+        system = _open(saved.system)[0] if saved is not None else None
+        if system is None:
+            entries = list_systems()
+            if not entries:
+                raise ValueError("no system files found (the installation is incomplete)")
+            system, problem = _open(entries[0].name)
+            if system is None:
+                raise ValueError(problem)
+    if saved is None:
+        return Exploration(system)
+    scales = Scales(system.molar_mass, saved.temperature_unit, saved.composition_unit)
+    cursor = Cursor(saved.temperature_K, saved.x_B) if saved.system == system.name else None
+    return Exploration(system, scales, cursor)
+
+
+def run_explorer(argv: list[str]) -> int:
+    """Parse the options, open the system and run the app; returns the exit status."""
+    try:
+        options = parse_options(argv)
+        path = state_path()
+        exploration = first_exploration(options.system, load_state(path))
+    except (OptionsError, ValueError) as error:
+        print(f"ladle: {error}", file=sys.stderr)
+        return 2
+    from .app import ExplorerApp   # textual is imported only now
+
+    app = ExplorerApp(exploration, glyphs_for(options.ascii_only), path,
+                      no_color="NO_COLOR" in os.environ)
+    app.run()
+    return 0

@@ -1,0 +1,101 @@
+"""Plot data prepared for a picture of a given size: thinned curves and placed labels.
+
+Plain numpy, no screen code. The plot's build time grows with the number of points drawn, so
+every curve is thinned to what the character cells can show before it is drawn.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+
+import numpy as np
+
+from .cursor import nice_step
+
+SUBCELLS_X = 2   # braille dots per character cell, across
+SUBCELLS_Y = 4   # and down
+
+
+@dataclass(frozen=True)
+class Frame:
+    """The data window shown on a plot area of `columns` x `rows` character cells."""
+
+    x_low: float
+    x_high: float
+    y_low: float
+    y_high: float
+    columns: int
+    rows: int
+
+    def cell(self, x: float, y: float) -> tuple[int, int]:
+        """The (column, row) of a data point; row 0 at the top."""
+        column = (x - self.x_low) / (self.x_high - self.x_low) * (self.columns - 1)
+        row = (self.y_high - y) / (self.y_high - self.y_low) * (self.rows - 1)
+        return int(round(column)), int(round(row))
+
+
+def thin_polyline(x: np.ndarray, y: np.ndarray, frame: Frame) -> tuple[np.ndarray, np.ndarray]:
+    """Keep one point per braille dot the curve passes through (and always both ends)."""
+    x, y = np.asarray(x, dtype=float), np.asarray(y, dtype=float)
+    if x.size <= 2:
+        return x, y
+    dot_x = (frame.x_high - frame.x_low) / (frame.columns * SUBCELLS_X)
+    dot_y = (frame.y_high - frame.y_low) / (frame.rows * SUBCELLS_Y)
+    ix = np.floor((x - frame.x_low) / dot_x)
+    iy = np.floor((y - frame.y_low) / dot_y)
+    keep = np.ones(x.size, dtype=bool)
+    keep[1:] = (np.diff(ix) != 0) | (np.diff(iy) != 0)
+    keep[-1] = True
+    return x[keep], y[keep]
+
+
+def joined(curves: Iterable[tuple[np.ndarray, np.ndarray]]) -> tuple[list[float], list[float]]:
+    """Many curves as one series with NaN gaps between them (one plot call draws them all)."""
+    xs: list[float] = []
+    ys: list[float] = []
+    for x, y in curves:
+        if xs:
+            xs.append(float("nan"))
+            ys.append(float("nan"))
+        xs.extend(np.asarray(x, dtype=float).tolist())
+        ys.extend(np.asarray(y, dtype=float).tolist())
+    return xs, ys
+
+
+@dataclass(frozen=True)
+class Label:
+    """A text to write at a data point (its middle character lands on the point)."""
+
+    text: str
+    x: float
+    y: float
+
+
+def place_labels(wanted: Sequence[Label], frame: Frame) -> list[Label]:
+    """The labels that fit inside the frame without overlapping, in order of preference.
+
+    Each label needs its own cells plus one free cell on either side.
+    """
+    taken: list[tuple[int, int, int]] = []   # row, first column, last column
+    placed: list[Label] = []
+    for label in wanted:
+        column, row = frame.cell(label.x, label.y)
+        first = column - len(label.text) // 2
+        last = first + len(label.text) - 1
+        if first < 0 or last >= frame.columns or not 0 <= row < frame.rows:
+            continue
+        if any(r == row and first - 1 <= l_last and l_first <= last + 1
+               for r, l_first, l_last in taken):
+            continue
+        taken.append((row, first, last))
+        placed.append(label)
+    return placed
+
+
+def round_ticks(low: float, high: float, count: int) -> list[float]:
+    """About `count` tick positions on round numbers between low and high."""
+    step = nice_step(high - low, max(count, 1))
+    first = np.ceil(low / step - 1e-9) * step
+    ticks = np.arange(first, high + 1e-9 * step, step)
+    return [float(t) for t in np.round(ticks, 10)]

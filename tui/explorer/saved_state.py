@@ -1,0 +1,87 @@
+"""Where the explorer left off: system, cursor and units, kept between runs.
+
+Kept as JSON in the user's XDG state folder ($XDG_STATE_HOME/ladle/explorer.json, by default
+~/.local/state/ladle/explorer.json), written atomically (a temporary file in the same folder,
+then renamed over the old one), so a crash never leaves half a file.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+import tempfile
+from dataclasses import asdict, dataclass
+from pathlib import Path
+
+from ladle.engine.units import TEMPERATURE_UNITS
+
+from .scales import COMPOSITION_UNITS
+
+
+@dataclass(frozen=True)
+class SavedState:
+    """The explorer's remembered place. Temperature in K, composition as mole fraction of B."""
+
+    system: str
+    temperature_K: float
+    x_B: float
+    temperature_unit: str = "C"
+    composition_unit: str = "wt"
+
+
+def state_path(environ: dict[str, str] | None = None) -> Path:
+    """The state file, following the XDG base directory rules."""
+    env = os.environ if environ is None else environ
+    base = env.get("XDG_STATE_HOME", "").strip()
+    if not base or not os.path.isabs(base):
+        base = os.path.join(os.path.expanduser("~"), ".local", "state")
+    return Path(base) / "ladle" / "explorer.json"
+
+
+def load_state(path: Path) -> SavedState | None:
+    """The saved state, or None when there is none or it cannot be read as one.
+
+    A damaged or foreign file is ignored (and replaced on the next save): the explorer then
+    opens as on a first run.
+    """
+    try:
+        data = json.loads(path.read_text(encoding="utf-8"))
+        state = SavedState(
+            system=str(data["system"]),
+            temperature_K=float(data["temperature_K"]),
+            x_B=float(data["x_B"]),
+            temperature_unit=str(data.get("temperature_unit", "C")),
+            composition_unit=str(data.get("composition_unit", "wt")),
+        )
+    except (OSError, ValueError, KeyError, TypeError):
+        return None
+    if not (math.isfinite(state.temperature_K) and state.temperature_K > 0
+            and math.isfinite(state.x_B) and 0.0 <= state.x_B <= 1.0
+            and state.temperature_unit in TEMPERATURE_UNITS
+            and state.composition_unit in COMPOSITION_UNITS):
+        return None
+    return state
+
+
+def save_state(path: Path, state: SavedState) -> None:
+    """Write the state atomically; raises OSError when the folder cannot be written."""
+    path.parent.mkdir(parents=True, exist_ok=True)
+    write_atomically(path, json.dumps(asdict(state), indent=1) + "\n")
+
+
+def write_atomically(path: Path, text: str) -> None:
+    """Write text to path through a temporary file in the same folder and a rename."""
+    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as handle:
+            handle.write(text)
+            handle.flush()
+            os.fsync(handle.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise

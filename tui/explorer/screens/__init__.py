@@ -1,0 +1,1 @@
+"""The explorer's screens: the main explorer, help, and the system picker."""

@@ -1,0 +1,237 @@
+"""The explorer's main screen: a plot (diagram, energy or reactions) beside the status pane."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal
+from textual.events import Resize
+from textual.screen import Screen
+from textual.widgets import ContentSwitcher, Input, Static
+
+from ladle.tui.quote import percent
+from ladle.engine import SystemFileError, UnknownSystem, find_system
+
+from ..entry import EntryError, TypedPoint, check_inside, parse_point
+from ..exploration import Exploration
+from ..exports import safe_stem, write_new_file
+from ..glyphs import Glyphs
+from ..keymap import MAIN_KEYS
+from ..reaction_rows import reaction_rows
+from ..readout import format_step, format_temperature_value
+from ..screen_text import screen_text
+from ..status_lines import Line, status_lines
+from ..system_choices import system_choices
+from ..widgets.diagram_view import DiagramView
+from ..widgets.energy_view import EnergyView
+from ..widgets.key_bar import KeyBar
+from ..widgets.point_entry import PointEntry
+from ..widgets.reactions_view import ReactionsView
+from ..widgets.status_pane import StatusPane
+from ..widgets.title_bar import TitleBar
+from .help import HelpScreen
+from .systems import SystemPicker
+
+MIN_WIDTH, MIN_HEIGHT = 80, 24
+SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
+
+
+class ExploreScreen(Screen[None]):
+    """Keys move the cursor; the status pane and the plot follow."""
+
+    BINDINGS = [Binding(use.keys, use.action, use.description, show=False)
+                for use in MAIN_KEYS] + [Binding("escape", "back", show=False)]
+
+    def __init__(self, exploration: Exploration, glyphs: Glyphs) -> None:
+        super().__init__()
+        self.exploration = exploration
+        self.glyphs = glyphs
+        self.view = "diagram"
+        self._save_timer = None
+
+    # -- layout ----------------------------------------------------------------------------
+
+    def compose(self) -> ComposeResult:
+        yield TitleBar(id="title")
+        with Horizontal(id="body"):
+            with ContentSwitcher(id="views", initial="diagram"):
+                yield DiagramView(self.glyphs, id="diagram")
+                yield EnergyView(self.glyphs, id="energy")
+                yield ReactionsView(id="reactions")
+            yield StatusPane(id="status")
+        yield PointEntry(id="entry")
+        yield KeyBar(self.glyphs, id="keys")
+        yield Static("", id="too-small")
+
+    def on_mount(self) -> None:
+        self.query_one(PointEntry).display = False
+        self._show_exploration()
+
+    def on_resize(self, event: Resize) -> None:
+        width, height = event.size
+        small = width < MIN_WIDTH or height < MIN_HEIGHT
+        self.set_class(small, "-too-small")
+        self.query_one("#too-small", Static).update(
+            f"ladle needs a terminal of at least {MIN_WIDTH} x {MIN_HEIGHT} characters; "
+            f"this one is {width} x {height}. Enlarge it, or press q to quit.")
+        self._show_title()
+
+    def _show_exploration(self) -> None:
+        """Point every view at the current exploration and draw everything."""
+        for view in (self.query_one(DiagramView), self.query_one(EnergyView)):
+            view.exploration = self.exploration
+        self._fill_reactions()
+        self.update_all()
+
+    # -- drawing ---------------------------------------------------------------------------
+
+    def update_all(self) -> None:
+        """Redraw the status pane, the title and the visible plot for the current state."""
+        self._show_title()
+        self.query_one(StatusPane).show_lines(self._status_lines())
+        if self.view in ("diagram", "energy"):
+            self.query_one(f"#{self.view}").refresh()
+        self._schedule_save()
+
+    def _show_title(self) -> None:
+        system = self.exploration.system
+        self.query_one(TitleBar).show(system.name, system.title, self.view, self.size.width)
+
+    def _status_lines(self) -> list[Line]:
+        e = self.exploration
+        try:
+            reading = e.reading()
+        except (ValueError, ArithmeticError) as error:
+            return [("heading", "POINT"), ("warning", f" no answer here: {error}")]
+        lines = status_lines(reading, e.system.elements[1], e.scales, self.glyphs)
+        steps = e.steps()
+        unit = self.glyphs.temperature_unit(e.scales.temperature_unit)
+        lines.append(("note", f" step {format_step(steps.temperature)} {unit}, "
+                              f"{format_step(steps.composition)} {e.scales.composition_unit}%"
+                              f"; shift: a tenth"))
+        if e.system.safety:
+            lines.append(("warning", f" ! {e.system.safety}"))
+        return lines
+
+    def _fill_reactions(self) -> None:
+        e = self.exploration
+        self.query_one(ReactionsView).show_rows(
+            reaction_rows(e.diagram, e.system.elements, e.scales, self.glyphs))
+
+    # -- key actions -----------------------------------------------------------------------
+
+    def action_move(self, d_temperature: int, d_composition: int, fine: bool = False) -> None:
+        self.exploration.move(d_temperature, d_composition, fine)
+        self.update_all()
+
+    def action_zoom(self, zoom_in: bool) -> None:
+        self.exploration.zoom(zoom_in)
+        self.update_all()
+
+    def action_whole(self) -> None:
+        self.exploration.reset_zoom()
+        self.update_all()
+
+    def action_composition_unit(self) -> None:
+        self.exploration.toggle_composition_unit()
+        self._fill_reactions()
+        self.update_all()
+
+    def action_temperature_unit(self) -> None:
+        self.exploration.cycle_temperature_unit()
+        self._fill_reactions()
+        self.update_all()
+
+    def action_view(self, view: str) -> None:
+        self.view = view
+        self.query_one(ContentSwitcher).current = view
+        self.query_one(f"#{view}").focus() if view == "reactions" else self.set_focus(None)
+        self.update_all()
+
+    def action_go_to(self) -> None:
+        self.query_one(PointEntry).open()
+
+    def action_back(self) -> None:
+        entry = self.query_one(PointEntry)
+        if entry.display:
+            entry.close()
+            self.set_focus(None)
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        e = self.exploration
+        entry = self.query_one(PointEntry)
+        try:
+            point = parse_point(event.value, e.system.elements, e.system.molar_mass)
+            check_inside(point, e.limits, e.scales, self.glyphs)
+        except EntryError as error:
+            entry.show_problem(str(error))
+            return
+        entry.close()
+        self.set_focus(None)
+        e.jump(point)
+        self.update_all()
+
+    def on_reactions_view_chosen(self, event: ReactionsView.Chosen) -> None:
+        self.exploration.jump(TypedPoint(event.row.temperature_K, event.row.x_B))
+        self.action_view("diagram")
+
+    def action_systems(self) -> None:
+        self.app.push_screen(SystemPicker(system_choices(), self.exploration.system.name),
+                             self._open_system)
+
+    def _open_system(self, name: str | None) -> None:
+        if not name or name == self.exploration.system.name:
+            return
+        try:
+            system = find_system(name)
+        except (SystemFileError, UnknownSystem, OSError) as error:
+            self.app.notify(str(error), severity="error")
+            return
+        self.exploration = self.exploration.with_system(system)
+        self._show_exploration()
+
+    def action_help(self) -> None:
+        system = self.exploration.system
+        self.app.push_screen(HelpScreen(self.glyphs, system.name, system.safety))
+
+    def action_write_point(self) -> None:
+        e = self.exploration
+        try:
+            result = e.reading().equilibrium
+        except (ValueError, ArithmeticError) as error:
+            self.app.notify(f"nothing written: {error}", severity="error")
+            return
+        text = json.dumps(result.to_json(e.system), indent=1) + "\n"
+        T = format_temperature_value(e.scales.shown_temperature(e.cursor.temperature_K))
+        comp = percent(e.scales.shown_fraction(e.cursor.x_B))
+        stem = safe_stem(f"ladle-point-{e.system.name}-{T}{e.scales.temperature_unit}-"
+                         f"{comp}{e.scales.composition_unit}")
+        self._write(stem, ".json", text, also_copy=True)
+
+    def action_write_screen(self) -> None:
+        stem = safe_stem(f"ladle-screen-{self.exploration.system.name}-{self.view}")
+        written = self._write(stem, ".txt", screen_text(self.app))
+        if written:
+            self._write(stem, ".svg", self.app.export_screenshot(title="ladle"))
+
+    def _write(self, stem: str, suffix: str, text: str, also_copy: bool = False) -> Path | None:
+        try:
+            path = write_new_file(Path.cwd(), stem, suffix, text)
+        except OSError as error:
+            self.app.notify(f"nothing written: {error}", severity="error")
+            return None
+        if also_copy:
+            self.app.copy_to_clipboard(text)
+        self.app.notify(f"wrote {path}" + (" (and copied it)" if also_copy else ""))
+        return path
+
+    # -- remembering the point -------------------------------------------------------------
+
+    def _schedule_save(self) -> None:
+        if self._save_timer is not None:
+            self._save_timer.stop()
+        self._save_timer = self.set_timer(SAVE_DELAY_S, self.app.remember)

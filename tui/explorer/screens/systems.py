@@ -1,0 +1,79 @@
+"""The system picker: type to narrow the list, Enter to open, Esc to go back."""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical
+from textual.screen import ModalScreen
+from textual.widgets import Input, OptionList, Static
+from textual.widgets.option_list import Option
+
+from ..system_choices import SystemChoice
+
+
+class SystemPicker(ModalScreen[str | None]):
+    """Returns the chosen system's name, or None."""
+
+    BINDINGS = [
+        Binding("escape", "cancel", "back", show=False),
+        Binding("down", "to_list", show=False),
+    ]
+
+    def __init__(self, choices: list[SystemChoice], current: str) -> None:
+        super().__init__()
+        self.choices = choices
+        self.current = current
+
+    def compose(self) -> ComposeResult:
+        with Vertical(id="picker"):
+            yield Static("SYSTEMS  (type to narrow, Enter opens, Esc back)", id="picker-title")
+            yield Input(placeholder="search name, title or source", id="picker-filter")
+            yield OptionList(id="picker-list")
+
+    def on_mount(self) -> None:
+        field = self.query_one(Input)
+        field.cursor_blink = False
+        self._fill("")
+        field.focus()
+
+    def _fill(self, query: str) -> None:
+        options = self.query_one(OptionList)
+        options.clear_options()
+        for choice in self.choices:
+            if choice.matches(query):
+                options.add_option(Option(self._describe(choice), id=choice.name,
+                                          disabled=bool(choice.problem)))
+        if options.option_count:
+            options.highlighted = 0
+
+    def _describe(self, choice: SystemChoice) -> Text:
+        width = max(self.size.width - 10, 30)
+        mark = "*" if choice.name == self.current else " "
+        text = Text(f"{mark} {choice.name}", style="bold")
+        if choice.problem:
+            text.append(f"\n    cannot open: {choice.problem}"[:width])
+            return text
+        text.append(f"  {choice.title}")
+        text.append(f"\n    {choice.checks}")
+        source = choice.source.replace("\n", " ")
+        text.append(f"\n    {source if len(source) <= width - 4 else source[:width - 5] + '~'}")
+        return text
+
+    def on_input_changed(self, event: Input.Changed) -> None:
+        self._fill(event.value)
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        options = self.query_one(OptionList)
+        if options.highlighted is not None:
+            self.dismiss(options.get_option_at_index(options.highlighted).id)
+
+    def on_option_list_option_selected(self, event: OptionList.OptionSelected) -> None:
+        self.dismiss(event.option.id)
+
+    def action_to_list(self) -> None:
+        self.query_one(OptionList).focus()
+
+    def action_cancel(self) -> None:
+        self.dismiss(None)

@@ -1,0 +1,1 @@
+"""The explorer's widgets: plots, status pane, reactions table, point entry, bars."""

@@ -1,0 +1,50 @@
+"""A plotext plot that rebuilds its picture only when what it shows has changed.
+
+textual-plotext rebuilds the whole picture on every refresh; here the built text is kept and
+reused while the size, theme and the subclass's `picture_key()` stay the same. In ASCII mode
+the built text is translated character for character (the layout does not move).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Hashable
+
+from rich.text import Text
+from textual.app import RenderResult
+from textual_plotext import PlotextPlot
+from textual_plotext.plot import Plot
+
+from ..glyphs import Glyphs
+
+
+class CachedPlot(PlotextPlot):
+    """Base of the explorer's plots: subclasses say what to draw and when it changes."""
+
+    def __init__(self, glyphs: Glyphs, *, id: str | None = None) -> None:
+        super().__init__(id=id)
+        self.glyphs = glyphs
+        self._built_key: Hashable | None = None
+        self._built: Text | None = None
+
+    def picture_key(self) -> Hashable:
+        """A value that changes whenever the picture would change (size and theme aside)."""
+        raise NotImplementedError
+
+    def draw(self, plt: Plot, width: int, height: int) -> None:
+        """Issue the plot calls for a picture of width x height cells."""
+        raise NotImplementedError
+
+    def render(self) -> RenderResult:
+        width, height = self.size.width, self.size.height
+        key = (width, height, self.app.theme, self.picture_key())
+        if key != self._built_key or self._built is None:
+            plt = self.plt
+            plt.clear_figure()
+            plt.plotsize(width, height)
+            plt._set_size(width, height)  # the same belt-and-braces call as PlotextPlot.render
+            plt.theme(self._get_plotext_theme_name(self.app.theme))
+            if width > 8 and height > 4:
+                self.draw(plt, width, height)
+            self._built = Text.from_ansi(self.glyphs.plot_text(plt.build()))
+            self._built_key = key
+        return self._built

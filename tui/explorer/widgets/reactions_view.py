@@ -1,0 +1,37 @@
+"""The reactions view: a table of the system's invariant reactions and melting points."""
+
+from __future__ import annotations
+
+from textual.message import Message
+from textual.widgets import DataTable
+
+from ..reaction_rows import ReactionRow
+
+
+class ReactionsView(DataTable):
+    """One row per reaction; Enter on a row asks for the cursor to go there."""
+
+    class Chosen(Message):
+        """A row was chosen: move the cursor to its temperature (K) and composition (x_B)."""
+
+        def __init__(self, row: ReactionRow) -> None:
+            super().__init__()
+            self.row = row
+
+    def __init__(self, *, id: str | None = None) -> None:
+        super().__init__(id=id, cursor_type="row", zebra_stripes=False)
+        self._rows: list[ReactionRow] = []
+
+    def on_mount(self) -> None:
+        self.add_columns("reaction", "temperature", "phases and compositions")
+
+    def show_rows(self, rows: list[ReactionRow]) -> None:
+        """Replace the table's rows."""
+        self.clear()
+        self._rows = rows
+        for row in rows:
+            self.add_row(row.kind, row.temperature, row.phases, height=row.phases.count("\n") + 1)
+
+    def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
+        event.stop()
+        self.post_message(self.Chosen(self._rows[event.cursor_row]))
