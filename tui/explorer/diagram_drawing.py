@@ -80,8 +80,8 @@ def _field_labels(exploration: Exploration, frame: Frame) -> list[Label]:
     x_B = scales.engine_composition(xs)
     T_K = scales.engine_temperature(ys)
     cells: dict[tuple[str, ...], list[tuple[float, float]]] = {}
-    for T, y in zip(T_K, ys):
-        for x_b, x in zip(x_B, xs):
+    for T, y in zip(T_K, ys, strict=True):
+        for x_b, x in zip(x_B, xs, strict=True):
             cells.setdefault(tuple(diagram.field_at(float(T), float(x_b))), []).append((x, y))
     labels = []
     for phases, points in sorted(cells.items(), key=lambda item: -len(item[1])):

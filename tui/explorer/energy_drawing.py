@@ -59,7 +59,10 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
     frame = Frame(scales.shown_composition(window.x_low), scales.shown_composition(window.x_high),
                   low - 0.1 * span, high + HEADROOM * span, columns, rows)
     curves, points, labels = [], [], []
-    inside = (lambda x: (x >= window.x_low) & (x <= window.x_high))
+
+    def inside(x):
+        return (x >= window.x_low) & (x <= window.x_high)
+
     for name, (x, g) in section.curves().items():
         x = np.asarray(x, dtype=float)
         y = relative(x, g)

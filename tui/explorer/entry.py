@@ -11,8 +11,8 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from ladle.tui.quote import percent
 from ladle.tui.parsing import mole_fraction_of_B, parse_composition, parse_temperature
+from ladle.tui.quote import percent
 
 from .cursor import Window
 from .glyphs import Glyphs

@@ -74,8 +74,13 @@ class Exploration:
         x_low, x_high = system.covers
         self.limits = Window(T_low, T_high, x_low, x_high)
         self.window = self.limits
-        start = cursor or Cursor(0.5 * (T_low + T_high), 0.5 * (x_low + x_high))
-        self.cursor = Cursor(*self.limits.clamp(start.temperature_K, start.x_B))
+        self.cursor = Cursor(*self.limits.clamp(T_low, x_low))
+        if cursor is None:   # the middle of the diagram, on round numbers of the steps
+            self.cursor = Cursor(0.5 * (T_low + T_high), 0.5 * (x_low + x_high))
+            self.move(1, 1)
+            self.move(-1, -1)
+        else:
+            self.cursor = Cursor(*self.limits.clamp(cursor.temperature_K, cursor.x_B))
         self._melt = lru_cache(maxsize=256)(self._melt_uncached)
 
     # -- what the engine says -------------------------------------------------------------

@@ -5,7 +5,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-
 from ladle.tui.quote import percent
 
 from .glyphs import Glyphs

@@ -6,8 +6,8 @@ them; colour never carries meaning that the text does not also say.
 
 from __future__ import annotations
 
-from ladle.tui.quote import percent
 from ladle.engine.units import TEMPERATURE_UNITS, kelvin_to
+from ladle.tui.quote import percent
 
 from .exploration import Reading
 from .glyphs import Glyphs

@@ -12,8 +12,8 @@ from textual.events import Resize
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Input, Static
 
-from ladle.tui.quote import percent
 from ladle.engine import SystemFileError, UnknownSystem, find_system
+from ladle.tui.quote import percent
 
 from ..entry import EntryError, TypedPoint, check_inside, parse_point
 from ..exploration import Exploration
@@ -111,7 +111,7 @@ class ExploreScreen(Screen[None]):
         unit = self.glyphs.temperature_unit(e.scales.temperature_unit)
         lines.append(("note", f" step {format_step(steps.temperature)} {unit}, "
                               f"{format_step(steps.composition)} {e.scales.composition_unit}%"
-                              f"; shift: a tenth"))
+                              " (shift /10)"))
         if e.system.safety:
             lines.append(("warning", f" ! {e.system.safety}"))
         return lines
