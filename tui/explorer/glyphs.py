@@ -7,21 +7,25 @@ characters one for one, so a plot keeps its layout when translated.
 
 from __future__ import annotations
 
+import unicodedata
 from dataclasses import dataclass
 
-# Box-drawing, block and marker characters that plotext emits, mapped to ASCII of equal width.
-_PLOT_TO_ASCII = {
-    "─": "-", "━": "-", "│": "|", "┃": "|",
-    "┌": "+", "┐": "+", "└": "+", "┘": "+", "├": "+", "┤": "+", "┬": "+", "┴": "+", "┼": "+",
-    "╭": "+", "╮": "+", "╰": "+", "╯": "+",
+# Marker and block characters that plotext emits, mapped to ASCII of equal width.
+_MARKS_TO_ASCII = {
     "•": "*", "●": "o", "▪": "#", "█": "#", "▄": "_", "▀": "^", "▌": "|", "▐": "|",
     "·": ".", "°": " ", "×": "x", "◆": "o", "■": "#", "▲": "^", "▼": "v", "≈": "~",
 }
 
 
-def _braille_to_ascii() -> dict[int, str]:
-    """Every braille cell (U+2800..U+28FF) as '.' (one or two dots) or ':' (more dots)."""
-    table: dict[int, str] = {}
+def _ascii_table() -> dict[int, str]:
+    """Box drawing (U+2500..U+257F) as - = | +, braille cells (U+2800..U+28FF) as . or :,
+    and the markers above."""
+    table = {ord(mark): text for mark, text in _MARKS_TO_ASCII.items()}
+    for code in range(0x2500, 0x2580):
+        name = unicodedata.name(chr(code), "")
+        across, down = "HORIZONTAL" in name, "VERTICAL" in name
+        table[code] = ("=" if "DOUBLE" in name else "-") if across and not down else (
+            "|" if down and not across else "+")
     for code in range(0x2800, 0x2900):
         dots = bin(code - 0x2800).count("1")
         table[code] = " " if dots == 0 else ("." if dots <= 2 else ":")
@@ -45,17 +49,19 @@ class Glyphs:
     envelope_marker: str   # and the lower envelope of the Gibbs energy curves
 
     def plot_text(self, text: str) -> str:
-        """The plot's built text, translated to ASCII in ASCII mode (same length, same layout)."""
+        """The plot's built text, translated to ASCII in ASCII mode (same length, same layout;
+        a character with no ASCII form becomes "?")."""
         if not self.ascii_only:
             return text
-        return text.translate(_ASCII_TABLE)
+        text = text.translate(_ASCII_TABLE)
+        return text if text.isascii() else "".join(c if c.isascii() else "?" for c in text)
 
     def temperature_unit(self, unit: str) -> str:
         """The printed unit of a temperature: "°C", "°F", "K" (ASCII: "C", "F", "K")."""
         return unit if unit == "K" else f"{self.degree}{unit}"
 
 
-_ASCII_TABLE: dict[int, str] = {ord(k): v for k, v in _PLOT_TO_ASCII.items()} | _braille_to_ascii()
+_ASCII_TABLE = _ascii_table()
 
 UNICODE = Glyphs(
     ascii_only=False, degree="°", left="←", right="→", up="↑", down="↓",

@@ -1,0 +1,64 @@
+"""Plot helpers, glyph sets and the key map of the explorer."""
+
+import numpy as np
+
+from ladle.tui.explorer.glyphs import ASCII, UNICODE
+from ladle.tui.explorer.keymap import MAIN_KEYS, help_rows, key_bar_text
+from ladle.tui.explorer.plotting import (Frame, Label, joined, place_labels, round_ticks,
+                                         thin_polyline)
+
+FRAME = Frame(0.0, 100.0, 0.0, 400.0, columns=40, rows=20)
+
+
+def test_thinning_keeps_the_ends_and_one_point_per_dot():
+    x = np.linspace(0.0, 100.0, 10_001)
+    y = 400.0 * (x / 100.0) ** 2
+    tx, ty = thin_polyline(x, y, FRAME)
+    assert (tx[0], ty[0], tx[-1], ty[-1]) == (x[0], y[0], x[-1], y[-1])
+    # 80 dots across and 80 down: a monotone curve crosses at most 160 dot cells.
+    assert len(tx) <= 2 * (FRAME.columns * 2 + FRAME.rows * 4)
+    assert len(tx) >= FRAME.columns * 2
+
+
+def test_joined_curves_are_separated_by_gaps():
+    xs, ys = joined([([0, 1], [2, 3]), ([4], [5])])
+    assert xs[:2] == [0.0, 1.0] and np.isnan(xs[2]) and xs[3] == 4.0
+    assert np.isnan(ys[2]) and len(xs) == len(ys) == 4
+
+
+def test_labels_never_overlap_and_stay_inside():
+    wanted = [Label("liquid", 50, 300), Label("liquid+fcc", 52, 300), Label("fcc", 50, 100),
+              Label("outside", 99.5, 100)]
+    placed = place_labels(wanted, FRAME)
+    assert [label.text for label in placed] == ["liquid", "fcc"]
+
+
+def test_ticks_are_round():
+    assert round_ticks(27.0, 377.0, 4) == [100.0, 200.0, 300.0]
+    assert round_ticks(0.0, 100.0, 5) == [0.0, 20.0, 40.0, 60.0, 80.0, 100.0]
+
+
+def test_ascii_glyphs_are_ascii_and_plot_text_keeps_its_layout():
+    plot = "┌──┐\n│⣿⠁•│\n└┬─┘ 183°C ═ ╋"
+    flat = ASCII.plot_text(plot)
+    assert flat.isascii() and len(flat) == len(plot)
+    assert [len(line) for line in flat.split("\n")] == [len(line) for line in plot.split("\n")]
+    assert UNICODE.plot_text(plot) == plot
+    for name in ("degree", "left", "right", "up", "down", "boundary_marker", "invariant_marker",
+                 "crosshair_marker", "cursor_marker", "envelope_marker"):
+        assert getattr(ASCII, name).isascii()
+
+
+def test_key_bar_fits_80_columns_and_always_offers_help_and_quit():
+    for glyphs in (UNICODE, ASCII):
+        bar = key_bar_text(glyphs, 80)
+        assert len(bar) <= 80 and "? help" in bar and "q quit" in bar
+        assert key_bar_text(glyphs, 200).count("  ") >= 9   # every short form when there is room
+    assert key_bar_text(ASCII, 80).isascii()
+
+
+def test_help_lists_every_key_once():
+    rows = help_rows(UNICODE)
+    assert len(rows) == len(MAIN_KEYS)
+    keys = [key for use in MAIN_KEYS for key in use.keys.split(",")]
+    assert len(keys) == len(set(keys))
