@@ -44,7 +44,7 @@ def stable_pure_phase(phases: dict, index: int, T: float) -> str:
 def pure_transitions(phases: dict, index: int, element: str, lo_K: float, hi_K: float,
                      tol_K: float = 1e-7) -> list[PureTransition]:
     """Every change of the stable pure phase of element `index` between lo_K and hi_K (K)."""
-    grid = np.linspace(lo_K, hi_K, 400)
+    grid = np.linspace(lo_K, hi_K, 400).tolist()
     names = [stable_pure_phase(phases, index, T) for T in grid]
     found = []
     for i in range(len(grid) - 1):
@@ -58,7 +58,7 @@ def pure_transitions(phases: dict, index: int, element: str, lo_K: float, hi_K: 
                 a = m
             else:
                 b = m
-        found.append(PureTransition(element, 0.5 * (a + b), low, high))
+        found.append(PureTransition(element, float(0.5 * (a + b)), low, high))
     return found
 
 

@@ -1,0 +1,352 @@
+"""Mapping a whole binary phase diagram: every two-phase field as a family of tie-lines, every
+three-phase (invariant) reaction, congruent and critical points, and pure-element transitions.
+
+Method: isothermal sections (engine/section.py) on a temperature scan give the ordered list of
+tie-lines at each level. Where two neighbouring levels differ, the interval is split until the
+change is one recognisable event, which is then solved directly with temperature free
+(engine/special.py). Between levels each field is refined by predictor-corrector continuation:
+the tie-line at a mid temperature is solved by Newton from the interpolated one, and the interval
+is split again where the two differ, so curves are smooth where they bend and cheap where they
+are straight. Temperatures in K; compositions as mole fraction of B.
+"""
+
+from __future__ import annotations
+
+import difflib
+from dataclasses import dataclass, field
+from functools import lru_cache
+
+import numpy as np
+
+from .equilibrium import equilibrate, section_at
+from .phases import CompoundPhase
+from .pure import pure_transitions
+from .section import TieLine
+from .special import classify, compound_congruent, critical_point, solution_congruent, three_phase
+from .tangent import common_tangent, tangent_to_point
+
+#: Temperature levels of the initial scan.
+SCAN_LEVELS = 48
+#: Narrowest temperature interval (K) that is split further to isolate an event.
+MIN_INTERVAL_K = 1e-4
+#: A traced boundary is refined until linear interpolation between its points is this good (x_B).
+CURVE_TOLERANCE = 1.5e-3
+_MAX_REFINE_DEPTH = 5
+
+
+@dataclass(frozen=True)
+class TwoPhaseField:
+    """A two-phase field: `phases` (left phase first), `T` (K, increasing) and `x` (shape (n, 2):
+    x_B of the left and the right phase at each temperature)."""
+
+    phases: tuple[str, str]
+    T: np.ndarray
+    x: np.ndarray
+
+
+@dataclass(frozen=True)
+class Invariant:
+    """A three-phase reaction: `kind` (eutectic, peritectic, ...), temperature (K) and the three
+    phases with their x_B, ordered by composition."""
+
+    kind: str
+    temperature_K: float
+    phases: tuple[tuple[str, float], ...]
+
+
+@dataclass(frozen=True)
+class SpecialPoint:
+    """A two-phase special point: kind "congruent", "critical", "melting" or "transition"."""
+
+    kind: str
+    temperature_K: float
+    x_B: float
+    phases: tuple[str, ...]
+
+
+@dataclass
+class _Track:
+    phases: tuple[str, str]
+    points: list[tuple[float, float, float]] = field(default_factory=list)  # (T, xB left, xB right)
+
+
+@dataclass(frozen=True)
+class _Level:
+    T: float
+    ties: tuple[TieLine, ...]
+
+    @property
+    def pairs(self) -> list[tuple[str, str]]:
+        return [t.phases for t in self.ties]
+
+
+def _level(system, T: float) -> _Level:
+    return _Level(T, tuple(section_at(system, T).tie_lines))
+
+
+class PhaseDiagram:
+    """The mapped diagram of one system; query it with `field_at`."""
+
+    def __init__(self, system, fields: list[TwoPhaseField], invariants: list[Invariant],
+                 special_points: list[SpecialPoint], warnings: list[str]) -> None:
+        self.system = system
+        self.temperature_range_K = system.temperature_range_K
+        self.fields = fields
+        self.invariants = invariants
+        self.special_points = special_points
+        self.warnings = warnings
+
+    @property
+    def melting_points(self) -> dict[str, float | None]:
+        """Melting temperature (K) of each pure element in this system."""
+        return dict(self.system.melting_points)
+
+    def field_at(self, T: float, x_B: float) -> tuple[str, ...]:
+        """Names of the stable phases at T (K) and x_B (mole fraction), from a point equilibrium."""
+        return equilibrate(self.system, T, x_B).phase_names
+
+    def to_json(self) -> dict:
+        """The JSON object of `ladle diagram --json`."""
+        els = self.system.elements
+
+        def comp(x_b: float) -> dict:
+            return {els[0]: 1.0 - x_b, els[1]: x_b}
+
+        return {
+            "system": self.system.name,
+            "elements": list(els),
+            "temperature_range_K": list(self.temperature_range_K),
+            "covers_mole_fraction": list(self.system.covers),
+            "invariants": [{"kind": i.kind, "temperature_K": i.temperature_K,
+                            "phases": [{"name": n, "mole_fraction": comp(x)} for n, x in i.phases]}
+                           for i in self.invariants],
+            "special_points": [{"kind": s.kind, "temperature_K": s.temperature_K, "x_B": s.x_B,
+                                "phases": list(s.phases)} for s in self.special_points],
+            "two_phase_fields": [{"phases": list(f.phases),
+                                  "tie_lines": [[float(t), float(a), float(b)] for t, (a, b) in zip(f.T, f.x)]}
+                                 for f in self.fields],
+            "melting_points": {el: t for el, t in self.melting_points.items()},
+        }
+
+
+@lru_cache(maxsize=32)
+def map_diagram(system) -> PhaseDiagram:
+    """Trace the whole diagram of `system` over its temperature range (cached per system)."""
+    return _Tracer(system).run()
+
+
+class _Tracer:
+    def __init__(self, system) -> None:
+        self.system = system
+        self.finished: list[_Track] = []
+        self.invariants: list[Invariant] = []
+        self.special: list[SpecialPoint] = []
+        self.warnings: list[str] = []
+        lo, hi = system.temperature_range_K
+        self.transitions = [t for i, el in enumerate(system.elements)
+                            for t in pure_transitions(system.phases, i, el, lo, hi)]
+
+    # --- driver ----------------------------------------------------------------------------------
+    def run(self) -> PhaseDiagram:
+        lo, hi = self.system.temperature_range_K
+        temps = np.linspace(hi, lo, SCAN_LEVELS)
+        above = _level(self.system, float(temps[0]))
+        tracks = [self._start(t, above.T) for t in above.ties]
+        for T in temps[1:]:
+            below = _level(self.system, float(T))
+            tracks = self._between(above, below, tracks, 0)
+            above = below
+        self.finished += tracks
+        fields = [self._field(t) for t in self.finished if len(t.points) >= 2]
+        for t in self.transitions:
+            kind = "melting" if t.above == "liquid" else "transition"
+            x = 0.0 if t.element == self.system.elements[0] else 1.0
+            self.special.append(SpecialPoint(kind, t.temperature_K, x, (t.below, t.above)))
+        self.invariants.sort(key=lambda i: -i.temperature_K)
+        self.special.sort(key=lambda s: -s.temperature_K)
+        return PhaseDiagram(self.system, fields, self.invariants, self.special, self.warnings)
+
+    @staticmethod
+    def _start(tie: TieLine, T: float) -> _Track:
+        return _Track(tie.phases, [(T, *tie.x_B)])
+
+    def _between(self, above: _Level, below: _Level, tracks: list[_Track], depth: int) -> list[_Track]:
+        """Carry the open tracks (aligned with above.ties) down to `below`; returns the tracks
+        aligned with below.ties."""
+        ops = difflib.SequenceMatcher(a=above.pairs, b=below.pairs, autojunk=False).get_opcodes()
+        events = [op for op in ops if op[0] != "equal"]
+        if events and above.T - below.T > MIN_INTERVAL_K:
+            if not all(self._simple(above.ties[i1:i2], below.ties[j1:j2]) for _, i1, i2, j1, j2 in events) or depth == 0:
+                mid = _level(self.system, 0.5 * (above.T + below.T))
+                if depth < 40 and (mid.pairs != above.pairs or mid.pairs != below.pairs or not events):
+                    upper = self._between(above, mid, tracks, depth + 1)
+                    return self._between(mid, below, upper, depth + 1)
+        new: list[_Track] = []
+        for tag, i1, i2, j1, j2 in ops:
+            if tag == "equal":
+                for k in range(i2 - i1):
+                    tr = tracks[i1 + k]
+                    tie = below.ties[j1 + k]
+                    tr.points.append((below.T, *tie.x_B))
+                    new.append(tr)
+            else:
+                new += self._event(above, below, tracks[i1:i2], list(above.ties[i1:i2]), list(below.ties[j1:j2]))
+        return new
+
+    @staticmethod
+    def _simple(up: tuple, down: tuple) -> bool:
+        n_up, n_down = len(up), len(down)
+        if (n_up, n_down) in ((2, 1), (1, 2)):
+            two, one = (up, down[0]) if n_up == 2 else (down, up[0])
+            return (two[0].phases[1] == two[1].phases[0] and two[0].phases[0] == one.phases[0]
+                    and two[1].phases[1] == one.phases[1])
+        if (n_up, n_down) in ((0, 1), (1, 0)):
+            return True
+        if (n_up, n_down) in ((0, 2), (2, 0)):
+            two = up or down
+            return two[0].phases[1] == two[1].phases[0] and two[0].phases[0] == two[1].phases[1]
+        return False
+
+    # --- events -------------------------------------------------------------------------------------
+    def _event(self, above: _Level, below: _Level, closing: list[_Track], up: list[TieLine], down: list[TieLine]) -> list[_Track]:
+        """Solve the event between two levels; close the tracks of `up`, open tracks for `down`."""
+        starts: list[tuple[float, float, float] | None] = [None] * len(down)
+        ends: list[tuple[float, float, float] | None] = [None] * len(up)
+        T0 = 0.5 * (above.T + below.T)
+        solved = False
+        if self._simple(tuple(up), tuple(down)):
+            if len(up) + len(down) == 3:
+                solved = self._invariant(above.T, below.T, up, down, starts, ends, T0)
+            elif len(up) + len(down) == 1:
+                solved = self._appearing(above.T, below.T, (up or down)[0], starts, ends, bool(down))
+            else:
+                solved = self._congruent(above.T, below.T, up or down, starts, ends, bool(down))
+        if not solved and above.T - below.T > 10 * MIN_INTERVAL_K:
+            names = ", ".join("+".join(t.phases) for t in up + down)
+            self.warnings.append(f"unresolved change of fields ({names}) between {below.T:.2f} and {above.T:.2f} K")
+        for tr, end in zip(closing, ends):
+            if end is not None:
+                tr.points.append(end)
+            self.finished.append(tr)
+        opened = []
+        for tie, start in zip(down, starts):
+            tr = _Track(tie.phases, [start] if start is not None else [])
+            tr.points.append((below.T, *tie.x_B))
+            opened.append(tr)
+        return opened
+
+    def _invariant(self, T_up, T_down, up, down, starts, ends, T0) -> bool:
+        middle_forms = len(down) == 2
+        two = down if middle_forms else up
+        (p, q), (_, r) = two[0].phases, two[1].phases
+        entries = [(p, two[0].x_B[0]), (q, 0.5 * (two[0].x_B[1] + two[1].x_B[0])), (r, two[1].x_B[1])]
+        sol = three_phase(self.system, entries, T0)
+        if not sol.converged or not (T_down - 1e-6 <= sol.temperature_K <= T_up + 1e-6):
+            return False
+        T = sol.temperature_K
+        xs = [ph[2] for ph in sol.phases]
+        if not xs[0] <= xs[1] <= xs[2]:
+            return False
+        kind = classify(q, (p, r), middle_forms)
+        self.invariants.append(Invariant(kind, T, tuple((ph[0], ph[2]) for ph in sol.phases)))
+        pair_points = [(T, xs[0], xs[1]), (T, xs[1], xs[2])]
+        single = (T, xs[0], xs[2])
+        if middle_forms:
+            starts[0], starts[1] = pair_points
+            ends[0] = single
+        else:
+            ends[0], ends[1] = pair_points
+            starts[0] = single
+        return True
+
+    def _appearing(self, T_up, T_down, tie: TieLine, starts, ends, forms_on_cooling: bool) -> bool:
+        """One field appears or vanishes: a pure-element transition at an end, or a critical point."""
+        xl, xr = tie.x_B
+        p, q = tie.phases
+        point = None
+        for t in self.transitions:
+            if {t.below, t.above} == {p, q} and T_down - 1e-6 <= t.temperature_K <= T_up + 1e-6:
+                x = 0.0 if t.element == self.system.elements[0] else 1.0
+                if abs(x - 0.5 * (xl + xr)) < 0.5:
+                    point = (t.temperature_K, x, x)
+        if point is None and p == q:
+            sol = critical_point(self.system, p, 0.5 * (xl + xr), 0.5 * (T_up + T_down))
+            if sol.converged and T_down - 1.0 <= sol.temperature_K <= T_up + 1.0:
+                xc = sol.phases[0][2]
+                point = (sol.temperature_K, xc, xc)
+                self.special.append(SpecialPoint("critical", sol.temperature_K, xc, (p,)))
+        if point is None:
+            return False
+        if forms_on_cooling:
+            starts[0] = point
+        else:
+            ends[0] = point
+        return True
+
+    def _congruent(self, T_up, T_down, pair: list[TieLine], starts, ends, forms_on_cooling: bool) -> bool:
+        """Two fields meet at one composition: a congruently melting compound or solution."""
+        outer, middle = pair[0].phases[0], pair[0].phases[1]
+        mid_phase = self.system.phases[middle]
+        if isinstance(mid_phase, CompoundPhase):
+            sol = compound_congruent(self.system, middle, outer, T_down, T_up)
+        elif isinstance(self.system.phases[outer], CompoundPhase):
+            sol = compound_congruent(self.system, outer, middle, T_down, T_up)
+        else:
+            x0 = 0.5 * (pair[0].x_B[1] + pair[1].x_B[0])
+            sol = solution_congruent(self.system, outer, middle, x0, 0.5 * (T_up + T_down))
+            if not sol.converged or not T_down - 1e-6 <= sol.temperature_K <= T_up + 1e-6:
+                return False
+        if sol is None:
+            return False
+        T, x = sol.temperature_K, sol.phases[0][2]
+        self.special.append(SpecialPoint("congruent", T, x, (outer, middle)))
+        target = starts if forms_on_cooling else ends
+        target[0] = target[1] = (T, x, x)
+        return True
+
+    # --- curves ---------------------------------------------------------------------------------------
+    def _field(self, track: _Track) -> TwoPhaseField:
+        pts = sorted(set(track.points))
+        refined = [pts[0]]
+        for a, b in zip(pts[:-1], pts[1:]):
+            refined += self._refine(track.phases, a, b, 0)
+            refined.append(b)
+        arr = np.array(refined)
+        return TwoPhaseField(track.phases, arr[:, 0], arr[:, 1:])
+
+    def _refine(self, phases: tuple[str, str], a, b, depth: int) -> list[tuple[float, float, float]]:
+        """Points strictly between a and b (T, x_left, x_right) needed for smooth curves."""
+        if depth >= _MAX_REFINE_DEPTH or b[0] - a[0] < 1e-3:
+            return []
+        Tm = 0.5 * (a[0] + b[0])
+        guess = (Tm, 0.5 * (a[1] + b[1]), 0.5 * (a[2] + b[2]))
+        exact = tie_line_at(self.system, phases, *guess)
+        if exact is None:
+            return []
+        if max(abs(exact[1] - guess[1]), abs(exact[2] - guess[2])) <= CURVE_TOLERANCE:
+            return [exact] if depth == 0 and b[0] - a[0] > 40.0 else []
+        return self._refine(phases, a, exact, depth + 1) + [exact] + self._refine(phases, exact, b, depth + 1)
+
+
+def tie_line_at(system, phases: tuple[str, str], T: float, xl: float, xr: float) -> tuple[float, float, float] | None:
+    """The tie-line (T, x_B left, x_B right) of two phases at T (K), by Newton from the guessed
+    compositions xl, xr; None where it does not converge (or the field does not exist there)."""
+    P, Q = (system.phases[n] for n in phases)
+    if isinstance(P, CompoundPhase) and isinstance(Q, CompoundPhase):
+        return (T, float(P.x[1]), float(Q.x[1]))
+    if isinstance(P, CompoundPhase) or isinstance(Q, CompoundPhase):
+        sol, comp, start = (Q, P, xr) if isinstance(P, CompoundPhase) else (P, Q, xl)
+        start = min(max(start, 1e-15), 1.0 - 1e-15)
+        r = tangent_to_point(sol.at(T), (float(comp.x[0]), float(comp.x[1])), comp.gibbs(T), (1.0 - start, start))
+        if not r.converged:
+            return None
+        xs = r.x[0][1]
+        return (T, float(comp.x[1]), xs) if isinstance(P, CompoundPhase) else (T, xs, float(comp.x[1]))
+    xl = min(max(xl, 1e-15), 1.0 - 1e-15)
+    xr = min(max(xr, 1e-15), 1.0 - 1e-15)
+    Pt = P.at(T)
+    Qt = Pt if P is Q else Q.at(T)
+    r = common_tangent(Pt, Qt, (1.0 - xl, xl), (1.0 - xr, xr))
+    if not r.converged or r.x[0][1] >= r.x[1][1]:
+        return None
+    return (T, r.x[0][1], r.x[1][1])
