@@ -24,7 +24,8 @@ _SAME_K = 1e-6
 
 @dataclass(frozen=True)
 class Crossing:
-    """At `temperature_K` the stable phases change from `above` to `below` (on cooling)."""
+    """At `temperature_K` the stable phases change from `above` to `below` (on cooling); each
+    ordered by composition."""
 
     temperature_K: float
     above: tuple[str, ...]
@@ -99,7 +100,7 @@ def melt_range(system, x_B: float) -> MeltRange:
             merged.append(t)
     edges = [hi] + merged + [lo]
     phases = [equilibrate(system, 0.5 * (a + b), x_B).phase_names for a, b in zip(edges[:-1], edges[1:])]
-    crossings = [Crossing(t, tuple(sorted(up)), tuple(sorted(down)))
+    crossings = [Crossing(t, up, down)
                  for t, up, down in zip(merged, phases[:-1], phases[1:]) if set(up) != set(down) or len(up) != len(down)]
     liquidus = None
     if phases and phases[0] == (LIQUID,):

@@ -17,6 +17,8 @@ from .errors import report
 COMMANDS = {
     "point": "point",
     "systems": "systems",
+    "melt": "melt",
+    "diagram": "diagram",
 }
 
 

@@ -93,9 +93,10 @@ def _field_labels(exploration: Exploration, frame: Frame) -> list[Label]:
     return labels
 
 
-def draw_diagram(plt, scene: DiagramScene, cursor_x: float, cursor_y: float,
+def draw_diagram(plt, scene: DiagramScene, cursor_x: float | None, cursor_y: float | None,
                  glyphs: Glyphs) -> None:
-    """Issue the plot calls: boundaries, invariant lines, labels, then the cursor on top."""
+    """Issue the plot calls: boundaries, invariant lines, labels, then the cursor on top
+    (no cursor where cursor_x is None: the line-mode `ladle diagram`)."""
     frame = scene.frame
     plt.xlim(frame.x_low, frame.x_high)
     plt.ylim(frame.y_low, frame.y_high)
@@ -109,6 +110,8 @@ def draw_diagram(plt, scene: DiagramScene, cursor_x: float, cursor_y: float,
         plt.plot(*scene.invariants, marker=glyphs.invariant_marker, color=INVARIANT_COLOUR)
     for label in scene.labels:
         plt.text(label.text, label.x, label.y, alignment="center")
+    if cursor_x is None or cursor_y is None:
+        return
     plt.plot([cursor_x, cursor_x], [frame.y_low, frame.y_high], marker=glyphs.crosshair_marker,
              color=CURSOR_COLOUR)
     plt.plot([frame.x_low, frame.x_high], [cursor_y, cursor_y], marker=glyphs.crosshair_marker,

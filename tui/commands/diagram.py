@@ -1,0 +1,112 @@
+"""`ladle diagram`: the whole phase diagram, as a plot in the terminal, JSON or CSV."""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import os
+import shutil
+import sys
+
+from .. import quote
+from .common import add_system_argument, open_system, print_json
+
+HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
+
+
+def add_arguments(p: argparse.ArgumentParser) -> None:
+    add_system_argument(p)
+    out = p.add_mutually_exclusive_group()
+    out.add_argument("--json", action="store_true", help="print one JSON object: invariants, two-phase fields, melting points")
+    out.add_argument("--csv", action="store_true", help="print the tie-lines of every two-phase field as CSV rows")
+    p.add_argument("--at", action="store_true", help="composition axis in at%% (default wt%%)")
+    p.add_argument("--unit", choices=("C", "K", "F"), default="C", help="temperature unit (default C)")
+    p.add_argument("--ascii", action="store_true", help="plain ASCII characters only")
+
+
+def run(args: argparse.Namespace) -> int:
+    from ladle.engine.diagram import map_diagram
+
+    system = open_system(args.system)
+    diagram = map_diagram(system)
+    if args.json:
+        print_json(diagram.to_json())
+        return 0
+    if args.csv:
+        write_csv(system, diagram, sys.stdout)
+        return 0
+    print(render_plot(system, args.unit, "at" if args.at else "wt", args.ascii))
+    for line in reaction_lines(system, diagram, args.unit, "at" if args.at else "wt"):
+        print(line)
+    for w in diagram.warnings:
+        print(f"note: {w}")
+    if system.safety:
+        print(f"safety: {system.safety}")
+    print("Computed estimate: defer to the alloy's specification and certified data.")
+    return 0
+
+
+def write_csv(system, diagram, stream) -> None:
+    """One row per tie-line: field, T in K and C, x_B and wt% B of each phase."""
+    import numpy as np
+
+    from ladle.engine.units import kelvin_to, mass_from_mole
+
+    b = system.elements[1]
+    out = csv.writer(stream, lineterminator="\n")
+    out.writerow(["field", "T_K", "T_C", f"x_{b}_left", f"wt%_{b}_left", f"x_{b}_right", f"wt%_{b}_right"])
+    for f in diagram.fields:
+        name = "+".join(f.phases)
+        for T, (xl, xr) in zip(f.T, f.x):
+            wl, wr = (float(mass_from_mole(np.array([1 - v, v]), system.molar_mass)[1]) for v in (xl, xr))
+            out.writerow([name, f"{T:.4f}", f"{kelvin_to(T, 'C'):.4f}", f"{xl:.8g}", f"{100 * wl:.6g}", f"{xr:.8g}", f"{100 * wr:.6g}"])
+
+
+def render_plot(system, unit: str, basis: str, ascii_only: bool) -> str:
+    """The diagram drawn by plotext at the terminal's size (at least 80x24)."""
+    import plotext
+
+    from ..explorer.diagram_drawing import diagram_scene, draw_diagram
+    from ..explorer.exploration import Exploration
+    from ..explorer.glyphs import glyphs_for
+    from ..explorer.scales import Scales
+
+    size = shutil.get_terminal_size((80, 24))
+    width, height = max(size.columns, 80), max(size.lines - 6, 24)
+    glyphs = glyphs_for(ascii_only)
+    exploration = Exploration(system, Scales(system.molar_mass, unit, basis))
+    scene = diagram_scene(exploration, glyphs, width, height)
+    plotext.clear_figure()
+    plotext.plotsize(width, height)
+    plotext.theme("clear")
+    title = system.title or "-".join(system.elements)
+    lo, hi = system.covers
+    if (lo, hi) != (0.0, 1.0):
+        title += f"  (model covers {100 * lo:g}-{100 * hi:g} at% {system.elements[1]} only)"
+    plotext.title(title)
+    draw_diagram(plotext, scene, None, None, glyphs)
+    text = plotext.build()
+    if os.environ.get("NO_COLOR") or not sys.stdout.isatty():
+        text = plotext.uncolorize(text)
+    return glyphs.plot_text(text)
+
+
+def reaction_lines(system, diagram, unit: str, basis: str) -> list[str]:
+    """The invariant reactions and special points, one line each, hottest first."""
+    import numpy as np
+
+    from ladle.engine.units import mass_from_mole
+
+    b = system.elements[1]
+
+    def comp(x_b: float) -> str:
+        v = x_b if basis == "at" else float(mass_from_mole(np.array([1 - x_b, x_b]), system.molar_mass)[1])
+        return f"{quote.percent(v)} {basis}% {b}"
+
+    lines = ["reactions:" if diagram.invariants or diagram.special_points else "reactions: none in range"]
+    for inv in diagram.invariants:
+        phases = ", ".join(f"{n} {comp(x)}" for n, x in inv.phases)
+        lines.append(f"  {inv.kind:<12} {quote.temperature(inv.temperature_K, unit):>12}  {phases}")
+    for sp in diagram.special_points:
+        lines.append(f"  {sp.kind:<12} {quote.temperature(sp.temperature_K, unit):>12}  {' / '.join(sp.phases)} at {comp(sp.x_B)}")
+    return lines
