@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 from pathlib import Path
 
 from textual.app import App
@@ -17,12 +18,13 @@ class ExplorerApp(App[None]):
 
     CSS_PATH = "explorer.tcss"
     ENABLE_COMMAND_PALETTE = False
+    AUTO_FOCUS = None   # keys go to the screen; the table, entry and dialogs take focus as shown
     TITLE = "ladle"
 
-    def __init__(self, exploration: Exploration, glyphs: Glyphs, state_file: Path | None,
-                 no_color: bool = False) -> None:
-        # With NO_COLOR, ansi_color=True makes Textual drop colours instead of greying them.
-        super().__init__(ansi_color=True if no_color else None)
+    def __init__(self, exploration: Exploration, glyphs: Glyphs, state_file: Path | None) -> None:
+        # Textual reads (and removes) NO_COLOR; with it, ansi_color=True makes Textual drop
+        # colours instead of turning them grey.
+        super().__init__(ansi_color=True if "NO_COLOR" in os.environ else None)
         self.glyphs = glyphs
         self.state_file = state_file
         self._first_exploration = exploration

@@ -51,7 +51,7 @@ MAIN_KEYS: tuple[KeyUse, ...] = (
            "w p save"),
     KeyUse("p", "write_screen", "p", "save the screen as text and SVG files"),
     KeyUse("question_mark,f1", "help", "? F1", "this help", "? help"),
-    KeyUse("q", "quit", "q", "quit (the point and units are remembered)", "q quit"),
+    KeyUse("q", "app.quit", "q", "quit (the point and units are remembered)", "q quit"),
 )
 
 

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import os
 import sys
 
 from ladle.engine import SystemFileError, UnknownSystem, find_system, list_systems
@@ -58,7 +57,6 @@ def run_explorer(argv: list[str]) -> int:
         return 2
     from .app import ExplorerApp   # textual is imported only now
 
-    app = ExplorerApp(exploration, glyphs_for(options.ascii_only), path,
-                      no_color="NO_COLOR" in os.environ)
+    app = ExplorerApp(exploration, glyphs_for(options.ascii_only), path)
     app.run()
     return 0

@@ -1,0 +1,3 @@
+"""Fixtures of the explorer's interaction tests (see explorer_harness)."""
+
+from explorer_harness import clean_environment  # noqa: F401  (an autouse fixture)

@@ -1,0 +1,89 @@
+"""Moving the cursor by keys and by typed points; the status pane follows with the engine's
+own numbers."""
+
+import re
+
+import pytest
+from explorer_harness import SIZE, make_app, pilot_test, status_text
+
+from ladle.engine import equilibrate
+from ladle.tui.explorer.widgets.point_entry import PointEntry
+from ladle.tui.quote import percent
+
+
+def _point(app):
+    cursor = app.screen_stack[0].exploration.cursor
+    return cursor.temperature_K, cursor.x_B
+
+
+@pilot_test
+async def test_status_pane_shows_the_engines_equilibrium():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE):
+        text = status_text(app)
+        result = equilibrate(app.screen_stack[0].exploration.system, 500.0, 0.5)
+        assert "226.9 °C  500.0 K  440.3 °F" in text
+        assert " + ".join(share.name for share in result.phases) in text
+        for share in result.phases:
+            assert re.search(rf"{share.name}\s+{re.escape(percent(share.amount_mass))}\s+"
+                             rf"{re.escape(percent(share.amount_mol))}", text)
+            assert f"Sn {percent(share.w[1])} wt%  ({percent(share.x[1])} at%)" in text
+
+
+@pilot_test
+async def test_arrows_and_vi_keys_step_on_round_numbers():
+    app = make_app(T_K=500.0, x_B=0.5)          # 226.85 C, 36.4 wt% Sn
+    async with app.run_test(size=SIZE) as pilot:
+        scales = app.screen_stack[0].exploration.scales
+        await pilot.press("up")
+        assert scales.shown_temperature(_point(app)[0]) == pytest.approx(230.0)
+        await pilot.press("k", "j", "j")
+        assert scales.shown_temperature(_point(app)[0]) == pytest.approx(220.0)
+        await pilot.press("right", "l", "h")
+        assert scales.shown_composition(_point(app)[1]) == pytest.approx(38.0)
+        await pilot.press("shift+right", "L")
+        assert scales.shown_composition(_point(app)[1]) == pytest.approx(38.4)
+        await pilot.press("shift+down")
+        assert scales.shown_temperature(_point(app)[0]) == pytest.approx(219.0)
+        assert "219.0 °C" in status_text(app) and "Sn 38.4 wt%" in status_text(app)
+
+
+@pilot_test
+async def test_typed_point_moves_the_cursor():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("g")
+        await pilot.press(*"185C 40wt%", "enter")
+        T_K, x_B = _point(app)
+        assert T_K == pytest.approx(458.15)
+        assert app.screen_stack[0].exploration.scales.shown_composition(x_B) == pytest.approx(40.0)
+        assert not app.screen_stack[0].query_one(PointEntry).display
+        assert "185.0 °C" in status_text(app)
+
+
+@pilot_test
+async def test_bad_typed_point_is_marked_with_the_reason_and_nothing_moves():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("g", *"Cu=3wt%", "enter")
+        entry = app.screen_stack[0].query_one(PointEntry)
+        assert entry.display
+        assert entry.query_one("#point-input").has_class("-bad")
+        assert "not used: element Cu is not in this system (Pb-Sn)" in str(
+            entry.query_one("#point-problem").render())
+        assert _point(app) == (500.0, 0.5)
+        await pilot.press("escape")
+        assert not entry.display
+        await pilot.press("up")                     # keys move the cursor again
+        assert _point(app)[0] > 500.0
+
+
+@pilot_test
+async def test_points_outside_the_system_are_refused():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        app.screen_stack[0].query_one(PointEntry).open()
+        await pilot.press(*"3000C", "enter")
+        problem = str(app.screen_stack[0].query_one("#point-problem").render())
+        assert "3000 °C is outside this system's range" in problem
+        assert _point(app) == (500.0, 0.5)

@@ -1,0 +1,108 @@
+"""Views, units, zoom, the reactions table, help and the system picker."""
+
+import pytest
+from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_text
+from textual.widgets import ContentSwitcher, OptionList
+
+from ladle.tui.explorer.cautions import GENERAL_CAUTIONS
+from ladle.tui.explorer.keymap import MAIN_KEYS
+from ladle.tui.explorer.screens.help import HelpScreen
+from ladle.tui.explorer.screens.systems import SystemPicker
+from ladle.tui.explorer.widgets.reactions_view import ReactionsView
+
+
+def _main(app):
+    return app.screen_stack[0]
+
+
+@pilot_test
+async def test_number_keys_switch_views_and_the_title_brackets_the_active_one():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        switcher = _main(app).query_one(ContentSwitcher)
+        assert switcher.current == "diagram" and "[1 diagram]" in screen_text(app)
+        await pilot.press("2")
+        assert switcher.current == "energy" and "[2 energy]" in screen_text(app)
+        assert "G kJ/mol" in screen_text(app)
+        await pilot.press("3")
+        assert switcher.current == "reactions" and "[3 reactions]" in screen_text(app)
+        await pilot.press("1")
+        assert switcher.current == "diagram"
+
+
+@pilot_test
+async def test_unit_keys_apply_to_the_status_pane_and_the_reactions():
+    app = make_app(T_K=456.15, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("t")
+        assert "456.1 K  183.0 °C" in status_text(app)      # the chosen unit comes first
+        await pilot.press("t")
+        assert "361.4 °F  183.0 °C  456.1 K" in status_text(app)
+        await pilot.press("u")
+        assert "Sn 50.0 at%  (36.4 wt%)" in status_text(app)
+        await pilot.press("3")
+        assert "°F" in screen_text(app) and "at%" in screen_text(app)
+
+
+@pilot_test
+async def test_zoom_narrows_the_window_about_the_cursor_and_0_restores_it():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        exploration = _main(app).exploration
+        whole = exploration.window
+        await pilot.press("plus")
+        zoomed = exploration.window
+        assert zoomed.T_high - zoomed.T_low == pytest.approx((whole.T_high - whole.T_low) / 2)
+        assert zoomed.contains(500.0, 0.5)
+        coarse_before = exploration.steps(False)
+        assert coarse_before.temperature <= 10.0      # finer steps in a smaller window
+        await pilot.press("minus")
+        assert exploration.window.T_high - exploration.window.T_low == pytest.approx(
+            whole.T_high - whole.T_low)
+        await pilot.press("plus", "plus", "0")
+        assert exploration.window == whole
+
+
+@pilot_test
+async def test_choosing_a_reaction_moves_the_cursor_there():
+    app = make_app(T_K=600.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("3")
+        table = _main(app).query_one(ReactionsView)
+        first = table._rows[0]
+        assert first.kind == "eutectic"
+        await pilot.press("enter")
+        cursor = _main(app).exploration.cursor
+        assert (cursor.temperature_K, cursor.x_B) == (first.temperature_K, first.x_B)
+        assert _main(app).query_one(ContentSwitcher).current == "diagram"
+
+
+@pilot_test
+async def test_help_lists_every_key_and_the_cautions():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=(100, 60)) as pilot:
+        await pilot.press("question_mark")
+        assert isinstance(app.screen, HelpScreen)
+        text = screen_text(app)
+        for use in MAIN_KEYS:
+            assert use.description[:30] in text
+        assert "Lead is toxic" in text                       # the system's own safety note
+        assert GENERAL_CAUTIONS[-1][:40] in text             # computed values are estimates
+        await pilot.press("escape")
+        assert not isinstance(app.screen, HelpScreen)
+
+
+@pilot_test
+async def test_system_picker_lists_sources_and_narrows_by_typing():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("s")
+        assert isinstance(app.screen, SystemPicker)
+        options = app.screen.query_one(OptionList)
+        assert options.option_count >= 1
+        assert "Massalski" in screen_text(app) or "fitted" in screen_text(app)
+        await pilot.press(*"no-such-alloy")
+        assert options.option_count == 0
+        await pilot.press("escape")
+        assert not isinstance(app.screen, SystemPicker)
+        assert _main(app).exploration.system.name == "pb-sn"
