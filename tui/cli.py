@@ -15,6 +15,7 @@ from .errors import report
 
 #: Subcommand name -> module under ladle.tui.commands.
 COMMANDS = {
+    "check": "check",
     "point": "point",
     "systems": "systems",
     "melt": "melt",

@@ -1,0 +1,218 @@
+"""The model's value of each measured fact of a system file, beside the reference value.
+
+Used by `ladle check` (the `[[check]]` list, with tolerances) and at the end of `ladle fit` (the
+`[[measured]]` list, with uncertainties). Every value is the model's stable equilibrium:
+
+- melting: the pure element's melting temperature in this system (K);
+- invariant: the model's three-phase reaction of the same kind, with the named phases, nearest
+  in temperature (from the mapped diagram); its temperature (K) and each named phase's
+  composition (at%). A "congruent" fact is matched to the diagram's congruent points. A reaction
+  the model does not have is reported as missing (the diagram's topology is wrong), never as a
+  large difference;
+- liquidus, solidus: solved directly at the stated composition (engine/measure_boundaries.py);
+- boundary: the composition (at%) of `phase` on its stable tie-line to `partner` at the stated
+  temperature, solved by Newton's method in the isothermal section.
+
+Temperatures in K, compositions in at% of the system's second element (100 x mole fraction).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
+from .polynomials import TemperatureOutOfRange
+from .system import Fact
+from .units import mass_from_mole
+
+#: Spread keys of a fact: the temperature's, and a composition's (per phase, else common).
+_K = "K"
+_AT = "at"
+
+
+@dataclass(frozen=True)
+class Comparison:
+    """One compared number: `quantity` ("temperature", "x(liquid)", ...) in `unit` ("K" or
+    "at%"), the reference (measured) value, the model's value (None where the model has none)
+    and the spread: the tolerance of a check or the standard uncertainty of a measurement."""
+
+    quantity: str
+    unit: str
+    reference: float
+    model: float | None
+    spread: float | None
+
+    @property
+    def difference(self) -> float | None:
+        """model - reference, in `unit`."""
+        return None if self.model is None else self.model - self.reference
+
+    @property
+    def within(self) -> bool:
+        """True where the model lies within the spread of the reference."""
+        d = self.difference
+        return d is not None and self.spread is not None and abs(d) <= self.spread
+
+
+@dataclass(frozen=True)
+class FactOutcome:
+    """The model against one fact: its comparisons and, where the model lacks what the fact
+    describes (a reaction, a tie-line, a boundary) or the fact cannot be judged, a one-line
+    `problem`. `model_reaction` is the kind of the model's matched reaction (invariants)."""
+
+    fact: Fact
+    comparisons: tuple[Comparison, ...]
+    problem: str | None = None
+    model_reaction: str | None = None
+
+    @property
+    def passed(self) -> bool:
+        return self.problem is None and bool(self.comparisons) and all(c.within for c in self.comparisons)
+
+
+def describe(fact: Fact, system) -> str:
+    """A short label of a fact for tables: 'eutectic of liquid + fcc + bct', 'liquidus at 8.414
+    at% Sn (5 wt%)', 'fcc next to liquid at 500.00 K'."""
+    if fact.kind == "melting":
+        return f"melting of {fact.element}"
+    if fact.kind == "invariant":
+        return f"{fact.reaction} of {' + '.join(fact.phase_x_B) or 'any phases'}"
+    if fact.kind in ("liquidus", "solidus"):
+        b = system.elements[1]
+        w = float(mass_from_mole(np.array([1.0 - fact.x_B, fact.x_B]), system.molar_mass)[1])
+        return f"{fact.kind} at {100 * fact.x_B:.4g} at% {b} ({100 * w:.4g} wt%)"
+    return f"{fact.phase} next to {fact.partner} at {fact.temperature_K:.2f} K"
+
+
+def temperature_spread(fact: Fact) -> float | None:
+    return fact.spread.get(_K)
+
+
+def composition_spread(fact: Fact, phase: str | None = None) -> float | None:
+    """The composition spread (at%) of the fact, for `phase` where given per phase."""
+    if phase is not None and f"{_AT}:{phase}" in fact.spread:
+        return fact.spread[f"{_AT}:{phase}"]
+    return fact.spread.get(_AT)
+
+
+def outside_coverage(system, fact: Fact) -> str | None:
+    """A one-line reason where the fact lies outside the compositions or temperatures the model
+    covers; None where it is inside."""
+    lo, hi = system.covers
+    b = system.elements[1]
+    xs = [fact.x_B] if fact.x_B is not None else []
+    for x in xs:
+        if not lo - 1e-12 <= x <= hi + 1e-12:
+            return (f"{100 * x:.4g} at% {b} lies outside the range this model covers "
+                    f"({100 * lo:g}-{100 * hi:g} at% {b})")
+    t_lo, t_hi = system.model_range_K
+    if fact.kind != "melting" and not t_lo <= fact.temperature_K <= t_hi:
+        return f"{fact.temperature_K:.2f} K lies outside the range of this system's models ({t_lo:g}-{t_hi:g} K)"
+    return None
+
+
+def _temperature(fact: Fact, model: float | None) -> Comparison:
+    return Comparison("temperature", "K", fact.temperature_K, model, temperature_spread(fact))
+
+
+def _melting(system, fact: Fact) -> FactOutcome:
+    T = system.melting_points.get(fact.element)
+    if T is None:
+        return FactOutcome(fact, (_temperature(fact, None),), f"pure {fact.element} does not melt in this model's range")
+    return FactOutcome(fact, (_temperature(fact, float(T)),))
+
+
+def _boundary_T(system, fact: Fact) -> FactOutcome:
+    try:
+        found = boundary_temperature(system, fact.x_B, fact.kind)
+    except BoundaryNotFound as e:
+        return FactOutcome(fact, (_temperature(fact, None),), str(e))
+    return FactOutcome(fact, (_temperature(fact, found.temperature_K),))
+
+
+def _tie_line(system, fact: Fact) -> FactOutcome:
+    tie = tie_line_between(system, fact.temperature_K, fact.phase, fact.partner, fact.x_B)
+    quantity = f"x({fact.phase})"
+    if tie is None:
+        return FactOutcome(fact, (Comparison(quantity, "at%", 100 * fact.x_B, None, composition_spread(fact)),),
+                           f"the model has no {fact.phase} + {fact.partner} tie-line at {fact.temperature_K:.2f} K")
+    x = phase_end(tie, fact.phase, fact.x_B)
+    return FactOutcome(fact, (Comparison(quantity, "at%", 100 * fact.x_B, 100 * x, composition_spread(fact)),))
+
+
+def reaction_candidates(diagram, reaction: str) -> list[tuple[str, float, tuple[tuple[str, float], ...]]]:
+    """(kind, T in K, ((phase, x_B), ...)) of every reaction of the mapped diagram that a fact of
+    `reaction` may be compared with: the congruent points for "congruent", else the invariants."""
+    if reaction == "congruent":
+        return [("congruent", s.temperature_K, tuple((n, s.x_B) for n in s.phases))
+                for s in diagram.special_points if s.kind == "congruent"]
+    return [(i.kind, i.temperature_K, tuple(i.phases)) for i in diagram.invariants]
+
+
+def match_reaction(candidates, fact: Fact):
+    """The candidate nearest in temperature that has the fact's named phases, preferring the
+    fact's kind: (candidate, kind_matches), or (None, False) where none has those phases."""
+    named = set(fact.phase_x_B)
+    with_phases = [c for c in candidates if named <= {n for n, _x in c[2]}]
+    same = [c for c in with_phases if c[0] == fact.reaction]
+    pool = same or with_phases
+    if not pool:
+        return None, False
+    return min(pool, key=lambda c: abs(c[1] - fact.temperature_K)), bool(same)
+
+
+def reaction_comparisons(fact: Fact, T: float | None, phases) -> tuple[Comparison, ...]:
+    """Temperature and each named phase's composition against the model's (T, ((phase, x_B), ...))."""
+    out = [_temperature(fact, T)]
+    for name, x_ref in fact.phase_x_B.items():
+        xs = [x for n, x in phases if n == name]
+        model = 100 * min(xs, key=lambda x: abs(x - x_ref)) if xs else None
+        out.append(Comparison(f"x({name})", "at%", 100 * x_ref, model, composition_spread(fact, name)))
+    return tuple(out)
+
+
+def _invariant(system, fact: Fact, diagram) -> FactOutcome:
+    cand, same_kind = match_reaction(reaction_candidates(diagram, fact.reaction), fact)
+    names = " + ".join(fact.phase_x_B) or "any phases"
+    if cand is None:
+        return FactOutcome(fact, reaction_comparisons(fact, None, ()),
+                           f"the model has no {fact.reaction} of {names} (its diagram has a different topology)")
+    kind, T, phases = cand
+    problem = None
+    if not same_kind:
+        problem = f"the model's reaction of {names} at {T:.2f} K is a {kind}, not a {fact.reaction}"
+    return FactOutcome(fact, reaction_comparisons(fact, T, phases), problem, kind)
+
+
+def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
+    """The model against one fact. `diagram` is the system's mapped diagram (needed for
+    invariant facts; mapped on demand when not given)."""
+    reason = outside_coverage(system, fact)
+    if reason is not None:
+        return FactOutcome(fact, (), reason)
+    try:
+        if fact.kind == "melting":
+            return _melting(system, fact)
+        if fact.kind in ("liquidus", "solidus"):
+            return _boundary_T(system, fact)
+        if fact.kind == "boundary":
+            return _tie_line(system, fact)
+        if diagram is None:
+            from .diagram import map_diagram
+
+            diagram = map_diagram(system)
+        return _invariant(system, fact, diagram)
+    except TemperatureOutOfRange as e:
+        return FactOutcome(fact, (), str(e))
+
+
+def evaluate_all(system, facts: list[Fact]) -> list[FactOutcome]:
+    """The model against every fact of a list (the diagram is mapped once, if any fact needs it)."""
+    diagram = None
+    if any(f.kind == "invariant" for f in facts):
+        from .diagram import map_diagram
+
+        diagram = map_diagram(system)
+    return [evaluate(system, f, diagram) for f in facts]
