@@ -64,6 +64,15 @@ def boundary_name(phase: str, partner: str) -> str:
     return "solvus"
 
 
+def crossing_name(above: tuple[str, ...], below: tuple[str, ...]) -> str:
+    """The trade's name of a boundary crossed on cooling from the phases `above` to `below`."""
+    if above == (LIQUID,):
+        return "liquidus"
+    if LIQUID in above and LIQUID not in below:
+        return "solidus"
+    return "solvus"
+
+
 class Exploration:
     """One system being explored: cursor, window, units and cached engine answers."""
 
@@ -109,8 +118,9 @@ class Exploration:
         return Reading(cursor, result, melt, problem, self._nearest_boundary(melt))
 
     def _nearest_boundary(self, melt) -> Boundary | None:
-        """The boundary closest to the cursor on screen: across (at this temperature) or along
-        the temperature axis (liquidus, solidus, invariant lines at this composition)."""
+        """The boundary closest to the cursor on screen: across (the tie-line ends at this
+        temperature) or along the temperature axis (every boundary crossed at this
+        composition, from the melt range)."""
         cursor, window = self.cursor, self.window
         t_span = max(window.T_high - window.T_low, 1e-9)
         x_span = max(window.x_high - window.x_low, 1e-12)
@@ -122,19 +132,14 @@ class Exploration:
                 if abs(dx) > 1e-12:
                     candidates.append((abs(dx) / x_span, Boundary(
                         boundary_name(own, other), "right" if dx > 0 else "left", x_B=x_edge)))
-        if melt is not None:
-            for name, T_edge in (("liquidus", melt.liquidus_K), ("solidus", melt.solidus_K)):
-                dT = T_edge - cursor.temperature_K
-                if abs(dT) > 1e-9:
-                    candidates.append((abs(dT) / t_span, Boundary(
-                        name, "up" if dT > 0 else "down", temperature_K=T_edge)))
-        for invariant in self.diagram.invariants:
-            xs = [x for _, x in invariant.phases]
-            dT = invariant.temperature_K - cursor.temperature_K
-            if min(xs) <= cursor.x_B <= max(xs) and abs(dT) > 1e-9:
+        invariants = {round(inv.temperature_K, 6): inv.kind for inv in self.diagram.invariants}
+        for crossing in (melt.crossings if melt is not None else ()):
+            dT = crossing.temperature_K - cursor.temperature_K
+            if abs(dT) > 1e-9:
+                name = invariants.get(round(crossing.temperature_K, 6)) or crossing_name(
+                    crossing.above, crossing.below)
                 candidates.append((abs(dT) / t_span, Boundary(
-                    invariant.kind, "up" if dT > 0 else "down",
-                    temperature_K=invariant.temperature_K)))
+                    name, "up" if dT > 0 else "down", temperature_K=crossing.temperature_K)))
         return min(candidates, key=lambda pair: pair[0])[1] if candidates else None
 
     # -- what the keys do -----------------------------------------------------------------

@@ -20,35 +20,35 @@ class ReactionRow:
 
     kind: str
     temperature: str
-    phases: str          # one line per phase: "liquid  61.9"
+    phases: str          # one line per phase: "liquid  61.9" (percent of B, shown unit)
     temperature_K: float
     x_B: float
 
 
 def reaction_rows(diagram, elements: tuple[str, str], scales: Scales,
                   glyphs: Glyphs) -> list[ReactionRow]:
-    """Rows for every invariant (hottest first), then the pure elements' melting points.
+    """Rows for every invariant reaction, then every special point (melting of a pure element,
+    congruent melting, critical point, transition), each group hottest first.
 
     The cursor target of an invariant is the liquid's composition where a liquid takes part,
     else the middle phase's.
     """
     unit = glyphs.temperature_unit(scales.temperature_unit)
-    comp = f"{scales.composition_unit}%"
     rows = []
     for invariant in sorted(diagram.invariants, key=lambda inv: -inv.temperature_K):
         phases = sorted(invariant.phases, key=lambda item: item[1])
         liquid = [x for name, x in phases if name == LIQUID]
         target = liquid[0] if liquid else phases[len(phases) // 2][1]
-        text = "\n".join(f"{name:<10}{percent(scales.shown_fraction(x)):>7} {comp}"
+        text = "\n".join(f"{name:<9}{percent(scales.shown_fraction(x)):>6}"
                          for name, x in phases)
         rows.append(ReactionRow(invariant.kind, _temperature(invariant.temperature_K, scales, unit),
                                 text, invariant.temperature_K, target))
-    for index, element in enumerate(elements):
-        T_K = diagram.melting_points.get(element)
-        if T_K:
-            x_B = float(index)
-            rows.append(ReactionRow(f"melting {element}", _temperature(T_K, scales, unit),
-                                    f"pure {element}", T_K, x_B))
+    for point in sorted(diagram.special_points, key=lambda sp: -sp.temperature_K):
+        where = (f"pure {elements[int(round(point.x_B))]}" if point.x_B in (0.0, 1.0) else
+                 f"at {percent(scales.shown_fraction(point.x_B))}")
+        rows.append(ReactionRow(point.kind, _temperature(point.temperature_K, scales, unit),
+                                " / ".join(point.phases) + "\n" + where,
+                                point.temperature_K, point.x_B))
     return rows
 
 

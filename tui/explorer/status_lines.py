@@ -64,11 +64,12 @@ def melt_lines(reading: Reading, scales: Scales, glyphs: Glyphs) -> list[Line]:
     if melt is None:
         return lines + [("note", f" {reading.melt_problem or 'no answer'}")]
     unit = glyphs.temperature_unit(scales.temperature_unit)
-    rows = (("liquidus", scales.shown_temperature(melt.liquidus_K)),
-            ("solidus", scales.shown_temperature(melt.solidus_K)),
-            ("freezing range", scales.shown_temperature_difference(melt.freezing_range_K)))
-    return lines + [("value", f" {label:<15}{format_temperature_value(value):>6} {unit}")
-                    for label, value in rows]
+    rows = (("liquidus", melt.liquidus_K, scales.shown_temperature),
+            ("solidus", melt.solidus_K, scales.shown_temperature),
+            ("freezing range", melt.freezing_range_K, scales.shown_temperature_difference))
+    return lines + [("value", f" {label:<15}{format_temperature_value(convert(value)):>6} {unit}")
+                    if value is not None else ("note", f" {label:<15}{'not in range':>12}")
+                    for label, value, convert in rows]
 
 
 def boundary_lines(reading: Reading, element_B: str, scales: Scales,
@@ -86,7 +87,7 @@ def boundary_lines(reading: Reading, element_B: str, scales: Scales,
             nearest.temperature_K - reading.cursor.temperature_K))
         where = (f"{format_temperature_value(scales.shown_temperature(nearest.temperature_K))}"
                  f" {unit}")
-        how_far = f"{format_temperature_value(gap)} {unit} {nearest.direction}"
+        how_far = f"{format_temperature_value(gap, 1 if gap < 10 else 0)} {unit} {nearest.direction}"
     else:
         comp = scales.composition_unit
         shown = scales.shown_composition(nearest.x_B)

@@ -39,6 +39,13 @@ MIN_WIDTH, MIN_HEIGHT = 80, 24
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
 
 
+def safety_headline(safety: str) -> str:
+    """The first clause of a system's safety note ("Lead is toxic"), for the status pane."""
+    for stop in (":", ";", "."):
+        safety = safety.split(stop)[0]
+    return safety.strip()
+
+
 class ExploreScreen(Screen[None]):
     """Keys move the cursor; the status pane and the plot follow."""
 
@@ -113,13 +120,14 @@ class ExploreScreen(Screen[None]):
                               f"{format_step(steps.composition)} {e.scales.composition_unit}%"
                               " (shift /10)"))
         if e.system.safety:
-            lines.append(("warning", f" ! {e.system.safety}"))
+            lines.append(("warning", f" ! {safety_headline(e.system.safety)} (? help)"))
         return lines
 
     def _fill_reactions(self) -> None:
         e = self.exploration
         self.query_one(ReactionsView).show_rows(
-            reaction_rows(e.diagram, e.system.elements, e.scales, self.glyphs))
+            reaction_rows(e.diagram, e.system.elements, e.scales, self.glyphs),
+            f"{e.system.elements[1]} {e.scales.composition_unit}%")
 
     # -- key actions -----------------------------------------------------------------------
 

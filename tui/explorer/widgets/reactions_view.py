@@ -22,12 +22,10 @@ class ReactionsView(DataTable):
         super().__init__(id=id, cursor_type="row", zebra_stripes=False)
         self._rows: list[ReactionRow] = []
 
-    def on_mount(self) -> None:
-        self.add_columns("reaction", "temperature", "phases and compositions")
-
-    def show_rows(self, rows: list[ReactionRow]) -> None:
-        """Replace the table's rows."""
-        self.clear()
+    def show_rows(self, rows: list[ReactionRow], composition_heading: str) -> None:
+        """Replace the table's rows; `composition_heading` names the unit, e.g. "Sn wt%"."""
+        self.clear(columns=True)
+        self.add_columns("reaction", "T", f"phases, {composition_heading}")
         self._rows = rows
         for row in rows:
             self.add_row(row.kind, row.temperature, row.phases, height=row.phases.count("\n") + 1)
