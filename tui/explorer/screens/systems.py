@@ -49,7 +49,7 @@ class SystemPicker(ModalScreen[str | None]):
             options.highlighted = 0
 
     def _describe(self, choice: SystemChoice) -> Text:
-        width = max(self.size.width - 10, 30)
+        width = max(self.app.size.width * 9 // 10 - 8, 30)   # the list's inner width
         mark = "*" if choice.name == self.current else " "
         text = Text(f"{mark} {choice.name}", style="bold")
         if choice.problem:
