@@ -8,16 +8,12 @@ result is checked against every phase on a fine grid afterwards.
 
 from __future__ import annotations
 
-import numpy as np
 
-
-def lower_hull(x: np.ndarray, g: np.ndarray) -> np.ndarray:
-    """Indices of the lower-hull vertices of the points (x, g); x must be strictly increasing.
+def lower_hull(xs: list[float], gs: list[float]) -> list[int]:
+    """Indices of the lower-hull vertices of the points (xs, gs); xs strictly increasing.
 
     Collinear middle points are dropped.
     """
-    xs = x.tolist()
-    gs = g.tolist()
     chain: list[int] = []
     for i, (xi, gi) in enumerate(zip(xs, gs)):
         while len(chain) >= 2:
@@ -27,4 +23,4 @@ def lower_hull(x: np.ndarray, g: np.ndarray) -> np.ndarray:
             else:
                 break
         chain.append(i)
-    return np.array(chain)
+    return chain

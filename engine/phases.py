@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -33,25 +34,41 @@ def _log(x):
     return math.log(x) if isinstance(x, float) else np.log(x)
 
 
-def redlich_kister(L: np.ndarray, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
-    """Excess Gibbs energy xA xB sum_k L[k] (xA - xB)^k and its derivatives along x_B.
+def redlich_kister(L: list[float], xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+    """Excess Gibbs energy xA xB sum_k L[k] (xA - xB)^k (J/mol).
 
-    Returns (G, dG/dxB, d2G/dxB2, d3G/dxB3, mu_A, mu_B), all J/mol, with the partial molar
-    excess energies mu_A and mu_B in closed form (no G - x dG/dx subtraction).
     O. Redlich and A.T. Kister, Ind. Eng. Chem. 40 (1948) 345-348.
     """
+    d = xa - xb
+    total = 0.0 * d
+    for Lk in reversed(L):          # Horner in (xA - xB)
+        total = total * d + Lk
+    return xa * xb * total
+
+
+def redlich_kister_derivatives(L: list[float], xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
+    """dG/dxB, d2G/dxB2 and d3G/dxB3 (J/mol) of the Redlich-Kister excess along x_B."""
     p = xa * xb
     d = xa - xb
-    g = g1 = g2 = g3 = mua = mub = 0.0 * p
+    g1 = g2 = g3 = 0.0 * p
     for k, Lk in enumerate(L):
         if Lk == 0.0:
             continue
-        dk = d**k
-        g = g + Lk * p * dk
-        g1 = g1 + Lk * (d ** (k + 1) - 2 * k * p * (d ** (k - 1) if k >= 1 else 0.0))
-        g2 = g2 + Lk * (-2 * (2 * k + 1) * dk + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0))
+        g1 = g1 + Lk * (d ** (k + 1) - (2 * k * p * d ** (k - 1) if k >= 1 else 0.0))
+        g2 = g2 + Lk * (-2 * (2 * k + 1) * d**k + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0))
         g3 = g3 + Lk * ((12 * k * k * d ** (k - 1) if k >= 1 else 0.0)
                         - (8 * k * (k - 1) * (k - 2) * p * d ** (k - 3) if k >= 3 else 0.0))
+    return g1, g2, g3
+
+
+def redlich_kister_potentials(L: list[float], xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Partial molar excess energies (mu_A, mu_B) in closed form (J/mol), without the
+    G - x dG/dx subtraction that loses digits."""
+    d = xa - xb
+    mua = mub = 0.0 * d
+    for k, Lk in enumerate(L):
+        if Lk == 0.0:
+            continue
         if k == 0:
             mua = mua + Lk * xb * xb
             mub = mub + Lk * xa * xa
@@ -59,7 +76,7 @@ def redlich_kister(L: np.ndarray, xa: np.ndarray, xb: np.ndarray) -> tuple[np.nd
             dkm1 = d ** (k - 1)
             mua = mua + Lk * xb * xb * dkm1 * ((2 * k + 1) * xa - xb)
             mub = mub + Lk * xa * xa * dkm1 * (xa - (2 * k + 1) * xb)
-    return g, g1, g2, g3, mua, mub
+    return mua, mub
 
 
 @dataclass(frozen=True)
@@ -107,15 +124,19 @@ class SolutionAtT:
         self.phase = phase
         self.T = T
         self.RT = R * T
-        self.g0 = np.array([f.value(T) for f in phase.endmembers])
-        self.g0_dT = np.array([f.derivative(T) for f in phase.endmembers])
-        self.g0a, self.g0b = float(self.g0[0]), float(self.g0[1])
+        self.g0a, self.g0b = (f.value(T) for f in phase.endmembers)
         self.L = [f.value(T) for f in phase.interactions]
-        self.L_dT = [f.derivative(T) for f in phase.interactions]
         mag = phase.magnetic
         if mag is not None:
             self.curie_L = [f.value(T) for f in mag.curie_L]
             self.moment_L = [f.value(T) for f in mag.moment_L]
+
+    @cached_property
+    def _temperature_derivatives(self) -> tuple[tuple[float, float], list[float]]:
+        """(dG_A/dT, dG_B/dT) of the pure elements and dL[k]/dT, J/(mol K)."""
+        ph = self.phase
+        da, db = (f.derivative(self.T) for f in ph.endmembers)
+        return (da, db), [f.derivative(self.T) for f in ph.interactions]
 
     # --- magnetic part -------------------------------------------------------------------
     def _magnetic(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
@@ -146,15 +167,15 @@ class SolutionAtT:
 
     @staticmethod
     def _linear_plus_excess(pure: np.ndarray, L: np.ndarray, xa: np.ndarray, xb: np.ndarray):
-        g, g1, g2, _g3, _a, _b = redlich_kister(L, xa, xb)
-        return xa * pure[0] + xb * pure[1] + g, pure[1] - pure[0] + g1, g2
+        g1, g2, _g3 = redlich_kister_derivatives(L, xa, xb)
+        return xa * pure[0] + xb * pure[1] + redlich_kister(L, xa, xb), pure[1] - pure[0] + g1, g2
 
     # --- public ------------------------------------------------------------------------
     def gibbs(self, xa: np.ndarray, xb: np.ndarray, mixing: np.ndarray | None = None) -> np.ndarray:
         """Molar Gibbs energy G (J/mol) at mole fractions (xa, xb).
 
         `mixing` may hold xa ln xa + xb ln xb already computed for these compositions."""
-        g_ex = redlich_kister(self.L, xa, xb)[0]
+        g_ex = redlich_kister(self.L, xa, xb)
         if mixing is None:
             mixing = _xlogx(xa) + _xlogx(xb)
         g = xa * self.g0a + xb * self.g0b + self.RT * mixing + g_ex
@@ -164,7 +185,7 @@ class SolutionAtT:
 
     def potentials(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Chemical potentials (mu_A, mu_B), J/mol, computed term by term."""
-        _g, _g1, _g2, _g3, mua, mub = redlich_kister(self.L, xa, xb)
+        mua, mub = redlich_kister_potentials(self.L, xa, xb)
         mua = self.g0a + self.RT * _log(xa) + mua
         mub = self.g0b + self.RT * _log(xb) + mub
         if self.phase.magnetic is not None:
@@ -175,7 +196,7 @@ class SolutionAtT:
 
     def slope(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """dG/dx_B = mu_B - mu_A (J/mol), computed without subtracting two large numbers."""
-        g1 = redlich_kister(self.L, xa, xb)[1]
+        g1 = redlich_kister_derivatives(self.L, xa, xb)[0]
         s = self.g0b - self.g0a + self.RT * (_log(xb) - _log(xa)) + g1
         if self.phase.magnetic is not None:
             s = s + self._magnetic(xa, xb)[1]
@@ -183,7 +204,7 @@ class SolutionAtT:
 
     def scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """xA xB d2G/dx_B2 (J/mol): the curvature in the variable y = ln(xB/xA)."""
-        g2 = redlich_kister(self.L, xa, xb)[2]
+        g2 = redlich_kister_derivatives(self.L, xa, xb)[1]
         if self.phase.magnetic is not None:
             g2 = g2 + self._magnetic(xa, xb)[2]
         return self.RT + xa * xb * g2
@@ -194,13 +215,14 @@ class SolutionAtT:
 
     def third_derivative(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """d3G/dx_B3 (J/mol) without the magnetic term (used only to locate curvature minima)."""
-        g3 = redlich_kister(self.L, xa, xb)[3]
+        g3 = redlich_kister_derivatives(self.L, xa, xb)[2]
         return self.RT * (xb - xa) / (xa * xb) ** 2 + g3
 
     def gibbs_dT(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """dG/dT = -S (J/(mol K)) at fixed composition."""
-        g_ex_dT = redlich_kister(self.L_dT, xa, xb)[0]
-        s = xa * self.g0_dT[0] + xb * self.g0_dT[1] + R * (_xlogx(xa) + _xlogx(xb)) + g_ex_dT
+        (da, db), L_dT = self._temperature_derivatives
+        g_ex_dT = redlich_kister(L_dT, xa, xb)
+        s = xa * da + xb * db + R * (_xlogx(xa) + _xlogx(xb)) + g_ex_dT
         if self.phase.magnetic is not None:
             s = s + self._magnetic(xa, xb)[3]
         return s

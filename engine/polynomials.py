@@ -21,18 +21,32 @@ class TemperatureOutOfRange(ValueError):
     """Raised when a temperature lies outside every piece of a function."""
 
 
-def _terms(T: float) -> tuple[float, ...]:
-    lnT = math.log(T)
-    return (1.0, T, T * lnT, T * T, T**3, 1.0 / T, T**7, T**-9)
+def _evaluate(row: tuple[float, ...], T: float) -> float:
+    a, b, c, d, e, f, g, h = row
+    v = a + T * (b + T * (d + T * e))
+    if c:
+        v += c * T * math.log(T)
+    if f:
+        v += f / T
+    if g:
+        v += g * T**7
+    if h:
+        v += h / T**9
+    return v
 
 
-def _terms_dT(T: float) -> tuple[float, ...]:
-    lnT = math.log(T)
-    return (0.0, 1.0, lnT + 1.0, 2.0 * T, 3.0 * T * T, -1.0 / (T * T), 7.0 * T**6, -9.0 * T**-10)
-
-
-def _dot(row: tuple[float, ...], terms: tuple[float, ...]) -> float:
-    return sum(c * t for c, t in zip(row, terms) if c)
+def _evaluate_dT(row: tuple[float, ...], T: float) -> float:
+    _a, b, c, d, e, f, g, h = row
+    v = b + T * (2.0 * d + 3.0 * e * T)
+    if c:
+        v += c * (math.log(T) + 1.0)
+    if f:
+        v -= f / (T * T)
+    if g:
+        v += 7.0 * g * T**6
+    if h:
+        v -= 9.0 * h / T**10
+    return v
 
 
 @dataclass(frozen=True, eq=False)
@@ -69,16 +83,19 @@ class TemperatureFunction:
             raise TemperatureOutOfRange(
                 f"temperature {T:.2f} K is outside the model's range {self.bounds[0]:g}-{self.bounds[-1]:g} K"
             )
+        rows = self._rows
+        if len(rows) == 1:
+            return rows[0]
         i = bisect_left(self.bounds, T, 1) - 1
-        return self._rows[min(max(i, 0), len(self._rows) - 1)]
+        return rows[min(max(i, 0), len(rows) - 1)]
 
     def value(self, T: float) -> float:
         """G(T) in J/mol."""
-        return _dot(self._row(T), _terms(T))
+        return _evaluate(self._row(T), T)
 
     def derivative(self, T: float) -> float:
         """dG/dT in J/(mol K)."""
-        return _dot(self._row(T), _terms_dT(T))
+        return _evaluate_dT(self._row(T), T)
 
     def plus(self, other: "TemperatureFunction") -> "TemperatureFunction":
         """The sum of two functions, valid where both are (pieces split where either changes)."""

@@ -13,6 +13,7 @@ the whole section, with every tie-line, is built on demand and cached.
 from __future__ import annotations
 
 import math
+from bisect import bisect_left
 from dataclasses import dataclass
 from functools import cached_property
 
@@ -86,30 +87,27 @@ class Section:
 
     # --- hull --------------------------------------------------------------------------------
     def _hull_points(self, extra: list[tuple[int, float, float, float]]):
-        """Sorted candidate points: grid envelope, compounds and `extra` (phase, xA, xB, G);
-        returns (xb, xa, g, phase index, grid index (-1 if none), hull vertex indices)."""
+        """Candidate points sorted by x_B: the coarse grid envelope, compounds and `extra`
+        (phase, xA, xB, G). Returns Python lists (xb, xa, g, phase index, grid index or -1)
+        and the hull vertex indices."""
         coarse = self.G[:, ::HULL_STRIDE]
         which = np.argmin(coarse, axis=0)
-        g = coarse[which, np.arange(coarse.shape[1])]
-        xb, xa = self.xb[::HULL_STRIDE], self.xa[::HULL_STRIDE]
-        phase = which
-        grid = np.arange(len(xb))
+        g = coarse[which, np.arange(coarse.shape[1])].tolist()
+        xb, xa = self.xb[::HULL_STRIDE].tolist(), self.xa[::HULL_STRIDE].tolist()
+        phase = which.tolist()
+        grid = list(range(len(xb)))
         add = [(self.n_sol + k, cx[0], cx[1], cg) for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g))] + extra
-        if add:
-            a_ph = np.array([a[0] for a in add])
-            a_xa = np.array([a[1] for a in add])
-            a_xb = np.array([a[2] for a in add])
-            a_g = np.array([a[3] for a in add])
-            xb = np.concatenate([xb, a_xb])
-            xa = np.concatenate([xa, a_xa])
-            g = np.concatenate([g, a_g])
-            phase = np.concatenate([phase, a_ph])
-            grid = np.concatenate([grid, -np.ones(len(add), dtype=int)])
-            order = np.lexsort((g, xb))
-            xb, xa, g, phase, grid = xb[order], xa[order], g[order], phase[order], grid[order]
-            first = np.ones(len(xb), dtype=bool)
-            first[1:] = xb[1:] != xb[:-1]        # keep the lowest point at equal x_B
-            xb, xa, g, phase, grid = xb[first], xa[first], g[first], phase[first], grid[first]
+        for ph, pa, pb, pg in add:
+            i = bisect_left(xb, pb)
+            if i < len(xb) and xb[i] == pb:       # keep the lower of two points at one x_B
+                if pg < g[i]:
+                    xa[i], g[i], phase[i], grid[i] = pa, pg, ph, -1
+                continue
+            xb.insert(i, pb)
+            xa.insert(i, pa)
+            g.insert(i, pg)
+            phase.insert(i, ph)
+            grid.insert(i, -1)
         return xb, xa, g, phase, grid, lower_hull(xb, g)
 
     def _is_single_phase_edge(self, pts, i: int, j: int) -> bool:
@@ -168,28 +166,34 @@ class Section:
         dip next to it is that touching point and is not refined again."""
         mu_a, mu_b = mu
         found = []
-        line = mu_a * self.xa + mu_b * self.xb
-        df = self.G - line
-        margin = 2e-3 * self.RT
-        for s, row in enumerate(df):
-            interior = (row[1:-1] <= row[:-2]) & (row[1:-1] <= row[2:]) & (row[1:-1] < margin)
-            dips = np.flatnonzero(interior) + 1
-            for ph, xt in touching:
-                if ph == s:
-                    near = int(np.searchsorted(self.xb, xt))
-                    dips = dips[np.abs(dips - near) > 1]
-            for i in dips:
-                r = lowest_against_line(self.solutions[s], mu_b - mu_a, (float(self.xa[i]), float(self.xb[i])))
-                xa_, xb_ = r.x[0]
-                g = float(self.solutions[s].gibbs(xa_, xb_))
-                d = g - (mu_a * xa_ + mu_b * xb_)
-                if not r.converged or d > row[i]:
-                    xa_, xb_, g, d = float(self.xa[i]), float(self.xb[i]), float(self.G[s, i]), float(row[i])
-                if d < -skip_tol:
-                    found.append((s, xa_, xb_, g))
-            for end in (0, len(row) - 1):
-                if row[end] < -skip_tol:
-                    found.append((s, float(self.xa[end]), float(self.xb[end]), float(self.G[s, end])))
+        df = self.G - (mu_a * self.xa + mu_b * self.xb)
+        inner = df[:, 1:-1]
+        dips = (inner <= df[:, :-2]) & (inner <= df[:, 2:]) & (inner < 2e-3 * self.RT)
+        near = {(ph, int(np.searchsorted(self.xb, xt))) for ph, xt in touching}
+        for s, i in zip(*(a.tolist() for a in np.nonzero(dips))):
+            i += 1
+            if (s, i) in near or (s, i - 1) in near or (s, i + 1) in near:
+                continue
+            sol = self.solutions[s]
+            xa_i, xb_i = float(self.xa[i]), float(self.xb[i])
+            # a dip whose grid value lies above the most a smooth curve can sag between
+            # neighbouring grid points (G'' h^2 / 8, doubled) cannot reach below the line
+            h = 0.5 * float(self.xb[i + 1] - self.xb[i - 1])
+            sag = float(sol.curvature(xa_i, xb_i)) * h * h / 4.0
+            d_grid = float(df[s, i])
+            if d_grid > max(sag, 0.0) + skip_tol:
+                continue
+            r = lowest_against_line(sol, mu_b - mu_a, (xa_i, xb_i))
+            xa_, xb_ = r.x[0]
+            g = float(sol.gibbs(xa_, xb_))
+            d = g - (mu_a * xa_ + mu_b * xb_)
+            if not r.converged or d > d_grid:
+                xa_, xb_, g, d = xa_i, xb_i, float(self.G[s, i]), d_grid
+            if d < -skip_tol:
+                found.append((s, xa_, xb_, g))
+        for end in (0, df.shape[1] - 1):
+            for s in np.flatnonzero(df[:, end] < -skip_tol).tolist():
+                found.append((s, float(self.xa[end]), float(self.xb[end]), float(self.G[s, end])))
         for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g)):
             if cg - (mu_a * cx[0] + mu_b * cx[1]) < -skip_tol:
                 found.append((self.n_sol + k, cx[0], cx[1], cg))
@@ -311,7 +315,7 @@ class Section:
         if ties:
             owners = [ties[0].phases[0]] + [t.phases[1] for t in ties]
         else:
-            owners = [self.names[int(self._points[3][0])]]
+            owners = [self.names[self._points[3][0]]]
         for (lo, hi), owner in zip(zip(bounds[::2], bounds[1::2]), owners):
             p = index[owner]
             if p >= self.n_sol:
@@ -370,10 +374,9 @@ class Section:
     def _fast_state(self, xa0: float, xb0: float) -> LocalState | None:
         pts = self._points
         xb, _xa, _g, phase, _grid, hull = pts
-        hx = xb[hull]
-        k = int(np.searchsorted(hx, xb0))
+        k = bisect_left([xb[h] for h in hull], xb0)
         k = min(max(k, 1), len(hull) - 1)
-        i, j = int(hull[k - 1]), int(hull[k])
+        i, j = hull[k - 1], hull[k]
         if xb0 == xb[j] and phase[j] >= self.n_sol:
             return None
         if self._is_single_phase_edge(pts, i, j):

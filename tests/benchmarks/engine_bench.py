@@ -1,0 +1,257 @@
+"""Engine benchmark (run on demand, not collected by pytest):
+
+    python tests/benchmarks/engine_bench.py [--json] [--points 1000] [--compared 60]
+
+Measures, on a four-phase synthetic system (liquid, fcc, bcc and a compound AB):
+- point_us: median microseconds per point equilibrium over varied (T, x) points, after warm-up,
+  every point at a new temperature (no cached section);
+- vs_dense_grid: how many times faster than a brute-force lower hull over 1e6 grid points per
+  phase at the same points, and max_dx_vs_dense_grid, the largest composition difference;
+- vs_generic_minimizer: how many times faster than scipy.optimize SLSQP over phase amounts and
+  compositions from several starts, how often that minimizer missed the global minimum, and
+  whether it ever found a lower Gibbs energy than the engine;
+- diagram_ms: median wall time to map the whole diagram of the largest shipped system (cold);
+- melt_ms: median time of one melt range on that system (diagram already mapped).
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import statistics
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+from ladle.engine import equilibrate, load_system
+from ladle.engine.catalog import list_systems
+from ladle.engine.diagram import map_diagram
+from ladle.engine.equilibrium import SectionCache
+from ladle.engine import equilibrium as equilibrium_module
+from ladle.engine.melt import melt_range
+
+# An invented four-phase system: two terminal solutions, a liquid and a congruent compound.
+BENCH_SYSTEM = """
+elements = ["A", "B"]
+molar_mass = { A = 60.0, B = 40.0 }
+source = "invented for the benchmark"
+[phase.liquid]
+model = "solution"
+G.A = [ { upto = 4000, a = 14000, b = -10.0 } ]
+G.B = [ { upto = 4000, a = 11000, b = -10.0 } ]
+L = [ { a = -12000, b = 2.0 }, { a = 3000 } ]
+[phase.fcc]
+model = "solution"
+G.A = [ { upto = 4000 } ]
+G.B = [ { upto = 4000, a = 5000 } ]
+L = [ { a = 18000, b = -3.0 } ]
+[phase.bcc]
+model = "solution"
+G.A = [ { upto = 4000, a = 6000 } ]
+G.B = [ { upto = 4000 } ]
+L = [ { a = 16000 } ]
+[phase.AB]
+model = "compound"
+formula = "AB"
+reference = { A = "fcc", B = "bcc" }
+formation = { a = -9000, b = 0.5 }
+"""
+T_RANGE = (700.0, 1500.0)
+
+
+def bench_system():
+    folder = Path(tempfile.mkdtemp())
+    path = folder / "bench.toml"
+    path.write_text(BENCH_SYSTEM)
+    return load_system(path)
+
+
+def points(n: int, seed: int = 7) -> list[tuple[float, float]]:
+    rng = np.random.default_rng(seed)
+    return [(float(rng.uniform(*T_RANGE)), float(rng.uniform(0.001, 0.999))) for _ in range(n)]
+
+
+def fresh_sections() -> None:
+    equilibrium_module._sections = SectionCache()
+
+
+def time_engine(system, pts) -> tuple[list[float], list]:
+    times, results = [], []
+    for T, x in pts[:50]:           # warm-up
+        equilibrate(system, T + 0.123, x)
+    for T, x in pts:
+        t0 = time.perf_counter()
+        r = equilibrate(system, T, x)
+        times.append(time.perf_counter() - t0)
+        results.append(r)
+    return times, results
+
+
+def dense_hull_point(system, T: float, x0: float, n: int = 1_000_000):
+    """Brute force: lower hull of every phase sampled on n uniform points, evaluated at x0 by
+    maximising the Legendre transform min_i(g_i - m x_i) + m x0 over the slope m (golden
+    section). Returns (G at x0 in J/mol, x_B of the hull vertices bounding x0)."""
+    xb = np.linspace(0.0, 1.0, n)
+    xa = 1.0 - xb
+    xa[-1] = 0.0
+    mixing = np.zeros(n)
+    mixing[1:-1] = xa[1:-1] * np.log(xa[1:-1]) + xb[1:-1] * np.log(xb[1:-1])
+    g = np.min([p.at(T).gibbs(xa, xb, mixing) for p in system.solutions.values()], axis=0)
+    cx = np.array([c.x[1] for c in system.compounds.values()])
+    cg = np.array([c.gibbs(T) for c in system.compounds.values()])
+    X = np.concatenate([xb, cx])
+    G = np.concatenate([g, cg])
+    slopes = np.diff(g) / np.diff(xb)
+    lo, hi = float(slopes.min()) - 1.0, float(slopes.max()) + 1.0
+
+    def phi(m: float) -> float:
+        return float(np.min(G - m * X)) + m * x0
+
+    ratio = (np.sqrt(5) - 1) / 2
+    a, b = lo, hi
+    c, d = b - ratio * (b - a), a + ratio * (b - a)
+    fc, fd = phi(c), phi(d)
+    for _ in range(90):
+        if fc > fd:
+            b, d, fd = d, c, fc
+            c = b - ratio * (b - a)
+            fc = phi(c)
+        else:
+            a, c, fc = c, d, fd
+            d = a + ratio * (b - a)
+            fd = phi(d)
+    m = 0.5 * (a + b)
+    # just below and above the optimal slope the minimiser is the left and the right vertex
+    left = X[int(np.argmin(G - (m - 1e-3) * X))]
+    right = X[int(np.argmin(G - (m + 1e-3) * X))]
+    return phi(m), (float(min(left, right)), float(max(left, right)))
+
+
+def generic_minimizer(system, T: float, x0: float, starts: int, rng) -> float:
+    """Lowest G (J/mol) SLSQP finds over amounts and compositions of every phase."""
+    from scipy.optimize import minimize
+
+    sols = [p.at(T) for p in system.solutions.values()]
+    comps = list(system.compounds.values())
+    cg = np.array([c.gibbs(T) for c in comps])
+    cx = np.array([c.x[1] for c in comps])
+    ns, nc = len(sols), len(comps)
+
+    def total(v):
+        n, x = v[:ns], v[ns:2 * ns]
+        g = sum(n[i] * float(sols[i].gibbs(1.0 - x[i], x[i])) for i in range(ns))
+        return g + float(v[2 * ns:] @ cg)
+
+    cons = [{"type": "eq", "fun": lambda v: np.sum(v[:ns]) + np.sum(v[2 * ns:]) - 1.0},
+            {"type": "eq", "fun": lambda v: v[:ns] @ v[ns:2 * ns] + v[2 * ns:] @ cx - x0}]
+    bounds = [(0, 1)] * ns + [(1e-12, 1 - 1e-12)] * ns + [(0, 1)] * nc
+    best = np.inf
+    for _ in range(starts):
+        n0 = rng.dirichlet(np.ones(ns + nc))
+        v0 = np.concatenate([n0[:ns], rng.uniform(0.01, 0.99, ns), n0[ns:]])
+        r = minimize(total, v0, method="SLSQP", bounds=bounds, constraints=cons, options={"maxiter": 300, "ftol": 1e-12})
+        if r.success:
+            best = min(best, r.fun)
+    return best
+
+
+def largest_shipped():
+    from ladle.engine import find_system
+
+    entries = [e for e in list_systems() if e.origin == "shipped"]
+    systems = []
+    for e in entries:
+        try:
+            systems.append(find_system(str(e.path)))
+        except Exception:   # an unreadable file is reported by `ladle systems`, not here
+            continue
+    return max(systems, key=lambda s: (len(s.phases), len(s.compounds))) if systems else None
+
+
+def main() -> int:
+    ap = argparse.ArgumentParser()
+    ap.add_argument("--json", action="store_true")
+    ap.add_argument("--points", type=int, default=1000)
+    ap.add_argument("--compared", type=int, default=60, help="points compared with the slow methods")
+    ap.add_argument("--starts", type=int, default=5, help="SLSQP starts per point")
+    args = ap.parse_args()
+
+    system = bench_system()
+    pts = points(args.points)
+    fresh_sections()
+    times, results = time_engine(system, pts)
+    point_us = 1e6 * statistics.median(times)
+
+    sub = pts[:args.compared]
+    dense_times, max_dx, dense_misses = [], 0.0, 0
+    for (T, x), r in zip(sub, results):
+        t0 = time.perf_counter()
+        g_dense, bounds = dense_hull_point(system, T, x)
+        dense_times.append(time.perf_counter() - t0)
+        if r.gibbs_J_per_mol > g_dense + 1e-6:
+            dense_misses += 1
+        engine_x = sorted(float(p.x[1]) for p in r.phases)
+        if len(engine_x) == 2:
+            max_dx = max(max_dx, abs(engine_x[0] - bounds[0]), abs(engine_x[1] - bounds[1]))
+
+    rng = np.random.default_rng(11)
+    slsqp_times, missed, lower = [], 0, 0
+    for (T, x), r in zip(sub, results):
+        t0 = time.perf_counter()
+        g = generic_minimizer(system, T, x, args.starts, rng)
+        slsqp_times.append(time.perf_counter() - t0)
+        if g > r.gibbs_J_per_mol + 1e-3:
+            missed += 1
+        if g < r.gibbs_J_per_mol - 1e-6:
+            lower += 1
+
+    shipped = largest_shipped()
+    diagram_ms = melt_ms = None
+    name = None
+    if shipped is not None:
+        name = shipped.name
+        runs = []
+        for _ in range(5):
+            fresh_sections()
+            map_diagram.cache_clear()
+            s = load_system(shipped.path, name=shipped.name)
+            t0 = time.perf_counter()
+            map_diagram(s)
+            runs.append(time.perf_counter() - t0)
+        diagram_ms = 1e3 * statistics.median(runs)
+        lo, hi = s.covers
+        melts = []
+        for x in np.linspace(lo + 0.02 * (hi - lo), hi - 0.02 * (hi - lo), 15):
+            t0 = time.perf_counter()
+            melt_range(s, float(x))
+            melts.append(time.perf_counter() - t0)
+        melt_ms = 1e3 * statistics.median(melts)
+
+    out = {
+        "point_us": round(point_us, 1),
+        "points": len(pts),
+        "vs_dense_grid": round(statistics.median(dense_times) / statistics.median(times[:len(sub)]), 1),
+        "max_dx_vs_dense_grid": max_dx,
+        "dense_grid_found_lower_G": dense_misses,
+        "vs_generic_minimizer": round(statistics.median(slsqp_times) / statistics.median(times[:len(sub)]), 1),
+        "generic_minimizer_missed_global_minimum": f"{missed}/{len(sub)}",
+        "generic_minimizer_found_lower_G": lower,
+        "points_compared": len(sub),
+        "diagram_system": name,
+        "diagram_ms": None if diagram_ms is None else round(diagram_ms, 1),
+        "melt_ms": None if melt_ms is None else round(melt_ms, 2),
+        "targets": {"point_us": 300, "vs_dense_grid": 200, "max_dx_vs_dense_grid": 1e-6, "diagram_ms": 300, "melt_ms": 20},
+    }
+    if args.json:
+        print(json.dumps(out))
+    else:
+        for k, v in out.items():
+            print(f"{k:40} {v}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
