@@ -191,10 +191,11 @@ def _covariance(jac: np.ndarray, scales: np.ndarray, paths: list[ParameterPath])
     return cov * np.outer(scales, scales), undetermined
 
 
-def fit(system, progress: Progress | None = None, max_evaluations: int | None = None) -> FitResult:
+def fit(system, progress: Progress | None = None, max_steps: int | None = None) -> FitResult:
     """Fit the coefficients named in `system.fit_free` to `system.measured`.
 
-    `progress(evaluations, chi_square)` is called after every evaluation of the model.
+    `progress(evaluations, chi_square)` is called after every evaluation of the model;
+    `max_steps` bounds the optimiser's trial points (default: scipy's 100 per coefficient).
     Raises FitInputError for a file that cannot be fitted as written.
     """
     from scipy.optimize import least_squares
@@ -212,7 +213,7 @@ def fit(system, progress: Progress | None = None, max_evaluations: int | None = 
         t, why = objective.lost[0]
         raise FitInputError(f"{system.path.name}: measured[{t.fact.index}] ({describe(t.fact, system)}): "
                             f"the starting model has none: {why}; change the starting values")
-    result = least_squares(objective, x0, method="trf", diff_step=DIFF_STEP, max_nfev=max_evaluations)
+    result = least_squares(objective, x0, method="trf", diff_step=DIFF_STEP, max_nfev=max_steps)
     r = objective(result.x)
     lost = list(objective.lost)
     document = copy.deepcopy(objective.document(result.x))

@@ -16,6 +16,7 @@ from .errors import report
 #: Subcommand name -> module under ladle.tui.commands.
 COMMANDS = {
     "check": "check",
+    "fit": "fit",
     "point": "point",
     "systems": "systems",
     "melt": "melt",

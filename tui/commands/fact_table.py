@@ -1,0 +1,77 @@
+"""Tables of measured facts against the model, shared by `ladle check` and `ladle fit`."""
+
+from __future__ import annotations
+
+from .. import quote
+
+
+def _value(value: float | None, unit: str) -> str:
+    if value is None:
+        return "none"
+    if unit == "K":
+        return quote.temperature(value, "C", 2)
+    return f"{value:.2f} at%"
+
+
+def _signed(value: float | None, unit: str) -> str:
+    return "-" if value is None else f"{value:+.2f} {unit}"
+
+
+def _spread(value: float | None, unit: str) -> str:
+    return "none given" if value is None else f"{value:g} {unit}"
+
+
+def comparison_rows(outcome, spread_name: str, weighted: bool) -> list[str]:
+    """Aligned rows of one fact's comparisons: quantity, model, reference, difference, spread and
+    either the weighted residual (`weighted`, for fits) or whether it lies within the spread."""
+    last = "residual" if weighted else ""
+    rows = [("quantity", "model", "reference", "difference", spread_name, last)]
+    for c in outcome.comparisons:
+        if weighted:
+            mark = f"{c.difference / c.spread:+.2f}" if c.model is not None and c.spread else "-"
+        else:
+            mark = "ok" if c.within else ("no" if c.model is not None else "")
+        rows.append((c.quantity, _value(c.model, c.unit), _value(c.reference, c.unit),
+                     _signed(c.difference, c.unit), _spread(c.spread, c.unit), mark))
+    widths = [max(len(r[i]) for r in rows) for i in range(6)]
+    return ["  ".join(f"{cell:<{w}}" if i == 0 else f"{cell:>{w}}" for i, (cell, w) in enumerate(zip(r, widths))).rstrip()
+            for r in rows]
+
+
+def fact_blocks(system, outcomes, list_name: str, spread_name: str, weighted: bool) -> list[str]:
+    """One block per fact: verdict (PASS/FAIL for checks; LOST for a measurement the model does not
+    reproduce at all), label, problem, comparison rows and source."""
+    from ladle.engine.measure import describe
+
+    lines = []
+    for o in outcomes:
+        if weighted:   # a fit's measurements have uncertainties, not pass marks
+            verdict = "LOST" if o.problem else "    "
+        else:
+            verdict = "PASS" if o.passed else "FAIL"
+        kind = f" (model: {o.model_reaction})" if o.model_reaction and o.model_reaction != o.fact.reaction else ""
+        lines.append(f"{verdict}  {list_name}[{o.fact.index}]: {describe(o.fact, system)}{kind}")
+        if o.problem:
+            lines.append(f"      {o.problem}")
+        if o.comparisons:
+            lines += ["      " + r for r in comparison_rows(o, spread_name, weighted)]
+        lines.append(f"      source: {o.fact.source}")
+        lines.append("")
+    return lines
+
+
+UNITS_NOTE = "Temperatures in C; differences, tolerances and uncertainties in K (1 K = 1 C of difference) or at%."
+
+
+def outcome_json(system, outcome) -> dict:
+    """One fact's outcome as JSON (temperatures in K, compositions in at%)."""
+    from ladle.engine.measure import describe
+
+    f = outcome.fact
+    return {
+        "index": f.index, "kind": f.kind, "label": describe(f, system), "passed": outcome.passed,
+        "problem": outcome.problem, "model_reaction": outcome.model_reaction, "source": f.source,
+        "comparisons": [{"quantity": c.quantity, "unit": c.unit, "model": c.model, "reference": c.reference,
+                         "difference": c.difference, "spread": c.spread, "within": c.within}
+                        for c in outcome.comparisons],
+    }
