@@ -15,6 +15,7 @@ from textual_plotext import PlotextPlot
 from textual_plotext.plot import Plot
 
 from ..glyphs import Glyphs
+from .plot_text import styled_plot_text
 
 
 class CachedPlot(PlotextPlot):
@@ -45,6 +46,6 @@ class CachedPlot(PlotextPlot):
             plt.theme(self._get_plotext_theme_name(self.app.theme))
             if width > 8 and height > 4:
                 self.draw(plt, width, height)
-            self._built = Text.from_ansi(self.glyphs.plot_text(plt.build()))
+            self._built = styled_plot_text(self.glyphs.plot_text(plt.build()))
             self._built_key = key
         return self._built
