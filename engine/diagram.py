@@ -70,6 +70,16 @@ class _Track:
     points: list[tuple[float, float, float]] = field(default_factory=list)  # (T, xB left, xB right)
 
 
+@dataclass
+class _Event:
+    """A solved event: where closing tracks end and opening tracks start, and what it records."""
+
+    starts: list[tuple[float, float, float] | None]
+    ends: list[tuple[float, float, float] | None]
+    invariants: list[Invariant] = field(default_factory=list)
+    special: list[SpecialPoint] = field(default_factory=list)
+
+
 @dataclass(frozen=True)
 class _Level:
     T: float
@@ -172,25 +182,28 @@ class _Tracer:
 
     def _between(self, above: _Level, below: _Level, tracks: list[_Track], depth: int) -> list[_Track]:
         """Carry the open tracks (aligned with above.ties) down to `below`; returns the tracks
-        aligned with below.ties."""
+        aligned with below.ties. An interval whose changes are not each one solvable event is
+        split at its middle temperature."""
         ops = difflib.SequenceMatcher(a=above.pairs, b=below.pairs, autojunk=False).get_opcodes()
         events = [op for op in ops if op[0] != "equal"]
-        if events and above.T - below.T > MIN_INTERVAL_K:
-            if not all(self._simple(above.ties[i1:i2], below.ties[j1:j2]) for _, i1, i2, j1, j2 in events) or depth == 0:
+        solved = {op: self._solve_event(above, below, list(above.ties[op[1]:op[2]]), list(below.ties[op[3]:op[4]]))
+                  for op in events} if depth > 0 else {}
+        if events and (depth == 0 or any(v is None for v in solved.values())):
+            if above.T - below.T > MIN_INTERVAL_K and depth < 40:
                 mid = _level(self.system, 0.5 * (above.T + below.T))
-                if depth < 40 and (mid.pairs != above.pairs or mid.pairs != below.pairs or not events):
-                    upper = self._between(above, mid, tracks, depth + 1)
-                    return self._between(mid, below, upper, depth + 1)
+                upper = self._between(above, mid, tracks, depth + 1)
+                return self._between(mid, below, upper, depth + 1)
         new: list[_Track] = []
-        for tag, i1, i2, j1, j2 in ops:
+        for op in ops:
+            tag, i1, i2, j1, j2 = op
             if tag == "equal":
                 for k in range(i2 - i1):
                     tr = tracks[i1 + k]
-                    tie = below.ties[j1 + k]
-                    tr.points.append((below.T, *tie.x_B))
+                    tr.points.append((below.T, *below.ties[j1 + k].x_B))
                     new.append(tr)
             else:
-                new += self._event(above, below, tracks[i1:i2], list(above.ties[i1:i2]), list(below.ties[j1:j2]))
+                new += self._commit(above, below, tracks[i1:i2], list(above.ties[i1:i2]), list(below.ties[j1:j2]),
+                                    solved.get(op))
         return new
 
     @staticmethod
@@ -208,39 +221,47 @@ class _Tracer:
         return False
 
     # --- events -------------------------------------------------------------------------------------
-    def _event(self, above: _Level, below: _Level, closing: list[_Track], up: list[TieLine], down: list[TieLine]) -> list[_Track]:
-        """Solve the event between two levels; close the tracks of `up`, open tracks for `down`."""
-        starts: list[tuple[float, float, float] | None] = [None] * len(down)
-        ends: list[tuple[float, float, float] | None] = [None] * len(up)
-        T0 = 0.5 * (above.T + below.T)
-        solved = False
-        if self._simple(tuple(up), tuple(down)):
-            if len(up) + len(down) == 3:
-                solved = self._invariant(above.T, below.T, up, down, starts, ends, T0)
-            elif len(up) + len(down) == 1:
-                solved = self._appearing(above.T, below.T, (up or down)[0], starts, ends, bool(down))
-            else:
-                solved = self._congruent(above.T, below.T, up or down, starts, ends, bool(down))
-        if not solved and above.T - below.T > 10 * MIN_INTERVAL_K:
-            names = ", ".join("+".join(t.phases) for t in up + down)
-            self.warnings.append(f"unresolved change of fields ({names}) between {below.T:.2f} and {above.T:.2f} K")
-        for tr, end in zip(closing, ends):
+    def _solve_event(self, above: _Level, below: _Level, up: list[TieLine], down: list[TieLine]) -> "_Event | None":
+        """The event that turns the tie-lines `up` into `down` between two levels, solved; None
+        if it is not one recognisable event or its solution falls outside the interval."""
+        if not self._simple(tuple(up), tuple(down)):
+            return None
+        ev = _Event([None] * len(down), [None] * len(up))
+        if len(up) + len(down) == 3:
+            ok = self._invariant(above.T, below.T, up, down, ev)
+        elif len(up) + len(down) == 1:
+            ok = self._appearing(above.T, below.T, (up or down)[0], ev, bool(down))
+        else:
+            ok = self._congruent(above.T, below.T, up or down, ev, bool(down))
+        return ev if ok else None
+
+    def _commit(self, above: _Level, below: _Level, closing: list[_Track], up: list[TieLine], down: list[TieLine],
+                event: "_Event | None") -> list[_Track]:
+        """Close the tracks of `up` and open tracks for `down`, joined at the event's points."""
+        if event is None:
+            event = _Event([None] * len(down), [None] * len(up))
+            if above.T - below.T > 10 * MIN_INTERVAL_K:
+                names = ", ".join("+".join(t.phases) for t in up + down)
+                self.warnings.append(f"unresolved change of fields ({names}) between {below.T:.2f} and {above.T:.2f} K")
+        self.invariants += event.invariants
+        self.special += event.special
+        for tr, end in zip(closing, event.ends):
             if end is not None:
                 tr.points.append(end)
             self.finished.append(tr)
         opened = []
-        for tie, start in zip(down, starts):
+        for tie, start in zip(down, event.starts):
             tr = _Track(tie.phases, [start] if start is not None else [])
             tr.points.append((below.T, *tie.x_B))
             opened.append(tr)
         return opened
 
-    def _invariant(self, T_up, T_down, up, down, starts, ends, T0) -> bool:
+    def _invariant(self, T_up, T_down, up, down, ev: "_Event") -> bool:
         middle_forms = len(down) == 2
         two = down if middle_forms else up
         (p, q), (_, r) = two[0].phases, two[1].phases
         entries = [(p, two[0].x_B[0]), (q, 0.5 * (two[0].x_B[1] + two[1].x_B[0])), (r, two[1].x_B[1])]
-        sol = three_phase(self.system, entries, T0)
+        sol = three_phase(self.system, entries, 0.5 * (T_up + T_down))
         if not sol.converged or not (T_down - 1e-6 <= sol.temperature_K <= T_up + 1e-6):
             return False
         T = sol.temperature_K
@@ -248,18 +269,18 @@ class _Tracer:
         if not xs[0] <= xs[1] <= xs[2]:
             return False
         kind = classify(q, (p, r), middle_forms)
-        self.invariants.append(Invariant(kind, T, tuple((ph[0], ph[2]) for ph in sol.phases)))
+        ev.invariants.append(Invariant(kind, T, tuple((ph[0], ph[2]) for ph in sol.phases)))
         pair_points = [(T, xs[0], xs[1]), (T, xs[1], xs[2])]
         single = (T, xs[0], xs[2])
         if middle_forms:
-            starts[0], starts[1] = pair_points
-            ends[0] = single
+            ev.starts[0], ev.starts[1] = pair_points
+            ev.ends[0] = single
         else:
-            ends[0], ends[1] = pair_points
-            starts[0] = single
+            ev.ends[0], ev.ends[1] = pair_points
+            ev.starts[0] = single
         return True
 
-    def _appearing(self, T_up, T_down, tie: TieLine, starts, ends, forms_on_cooling: bool) -> bool:
+    def _appearing(self, T_up, T_down, tie: TieLine, ev: "_Event", forms_on_cooling: bool) -> bool:
         """One field appears or vanishes: a pure-element transition at an end, or a critical point."""
         xl, xr = tie.x_B
         p, q = tie.phases
@@ -274,16 +295,16 @@ class _Tracer:
             if sol.converged and T_down - 1.0 <= sol.temperature_K <= T_up + 1.0:
                 xc = sol.phases[0][2]
                 point = (sol.temperature_K, xc, xc)
-                self.special.append(SpecialPoint("critical", sol.temperature_K, xc, (p,)))
+                ev.special.append(SpecialPoint("critical", sol.temperature_K, xc, (p,)))
         if point is None:
             return False
         if forms_on_cooling:
-            starts[0] = point
+            ev.starts[0] = point
         else:
-            ends[0] = point
+            ev.ends[0] = point
         return True
 
-    def _congruent(self, T_up, T_down, pair: list[TieLine], starts, ends, forms_on_cooling: bool) -> bool:
+    def _congruent(self, T_up, T_down, pair: list[TieLine], ev: "_Event", forms_on_cooling: bool) -> bool:
         """Two fields meet at one composition: a congruently melting compound or solution."""
         outer, middle = pair[0].phases[0], pair[0].phases[1]
         mid_phase = self.system.phases[middle]
@@ -299,8 +320,8 @@ class _Tracer:
         if sol is None:
             return False
         T, x = sol.temperature_K, sol.phases[0][2]
-        self.special.append(SpecialPoint("congruent", T, x, (outer, middle)))
-        target = starts if forms_on_cooling else ends
+        ev.special.append(SpecialPoint("congruent", T, x, (outer, middle)))
+        target = ev.starts if forms_on_cooling else ev.ends
         target[0] = target[1] = (T, x, x)
         return True
 
