@@ -87,3 +87,33 @@ async def test_points_outside_the_system_are_refused():
         problem = str(app.screen_stack[0].query_one("#point-problem").render())
         assert "3000 °C is outside this system's range" in problem
         assert _point(app) == (500.0, 0.5)
+
+
+def _number_after(label: str, text: str) -> float:
+    match = re.search(rf"{label}\s+(-?\d+(?:\.\d+)?)", text)
+    assert match, f"no {label} in the status pane:\n{text}"
+    return float(match.group(1))
+
+
+@pilot_test
+async def test_a_40_60_solder_reads_as_the_handbooks_say():
+    """Sn40 solder (40 wt% Sn, rest Pb) typed in at 185 C, just above the eutectic."""
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("g", *"185C Sn=40wt%", "enter")
+        text = status_text(app)
+        # ASTM B32 table of solder grades, grade Sn40: liquidus 238 C, solidus 183 C (the
+        # values in the shipped system's checks); a model estimate within 5 C is accepted.
+        assert _number_after("liquidus", text) == pytest.approx(238, abs=5)
+        assert _number_after("solidus", text) == pytest.approx(183, abs=1)
+        # T.B. Massalski (ed.), Binary Alloy Phase Diagrams, 2nd ed. (1990): the eutectic
+        # liquid holds 61.9 wt% Sn, the Pb-rich fcc solid about 18-19 wt% Sn at 183 C.
+        assert "fcc + liquid" in text
+        liquid = re.search(r"liquid\s+[\d.]+\s+[\d.]+\n\s+Sn ([\d.]+) wt%", text)
+        fcc = re.search(r"fcc\s+[\d.]+\s+[\d.]+\n\s+Sn ([\d.]+) wt%", text)
+        assert float(liquid.group(1)) == pytest.approx(61.9, abs=1.5)
+        assert float(fcc.group(1)) == pytest.approx(18.5, abs=2.0)
+        # Lever rule by hand with those handbook compositions: liquid share
+        # (40 - 18.5) / (61.9 - 18.5) = 49.5 % of the mass.
+        mass_liquid = re.search(r"liquid\s+([\d.]+)\s+[\d.]+", text)
+        assert float(mass_liquid.group(1)) == pytest.approx(49.5, abs=4.0)
