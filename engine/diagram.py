@@ -23,7 +23,8 @@ from .phases import CompoundPhase
 from .pure import pure_transitions
 from .section import TieLine
 from .special import classify, compound_congruent, critical_point, solution_congruent, three_phase
-from .tangent import common_tangent, tangent_to_point
+from .newton import newton
+from .tangent import common_tangent, fractions, logit, tangent_to_point
 
 #: Temperature levels of the initial scan.
 SCAN_LEVELS = 48
@@ -31,7 +32,7 @@ SCAN_LEVELS = 48
 MIN_INTERVAL_K = 1e-4
 #: A traced boundary is refined until linear interpolation between its points is this good (x_B).
 CURVE_TOLERANCE = 1.5e-3
-_MAX_REFINE_DEPTH = 5
+_MAX_REFINE_DEPTH = 7
 
 
 @dataclass(frozen=True)
@@ -336,16 +337,29 @@ class _Tracer:
         return TwoPhaseField(track.phases, arr[:, 0], arr[:, 1:])
 
     def _refine(self, phases: tuple[str, str], a, b, depth: int) -> list[tuple[float, float, float]]:
-        """Points strictly between a and b (T, x_left, x_right) needed for smooth curves."""
-        if depth >= _MAX_REFINE_DEPTH or b[0] - a[0] < 1e-3:
+        """Points strictly between a and b (T, x_left, x_right) needed for a smooth curve.
+
+        The midpoint is solved in temperature where the boundary is steep on the diagram and in
+        composition where it is flat (near critical and congruent points), so that the step
+        follows the curve either way."""
+        if depth >= _MAX_REFINE_DEPTH or (b[0] - a[0] < 1e-6 and max(abs(b[1] - a[1]), abs(b[2] - a[2])) < 1e-9):
             return []
-        Tm = 0.5 * (a[0] + b[0])
-        guess = (Tm, 0.5 * (a[1] + b[1]), 0.5 * (a[2] + b[2]))
-        exact = tie_line_at(self.system, phases, *guess)
+        lo, hi = self.system.temperature_range_K
+        t_scale = hi - lo
+        dT = (b[0] - a[0]) / t_scale
+        side = 0 if abs(b[1] - a[1]) >= abs(b[2] - a[2]) else 1
+        dx = abs(b[1 + side] - a[1 + side])
+        guess = (0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1]), 0.5 * (a[2] + b[2]))
+        exact = None
+        if dx > dT:
+            exact = tie_line_at_composition(self.system, phases, side, *guess)
         if exact is None:
+            exact = tie_line_at(self.system, phases, *guess)
+        if exact is None or not (a[0] - 1e-9 <= exact[0] <= b[0] + 1e-9):
             return []
-        if max(abs(exact[1] - guess[1]), abs(exact[2] - guess[2])) <= CURVE_TOLERANCE:
-            return [exact] if depth == 0 and b[0] - a[0] > 40.0 else []
+        deviation = max(abs(exact[0] - guess[0]) / t_scale, abs(exact[1] - guess[1]), abs(exact[2] - guess[2]))
+        if deviation <= CURVE_TOLERANCE:
+            return [exact] if depth == 0 and dT > 0.05 else []
         return self._refine(phases, a, exact, depth + 1) + [exact] + self._refine(phases, exact, b, depth + 1)
 
 
@@ -371,3 +385,51 @@ def tie_line_at(system, phases: tuple[str, str], T: float, xl: float, xr: float)
     if not r.converged or r.x[0][1] >= r.x[1][1]:
         return None
     return (T, r.x[0][1], r.x[1][1])
+
+
+def tie_line_at_composition(system, phases: tuple[str, str], side: int, T: float, xl: float, xr: float
+                            ) -> tuple[float, float, float] | None:
+    """The tie-line (T, x_B left, x_B right) of two phases whose `side` end (0 left, 1 right) has
+    the composition given in (xl, xr), with the temperature free: for boundaries that are flat
+    in temperature. T, xl, xr are the starting values (K, mole fractions)."""
+    names = list(phases)
+    fixed_phase, other_phase = (system.phases[names[side]], system.phases[names[1 - side]])
+    x_fixed, x_other = (xl, xr) if side == 0 else (xr, xl)
+    if isinstance(fixed_phase, CompoundPhase) or not 0.0 < x_fixed < 1.0:
+        return None
+
+    def mu(phase, x: float, temp: float) -> tuple[float, float]:
+        a, b = phase.at(temp).potentials(1.0 - x, x)
+        return float(a), float(b)
+
+    if isinstance(other_phase, CompoundPhase):
+        cx = other_phase.x
+
+        def residual(u: np.ndarray) -> np.ndarray:
+            ma, mb = mu(fixed_phase, x_fixed, u[0])
+            return np.array([cx[0] * ma + cx[1] * mb - other_phase.gibbs(u[0])])
+
+        r = newton(residual, np.array([T]), np.array([1e-3]), 1e-7, np.array([20.0]))
+        if not r.converged:
+            return None
+        x_other = float(cx[1])
+        T = float(r.x[0])
+    else:
+        if not 0.0 < x_other < 1.0:
+            return None
+
+        def residual(u: np.ndarray) -> np.ndarray:
+            xo = fractions(u[1])[1]
+            a1, b1 = mu(fixed_phase, x_fixed, u[0])
+            a2, b2 = mu(other_phase, xo, u[0])
+            return np.array([a1 - a2, b1 - b2])
+
+        r = newton(residual, np.array([T, logit(1.0 - x_other, x_other)]), np.array([1e-3, 1e-6]), 1e-7,
+                   np.array([20.0, 2.0]))
+        if not r.converged:
+            return None
+        T, x_other = float(r.x[0]), fractions(float(r.x[1]))[1]
+        if fixed_phase is other_phase and abs(x_other - x_fixed) < 1e-9:
+            return None
+    out = (T, x_fixed, x_other) if side == 0 else (T, x_other, x_fixed)
+    return out if out[1] < out[2] else None
