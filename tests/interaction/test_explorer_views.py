@@ -106,3 +106,14 @@ async def test_system_picker_lists_sources_and_narrows_by_typing():
         await pilot.press("escape")
         assert not isinstance(app.screen, SystemPicker)
         assert _main(app).exploration.system.name == "pb-sn"
+
+
+@pilot_test
+async def test_choosing_another_system_keeps_the_units_and_redraws():
+    app = make_app(T_K=500.0, x_B=0.5, temperature_unit="K")
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("s", *"cu-ni", "enter")
+        exploration = _main(app).exploration
+        assert exploration.system.name == "cu-ni"
+        assert exploration.scales.temperature_unit == "K"
+        assert "cu-ni" in screen_text(app) and "Ni " in status_text(app)
