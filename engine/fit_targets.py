@@ -15,7 +15,7 @@ from __future__ import annotations
 from abc import ABC, abstractmethod
 from dataclasses import dataclass
 
-from .measure import composition_spread, match_reaction, reaction_candidates, temperature_spread
+from .measure import composition_spread, match_reaction, reaction_candidates, reaction_name, temperature_spread
 from .measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
 from .phases import CompoundPhase
 from .polynomials import TemperatureOutOfRange
@@ -142,7 +142,7 @@ class ReactionTarget(Target):
         else:
             named = " + ".join(fact.phase_x_B) or "no phases"
             raise TargetInputError(
-                f"{_key(fact)}: the starting model has no {fact.reaction} of {named}; "
+                f"{_key(fact)}: the starting model has no {reaction_name(fact.reaction)} of {named}; "
                 + ("change the starting values so that it has one"
                    if fact.reaction == "congruent" or len(fact.phase_x_B) == 3
                    else "name all three phases with their compositions, or change the starting values"))
@@ -162,7 +162,7 @@ class ReactionTarget(Target):
     def _values(self, system) -> list[float]:
         r = self._solve(system)
         if r is None or not r.converged:
-            raise TargetLost(f"the {self.fact.reaction} of {' + '.join(n for n, _ in self.entries)} was not found "
+            raise TargetLost(f"the {reaction_name(self.fact.reaction)} of {' + '.join(n for n, _ in self.entries)} was not found "
                              f"near {self.T:.2f} K")
         self.T = r.temperature_K
         self.entries = [(name, xb) for name, _xa, xb in r.phases]

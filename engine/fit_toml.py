@@ -1,10 +1,10 @@
 """Writing a system document back to TOML (tomllib reads only), and writing files atomically.
 
 The writer covers what system files hold: tables, arrays of tables, inline tables and arrays,
-strings, integers, finite floats and booleans. Top-level tables, and tables holding tables,
-become [sections] (at the top level also tables holding lists, such as [fit]); the top-level lists of tables ([[check]], [[measured]]) become arrays of
-tables; everything else is written inline. Floats are written with Python's shortest repr, so
-tomllib reads back exactly the same numbers.
+strings, integers, finite floats and booleans. Tables holding tables or lists become [sections]
+([phase.liquid], [fit]); the top-level lists of tables ([[check]], [[measured]]) become arrays of
+tables; everything else is written inline ({ a = -5000, b = 1.5 }). Floats are written with
+Python's shortest repr, so tomllib reads back exactly the same numbers.
 """
 
 from __future__ import annotations
@@ -55,10 +55,9 @@ def value_text(v: Any) -> str:
     raise ValueError(f"cannot write a value of type {type(v).__name__} to a system file")
 
 
-def _is_section(v: Any, top: bool) -> bool:
-    """Tables holding tables are sections; at the top level also tables holding lists."""
-    kinds = (dict, list) if top else dict
-    return isinstance(v, dict) and any(isinstance(x, kinds) for x in v.values())
+def _is_section(v: Any) -> bool:
+    """Tables holding tables or lists are sections; tables of plain values are written inline."""
+    return isinstance(v, dict) and any(isinstance(x, (dict, list)) for x in v.values())
 
 
 def _is_table_array(v: Any) -> bool:
@@ -68,14 +67,14 @@ def _is_table_array(v: Any) -> bool:
 def _table(lines: list[str], name: str, table: dict) -> None:
     """Write `table` under the header `name` ("" for the top level)."""
     top = name == ""
-    simple = {k: v for k, v in table.items() if not _is_section(v, top) and not (top and _is_table_array(v))}
+    simple = {k: v for k, v in table.items() if not _is_section(v) and not (top and _is_table_array(v))}
     if name and (simple or not table):
         lines.append(f"\n[{name}]")
     for k, v in simple.items():
         lines.append(f"{_key(str(k))} = {value_text(v)}")
     for k, v in table.items():
         sub = f"{name}.{_key(str(k))}" if name else _key(str(k))
-        if _is_section(v, top):
+        if _is_section(v):
             _table(lines, sub, v)
         elif top and _is_table_array(v):
             for item in v:

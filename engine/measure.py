@@ -173,12 +173,17 @@ def reaction_comparisons(fact: Fact, T: float | None, phases) -> tuple[Compariso
     return tuple(out)
 
 
+def reaction_name(reaction: str) -> str:
+    """'eutectic', ..., 'congruent point' (for sentences)."""
+    return "congruent point" if reaction == "congruent" else reaction
+
+
 def _invariant(system, fact: Fact, diagram) -> FactOutcome:
     cand, same_kind = match_reaction(reaction_candidates(diagram, fact.reaction), fact)
     names = " + ".join(fact.phase_x_B) or "any phases"
     if cand is None:
         return FactOutcome(fact, reaction_comparisons(fact, None, ()),
-                           f"the model has no {fact.reaction} of {names} (its diagram has a different topology)")
+                           f"the model has no {reaction_name(fact.reaction)} of {names} (its diagram has a different topology)")
     kind, T, phases = cand
     problem = None
     if not same_kind:

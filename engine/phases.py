@@ -17,7 +17,7 @@ from functools import cached_property
 
 import numpy as np
 
-from .magnetic import hillert_jarl
+from .magnetic import hillert_jarl, where
 from .polynomials import TemperatureFunction
 from .units import GAS_CONSTANT as R
 
@@ -46,19 +46,23 @@ def redlich_kister(L: list[float], xa: np.ndarray, xb: np.ndarray) -> np.ndarray
     return xa * xb * total
 
 
-def redlich_kister_derivatives(L: list[float], xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
-    """dG/dxB, d2G/dxB2 and d3G/dxB3 (J/mol) of the Redlich-Kister excess along x_B."""
+def redlich_kister_derivative(L: list[float], xa: np.ndarray, xb: np.ndarray, order: int) -> np.ndarray:
+    """d^n G/dxB^n (n = order, 1 to 3; J/mol) of the Redlich-Kister excess along x_B."""
     p = xa * xb
     d = xa - xb
-    g1 = g2 = g3 = 0.0 * p
+    out = 0.0 * p
     for k, Lk in enumerate(L):
         if Lk == 0.0:
             continue
-        g1 = g1 + Lk * (d ** (k + 1) - (2 * k * p * d ** (k - 1) if k >= 1 else 0.0))
-        g2 = g2 + Lk * (-2 * (2 * k + 1) * d**k + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0))
-        g3 = g3 + Lk * ((12 * k * k * d ** (k - 1) if k >= 1 else 0.0)
-                        - (8 * k * (k - 1) * (k - 2) * p * d ** (k - 3) if k >= 3 else 0.0))
-    return g1, g2, g3
+        if order == 1:
+            term = d ** (k + 1) - (2 * k * p * d ** (k - 1) if k >= 1 else 0.0)
+        elif order == 2:
+            term = -2 * (2 * k + 1) * d**k + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0)
+        else:
+            term = ((12 * k * k * d ** (k - 1) if k >= 1 else 0.0)
+                    - (8 * k * (k - 1) * (k - 2) * p * d ** (k - 3) if k >= 3 else 0.0))
+        out = out + Lk * term
+    return out
 
 
 def redlich_kister_potentials(L: list[float], xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -139,20 +143,21 @@ class SolutionAtT:
         return (da, db), [f.derivative(self.T) for f in ph.interactions]
 
     # --- magnetic part -------------------------------------------------------------------
-    def _magnetic(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
-        """(G, dG/dx, d2G/dx2, dG/dT) of the magnetic term along x_B."""
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, ...]:
+        """(G, dG/dx, d2G/dx2, dG/dT) of the magnetic term along x_B (arrays, or floats); with
+        order 0 the composition derivatives are returned as zeros."""
         mag = self.phase.magnetic
-        tc, tc1, tc2 = self._linear_plus_excess(mag.curie_K, self.curie_L, xa, xb)
-        be, be1, be2 = self._linear_plus_excess(mag.moment, self.moment_L, xa, xb)
-        sign_tc = np.where(tc < 0.0, 1.0 / mag.antiferro_factor, 1.0)
-        sign_be = np.where(be < 0.0, 1.0 / mag.antiferro_factor, 1.0)
+        tc, tc1, tc2 = self._linear_plus_excess(mag.curie_K, self.curie_L, xa, xb, order)
+        be, be1, be2 = self._linear_plus_excess(mag.moment, self.moment_L, xa, xb, order)
+        sign_tc = where(tc < 0.0, 1.0 / mag.antiferro_factor, 1.0)
+        sign_be = where(be < 0.0, 1.0 / mag.antiferro_factor, 1.0)
         tc, tc1, tc2 = tc * sign_tc, tc1 * sign_tc, tc2 * sign_tc
         be, be1, be2 = be * sign_be, be1 * sign_be, be2 * sign_be
         active = tc > 1e-9
-        tc_safe = np.where(active, tc, 1.0)
-        tau = np.where(active, self.T / tc_safe, 1e9)
+        tc_safe = where(active, tc, 1.0)
+        tau = where(active, self.T / tc_safe, 1e9)
         f, f1, f2 = hillert_jarl(tau, mag.above_curie_fraction)
-        u = np.log1p(be)
+        u = _log(1.0 + be)
         u1 = be1 / (1.0 + be)
         u2 = be2 / (1.0 + be) - u1 * u1
         tau1 = -tau * tc1 / tc_safe
@@ -162,13 +167,16 @@ class SolutionAtT:
         g1 = RT * (u1 * f + u * f1 * tau1)
         g2 = RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
         g_dT = R * u * (f + tau * f1)
-        zero = np.zeros_like(g)
-        return tuple(np.where(active, v, zero) for v in (g, g1, g2, g_dT))
+        return tuple(where(active, v, 0.0 * v) for v in (g, g1, g2, g_dT))
 
     @staticmethod
-    def _linear_plus_excess(pure: np.ndarray, L: np.ndarray, xa: np.ndarray, xb: np.ndarray):
-        g1, g2, _g3 = redlich_kister_derivatives(L, xa, xb)
-        return xa * pure[0] + xb * pure[1] + redlich_kister(L, xa, xb), pure[1] - pure[0] + g1, g2
+    def _linear_plus_excess(pure: np.ndarray, L: list[float], xa: np.ndarray, xb: np.ndarray, order: int):
+        """The composition-dependent Tc or beta and, for order 2, its first two derivatives."""
+        value = xa * pure[0] + xb * pure[1] + redlich_kister(L, xa, xb)
+        if order == 0:
+            return value, 0.0, 0.0
+        return (value, pure[1] - pure[0] + redlich_kister_derivative(L, xa, xb, 1),
+                redlich_kister_derivative(L, xa, xb, 2))
 
     # --- public ------------------------------------------------------------------------
     def gibbs(self, xa: np.ndarray, xb: np.ndarray, mixing: np.ndarray | None = None) -> np.ndarray:
@@ -180,7 +188,7 @@ class SolutionAtT:
             mixing = _xlogx(xa) + _xlogx(xb)
         g = xa * self.g0a + xb * self.g0b + self.RT * mixing + g_ex
         if self.phase.magnetic is not None:
-            g = g + self._magnetic(xa, xb)[0]
+            g = g + self._magnetic(xa, xb, 0)[0]
         return g
 
     def potentials(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -196,7 +204,7 @@ class SolutionAtT:
 
     def slope(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """dG/dx_B = mu_B - mu_A (J/mol), computed without subtracting two large numbers."""
-        g1 = redlich_kister_derivatives(self.L, xa, xb)[0]
+        g1 = redlich_kister_derivative(self.L, xa, xb, 1)
         s = self.g0b - self.g0a + self.RT * (_log(xb) - _log(xa)) + g1
         if self.phase.magnetic is not None:
             s = s + self._magnetic(xa, xb)[1]
@@ -204,7 +212,7 @@ class SolutionAtT:
 
     def scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """xA xB d2G/dx_B2 (J/mol): the curvature in the variable y = ln(xB/xA)."""
-        g2 = redlich_kister_derivatives(self.L, xa, xb)[1]
+        g2 = redlich_kister_derivative(self.L, xa, xb, 2)
         if self.phase.magnetic is not None:
             g2 = g2 + self._magnetic(xa, xb)[2]
         return self.RT + xa * xb * g2
@@ -215,7 +223,7 @@ class SolutionAtT:
 
     def third_derivative(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """d3G/dx_B3 (J/mol) without the magnetic term (used only to locate curvature minima)."""
-        g3 = redlich_kister_derivatives(self.L, xa, xb)[2]
+        g3 = redlich_kister_derivative(self.L, xa, xb, 3)
         return self.RT * (xb - xa) / (xa * xb) ** 2 + g3
 
     def gibbs_dT(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
@@ -224,7 +232,7 @@ class SolutionAtT:
         g_ex_dT = redlich_kister(L_dT, xa, xb)
         s = xa * da + xb * db + R * (_xlogx(xa) + _xlogx(xb)) + g_ex_dT
         if self.phase.magnetic is not None:
-            s = s + self._magnetic(xa, xb)[3]
+            s = s + self._magnetic(xa, xb, 0)[3]
         return s
 
 

@@ -364,12 +364,14 @@ class Section:
         return LocalState(((self.names[phase], (xa0, xb0), 1.0),), (float(mu[0]), float(mu[1])), g, converged)
 
     def _two(self, tie: TieLine, xa0: float, xb0: float) -> LocalState:
+        """Lever rule on a tie-line; an alloy exactly at one end is that phase alone."""
         (_, xb1), (_, xb2) = tie.x
         width = xb2 - xb1
         f2 = (xb0 - xb1) / width
         f1 = (xb2 - xb0) / width
         g = tie.mu[0] * xa0 + tie.mu[1] * xb0
-        return LocalState(((tie.phases[0], tie.x[0], f1), (tie.phases[1], tie.x[1], f2)), tie.mu, g, tie.converged)
+        shares = tuple((name, x, f) for name, x, f in zip(tie.phases, tie.x, (f1, f2)) if f > 0.0)
+        return LocalState(shares, tie.mu, g, tie.converged)
 
     def _fast_state(self, xa0: float, xb0: float) -> LocalState | None:
         pts = self._points

@@ -1,0 +1,162 @@
+"""Equilibrium cooling of one alloy: the lever rule at every step.
+
+The path runs from the liquidus to the solidus of the alloy's melt range (engine/melt.py); every
+state on it is a point equilibrium of the engine (engine/equilibrium.py). Phase boundaries crossed
+on the way are states of their own, taken just above and just below, so that an invariant
+reaction shows as a plateau: its liquid freezes at one temperature. Temperatures in K,
+compositions as mole fraction of B, amounts as fractions of the alloy.
+"""
+
+from __future__ import annotations
+
+import math
+
+from .diagram import map_diagram
+from .equilibrium import PointEquilibrium, equilibrate
+from .melt import melt_range
+from .solidify_heat import State, released_between
+from .solidify_liquidus import LIQUID
+from .solidify_path import Arrest, Constituent, CoolingPath, PathError, PathStep, molar_mass_of, reaction_products
+
+#: States are taken this far (K) above and below each boundary crossed.
+EDGE_K = 1e-6
+#: A liquid fraction that drops by more than this across a boundary is a plateau.
+_PLATEAU = 1e-7
+#: Step (K) between states along the freezing range: at most this, at least _MIN_STEP_K.
+_MAX_STEP_K = 4.0
+_MIN_STEP_K = 0.5
+_STEPS = 60
+
+
+def _state(eq: PointEquilibrium) -> State:
+    return tuple((p.name, float(p.x[1]), p.amount_mol) for p in eq.phases)
+
+
+class EquilibriumCooling:
+    """The equilibrium (lever-rule) path of the alloy with mole fraction x_B of B."""
+
+    def __init__(self, system, x_B: float) -> None:
+        self.system = system
+        self.x_B = x_B
+        self.molar_mass = molar_mass_of(system, x_B)
+        mr = melt_range(system, x_B)
+        if mr.liquidus_K is None:
+            lo, hi = system.temperature_range_K
+            raise PathError(f"the alloy is not fully liquid at the top of the mapped window ({hi:.0f} K)")
+        self.liquidus_K = mr.liquidus_K
+        self.solidus_K = mr.solidus_K
+        bottom = mr.solidus_K if mr.solidus_K is not None else system.temperature_range_K[0]
+        self.events = [c.temperature_K for c in mr.crossings
+                       if LIQUID in c.above and bottom <= c.temperature_K < mr.liquidus_K]
+        self.bottom_K = bottom
+
+    # --- states ---------------------------------------------------------------------------------
+    def _equilibrium(self, T: float) -> PointEquilibrium:
+        return equilibrate(self.system, T, self.x_B)
+
+    def _step(self, T: float, eq: PointEquilibrium | None, heat: float = 0.0) -> PathStep:
+        if eq is None:                      # at the liquidus: all liquid
+            return PathStep(T, 0.0, 0.0, self.x_B, (LIQUID,), heat)
+        liquid = next((p for p in eq.phases if p.name == LIQUID), None)
+        f_mass = liquid.amount_mass if liquid is not None else 0.0
+        f_mol = liquid.amount_mol if liquid is not None else 0.0
+        solids = tuple(p.name for p in eq.phases if p.name != LIQUID)
+        phases = ((LIQUID,) if liquid is not None else ()) + solids
+        return PathStep(T, 1.0 - f_mass, 1.0 - f_mol, float(liquid.x[1]) if liquid is not None else None, phases, heat)
+
+    def state_at(self, T: float, below: bool = False) -> PathStep:
+        """The state at T (K); at a boundary the state just above it, or just below with `below`."""
+        if T > self.liquidus_K or (T == self.liquidus_K and not below):
+            return self._step(T, None)
+        if T in self.events:
+            T_eval = T - EDGE_K if below else T + EDGE_K
+            return self._step(T, self._equilibrium(T_eval))
+        return self._step(T, self._equilibrium(T))
+
+    def _temperatures(self) -> list[tuple[float, float | None]]:
+        """(temperature reported, temperature evaluated; None for all liquid), hot to cold."""
+        marks = [self.liquidus_K] + self.events
+        if self.solidus_K is None:
+            marks.append(self.bottom_K)
+        step = min(_MAX_STEP_K, max(_MIN_STEP_K, (self.liquidus_K - marks[-1]) / _STEPS))
+        out: list[tuple[float, float | None]] = [(self.liquidus_K, None)]
+        for hot, cold in zip(marks[:-1], marks[1:]):
+            n = max(1, math.ceil((hot - cold) / step))
+            out += [(hot - j * (hot - cold) / n,) * 2 for j in range(1, n)]
+            out += [(cold, cold + EDGE_K), (cold, cold - EDGE_K)] if cold in self.events else [(cold, cold)]
+        return out
+
+    # --- the record ---------------------------------------------------------------------------------
+    def path(self) -> CoolingPath:
+        """The whole path as a CoolingPath."""
+        system, M = self.system, self.molar_mass
+        steps: list[PathStep] = []
+        states: list[State] = []
+        heat = 0.0
+        arrests: list[Arrest] = []
+        names: dict[str, str] = {}          # solid -> constituent name
+        forms: list[tuple[str, float]] = []
+        last_eq = above_eq = None
+        eutectic: Constituent | None = None   # the liquid that left as a eutectic, if it did
+        plateau_kind = None
+        for T, T_eval in self._temperatures():
+            eq = None if T_eval is None else self._equilibrium(T_eval)
+            state: State = ((LIQUID, self.x_B, 1.0),) if eq is None else _state(eq)
+            step_heat = released_between(system, states[-1], state, steps[-1].temperature_K, T) / M if states else 0.0
+            heat += step_heat
+            step = self._step(T, eq, heat)
+            if steps and T == steps[-1].temperature_K and steps[-1].fraction_solid - step.fraction_solid < -_PLATEAU:
+                plateau_kind, solids = self._reaction_at(T)
+                products = reaction_products(system, solids)
+                arrests.append(Arrest(T, "plateau", f"{plateau_kind} plateau: {self._reaction_text(plateau_kind, products)}",
+                                      step_heat))
+                if LIQUID not in step.phases and self._liquid_in_middle(T):
+                    eutectic = Constituent(f"{plateau_kind} {products}", 1.0 - steps[-1].fraction_solid)
+                    above_eq = last_eq
+            for name in step.phases:
+                if name == LIQUID or name in names:
+                    continue
+                kind = self._reaction_at(T)[0] if names else "primary"
+                names[name] = f"{kind} {name}"
+                forms.append((name, T))
+                if kind != "primary" and not (arrests and arrests[-1].temperature_K == T):
+                    arrests.append(Arrest(T, "new phase", f"{kind}: {name} starts to form"))
+            steps.append(step)
+            states.append(state)
+            last_eq = eq
+        arrests.insert(0, Arrest(self.liquidus_K, "liquidus", f"{forms[0][0]} starts to form" if forms else "freezing starts"))
+        notes: list[str] = []
+        if self.solidus_K is None:
+            end, end_K = "window", None
+            notes.append("liquid is left at the bottom of the mapped temperature window")
+        elif arrests[-1].kind == "plateau" and arrests[-1].temperature_K == self.solidus_K:
+            end, end_K = plateau_kind, self.solidus_K
+        else:
+            end, end_K = "solidus", self.solidus_K
+            arrests.append(Arrest(self.solidus_K, "end", "freezing ends at the solidus"))
+        final = above_eq if eutectic is not None else last_eq
+        constituents = [Constituent(names.get(p.name, p.name) if p.name != LIQUID else "liquid left at the bottom of the window",
+                                    p.amount_mass) for p in final.phases]
+        if eutectic is not None:
+            constituents.append(eutectic)
+        return CoolingPath("equilibrium", system, self.x_B, self.liquidus_K, end_K, end, tuple(steps), tuple(forms),
+                           tuple(constituents), heat, tuple(arrests), tuple(notes))
+
+    # --- the diagram's reactions ------------------------------------------------------------------------
+    def _invariant_at(self, T: float):
+        return next((inv for inv in map_diagram(self.system).invariants if abs(inv.temperature_K - T) < 1e-6), None)
+
+    def _reaction_at(self, T: float) -> tuple[str, list[tuple[str, float]]]:
+        """(kind, its solid phases with x_B) of the invariant reaction at T, if there is one."""
+        inv = self._invariant_at(T)
+        if inv is None:
+            return "boundary", []
+        return inv.kind, [(n, x) for n, x in inv.phases if n != LIQUID]
+
+    def _liquid_in_middle(self, T: float) -> bool:
+        inv = self._invariant_at(T)
+        return inv is not None and inv.phases[1][0] == LIQUID
+
+    @staticmethod
+    def _reaction_text(kind: str, products: str) -> str:
+        return f"liquid -> {products}" if kind in ("eutectic", "monotectic") else f"liquid + solid -> {products}"

@@ -1,0 +1,258 @@
+"""Scheil-Gulliver cooling of one alloy: complete mixing in the liquid, no diffusion in the solid
+(E. Scheil, Z. Metallkd. 34 (1942) 70; G.H. Gulliver, J. Inst. Met. 9 (1913) 120).
+
+Each layer of solid forms in equilibrium with the liquid at the interface, so the liquid's
+composition runs down the liquidus from the alloy's composition, and the mass balance
+d(f_L x_L) = x_S d(f_L) gives f_L = exp(-(Phi(x_L) - Phi(x_0))) along each liquidus branch
+(engine/solidify_branches.py). Where the liquid reaches a peritectic point the next solid forms
+on its own branch; where it reaches an invariant reaction it cannot pass (a eutectic), the rest
+freezes there at constant temperature. Where the liquid runs toward a pure element or a melting
+minimum, freezing ends (`last liquid`) where less than LAST_LIQUID of the alloy's atoms is liquid.
+
+Temperatures in K, compositions as mole fraction of B, amounts as fractions of the alloy.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from .solidify_branches import CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, fractions_array, liquidus_branches
+from .solidify_heat import released_between
+from .solidify_liquidus import LIQUID
+from .solidify_path import Arrest, Constituent, CoolingPath, PathError, PathStep, molar_mass_of, reaction_products
+from .tangent import logit
+
+#: Freezing "ends" in the last-liquid case when this share of the alloy's atoms is still liquid.
+LAST_LIQUID = 1e-6
+_SAME_X = 1e-7
+
+
+@dataclass(frozen=True)
+class _Segment:
+    """The liquid's run along one branch, from y_from to y_to; `lnf_from` is ln of the liquid
+    fraction (mol) at y_from and `phi_from` the branch's Scheil integral there."""
+
+    branch: Branch
+    y_from: float
+    y_to: float
+    phi_from: float
+    lnf_from: float
+    name: str
+
+    def liquid_fraction(self, y: np.ndarray) -> np.ndarray:
+        """Liquid fraction (mole fraction of the alloy's atoms) with the liquid at y."""
+        return np.exp(self.lnf_from - (self.branch.phi_at(y) - self.phi_from))
+
+    @property
+    def temperatures(self) -> tuple[float, float]:
+        """(hot, cold) end temperatures (K)."""
+        b = self.branch
+        return float(b.temperature(np.array(self.y_from))), float(b.temperature(np.array(self.y_to)))
+
+
+class ScheilCooling:
+    """The Scheil-Gulliver path of the alloy with mole fraction x_B of B."""
+
+    def __init__(self, system, x_B: float) -> None:
+        if not 0.0 <= x_B <= 1.0:
+            raise PathError(f"mole fraction {x_B!r} is outside 0-1")
+        self.system = system
+        self.x_B = x_B
+        self.molar_mass = molar_mass_of(system, x_B)
+        self.segments: list[_Segment] = []
+        self.end = ""
+        self.end_invariant = None
+        self.notes: list[str] = []
+        self._single = self._single_solid()
+        if self._single is None:
+            self._walk(liquidus_branches(system))
+        else:
+            self.end = self._single[2]
+
+    # --- where the liquid goes ----------------------------------------------------------------
+    def _single_solid(self) -> tuple[str, float, str] | None:
+        """(solid, temperature K, end kind) for an alloy that freezes at one temperature as one
+        solid: a pure element, or a compound or solution at its congruent melting point."""
+        from .diagram import map_diagram
+
+        y0 = logit(1.0 - self.x_B, self.x_B)
+        diagram = map_diagram(self.system)
+        for sp in diagram.special_points:
+            if LIQUID not in sp.phases:
+                continue
+            solid = next(p for p in sp.phases if p != LIQUID)
+            if sp.kind == "melting" and abs(y0) >= PURE_END_Y and (y0 > 0) == (sp.x_B == 1.0):
+                return solid, sp.temperature_K, "melting point"
+            if sp.kind == "congruent" and 0.0 < sp.x_B < 1.0 and abs(y0 - logit(1.0 - sp.x_B, sp.x_B)) <= CONGRUENT_OFFSET_Y:
+                return solid, sp.temperature_K, "congruent"
+        if abs(y0) >= PURE_END_Y:
+            raise PathError("this pure element does not melt inside the mapped temperature window")
+        return None
+
+    def _walk(self, branches: tuple[Branch, ...]) -> None:
+        y0 = logit(1.0 - self.x_B, self.x_B)
+        holding = [b for b in branches if min(b.y[0], b.y[-1]) <= y0 <= max(b.y[0], b.y[-1])]
+        if not holding:
+            lo, hi = self.system.temperature_range_K
+            raise PathError(f"no liquidus for this alloy inside the mapped window ({lo:.0f}-{hi:.0f} K)")
+        b = max(holding, key=lambda c: float(c.temperature(np.array(y0))))
+        y, phi, lnf, name = y0, float(b.phi_at(np.array(y0))), 0.0, f"primary {b.solid}"
+        while True:
+            lnf_end = lnf - (float(b.phi[-1]) - phi)
+            if b.bottom.kind in ("melting", "congruent") and lnf_end < math.log(LAST_LIQUID):
+                y_end = float(b.y_at_phi(np.array(phi + lnf - math.log(LAST_LIQUID))))
+                self.segments.append(_Segment(b, y, y_end, phi, lnf, name))
+                self.end = "last liquid"
+                return
+            self.segments.append(_Segment(b, y, float(b.y[-1]), phi, lnf, name))
+            if b.bottom.kind in ("melting", "congruent", "window"):
+                self.end = "last liquid" if b.bottom.kind != "window" else "window"
+                if b.bottom.kind == "window":
+                    self.notes.append("liquid is left where the liquidus leaves the mapped temperature window")
+                return
+            nxt = next((c for c in branches if c is not b and c.top.invariant is b.bottom.invariant
+                        and abs(c.top.x_liquid - b.bottom.x_liquid) < _SAME_X), None)
+            if nxt is None:
+                self.end = b.bottom.kind
+                self.end_invariant = b.bottom.invariant
+                if b.bottom.kind not in ("eutectic",):
+                    self.notes.append(f"the liquid reaches a {b.bottom.kind} reaction; the rest is taken to "
+                                      f"freeze there")
+                return
+            b, y, phi, lnf = nxt, float(nxt.y[0]), 0.0, lnf_end
+            name = f"{b.top.kind} {b.solid}"
+
+    # --- states ---------------------------------------------------------------------------------------
+    def _steps(self, seg: _Segment, ys: np.ndarray, solids: tuple[str, ...]) -> list[PathStep]:
+        """States with the liquid at each y of `ys` along segment `seg`."""
+        T = seg.branch.temperature(ys)
+        f_mol = seg.liquid_fraction(ys)
+        x_l = fractions_array(ys)[1]
+        f_mass = f_mol * molar_mass_of(self.system, x_l) / self.molar_mass
+        return [PathStep(float(t), float(1.0 - fm), float(1.0 - f), float(x), (LIQUID,) + solids)
+                for t, fm, f, x in zip(T, f_mass, f_mol, x_l)]
+
+    def _solids_before(self, k: int) -> tuple[str, ...]:
+        names: list[str] = []
+        for seg in self.segments[:k + 1]:
+            if seg.branch.solid not in names:
+                names.append(seg.branch.solid)
+        return tuple(names)
+
+    def _end_solids(self) -> list[tuple[str, float]]:
+        inv = self.end_invariant
+        last = self.segments[-1].branch
+        return [(n, x) for n, x in inv.phases if not (n == LIQUID and abs(x - last.bottom.x_liquid) < _SAME_X)]
+
+    def state_at(self, T: float, below: bool = False) -> PathStep:
+        """The state at T (K); at a plateau temperature the state before the plateau, or after
+        it with `below`."""
+        if self._single is not None:
+            solid, Tm, _kind = self._single
+            done = T < Tm or (below and T == Tm)
+            return PathStep(T, float(done), float(done), None if done else self.x_B, (solid,) if done else (LIQUID,))
+        if T >= self.segments[0].temperatures[0]:
+            return PathStep(T, 0.0, 0.0, self.x_B, (LIQUID,))
+        if self.end_K is not None and (T < self.end_K or (below and T == self.end_K)):
+            return self._solid_state(T)
+        for k, seg in enumerate(self.segments):
+            t_hot, t_cold = seg.temperatures
+            if t_cold <= T <= t_hot:
+                b = seg.branch
+                y = float(b.invert(b.T, b.dT, np.array(T)))
+                lo, hi = sorted((seg.y_from, seg.y_to))
+                return self._steps(seg, np.array([min(max(y, lo), hi)]), self._solids_before(k))[0]
+        return self._solid_state(T)
+
+    def _solid_state(self, T: float) -> PathStep:
+        names = list(self._solids_before(len(self.segments) - 1))
+        if self.end_invariant is not None:
+            names += [n for n, _ in self._end_solids() if n not in names and n != LIQUID]
+        return PathStep(T, 1.0, 1.0, None, tuple(names))
+
+    @property
+    def end_K(self) -> float | None:
+        """Temperature (K) where freezing ends; None where liquid is left at the window's bottom."""
+        if self._single is not None:
+            return self._single[1]
+        if self.end == "window":
+            return None
+        return self.segments[-1].temperatures[1]
+
+    # --- the record ----------------------------------------------------------------------------------
+    def path(self) -> CoolingPath:
+        """The whole path as a CoolingPath."""
+        if self._single is not None:
+            return self._single_path()
+        system, M = self.system, self.molar_mass
+        steps: list[PathStep] = []
+        heat = 0.0
+        arrests: list[Arrest] = []
+        forms: list[tuple[str, float]] = []
+        constituents: list[Constituent] = []
+        for k, seg in enumerate(self.segments):
+            b = seg.branch
+            inner = b.y[(b.direction * b.y > b.direction * seg.y_from) & (b.direction * b.y < b.direction * seg.y_to)]
+            ys = [seg.y_from, *inner.tolist(), seg.y_to]
+            ys = np.array(ys)
+            seg_steps = self._steps(seg, ys, self._solids_before(k))
+            xs = fractions_array(b.solid_y(ys))[1]
+            for i, s in enumerate(seg_steps):
+                if i > 0:
+                    prev = seg_steps[i - 1]
+                    f0, f1 = 1.0 - prev.fraction_solid_mol, 1.0 - s.fraction_solid_mol
+                    before = ((LIQUID, prev.liquid_x_B, f0),)
+                    after = ((LIQUID, s.liquid_x_B, f1), (b.solid, 0.5 * (xs[i - 1] + xs[i]), f0 - f1))
+                    heat += released_between(system, before, after, prev.temperature_K, s.temperature_K) / M
+                if i > 0 or k == 0:
+                    steps.append(PathStep(s.temperature_K, s.fraction_solid, s.fraction_solid_mol, s.liquid_x_B,
+                                          s.phases, heat))
+            t_hot = seg_steps[0].temperature_K
+            forms.append((b.solid, t_hot))
+            kind, text = ("liquidus", f"{b.solid} starts to form") if k == 0 else \
+                ("new phase", f"{b.top.kind}: {b.solid} starts to form")
+            arrests.append(Arrest(t_hot, kind, text))
+            constituents.append(Constituent(seg.name, seg_steps[-1].fraction_solid - seg_steps[0].fraction_solid))
+        last = steps[-1]
+        if self.end_invariant is not None:
+            heat = self._freeze_at_invariant(steps, arrests, forms, constituents, heat)
+        elif self.end == "window":
+            constituents.append(Constituent("liquid left at the bottom of the window", 1.0 - last.fraction_solid))
+        else:
+            constituents[-1] = Constituent(constituents[-1].name, constituents[-1].mass_fraction + 1.0 - last.fraction_solid)
+            arrests.append(Arrest(last.temperature_K, "end", "the last liquid freezes"))
+        return CoolingPath("scheil", system, self.x_B, steps[0].temperature_K, self.end_K, self.end, tuple(steps),
+                           tuple(forms), tuple(constituents), heat, tuple(arrests), tuple(self.notes))
+
+    def _freeze_at_invariant(self, steps, arrests, forms, constituents, heat: float) -> float:
+        """The rest of the liquid freezes at the invariant reaction's temperature."""
+        last = steps[-1]
+        T = last.temperature_K
+        solids = self._end_solids()
+        f_liq = 1.0 - last.fraction_solid_mol
+        (n1, x1), (n2, x2) = solids[0], solids[-1]
+        x_l = last.liquid_x_B
+        after = ((n1, x1, f_liq * (x2 - x_l) / (x2 - x1)), (n2, x2, f_liq * (x_l - x1) / (x2 - x1))) \
+            if len(solids) == 2 else ((n1, x1, f_liq),)
+        plateau = released_between(self.system, ((LIQUID, x_l, f_liq),), after, T, T) / self.molar_mass
+        heat += plateau
+        end = self._solid_state(T)
+        steps.append(PathStep(T, 1.0, 1.0, None, end.phases, heat))
+        present = {f[0] for f in forms}
+        forms += [(n, T) for n, _ in solids if n not in present and n != LIQUID]
+        products = reaction_products(self.system, solids)
+        arrests.append(Arrest(T, "plateau", f"{self.end} plateau: liquid -> {products}", plateau))
+        constituents.append(Constituent(f"{self.end} {products}", 1.0 - last.fraction_solid))
+        return heat
+
+    def _single_path(self) -> CoolingPath:
+        solid, T, kind = self._single
+        x = self.x_B if kind == "congruent" else float(round(self.x_B))
+        plateau = released_between(self.system, ((LIQUID, x, 1.0),), ((solid, x, 1.0),), T, T) / self.molar_mass
+        steps = (PathStep(T, 0.0, 0.0, self.x_B, (LIQUID,)), PathStep(T, 1.0, 1.0, None, (solid,), plateau))
+        arrests = (Arrest(T, "plateau", f"{kind} plateau: liquid -> {solid}", plateau),)
+        return CoolingPath("scheil", self.system, self.x_B, T, T, kind, steps, ((solid, T),),
+                           (Constituent(f"primary {solid}", 1.0),), plateau, arrests, ())
