@@ -14,8 +14,9 @@ def _style_per_character(text: Text) -> list:
 
 
 def test_same_text_and_styles_as_rich():
-    sample = ("   ┌────┐\x1b[0m\n400┤\x1b[0m\x1b[38;5;12m⠑⢤\x1b[0m  \x1b[0m\x1b[48;5;15m\x1b[38;5;10m"
-              "liquid\x1b[0m│\x1b[0m\n\x1b[38;2;10;20;30m\x1b[48;2;1;2;3m x \x1b[0mend")
+    sample = ("   ┌────┐\x1b[0m\n400┤\x1b[0m\x1b[38;5;12m⠑⢤\x1b[0m  \x1b[0m"
+              "\x1b[48;5;15m\x1b[38;5;10mliquid\x1b[0m│\x1b[0m\n"
+              "\x1b[38;2;10;20;30m\x1b[48;2;1;2;3m x \x1b[0mend")
     ours, rich = styled_plot_text(sample), Text.from_ansi(sample)
     assert ours.plain == rich.plain
     assert _style_per_character(ours) == _style_per_character(rich)

@@ -23,4 +23,5 @@ def test_the_explorer_module_runs_and_answers_help():
 def test_a_bad_serve_option_is_one_line_and_exit_status_2(capsys):
     assert serve(["--port", "many"]) == 2
     err = capsys.readouterr().err
-    assert err.startswith("ladle serve: argument --port: invalid int value") and err.count("\n") == 1
+    assert err.startswith("ladle serve: argument --port: invalid int value")
+    assert err.count("\n") == 1

@@ -87,7 +87,8 @@ def boundary_lines(reading: Reading, element_B: str, scales: Scales,
             nearest.temperature_K - reading.cursor.temperature_K))
         where = (f"{format_temperature_value(scales.shown_temperature(nearest.temperature_K))}"
                  f" {unit}")
-        how_far = f"{format_temperature_value(gap, 1 if gap < 10 else 0)} {unit} {nearest.direction}"
+        decimals = 1 if gap < 10 else 0
+        how_far = f"{format_temperature_value(gap, decimals)} {unit} {nearest.direction}"
     else:
         comp = scales.composition_unit
         shown = scales.shown_composition(nearest.x_B)
