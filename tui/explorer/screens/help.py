@@ -28,8 +28,8 @@ class HelpScreen(ModalScreen[None]):
 
     def compose(self) -> ComposeResult:
         with VerticalScroll(id="help-body"):
+            yield Static(self._cautions(), id="help-cautions")   # first: seen without scrolling
             yield Static(self._keys(), id="help-keys")
-            yield Static(self._cautions(), id="help-cautions")
             yield Static(f"Esc closes this help. {self.glyphs.up}{self.glyphs.down} "
                          "PgUp PgDn scroll.", id="help-close")
 
@@ -46,12 +46,13 @@ class HelpScreen(ModalScreen[None]):
         return table
 
     def _cautions(self) -> Text:
-        text = Text("\nSAFETY\n", style="bold")
+        text = Text("SAFETY\n", style="bold")
         if self.system_safety:
             text.append(f"{self.system_name}: ", style="bold")
             text.append(self.system_safety + "\n")
         for caution in GENERAL_CAUTIONS:
             text.append(f"- {caution}\n")
+        text.append("\n")
         return text
 
     def action_close(self) -> None:
