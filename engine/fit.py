@@ -45,6 +45,11 @@ LOST_PENALTY = 1.0e3
 HIGH_CORRELATION = 0.9
 #: Relative finite-difference step on the scaled coefficients (a change of about 1e-3 J/mol).
 DIFF_STEP = 1e-6
+#: A combination of coefficients whose standard uncertainty exceeds this many scaled units
+#: (each unit changes G by 1 kJ/mol at the reference temperature: engine/fit_parameters.py) is
+#: not determined by the measurements. The limit lies far above any determined coefficient and
+#: far below the finite-difference noise of a coefficient that affects no measurement.
+UNDETERMINED_SCALED = 100.0
 
 Progress = Callable[[int, float], None]
 
@@ -180,8 +185,7 @@ def _covariance(jac: np.ndarray, scales: np.ndarray, paths: list[ParameterPath])
     """Covariance of the coefficients (their own units) from the Jacobian of the weighted
     residuals in scaled coefficients, and the paths the measurements do not determine."""
     _u, s, vt = np.linalg.svd(jac, full_matrices=False)
-    threshold = np.finfo(float).eps * max(jac.shape) * (s[0] if len(s) else 0.0)
-    good = s > threshold
+    good = s > 1.0 / UNDETERMINED_SCALED
     undetermined = []
     if not good.all():
         null = vt[~good]

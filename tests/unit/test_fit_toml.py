@@ -1,0 +1,55 @@
+"""The TOML writer of fitted system files (engine/fit_toml.py): tomllib (the standard library's
+reader) reads back exactly what was written; writes are atomic."""
+
+from __future__ import annotations
+
+import tomllib
+
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from ladle.engine.fit_toml import toml_text, value_text, write_atomic
+
+keys = st.text(min_size=1, max_size=8)
+scalars = (st.text(max_size=20) | st.integers(-10**12, 10**12) | st.booleans()
+           | st.floats(allow_nan=False, allow_infinity=False))
+values = st.recursive(scalars, lambda inner: st.lists(inner, max_size=4) | st.dictionaries(keys, inner, max_size=4),
+                      max_leaves=12)
+documents = st.dictionaries(keys, values | st.lists(st.dictionaries(keys, values, max_size=3), min_size=1, max_size=3),
+                            max_size=6)
+
+
+@settings(max_examples=150, deadline=None)
+@given(documents)
+def test_round_trip_through_tomllib(doc):
+    assert tomllib.loads(toml_text(doc)) == doc
+
+
+def test_system_shapes_are_written_readably():
+    doc = {"elements": ["Pb", "Sn"], "molar_mass": {"Pb": 207.2, "Sn": 118.71},
+           "phase": {"liquid": {"model": "solution", "L": [{"a": -5000.0, "b": 1.5}]}},
+           "fit": {"free": ["liquid.L.0.a"]},
+           "measured": [{"kind": "melting", "element": "Pb", "temperature_C": 327.462}],
+           "fit_report": {"parameters": {"liquid.L.0.a": {"value": 1.0}}}}
+    text = toml_text(doc, "first line\nsecond line")
+    assert text.splitlines()[:4] == ["# first line", "# second line", 'elements = [ "Pb", "Sn" ]',
+                                     "molar_mass = { Pb = 207.2, Sn = 118.71 }"]
+    assert "\n[phase.liquid]\nmodel = \"solution\"\nL = [ { a = -5000.0, b = 1.5 } ]\n" in text
+    assert "\n[fit]\nfree = [ \"liquid.L.0.a\" ]\n" in text
+    assert "\n[[measured]]\nkind = \"melting\"\n" in text
+    assert '\n[fit_report.parameters]\n"liquid.L.0.a" = { value = 1.0 }\n' in text
+    assert tomllib.loads(text) == doc
+
+
+def test_non_finite_numbers_are_refused():
+    with pytest.raises(ValueError, match="non-finite"):
+        value_text(float("nan"))
+
+
+def test_atomic_write_replaces_whole_and_leaves_no_temporary_file(tmp_path):
+    target = tmp_path / "out.toml"
+    target.write_text("old = 1\n")
+    write_atomic(target, "new = 2\n")
+    assert target.read_text() == "new = 2\n"
+    assert [p.name for p in tmp_path.iterdir()] == ["out.toml"]

@@ -1,0 +1,107 @@
+"""The model against measured facts (engine/measure.py): values, tolerances, and a missing or
+wrong reaction reported as such."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from scipy.optimize import brentq
+
+from ladle.engine import load_system
+from ladle.engine.diagram import map_diagram
+from ladle.engine.measure import evaluate, evaluate_all
+from ladle.engine.units import GAS_CONSTANT as R
+from measure_systems import FUSION_A, FUSION_B, MELT_A_K, MELT_B_K, eutectic_text, ideal_text, write
+
+
+def ideal_liquidus_K(x0: float) -> float:
+    """Closed-form liquidus of the ideal lens (D.R. Gaskell, Introduction to the Thermodynamics of
+    Materials, 5th ed. (2008): x_L = k_B (1 - k_A) / (k_B - k_A), k_i = exp(-dG_i / RT)), solved
+    with scipy's brentq."""
+    def x_liquid(T):
+        kA = math.exp(-FUSION_A * (1 - T / MELT_A_K) / (R * T))
+        kB = math.exp(-FUSION_B * (1 - T / MELT_B_K) / (R * T))
+        return kB * (1 - kA) / (kB - kA)
+    return brentq(lambda T: x_liquid(T) - x0, MELT_A_K + 1e-9, MELT_B_K - 1e-9, xtol=1e-12)
+
+
+def _check(kind: str, body: str) -> str:
+    return f'\n[[check]]\nkind = "{kind}"\nsource = "invented for the test"\n{body}\n'
+
+
+def test_melting_and_liquidus_checks(tmp_path):
+    T_liq = ideal_liquidus_K(0.3)
+    extra = (_check("melting", f"element = \"A\"\ntemperature_K = {MELT_A_K}\ntolerance_K = 0.5")
+             + _check("liquidus", f"at_percent = 30\ntemperature_K = {T_liq + 4.0!r}\ntolerance_K = 5")
+             + _check("liquidus", f"at_percent = 30\ntemperature_K = {T_liq + 6.0!r}\ntolerance_K = 5"))
+    system = load_system(write(tmp_path, ideal_text(extra)))
+    melting, near, far = evaluate_all(system, system.checks)
+    assert melting.passed and melting.comparisons[0].model == pytest.approx(MELT_A_K, abs=1e-6)
+    assert near.passed and near.comparisons[0].difference == pytest.approx(-4.0, abs=1e-6)
+    assert not far.passed and far.problem is None
+    assert far.comparisons[0].difference == pytest.approx(-6.0, abs=1e-6)
+
+
+@pytest.fixture(scope="module")
+def eutectic_case(tmp_path_factory):
+    folder = tmp_path_factory.mktemp("eutectic")
+    system = load_system(write(folder, eutectic_text()))
+    inv = map_diagram(system).invariants[0]
+    return folder, inv
+
+
+def test_invariant_matched_by_kind_and_phases(eutectic_case):
+    folder, inv = eutectic_case
+    (f, x_f), (l, x_l), (b, x_b) = inv.phases
+    body = (f"reaction = \"eutectic\"\ntemperature_K = {inv.temperature_K - 1.0!r}\n"
+            f"phases = {{ liquid = {100 * x_l + 0.5!r}, fcc = {100 * x_f!r} }}\ntolerance_K = 3\ntolerance_at = 1")
+    system = load_system(write(folder, eutectic_text(extra=_check("invariant", body)), "m.toml"))
+    out = evaluate(system, system.checks[0])
+    assert out.passed and out.model_reaction == "eutectic"
+    T, liq, fcc = out.comparisons
+    assert T.difference == pytest.approx(1.0, abs=1e-9)
+    assert liq.quantity == "x(liquid)" and liq.difference == pytest.approx(-0.5, abs=1e-9)
+    assert fcc.quantity == "x(fcc)" and fcc.difference == pytest.approx(0.0, abs=1e-9)
+
+
+def test_wrong_reaction_kind_fails_with_a_plain_reason(eutectic_case):
+    folder, inv = eutectic_case
+    body = f"reaction = \"peritectic\"\ntemperature_K = {inv.temperature_K!r}\nphases = {{ liquid = 41 }}\ntolerance_K = 3"
+    system = load_system(write(folder, eutectic_text(extra=_check("invariant", body)), "p.toml"))
+    out = evaluate(system, system.checks[0])
+    assert not out.passed
+    assert out.problem == f"the model's reaction of liquid at {inv.temperature_K:.2f} K is a eutectic, not a peritectic"
+
+
+def test_missing_reaction_is_reported_not_measured(eutectic_case):
+    folder, _inv = eutectic_case
+    body = "reaction = \"congruent\"\ntemperature_K = 900\nphases = { liquid = 50, bcc = 50 }\ntolerance_K = 3"
+    system = load_system(write(folder, eutectic_text(extra=_check("invariant", body)), "q.toml"))
+    out = evaluate(system, system.checks[0])
+    assert not out.passed and out.comparisons[0].model is None
+    assert out.problem.startswith("the model has no congruent point of liquid + bcc")
+
+
+def test_boundary_check_and_missing_tie_line(eutectic_case):
+    folder, inv = eutectic_case
+    T = inv.temperature_K - 50.0
+    extra = (_check("boundary", f"phase = \"fcc\"\npartner = \"bcc\"\ntemperature_K = {T!r}\nat_percent = 10\ntolerance_at = 5")
+             + _check("boundary", f"phase = \"fcc\"\npartner = \"liquid\"\ntemperature_K = {T!r}\nat_percent = 10\ntolerance_at = 5"))
+    system = load_system(write(folder, eutectic_text(extra=extra), "b.toml"))
+    ok, missing = evaluate_all(system, system.checks)
+    assert ok.problem is None and 0 < ok.comparisons[0].model < 100 * inv.phases[0][1]   # solvus narrows on cooling
+    assert missing.problem == f"the model has no fcc + liquid tie-line at {T:.2f} K"
+
+
+def test_fact_outside_the_covered_range(tmp_path):
+    extra = _check("liquidus", "at_percent = 60\ntemperature_K = 900\ntolerance_K = 5")
+    system = load_system(write(tmp_path, eutectic_text(extra=extra, covers="covers_at_percent = [0, 40]")))
+    out = evaluate(system, system.checks[0])
+    assert not out.passed and out.problem == "60 at% B lies outside the range this model covers (0-40 at% B)"
+
+
+def test_check_without_tolerance_cannot_pass(tmp_path):
+    system = load_system(write(tmp_path, ideal_text(_check("melting", f"element = \"B\"\ntemperature_K = {MELT_B_K}"))))
+    out = evaluate(system, system.checks[0])
+    assert out.comparisons[0].spread is None and not out.passed
