@@ -415,6 +415,16 @@ class Section:
         converged = all(t.converged for t in ties)
         return self._single(index[owner], xa0, xb0, converged)
 
+    def envelope(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """The lower envelope of every phase's G (J/mol) at the compositions (xa, xb): the
+        alloy's equilibrium Gibbs energy, common tangents inside two-phase fields."""
+        g = np.min([s.gibbs(xa, xb) for s in self.solutions], axis=0)
+        for t in self.tie_lines:
+            lo, hi = t.x_B
+            inside = (xb >= lo) & (xb <= hi)
+            g = np.where(inside, t.mu[0] * xa + t.mu[1] * xb, g)
+        return g
+
     # --- curves for display ---------------------------------------------------------------------------
     def curves(self) -> dict[str, tuple[np.ndarray, np.ndarray]]:
         """Each phase's G (J/mol) against x_B on the grid; a compound is a single point."""

@@ -21,6 +21,7 @@ COMMANDS = {
     "systems": "systems",
     "melt": "melt",
     "diagram": "diagram",
+    "serve": "serve",
 }
 
 
@@ -33,7 +34,7 @@ class _Parser(argparse.ArgumentParser):
 
 def build_parser() -> tuple[argparse.ArgumentParser, dict]:
     parser = _Parser(prog="ladle", description="Phase equilibria of binary alloys from Gibbs-energy models. "
-                     "Without a command, opens the full-screen explorer.")
+                     "Without a command (or with a system name), opens the full-screen explorer.")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     modules = {}
     for name, module in COMMANDS.items():
@@ -44,9 +45,27 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict]:
     return parser, modules
 
 
+def _opens_explorer(argv: list[str]) -> bool:
+    """True for no arguments, explorer options, or a system name or path first."""
+    if not argv:
+        return True
+    first = argv[0]
+    if first in ("-h", "--help") or first in COMMANDS:
+        return False
+    if first.startswith("-"):
+        return True
+    from ladle.engine.catalog import resolve
+
+    try:
+        resolve(first)
+    except (LookupError, ValueError):
+        return False      # argparse then names the unknown command
+    return True
+
+
 def main(argv: list[str] | None = None) -> int:
     argv = sys.argv[1:] if argv is None else argv
-    if not argv or (argv[0].startswith("-") and argv[0] not in ("-h", "--help")):
+    if _opens_explorer(argv):
         from .explorer import run as run_explorer
 
         return run_explorer(argv)

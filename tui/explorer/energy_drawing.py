@@ -45,7 +45,7 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
     scales, window = exploration.scales, exploration.window
     section = exploration.section()
     x_env = np.linspace(window.x_low, window.x_high, ENVELOPE_POINTS)
-    g_env = np.array([section.state_at(1.0 - x, x).gibbs for x in x_env])
+    g_env = section.envelope(1.0 - x_env, x_env)
     slope = (g_env[-1] - g_env[0]) / max(window.x_high - window.x_low, 1e-12)
 
     def relative(x: np.ndarray, g: np.ndarray) -> np.ndarray:
