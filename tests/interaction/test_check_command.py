@@ -131,3 +131,18 @@ def test_bad_input_is_one_line_and_status_2(tmp_path, capsys):
     assert e.value.code == 2
     assert capsys.readouterr().err == ("ladle check: broken.toml: check[0].source: missing: every fact names its "
                                        "source (handbook with edition, or paper)\n")
+
+
+def test_systems_list_shows_how_many_checks_pass(tmp_path, monkeypatch, capsys):
+    folder = tmp_path / "mine"
+    folder.mkdir()
+    (folder / "a-b.toml").write_text(SYSTEM + FAILING)
+    monkeypatch.setenv("LADLE_SYSTEMS", str(folder))
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
+    for _ in range(2):          # evaluated, then remembered: the same line
+        assert main(["systems"]) == 0
+        out = capsys.readouterr().out
+        assert "a-b      Invented A-B (yours)\n         checks: 3 of 5 pass (ladle check a-b)\n" in out
+    assert main(["systems", "--json"]) == 0
+    row = [r for r in json.loads(capsys.readouterr().out)["systems"] if r["name"] == "a-b"][0]
+    assert (row["checks_passed"], row["checks"]) == (3, 5)

@@ -17,6 +17,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 def run(args: argparse.Namespace) -> int:
     from ladle.engine import SystemFileError
     from ladle.engine.catalog import catalog, find_system
+    from ladle.engine.measure_cache import check_counts
 
     entries, conflicts = catalog()
     rows = []
@@ -28,7 +29,8 @@ def run(args: argparse.Namespace) -> int:
             continue
         rows.append({"name": e.name, "origin": e.origin, "path": str(e.path), "title": s.title,
                      "elements": list(s.elements), "covers_at_percent": [100 * s.covers[0], 100 * s.covers[1]],
-                     "source": s.source, "safety": s.safety, "checks": len(s.checks)})
+                     "source": s.source, "safety": s.safety, "checks": len(s.checks),
+                     "checks_passed": check_counts(s)[0]})
     if args.json:
         print_json({"systems": rows, "conflicts": conflicts})
         return 0
@@ -40,6 +42,8 @@ def run(args: argparse.Namespace) -> int:
         span = "" if (lo, hi) == (0, 100) else f" [covers {lo:g}-{hi:g} at% {r['elements'][1]}]"
         mark = " (yours)" if r["origin"] == "user" else ""
         print(f"{r['name']:<8} {r['title'] or '-'.join(r['elements'])}{span}{mark}")
+        if r["checks"]:
+            print(f"         checks: {r['checks_passed']} of {r['checks']} pass (ladle check {r['name']})")
         print(f"         source: {r['source']}")
     for c in conflicts:
         print(f"ladle: note: {c}", file=sys.stderr)

@@ -1,0 +1,77 @@
+"""How many of a system's checks pass, remembered between runs (for `ladle systems`).
+
+Evaluating every check of every system maps each diagram; the counts are therefore kept in the
+user's cache folder ($XDG_CACHE_HOME/ladle/checks, default ~/.cache/ladle/checks), one small
+JSON file per key. The key is a SHA-256 hash of the system file, the element library and the
+engine's own source files, so that a change to any of them gives a fresh evaluation. Cache files
+are written atomically; a cache that cannot be read or written is simply not used.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import os
+from functools import lru_cache
+from pathlib import Path
+
+from .fit_toml import write_atomic
+from .measure import evaluate_all
+
+
+def cache_folder() -> Path:
+    """The folder of the remembered check counts."""
+    base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
+    return Path(base) / "ladle" / "checks"
+
+
+@lru_cache(maxsize=1)
+def _engine_digest() -> bytes:
+    h = hashlib.sha256()
+    for path in sorted(Path(__file__).parent.glob("*.py")):
+        h.update(path.name.encode())
+        h.update(path.read_bytes())
+    return h.digest()
+
+
+def _key(system) -> str:
+    from .catalog import shipped_library
+
+    h = hashlib.sha256(_engine_digest())
+    h.update(Path(system.path).read_bytes())
+    h.update(shipped_library().path.read_bytes())
+    return h.hexdigest()
+
+
+def _cache_file(system) -> Path | None:
+    try:
+        return cache_folder() / f"{_key(system)}.json"
+    except OSError:
+        return None
+
+
+def _read(path: Path) -> tuple[int, int] | None:
+    try:
+        data = json.loads(path.read_text(encoding="utf-8"))
+        return int(data["passed"]), int(data["total"])
+    except (OSError, ValueError, KeyError, TypeError):
+        return None
+
+
+def check_counts(system) -> tuple[int, int]:
+    """(checks passed, checks in the file) of a loaded system, from the cache where it holds
+    them, else evaluated (engine/measure.py) and remembered."""
+    if not system.checks:
+        return 0, 0
+    path = _cache_file(system)
+    counts = _read(path) if path is not None else None
+    if counts is None:
+        outcomes = evaluate_all(system, system.checks)
+        counts = sum(o.passed for o in outcomes), len(outcomes)
+        if path is not None:
+            try:
+                path.parent.mkdir(parents=True, exist_ok=True)
+                write_atomic(path, json.dumps({"system": system.name, "passed": counts[0], "total": counts[1]}))
+            except OSError:
+                pass
+    return counts
