@@ -269,7 +269,7 @@ def _solution(r: _Reader, library: ElementLibrary, name: str, table: dict, eleme
         if el not in g_table:
             raise r.fail(f"{key}.G.{el}", "missing: every element of the system needs its Gibbs energy in every solution phase")
         endmembers.append(_element_function(r, library, g_table[el], f"{key}.G.{el}", el))
-    interactions = r.expressions(table.get("L", []), f"{key}.L")
+    interactions = {(0, 1): r.expressions(table.get("L", []), f"{key}.L")}
     magnetic = None
     if "magnetic" in table:
         magnetic = _magnetic(r, table["magnetic"], f"{key}.magnetic", elements)
@@ -300,8 +300,8 @@ def _magnetic(r: _Reader, value: Any, key: str, elements: tuple[str, str]) -> Ma
     if factor >= 0:
         raise r.fail(f"{key}.antiferro_factor", "expected a negative number (-1 for bcc, -3 for fcc and hcp)")
     return MagneticModel(p, per_element("curie_K"), per_element("moment"),
-                         r.expressions(m.get("curie_L", []), f"{key}.curie_L"),
-                         r.expressions(m.get("moment_L", []), f"{key}.moment_L"), factor)
+                         {(0, 1): r.expressions(m.get("curie_L", []), f"{key}.curie_L")},
+                         {(0, 1): r.expressions(m.get("moment_L", []), f"{key}.moment_L")}, factor)
 
 
 def _compound(r: _Reader, name: str, table: dict, elements: tuple[str, str], solutions: dict[str, SolutionPhase]) -> CompoundPhase:

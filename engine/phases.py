@@ -22,6 +22,10 @@ from .polynomials import TemperatureFunction
 from .units import GAS_CONSTANT as R
 
 
+#: The element pair of a binary's interaction parameters (indices into `elements`).
+BINARY_PAIR = (0, 1)
+
+
 def _xlogx(x: np.ndarray) -> np.ndarray:
     if isinstance(x, float):
         return x * math.log(x) if x > 0.0 else 0.0
@@ -90,8 +94,8 @@ class MagneticModel:
     above_curie_fraction: float
     curie_K: np.ndarray          # per element
     moment: np.ndarray           # per element
-    curie_L: tuple[TemperatureFunction, ...] = ()
-    moment_L: tuple[TemperatureFunction, ...] = ()
+    curie_L: dict[tuple[int, int], tuple[TemperatureFunction, ...]] = field(default_factory=dict)
+    moment_L: dict[tuple[int, int], tuple[TemperatureFunction, ...]] = field(default_factory=dict)
     antiferro_factor: float = -3.0
 
 
@@ -100,13 +104,15 @@ class SolutionPhase:
     """Substitutional solution: ideal mixing, Redlich-Kister excess, optional magnetic term.
 
     `endmembers[i]` is the Gibbs energy of pure element i in this structure (J/mol);
-    `interactions[k]` is L[k] (J/mol) of the binary Redlich-Kister series.
+    `interactions[(i, j)]` is the Redlich-Kister series L[0], L[1], ... (J/mol) of the element
+    pair (i, j), i < j (indices into `elements`): one pair in a binary, three in a ternary.
+    The evaluation below is the binary's (pair (0, 1)); a ternary adds its pairs here.
     """
 
     name: str
     elements: tuple[str, ...]
     endmembers: tuple[TemperatureFunction, ...]
-    interactions: tuple[TemperatureFunction, ...] = ()
+    interactions: dict[tuple[int, int], tuple[TemperatureFunction, ...]] = field(default_factory=dict)
     magnetic: MagneticModel | None = None
     kind: str = field(default="solution", init=False)
 
@@ -115,9 +121,9 @@ class SolutionPhase:
         return SolutionAtT(self, T)
 
     def valid_range_K(self) -> tuple[float, float]:
-        funcs = self.endmembers + self.interactions
+        funcs = self.endmembers + sum(self.interactions.values(), ())
         if self.magnetic:
-            funcs = funcs + self.magnetic.curie_L + self.magnetic.moment_L
+            funcs = funcs + sum(self.magnetic.curie_L.values(), ()) + sum(self.magnetic.moment_L.values(), ())
         return max(f.lower_K for f in funcs), min(f.upper_K for f in funcs)
 
 
@@ -129,18 +135,18 @@ class SolutionAtT:
         self.T = T
         self.RT = R * T
         self.g0a, self.g0b = (f.value(T) for f in phase.endmembers)
-        self.L = [f.value(T) for f in phase.interactions]
+        self.L = [f.value(T) for f in phase.interactions.get(BINARY_PAIR, ())]
         mag = phase.magnetic
         if mag is not None:
-            self.curie_L = [f.value(T) for f in mag.curie_L]
-            self.moment_L = [f.value(T) for f in mag.moment_L]
+            self.curie_L = [f.value(T) for f in mag.curie_L.get(BINARY_PAIR, ())]
+            self.moment_L = [f.value(T) for f in mag.moment_L.get(BINARY_PAIR, ())]
 
     @cached_property
     def _temperature_derivatives(self) -> tuple[tuple[float, float], list[float]]:
         """(dG_A/dT, dG_B/dT) of the pure elements and dL[k]/dT, J/(mol K)."""
         ph = self.phase
         da, db = (f.derivative(self.T) for f in ph.endmembers)
-        return (da, db), [f.derivative(self.T) for f in ph.interactions]
+        return (da, db), [f.derivative(self.T) for f in ph.interactions.get(BINARY_PAIR, ())]
 
     # --- magnetic part -------------------------------------------------------------------
     def _magnetic(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, ...]:
