@@ -292,3 +292,13 @@ def liquidus_branches(system) -> tuple[Branch, ...]:
             ends.append(BranchEnd(T, xl, xs, kind, inv))
         branches.append(trace_branch(system, solid, ends[0], ends[1]))
     return tuple(branches)
+
+
+def continuation(branches: tuple[Branch, ...], branch: Branch) -> Branch | None:
+    """The branch the liquid follows after the cold end of `branch` (past a peritectic point),
+    or None where it cannot go on (a eutectic, a melting minimum, the window's edge)."""
+    inv = branch.bottom.invariant
+    if inv is None:
+        return None
+    return next((c for c in branches if c is not branch and c.top.invariant is inv
+                 and abs(c.top.x_liquid - branch.bottom.x_liquid) < _SAME_X), None)

@@ -10,22 +10,34 @@ compositions as mole fraction of B, amounts as fractions of the alloy.
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 from .diagram import map_diagram
 from .equilibrium import PointEquilibrium, equilibrate
 from .melt import melt_range
 from .solidify_heat import State, released_between
 from .solidify_liquidus import LIQUID
-from .solidify_path import Arrest, Constituent, CoolingPath, PathError, PathStep, molar_mass_of, reaction_products
+from .solidify_path import (Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes, describe_reaction,
+                            molar_mass_of, reaction_products)
 
 #: States are taken this far (K) above and below each boundary crossed.
 EDGE_K = 1e-6
-#: A liquid fraction that drops by more than this across a boundary is a plateau.
-_PLATEAU = 1e-7
-#: Step (K) between states along the freezing range: at most this, at least _MIN_STEP_K.
+#: Step (K) between states along the freezing range: the range over _STEPS, within these limits.
 _MAX_STEP_K = 4.0
-_MIN_STEP_K = 0.5
+_MIN_STEP_K = 0.02
 _STEPS = 60
+
+
+@dataclass(frozen=True)
+class _Reaction:
+    """What happens at a plateau: `kind` (eutectic, peritectic, ..., "melting point",
+    "congruent"), the reaction as text, its solids (name, x_B) and whether the liquid lies
+    between them (it then leaves as a two-solid constituent)."""
+
+    kind: str
+    text: str
+    solids: tuple[tuple[str, float], ...]
+    liquid_in_middle: bool
 
 
 def _state(eq: PointEquilibrium) -> State:
@@ -46,8 +58,10 @@ class EquilibriumCooling:
         self.liquidus_K = mr.liquidus_K
         self.solidus_K = mr.solidus_K
         bottom = mr.solidus_K if mr.solidus_K is not None else system.temperature_range_K[0]
-        self.events = [c.temperature_K for c in mr.crossings
-                       if LIQUID in c.above and bottom <= c.temperature_K < mr.liquidus_K]
+        # boundaries crossed with liquid present; the liquidus itself only where the alloy
+        # freezes at one temperature (a pure element, a congruent or a eutectic composition)
+        self.events = [c.temperature_K for c in mr.crossings if LIQUID in c.above and bottom <= c.temperature_K
+                       and (c.above != (LIQUID,) or LIQUID not in c.below)]
         self.bottom_K = bottom
 
     # --- states ---------------------------------------------------------------------------------
@@ -97,66 +111,77 @@ class EquilibriumCooling:
         names: dict[str, str] = {}          # solid -> constituent name
         forms: list[tuple[str, float]] = []
         last_eq = above_eq = None
-        eutectic: Constituent | None = None   # the liquid that left as a eutectic, if it did
-        plateau_kind = None
+        eutectic: Constituent | None = None   # the liquid that left as a two-solid constituent
+        end_reaction: _Reaction | None = None
         for T, T_eval in self._temperatures():
             eq = None if T_eval is None else self._equilibrium(T_eval)
             state: State = ((LIQUID, self.x_B, 1.0),) if eq is None else _state(eq)
             step_heat = released_between(system, states[-1], state, steps[-1].temperature_K, T) / M if states else 0.0
             heat += step_heat
             step = self._step(T, eq, heat)
-            if steps and T == steps[-1].temperature_K and steps[-1].fraction_solid - step.fraction_solid < -_PLATEAU:
-                plateau_kind, solids = self._reaction_at(T)
-                products = reaction_products(system, solids)
-                arrests.append(Arrest(T, "plateau", f"{plateau_kind} plateau: {self._reaction_text(plateau_kind, products)}",
-                                      step_heat))
-                if LIQUID not in step.phases and self._liquid_in_middle(T):
-                    eutectic = Constituent(f"{plateau_kind} {products}", 1.0 - steps[-1].fraction_solid)
-                    above_eq = last_eq
+            reaction = self._reaction_at(T) if steps and T == steps[-1].temperature_K else None
+            if reaction is not None and step.fraction_solid > steps[-1].fraction_solid:
+                arrests.append(Arrest(T, "plateau", f"{reaction.kind} plateau: {reaction.text}", step_heat))
+                if LIQUID not in step.phases:
+                    end_reaction = reaction
+                    if reaction.liquid_in_middle:
+                        eutectic = Constituent(f"{reaction.kind} {reaction_products(system, list(reaction.solids))}",
+                                               1.0 - steps[-1].fraction_solid)
+                        above_eq = last_eq
             for name in step.phases:
                 if name == LIQUID or name in names:
                     continue
-                kind = self._reaction_at(T)[0] if names else "primary"
+                kind = "primary" if not names else reaction.kind if reaction is not None else "boundary"
                 names[name] = f"{kind} {name}"
-                forms.append((name, T))
+                forms.append((name, T if steps[-1].temperature_K == T else self.liquidus_K))
                 if kind != "primary" and not (arrests and arrests[-1].temperature_K == T):
                     arrests.append(Arrest(T, "new phase", f"{kind}: {name} starts to form"))
             steps.append(step)
             states.append(state)
             last_eq = eq
-        arrests.insert(0, Arrest(self.liquidus_K, "liquidus", f"{forms[0][0]} starts to form" if forms else "freezing starts"))
+        first = f"liquidus: {forms[0][0]} starts to form" if forms else "liquidus: freezing starts"
+        if not (arrests and arrests[0].temperature_K == self.liquidus_K):
+            arrests.insert(0, Arrest(self.liquidus_K, "liquidus", first))
         notes: list[str] = []
         if self.solidus_K is None:
             end, end_K = "window", None
             notes.append("liquid is left at the bottom of the mapped temperature window")
-        elif arrests[-1].kind == "plateau" and arrests[-1].temperature_K == self.solidus_K:
-            end, end_K = plateau_kind, self.solidus_K
+        elif end_reaction is not None:
+            end, end_K = end_reaction.kind, self.solidus_K
         else:
             end, end_K = "solidus", self.solidus_K
-            arrests.append(Arrest(self.solidus_K, "end", "freezing ends at the solidus"))
-        final = above_eq if eutectic is not None else last_eq
-        constituents = [Constituent(names.get(p.name, p.name) if p.name != LIQUID else "liquid left at the bottom of the window",
-                                    p.amount_mass) for p in final.phases]
-        if eutectic is not None:
-            constituents.append(eutectic)
+            arrests.append(Arrest(self.solidus_K, "end", "solidus: freezing ends"))
+        constituents = self._constituents(names, above_eq if eutectic is not None else last_eq, eutectic)
         return CoolingPath("equilibrium", system, self.x_B, self.liquidus_K, end_K, end, tuple(steps), tuple(forms),
-                           tuple(constituents), heat, tuple(arrests), tuple(notes))
-
-    # --- the diagram's reactions ------------------------------------------------------------------------
-    def _invariant_at(self, T: float):
-        return next((inv for inv in map_diagram(self.system).invariants if abs(inv.temperature_K - T) < 1e-6), None)
-
-    def _reaction_at(self, T: float) -> tuple[str, list[tuple[str, float]]]:
-        """(kind, its solid phases with x_B) of the invariant reaction at T, if there is one."""
-        inv = self._invariant_at(T)
-        if inv is None:
-            return "boundary", []
-        return inv.kind, [(n, x) for n, x in inv.phases if n != LIQUID]
-
-    def _liquid_in_middle(self, T: float) -> bool:
-        inv = self._invariant_at(T)
-        return inv is not None and inv.phases[1][0] == LIQUID
+                           tuple(c for c in constituents if c.mass_fraction > 0.0), heat, tuple(arrests),
+                           tuple(notes + coverage_notes(system, steps)))
 
     @staticmethod
-    def _reaction_text(kind: str, products: str) -> str:
-        return f"liquid -> {products}" if kind in ("eutectic", "monotectic") else f"liquid + solid -> {products}"
+    def _constituents(names: dict[str, str], final: PointEquilibrium | None,
+                      eutectic: Constituent | None) -> tuple[Constituent, ...]:
+        """The solids of `final` (the end of freezing, or the state just above a eutectic-like
+        plateau) under their names, then the eutectic, or the liquid left in the window."""
+        phases = final.phases if final is not None else ()
+        out = [Constituent(names.get(p.name, p.name), p.amount_mass) for p in phases if p.name != LIQUID]
+        if eutectic is not None:
+            out.append(eutectic)
+        else:
+            out += [Constituent("liquid left at the bottom of the window", p.amount_mass)
+                    for p in phases if p.name == LIQUID]
+        return tuple(out)
+
+    def _reaction_at(self, T: float) -> _Reaction | None:
+        """The diagram's reaction that freezes liquid at one temperature T (K): an invariant
+        reaction, or the melting point of a pure element or a congruent composition."""
+        diagram = map_diagram(self.system)
+        inv = next((i for i in diagram.invariants if abs(i.temperature_K - T) < 1e-6), None)
+        if inv is not None:
+            solids = tuple((n, x) for n, x in inv.phases if n != LIQUID)
+            return _Reaction(inv.kind, describe_reaction(self.system, inv), solids, inv.phases[1][0] == LIQUID)
+        for sp in diagram.special_points:
+            if (sp.kind in ("melting", "congruent") and LIQUID in sp.phases and abs(sp.temperature_K - T) < 1e-6
+                    and abs(sp.x_B - self.x_B) < 1e-9):
+                solid = next(p for p in sp.phases if p != LIQUID)
+                kind = "melting point" if sp.kind == "melting" else "congruent"
+                return _Reaction(kind, f"liquid -> {solid}", ((solid, sp.x_B),), False)
+        return None

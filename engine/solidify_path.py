@@ -140,3 +140,14 @@ def describe_reaction(system, invariant) -> str:
     if invariant.kind in ("peritectic", "peritectoid", "syntectic"):
         return f"{l1} + {l3} -> {l2}"
     return f"{l2} -> {l1} + {l3}"
+
+
+def coverage_notes(system, steps) -> list[str]:
+    """A note where the liquid's composition on a path leaves the range the model covers."""
+    lo, hi = system.covers
+    xs = [s.liquid_x_B for s in steps if s.liquid_x_B is not None]
+    if not xs or (lo - 1e-9 <= min(xs) and max(xs) <= hi + 1e-9):
+        return []
+    b = system.elements[1]
+    return [f"the liquid reaches {100 * min(xs):.3g}-{100 * max(xs):.3g} at% {b}, outside the {100 * lo:g}-{100 * hi:g} "
+            f"at% this model covers: treat the late part of the path with suspicion"]

@@ -19,10 +19,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .solidify_branches import CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, fractions_array, liquidus_branches
+from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, continuation, fractions_array,
+                                liquidus_branches)
 from .solidify_heat import released_between
 from .solidify_liquidus import LIQUID
-from .solidify_path import Arrest, Constituent, CoolingPath, PathError, PathStep, molar_mass_of, reaction_products
+from .solidify_path import (Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes, describe_reaction,
+                            molar_mass_of, reaction_products)
 from .tangent import logit
 
 #: Freezing "ends" in the last-liquid case when this share of the alloy's atoms is still liquid.
@@ -98,32 +100,32 @@ class ScheilCooling:
         if not holding:
             lo, hi = self.system.temperature_range_K
             raise PathError(f"no liquidus for this alloy inside the mapped window ({lo:.0f}-{hi:.0f} K)")
-        b = max(holding, key=lambda c: float(c.temperature(np.array(y0))))
-        y, phi, lnf, name = y0, float(b.phi_at(np.array(y0))), 0.0, f"primary {b.solid}"
-        while True:
+        chain = [max(holding, key=lambda c: float(c.temperature(np.array(y0))))]
+        while (nxt := continuation(branches, chain[-1])) is not None and nxt not in chain:
+            chain.append(nxt)
+        last = chain[-1].bottom
+        runs_out = last.kind in ("melting", "congruent")   # the liquid never meets an invariant
+        y, phi, lnf = y0, float(chain[0].phi_at(np.array(y0))), 0.0
+        for k, b in enumerate(chain):
+            name = f"primary {b.solid}" if k == 0 else f"{b.top.kind} {b.solid}"
             lnf_end = lnf - (float(b.phi[-1]) - phi)
-            if b.bottom.kind in ("melting", "congruent") and lnf_end < math.log(LAST_LIQUID):
+            if runs_out and lnf_end < math.log(LAST_LIQUID):
                 y_end = float(b.y_at_phi(np.array(phi + lnf - math.log(LAST_LIQUID))))
                 self.segments.append(_Segment(b, y, y_end, phi, lnf, name))
                 self.end = "last liquid"
                 return
             self.segments.append(_Segment(b, y, float(b.y[-1]), phi, lnf, name))
-            if b.bottom.kind in ("melting", "congruent", "window"):
-                self.end = "last liquid" if b.bottom.kind != "window" else "window"
-                if b.bottom.kind == "window":
-                    self.notes.append("liquid is left where the liquidus leaves the mapped temperature window")
-                return
-            nxt = next((c for c in branches if c is not b and c.top.invariant is b.bottom.invariant
-                        and abs(c.top.x_liquid - b.bottom.x_liquid) < _SAME_X), None)
-            if nxt is None:
-                self.end = b.bottom.kind
-                self.end_invariant = b.bottom.invariant
-                if b.bottom.kind not in ("eutectic",):
-                    self.notes.append(f"the liquid reaches a {b.bottom.kind} reaction; the rest is taken to "
-                                      f"freeze there")
-                return
-            b, y, phi, lnf = nxt, float(nxt.y[0]), 0.0, lnf_end
-            name = f"{b.top.kind} {b.solid}"
+            y, phi, lnf = (float(chain[k + 1].y[0]), 0.0, lnf_end) if k + 1 < len(chain) else (y, phi, lnf)
+        if runs_out:
+            self.end = "last liquid"
+        elif last.kind == "window":
+            self.end = "window"
+            self.notes.append("liquid is left where the liquidus leaves the mapped temperature window")
+        else:
+            self.end = last.kind
+            self.end_invariant = last.invariant
+            if last.kind != "eutectic":
+                self.notes.append(f"the liquid reaches a {last.kind} reaction; the rest is taken to freeze there")
 
     # --- states ---------------------------------------------------------------------------------------
     def _steps(self, seg: _Segment, ys: np.ndarray, solids: tuple[str, ...]) -> list[PathStep]:
@@ -212,7 +214,7 @@ class ScheilCooling:
                                           s.phases, heat))
             t_hot = seg_steps[0].temperature_K
             forms.append((b.solid, t_hot))
-            kind, text = ("liquidus", f"{b.solid} starts to form") if k == 0 else \
+            kind, text = ("liquidus", f"liquidus: {b.solid} starts to form") if k == 0 else \
                 ("new phase", f"{b.top.kind}: {b.solid} starts to form")
             arrests.append(Arrest(t_hot, kind, text))
             constituents.append(Constituent(seg.name, seg_steps[-1].fraction_solid - seg_steps[0].fraction_solid))
@@ -224,8 +226,10 @@ class ScheilCooling:
         else:
             constituents[-1] = Constituent(constituents[-1].name, constituents[-1].mass_fraction + 1.0 - last.fraction_solid)
             arrests.append(Arrest(last.temperature_K, "end", "the last liquid freezes"))
+        notes = list(self.notes) + coverage_notes(system, steps)
         return CoolingPath("scheil", system, self.x_B, steps[0].temperature_K, self.end_K, self.end, tuple(steps),
-                           tuple(forms), tuple(constituents), heat, tuple(arrests), tuple(self.notes))
+                           tuple(forms), tuple(c for c in constituents if c.mass_fraction > 0.0), heat,
+                           tuple(arrests), tuple(notes))
 
     def _freeze_at_invariant(self, steps, arrests, forms, constituents, heat: float) -> float:
         """The rest of the liquid freezes at the invariant reaction's temperature."""
@@ -243,9 +247,9 @@ class ScheilCooling:
         steps.append(PathStep(T, 1.0, 1.0, None, end.phases, heat))
         present = {f[0] for f in forms}
         forms += [(n, T) for n, _ in solids if n not in present and n != LIQUID]
-        products = reaction_products(self.system, solids)
-        arrests.append(Arrest(T, "plateau", f"{self.end} plateau: liquid -> {products}", plateau))
-        constituents.append(Constituent(f"{self.end} {products}", 1.0 - last.fraction_solid))
+        arrests.append(Arrest(T, "plateau", f"{self.end} plateau: {describe_reaction(self.system, self.end_invariant)}",
+                              plateau))
+        constituents.append(Constituent(f"{self.end} {reaction_products(self.system, solids)}", 1.0 - last.fraction_solid))
         return heat
 
     def _single_path(self) -> CoolingPath:

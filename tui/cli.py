@@ -21,6 +21,7 @@ COMMANDS = {
     "systems": "systems",
     "melt": "melt",
     "diagram": "diagram",
+    "cool": "cool",
     "serve": "serve",
 }
 

@@ -1,0 +1,175 @@
+"""`ladle cool`: how one alloy freezes, at equilibrium and by Scheil-Gulliver, side by side."""
+
+from __future__ import annotations
+
+import argparse
+import os
+import shutil
+import sys
+
+from .. import quote
+from .common import add_composition_argument, add_system_argument, alloy_composition, open_system, print_json
+
+HELP = "how an alloy freezes: fraction solid, liquid composition and phases on cooling (equilibrium and Scheil)"
+
+#: About this many evenly spaced rows between the liquidus and the end of freezing.
+TABLE_ROWS = 12
+#: Arrests of the two paths closer than this (K) share a row.
+_SAME_K = 1e-6
+
+
+def add_arguments(p: argparse.ArgumentParser) -> None:
+    add_system_argument(p)
+    add_composition_argument(p)
+    p.add_argument("--scheil", action="store_true",
+                   help="show the Scheil path's liquid and phases (and put it at the top of --json); default: equilibrium")
+    p.add_argument("--unit", choices=("C", "K", "F"), default="C", help="temperature unit (default C)")
+    out = p.add_mutually_exclusive_group()
+    out.add_argument("--json", action="store_true", help="print one JSON object with both paths")
+    out.add_argument("--plot", action="store_true", help="draw both paths in the terminal instead of the table")
+    p.add_argument("--ascii", action="store_true", help="plain ASCII characters only (with --plot)")
+
+
+def run(args: argparse.Namespace) -> int:
+    from ladle.engine.solidify import solidify
+
+    system = open_system(args.system)
+    x_b, comp = alloy_composition(system, args.comp)
+    result = solidify(system, x_b)
+    model = "scheil" if args.scheil else "equilibrium"
+    if args.json:
+        print_json(result.to_json(model))
+        return 0
+    element = comp.element or system.elements[1]
+    lines = [heading(system, x_b, element, comp.basis)]
+    if args.plot:
+        lines.append(render_plot(system, result, args.unit, args.ascii))
+    else:
+        lines += table(system, result, model, args.unit, element, comp.basis)
+    lines += summary(system, result, args.unit)
+    print("\n".join(lines))
+    return 0
+
+
+# --- text --------------------------------------------------------------------------------------
+def _composition(system, x_b: float, element: str, basis: str) -> str:
+    """x_B as the person's element and basis: '10.0' (wt% or at% of `element`)."""
+    from ladle.engine.solidify_path import mass_fraction_of_B
+
+    frac_b = mass_fraction_of_B(system, x_b) if basis == "wt" else x_b
+    return quote.percent(frac_b if element == system.elements[1] else 1.0 - frac_b)
+
+
+def heading(system, x_b: float, element: str, basis: str) -> str:
+    other = "at" if basis == "wt" else "wt"
+    title = system.title or "-".join(system.elements)
+    return (f"{title}, alloy {element} {_composition(system, x_b, element, basis)} {basis}% "
+            f"({_composition(system, x_b, element, other)} {other}%)")
+
+
+def row_temperatures(result, unit: str) -> list[tuple[float, bool]]:
+    """(T in K, after-the-plateau) for the table: the liquidus, evenly spaced round values in
+    the person's unit, and every arrest of both paths (a plateau twice: before and after)."""
+    from ladle.engine.units import kelvin_from, kelvin_to
+
+    from ..explorer.cursor import nice_step
+
+    paths = (result.equilibrium, result.scheil)
+    top = result.equilibrium.liquidus_K
+    bottom = min(s.temperature_K for p in paths for s in p.steps)
+    rows = {(top, False)}
+    for p in paths:
+        for a in p.arrests:
+            if abs(a.temperature_K - top) > _SAME_K:
+                rows.add((a.temperature_K, False))
+            if a.kind == "plateau":
+                rows.add((a.temperature_K, True))
+    hi, lo = kelvin_to(top, unit), kelvin_to(bottom, unit)
+    if hi - lo > 0.0:
+        step = nice_step(hi - lo, TABLE_ROWS)
+        k = int(hi // step)
+        while k * step > lo:
+            if k * step < hi:
+                rows.add((kelvin_from(k * step, unit), False))
+            k -= 1
+    return sorted(rows, key=lambda r: (-r[0], r[1]))
+
+
+def _solid(fraction: float) -> str:
+    """Fraction solid as a percentage to a tenth, as a casting engineer reads it."""
+    return f"{100.0 * fraction:.1f}"
+
+
+def table(system, result, model: str, unit: str, element: str, basis: str) -> list[str]:
+    """Temperature, fraction solid of both paths, and the chosen path's liquid and phases."""
+    label = "Scheil" if model == "scheil" else "equilibrium"
+    head = [("", "solid, mass %", "", "liquid", ""),
+            ("temperature", "equilibrium", "Scheil", f"{element} {basis}%", f"phases ({label} path)")]
+    rows = []
+    for T, after in row_temperatures(result, unit):
+        eq, sc = result.states_at(T, below=after)
+        shown = sc if model == "scheil" else eq
+        liquid = "-" if shown.liquid_x_B is None else _composition(system, shown.liquid_x_B, element, basis)
+        rows.append((quote.temperature(T, unit), _solid(eq.fraction_solid), _solid(sc.fraction_solid),
+                     liquid, " + ".join(shown.phases)))
+    widths = [max(len(r[i]) for r in head + rows) for i in range(4)]
+    out = [""]
+    for r in head + rows:
+        out.append("  ".join(f"{v:>{w}}" for v, w in zip(r[:4], widths)) + "  " + r[4])
+    return out
+
+
+def summary(system, result, unit: str) -> list[str]:
+    """Ends of freezing, the structure at the end, latent heat and arrests of both paths."""
+    paths = (result.equilibrium, result.scheil)
+    names = {"equilibrium": "equilibrium", "scheil": "Scheil"}
+    out = [""]
+    for p in paths:
+        end = "liquid remains in the mapped window" if p.end_K is None else \
+            f"{quote.temperature(p.end_K, unit)} ({p.end})"
+        out.append(f"freezing ends, {names[p.model]}: {end}")
+    structure = []
+    for p in paths:
+        for c in p.constituents:
+            if c.name not in structure:
+                structure.append(c.name)
+    out += ["", f"{'structure at the end, mass %':<36}{'equilibrium':>12}{'Scheil':>10}"]
+    for name in structure:
+        amounts = [next((quote.percent(c.mass_fraction) for c in p.constituents if c.name == name), "-") for p in paths]
+        out.append(f"  {name:<34}{amounts[0]:>12}{amounts[1]:>10}")
+    out.append("")
+    out.append("latent heat released: " + ", ".join(f"{names[p.model]} {p.latent_heat_J_per_g:.1f} J/g" for p in paths))
+    for p in paths:
+        out.append(f"cooling-curve arrests, {names[p.model]}:")
+        for a in p.arrests:
+            heat = f", {a.heat_J_per_g:.1f} J/g" if a.heat_J_per_g is not None else ""
+            out.append(f"  {quote.temperature(a.temperature_K, unit):>12}  {a.description}{heat}")
+        out += [f"  note: {n}" for n in p.notes]
+    out.append("Scheil takes no diffusion in the solid and a fully mixed liquid; a real casting lies between the paths.")
+    if system.safety:
+        out.append(f"safety: {system.safety}")
+    out.append("Computed estimate: defer to the alloy's specification and certified data.")
+    return out
+
+
+# --- plot ---------------------------------------------------------------------------------------
+def render_plot(system, result, unit: str, ascii_only: bool) -> str:
+    """Both paths drawn by plotext at the terminal's size (at least 80x24)."""
+    import plotext
+
+    from ..explorer.cooling_drawing import cooling_scene, draw_cooling
+    from ..explorer.glyphs import glyphs_for
+    from ..explorer.scales import Scales
+
+    size = shutil.get_terminal_size((80, 24))
+    width, height = max(size.columns, 80), max(size.lines - 6, 20)
+    glyphs = glyphs_for(ascii_only)
+    plotext.clear_figure()
+    plotext.plotsize(width, height)
+    plotext.theme("clear")
+    plotext.title("fraction solid on cooling: equilibrium and Scheil")
+    draw_cooling(plotext, cooling_scene(result, Scales(system.molar_mass, unit), glyphs, width, height), glyphs)
+    text = plotext.build()
+    if os.environ.get("NO_COLOR") or not sys.stdout.isatty():
+        text = plotext.uncolorize(text)
+    return glyphs.plot_text(text)
