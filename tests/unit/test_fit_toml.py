@@ -20,7 +20,7 @@ documents = st.dictionaries(keys, values | st.lists(st.dictionaries(keys, values
                             max_size=6)
 
 
-@settings(max_examples=150, deadline=None)
+@settings(max_examples=60, deadline=None)
 @given(documents)
 def test_round_trip_through_tomllib(doc):
     assert tomllib.loads(toml_text(doc)) == doc
