@@ -120,6 +120,9 @@ class EquilibriumCooling:
             heat += step_heat
             step = self._step(T, eq, heat)
             reaction = self._reaction_at(T) if steps and T == steps[-1].temperature_K else None
+            if steps and T == steps[-1].temperature_K and reaction is None:
+                steps.pop()                 # a boundary without a reaction: one state is enough
+                states.pop()
             if reaction is not None and step.fraction_solid > steps[-1].fraction_solid:
                 arrests.append(Arrest(T, "plateau", f"{reaction.kind} plateau: {reaction.text}", step_heat))
                 if LIQUID not in step.phases:

@@ -209,9 +209,10 @@ class ScheilCooling:
                     before = ((LIQUID, prev.liquid_x_B, f0),)
                     after = ((LIQUID, s.liquid_x_B, f1), (b.solid, 0.5 * (xs[i - 1] + xs[i]), f0 - f1))
                     heat += released_between(system, before, after, prev.temperature_K, s.temperature_K) / M
-                if i > 0 or k == 0:
+                if i > 0 or k == 0:       # at the liquidus the alloy is still all liquid
+                    phases = s.phases if steps else (LIQUID,)
                     steps.append(PathStep(s.temperature_K, s.fraction_solid, s.fraction_solid_mol, s.liquid_x_B,
-                                          s.phases, heat))
+                                          phases, heat))
             t_hot = seg_steps[0].temperature_K
             forms.append((b.solid, t_hot))
             kind, text = ("liquidus", f"liquidus: {b.solid} starts to form") if k == 0 else \
