@@ -22,7 +22,7 @@ from .polynomials import COEFFICIENTS, TemperatureFunction
 from .system import System
 
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
-_TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent",
+_TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
              "temperature_range_K", "phase", "check", "measured", "fit", "fit_report"}
 _SOLUTION_KEYS = {"model", "G", "L", "magnetic", "notes", "source"}
 _COMPOUND_KEYS = {"model", "formula", "reference", "formation", "notes", "source"}
@@ -184,6 +184,15 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         if not 0 <= lo < hi <= 100:
             raise r.fail("covers_at_percent", "expected 0 <= from < to <= 100 (at%)")
         covers = (lo / 100.0, hi / 100.0)
+    covers_K = (0.0, float("inf"))
+    if "covers_K" in doc:
+        c = doc["covers_K"]
+        if not isinstance(c, list) or len(c) != 2:
+            raise r.fail("covers_K", "expected [low, high]: the temperatures (K) the model is meant for")
+        lo, hi = (r.number(v, "covers_K") for v in c)
+        if not 0 <= lo < hi:
+            raise r.fail("covers_K", "expected 0 <= low < high (K)")
+        covers_K = (lo, hi)
     t_range = None
     if "temperature_range_K" in doc:
         c = doc["temperature_range_K"]
@@ -211,7 +220,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
             raise r.fail(f"{key}.model", f"unknown model {model!r}; expected \"solution\" or \"compound\"")
     phases: dict = dict(solutions)
     for pname, ptable in compound_docs.items():
-        phases[pname] = _compound(r, pname, ptable, elements, solutions)
+        phases[pname] = _compound(r, library, pname, ptable, elements, solutions)
 
     system = System(
         name=name or path.stem.lower(),
@@ -224,6 +233,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         safety=r.text(doc["safety"], "safety") if "safety" in doc else "",
         notes=r.text(doc["notes"], "notes") if "notes" in doc else "",
         covers=covers,
+        covers_K=covers_K,
         declared_temperature_range_K=t_range,
         document=doc,
     )
@@ -304,7 +314,8 @@ def _magnetic(r: _Reader, value: Any, key: str, elements: tuple[str, str]) -> Ma
                          {(0, 1): r.expressions(m.get("moment_L", []), f"{key}.moment_L")}, factor)
 
 
-def _compound(r: _Reader, name: str, table: dict, elements: tuple[str, str], solutions: dict[str, SolutionPhase]) -> CompoundPhase:
+def _compound(r: _Reader, library: ElementLibrary, name: str, table: dict, elements: tuple[str, str],
+              solutions: dict[str, SolutionPhase]) -> CompoundPhase:
     key = f"phase.{name}"
     r.known_keys(table, _COMPOUND_KEYS, key)
     for req in ("formula", "reference", "formation"):
@@ -328,8 +339,12 @@ def _compound(r: _Reader, name: str, table: dict, elements: tuple[str, str], sol
             if x[i] > 0:
                 raise r.fail(f"{key}.reference.{el}", "missing: name the phase whose pure-element energy is the reference")
             ref = next(iter(solutions), None)
-        if ref not in solutions:
-            raise r.fail(f"{key}.reference.{el}", f"expected the name of a solution phase of this system ({', '.join(solutions) or 'none'}), found {ref!r}")
-        refs.append(solutions[ref].endmembers[i])
+        if ref in solutions:
+            refs.append(solutions[ref].endmembers[i])
+        elif isinstance(ref, str):      # a structure of the element library
+            refs.append(library.function(el, ref, f"{key}.reference.{el}", r))
+        else:
+            raise r.fail(f"{key}.reference.{el}", f"expected a solution phase of this system ({', '.join(solutions) or 'none'}) "
+                         f"or a structure of the element library, found {ref!r}")
     formation = r.expression(table["formation"], f"{key}.formation")
     return CompoundPhase(name, elements, x, tuple(refs), formation)

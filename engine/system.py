@@ -38,7 +38,8 @@ class Fact:
 class System:
     """A binary alloy system: elements A and B, molar masses (g/mol) and phase models.
 
-    `covers` is the range of x_B (mole fraction) the model is meant for.
+    `covers` is the range of x_B (mole fraction) and `covers_K` the range of temperature (K)
+    the model is meant for.
     """
 
     name: str
@@ -51,6 +52,7 @@ class System:
     safety: str = ""
     notes: str = ""
     covers: tuple[float, float] = (0.0, 1.0)
+    covers_K: tuple[float, float] = (0.0, float("inf"))
     declared_temperature_range_K: tuple[float, float] | None = None
     checks: list[Fact] = field(default_factory=list)
     measured: list[Fact] = field(default_factory=list)
@@ -80,11 +82,14 @@ class System:
 
     @cached_property
     def temperature_range_K(self) -> tuple[float, float]:
-        """The window (K) diagrams are mapped over: declared in the file, or from the melting points."""
+        """The window (K) diagrams are mapped over: declared in the file, or from the melting
+        points; never outside the temperatures the model covers."""
+        c_lo, c_hi = self.covers_K
         if self.declared_temperature_range_K is not None:
-            return self.declared_temperature_range_K
-        melts = [t for t in self.melting_points.values() if t]
-        lo, hi = self.model_range_K
-        if not melts:
-            return max(lo, 300.0), min(hi, 2000.0)
-        return max(lo, 0.6 * min(melts)), min(hi, 1.15 * max(melts))
+            lo, hi = self.declared_temperature_range_K
+        else:
+            melts = [t for t in self.melting_points.values() if t]
+            m_lo, m_hi = self.model_range_K
+            lo, hi = (max(m_lo, 300.0), min(m_hi, 2000.0)) if not melts else \
+                (max(m_lo, 0.6 * min(melts)), min(m_hi, 1.15 * max(melts)))
+        return max(lo, c_lo), min(hi, c_hi)

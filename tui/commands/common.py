@@ -47,6 +47,10 @@ def temperature_kelvin(system, text: str):
     lo, hi = system.model_range_K
     if not lo <= t.kelvin <= hi:
         raise CommandError(f"temperature {text} is outside the range of this system's models ({lo:g}-{hi:g} K)")
+    c_lo, c_hi = system.covers_K
+    if not c_lo <= t.kelvin <= c_hi:
+        raise CommandError(f"temperature {text} lies outside the temperatures this model covers "
+                           f"({c_lo:g}-{c_hi:g} K); no answer is given there")
     return t
 
 
