@@ -29,6 +29,7 @@ def clean_environment(monkeypatch, tmp_path):
     for name in ENVIRONMENT_LEAKS:
         monkeypatch.delenv(name, raising=False)
     monkeypatch.setenv("XDG_STATE_HOME", str(tmp_path / "state"))
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
     monkeypatch.setenv("LADLE_SYSTEMS", str(tmp_path / "no-user-systems"))   # shipped ones only
     monkeypatch.chdir(tmp_path)
     return tmp_path

@@ -3,7 +3,7 @@ opened."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from ladle.engine import SystemFileError, UnknownSystem, find_system, list_systems
 
@@ -34,7 +34,31 @@ def system_choices() -> list[SystemChoice]:
         except (SystemFileError, UnknownSystem, OSError) as error:
             choices.append(SystemChoice(entry.name, problem=str(error)))
             continue
-        count = len(system.checks)
-        checks = f"{count} handbook check{'s' if count != 1 else ''}" if count else "no checks"
-        choices.append(SystemChoice(entry.name, system.title, system.source, system.safety, checks))
+        choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
+                                    checks_text(None, len(system.checks))))
     return choices
+
+
+def checks_text(passed: int | None, total: int) -> str:
+    """'12 handbook checks', or '11 of 12 handbook checks pass' once they are evaluated."""
+    if not total:
+        return "no checks"
+    noun = f"handbook check{'s' if total != 1 else ''}"
+    if passed is None:
+        return f"{total} {noun}"
+    return f"{passed} of {total} {noun} pass"
+
+
+def with_check_results(choices: list[SystemChoice]) -> list[SystemChoice]:
+    """The choices with how many checks pass (evaluated by the engine, remembered in the user's
+    cache, so slow only the first time a system file is seen)."""
+    from ladle.engine.measure_cache import check_counts
+
+    out = []
+    for choice in choices:
+        if choice.problem:
+            out.append(choice)
+            continue
+        passed, total = check_counts(find_system(choice.name))
+        out.append(replace(choice, checks=checks_text(passed, total)))
+    return out

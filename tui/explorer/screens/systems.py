@@ -10,7 +10,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Input, OptionList, Static
 from textual.widgets.option_list import Option
 
-from ..system_choices import SystemChoice
+from ..system_choices import SystemChoice, with_check_results
 
 
 class SystemPicker(ModalScreen[str | None]):
@@ -37,6 +37,16 @@ class SystemPicker(ModalScreen[str | None]):
         field.cursor_blink = False
         self._fill("")
         field.focus()
+        self.run_worker(self._count_checks, thread=True, exclusive=True)
+
+    def _count_checks(self) -> None:
+        """In a thread: how many checks each system passes, then show them."""
+        counted = with_check_results(self.choices)
+        self.app.call_from_thread(self._show_counts, counted)
+
+    def _show_counts(self, counted: list[SystemChoice]) -> None:
+        self.choices = counted
+        self._fill(self.query_one(Input).value)
 
     def _fill(self, query: str) -> None:
         options = self.query_one(OptionList)
