@@ -1,0 +1,122 @@
+"""A bad system file is reported in one line naming the file, the key and what was expected
+(issue 2); nothing in a file is evaluated as code. The expected keys and wording follow
+systems/FORMAT.md."""
+
+from __future__ import annotations
+
+import pytest
+
+from ladle.engine import SystemFileError, TemperatureOutOfRange, equilibrate, load_system
+
+VALID = '''
+elements = ["A", "B"]
+molar_mass = { A = 60.0, B = 30.0 }
+source = "Synthetic test system: invented parameters."
+
+[phase.liquid]
+model = "solution"
+G.A = [ { upto = 3000.0, a = 12000.0, b = -10.0 } ]
+G.B = [ { upto = 3000.0, a = 10000.0, b = -10.0 } ]
+
+[phase.fcc]
+model = "solution"
+G.A = [ { upto = 1000.0 }, { upto = 3000.0, a = 0.0 } ]
+G.B = [ { upto = 3000.0, a = 6000.0 } ]
+L = [ { a = 15000.0, b = -2.0 } ]
+
+[phase.AB]
+model = "compound"
+formula = "AB"
+reference = { A = "fcc", B = "fcc" }
+formation = { a = -8000.0 }
+'''
+
+FCC_GB = "G.B = [ { upto = 3000.0, a = 6000.0 } ]"
+FCC_GA = "G.A = [ { upto = 1000.0 }, { upto = 3000.0, a = 0.0 } ]"
+
+# (case, replace this, by this, key named in the message, words of what was expected)
+CASES = [
+    ("missing element energy", FCC_GB, "", "phase.fcc.G.B", "missing"),
+    ("unsorted pieces", FCC_GA, "G.A = [ { upto = 2000.0 }, { upto = 1000.0 } ]", "phase.fcc.G.A[1].upto", "increasing 'upto'"),
+    ("overlapping pieces", FCC_GA, "G.A = [ { upto = 1000.0 }, { upto = 1000.0 } ]", "phase.fcc.G.A[1].upto", "increasing 'upto'"),
+    ("piece without upper limit", FCC_GA, "G.A = [ { a = 0.0 } ]", "phase.fcc.G.A[0]", "missing 'upto'"),
+    ("unknown model", 'model = "compound"', 'model = "gas"', "phase.AB.model", "unknown model 'gas'"),
+    ("non-numeric coefficient", "a = 6000.0", 'a = "6000"', "phase.fcc.G.B[0].a", "expected a number"),
+    ("boolean coefficient", "L = [ { a = 15000.0, b = -2.0 } ]", "L = [ { a = true } ]", "phase.fcc.L[0].a", "expected a number"),
+    ("unknown coefficient", "formation = { a = -8000.0 }", "formation = { a = -8000.0, z = 1.0 }", "phase.AB.formation.z", "unknown key"),
+    ("formula with an element not in the system", 'formula = "AB"', 'formula = "AZn"', "phase.AB.formula", "Zn is not in this system"),
+    ("unreadable formula", 'formula = "AB"', 'formula = "A-B"', "phase.AB.formula", "cannot read formula"),
+    ("compound reference not a phase name", 'reference = { A = "fcc", B = "fcc" }', 'reference = { A = "fcc", B = 3 }',
+     "phase.AB.reference.B", "solution phase of this system"),
+    ("molar mass zero", "B = 30.0 }", "B = 0.0 }", "molar_mass.B", "positive molar mass"),
+    ("molar mass negative", "B = 30.0 }", "B = -30.0 }", "molar_mass.B", "positive molar mass"),
+    ("missing molar mass", "molar_mass = { A = 60.0, B = 30.0 }", "molar_mass = { A = 60.0 }", "molar_mass.B", "missing"),
+    ("missing source", 'source = "Synthetic test system: invented parameters."', "", "source", "missing"),
+    ("misspelt top-level key", "source =", "sourse =", "sourse", "unknown key"),
+    ("one element only", 'elements = ["A", "B"]', 'elements = ["A"]', "elements", "two different element symbols"),
+    ("same element twice", 'elements = ["A", "B"]', 'elements = ["A", "A"]', "elements", "two different element symbols"),
+    ("interactions not a list", "L = [ { a = 15000.0, b = -2.0 } ]", "L = 15000.0", "phase.fcc.L", "expected a list"),
+]
+
+
+def _write(tmp_path, text: str):
+    path = tmp_path / "bad.toml"
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+def test_the_base_file_is_valid(tmp_path):
+    system = load_system(_write(tmp_path, VALID))
+    assert system.elements == ("A", "B")
+    assert sorted(system.phases) == ["AB", "fcc", "liquid"]
+
+
+@pytest.mark.parametrize("case,old,new,key,expected", CASES, ids=[c[0] for c in CASES])
+def test_bad_file_is_reported_in_one_line(tmp_path, case, old, new, key, expected):
+    assert old in VALID, case
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID.replace(old, new, 1)))
+    message = str(err.value)
+    assert "\n" not in message
+    assert message.startswith("bad.toml: "), message
+    assert f" {key}: " in message or f" {key}." in message or f"{key}:" in message, message
+    assert expected in message, message
+
+
+def test_not_toml_is_reported(tmp_path):
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID.replace("[phase.fcc]", "[phase.fcc")))
+    assert str(err.value).startswith("bad.toml: not valid TOML")
+    assert "\n" not in str(err.value)
+
+
+def test_missing_file_is_reported(tmp_path):
+    with pytest.raises(SystemFileError, match="no such file"):
+        load_system(tmp_path / "absent.toml")
+
+
+def test_nothing_in_a_file_is_run_as_code(tmp_path):
+    marker = tmp_path / "ran"
+    text = VALID.replace("a = 6000.0", f"a = \"__import__('os').system('touch {marker}')\"")
+    with pytest.raises(SystemFileError, match="expected a number"):
+        load_system(_write(tmp_path, text))
+    assert not marker.exists()
+
+
+def test_temperature_outside_every_piece(tmp_path):
+    # Pieces end at 3000 K (and the first starts at 1 K by default): outside, an error, never
+    # an extrapolation (systems/FORMAT.md).
+    system = load_system(_write(tmp_path, VALID))
+    assert system.model_range_K == (1.0, 3000.0)
+    with pytest.raises(TemperatureOutOfRange) as err:
+        equilibrate(system, 3500.0, 0.3)
+    assert "3500.00 K is outside" in str(err.value) and "1-3000 K" in str(err.value)
+
+
+def test_temperature_below_the_first_piece(tmp_path):
+    text = VALID.replace("G.A = [ { upto = 3000.0, a = 12000.0, b = -10.0 } ]",
+                         "G.A = [ { from = 500.0, upto = 3000.0, a = 12000.0, b = -10.0 } ]")
+    system = load_system(_write(tmp_path, text))
+    assert system.model_range_K == (500.0, 3000.0)
+    with pytest.raises(TemperatureOutOfRange, match="400.00 K is outside"):
+        equilibrate(system, 400.0, 0.3)
