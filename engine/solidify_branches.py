@@ -81,6 +81,20 @@ def gap_array(y: np.ndarray, ys: np.ndarray) -> np.ndarray:
     return np.where(lb <= 0.5, lb - sb, sa - la)
 
 
+def interval_of(nodes: np.ndarray, y: np.ndarray) -> np.ndarray:
+    """Index i of the interval [nodes_i, nodes_i+1] holding each y, for monotone `nodes`
+    (increasing or decreasing; clipped to the first and last interval)."""
+    sign = 1.0 if nodes[-1] > nodes[0] else -1.0
+    k = np.searchsorted(sign * nodes, sign * np.asarray(y, dtype=float), side="right") - 1
+    return np.clip(k, 0, len(nodes) - 2)
+
+
+def hermite_at(nodes: np.ndarray, values: np.ndarray, derivatives: np.ndarray, y: np.ndarray) -> np.ndarray:
+    """The cubic Hermite curve through (nodes, values) with slopes `derivatives`, at y."""
+    i = interval_of(nodes, y)
+    return hermite(nodes[i], nodes[i + 1], values[i], values[i + 1], derivatives[i], derivatives[i + 1], y)[0]
+
+
 def hermite(y0, y1, f0, f1, d0, d1, y):
     """Cubic Hermite interpolation on [y0, y1] (values f, slopes d): (value, slope) at y."""
     h = y1 - y0
@@ -121,13 +135,11 @@ class Branch:
     # --- interpolation ---------------------------------------------------------------------------
     def interval(self, y: np.ndarray) -> np.ndarray:
         """Index i of the interval [y_i, y_i+1] holding each y (clipped to the branch)."""
-        k = np.searchsorted(self.direction * self.y, self.direction * np.asarray(y, dtype=float), side="right") - 1
-        return np.clip(k, 0, len(self.y) - 2)
+        return interval_of(self.y, y)
 
-    def temperature(self, y: np.ndarray, i: np.ndarray | None = None) -> np.ndarray:
+    def temperature(self, y: np.ndarray) -> np.ndarray:
         """Liquidus temperature (K) at the liquid's y."""
-        i = self.interval(y) if i is None else i
-        return hermite(self.y[i], self.y[i + 1], self.T[i], self.T[i + 1], self.dT[i], self.dT[i + 1], y)[0]
+        return hermite_at(self.y, self.T, self.dT, y)
 
     def solid_y(self, y: np.ndarray, i: np.ndarray | None = None) -> np.ndarray:
         """y of the solid in equilibrium with the liquid at y."""
@@ -160,28 +172,6 @@ class Branch:
         lo, hi = min(self.y[0], self.y[-1]), max(self.y[0], self.y[-1])
         return (y >= lo) & (y <= hi)
 
-    def invert(self, values: np.ndarray, derivatives: np.ndarray, target: np.ndarray) -> np.ndarray:
-        """y where the Hermite curve of (values, derivatives) at the points equals `target`;
-        the curve must be monotone along the branch. Targets outside give NaN."""
-        target = np.asarray(target, dtype=float)
-        sign = 1.0 if values[-1] > values[0] else -1.0
-        k = np.searchsorted(sign * values, sign * target, side="right") - 1
-        inside = (k >= 0) & (k < len(values) - 1) | (target == values[-1])
-        k = np.clip(k, 0, len(values) - 2)
-        y0, y1 = self.y[k], self.y[k + 1]
-        f0, f1 = values[k], values[k + 1]
-        with np.errstate(divide="ignore", invalid="ignore"):
-            y = np.where(f1 != f0, y0 + (target - f0) / (f1 - f0) * (y1 - y0), y0)
-        lo, hi = np.minimum(y0, y1), np.maximum(y0, y1)
-        for _ in range(30):
-            v, s = hermite(y0, y1, f0, f1, derivatives[k], derivatives[k + 1], y)
-            with np.errstate(divide="ignore", invalid="ignore"):
-                step = np.where(s != 0, (v - target) / s, 0.0)
-            y = np.clip(y - step, lo, hi)
-            if np.all(np.abs(step) < 1e-14 * (1.0 + np.abs(y))):
-                break
-        return np.where(inside, y, np.nan)
-
     def y_at_phi(self, target: np.ndarray) -> np.ndarray:
         """y where Phi reaches `target` (Phi grows along the branch); NaN beyond its end."""
         target = np.asarray(target, dtype=float)
@@ -199,6 +189,30 @@ class Branch:
             if np.all(np.abs(step) < 1e-14 * (1.0 + np.abs(y))):
                 break
         return np.where(inside, y, np.nan)
+
+
+def invert_hermite(y: np.ndarray, values: np.ndarray, derivatives: np.ndarray, target: np.ndarray) -> np.ndarray:
+    """The y where the Hermite curve through (y, values) with slopes `derivatives` equals
+    `target`; the values must be monotone. Targets outside their range give NaN."""
+    target = np.asarray(target, dtype=float)
+    sign = 1.0 if values[-1] > values[0] else -1.0
+    k = np.searchsorted(sign * values, sign * target, side="right") - 1
+    inside = ((k >= 0) & (k < len(values) - 1)) | (target == values[-1])
+    k = np.clip(k, 0, len(values) - 2)
+    y0, y1 = y[k], y[k + 1]
+    f0, f1 = values[k], values[k + 1]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        guess = np.where(f1 != f0, y0 + (target - f0) / (f1 - f0) * (y1 - y0), y0)
+    lo, hi = np.minimum(y0, y1), np.maximum(y0, y1)
+    guess = np.clip(guess, lo, hi)
+    for _ in range(30):
+        v, s = hermite(y0, y1, f0, f1, derivatives[k], derivatives[k + 1], guess)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            step = np.where(s != 0, (v - target) / s, 0.0)
+        guess = np.clip(guess - step, lo, hi)
+        if np.all(np.abs(step) < 1e-14 * (1.0 + np.abs(guess))):
+            break
+    return np.where(inside, guess, np.nan)
 
 
 # --- tracing --------------------------------------------------------------------------------------
@@ -294,6 +308,13 @@ def liquidus_branches(system) -> tuple[Branch, ...]:
     return tuple(branches)
 
 
+def logit_array(x: np.ndarray) -> np.ndarray:
+    """y = ln(xB/xA) of mole fractions x_B (x_A taken as 1 - x_B), -inf and inf at the ends."""
+    x = np.asarray(x, dtype=float)
+    with np.errstate(divide="ignore"):
+        return np.log(x) - np.log1p(-x)
+
+
 def continuation(branches: tuple[Branch, ...], branch: Branch) -> Branch | None:
     """The branch the liquid follows after the cold end of `branch` (past a peritectic point),
     or None where it cannot go on (a eutectic, a melting minimum, the window's edge)."""
@@ -302,3 +323,11 @@ def continuation(branches: tuple[Branch, ...], branch: Branch) -> Branch | None:
         return None
     return next((c for c in branches if c is not branch and c.top.invariant is inv
                  and abs(c.top.x_liquid - branch.bottom.x_liquid) < _SAME_X), None)
+
+
+def chain_from(branches: tuple[Branch, ...], first: Branch) -> list[Branch]:
+    """The branches the liquid runs down from `first` on, past every peritectic point."""
+    chain = [first]
+    while (nxt := continuation(branches, chain[-1])) is not None and nxt not in chain:
+        chain.append(nxt)
+    return chain

@@ -19,8 +19,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, continuation, fractions_array,
-                                liquidus_branches)
+from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, chain_from, fractions_array,
+                                invert_hermite, liquidus_branches)
 from .solidify_heat import released_between
 from .solidify_liquidus import LIQUID
 from .solidify_path import (Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes, describe_reaction,
@@ -30,6 +30,74 @@ from .tangent import logit
 #: Freezing "ends" in the last-liquid case when this share of the alloy's atoms is still liquid.
 LAST_LIQUID = 1e-6
 _SAME_X = 1e-7
+
+
+@dataclass(frozen=True)
+class LiquidRun:
+    """Where the liquid of each of several alloys goes along `chain` (the branches it runs down,
+    hot to cold). Per alloy: `last`, the index in `chain` of the branch where the liquid stops;
+    `y_end`, its y there; `lnf[k]`, ln of the liquid fraction (mole fraction of the alloy's
+    atoms) at the start of branch k, and `lnf_end` at the stop; `phi0`, the first branch's
+    Scheil integral at the alloy's composition. `end` says how freezing ends ("last liquid",
+    "window" or the kind of the invariant reaction met)."""
+
+    chain: list[Branch]
+    last: np.ndarray
+    y_end: np.ndarray
+    lnf: np.ndarray
+    lnf_end: np.ndarray
+    phi0: np.ndarray
+    end: str
+
+
+def start_branches(branches: tuple[Branch, ...], y0: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """For each liquid y0: the index of the branch that forms its first solid (the highest
+    liquidus over it; -1 where no branch lies over it) and that liquidus temperature (K)."""
+    y0 = np.asarray(y0, dtype=float)
+    best = np.full(y0.shape, -1)
+    top = np.full(y0.shape, -np.inf)
+    for k, b in enumerate(branches):
+        over = (y0 >= min(b.y[0], b.y[-1])) & (y0 <= max(b.y[0], b.y[-1]))
+        if over.any():
+            T = np.full(y0.shape, -np.inf)
+            T[over] = b.temperature(y0[over])
+            higher = T > top
+            best[higher], top[higher] = k, T[higher]
+    return best, np.where(best >= 0, top, np.nan)
+
+
+def run_liquid(branches: tuple[Branch, ...], first: Branch, y0: np.ndarray) -> LiquidRun:
+    """Follow the liquid of alloys whose liquid starts at y0 on branch `first` (see LiquidRun).
+    Where the liquid runs toward a pure element or a melting minimum it never meets an
+    invariant reaction: it stops where LAST_LIQUID of the alloy is still liquid."""
+    chain = chain_from(branches, first)
+    y0 = np.asarray(y0, dtype=float)
+    n = len(chain)
+    bottom = chain[-1].bottom
+    runs_out = bottom.kind in ("melting", "congruent")
+    phi0 = first.phi_at(y0)
+    lnf = np.zeros((n,) + y0.shape)
+    for k in range(1, n):
+        start = phi0 if k == 1 else 0.0
+        lnf[k] = lnf[k - 1] - (chain[k - 1].phi[-1] - start)
+    lnf_bottom = lnf[-1] - (chain[-1].phi[-1] - (phi0 if n == 1 else 0.0))
+    last = np.full(y0.shape, n - 1)
+    y_end = np.full(y0.shape, float(chain[-1].y[-1]))
+    lnf_end = lnf_bottom.copy()
+    if runs_out:
+        target = math.log(LAST_LIQUID)
+        ends_of = np.vstack([lnf[1:], lnf_bottom[None]]) if n > 1 else lnf_bottom[None]
+        cut = np.argmax(ends_of < target, axis=0)
+        stops = (ends_of < target).any(axis=0)
+        for k in range(n):
+            here = stops & (cut == k)
+            if here.any():
+                start = phi0[here] if k == 0 else 0.0
+                last[here] = k
+                y_end[here] = chain[k].y_at_phi(start + lnf[k][here] - target)
+                lnf_end[here] = target
+    end = "last liquid" if runs_out else bottom.kind
+    return LiquidRun(chain, last, y_end, lnf, lnf_end, phi0, end)
 
 
 @dataclass(frozen=True)
@@ -95,37 +163,26 @@ class ScheilCooling:
         return None
 
     def _walk(self, branches: tuple[Branch, ...]) -> None:
-        y0 = logit(1.0 - self.x_B, self.x_B)
-        holding = [b for b in branches if min(b.y[0], b.y[-1]) <= y0 <= max(b.y[0], b.y[-1])]
-        if not holding:
+        y0 = np.array([logit(1.0 - self.x_B, self.x_B)])
+        first, _liquidus = start_branches(branches, y0)
+        if first[0] < 0:
             lo, hi = self.system.temperature_range_K
             raise PathError(f"no liquidus for this alloy inside the mapped window ({lo:.0f}-{hi:.0f} K)")
-        chain = [max(holding, key=lambda c: float(c.temperature(np.array(y0))))]
-        while (nxt := continuation(branches, chain[-1])) is not None and nxt not in chain:
-            chain.append(nxt)
-        last = chain[-1].bottom
-        runs_out = last.kind in ("melting", "congruent")   # the liquid never meets an invariant
-        y, phi, lnf = y0, float(chain[0].phi_at(np.array(y0))), 0.0
-        for k, b in enumerate(chain):
+        run = run_liquid(branches, branches[int(first[0])], y0)
+        for k, b in enumerate(run.chain[:int(run.last[0]) + 1]):
             name = f"primary {b.solid}" if k == 0 else f"{b.top.kind} {b.solid}"
-            lnf_end = lnf - (float(b.phi[-1]) - phi)
-            if runs_out and lnf_end < math.log(LAST_LIQUID):
-                y_end = float(b.y_at_phi(np.array(phi + lnf - math.log(LAST_LIQUID))))
-                self.segments.append(_Segment(b, y, y_end, phi, lnf, name))
-                self.end = "last liquid"
-                return
-            self.segments.append(_Segment(b, y, float(b.y[-1]), phi, lnf, name))
-            y, phi, lnf = (float(chain[k + 1].y[0]), 0.0, lnf_end) if k + 1 < len(chain) else (y, phi, lnf)
-        if runs_out:
-            self.end = "last liquid"
-        elif last.kind == "window":
-            self.end = "window"
+            y_from = float(y0[0]) if k == 0 else float(b.y[0])
+            y_to = float(run.y_end[0]) if k == run.last[0] else float(b.y[-1])
+            phi = float(run.phi0[0]) if k == 0 else 0.0
+            self.segments.append(_Segment(b, y_from, y_to, phi, float(run.lnf[k][0]), name))
+        self.end = run.end
+        last = run.chain[-1].bottom
+        if run.end == "window":
             self.notes.append("liquid is left where the liquidus leaves the mapped temperature window")
-        else:
-            self.end = last.kind
+        elif run.end != "last liquid":
             self.end_invariant = last.invariant
-            if last.kind != "eutectic":
-                self.notes.append(f"the liquid reaches a {last.kind} reaction; the rest is taken to freeze there")
+            if run.end != "eutectic":
+                self.notes.append(f"the liquid reaches a {run.end} reaction; the rest is taken to freeze there")
 
     # --- states ---------------------------------------------------------------------------------------
     def _steps(self, seg: _Segment, ys: np.ndarray, solids: tuple[str, ...]) -> list[PathStep]:
@@ -164,7 +221,7 @@ class ScheilCooling:
             t_hot, t_cold = seg.temperatures
             if t_cold <= T <= t_hot:
                 b = seg.branch
-                y = float(b.invert(b.T, b.dT, np.array(T)))
+                y = float(invert_hermite(b.y, b.T, b.dT, np.array(T)))
                 lo, hi = sorted((seg.y_from, seg.y_to))
                 return self._steps(seg, np.array([min(max(y, lo), hi)]), self._solids_before(k))[0]
         return self._solid_state(T)

@@ -22,6 +22,7 @@ COMMANDS = {
     "melt": "melt",
     "diagram": "diagram",
     "cool": "cool",
+    "batch": "batch",
     "serve": "serve",
 }
 
