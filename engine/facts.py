@@ -9,7 +9,7 @@ import numpy as np
 
 from .units import kelvin_from, mole_from_mass
 
-KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary")
+KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy")
 REACTIONS = ("eutectic", "peritectic", "monotectic", "eutectoid", "peritectoid", "syntectic", "metatectic", "congruent")
 _COMMON = {"kind", "source", "note"}
 _KIND_KEYS = {
@@ -18,8 +18,11 @@ _KIND_KEYS = {
     "liquidus": {"at_percent", "wt_percent", "temperature_C", "temperature_K"},
     "solidus": {"at_percent", "wt_percent", "temperature_C", "temperature_K"},
     "boundary": {"phase", "partner", "at_percent", "wt_percent", "temperature_C", "temperature_K"},
+    "mixing_enthalpy": {"phase", "at_percent", "wt_percent", "temperature_C", "temperature_K", "enthalpy_J_per_mol"},
+    "formation_enthalpy": {"phase", "temperature_C", "temperature_K", "enthalpy_J_per_mol"},
 }
-_SPREAD_KEYS = {"check": ("tolerance_K", "tolerance_at"), "measured": ("uncertainty_K", "uncertainty_at")}
+_SPREAD_KEYS = {"check": ("tolerance_K", "tolerance_at", "tolerance_J"),
+                "measured": ("uncertainty_K", "uncertainty_at", "uncertainty_J")}
 
 
 def _num(v: Any) -> bool:
@@ -32,7 +35,7 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
 
     if not isinstance(items, list):
         raise fail(list_name, f"expected a list of tables ([[{list_name}]])")
-    k_key, at_key = _SPREAD_KEYS[list_name]
+    k_key, at_key, j_key = _SPREAD_KEYS[list_name]
     facts = []
     for i, item in enumerate(items):
         key = f"{list_name}[{i}]"
@@ -41,7 +44,7 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         kind = item.get("kind")
         if kind not in KINDS:
             raise fail(f"{key}.kind", f"expected one of {', '.join(KINDS)}, found {kind!r}")
-        allowed = _COMMON | _KIND_KEYS[kind] | {k_key, at_key}
+        allowed = _COMMON | _KIND_KEYS[kind] | {k_key, at_key, j_key}
         for k in item:
             if k not in allowed:
                 raise fail(f"{key}.{k}", f"unknown key for a {kind} fact; expected one of {', '.join(sorted(allowed))}")
@@ -64,6 +67,10 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             if not _num(item[k_key]) or item[k_key] <= 0:
                 raise fail(f"{key}.{k_key}", "expected a positive number of kelvin")
             spread["K"] = float(item[k_key])
+        if j_key in item:
+            if not _num(item[j_key]) or item[j_key] <= 0:
+                raise fail(f"{key}.{j_key}", "expected a positive number of J/mol")
+            spread["J"] = float(item[j_key])
         if at_key in item:
             v = item[at_key]
             if isinstance(v, dict):
@@ -82,7 +89,7 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             if el not in system.elements:
                 raise fail(f"{key}.element", f"expected one of {', '.join(system.elements)}, found {el!r}")
             fields["element"] = el
-        if kind in ("liquidus", "solidus", "boundary"):
+        if kind in ("liquidus", "solidus", "boundary", "mixing_enthalpy"):
             comps = [k for k in ("at_percent", "wt_percent") if k in item]
             if kind != "boundary" and len(comps) != 1:
                 raise fail(key, f"give the composition once, as at_percent or wt_percent of {system.elements[1]}")
@@ -101,6 +108,17 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             if "x_B" not in fields:
                 raise fail(key, f"give the boundary composition as at_percent or wt_percent of {system.elements[1]}")
             fields["phase"], fields["partner"] = item["phase"], item["partner"]
+        if kind in ("mixing_enthalpy", "formation_enthalpy"):
+            model = "solution" if kind == "mixing_enthalpy" else "compound"
+            ph = item.get("phase")
+            if ph not in system.phases or system.phases[ph].kind != model:
+                names = [n for n, p in system.phases.items() if p.kind == model]
+                raise fail(f"{key}.phase", f"expected a {model} phase of this system ({', '.join(names) or 'none'}), found {ph!r}")
+            fields["phase"] = ph
+            h = item.get("enthalpy_J_per_mol")
+            if not _num(h):
+                raise fail(f"{key}.enthalpy_J_per_mol", f"expected the measured enthalpy in J per mole of atoms, found {h!r}")
+            fields["enthalpy_J_per_mol"] = float(h)
         if kind == "invariant":
             reaction = item.get("reaction")
             if reaction not in REACTIONS:

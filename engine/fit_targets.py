@@ -7,7 +7,8 @@ temperature, a tie-line end by Newton's method on the two phases alone. These va
 metastable for a moment (a trial step that loses a phase); the fit's result is judged afterwards
 on the model's stable diagram (engine/measure.py).
 
-Temperatures in K, compositions in at% of B (100 x mole fraction), as in the measurement file.
+Temperatures in K, compositions in at% of B (100 x mole fraction), enthalpies in J/mol, as in the
+measurement file.
 """
 
 from __future__ import annotations
@@ -15,7 +16,8 @@ from __future__ import annotations
 from abc import ABC, abstractmethod
 from dataclasses import dataclass
 
-from .measure import composition_spread, match_reaction, reaction_candidates, reaction_name, temperature_spread
+from .measure import (composition_spread, enthalpy_spread, match_reaction, model_enthalpy, reaction_candidates,
+                      reaction_name, temperature_spread)
 from .measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
 from .phases import CompoundPhase
 from .polynomials import TemperatureOutOfRange
@@ -36,7 +38,7 @@ class TargetInputError(ValueError):
 
 @dataclass(frozen=True)
 class Quantity:
-    """One measured number of a fact: name, unit ("K" or "at%"), value and standard uncertainty."""
+    """One measured number of a fact: name, unit ("K", "at%" or "J/mol"), value and standard uncertainty."""
 
     name: str
     unit: str
@@ -61,6 +63,13 @@ def _composition_quantity(fact: Fact, phase: str, x_B: float) -> Quantity:
         raise TargetInputError(f"{_key(fact)}: uncertainty_at missing for {phase} "
                                f"(the standard uncertainty of its composition, at%)")
     return Quantity(f"x({phase})", "at%", 100.0 * x_B, u)
+
+
+def _enthalpy_quantity(fact: Fact) -> Quantity:
+    u = enthalpy_spread(fact)
+    if u is None:
+        raise TargetInputError(f"{_key(fact)}: uncertainty_J missing (the standard uncertainty of the enthalpy, J/mol)")
+    return Quantity("enthalpy", "J/mol", fact.enthalpy_J_per_mol, u)
 
 
 class Target(ABC):
@@ -173,6 +182,17 @@ class ReactionTarget(Target):
         return out
 
 
+class EnthalpyTarget(Target):
+    """An enthalpy of mixing or of formation (J/mol), computed directly from the model."""
+
+    def __init__(self, fact: Fact) -> None:
+        super().__init__(fact)
+        self.quantities = (_enthalpy_quantity(fact),)
+
+    def _values(self, system) -> list[float]:
+        return [model_enthalpy(system, self.fact)]
+
+
 def make_target(fact: Fact, diagram) -> Target:
     """The fit target of one measured fact; `diagram` is the starting model's mapped diagram
     (used to find its reactions)."""
@@ -182,4 +202,6 @@ def make_target(fact: Fact, diagram) -> Target:
         return BoundaryTemperatureTarget(fact)
     if fact.kind == "boundary":
         return TieLineTarget(fact)
+    if fact.kind in ("mixing_enthalpy", "formation_enthalpy"):
+        return EnthalpyTarget(fact)
     return ReactionTarget(fact, diagram)

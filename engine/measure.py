@@ -11,9 +11,12 @@ Used by `ladle check` (the `[[check]]` list, with tolerances) and at the end of 
   large difference;
 - liquidus, solidus: solved directly at the stated composition (engine/measure_boundaries.py);
 - boundary: the composition (at%) of `phase` on its stable tie-line to `partner` at the stated
-  temperature, solved by Newton's method in the isothermal section.
+  temperature, solved by Newton's method in the isothermal section;
+- mixing_enthalpy, formation_enthalpy: the enthalpy of mixing of a solution phase, or of
+  formation of a compound, at the stated temperature (engine/measure_enthalpy.py).
 
-Temperatures in K, compositions in at% of the system's second element (100 x mole fraction).
+Temperatures in K, compositions in at% of the system's second element (100 x mole fraction),
+enthalpies in J per mole of atoms.
 """
 
 from __future__ import annotations
@@ -23,6 +26,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
+from .measure_enthalpy import formation_enthalpy, mixing_enthalpy
 from .polynomials import TemperatureOutOfRange
 from .system import Fact
 from .units import mass_from_mole
@@ -34,8 +38,8 @@ _AT = "at"
 
 @dataclass(frozen=True)
 class Comparison:
-    """One compared number: `quantity` ("temperature", "x(liquid)", ...) in `unit` ("K" or
-    "at%"), the reference (measured) value, the model's value (None where the model has none)
+    """One compared number: `quantity` ("temperature", "x(liquid)", "enthalpy") in `unit` ("K",
+    "at%" or "J/mol"), the reference (measured) value, the model's value (None where the model has none)
     and the spread: the tolerance of a check or the standard uncertainty of a measurement."""
 
     quantity: str
@@ -83,6 +87,10 @@ def describe(fact: Fact, system) -> str:
         b = system.elements[1]
         w = float(mass_from_mole(np.array([1.0 - fact.x_B, fact.x_B]), system.molar_mass)[1])
         return f"{fact.kind} at {100 * fact.x_B:.4g} at% {b} ({100 * w:.4g} wt%)"
+    if fact.kind == "mixing_enthalpy":
+        return f"enthalpy of mixing of {fact.phase} at {100 * fact.x_B:.4g} at% {system.elements[1]}, {fact.temperature_K:.2f} K"
+    if fact.kind == "formation_enthalpy":
+        return f"enthalpy of formation of {fact.phase} at {fact.temperature_K:.2f} K"
     return f"{fact.phase} next to {fact.partner} at {fact.temperature_K:.2f} K"
 
 
@@ -110,7 +118,22 @@ def outside_coverage(system, fact: Fact) -> str | None:
     t_lo, t_hi = system.model_range_K
     if fact.kind != "melting" and not t_lo <= fact.temperature_K <= t_hi:
         return f"{fact.temperature_K:.2f} K lies outside the range of this system's models ({t_lo:g}-{t_hi:g} K)"
+    c_lo, c_hi = system.covers_K
+    if not c_lo <= fact.temperature_K <= c_hi:
+        return f"{fact.temperature_K:.2f} K lies outside the temperatures this model covers ({c_lo:g}-{c_hi:g} K)"
     return None
+
+
+def enthalpy_spread(fact: Fact) -> float | None:
+    return fact.spread.get("J")
+
+
+def model_enthalpy(system, fact: Fact) -> float:
+    """The model's enthalpy (J/mol) for a mixing_enthalpy or formation_enthalpy fact."""
+    phase = system.phases[fact.phase]
+    if fact.kind == "mixing_enthalpy":
+        return mixing_enthalpy(phase, fact.temperature_K, fact.x_B)
+    return formation_enthalpy(system, phase, fact.temperature_K)
 
 
 def _temperature(fact: Fact, model: float | None) -> Comparison:
@@ -204,6 +227,9 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
             return _boundary_T(system, fact)
         if fact.kind == "boundary":
             return _tie_line(system, fact)
+        if fact.kind in ("mixing_enthalpy", "formation_enthalpy"):
+            return FactOutcome(fact, (Comparison("enthalpy", "J/mol", fact.enthalpy_J_per_mol, model_enthalpy(system, fact),
+                                                 enthalpy_spread(fact)),))
         if diagram is None:
             from .diagram import map_diagram
 

@@ -17,8 +17,9 @@ class Fact:
     """One measured fact of a system file (`[[check]]` or `[[measured]]`), validated.
 
     `temperature_K` and `x_B` (mole fraction of B) are None where the kind does not use them;
-    `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K" and
-    "at" (at%), or per-phase at% under "at:<phase>".
+    `enthalpy_J_per_mol` is the measured enthalpy of the calorimetric kinds (J per mole of atoms);
+    `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K", "J"
+    (J/mol) and "at" (at%), or per-phase at% under "at:<phase>".
     """
 
     kind: str
@@ -30,6 +31,7 @@ class Fact:
     phase: str | None = None
     partner: str | None = None
     phase_x_B: dict[str, float] = field(default_factory=dict)
+    enthalpy_J_per_mol: float | None = None
     spread: dict[str, float] = field(default_factory=dict)
     index: int = 0
 

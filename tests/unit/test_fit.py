@@ -107,6 +107,8 @@ def test_a_reaction_of_the_wrong_kind_makes_the_fit_unacceptable(tmp_path):
      "fit.free[0]: 'liquid.L.4.a': phase.liquid.L has 1 entries (0 to 0)"),
     ('\n[fit]\nfree = ["liquid.L.0.a"]\n' + _fact("liquidus", "at_percent = 30\ntemperature_K = 800"),
      "measured[0]: uncertainty_K missing"),
+    ('\n[fit]\nfree = ["liquid.L.0.a"]\n' + _fact("mixing_enthalpy", "phase = \"liquid\"\nat_percent = 50\ntemperature_K = 1300\nenthalpy_J_per_mol = -1000"),
+     "measured[0]: uncertainty_J missing (the standard uncertainty of the enthalpy, J/mol)"),
     ('\n[fit]\nfree = ["liquid.L.0.a", "liquid.L.0.b"]\n' + _fact("liquidus", "at_percent = 30\ntemperature_K = 800\nuncertainty_K = 2"),
      "2 free coefficients but only 1 measured values"),
     ('\n[fit]\nfree = ["liquid.L.0.a"]\n' + _fact("invariant", "reaction = \"congruent\"\ntemperature_K = 900\nphases = { liquid = 50 }\nuncertainty_K = 1\nuncertainty_at = 1"),

@@ -10,11 +10,15 @@ def _value(value: float | None, unit: str) -> str:
         return "none"
     if unit == "K":
         return quote.temperature(value, "C", 2)
+    if unit == "J/mol":
+        return f"{value:.0f} J/mol"
     return f"{value:.2f} at%"
 
 
 def _signed(value: float | None, unit: str) -> str:
-    return "-" if value is None else f"{value:+.2f} {unit}"
+    if value is None:
+        return "-"
+    return f"{value:+.0f} {unit}" if unit == "J/mol" else f"{value:+.2f} {unit}"
 
 
 def _spread(value: float | None, unit: str) -> str:
@@ -60,7 +64,8 @@ def fact_blocks(system, outcomes, list_name: str, spread_name: str, weighted: bo
     return lines
 
 
-UNITS_NOTE = "Temperatures in C; differences, tolerances and uncertainties in K (1 K = 1 C of difference) or at%."
+UNITS_NOTE = ("Temperatures in C; differences, tolerances and uncertainties in K (1 K = 1 C of difference), "
+              "at% or J per mole of atoms.")
 
 
 def outcome_json(system, outcome) -> dict:
