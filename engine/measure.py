@@ -121,6 +121,10 @@ def outside_coverage(system, fact: Fact) -> str | None:
     c_lo, c_hi = system.covers_K
     if not c_lo <= fact.temperature_K <= c_hi:
         return f"{fact.temperature_K:.2f} K lies outside the temperatures this model covers ({c_lo:g}-{c_hi:g} K)"
+    w_lo, w_hi = system.temperature_range_K
+    if fact.kind == "invariant" and not w_lo <= fact.temperature_K <= w_hi:
+        return (f"{fact.temperature_K:.2f} K lies outside the window the diagram is mapped over "
+                f"({w_lo:.1f}-{w_hi:.1f} K; see temperature_range_K)")
     return None
 
 

@@ -189,3 +189,15 @@ def test_bad_input_is_one_clear_line(measured, tmp_path, capsys, change, message
     assert e.value.code == 2
     assert capsys.readouterr().err == f"ladle fit: {message}\n"
     assert not out.exists()
+
+
+def test_progress_appears_on_a_terminal_after_a_second(measured, tmp_path, capsys, monkeypatch):
+    import ladle.tui.commands.fit as fit_command
+
+    clock = iter(range(0, 10_000))                         # every reading 1 s later than the last
+    monkeypatch.setattr(fit_command.time, "monotonic", lambda: float(next(clock)))
+    monkeypatch.setattr(fit_command.sys.stderr, "isatty", lambda: True)
+    assert main(["fit", str(measured), "-o", str(tmp_path / "fitted.toml")]) == 0
+    err = capsys.readouterr().err
+    assert err.startswith("\rfitting: 1 model evaluations, chi-square ")
+    assert err.endswith("\r" + " " * 72 + "\r")            # the line is cleared before the report

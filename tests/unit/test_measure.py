@@ -105,3 +105,10 @@ def test_check_without_tolerance_cannot_pass(tmp_path):
     system = load_system(write(tmp_path, ideal_text(_check("melting", f"element = \"B\"\ntemperature_K = {MELT_B_K}"))))
     out = evaluate(system, system.checks[0])
     assert out.comparisons[0].spread is None and not out.passed
+
+
+def test_invariant_outside_the_mapped_window(tmp_path):
+    extra = _check("invariant", "reaction = \"eutectic\"\ntemperature_K = 450\nphases = { liquid = 41 }\ntolerance_K = 3")
+    system = load_system(write(tmp_path, eutectic_text(extra=extra)))
+    out = evaluate(system, system.checks[0])
+    assert out.problem == "450.00 K lies outside the window the diagram is mapped over (500.0-1400.0 K; see temperature_range_K)"
