@@ -16,12 +16,12 @@ import tempfile
 from pathlib import Path
 from typing import Any
 
-_BARE_KEY = re.compile(r"^[A-Za-z0-9_-]+$")
+_BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")
 _ESCAPES = {"\\": "\\\\", '"': '\\"', "\b": "\\b", "\t": "\\t", "\n": "\\n", "\f": "\\f", "\r": "\\r"}
 
 
 def _key(k: str) -> str:
-    return k if _BARE_KEY.match(k) else _string(k)
+    return k if _BARE_KEY.fullmatch(k) else _string(k)
 
 
 def _string(s: str) -> str:

@@ -26,6 +26,7 @@ from .phases import CompoundPhase
 from .section import Section, TieLine
 from .special import bracket_root
 from .tangent import lowest_against_line
+from .units import GAS_CONSTANT
 
 LIQUID = "liquid"
 #: Temperature levels of the scan from the top of the window that brackets a boundary.
@@ -61,7 +62,7 @@ def lowest_below_line(system, T: float, names: list[str], mu: tuple[float, float
     """The lowest point of the phases `names` relative to the line mu_A x_A + mu_B x_B (J/mol)
     at T (K): (distance / RT, phase, x_B). Negative where a phase lies below the line."""
     xa, xb = composition_grid(DEFAULT_POINTS)
-    RT = 8.314462618 * T
+    RT = GAS_CONSTANT * T
     best = (np.inf, "", 0.0)
     for name in names:
         phase = system.phases[name]

@@ -145,7 +145,7 @@ def test_a_lost_reaction_is_said_plainly_and_nothing_written(tmp_path, truth_val
     report = capsys.readouterr().out
     assert "LOST  measured[0]: peritectic of fcc + bcc + liquid (model: eutectic)" in report
     assert "PROBLEMS: the fitted model should not be used as it is:" in report
-    assert f"is a eutectic, not a peritectic" in report
+    assert "is a eutectic, not a peritectic" in report
     assert not out.exists()
 
 

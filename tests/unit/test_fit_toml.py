@@ -42,6 +42,14 @@ def test_system_shapes_are_written_readably():
     assert tomllib.loads(text) == doc
 
 
+def test_keys_that_are_not_bare_are_quoted():
+    # a trailing newline once slipped past a bare-key pattern anchored with $ (found by hypothesis)
+    doc = {"z\n": "", "a b": 1, "liquid.L.0.a": 2.0, "plain_key-1": 3}
+    text = toml_text(doc)
+    assert '"z\\n" = ""' in text and "plain_key-1 = 3" in text
+    assert tomllib.loads(text) == doc
+
+
 def test_non_finite_numbers_are_refused():
     with pytest.raises(ValueError, match="non-finite"):
         value_text(float("nan"))

@@ -53,7 +53,7 @@ def eutectic_case(tmp_path_factory):
 
 def test_invariant_matched_by_kind_and_phases(eutectic_case):
     folder, inv = eutectic_case
-    (f, x_f), (l, x_l), (b, x_b) = inv.phases
+    (_f, x_f), (_l, x_l), (_b, _x_b) = inv.phases
     body = (f"reaction = \"eutectic\"\ntemperature_K = {inv.temperature_K - 1.0!r}\n"
             f"phases = {{ liquid = {100 * x_l + 0.5!r}, fcc = {100 * x_f!r} }}\ntolerance_K = 3\ntolerance_at = 1")
     system = load_system(write(folder, eutectic_text(extra=_check("invariant", body)), "m.toml"))
