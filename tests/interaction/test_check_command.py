@@ -111,7 +111,7 @@ def test_json_report(system_file, capsys):
     report = json.loads(capsys.readouterr().out)
     assert (report["passed"], report["total"]) == (3, 5)
     gap = report["checks"][2]
-    assert gap["passed"] and gap["comparisons"][0]["unit"] == "at%"
+    assert gap["passed"] and gap["comparisons"][0]["unit"] == "at%" and gap["comparisons"][0]["tolerance"] == 0.01
     assert gap["comparisons"][0]["model"] == pytest.approx(100 * (1 - S) / 2, abs=1e-6)
     melt = report["checks"][3]
     assert melt["comparisons"][0]["difference"] == pytest.approx(-20.0, abs=1e-5) and not melt["passed"]

@@ -157,6 +157,8 @@ def test_json_report(measured, tmp_path, capsys):
     assert [p["path"] for p in report["parameters"]] == ["liquid.L.0.a", "fcc.L.0.a"]
     assert report["degrees_of_freedom"] == 3
     assert len(report["measured"]) == 4 and report["measured"][0]["comparisons"][1]["quantity"] == "x(liquid)"
+    liquidus = report["measured"][1]["comparisons"][0]
+    assert liquidus["uncertainty"] == 1.0 and liquidus["residual"] == pytest.approx(liquidus["difference"] / 1.0)
 
 
 @pytest.mark.parametrize("change, message", [

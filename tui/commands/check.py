@@ -25,7 +25,7 @@ def run(args: argparse.Namespace) -> int:
     outcomes = evaluate_all(system, system.checks)
     if args.json:
         print_json({"system": system.name, "passed": sum(o.passed for o in outcomes), "total": len(outcomes),
-                    "checks": [outcome_json(system, o) for o in outcomes]})
+                    "checks": [outcome_json(system, o, "tolerance") for o in outcomes]})
     else:
         print("\n".join(render(system, outcomes)))
     return 0

@@ -68,15 +68,23 @@ UNITS_NOTE = ("Temperatures in C; differences, tolerances and uncertainties in K
               "at% or J per mole of atoms.")
 
 
-def outcome_json(system, outcome) -> dict:
-    """One fact's outcome as JSON (temperatures in K, compositions in at%)."""
+def outcome_json(system, outcome, spread_name: str) -> dict:
+    """One fact's outcome as JSON (temperatures in K, compositions in at%, enthalpies in J/mol);
+    `spread_name` names the spread: "tolerance" (checks, judged within or not) or "uncertainty"
+    (measurements, with the weighted residual difference / uncertainty)."""
     from ladle.engine.measure import describe
 
     f = outcome.fact
+
+    def judged(c) -> dict:
+        if spread_name == "tolerance":
+            return {"within": c.within}
+        return {"residual": c.difference / c.spread if c.model is not None and c.spread else None}
+
     return {
         "index": f.index, "kind": f.kind, "label": describe(f, system), "passed": outcome.passed,
         "problem": outcome.problem, "model_reaction": outcome.model_reaction, "source": f.source,
         "comparisons": [{"quantity": c.quantity, "unit": c.unit, "model": c.model, "reference": c.reference,
-                         "difference": c.difference, "spread": c.spread, "within": c.within}
+                         "difference": c.difference, spread_name: c.spread, **judged(c)}
                         for c in outcome.comparisons],
     }

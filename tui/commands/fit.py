@@ -126,7 +126,7 @@ def report_json(result, measurements: Path, written: Path | None) -> dict:
         "parameters": [{"path": p.path, "start": p.start, "value": p.value, "uncertainty": p.uncertainty}
                        for p in result.parameters],
         "correlations": [{"first": a, "second": b, "r": r} for a, b, r in result.correlations],
-        "measured": [outcome_json(result.system, o) for o in result.outcomes],
+        "measured": [outcome_json(result.system, o, "uncertainty") for o in result.outcomes],
     }
 
 
