@@ -143,7 +143,7 @@ def test_a_lost_reaction_is_said_plainly_and_nothing_written(tmp_path, truth_val
     out = tmp_path / "fitted.toml"
     assert main(["fit", str(path), "-o", str(out)]) == 1
     report = capsys.readouterr().out
-    assert "LOST  measured[0]: peritectic of fcc + bcc + liquid (model: eutectic)" in report
+    assert "WRONG  measured[0]: peritectic of fcc + bcc + liquid (model: eutectic)" in report
     assert "PROBLEMS: the fitted model should not be used as it is:" in report
     assert "is a eutectic, not a peritectic" in report
     assert not out.exists()

@@ -43,14 +43,16 @@ def comparison_rows(outcome, spread_name: str, weighted: bool) -> list[str]:
 
 
 def fact_blocks(system, outcomes, list_name: str, spread_name: str, weighted: bool) -> list[str]:
-    """One block per fact: verdict (PASS/FAIL for checks; LOST for a measurement the model does not
-    reproduce at all), label, problem, comparison rows and source."""
+    """One block per fact: verdict (PASS/FAIL for checks; for measurements LOST where the model
+    has no such feature, WRONG where it has one of another kind), label, problem, comparison rows
+    and source."""
     from ladle.engine.measure import describe
 
     lines = []
     for o in outcomes:
         if weighted:   # a fit's measurements have uncertainties, not pass marks
-            verdict = "LOST" if o.problem else "    "
+            lost = any(c.model is None for c in o.comparisons) or not o.comparisons
+            verdict = "    " if not o.problem else ("LOST" if lost else "WRONG")
         else:
             verdict = "PASS" if o.passed else "FAIL"
         kind = f" (model: {o.model_reaction})" if o.model_reaction and o.model_reaction != o.fact.reaction else ""
