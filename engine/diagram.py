@@ -185,7 +185,8 @@ class _Tracer:
         """Carry the open tracks (aligned with above.ties) down to `below`; returns the tracks
         aligned with below.ties. An interval whose changes are not each one solvable event is
         split at its middle temperature."""
-        ops = difflib.SequenceMatcher(a=above.pairs, b=below.pairs, autojunk=False).get_opcodes()
+        ops = _fold_swallowing(difflib.SequenceMatcher(a=above.pairs, b=below.pairs, autojunk=False).get_opcodes(),
+                               above.ties, below.ties)
         events = [op for op in ops if op[0] != "equal"]
         solved = {op: self._solve_event(above, below, list(above.ties[op[1]:op[2]]), list(below.ties[op[3]:op[4]]))
                   for op in events} if depth > 0 else {}
@@ -361,6 +362,35 @@ class _Tracer:
         if deviation <= CURVE_TOLERANCE:
             return [exact] if depth == 0 and dT > 0.05 else []
         return self._refine(phases, a, exact, depth + 1) + [exact] + self._refine(phases, exact, b, depth + 1)
+
+
+def _overlap(a: TieLine, b: TieLine) -> bool:
+    return max(a.x_B[0], b.x_B[0]) < min(a.x_B[1], b.x_B[1])
+
+
+def _fold_swallowing(ops: list, up: tuple[TieLine, ...], down: tuple[TieLine, ...]) -> list:
+    """Matching tie-lines of two levels by phase pair alone takes a field that swallows a
+    vanishing one (or is split by an appearing one) for an unchanged field: at a monotectic,
+    fcc+liquid(L1) and liquid+liquid above become fcc+liquid(L2) below. Fold such a neighbour
+    into the change, so that the change is one event (opcodes as difflib gives them)."""
+    ops = [list(op) for op in ops]
+    for k, op in enumerate(ops):
+        if op[0] == "equal":
+            continue
+        for n in (k - 1, k + 1):
+            if not 0 <= n < len(ops) or ops[n][0] != "equal" or ops[n][1] == ops[n][2]:
+                continue
+            before = n < k
+            i, j = (ops[n][2] - 1, ops[n][4] - 1) if before else (ops[n][1], ops[n][3])
+            if any(_overlap(down[j], t) for t in up[op[1]:op[2]]) or any(_overlap(up[i], t) for t in down[op[3]:op[4]]):
+                if before:
+                    ops[n][2], ops[n][4] = i, j
+                    op[1], op[3] = i, j
+                else:
+                    ops[n][1], ops[n][3] = i + 1, j + 1
+                    op[2], op[4] = i + 1, j + 1
+                op[0] = "replace"
+    return [tuple(op) for op in ops if op[2] > op[1] or op[4] > op[3]]
 
 
 def tie_line_at(system, phases: tuple[str, str], T: float, xl: float, xr: float) -> tuple[float, float, float] | None:

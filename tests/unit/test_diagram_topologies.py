@@ -41,14 +41,6 @@ SCAN_X = np.linspace(0.004, 0.996, 125)
 X_MARGIN = 5e-3
 T_MARGIN = 1.0
 
-MONOTECTIC_MISSED = (
-    "engine bug: engine/diagram.py _between matches tie-lines of two temperature levels by their "
-    "phase pair only (difflib on names), so at a monotectic the fcc+liquid field above "
-    "(fcc, liquid(L1)) is taken as the same field as fcc+liquid below (fcc, liquid(L2)); the event "
-    "is seen as the liquid+liquid gap vanishing alone (a critical point, which is not found), the "
-    "monotectic is never solved and the fcc+liquid boundary jumps from L1 to L2")
-
-
 @pytest.fixture(scope="module")
 def mapped(tmp_path_factory):
     """name -> (Topology, System, PhaseDiagram)."""
@@ -64,12 +56,8 @@ def mapped(tmp_path_factory):
 NAMES = [make().name for make in topologies.ALL]
 
 
-def _xfail_monotectic(name: str):
-    return pytest.param(name, marks=pytest.mark.xfail(strict=True, reason=MONOTECTIC_MISSED)) if name == "monotectic" else name
-
-
 # --- invariants -----------------------------------------------------------------------------------
-@pytest.mark.parametrize("name", [_xfail_monotectic(n) for n in NAMES])
+@pytest.mark.parametrize("name", NAMES)
 def test_each_invariant_found_once_and_classified(mapped, name):
     topo, _system, d = mapped[name]
     found = sorted((inv.kind, tuple(n for n, _x in inv.phases)) for inv in d.invariants)
