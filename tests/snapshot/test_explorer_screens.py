@@ -21,6 +21,7 @@ CASES = [
     ("diagram", (), False, SIZE),
     ("energy", ("2",), False, SIZE),
     ("reactions", ("3",), False, SIZE),
+    ("cooling", ("4",), False, SIZE),
     ("help", ("question_mark",), False, SIZE),
     ("systems", ("s", *"pb-sn"), False, SIZE),
     ("entry-refused", ("g", *"Cu=3wt%", "enter"), False, SIZE),
@@ -28,6 +29,7 @@ CASES = [
     ("diagram-ascii", (), True, SIZE),
     ("energy-ascii", ("2",), True, SIZE),
     ("help-ascii", ("question_mark",), True, SIZE),
+    ("cooling-ascii", ("4",), True, SIZE),
 ]
 
 

@@ -18,10 +18,12 @@ from .plotting import Frame, Label, place_labels, round_ticks, thin_polyline
 from .readout import format_temperature_value
 from .scales import Scales
 
+CURSOR_COLOUR = "red+"
 EQUILIBRIUM_COLOUR = "cyan"
 SCHEIL_COLOUR = "magenta"
 END_COLOUR = "yellow"
-MARGIN = 0.06     # room above the liquidus and below the lowest end, as a share of the span
+HEADROOM = 0.16   # room above the liquidus (for the legend), as a share of the span shown
+FOOTROOM = 0.14   # room below the lowest end (for the end labels)
 
 
 @dataclass(frozen=True)
@@ -50,8 +52,8 @@ def cooling_scene(solidification, scales: Scales, glyphs: Glyphs, width: int, he
     temps = [s.temperature_K for p in (eq, sc) for s in p.steps]
     hot, cold = max(temps), min(temps)
     span = max(hot - cold, 1.0)
-    low = scales.shown_temperature(cold - MARGIN * span)
-    high = scales.shown_temperature(hot + MARGIN * span)
+    low = scales.shown_temperature(cold - FOOTROOM * span)
+    high = scales.shown_temperature(hot + HEADROOM * span)
     columns, rows = plot_area(width, height)
     frame = Frame(0.0, 100.0, min(low, high), max(low, high), columns, rows)
     unit = glyphs.temperature_unit(scales.temperature_unit)
@@ -61,14 +63,19 @@ def cooling_scene(solidification, scales: Scales, glyphs: Glyphs, width: int, he
             continue
         T = float(scales.shown_temperature(path.end_K))
         ends.append((100.0 * path.steps[-1].fraction_solid, T))
-        labels.append(Label(f"{name} end {format_temperature_value(T)} {unit}", 60.0, T + 0.04 * (frame.y_high - frame.y_low)))
+        below = T - 0.06 * (frame.y_high - frame.y_low)      # under its line, not over the plateau
+        labels.append(Label(f"{name} end {format_temperature_value(T)} {unit}", 60.0, below))
     return CoolingScene(frame, _curve(eq, scales, frame), _curve(sc, scales, frame), ends,
                         place_labels(labels, frame), "solid (mass %)", f"temperature ({unit})")
 
 
-def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs) -> None:
-    """Issue the plot calls: both paths (told apart by marker and colour), their ends, labels."""
+def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs, cursor_T: float | None = None) -> None:
+    """Issue the plot calls: the cursor's temperature (if given, in the unit on screen) as a line
+    underneath, both paths (told apart by marker and colour), their ends, labels."""
     frame = scene.frame
+    if cursor_T is not None and frame.y_low <= cursor_T <= frame.y_high:
+        plt.plot([frame.x_low, frame.x_high], [cursor_T, cursor_T], marker=glyphs.crosshair_marker,
+                 color=CURSOR_COLOUR)
     plt.xlim(frame.x_low, frame.x_high)
     plt.ylim(frame.y_low, frame.y_high)
     plt.xticks(round_ticks(frame.x_low, frame.x_high, max(frame.columns // 10, 2)))

@@ -1,4 +1,5 @@
-"""The explorer's main screen: a plot (diagram, energy or reactions) beside the status pane."""
+"""The explorer's main screen: a plot (diagram, energy, reactions or cooling) beside the status
+pane."""
 
 from __future__ import annotations
 
@@ -15,6 +16,8 @@ from textual.widgets import ContentSwitcher, Input, Static
 from ladle.engine import SystemFileError, UnknownSystem, find_system
 from ladle.tui.quote import percent
 
+from ..cooling import CoolingView
+from ..cooling_status import cooling_lines
 from ..entry import EntryError, TypedPoint, check_inside, parse_point
 from ..exploration import Exploration
 from ..exports import safe_stem, write_new_file
@@ -23,7 +26,7 @@ from ..keymap import MAIN_KEYS
 from ..reaction_rows import reaction_rows
 from ..readout import format_step, format_temperature_value
 from ..screen_text import screen_text
-from ..status_lines import Line, status_lines
+from ..status_lines import Line, melt_lines, point_lines, status_lines
 from ..system_choices import system_choices
 from ..widgets.diagram_view import DiagramView
 from ..widgets.energy_view import EnergyView
@@ -68,6 +71,7 @@ class ExploreScreen(Screen[None]):
                 yield DiagramView(self.glyphs, id="diagram")
                 yield EnergyView(self.glyphs, id="energy")
                 yield ReactionsView(id="reactions")
+                yield CoolingView(self.glyphs, id="cooling")
             yield StatusPane(id="status")
         yield PointEntry(id="entry")
         yield KeyBar(self.glyphs, id="keys")
@@ -101,6 +105,8 @@ class ExploreScreen(Screen[None]):
         self.query_one(StatusPane).show_lines(self._status_lines())
         if self.view in ("diagram", "energy"):
             self.query_one(f"#{self.view}").refresh()
+        elif self.view == "cooling":
+            self.query_one(CoolingView).follow(self.exploration)
         self._schedule_save()
 
     def _show_title(self) -> None:
@@ -113,7 +119,12 @@ class ExploreScreen(Screen[None]):
             reading = e.reading()
         except (ValueError, ArithmeticError) as error:
             return [("heading", "POINT"), ("warning", f" no answer here: {error}")]
-        lines = status_lines(reading, e.system.elements[1], e.scales, self.glyphs)
+        if self.view == "cooling":
+            lines = (point_lines(reading, e.system.elements[1], e.scales, self.glyphs)
+                     + melt_lines(reading, e.scales, self.glyphs)
+                     + cooling_lines(self.query_one(CoolingView).answer(), e.scales, self.glyphs))
+        else:
+            lines = status_lines(reading, e.system.elements[1], e.scales, self.glyphs)
         steps = e.steps()
         unit = self.glyphs.temperature_unit(e.scales.temperature_unit)
         lines.append(("note", f" step {format_step(steps.temperature)} {unit}, "
@@ -182,6 +193,10 @@ class ExploreScreen(Screen[None]):
         self.set_focus(None)
         e.jump(point)
         self.update_all()
+
+    def on_cooling_view_ready(self, event: CoolingView.Ready) -> None:
+        if self.view == "cooling":
+            self.query_one(StatusPane).show_lines(self._status_lines())
 
     def on_reactions_view_chosen(self, event: ReactionsView.Chosen) -> None:
         self.exploration.jump(TypedPoint(event.row.temperature_K, event.row.x_B))

@@ -5,7 +5,8 @@ from __future__ import annotations
 from rich.text import Text
 from textual.widgets import Static
 
-VIEWS = (("diagram", "1 diagram"), ("energy", "2 energy"), ("reactions", "3 reactions"))
+VIEWS = (("diagram", "1 diagram"), ("energy", "2 energy"), ("reactions", "3 reactions"),
+         ("cooling", "4 cooling"))
 
 
 class TitleBar(Static):

@@ -1,0 +1,61 @@
+"""The explorer's cooling view as a user drives it: key 4 shows both paths of the cursor's alloy,
+the status pane gives where each path's freezing ends and the structure at the end, and moving
+the cursor in temperature keeps the computed paths."""
+
+from __future__ import annotations
+
+from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_text
+
+from ladle.engine import find_system
+from ladle.engine.solidify import solidify
+from ladle.tui.explorer.cooling import CoolingView
+from ladle.tui.quote import percent
+
+X_PB_10SN = 0.1624346   # Pb-10 wt% Sn (mole fraction of Sn), inside the (Pb) solid solution
+
+
+@pilot_test
+async def test_cooling_view_shows_both_ends_and_the_structure():
+    app = make_app(T_K=520.0, x_B=X_PB_10SN)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("4")
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        status = status_text(app)
+        expected = solidify(find_system("pb-sn"), X_PB_10SN)
+        assert "FREEZING of this alloy" in status
+        # equilibrium: (Pb) alone, ending at the solidus; Scheil: some eutectic at 183 C
+        assert f"{expected.equilibrium.end_K - 273.15:.0f} °C" in status and "ends: solidus" in status
+        assert "183 °C" in status and "ends: eutectic" in status
+        eutectic = next(c for c in expected.scheil.constituents if c.name.startswith("eutectic"))
+        assert " eutectic fcc + bct" in status and percent(eutectic.mass_fraction) in status
+        assert "[4 cooling]" in screen_text(app)
+        assert "solid (mass %)" in screen_text(app)
+
+
+@pilot_test
+async def test_moving_in_temperature_keeps_the_paths_and_composition_recomputes():
+    app = make_app(T_K=520.0, x_B=X_PB_10SN)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("4")
+        await app.workers.wait_for_complete()
+        view = app.screen_stack[0].query_one(CoolingView)
+        first = view.answer()
+        await pilot.press("up", "up", "down")
+        await pilot.pause()
+        assert view.answer() is first and all(w.is_finished for w in app.workers)
+        await pilot.press("right")
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        assert view.answer() is not first and view.answer().x_B != first.x_B
+        assert "FREEZING of this alloy" in status_text(app)
+
+
+@pilot_test
+async def test_an_alloy_without_paths_says_why():
+    app = make_app("sn-ag", T_K=700.0, x_B=0.45)   # liquidus above the mapped window
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("4")
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        assert "no answer:" in status_text(app)

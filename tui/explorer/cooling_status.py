@@ -1,0 +1,42 @@
+"""The status pane's lines in the cooling view: where each path's freezing ends, and the
+structure at the end (mass %) by both paths. Plain text as (role, text) lines, no screen code."""
+
+from __future__ import annotations
+
+from ladle.tui.quote import percent
+
+from .glyphs import Glyphs
+from .readout import format_temperature_value
+from .scales import Scales
+from .status_lines import Line
+
+NAMES = (("equilibrium", "equilibrium"), ("scheil", "Scheil"))
+
+
+def cooling_lines(result, scales: Scales, glyphs: Glyphs) -> list[Line]:
+    """`result`: the engine's Solidification of the cursor's alloy, a one-line reason why there
+    is none, or None while it is being computed."""
+    lines: list[Line] = [("heading", "FREEZING of this alloy")]
+    if result is None:
+        return lines + [("note", " computing both paths ...")]
+    if isinstance(result, str):
+        return lines + [("note", f" no answer: {result}")]
+    unit = glyphs.temperature_unit(scales.temperature_unit)
+    for model, name in NAMES:
+        path = result.path(model)
+        if path.end_K is None:
+            lines.append(("value", f" {name:<12}{'liquid left':>14}"))
+            continue
+        T = format_temperature_value(scales.shown_temperature(path.end_K))
+        lines.append(("value", f" {name:<12}{T:>9} {unit}"))
+        lines.append(("note", f"   ends: {path.end}"))
+    lines.append(("heading", f"{'STRUCTURE mass%':<17}{'eq.':>6}{'Sch.':>7}"))
+    names: list[str] = []
+    for model, _ in NAMES:
+        names += [c.name for c in result.path(model).constituents if c.name not in names]
+    for constituent in names:
+        amounts = [next((percent(c.mass_fraction) for c in result.path(model).constituents
+                         if c.name == constituent), "-") for model, _ in NAMES]
+        lines.append(("value", f" {constituent}"))
+        lines.append(("value", f"{'':<17}{amounts[0]:>6}{amounts[1]:>7}"))
+    return lines
