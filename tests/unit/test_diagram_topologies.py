@@ -111,7 +111,8 @@ def test_solution_congruent_minimum(mapped):
     mu_l, mu_s = potentials(topo, "liquid", T, x), potentials(topo, "fcc", T, x)
     assert mu_l[0] == pytest.approx(mu_s[0], abs=POTENTIAL_TOLERANCE)
     assert mu_l[1] == pytest.approx(mu_s[1], abs=POTENTIAL_TOLERANCE)
-    # A minimum: below both melting points, and the two fields meet there from both sides.
+    # A minimum: well below both melting points (the design puts it about 170 K below the
+    # lower one), and the two fields meet there from both sides.
     assert T < min(system.melting_points.values()) - 50.0
     assert sorted(f.phases for f in d.fields) == [("fcc", "liquid"), ("liquid", "fcc")]
     for f in d.fields:
@@ -144,9 +145,10 @@ def test_retrograde_solvus(mapped):
     T_peak, x_peak = peak.x, -peak.fun
     lo, hi = f.T[0], f.T[-1]
     assert lo + 100.0 < T_peak < hi - 100.0
-    # Retrograde: the traced solubility rises to the peak and falls after it.
+    # Retrograde: the traced solubility rises to the peak and falls after it; the highest
+    # traced point is the traced tie-line next to the peak.
     i = int(np.argmax(f.x[:, 0]))
-    assert abs(f.T[i] - T_peak) < 60.0
+    assert abs(f.T[i] - T_peak) <= np.max(np.diff(f.T))
     assert f.x[0, 0] < x_peak - 5e-3 and f.x[-1, 0] < x_peak - 5e-3
     assert equilibrate(_system, T_peak, x_peak - 1e-3).phase_names == ("fcc",)
     assert equilibrate(_system, hi - 1.0, x_peak - 1e-3).phase_names == ("fcc", "hcp")
