@@ -18,7 +18,7 @@ from .melt import melt_range
 from .solidify_heat import State, released_between
 from .solidify_liquidus import LIQUID
 from .solidify_path import (Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes, describe_reaction,
-                            molar_mass_of, reaction_products)
+                            molar_mass_of, reaction_products, solid_label)
 
 #: States are taken this far (K) above and below each boundary crossed.
 EDGE_K = 1e-6
@@ -108,7 +108,7 @@ class EquilibriumCooling:
         states: list[State] = []
         heat = 0.0
         arrests: list[Arrest] = []
-        names: dict[str, str] = {}          # solid -> constituent name
+        kinds: dict[str, str] = {}          # solid -> how it formed: primary, peritectic, ...
         forms: list[tuple[str, float]] = []
         last_eq = above_eq = None
         eutectic: Constituent | None = None   # the liquid that left as a two-solid constituent
@@ -132,10 +132,10 @@ class EquilibriumCooling:
                                                1.0 - steps[-1].fraction_solid)
                         above_eq = last_eq
             for name in step.phases:
-                if name == LIQUID or name in names:
+                if name == LIQUID or name in kinds:
                     continue
-                kind = "primary" if not names else reaction.kind if reaction is not None else "boundary"
-                names[name] = f"{kind} {name}"
+                kind = "primary" if not kinds else reaction.kind if reaction is not None else "boundary"
+                kinds[name] = kind
                 forms.append((name, T if steps[-1].temperature_K == T else self.liquidus_K))
                 if kind != "primary" and not (arrests and arrests[-1].temperature_K == T):
                     arrests.append(Arrest(T, "new phase", f"{kind}: {name} starts to form"))
@@ -154,18 +154,20 @@ class EquilibriumCooling:
         else:
             end, end_K = "solidus", self.solidus_K
             arrests.append(Arrest(self.solidus_K, "end", "solidus: freezing ends"))
-        constituents = self._constituents(names, above_eq if eutectic is not None else last_eq, eutectic)
+        among = list(end_reaction.solids) if end_reaction is not None else []
+        constituents = self._constituents(kinds, among, above_eq if eutectic is not None else last_eq, eutectic)
         return CoolingPath("equilibrium", system, self.x_B, self.liquidus_K, end_K, end, tuple(steps), tuple(forms),
                            tuple(c for c in constituents if c.mass_fraction > 0.0), heat, tuple(arrests),
                            tuple(notes + coverage_notes(system, steps)))
 
-    @staticmethod
-    def _constituents(names: dict[str, str], final: PointEquilibrium | None,
+    def _constituents(self, kinds: dict[str, str], among: list[tuple[str, float]], final: PointEquilibrium | None,
                       eutectic: Constituent | None) -> tuple[Constituent, ...]:
         """The solids of `final` (the end of freezing, or the state just above a eutectic-like
-        plateau) under their names, then the eutectic, or the liquid left in the window."""
+        plateau) named by how they formed (`kinds`; labelled apart where the last reaction's
+        solids, `among`, hold one phase twice), then the eutectic, or the liquid left."""
         phases = final.phases if final is not None else ()
-        out = [Constituent(names.get(p.name, p.name), p.amount_mass) for p in phases if p.name != LIQUID]
+        out = [Constituent(f"{kinds.get(p.name, 'boundary')} {solid_label(self.system, p.name, float(p.x[1]), among)}",
+                           p.amount_mass) for p in phases if p.name != LIQUID]
         if eutectic is not None:
             out.append(eutectic)
         else:

@@ -111,32 +111,25 @@ def mass_fraction_of_B(system, x_B: float) -> float:
     return float(mass_from_mole(np.array([1.0 - x_B, x_B]), system.molar_mass)[1])
 
 
-def phase_label(system, name: str, x_B: float, partner: tuple[str, float] | None = None) -> str:
-    """A phase's name, with the element it is rich in when `partner` is the same phase (the two
-    sides of a miscibility gap: 'fcc (Ag-rich)')."""
-    if partner is None or partner[0] != name:
+def solid_label(system, name: str, x_B: float, among: list[tuple[str, float]]) -> str:
+    """A phase's name, with the element it is rich in where `among` (phases with their x_B, such
+    as a reaction's) holds that phase twice: the two sides of a miscibility gap, 'fcc (Ag-rich)'."""
+    same = [x for n, x in among if n == name]
+    if len(same) < 2:
         return name
-    rich = system.elements[1] if x_B > partner[1] else system.elements[0]
+    rich = system.elements[1] if x_B > 0.5 * (min(same) + max(same)) else system.elements[0]
     return f"{name} ({rich}-rich)"
 
 
 def reaction_products(system, solids: list[tuple[str, float]]) -> str:
-    """'fcc + bct': the solids (name, x_B) a liquid leaves at an invariant reaction, labelled
-    apart where both are the same phase."""
-    labels = []
-    for k, (name, x) in enumerate(solids):
-        other = solids[1 - k] if len(solids) == 2 else None
-        labels.append(phase_label(system, name, x, other))
-    return " + ".join(labels)
+    """'fcc + bct': the solids (name, x_B) a liquid leaves at an invariant reaction."""
+    return " + ".join(solid_label(system, n, x, solids) for n, x in solids)
 
 
 def describe_reaction(system, invariant) -> str:
     """'liquid -> fcc + bct', 'liquid + fcc -> hcp': an invariant reaction as it runs on cooling
     (`invariant`: a diagram Invariant, phases ordered by composition)."""
-    (n1, x1), (n2, x2), (n3, x3) = invariant.phases
-    l1 = phase_label(system, n1, x1, (n3, x3) if n3 == n1 else (n2, x2))
-    l2 = phase_label(system, n2, x2, (n1, x1) if n1 == n2 else (n3, x3))
-    l3 = phase_label(system, n3, x3, (n1, x1) if n1 == n3 else (n2, x2))
+    l1, l2, l3 = (solid_label(system, n, x, list(invariant.phases)) for n, x in invariant.phases)
     if invariant.kind in ("peritectic", "peritectoid", "syntectic"):
         return f"{l1} + {l3} -> {l2}"
     return f"{l2} -> {l1} + {l3}"

@@ -24,7 +24,7 @@ from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, chain_fr
 from .solidify_heat import released_between
 from .solidify_liquidus import LIQUID
 from .solidify_path import (Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes, describe_reaction,
-                            molar_mass_of, reaction_products)
+                            molar_mass_of, reaction_products, solid_label)
 from .tangent import logit
 
 #: Freezing "ends" in the last-liquid case when this share of the alloy's atoms is still liquid.
@@ -169,9 +169,12 @@ class ScheilCooling:
             lo, hi = self.system.temperature_range_K
             raise PathError(f"no liquidus for this alloy inside the mapped window ({lo:.0f}-{hi:.0f} K)")
         run = run_liquid(branches, branches[int(first[0])], y0)
+        end = run.chain[-1].bottom.invariant
+        reaction = list(end.phases) if end is not None and run.end not in ("last liquid", "window") else []
         for k, b in enumerate(run.chain[:int(run.last[0]) + 1]):
-            name = f"primary {b.solid}" if k == 0 else f"{b.top.kind} {b.solid}"
             y_from = float(y0[0]) if k == 0 else float(b.y[0])
+            label = solid_label(self.system, b.solid, float(fractions_array(b.solid_y(np.array(y_from)))[1]), reaction)
+            name = f"primary {label}" if k == 0 else f"{b.top.kind} {label}"
             y_to = float(run.y_end[0]) if k == run.last[0] else float(b.y[-1])
             phi = float(run.phi0[0]) if k == 0 else 0.0
             self.segments.append(_Segment(b, y_from, y_to, phi, float(run.lnf[k][0]), name))

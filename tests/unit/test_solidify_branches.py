@@ -10,7 +10,7 @@ from ladle.engine import find_system
 from ladle.engine.diagram import Invariant, map_diagram
 from ladle.engine.solidify_branches import continuation, liquidus_branches
 from ladle.engine.solidify_liquidus import solve_liquidus_point
-from ladle.engine.solidify_path import describe_reaction, phase_label, reaction_products
+from ladle.engine.solidify_path import describe_reaction, reaction_products, solid_label
 
 
 @pytest.mark.parametrize("name", ["pb-sn", "al-si", "cu-zn"])
@@ -59,4 +59,5 @@ def test_reaction_names(tmp_path):
     assert describe_reaction(system, peritectic) == "fcc + liquid -> bct"
     # the two sides of one phase's miscibility gap are told apart by the element they are rich in
     assert reaction_products(system, [("fcc", 0.05), ("fcc", 0.9)]) == "fcc (Pb-rich) + fcc (Sn-rich)"
-    assert phase_label(system, "fcc", 0.05) == "fcc"
+    assert solid_label(system, "fcc", 0.05, [("fcc", 0.02), ("bct", 0.98)]) == "fcc"
+    assert solid_label(system, "fcc", 0.05, [("fcc", 0.02), ("liquid", 0.5), ("fcc", 0.98)]) == "fcc (Pb-rich)"

@@ -153,3 +153,13 @@ def test_latent_heat_of_a_pure_element_is_its_enthalpy_of_fusion(system_name, x_
         (plateau,) = [a for a in path.arrests if a.kind == "plateau"]
         assert plateau.heat_J_per_g == pytest.approx(expected, rel=0.01)
         assert path.end_K == pytest.approx(path.liquidus_K, abs=1e-9)
+
+
+def test_the_two_sides_of_a_miscibility_gap_are_named_apart():
+    """Ag-Cu: one fcc phase with a miscibility gap; its eutectic L -> (Ag) + (Cu) at 779 C
+    (T.B. Massalski (ed.), Binary Alloy Phase Diagrams, 2nd ed. (1990))."""
+    system = find_system("ag-cu")
+    result = solidify(system, _x_of_wt(system, 20.0))
+    for path in (result.equilibrium, result.scheil):
+        assert [c.name for c in path.constituents] == ["primary fcc (Ag-rich)", "eutectic fcc (Ag-rich) + fcc (Cu-rich)"]
+        assert path.end_K == pytest.approx(779.0 + 273.15, abs=3.0)

@@ -133,10 +133,11 @@ def summary(system, result, unit: str) -> list[str]:
         for c in p.constituents:
             if c.name not in structure:
                 structure.append(c.name)
-    out += ["", f"{'structure at the end, mass %':<36}{'equilibrium':>12}{'Scheil':>10}"]
+    width = max([34] + [len(name) + 2 for name in structure])
+    out += ["", f"{'structure at the end, mass %':<{width + 2}}{'equilibrium':>12}{'Scheil':>10}"]
     for name in structure:
         amounts = [next((quote.percent(c.mass_fraction) for c in p.constituents if c.name == name), "-") for p in paths]
-        out.append(f"  {name:<34}{amounts[0]:>12}{amounts[1]:>10}")
+        out.append(f"  {name:<{width}}{amounts[0]:>12}{amounts[1]:>10}")
     out.append("")
     out.append("latent heat released: " + ", ".join(f"{names[p.model]} {p.latent_heat_J_per_g:.1f} J/g" for p in paths))
     for p in paths:
