@@ -127,13 +127,16 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             ph = item.get("phases", {})
             if not isinstance(ph, dict):
                 raise fail(f"{key}.phases", "expected a table of phase = at% of " + system.elements[1])
-            comp = {}
+            comp = []
             for name, v in ph.items():
                 if name not in system.phases:
                     raise fail(f"{key}.phases.{name}", f"not a phase of this system ({', '.join(system.phases)})")
-                if not _num(v) or not 0 <= v <= 100:
-                    raise fail(f"{key}.phases.{name}", f"expected at% from 0 to 100, found {v!r}")
-                comp[name] = v / 100.0
-            fields["phase_x_B"] = comp
+                values = v if isinstance(v, list) and 1 <= len(v) <= 2 else [v]
+                for one in values:
+                    if not _num(one) or not 0 <= one <= 100:
+                        raise fail(f"{key}.phases.{name}", f"expected at% from 0 to 100 (or two of them, for a phase "
+                                   f"that takes part twice), found {v!r}")
+                    comp.append((name, one / 100.0))
+            fields["phase_x_B"] = tuple(sorted(comp, key=lambda pair: pair[1]))
         facts.append(Fact(**fields))
     return facts

@@ -142,14 +142,14 @@ class ReactionTarget(Target):
     def __init__(self, fact: Fact, diagram) -> None:
         super().__init__(fact)
         self.quantities = (_temperature_quantity(fact),) + tuple(
-            _composition_quantity(fact, name, x) for name, x in fact.phase_x_B.items())
+            _composition_quantity(fact, name, x) for name, x in fact.phase_x_B)
         cand, _same = match_reaction(reaction_candidates(diagram, fact.reaction), fact)
         if cand is not None:
             self.T, self.entries = cand[1], list(cand[2])
         elif fact.reaction != "congruent" and len(fact.phase_x_B) == 3:
-            self.T, self.entries = fact.temperature_K, sorted(fact.phase_x_B.items(), key=lambda e: e[1])
+            self.T, self.entries = fact.temperature_K, list(fact.phase_x_B)
         else:
-            named = " + ".join(fact.phase_x_B) or "no phases"
+            named = " + ".join(name for name, _x in fact.phase_x_B) or "no phases"
             raise TargetInputError(
                 f"{_key(fact)}: the starting model has no {reaction_name(fact.reaction)} of {named}; "
                 + ("change the starting values so that it has one"
@@ -176,7 +176,7 @@ class ReactionTarget(Target):
         self.T = r.temperature_K
         self.entries = [(name, xb) for name, _xa, xb in r.phases]
         out = [self.T]
-        for name, x_ref in self.fact.phase_x_B.items():
+        for name, x_ref in self.fact.phase_x_B:
             xs = [x for n, x in self.entries if n == name]
             out.append(100.0 * min(xs, key=lambda x: abs(x - x_ref)))
         return out

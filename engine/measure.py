@@ -82,7 +82,7 @@ def describe(fact: Fact, system) -> str:
     if fact.kind == "melting":
         return f"melting of {fact.element}"
     if fact.kind == "invariant":
-        return f"{fact.reaction} of {' + '.join(fact.phase_x_B) or 'any phases'}"
+        return f"{fact.reaction} of {' + '.join(name for name, _x in fact.phase_x_B) or 'any phases'}"
     if fact.kind in ("liquidus", "solidus"):
         b = system.elements[1]
         w = float(mass_from_mole(np.array([1.0 - fact.x_B, fact.x_B]), system.molar_mass)[1])
@@ -181,7 +181,7 @@ def reaction_candidates(diagram, reaction: str) -> list[tuple[str, float, tuple[
 def match_reaction(candidates, fact: Fact):
     """The candidate nearest in temperature that has the fact's named phases, preferring the
     fact's kind: (candidate, kind_matches), or (None, False) where none has those phases."""
-    named = set(fact.phase_x_B)
+    named = {name for name, _x in fact.phase_x_B}
     with_phases = [c for c in candidates if named <= {n for n, _x in c[2]}]
     same = [c for c in with_phases if c[0] == fact.reaction]
     pool = same or with_phases
@@ -193,7 +193,7 @@ def match_reaction(candidates, fact: Fact):
 def reaction_comparisons(fact: Fact, T: float | None, phases) -> tuple[Comparison, ...]:
     """Temperature and each named phase's composition against the model's (T, ((phase, x_B), ...))."""
     out = [_temperature(fact, T)]
-    for name, x_ref in fact.phase_x_B.items():
+    for name, x_ref in fact.phase_x_B:
         xs = [x for n, x in phases if n == name]
         model = 100 * min(xs, key=lambda x: abs(x - x_ref)) if xs else None
         out.append(Comparison(f"x({name})", "at%", 100 * x_ref, model, composition_spread(fact, name)))
@@ -207,7 +207,7 @@ def reaction_name(reaction: str) -> str:
 
 def _invariant(system, fact: Fact, diagram) -> FactOutcome:
     cand, same_kind = match_reaction(reaction_candidates(diagram, fact.reaction), fact)
-    names = " + ".join(fact.phase_x_B) or "any phases"
+    names = " + ".join(name for name, _x in fact.phase_x_B) or "any phases"
     if cand is None:
         return FactOutcome(fact, reaction_comparisons(fact, None, ()),
                            f"the model has no {reaction_name(fact.reaction)} of {names} (its diagram has a different topology)")

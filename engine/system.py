@@ -17,6 +17,7 @@ class Fact:
     """One measured fact of a system file (`[[check]]` or `[[measured]]`), validated.
 
     `temperature_K` and `x_B` (mole fraction of B) are None where the kind does not use them;
+    `phase_x_B` holds (phase, x_B) pairs of an invariant, ordered by x_B (a phase may occur twice);
     `enthalpy_J_per_mol` is the measured enthalpy of the calorimetric kinds (J per mole of atoms);
     `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K", "J"
     (J/mol) and "at" (at%), or per-phase at% under "at:<phase>".
@@ -30,7 +31,7 @@ class Fact:
     reaction: str | None = None
     phase: str | None = None
     partner: str | None = None
-    phase_x_B: dict[str, float] = field(default_factory=dict)
+    phase_x_B: tuple[tuple[str, float], ...] = ()
     enthalpy_J_per_mol: float | None = None
     spread: dict[str, float] = field(default_factory=dict)
     index: int = 0
