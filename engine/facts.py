@@ -137,6 +137,6 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
                         raise fail(f"{key}.phases.{name}", f"expected at% from 0 to 100 (or two of them, for a phase "
                                    f"that takes part twice), found {v!r}")
                     comp.append((name, one / 100.0))
-            fields["phase_x_B"] = tuple(sorted(comp, key=lambda pair: pair[1]))
+            fields["phase_x_B"] = tuple(comp)
         facts.append(Fact(**fields))
     return facts

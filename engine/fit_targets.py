@@ -147,7 +147,7 @@ class ReactionTarget(Target):
         if cand is not None:
             self.T, self.entries = cand[1], list(cand[2])
         elif fact.reaction != "congruent" and len(fact.phase_x_B) == 3:
-            self.T, self.entries = fact.temperature_K, list(fact.phase_x_B)
+            self.T, self.entries = fact.temperature_K, sorted(fact.phase_x_B, key=lambda e: e[1])
         else:
             named = " + ".join(name for name, _x in fact.phase_x_B) or "no phases"
             raise TargetInputError(

@@ -17,7 +17,7 @@ class Fact:
     """One measured fact of a system file (`[[check]]` or `[[measured]]`), validated.
 
     `temperature_K` and `x_B` (mole fraction of B) are None where the kind does not use them;
-    `phase_x_B` holds (phase, x_B) pairs of an invariant, ordered by x_B (a phase may occur twice);
+    `phase_x_B` holds (phase, x_B) pairs of an invariant, in the file's order (a phase may occur twice);
     `enthalpy_J_per_mol` is the measured enthalpy of the calorimetric kinds (J per mole of atoms);
     `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K", "J"
     (J/mol) and "at" (at%), or per-phase at% under "at:<phase>".
