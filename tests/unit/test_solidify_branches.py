@@ -37,7 +37,7 @@ def test_branches_end_on_the_diagrams_reactions():
     assert {b.solid for b in branches} == {"fcc", "bct"}
     for b in branches:
         assert b.top.kind == "melting"
-        assert b.bottom.invariant is inv
+        assert b.bottom.invariant == inv
         assert b.T[-1] == pytest.approx(inv.temperature_K, abs=1e-6)
         assert continuation(branches, b) is None          # the liquid cannot pass a eutectic
         assert np.all(np.diff(b.phi) > 0)                   # the Scheil integral grows along the path
