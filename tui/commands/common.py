@@ -57,3 +57,12 @@ def temperature_kelvin(system, text: str):
 def print_json(obj) -> None:
     json.dump(obj, sys.stdout, indent=None, allow_nan=False)
     sys.stdout.write("\n")
+
+
+ESTIMATE_NOTE = "Computed estimate: defer to the alloy's specification and certified data."
+
+
+def closing_lines(system) -> list[str]:
+    """The lines every human-readable answer ends with: the system's safety note and the
+    reminder that the numbers are estimates."""
+    return ([f"safety: {system.safety}"] if system.safety else []) + [ESTIMATE_NOTE]

@@ -9,7 +9,7 @@ import shutil
 import sys
 
 from .. import quote
-from .common import add_system_argument, open_system, print_json
+from .common import add_system_argument, closing_lines, open_system, print_json
 
 HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
 
@@ -40,9 +40,7 @@ def run(args: argparse.Namespace) -> int:
         print(line)
     for w in diagram.warnings:
         print(f"note: {w}")
-    if system.safety:
-        print(f"safety: {system.safety}")
-    print("Computed estimate: defer to the alloy's specification and certified data.")
+    print("\n".join(closing_lines(system)))
     return 0
 
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
-from .common import add_composition_argument, add_system_argument, alloy_composition, open_system, print_json
+from .common import add_composition_argument, add_system_argument, closing_lines, alloy_composition, open_system, print_json
 
 HELP = "liquidus, solidus, freezing range and every phase change of one alloy"
 
@@ -60,7 +60,5 @@ def run(args: argparse.Namespace) -> int:
     print("on cooling:")
     for c in m.crossings:
         print(f"  {quote.temperature(c.temperature_K, unit):>12}  {' + '.join(c.above)}  ->  {' + '.join(c.below)}")
-    if system.safety:
-        print(f"safety: {system.safety}")
-    print("Computed estimate: defer to the alloy's specification and certified data.")
+    print("\n".join(closing_lines(system)))
     return 0

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
-from .common import add_composition_argument, add_system_argument, alloy_composition, open_system, print_json, temperature_kelvin
+from .common import add_composition_argument, add_system_argument, alloy_composition, closing_lines, open_system, print_json, temperature_kelvin
 
 HELP = "phases, their compositions and amounts for one alloy at one temperature"
 
@@ -63,7 +63,4 @@ def render(system, result, unit: str, element: str, basis: str) -> list[str]:
     lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)}")
     if not result.converged:
         lines.append("warning: a tie-line did not converge to its tolerance; treat this answer with suspicion")
-    if system.safety:
-        lines.append(f"safety: {system.safety}")
-    lines.append("Computed estimate: defer to the alloy's specification and certified data.")
-    return lines
+    return lines + closing_lines(system)
