@@ -51,11 +51,32 @@ async def test_moving_in_temperature_keeps_the_paths_and_composition_recomputes(
         assert "FREEZING of this alloy" in status_text(app)
 
 
+# An invented system (A melts at 1000 K; solid B is never stable, so B-rich liquids stay liquid
+# through the whole window): an alloy with 99 at% B has no liquidus inside the window.
+NEVER_FREEZES = """
+elements = ["Al", "Si"]
+molar_mass = { Al = 27.0, Si = 28.0 }
+source = "Invented for the tests"
+temperature_range_K = [300, 1100]
+[phase.liquid]
+model = "solution"
+G.Al = [ { upto = 4000, a = 10000.0, b = -10.0 } ]
+G.Si = [ { upto = 4000 } ]
+[phase.fcc]
+model = "solution"
+G.Al = [ { upto = 4000 } ]
+G.Si = [ { upto = 4000, b = 13.38 } ]
+"""
+
+
 @pilot_test
-async def test_an_alloy_without_paths_says_why():
-    app = make_app("sn-ag", T_K=700.0, x_B=0.45)   # liquidus above the mapped window
+async def test_an_alloy_without_paths_says_why(tmp_path):
+    path = tmp_path / "never-freezes.toml"
+    path.write_text(NEVER_FREEZES)
+    app = make_app(str(path), T_K=700.0, x_B=0.99)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.press("4")
         await app.workers.wait_for_complete()
         await pilot.pause()
-        assert "no answer:" in status_text(app)
+        assert "no answer: no liquidus for this alloy inside the mapped window" in status_text(app)
+        assert "no cooling path here" in screen_text(app)

@@ -80,11 +80,14 @@ class CoolingView(CachedPlot):
     def draw(self, plt: Plot, width: int, height: int) -> None:
         e = self.exploration
         answer = self.answer()
-        if e is None or answer is None:
-            plt.title("computing how this alloy freezes ...")
-            return
-        if isinstance(answer, str):
-            plt.title(f"no cooling path: {answer}")
+        if e is None or answer is None or isinstance(answer, str):
+            message = "computing how this alloy freezes ..." if answer is None else \
+                "no cooling path here (the status pane says why)"
+            plt.xlim(0.0, 1.0)
+            plt.ylim(0.0, 1.0)
+            plt.xticks([])
+            plt.yticks([])
+            plt.text(message, 0.5, 0.5, alignment="center")
             return
         scene = cooling_scene(answer, e.scales, self.glyphs, width, height)
         draw_cooling(plt, scene, self.glyphs, float(e.scales.shown_temperature(e.cursor.temperature_K)))
