@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import re
 import sys
 
 from .errors import report
@@ -65,8 +66,25 @@ def _opens_explorer(argv: list[str]) -> bool:
     return True
 
 
+def _attach_negative_values(argv: list[str]) -> list[str]:
+    """`--temp -40C` -> `--temp=-40C`: argparse would take a value starting with '-' and a
+    letter for an unknown option; no option of ladle's looks like a negative number."""
+    out: list[str] = []
+    i = 0
+    while i < len(argv):
+        word = argv[i]
+        if (word.startswith("--") and "=" not in word and i + 1 < len(argv)
+                and re.match(r"^-\.?\d", argv[i + 1])):
+            out.append(f"{word}={argv[i + 1]}")
+            i += 2
+            continue
+        out.append(word)
+        i += 1
+    return out
+
+
 def main(argv: list[str] | None = None) -> int:
-    argv = sys.argv[1:] if argv is None else argv
+    argv = _attach_negative_values(sys.argv[1:] if argv is None else argv)
     if _opens_explorer(argv):
         from .explorer import run as run_explorer
 

@@ -319,12 +319,10 @@ def test_bad_input_is_one_line_and_status_2(run, argv, expected):
     _one_line_error(*run(*argv), argv[0], expected)
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "tui/cli.py: argparse takes a value such as '-300C' after --temp for an option (only bare "
-    "negative numbers are recognised), so `--temp -300C` (and a legitimate `--temp -40C`) is "
-    "refused with 'argument --temp: expected one argument' instead of being read as a temperature"))
 def test_negative_temperature_with_unit_after_a_space(run):
     _one_line_error(*run("point", "pb-sn", "--temp", "-300C", "--comp", "Sn=10wt%"), "point", "at or below absolute zero")
+    status, out, err = run("point", "pb-sn", "--temp", "-40C", "--comp", "Sn=10wt%")
+    assert status == 0 and " at -40.0 " in out and not err
 
 
 def test_bad_system_file_is_one_line_naming_file_and_key(run, tmp_path):
