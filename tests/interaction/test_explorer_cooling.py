@@ -79,4 +79,4 @@ async def test_an_alloy_without_paths_says_why(tmp_path):
         await app.workers.wait_for_complete()
         await pilot.pause()
         assert "no answer: no liquidus for this alloy inside the mapped window" in status_text(app)
-        assert "no cooling path here" in screen_text(app)
+        assert "no cooling path (see the status pane)" in screen_text(app)

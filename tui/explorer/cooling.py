@@ -82,7 +82,7 @@ class CoolingView(CachedPlot):
         answer = self.answer()
         if e is None or answer is None or isinstance(answer, str):
             message = "computing how this alloy freezes ..." if answer is None else \
-                "no cooling path here (the status pane says why)"
+                "no cooling path (see the status pane)"
             plt.xlim(0.0, 1.0)
             plt.ylim(0.0, 1.0)
             plt.xticks([])
