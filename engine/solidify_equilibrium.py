@@ -17,8 +17,8 @@ from .equilibrium import PointEquilibrium, equilibrate
 from .melt import melt_range
 from .solidify_heat import State, released_between
 from .solidify_liquidus import LIQUID
-from .solidify_path import (Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes, describe_reaction,
-                            molar_mass_of, reaction_products, solid_label)
+from .solidify_path import (SAME_K, Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes,
+                            describe_reaction, molar_mass_of, reaction_products, solid_label)
 
 #: States are taken this far (K) above and below each boundary crossed.
 EDGE_K = 1e-6
@@ -82,9 +82,9 @@ class EquilibriumCooling:
         """The state at T (K); at a boundary the state just above it, or just below with `below`."""
         if T > self.liquidus_K or (T == self.liquidus_K and not below):
             return self._step(T, None)
-        if T in self.events:
-            T_eval = T - EDGE_K if below else T + EDGE_K
-            return self._step(T, self._equilibrium(T_eval))
+        event = next((e for e in self.events if abs(e - T) <= SAME_K), None)
+        if event is not None:
+            return self._step(T, self._equilibrium(event - EDGE_K if below else event + EDGE_K))
         return self._step(T, self._equilibrium(T))
 
     def _temperatures(self) -> list[tuple[float, float | None]]:

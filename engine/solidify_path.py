@@ -13,6 +13,10 @@ import numpy as np
 
 from .units import mass_from_mole
 
+#: Temperatures (K) closer than this are one plateau's (the two paths find each reaction's
+#: temperature separately).
+SAME_K = 1e-9
+
 
 class PathError(ValueError):
     """A cooling path cannot be computed for this alloy; the message says why, in one line."""

@@ -19,12 +19,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, chain_from, fractions_array,
-                                invert_hermite, liquidus_branches)
+from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, chain_from, fractions_array, invert_hermite,
+                                liquidus_branches)
 from .solidify_heat import released_between
 from .solidify_liquidus import LIQUID
-from .solidify_path import (Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes, describe_reaction,
-                            molar_mass_of, reaction_products, solid_label)
+from .solidify_path import (SAME_K, Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes,
+                            describe_reaction, molar_mass_of, reaction_products, solid_label)
 from .tangent import logit
 
 #: Freezing "ends" in the last-liquid case when this share of the alloy's atoms is still liquid.
@@ -214,11 +214,11 @@ class ScheilCooling:
         it with `below`."""
         if self._single is not None:
             solid, Tm, _kind = self._single
-            done = T < Tm or (below and T == Tm)
+            done = T < Tm - SAME_K or (below and abs(T - Tm) <= SAME_K)
             return PathStep(T, float(done), float(done), None if done else self.x_B, (solid,) if done else (LIQUID,))
         if T >= self.segments[0].temperatures[0]:
             return PathStep(T, 0.0, 0.0, self.x_B, (LIQUID,))
-        if self.end_K is not None and (T < self.end_K or (below and T == self.end_K)):
+        if self.end_K is not None and (T < self.end_K - SAME_K or (below and abs(T - self.end_K) <= SAME_K)):
             return self._solid_state(T)
         for k, seg in enumerate(self.segments):
             t_hot, t_cold = seg.temperatures

@@ -24,16 +24,22 @@ def test_table_agrees_with_melt_ranges_and_single_paths(name):
     lo, hi = system.covers
     x = np.linspace(max(lo, 1e-3), hi - 1e-3, 9)
     r = composition_table(system).evaluate(x, scheil=True)
+
+    def same(table_value: float, single: float | None, tolerance: float) -> bool:
+        """Equal within the tolerance, or both without an answer inside the window."""
+        return math.isnan(table_value) if single is None else abs(table_value - single) <= tolerance
+
     for k, xk in enumerate(x):
         m = melt_range(system, float(xk))
-        assert r.liquidus_K[k] == pytest.approx(m.liquidus_K, abs=1e-3)
-        assert r.solidus_K[k] == pytest.approx(m.solidus_K, abs=1e-3)
+        assert same(r.liquidus_K[k], m.liquidus_K, 1e-3)
+        assert same(r.solidus_K[k], m.solidus_K, 1e-3)
         paths = solidify(system, float(xk))
-        assert r.scheil_end_K[k] == pytest.approx(paths.scheil.end_K, abs=1e-6)
+        assert same(r.scheil_end_K[k], paths.scheil.end_K, 1e-6)
         eutectic = {p.model: sum(c.mass_fraction for c in p.constituents if c.name.startswith("eutectic"))
                     for p in (paths.equilibrium, paths.scheil)}
         assert r.eutectic_equilibrium[k] == pytest.approx(eutectic["equilibrium"], abs=1e-6)
-        assert r.eutectic_scheil[k] == pytest.approx(eutectic["scheil"], abs=1e-6)
+        if paths.scheil.end_K is not None:
+            assert r.eutectic_scheil[k] == pytest.approx(eutectic["scheil"], abs=1e-6)
 
 
 def test_pure_elements_and_the_eutectic_composition():

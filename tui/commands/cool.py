@@ -77,16 +77,21 @@ def row_temperatures(result, unit: str) -> list[tuple[float, bool]]:
     paths = (result.equilibrium, result.scheil)
     top = result.equilibrium.liquidus_K
     bottom = min(s.temperature_K for p in paths for s in p.steps)
+    events: list[list] = []                  # [T, plateau?], one per temperature of either path
+    for a in sorted((a for p in paths for a in p.arrests), key=lambda a: -a.temperature_K):
+        if events and abs(events[-1][0] - a.temperature_K) <= _SAME_K:
+            events[-1][1] = events[-1][1] or a.kind == "plateau"
+        else:
+            events.append([a.temperature_K, a.kind == "plateau"])
     rows = {(top, False)}
-    for p in paths:
-        for a in p.arrests:
-            if abs(a.temperature_K - top) > _SAME_K:
-                rows.add((a.temperature_K, False))
-            if a.kind == "plateau":
-                rows.add((a.temperature_K, True))
+    for T, plateau in events:
+        if abs(T - top) > _SAME_K:
+            rows.add((T, False))
+        if plateau:
+            rows.add((T, True))
     hi, lo = kelvin_to(top, unit), kelvin_to(bottom, unit)
     if hi - lo > 0.0:
-        step = nice_step(hi - lo, TABLE_ROWS)
+        step = max(nice_step(hi - lo, TABLE_ROWS), 1.0)     # the table shows tenths of a degree
         k = int(hi // step)
         while k * step > lo:
             if k * step < hi:
