@@ -96,7 +96,8 @@ def _level(system, T: float) -> _Level:
 
 
 class PhaseDiagram:
-    """The mapped diagram of one system; query it with `field_at`."""
+    """The mapped diagram of one system; query it with `field_at`. Its invariants and special
+    points are those that reach into the composition range the model covers."""
 
     def __init__(self, system, fields: list[TwoPhaseField], invariants: list[Invariant],
                  special_points: list[SpecialPoint], warnings: list[str]) -> None:
@@ -173,9 +174,13 @@ class _Tracer:
             kind = "melting" if t.above == "liquid" else "transition"
             x = 0.0 if t.element == self.system.elements[0] else 1.0
             self.special.append(SpecialPoint(kind, t.temperature_K, x, (t.below, t.above)))
-        self.invariants.sort(key=lambda i: -i.temperature_K)
-        self.special.sort(key=lambda s: -s.temperature_K)
-        return PhaseDiagram(self.system, fields, self.invariants, self.special, self.warnings)
+        lo, hi = self.system.covers
+        covered = [i for i in self.invariants
+                   if min(x for _, x in i.phases) <= hi + 1e-9 and max(x for _, x in i.phases) >= lo - 1e-9]
+        special = [p for p in self.special if lo - 1e-9 <= p.x_B <= hi + 1e-9]
+        covered.sort(key=lambda i: -i.temperature_K)
+        special.sort(key=lambda s: -s.temperature_K)
+        return PhaseDiagram(self.system, fields, covered, special, self.warnings)
 
     @staticmethod
     def _start(tie: TieLine, T: float) -> _Track:
