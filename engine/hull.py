@@ -15,12 +15,21 @@ def lower_hull(xs: list[float], gs: list[float]) -> list[int]:
     Collinear middle points are dropped.
     """
     chain: list[int] = []
+    cx: list[float] = []      # x and g of the chain's points, kept beside their indices
+    cg: list[float] = []
+    n = 0
     for i, (xi, gi) in enumerate(zip(xs, gs)):
-        while len(chain) >= 2:
-            a, b = chain[-2], chain[-1]
-            if (gs[b] - gs[a]) * (xi - xs[a]) >= (gi - gs[a]) * (xs[b] - xs[a]):
+        while n >= 2:
+            ax, ag = cx[n - 2], cg[n - 2]
+            if (cg[n - 1] - ag) * (xi - ax) >= (gi - ag) * (cx[n - 1] - ax):
                 chain.pop()
+                cx.pop()
+                cg.pop()
+                n -= 1
             else:
                 break
         chain.append(i)
+        cx.append(xi)
+        cg.append(gi)
+        n += 1
     return chain
