@@ -86,16 +86,13 @@ class System:
     @cached_property
     def temperature_range_K(self) -> tuple[float, float]:
         """The window (K) diagrams are mapped over: declared in the file, or from the melting
-        points (the top from those of the pure elements inside the covered composition range);
-        never outside the temperatures the model covers."""
+        points; never outside the temperatures the model covers."""
         c_lo, c_hi = self.covers_K
         if self.declared_temperature_range_K is not None:
             lo, hi = self.declared_temperature_range_K
         else:
             melts = [t for t in self.melting_points.values() if t]
-            ends = (self.covers[0] <= 0.0, self.covers[1] >= 1.0)   # pure A, pure B inside the range
-            covered = [t for t, end in zip(self.melting_points.values(), ends) if t and end] or melts
             m_lo, m_hi = self.model_range_K
             lo, hi = (max(m_lo, 300.0), min(m_hi, 2000.0)) if not melts else \
-                (max(m_lo, 0.6 * min(melts)), min(m_hi, 1.15 * max(covered)))
+                (max(m_lo, 0.6 * min(melts)), min(m_hi, 1.15 * max(melts)))
         return max(lo, c_lo), min(hi, c_hi)
