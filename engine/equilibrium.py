@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import threading
 from collections import OrderedDict
 from dataclasses import dataclass
 
@@ -72,22 +73,26 @@ class PointEquilibrium:
 
 
 class SectionCache:
-    """Recently used isothermal sections, per system and temperature (K)."""
+    """Recently used isothermal sections, per system and temperature (K). Safe to share between
+    threads (the explorer computes in worker threads); sections are built outside the lock."""
 
     def __init__(self, size: int = _SECTION_CACHE_SIZE) -> None:
         self.size = size
         self._items: OrderedDict[tuple[int, float], Section] = OrderedDict()
+        self._lock = threading.Lock()
 
     def get(self, system, T: float) -> Section:
         key = (id(system), float(T))
-        sec = self._items.get(key)
-        if sec is None or sec.system is not system:
-            sec = Section(system, T)
+        with self._lock:
+            sec = self._items.get(key)
+            if sec is not None and sec.system is system:
+                self._items.move_to_end(key)
+                return sec
+        sec = Section(system, T)
+        with self._lock:
             self._items[key] = sec
             if len(self._items) > self.size:
                 self._items.popitem(last=False)
-        else:
-            self._items.move_to_end(key)
         return sec
 
 
