@@ -10,10 +10,7 @@ Python's shortest repr, so tomllib reads back exactly the same numbers.
 from __future__ import annotations
 
 import math
-import os
 import re
-import tempfile
-from pathlib import Path
 from typing import Any
 
 _BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")
@@ -87,22 +84,3 @@ def toml_text(doc: dict, header: str = "") -> str:
     lines = [f"# {h}" if h else "#" for h in header.splitlines()]
     _table(lines, "", doc)
     return "\n".join(lines).lstrip("\n") + "\n"
-
-
-def write_atomic(path: Path, text: str) -> None:
-    """Write `text` to `path` through a temporary file in the same folder, then rename it into
-    place: a reader sees the old file or the whole new one, never a part."""
-    path = Path(path)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent or Path("."))
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as f:
-            f.write(text)
-            f.flush()
-            os.fsync(f.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except FileNotFoundError:
-            pass
-        raise

@@ -15,7 +15,7 @@ import os
 from functools import lru_cache
 from pathlib import Path
 
-from .fit_toml import write_atomic
+from .atomic_files import write_atomic
 from .measure import evaluate_all
 
 

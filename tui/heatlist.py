@@ -12,11 +12,11 @@ from __future__ import annotations
 import csv
 import io
 import math
-import os
 import re
-import tempfile
 from dataclasses import dataclass
 from pathlib import Path
+
+from ladle.engine.atomic_files import write_atomic
 
 from .errors import CommandError
 
@@ -149,22 +149,9 @@ def write_csv_atomically(path: Path, rows: list[list[str]], delimiter: str, forc
         raise CommandError(f"{path}: is the heat list itself; write the results to another file")
     if path.exists() and not force:
         raise CommandError(f"{path}: exists already; choose another name or add --force to replace it")
-    folder = path.parent if str(path.parent) else Path(".")
+    text = io.StringIO()
+    csv.writer(text, delimiter=delimiter, lineterminator="\n").writerows(rows)
     try:
-        fd, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=folder)
+        write_atomic(path, text.getvalue())
     except OSError as e:
         raise CommandError(f"{path}: cannot write: {e.strerror}") from None
-    try:
-        with os.fdopen(fd, "w", newline="", encoding="utf-8") as stream:
-            csv.writer(stream, delimiter=delimiter, lineterminator="\n").writerows(rows)
-        os.chmod(temporary, 0o666 & ~_umask())     # the permissions a plain new file would get
-        os.replace(temporary, path)
-    except OSError as e:
-        Path(temporary).unlink(missing_ok=True)
-        raise CommandError(f"{path}: cannot write: {e.strerror}") from None
-
-
-def _umask() -> int:
-    mask = os.umask(0)
-    os.umask(mask)
-    return mask

@@ -1,6 +1,7 @@
 """Files written by the explorer never replace an existing file."""
 
-from ladle.tui.explorer.exports import safe_stem, write_new_file
+from ladle.engine.atomic_files import write_new_file
+from ladle.tui.explorer.exports import safe_stem
 
 
 def test_existing_files_are_kept_and_names_numbered(tmp_path):

@@ -9,7 +9,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from ladle.engine.fit_toml import toml_text, value_text, write_atomic
+from ladle.engine.fit_toml import toml_text, value_text
 
 keys = st.text(min_size=1, max_size=8)
 scalars = (st.text(max_size=20) | st.integers(-10**12, 10**12) | st.booleans()
@@ -53,11 +53,3 @@ def test_keys_that_are_not_bare_are_quoted():
 def test_non_finite_numbers_are_refused():
     with pytest.raises(ValueError, match="non-finite"):
         value_text(float("nan"))
-
-
-def test_atomic_write_replaces_whole_and_leaves_no_temporary_file(tmp_path):
-    target = tmp_path / "out.toml"
-    target.write_text("old = 1\n")
-    write_atomic(target, "new = 2\n")
-    assert target.read_text() == "new = 2\n"
-    assert [p.name for p in tmp_path.iterdir()] == ["out.toml"]

@@ -134,7 +134,8 @@ def run(args: argparse.Namespace) -> int:
     from ladle.engine import load_system
     from ladle.engine.fit import fit
     from ladle.engine.fit_report import fitted_document
-    from ladle.engine.fit_toml import toml_text, write_atomic
+    from ladle.engine.atomic_files import write_atomic
+    from ladle.engine.fit_toml import toml_text
 
     source, output = Path(args.measurements), Path(args.output)
     _check_output(source, output, args.force)

@@ -10,10 +10,10 @@ from __future__ import annotations
 import json
 import math
 import os
-import tempfile
 from dataclasses import asdict, dataclass
 from pathlib import Path
 
+from ladle.engine.atomic_files import write_atomic
 from ladle.engine.units import TEMPERATURE_UNITS
 
 from .scales import COMPOSITION_UNITS
@@ -67,21 +67,4 @@ def load_state(path: Path) -> SavedState | None:
 def save_state(path: Path, state: SavedState) -> None:
     """Write the state atomically; raises OSError when the folder cannot be written."""
     path.parent.mkdir(parents=True, exist_ok=True)
-    write_atomically(path, json.dumps(asdict(state), indent=1) + "\n")
-
-
-def write_atomically(path: Path, text: str) -> None:
-    """Write text to path through a temporary file in the same folder and a rename."""
-    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as handle:
-            handle.write(text)
-            handle.flush()
-            os.fsync(handle.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
+    write_atomic(path, json.dumps(asdict(state), indent=1) + "\n")

@@ -14,13 +14,14 @@ from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Input, Static
 
 from ladle.engine import SystemFileError, UnknownSystem, find_system
+from ladle.engine.atomic_files import write_new_file
 from ladle.tui.quote import percent
 
 from ..cooling import CoolingView
 from ..cooling_status import cooling_lines
 from ..entry import EntryError, TypedPoint, check_inside, parse_point
 from ..exploration import Exploration
-from ..exports import safe_stem, write_new_file
+from ..exports import safe_stem
 from ..glyphs import Glyphs
 from ..keymap import MAIN_KEYS
 from ..reaction_rows import reaction_rows
