@@ -8,7 +8,7 @@ import shutil
 import sys
 
 from .. import quote
-from .common import add_composition_argument, add_system_argument, alloy_composition, open_system, print_json
+from .common import add_composition_argument, add_system_argument, alloy_composition, closing_lines, open_system, print_json
 
 HELP = "how an alloy freezes: fraction solid, liquid composition and phases on cooling (equilibrium and Scheil)"
 
@@ -152,9 +152,7 @@ def summary(system, result, unit: str) -> list[str]:
             out.append(f"  {quote.temperature(a.temperature_K, unit):>12}  {a.description}{heat}")
         out += [f"  note: {n}" for n in p.notes]
     out.append("Scheil takes no diffusion in the solid and a fully mixed liquid; a real casting lies between the paths.")
-    if system.safety:
-        out.append(f"safety: {system.safety}")
-    out.append("Computed estimate: defer to the alloy's specification and certified data.")
+    out += closing_lines(system)
     return out
 
 
