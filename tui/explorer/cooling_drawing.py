@@ -14,7 +14,7 @@ import numpy as np
 
 from .diagram_drawing import plot_area
 from .glyphs import Glyphs
-from .plotting import Frame, Label, place_labels, round_ticks, thin_polyline
+from .plotting import Frame, Label, draw_frame, place_labels, thin_polyline
 from .readout import format_temperature_value
 from .scales import Scales
 
@@ -76,12 +76,7 @@ def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs, cursor_T: float | Non
     if cursor_T is not None and frame.y_low <= cursor_T <= frame.y_high:
         plt.plot([frame.x_low, frame.x_high], [cursor_T, cursor_T], marker=glyphs.crosshair_marker,
                  color=CURSOR_COLOUR)
-    plt.xlim(frame.x_low, frame.x_high)
-    plt.ylim(frame.y_low, frame.y_high)
-    plt.xticks(round_ticks(frame.x_low, frame.x_high, max(frame.columns // 10, 2)))
-    plt.yticks(round_ticks(frame.y_low, frame.y_high, max(frame.rows // 4, 2)))
-    plt.xlabel(scene.x_title)
-    plt.ylabel(scene.y_title)
+    draw_frame(plt, frame, scene.x_title, scene.y_title)
     plt.plot(*scene.equilibrium, marker=glyphs.boundary_marker, color=EQUILIBRIUM_COLOUR, label="equilibrium")
     plt.plot(*scene.scheil, marker=glyphs.envelope_marker, color=SCHEIL_COLOUR, label="Scheil")
     for x, T in scene.ends:

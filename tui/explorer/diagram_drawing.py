@@ -13,7 +13,7 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, joined, place_labels, round_ticks, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .readout import format_temperature_value
 
 BOUNDARY_COLOUR = "cyan"
@@ -98,12 +98,7 @@ def draw_diagram(plt, scene: DiagramScene, cursor_x: float | None, cursor_y: flo
     """Issue the plot calls: boundaries, invariant lines, labels, then the cursor on top
     (no cursor where cursor_x is None: the line-mode `ladle diagram`)."""
     frame = scene.frame
-    plt.xlim(frame.x_low, frame.x_high)
-    plt.ylim(frame.y_low, frame.y_high)
-    plt.xticks(round_ticks(frame.x_low, frame.x_high, frame.columns // 10))
-    plt.yticks(round_ticks(frame.y_low, frame.y_high, frame.rows // 4))
-    plt.xlabel(scene.x_title)
-    plt.ylabel(scene.y_title)
+    draw_frame(plt, frame, scene.x_title, scene.y_title)
     if scene.boundaries[0]:
         plt.plot(*scene.boundaries, marker=glyphs.boundary_marker, color=BOUNDARY_COLOUR)
     if scene.invariants[0]:

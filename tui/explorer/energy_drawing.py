@@ -15,7 +15,7 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, joined, place_labels, round_ticks, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .diagram_drawing import plot_area
 
 ENVELOPE_POINTS = 120        # envelope samples across the window
@@ -94,11 +94,7 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
 def draw_energy(plt, scene: EnergyScene, cursor_x: float, glyphs: Glyphs) -> None:
     """Issue the plot calls: curves, envelope, tangents, labels, then the cursor line."""
     frame = scene.frame
-    plt.xlim(frame.x_low, frame.x_high)
-    plt.ylim(frame.y_low, frame.y_high)
-    plt.xticks(round_ticks(frame.x_low, frame.x_high, frame.columns // 10))
-    plt.yticks(round_ticks(frame.y_low, frame.y_high, frame.rows // 4))
-    plt.xlabel(scene.x_title)
+    draw_frame(plt, frame, scene.x_title)
     for index, (_, xs, ys) in enumerate(scene.curves):
         plt.plot(xs, ys, marker=glyphs.boundary_marker,
                  color=CURVE_COLOURS[index % len(CURVE_COLOURS)])

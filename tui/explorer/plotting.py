@@ -99,3 +99,14 @@ def round_ticks(low: float, high: float, count: int) -> list[float]:
     first = np.ceil(low / step - 1e-9) * step
     ticks = np.arange(first, high + 1e-9 * step, step)
     return [float(t) for t in np.round(ticks, 10)]
+
+
+def draw_frame(plt, frame: Frame, x_title: str, y_title: str | None = None) -> None:
+    """Limits, round ticks (about one per ten columns and four rows) and axis titles."""
+    plt.xlim(frame.x_low, frame.x_high)
+    plt.ylim(frame.y_low, frame.y_high)
+    plt.xticks(round_ticks(frame.x_low, frame.x_high, max(frame.columns // 10, 2)))
+    plt.yticks(round_ticks(frame.y_low, frame.y_high, max(frame.rows // 4, 2)))
+    plt.xlabel(x_title)
+    if y_title is not None:
+        plt.ylabel(y_title)
