@@ -51,7 +51,7 @@ def redlich_kister(L: list[float], xa: np.ndarray, xb: np.ndarray) -> np.ndarray
 
 
 def redlich_kister_derivative(L: list[float], xa: np.ndarray, xb: np.ndarray, order: int) -> np.ndarray:
-    """d^n G/dxB^n (n = order, 1 to 3; J/mol) of the Redlich-Kister excess along x_B."""
+    """d^n G/dxB^n (n = order, 1 or 2; J/mol) of the Redlich-Kister excess along x_B."""
     p = xa * xb
     d = xa - xb
     out = 0.0 * p
@@ -60,11 +60,8 @@ def redlich_kister_derivative(L: list[float], xa: np.ndarray, xb: np.ndarray, or
             continue
         if order == 1:
             term = d ** (k + 1) - (2 * k * p * d ** (k - 1) if k >= 1 else 0.0)
-        elif order == 2:
-            term = -2 * (2 * k + 1) * d**k + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0)
         else:
-            term = ((12 * k * k * d ** (k - 1) if k >= 1 else 0.0)
-                    - (8 * k * (k - 1) * (k - 2) * p * d ** (k - 3) if k >= 3 else 0.0))
+            term = -2 * (2 * k + 1) * d**k + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0)
         out = out + Lk * term
     return out
 
@@ -226,11 +223,6 @@ class SolutionAtT:
     def curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """d2G/dx_B2 (J/mol); negative inside a spinodal."""
         return self.scaled_curvature(xa, xb) / (xa * xb)
-
-    def third_derivative(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
-        """d3G/dx_B3 (J/mol) without the magnetic term (used only to locate curvature minima)."""
-        g3 = redlich_kister_derivative(self.L, xa, xb, 3)
-        return self.RT * (xb - xa) / (xa * xb) ** 2 + g3
 
     def gibbs_dT(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """dG/dT = -S (J/(mol K)) at fixed composition."""
