@@ -14,18 +14,17 @@ from ladle.engine.diagram import map_diagram
 from ladle.engine.measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
 from ladle.engine.melt import melt_range
 from ladle.engine.units import GAS_CONSTANT as R
+from synthetic import expression_value, fusion, ideal_two_phase
 from measure_systems import FUSION_A, FUSION_B, MELT_A_K, MELT_B_K, eutectic_text, ideal_text, write
 
 
 def ideal_ends(T: float) -> tuple[float, float]:
-    """(x_solid, x_liquid) of the ideal-liquid/ideal-solid lens at T (K): with
-    k_i = exp(-dG_i / RT) and dG_i = dH_i (1 - T / Tm_i), x_S = (1 - k_A) / (k_B - k_A) and
-    x_L = k_B x_S (D.R. Gaskell, Introduction to the Thermodynamics of Materials, 5th ed. (2008),
-    ideal binary solutions)."""
-    kA = math.exp(-FUSION_A * (1 - T / MELT_A_K) / (R * T))
-    kB = math.exp(-FUSION_B * (1 - T / MELT_B_K) / (R * T))
-    xs = (1 - kA) / (kB - kA)
-    return xs, kB * xs
+    """(x_solid, x_liquid) of the ideal-liquid/ideal-solid lens at T (K): the closed form of
+    synthetic.ideal_two_phase (Gaskell and Laughlin, 6th ed., ch. 10) with dG_i = dH_i (1 - T/Tm_i)."""
+    dg_a = expression_value(fusion(FUSION_A, MELT_A_K), T)
+    dg_b = expression_value(fusion(FUSION_B, MELT_B_K), T)
+    xs, _xa_s, xl, _xa_l = ideal_two_phase(dg_a, dg_b, T)
+    return xs, xl
 
 
 @pytest.fixture(scope="module")

@@ -17,7 +17,7 @@ import numpy as np
 import pytest
 from scipy.optimize import brentq
 
-from synthetic import R, Solution, Synthetic, fusion
+from synthetic import R, Solution, Synthetic, expression_value, fusion, ideal_two_phase
 
 from ladle.engine.solidify import solidify
 from ladle.engine.solidify_liquidus import solve_liquidus_point
@@ -28,11 +28,11 @@ TM_B, DH_B = 1400.0, 16000.0
 
 
 def _ideal_ends(T: float) -> tuple[float, float]:
-    """(x_S, x_L) of the ideal system at T (Gaskell and Laughlin, 6th ed., ch. 10)."""
-    kA = math.exp(-DH_A * (1.0 - T / TM_A) / (R * T))
-    kB = math.exp(-DH_B * (1.0 - T / TM_B) / (R * T))
-    x_s = (1.0 - kA) / (kB - kA)
-    return x_s, kB * x_s
+    """(x_S, x_L) of the ideal system at T: synthetic.ideal_two_phase (Gaskell and Laughlin,
+    6th ed., ch. 10)."""
+    x_s, _xa_s, x_l, _xa_l = ideal_two_phase(expression_value(fusion(DH_A, TM_A), T),
+                                             expression_value(fusion(DH_B, TM_B), T), T)
+    return x_s, x_l
 
 
 @pytest.fixture(scope="module")
