@@ -24,7 +24,8 @@ async def test_cooling_view_shows_both_ends_and_the_structure():
         status = status_text(app)
         expected = solidify(find_system("pb-sn"), X_PB_10SN)
         assert "FREEZING of this alloy" in status
-        # equilibrium: (Pb) alone, ending at the solidus; Scheil: some eutectic at 183 C
+        # equilibrium: (Pb) alone, ending at the solidus; Scheil: some eutectic at 183 C (the Pb-Sn
+        # eutectic: T.B. Massalski (ed.), Binary Alloy Phase Diagrams, 2nd ed. (1990))
         assert f"{expected.equilibrium.end_K - 273.15:.0f} °C" in status and "ends: solidus" in status
         assert "183 °C" in status and "ends: eutectic" in status
         eutectic = next(c for c in expected.scheil.constituents if c.name.startswith("eutectic"))
