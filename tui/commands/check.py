@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import argparse
 
-from .common import add_system_argument, open_system, print_json
+from .common import ESTIMATE_NOTE, add_system_argument, open_system, print_json, system_title
 from .fact_table import UNITS_NOTE, fact_blocks, outcome_json
 
 HELP = "compare a system's model with the measured facts in its file ([[check]]): model, reference, difference, tolerance, source"
@@ -33,12 +33,12 @@ def run(args: argparse.Namespace) -> int:
 
 def render(system, outcomes) -> list[str]:
     """The human-readable report: a summary line, then one block per check with its source."""
-    title = system.title or "-".join(system.elements)
+    title = system_title(system)
     if not outcomes:
         return [f"{title}: the file holds no [[check]] facts"]
     passed = sum(o.passed for o in outcomes)
     lines = [f"{title}: {passed} of {len(outcomes)} checks pass", ""]
     lines += fact_blocks(system, outcomes, "check", "tolerance", weighted=False)
     lines.append(UNITS_NOTE)
-    lines.append("Computed estimates: defer to the alloy's specification and certified data.")
+    lines.append(ESTIMATE_NOTE)
     return lines

@@ -6,6 +6,7 @@ import argparse
 import json
 import sys
 
+from .. import quote
 from ..errors import CommandError
 from ..parsing import Composition, mole_fraction_of_B, parse_composition, parse_temperature
 
@@ -52,6 +53,33 @@ def temperature_kelvin(system, text: str):
         raise CommandError(f"temperature {text} lies outside the temperatures this model covers "
                            f"({c_lo:g}-{c_hi:g} K); no answer is given there")
     return t
+
+
+def system_title(system) -> str:
+    """The system's title, or its elements joined by '-' where the file gives none."""
+    return system.title or "-".join(system.elements)
+
+
+def temperature_both(T_K: float, unit: str) -> str:
+    """'966.9 °C (1240.0 K)': a temperature in K shown in the person's unit ("C", "K" or "F"),
+    then in K (in C when the person's unit is K)."""
+    other = "K" if unit != "K" else "C"
+    return f"{quote.temperature(T_K, unit)} ({quote.temperature(T_K, other)})"
+
+
+def composition_both(system, x_b: float, element: str, basis: str) -> str:
+    """'Sn 10.0 wt% (16.2 at%)': an alloy of mole fraction x_b of B as the person typed it
+    (the share of `element` in `basis`, "wt" or "at"), then in the other basis."""
+    import numpy as np
+
+    from ladle.engine.units import mass_from_mole
+
+    x = np.array([1.0 - x_b, x_b])
+    shares = {"at": x, "wt": mass_from_mole(x, system.molar_mass)}
+    other = "at" if basis == "wt" else "wt"
+    i = system.elements.index(element)
+    return (f"{element} {quote.percent(shares[basis][i])} {basis}% "
+            f"({quote.percent(shares[other][i])} {other}%)")
 
 
 def print_json(obj) -> None:

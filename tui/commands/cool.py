@@ -8,7 +8,8 @@ import shutil
 import sys
 
 from .. import quote
-from .common import add_composition_argument, add_system_argument, alloy_composition, closing_lines, open_system, print_json
+from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines,
+                     composition_both, open_system, print_json, system_title)
 
 HELP = "how an alloy freezes: fraction solid, liquid composition and phases on cooling (equilibrium and Scheil)"
 
@@ -41,7 +42,7 @@ def run(args: argparse.Namespace) -> int:
         print_json(result.to_json(model))
         return 0
     element = comp.element or system.elements[1]
-    lines = [heading(system, x_b, element, comp.basis)]
+    lines = [f"{system_title(system)}, alloy {composition_both(system, x_b, element, comp.basis)}"]
     if args.plot:
         lines.append(render_plot(system, result, args.unit, args.ascii))
     else:
@@ -58,13 +59,6 @@ def _composition(system, x_b: float, element: str, basis: str) -> str:
 
     frac_b = mass_fraction_of_B(system, x_b) if basis == "wt" else x_b
     return quote.percent(frac_b if element == system.elements[1] else 1.0 - frac_b)
-
-
-def heading(system, x_b: float, element: str, basis: str) -> str:
-    other = "at" if basis == "wt" else "wt"
-    title = system.title or "-".join(system.elements)
-    return (f"{title}, alloy {element} {_composition(system, x_b, element, basis)} {basis}% "
-            f"({_composition(system, x_b, element, other)} {other}%)")
 
 
 def row_temperatures(result, unit: str) -> list[tuple[float, bool]]:

@@ -9,7 +9,7 @@ import shutil
 import sys
 
 from .. import quote
-from .common import add_system_argument, closing_lines, open_system, print_json
+from .common import add_system_argument, closing_lines, open_system, print_json, system_title
 
 HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
 
@@ -77,7 +77,7 @@ def render_plot(system, unit: str, basis: str, ascii_only: bool) -> str:
     plotext.clear_figure()
     plotext.plotsize(width, height)
     plotext.theme("clear")
-    title = system.title or "-".join(system.elements)
+    title = system_title(system)
     lo, hi = system.covers
     if (lo, hi) != (0.0, 1.0):
         title += f"  (model covers {100 * lo:g}-{100 * hi:g} at% {system.elements[1]} only)"

@@ -5,7 +5,8 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
-from .common import add_composition_argument, add_system_argument, closing_lines, alloy_composition, open_system, print_json
+from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines,
+                     composition_both, open_system, print_json, system_title, temperature_both)
 
 HELP = "liquidus, solidus, freezing range and every phase change of one alloy"
 
@@ -40,18 +41,10 @@ def run(args: argparse.Namespace) -> int:
         })
         return 0
     unit = args.unit
-    el = comp.element or els[1]
-    i = els.index(el)
-    first, second = (w, x) if comp.basis == "wt" else (x, w)
-    names = ("wt%", "at%") if comp.basis == "wt" else ("at%", "wt%")
-    title = system.title or "-".join(els)
-    print(f"{title}, alloy {el} {quote.percent(first[i])} {names[0]} ({quote.percent(second[i])} {names[1]})")
+    print(f"{system_title(system)}, alloy {composition_both(system, x_b, comp.element or els[1], comp.basis)}")
 
     def temp(T: float | None) -> str:
-        if T is None:
-            return "not inside the mapped range"
-        other = "K" if unit != "K" else "C"
-        return f"{quote.temperature(T, unit)} ({quote.temperature(T, other)})"
+        return "not inside the mapped range" if T is None else temperature_both(T, unit)
 
     print(f"liquidus        {temp(m.liquidus_K)}")
     print(f"solidus         {temp(m.solidus_K)}")

@@ -5,7 +5,8 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
-from .common import add_composition_argument, add_system_argument, alloy_composition, closing_lines, open_system, print_json, temperature_kelvin
+from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines, open_system,
+                     print_json, system_title, temperature_both, temperature_kelvin)
 
 HELP = "phases, their compositions and amounts for one alloy at one temperature"
 
@@ -34,7 +35,6 @@ def run(args: argparse.Namespace) -> int:
 def render(system, result, unit: str, element: str, basis: str) -> list[str]:
     """The human-readable table: the person's units first, the other unit beside them."""
     i = system.elements.index(element)
-    other_unit = "K" if unit != "K" else "C"
     first, second = ("w", "x") if basis == "wt" else ("x", "w")
     names = {"w": "wt%", "x": "at%"}
     amount_names = {"w": "wt%", "x": "mol%"}
@@ -48,9 +48,8 @@ def render(system, result, unit: str, element: str, basis: str) -> list[str]:
         b = p.amount_mol if first == "w" else p.amount_mass
         return f"{quote.percent(a)} {amount_names[first]} ({quote.percent(b)} {amount_names[second]})"
 
-    title = system.title or "-".join(system.elements)
     lines = [
-        f"{title} at {quote.temperature(result.temperature_K, unit)} ({quote.temperature(result.temperature_K, other_unit)})",
+        f"{system_title(system)} at {temperature_both(result.temperature_K, unit)}",
         f"alloy: {comp(result)}",
         f"stable: {' + '.join(result.phase_names)}",
         "",
