@@ -4,7 +4,10 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
+import shutil
 import sys
+from collections.abc import Callable
 
 from .. import quote
 from ..errors import CommandError
@@ -80,6 +83,25 @@ def composition_both(system, x_b: float, element: str, basis: str) -> str:
     i = system.elements.index(element)
     return (f"{element} {quote.percent(shares[basis][i])} {basis}% "
             f"({quote.percent(shares[other][i])} {other}%)")
+
+
+def terminal_plot(title: str, glyphs, min_rows: int, draw: Callable[[object, int, int], None]) -> str:
+    """A plotext picture at the terminal's size: at least 80 columns and `min_rows` rows, six
+    lines left for the text around it. `draw(plt, width, height)` issues the plot calls; colour
+    only on a terminal without NO_COLOR; characters from `glyphs` (the explorer's glyph set)."""
+    import plotext
+
+    size = shutil.get_terminal_size((80, 24))
+    width, height = max(size.columns, 80), max(size.lines - 6, min_rows)
+    plotext.clear_figure()
+    plotext.plotsize(width, height)
+    plotext.theme("clear")
+    plotext.title(title)
+    draw(plotext, width, height)
+    text = plotext.build()
+    if os.environ.get("NO_COLOR") or not sys.stdout.isatty():
+        text = plotext.uncolorize(text)
+    return glyphs.plot_text(text)
 
 
 def print_json(obj) -> None:

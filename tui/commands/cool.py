@@ -3,13 +3,10 @@
 from __future__ import annotations
 
 import argparse
-import os
-import shutil
-import sys
 
 from .. import quote
 from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines,
-                     composition_both, open_system, print_json, system_title)
+                     composition_both, open_system, print_json, system_title, terminal_plot)
 
 HELP = "how an alloy freezes: fraction solid, liquid composition and phases on cooling (equilibrium and Scheil)"
 
@@ -152,22 +149,14 @@ def summary(system, result, unit: str) -> list[str]:
 
 # --- plot ---------------------------------------------------------------------------------------
 def render_plot(system, result, unit: str, ascii_only: bool) -> str:
-    """Both paths drawn by plotext at the terminal's size (at least 80x24)."""
-    import plotext
-
+    """Both paths drawn by plotext at the terminal's size (at least 80x20)."""
     from ..explorer.cooling_drawing import cooling_scene, draw_cooling
     from ..explorer.glyphs import glyphs_for
     from ..explorer.scales import Scales
 
-    size = shutil.get_terminal_size((80, 24))
-    width, height = max(size.columns, 80), max(size.lines - 6, 20)
     glyphs = glyphs_for(ascii_only)
-    plotext.clear_figure()
-    plotext.plotsize(width, height)
-    plotext.theme("clear")
-    plotext.title("fraction solid on cooling: equilibrium and Scheil")
-    draw_cooling(plotext, cooling_scene(result, Scales(system.molar_mass, unit), glyphs, width, height), glyphs)
-    text = plotext.build()
-    if os.environ.get("NO_COLOR") or not sys.stdout.isatty():
-        text = plotext.uncolorize(text)
-    return glyphs.plot_text(text)
+
+    def draw(plt, width: int, height: int) -> None:
+        draw_cooling(plt, cooling_scene(result, Scales(system.molar_mass, unit), glyphs, width, height), glyphs)
+
+    return terminal_plot("fraction solid on cooling: equilibrium and Scheil", glyphs, 20, draw)

@@ -4,12 +4,10 @@ from __future__ import annotations
 
 import argparse
 import csv
-import os
-import shutil
 import sys
 
 from .. import quote
-from .common import add_system_argument, closing_lines, open_system, print_json, system_title
+from .common import add_system_argument, closing_lines, open_system, print_json, system_title, terminal_plot
 
 HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
 
@@ -62,31 +60,22 @@ def write_csv(system, diagram, stream) -> None:
 
 def render_plot(system, unit: str, basis: str, ascii_only: bool) -> str:
     """The diagram drawn by plotext at the terminal's size (at least 80x24)."""
-    import plotext
-
     from ..explorer.diagram_drawing import diagram_scene, draw_diagram
     from ..explorer.exploration import Exploration
     from ..explorer.glyphs import glyphs_for
     from ..explorer.scales import Scales
 
-    size = shutil.get_terminal_size((80, 24))
-    width, height = max(size.columns, 80), max(size.lines - 6, 24)
     glyphs = glyphs_for(ascii_only)
     exploration = Exploration(system, Scales(system.molar_mass, unit, basis))
-    scene = diagram_scene(exploration, glyphs, width, height)
-    plotext.clear_figure()
-    plotext.plotsize(width, height)
-    plotext.theme("clear")
     title = system_title(system)
     lo, hi = system.covers
     if (lo, hi) != (0.0, 1.0):
         title += f"  (model covers {100 * lo:g}-{100 * hi:g} at% {system.elements[1]} only)"
-    plotext.title(title)
-    draw_diagram(plotext, scene, None, None, glyphs)
-    text = plotext.build()
-    if os.environ.get("NO_COLOR") or not sys.stdout.isatty():
-        text = plotext.uncolorize(text)
-    return glyphs.plot_text(text)
+
+    def draw(plt, width: int, height: int) -> None:
+        draw_diagram(plt, diagram_scene(exploration, glyphs, width, height), None, None, glyphs)
+
+    return terminal_plot(title, glyphs, 24, draw)
 
 
 def reaction_lines(system, diagram, unit: str, basis: str) -> list[str]:
