@@ -40,7 +40,6 @@ class Window:
         return Window(*_scaled(self.T_low, self.T_high, T_K, factor, limits.T_low, limits.T_high),
                       *_scaled(self.x_low, self.x_high, x_B, factor, limits.x_low, limits.x_high))
 
-
     def following(self, T_K: float, x_B: float) -> "Window":
         """This window, shifted (not resized) just enough to contain the point."""
         dT = min(T_K - self.T_low, 0.0) + max(T_K - self.T_high, 0.0)

@@ -83,7 +83,6 @@ class Exploration:
         x_low, x_high = system.covers
         self.limits = Window(T_low, T_high, x_low, x_high)
         self.window = self.limits
-        self.cursor = Cursor(*self.limits.clamp(T_low, x_low))
         if cursor is None:   # the middle of the diagram, on round numbers of the steps
             self.cursor = Cursor(0.5 * (T_low + T_high), 0.5 * (x_low + x_high))
             self.move(1, 1)

@@ -1,8 +1,8 @@
 """The characters the explorer draws with: a Unicode set and a plain-ASCII set.
 
 The ASCII set is for old terminals and serial consoles (`--ascii` or LADLE_ASCII=1): every glyph
-is a printable 7-bit character, and `plot_ascii` maps the plot's box-drawing, braille and block
-characters one for one, so a plot keeps its layout when translated.
+is a printable 7-bit character, and `Glyphs.plot_text` maps the plot's box-drawing, braille and
+block characters one for one, so a plot keeps its layout when translated.
 """
 
 from __future__ import annotations

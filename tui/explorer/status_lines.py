@@ -1,7 +1,7 @@
 """The status pane's text for one cursor position, as (role, text) lines.
 
-Roles: "heading" (a section title), "value" (a figure), "note" (a remark). The widget styles
-them; colour never carries meaning that the text does not also say.
+Roles: "heading" (a section title), "value" (a figure), "note" (a remark), "warning" (a caution
+or a missing answer). The widget styles them; colour never carries meaning that the text does not also say.
 """
 
 from __future__ import annotations

@@ -168,7 +168,10 @@ class ExploreScreen(Screen[None]):
     def action_view(self, view: str) -> None:
         self.view = view
         self.query_one(ContentSwitcher).current = view
-        self.query_one(f"#{view}").focus() if view == "reactions" else self.set_focus(None)
+        if view == "reactions":
+            self.query_one(ReactionsView).focus()
+        else:
+            self.set_focus(None)
         self.update_all()
 
     def action_go_to(self) -> None:
