@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
+from ..cooling_text import PATH_NAMES, structure_rows
 from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines,
                      composition_both, open_system, print_json, system_title, terminal_plot)
 
@@ -98,9 +99,8 @@ def _solid(fraction: float) -> str:
 
 def table(system, result, model: str, unit: str, element: str, basis: str) -> list[str]:
     """Temperature, fraction solid of both paths, and the chosen path's liquid and phases."""
-    label = "Scheil" if model == "scheil" else "equilibrium"
     head = [("", "solid, mass %", "", "liquid", ""),
-            ("temperature", "equilibrium", "Scheil", f"{element} {basis}%", f"phases ({label} path)")]
+            ("temperature", "equilibrium", "Scheil", f"{element} {basis}%", f"phases ({PATH_NAMES[model]} path)")]
     rows = []
     for T, after in row_temperatures(result, unit):
         eq, sc = result.states_at(T, below=after)
@@ -117,27 +117,22 @@ def table(system, result, model: str, unit: str, element: str, basis: str) -> li
 
 def summary(system, result, unit: str) -> list[str]:
     """Ends of freezing, the structure at the end, latent heat and arrests of both paths."""
-    paths = (result.equilibrium, result.scheil)
-    names = {"equilibrium": "equilibrium", "scheil": "Scheil"}
+    paths = [result.path(model) for model in PATH_NAMES]
     out = [""]
     for p in paths:
         end = "liquid remains in the mapped window" if p.end_K is None else \
             f"{quote.temperature(p.end_K, unit)} ({p.end})"
-        out.append(f"freezing ends, {names[p.model]}: {end}")
-    structure = []
-    for p in paths:
-        for c in p.constituents:
-            if c.name not in structure:
-                structure.append(c.name)
-    width = max([34] + [len(name) + 2 for name in structure])
+        out.append(f"freezing ends, {PATH_NAMES[p.model]}: {end}")
+    structure = structure_rows(result)
+    width = max([34] + [len(name) + 2 for name, _ in structure])
     out += ["", f"{'structure at the end, mass %':<{width + 2}}{'equilibrium':>12}{'Scheil':>10}"]
-    for name in structure:
-        amounts = [next((quote.percent(c.mass_fraction) for c in p.constituents if c.name == name), "-") for p in paths]
+    for name, fractions in structure:
+        amounts = ["-" if f is None else quote.percent(f) for f in fractions]
         out.append(f"  {name:<{width}}{amounts[0]:>12}{amounts[1]:>10}")
     out.append("")
-    out.append("latent heat released: " + ", ".join(f"{names[p.model]} {p.latent_heat_J_per_g:.1f} J/g" for p in paths))
+    out.append("latent heat released: " + ", ".join(f"{PATH_NAMES[p.model]} {p.latent_heat_J_per_g:.1f} J/g" for p in paths))
     for p in paths:
-        out.append(f"cooling-curve arrests, {names[p.model]}:")
+        out.append(f"cooling-curve arrests, {PATH_NAMES[p.model]}:")
         for a in p.arrests:
             heat = f", {a.heat_J_per_g:.1f} J/g" if a.heat_J_per_g is not None else ""
             out.append(f"  {quote.temperature(a.temperature_K, unit):>12}  {a.description}{heat}")

@@ -12,6 +12,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ladle.tui.cooling_text import PATH_NAMES
+
 from .diagram_drawing import plot_area
 from .glyphs import Glyphs
 from .plotting import Frame, Label, draw_frame, place_labels, thin_polyline
@@ -58,7 +60,7 @@ def cooling_scene(solidification, scales: Scales, glyphs: Glyphs, width: int, he
     frame = Frame(0.0, 100.0, min(low, high), max(low, high), columns, rows)
     unit = glyphs.temperature_unit(scales.temperature_unit)
     ends, labels = [], []
-    for path, name in ((eq, "equilibrium"), (sc, "Scheil")):
+    for path, name in ((eq, PATH_NAMES["equilibrium"]), (sc, PATH_NAMES["scheil"])):
         if path.end_K is None:
             continue
         T = float(scales.shown_temperature(path.end_K))
@@ -77,8 +79,8 @@ def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs, cursor_T: float | Non
         plt.plot([frame.x_low, frame.x_high], [cursor_T, cursor_T], marker=glyphs.crosshair_marker,
                  color=CURSOR_COLOUR)
     draw_frame(plt, frame, scene.x_title, scene.y_title)
-    plt.plot(*scene.equilibrium, marker=glyphs.boundary_marker, color=EQUILIBRIUM_COLOUR, label="equilibrium")
-    plt.plot(*scene.scheil, marker=glyphs.envelope_marker, color=SCHEIL_COLOUR, label="Scheil")
+    plt.plot(*scene.equilibrium, marker=glyphs.boundary_marker, color=EQUILIBRIUM_COLOUR, label=PATH_NAMES["equilibrium"])
+    plt.plot(*scene.scheil, marker=glyphs.envelope_marker, color=SCHEIL_COLOUR, label=PATH_NAMES["scheil"])
     for x, T in scene.ends:
         plt.scatter([x], [T], marker=glyphs.cursor_marker, color=END_COLOUR)
     for label in scene.labels:

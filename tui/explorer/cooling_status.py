@@ -3,14 +3,13 @@ structure at the end (mass %) by both paths. Plain text as (role, text) lines, n
 
 from __future__ import annotations
 
+from ladle.tui.cooling_text import PATH_NAMES, structure_rows
 from ladle.tui.quote import percent
 
 from .glyphs import Glyphs
 from .readout import format_temperature_value
 from .scales import Scales
 from .status_lines import Line
-
-NAMES = (("equilibrium", "equilibrium"), ("scheil", "Scheil"))
 
 
 def cooling_lines(result, scales: Scales, glyphs: Glyphs) -> list[Line]:
@@ -22,7 +21,7 @@ def cooling_lines(result, scales: Scales, glyphs: Glyphs) -> list[Line]:
     if isinstance(result, str):
         return lines + [("note", f" no answer: {result}")]
     unit = glyphs.temperature_unit(scales.temperature_unit)
-    for model, name in NAMES:
+    for model, name in PATH_NAMES.items():
         path = result.path(model)
         if path.end_K is None:
             lines.append(("value", f" {name:<12}{'liquid left':>14}"))
@@ -31,12 +30,8 @@ def cooling_lines(result, scales: Scales, glyphs: Glyphs) -> list[Line]:
         lines.append(("value", f" {name:<12}{T:>9} {unit}"))
         lines.append(("note", f"   ends: {path.end}"))
     lines.append(("heading", f"{'STRUCTURE mass%':<17}{'eq.':>6}{'Sch.':>7}"))
-    names: list[str] = []
-    for model, _ in NAMES:
-        names += [c.name for c in result.path(model).constituents if c.name not in names]
-    for constituent in names:
-        amounts = [next((percent(c.mass_fraction) for c in result.path(model).constituents
-                         if c.name == constituent), "-") for model, _ in NAMES]
+    for constituent, fractions in structure_rows(result):
+        amounts = ["-" if f is None else percent(f) for f in fractions]
         lines.append(("value", f" {constituent}"))
         lines.append(("value", f"{'':<17}{amounts[0]:>6}{amounts[1]:>7}"))
     return lines
