@@ -16,11 +16,10 @@ from ladle.tui.cooling_text import PATH_NAMES
 
 from .diagram_drawing import plot_area
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, place_labels, thin_polyline
+from .plotting import CURSOR_COLOUR, Frame, Label, draw_frame, place_labels, thin_polyline
 from .readout import format_temperature_value
 from .scales import Scales
 
-CURSOR_COLOUR = "red+"
 EQUILIBRIUM_COLOUR = "cyan"
 SCHEIL_COLOUR = "magenta"
 END_COLOUR = "yellow"

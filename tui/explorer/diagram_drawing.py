@@ -13,12 +13,11 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import CURSOR_COLOUR, Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .readout import format_temperature_value
 
 BOUNDARY_COLOUR = "cyan"
 INVARIANT_COLOUR = "yellow"
-CURSOR_COLOUR = "red+"
 LABEL_COLUMNS = 5   # grid spacing (cells) of the field-name probe, across
 LABEL_ROWS = 2      # and down
 

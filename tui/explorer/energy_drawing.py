@@ -15,14 +15,13 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import CURSOR_COLOUR, Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .diagram_drawing import plot_area
 
 ENVELOPE_POINTS = 120        # envelope samples across the window
 CURVE_COLOURS = ("cyan", "magenta", "green", "blue", "yellow", "white")
 TANGENT_COLOUR = "yellow"
 ENVELOPE_COLOUR = "white"
-CURSOR_COLOUR = "red+"
 HEADROOM = 0.8               # room above the envelope, as a share of its own height
 SMALLEST_SPAN_KJ = 0.5       # the y range never shrinks below this (kJ/mol)
 

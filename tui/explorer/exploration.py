@@ -14,14 +14,12 @@ from functools import lru_cache
 
 from ladle.engine import equilibrate, section_at
 from ladle.engine.diagram import map_diagram
-from ladle.engine.melt import melt_range
+from ladle.engine.melt import LIQUID, melt_range
 
 from .cursor import ZOOM_FACTOR, Cursor, Steps, Window, steps_for
 from .entry import TypedPoint
 from .saved_state import SavedState
 from .scales import Scales
-
-LIQUID = "liquid"
 
 
 @dataclass(frozen=True)

@@ -13,6 +13,7 @@ import numpy as np
 
 from .cursor import nice_step
 
+CURSOR_COLOUR = "red+"   # the cursor in every view
 SUBCELLS_X = 2   # braille dots per character cell, across
 SUBCELLS_Y = 4   # and down
 

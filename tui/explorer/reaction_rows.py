@@ -5,13 +5,12 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from ladle.engine.melt import LIQUID
 from ladle.tui.quote import percent
 
 from .glyphs import Glyphs
 from .readout import format_temperature_value
 from .scales import Scales
-
-LIQUID = "liquid"
 
 
 @dataclass(frozen=True)
