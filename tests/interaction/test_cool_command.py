@@ -74,6 +74,8 @@ def test_plot_draws_both_paths(capsys, monkeypatch):
     assert "solid (mass %)" in out and "equilibrium" in out and "Scheil" in out
     plot = out.split("freezing ends")[0]
     assert plot.isascii()
+    # the table and summary too; the eutectic at 183 C as above (Massalski, 2nd ed. (1990))
+    assert out.isascii() and "freezing ends, Scheil: 183.0 C (eutectic)" in out
 
 
 @pytest.mark.parametrize("argv, message", [

@@ -279,6 +279,13 @@ def test_diagram_plot_lists_the_reactions(run, eut):
     assert "B at%" in out
 
 
+def test_diagram_ascii_is_ascii_throughout(run, eut):
+    code, out, err = run("diagram", eut, "--ascii")
+    assert code == 0 and err == ""
+    assert out.isascii(), sorted({ch for ch in out if not ch.isascii()})
+    assert re.search(r"eutectic\s+\d+\.\d C ", out)          # the degree sign left off, not the unit
+
+
 # --- bad input: one line on stderr, exit status 2 -----------------------------------------------------
 BAD = [
     (("point", "nosuch", "--temp", "100", "--comp", "Sn=10wt%"), "unknown system 'nosuch'"),

@@ -104,6 +104,12 @@ def terminal_plot(title: str, glyphs, min_rows: int, draw: Callable[[object, int
     return glyphs.plot_text(text)
 
 
+def ascii_text(lines: list[str], ascii_only: bool) -> list[str]:
+    """The lines without the degree sign that `quote.temperature` writes on UTF-8 output, when the
+    person asked for plain ASCII (text from the system file is printed as written)."""
+    return [line.replace("°", "") for line in lines] if ascii_only else lines
+
+
 def print_json(obj) -> None:
     json.dump(obj, sys.stdout, indent=None, allow_nan=False)
     sys.stdout.write("\n")

@@ -7,7 +7,7 @@ import argparse
 from .. import quote
 from ..cooling_text import PATH_NAMES, structure_rows
 from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines,
-                     composition_both, open_system, print_json, system_title, terminal_plot)
+                     ascii_text, composition_both, open_system, print_json, system_title, terminal_plot)
 
 HELP = "how an alloy freezes: fraction solid, liquid composition and phases on cooling (equilibrium and Scheil)"
 
@@ -26,7 +26,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
     out = p.add_mutually_exclusive_group()
     out.add_argument("--json", action="store_true", help="print one JSON object with both paths")
     out.add_argument("--plot", action="store_true", help="draw both paths in the terminal instead of the table")
-    p.add_argument("--ascii", action="store_true", help="plain ASCII characters only (with --plot)")
+    p.add_argument("--ascii", action="store_true", help="plain ASCII characters only")
 
 
 def run(args: argparse.Namespace) -> int:
@@ -46,7 +46,7 @@ def run(args: argparse.Namespace) -> int:
     else:
         lines += table(system, result, model, args.unit, element, comp.basis)
     lines += summary(system, result, args.unit)
-    print("\n".join(lines))
+    print("\n".join(ascii_text(lines, args.ascii)))
     return 0
 
 

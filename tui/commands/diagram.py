@@ -7,7 +7,7 @@ import csv
 import sys
 
 from .. import quote
-from .common import add_system_argument, closing_lines, open_system, print_json, system_title, terminal_plot
+from .common import add_system_argument, ascii_text, closing_lines, open_system, print_json, system_title, terminal_plot
 
 HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
 
@@ -33,12 +33,10 @@ def run(args: argparse.Namespace) -> int:
     if args.csv:
         write_csv(system, diagram, sys.stdout)
         return 0
-    print(render_plot(system, args.unit, "at" if args.at else "wt", args.ascii))
-    for line in reaction_lines(system, diagram, args.unit, "at" if args.at else "wt"):
-        print(line)
-    for w in diagram.warnings:
-        print(f"note: {w}")
-    print("\n".join(closing_lines(system)))
+    basis = "at" if args.at else "wt"
+    lines = reaction_lines(system, diagram, args.unit, basis) + [f"note: {w}" for w in diagram.warnings]
+    print(render_plot(system, args.unit, basis, args.ascii))
+    print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
     return 0
 
 
