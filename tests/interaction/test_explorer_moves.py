@@ -22,6 +22,8 @@ async def test_status_pane_shows_the_engines_equilibrium():
     async with app.run_test(size=SIZE):
         text = status_text(app)
         result = equilibrate(app.screen_stack[0].exploration.system, 500.0, 0.5)
+        # 500 K = 226.85 C = 440.33 F by the definitions of the scales (NIST Special Publication
+        # 811 (2008), Guide for the Use of the International System of Units).
         assert "226.9 °C  500.0 K  440.3 °F" in text
         assert " + ".join(share.name for share in result.phases) in text
         for share in result.phases:

@@ -34,6 +34,8 @@ async def test_number_keys_switch_views_and_the_title_brackets_the_active_one():
 async def test_unit_keys_apply_to_the_status_pane_and_the_reactions():
     app = make_app(T_K=456.15, x_B=0.5)
     async with app.run_test(size=SIZE) as pilot:
+        # 456.15 K = 183.0 C = 361.4 F (NIST Special Publication 811 (2008)); 50 at% Sn is 36.4 wt%
+        # with the IUPAC standard atomic weights Pb 207.2, Sn 118.71 g/mol.
         await pilot.press("t")
         assert "456.1 K  183.0 °C" in status_text(app)      # the chosen unit comes first
         await pilot.press("t")
