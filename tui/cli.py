@@ -93,7 +93,6 @@ def main(argv: list[str] | None = None) -> int:
     args = parser.parse_args(argv)
     with report(f"ladle {args.command}"):
         return modules[args.command].run(args)
-    return 2
 
 
 if __name__ == "__main__":

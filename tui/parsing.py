@@ -57,20 +57,23 @@ def parse_composition(text: str) -> Composition:
     return Composition(element, percent, m.group(3).lower())
 
 
-def mole_fraction_of_B(comp: Composition, elements: tuple[str, str], molar_mass) -> float:
-    """Mole fraction of the system's second element for a typed composition."""
+def fractions_of_B(percent, element: str, basis: str, elements: tuple[str, str], molar_mass):
+    """Mole fractions of the system's second element (numpy array) for percentages (array) of
+    `element` in `basis` ("wt" or "at"); molar masses in g/mol."""
     import numpy as np
 
     from ladle.engine.units import mole_from_mass
 
+    frac = np.asarray(percent, dtype=float) / 100.0
+    pair = np.stack([frac, 1.0 - frac], axis=-1) if element == elements[0] else np.stack([1.0 - frac, frac], axis=-1)
+    if basis == "wt":
+        pair = mole_from_mass(pair, np.asarray(molar_mass))
+    return pair[..., 1]
+
+
+def mole_fraction_of_B(comp: Composition, elements: tuple[str, str], molar_mass) -> float:
+    """Mole fraction of the system's second element for a typed composition."""
     element = comp.element or elements[1]
     if element not in elements:
         raise ValueError(f"element {element} is not in this system ({elements[0]}-{elements[1]})")
-    frac = comp.percent / 100.0
-    if element == elements[0]:
-        pair = np.array([frac, 1.0 - frac])
-    else:
-        pair = np.array([1.0 - frac, frac])
-    if comp.basis == "wt":
-        pair = mole_from_mass(pair, np.asarray(molar_mass))
-    return float(pair[1])
+    return float(fractions_of_B(comp.percent, element, comp.basis, elements, molar_mass))

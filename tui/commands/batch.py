@@ -8,7 +8,7 @@ from pathlib import Path
 
 from ..errors import CommandError
 from ..heatlist import HeatList, parse_temperature_difference, read_heat_list, write_csv_atomically
-from .common import add_system_argument, open_system
+from .common import add_system_argument, coverage_problem, open_system
 
 HELP = ("liquidus, solidus, freezing range, Scheil end, eutectic and pouring temperature of every heat "
         "in a CSV heat list (exit status 1 when some rows could not be computed)")
@@ -79,21 +79,20 @@ def compute(system, heats: HeatList, unit: str, superheat_K: float | None, schei
     import numpy as np
 
     from ladle.engine.solidify_table import composition_table
-    from ladle.engine.units import kelvin_to, mole_from_mass
+    from ladle.engine.units import kelvin_to
+
+    from ..parsing import fractions_of_B
 
     progress = _Progress(len(heats.heats))
     elements = system.elements
     percent = np.array([h.percent if h.problem is None else np.nan for h in heats.heats])
-    fraction = percent / 100.0
-    pair = np.stack([fraction, 1.0 - fraction], axis=-1) if heats.element == elements[0] else \
-        np.stack([1.0 - fraction, fraction], axis=-1)
-    x_b = (mole_from_mass(pair, system.molar_mass) if heats.basis == "wt" else pair)[:, 1]
+    x_b = fractions_of_B(percent, heats.element, heats.basis, elements, system.molar_mass)
     problems = {h.line: h.problem for h in heats.heats if h.problem is not None}
-    lo, hi = system.covers
     for h, x in zip(heats.heats, x_b):
-        if h.problem is None and not lo - 1e-12 <= x <= hi + 1e-12:
-            problems[h.line] = (f"{heats.header[heats.column]} {h.cells[heats.column].strip()} lies outside the range this "
-                                f"model covers ({100 * lo:g}-{100 * hi:g} at% {elements[1]})")
+        problem = None if h.problem else coverage_problem(
+            system, float(x), f"{heats.header[heats.column]} {h.cells[heats.column].strip()}")
+        if problem:
+            problems[h.line] = problem
     ok = np.array([h.line not in problems for h in heats.heats], dtype=bool)
     progress.show(0, "tracing the diagram")
     table = composition_table(system)

@@ -37,12 +37,19 @@ def alloy_composition(system, spec: str) -> tuple[float, Composition]:
     """(x_B, parsed spec) for a --comp value, refused outside the range the model covers."""
     comp = parse_composition(spec)
     x_b = mole_fraction_of_B(comp, system.elements, system.molar_mass)
-    lo, hi = system.covers
-    if not lo - 1e-12 <= x_b <= hi + 1e-12:
-        b = system.elements[1]
-        raise CommandError(f"{spec} lies outside the range this model covers "
-                           f"({100 * lo:g}-{100 * hi:g} at% {b}); no answer is given there")
+    problem = coverage_problem(system, x_b, spec)
+    if problem:
+        raise CommandError(f"{problem}; no answer is given there")
     return x_b, comp
+
+
+def coverage_problem(system, x_b: float, what: str) -> str | None:
+    """Why `what` (an alloy of mole fraction x_B of B) gets no answer, or None if the model
+    covers it."""
+    lo, hi = system.covers
+    if lo - 1e-12 <= x_b <= hi + 1e-12:
+        return None
+    return f"{what} lies outside the range this model covers ({100 * lo:g}-{100 * hi:g} at% {system.elements[1]})"
 
 
 def temperature_kelvin(system, text: str):
