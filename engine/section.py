@@ -12,7 +12,6 @@ the whole section, with every tie-line, is built on demand and cached.
 
 from __future__ import annotations
 
-import math
 from bisect import bisect_left
 from dataclasses import dataclass
 from functools import cached_property
@@ -47,11 +46,6 @@ class TieLine:
     @property
     def x_B(self) -> tuple[float, float]:
         return self.x[0][1], self.x[1][1]
-
-    @property
-    def slope(self) -> float:
-        """dG/dx_B of the common tangent, J/mol."""
-        return self.mu[1] - self.mu[0]
 
 
 @dataclass(frozen=True)
