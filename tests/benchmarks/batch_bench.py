@@ -27,9 +27,9 @@ from pathlib import Path
 import numpy as np
 
 from ladle.engine import find_system
-from ladle.engine.melt import melt_range
-from ladle.engine.solidify import solidify
-from ladle.engine.solidify_table import composition_table
+from ladle.engine.diagrams.melt import melt_range
+from ladle.engine.solidify.paths import solidify
+from ladle.engine.solidify.table import composition_table
 
 SYSTEMS = ("al-si", "cu-zn", "cu-ni")
 

@@ -28,11 +28,11 @@ from pathlib import Path
 import numpy as np
 
 from ladle.engine import equilibrate, load_system
-from ladle.engine.catalog import list_systems
-from ladle.engine.diagram import map_diagram
-from ladle.engine.equilibrium import SectionCache
+from ladle.engine.files.catalog import list_systems
+from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.minimize.equilibrium import SectionCache
 from ladle.engine import equilibrium as equilibrium_module
-from ladle.engine.melt import melt_range
+from ladle.engine.diagrams.melt import melt_range
 
 # An invented four-phase system: two terminal solutions, a liquid and a congruent compound.
 BENCH_SYSTEM = """

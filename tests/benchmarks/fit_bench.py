@@ -32,9 +32,9 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent / "unit"))
 
 from ladle.engine import load_system  # noqa: E402
-from ladle.engine.catalog import find_system, list_systems  # noqa: E402
-from ladle.engine.fit import fit  # noqa: E402
-from ladle.engine.fit_parameters import parse_free  # noqa: E402
+from ladle.engine.files.catalog import find_system, list_systems  # noqa: E402
+from ladle.engine.fitting.fit import fit  # noqa: E402
+from ladle.engine.fitting.parameters import parse_free  # noqa: E402
 from test_fit import FREE, START, measurements_from_true_model  # noqa: E402
 from measure_systems import EUTECTIC_TRUE, eutectic_text, write  # noqa: E402
 

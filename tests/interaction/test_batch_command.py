@@ -11,8 +11,8 @@ import numpy as np
 import pytest
 
 from ladle.engine import find_system
-from ladle.engine.melt import melt_range
-from ladle.engine.solidify_scheil import ScheilCooling
+from ladle.engine.diagrams.melt import melt_range
+from ladle.engine.solidify.scheil import ScheilCooling
 from ladle.engine.units import kelvin_to, mole_from_mass
 from ladle.tui.cli import main
 

@@ -7,7 +7,7 @@ import json
 import pytest
 
 from ladle.engine import find_system
-from ladle.engine.melt import melt_range
+from ladle.engine.diagrams.melt import melt_range
 from ladle.tui.cli import main
 from ladle.tui.parsing import mole_fraction_of_B, parse_composition
 

@@ -7,7 +7,7 @@ from __future__ import annotations
 from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_text
 
 from ladle.engine import find_system
-from ladle.engine.solidify import solidify
+from ladle.engine.solidify.paths import solidify
 from ladle.tui.explorer.cooling import CoolingView
 from ladle.tui.quote import percent
 

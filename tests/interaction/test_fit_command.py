@@ -49,8 +49,8 @@ def _fact(kind: str, body: str, source: str = "from the invented model with liqu
 def truth_values(tmp_path_factory):
     """Eutectic and liquidus values of the invented model with the true coefficients (K, at%)."""
     from ladle.engine import load_system
-    from ladle.engine.diagram import map_diagram
-    from ladle.engine.measure_boundaries import boundary_temperature
+    from ladle.engine.diagrams.diagram import map_diagram
+    from ladle.engine.checking.boundaries import boundary_temperature
 
     path = tmp_path_factory.mktemp("truth") / "truth.toml"
     path.write_text(PHASES.format(liquid=-4000.0, fcc=12000.0))

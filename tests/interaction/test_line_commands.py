@@ -31,7 +31,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
 import topologies  # noqa: E402
 from synthetic import MOLAR_MASS, R  # noqa: E402
 
-from ladle.engine.catalog import shipped_folder  # noqa: E402
+from ladle.engine.files.loader import shipped_folder  # noqa: E402
 from ladle.tui.cli import main  # noqa: E402
 
 POINT_KEYS = {"system", "temperature_K", "mole_fraction", "mass_fraction", "phases", "gibbs_energy_J_per_mol"}

@@ -15,7 +15,7 @@ import json
 import pytest
 
 from ladle.engine import find_system
-from ladle.engine.catalog import shipped_folder
+from ladle.engine.files.loader import shipped_folder
 from ladle.tui.cli import main
 
 SHIPPED = sorted(p.stem for p in shipped_folder().glob("*.toml") if p.name != "elements.toml")

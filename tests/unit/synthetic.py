@@ -15,7 +15,7 @@ from pathlib import Path
 import numpy as np
 
 from ladle.engine import load_system
-from ladle.engine.system import System
+from ladle.engine.models.system import System
 
 #: Molar gas constant, J/(mol K): CODATA 2018 exact value (E. Tiesinga et al., Rev. Mod. Phys. 93
 #: (2021) 025010), written out here rather than taken from the engine.

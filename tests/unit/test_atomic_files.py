@@ -4,7 +4,7 @@ import os
 
 import pytest
 
-from ladle.engine.atomic_files import write_atomic, write_new_file
+from ladle.engine.files.atomic_files import write_atomic, write_new_file
 
 
 def test_atomic_write_replaces_whole_and_leaves_no_temporary_file(tmp_path):

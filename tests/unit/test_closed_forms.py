@@ -26,7 +26,7 @@ import pytest
 from scipy.optimize import brentq
 
 from ladle.engine import equilibrate
-from ladle.engine.diagram import map_diagram
+from ladle.engine.diagrams.diagram import map_diagram
 
 from synthetic import R, Solution, Synthetic
 from topologies import TM_A, TM_B, isomorphous, isomorphous_tie_line

@@ -25,7 +25,7 @@ import pytest
 from scipy.optimize import minimize_scalar
 
 from ladle.engine import equilibrate
-from ladle.engine.diagram import map_diagram
+from ladle.engine.diagrams.diagram import map_diagram
 
 import topologies
 from synthetic import R, Compound, Solution, expression_value, ideal_two_phase

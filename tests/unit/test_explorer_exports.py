@@ -1,6 +1,6 @@
 """Files written by the explorer never replace an existing file."""
 
-from ladle.engine.atomic_files import write_new_file
+from ladle.engine.files.atomic_files import write_new_file
 from ladle.tui.explorer.exports import safe_stem
 
 

@@ -11,7 +11,7 @@ PROBE = "import sys; {imports}; print(sorted(m for m in sys.modules if m.split('
 
 
 @pytest.mark.parametrize("imports", [
-    "import ladle.engine, ladle.engine.diagram, ladle.engine.melt, ladle.engine.units",
+    "import ladle.engine, ladle.engine.diagrams.diagram, ladle.engine.diagrams.melt, ladle.engine.units",
     "import ladle.tui.cli",
     "import ladle.tui.explorer, ladle.tui.explorer.exploration, "
     "ladle.tui.explorer.diagram_drawing, ladle.tui.explorer.status_lines",

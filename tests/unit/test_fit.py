@@ -8,10 +8,10 @@ import pytest
 from scipy.stats import chi2
 
 from ladle.engine import load_system
-from ladle.engine.diagram import map_diagram
-from ladle.engine.fit import FitInputError, fit
-from ladle.engine.measure import evaluate_all
-from ladle.engine.measure_boundaries import boundary_temperature, phase_end, tie_line_between
+from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.fitting.fit import FitInputError, fit
+from ladle.engine.checking.measure import evaluate_all
+from ladle.engine.checking.boundaries import boundary_temperature, phase_end, tie_line_between
 from measure_systems import EUTECTIC_TRUE, eutectic_text, write
 
 START = {"liquid.L.0.a": -1500.0, "liquid.L.0.b": 0.0, "fcc.L.0.a": 9000.0, "bcc.L.0.a": 16000.0}

@@ -7,7 +7,7 @@ import math
 
 import pytest
 
-from ladle.engine.fit_parameters import ParameterPathError, parse_free, parse_path
+from ladle.engine.fitting.parameters import ParameterPathError, parse_free, parse_path
 
 
 def document() -> dict:

@@ -9,7 +9,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from ladle.engine.fit_toml import toml_text, value_text
+from ladle.engine.fitting.toml_writer import toml_text, value_text
 
 keys = st.text(min_size=1, max_size=8)
 scalars = (st.text(max_size=20) | st.integers(-10**12, 10**12) | st.booleans()

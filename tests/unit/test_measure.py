@@ -9,8 +9,8 @@ import pytest
 from scipy.optimize import brentq
 
 from ladle.engine import load_system
-from ladle.engine.diagram import map_diagram
-from ladle.engine.measure import evaluate, evaluate_all
+from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.checking.measure import evaluate, evaluate_all
 from ladle.engine.units import GAS_CONSTANT as R
 from measure_systems import FUSION_A, FUSION_B, MELT_A_K, MELT_B_K, eutectic_text, ideal_text, write
 

@@ -10,9 +10,9 @@ import pytest
 from scipy.optimize import brentq
 
 from ladle.engine import load_system
-from ladle.engine.diagram import map_diagram
-from ladle.engine.measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
-from ladle.engine.melt import melt_range
+from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.checking.boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
+from ladle.engine.diagrams.melt import melt_range
 from ladle.engine.units import GAS_CONSTANT as R
 from synthetic import expression_value, fusion, ideal_two_phase
 from measure_systems import FUSION_A, FUSION_B, MELT_A_K, MELT_B_K, eutectic_text, ideal_text, write

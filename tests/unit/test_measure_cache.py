@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-import ladle.engine.measure_cache as measure_cache
+import ladle.engine.checking.cache as measure_cache
 from ladle.engine import load_system
 from measure_systems import MELT_A_K, ideal_text, write
 

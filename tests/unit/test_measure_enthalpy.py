@@ -7,9 +7,9 @@ import pytest
 
 from ladle.engine import load_system
 from ladle.engine.errors import SystemFileError
-from ladle.engine.fit import fit
-from ladle.engine.measure import evaluate_all
-from ladle.engine.measure_enthalpy import formation_enthalpy, mixing_enthalpy
+from ladle.engine.fitting.fit import fit
+from ladle.engine.checking.measure import evaluate_all
+from ladle.engine.checking.enthalpy import formation_enthalpy, mixing_enthalpy
 from measure_systems import EUTECTIC_TRUE, FUSION_A, eutectic_text, write
 
 COMPOUND = '''

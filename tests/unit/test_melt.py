@@ -19,8 +19,8 @@ import pytest
 from scipy.optimize import brentq
 
 from ladle.engine import equilibrate, find_system
-from ladle.engine.diagram import map_diagram
-from ladle.engine.melt import melt_range
+from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.diagrams.melt import melt_range
 
 from topologies import TM_A, TM_B, eutectic, isomorphous, isomorphous_tie_line
 

@@ -7,10 +7,10 @@ import numpy as np
 import pytest
 
 from ladle.engine import find_system
-from ladle.engine.diagram import Invariant, map_diagram
-from ladle.engine.solidify_branches import continuation, liquidus_branches
-from ladle.engine.solidify_liquidus import solve_liquidus_point
-from ladle.engine.solidify_path import describe_reaction, reaction_products, solid_label
+from ladle.engine.diagrams.diagram import Invariant, map_diagram
+from ladle.engine.solidify.branches import continuation, liquidus_branches
+from ladle.engine.solidify.liquidus import solve_liquidus_point
+from ladle.engine.solidify.records import describe_reaction, reaction_products, solid_label
 
 
 @pytest.mark.parametrize("name", ["pb-sn", "al-si", "cu-zn"])

@@ -19,8 +19,8 @@ from scipy.optimize import brentq
 
 from synthetic import R, Solution, Synthetic, expression_value, fusion, ideal_two_phase
 
-from ladle.engine.solidify import solidify
-from ladle.engine.solidify_liquidus import solve_liquidus_point
+from ladle.engine.solidify.paths import solidify
+from ladle.engine.solidify.liquidus import solve_liquidus_point
 
 # --- an ideal isomorphous system (invented numbers) --------------------------------------------
 TM_A, DH_A = 1000.0, 12000.0     # K, J/mol

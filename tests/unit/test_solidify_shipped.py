@@ -10,12 +10,12 @@ import pytest
 from scipy.integrate import quad, solve_ivp
 
 from ladle.engine import find_system
-from ladle.engine.diagram import map_diagram
-from ladle.engine.melt import melt_range
-from ladle.engine.solidify import solidify
-from ladle.engine.solidify_liquidus import solve_liquidus_point
-from ladle.engine.solidify_path import mass_fraction_of_B
-from ladle.engine.solidify_scheil import ScheilCooling
+from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.diagrams.melt import melt_range
+from ladle.engine.solidify.paths import solidify
+from ladle.engine.solidify.liquidus import solve_liquidus_point
+from ladle.engine.solidify.records import mass_fraction_of_B
+from ladle.engine.solidify.scheil import ScheilCooling
 from ladle.engine.units import mole_from_mass
 
 

@@ -11,9 +11,9 @@ import pytest
 from synthetic import R, Solution, Synthetic, fusion
 
 from ladle.engine import find_system
-from ladle.engine.melt import melt_range
-from ladle.engine.solidify import solidify
-from ladle.engine.solidify_table import composition_table
+from ladle.engine.diagrams.melt import melt_range
+from ladle.engine.solidify.paths import solidify
+from ladle.engine.solidify.table import composition_table
 from ladle.tui.errors import CommandError
 from ladle.tui.heatlist import composition_header, parse_temperature_difference, read_heat_list
 

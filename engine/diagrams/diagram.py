@@ -18,13 +18,13 @@ from functools import lru_cache
 
 import numpy as np
 
-from .equilibrium import equilibrate, section_at
-from .phases import CompoundPhase
-from .pure import pure_transitions
-from .section import TieLine
+from ..minimize.equilibrium import equilibrate, section_at
+from ..models.phases import CompoundPhase
+from ..models.pure import pure_transitions
+from ..minimize.section import TieLine
 from .special import classify, compound_congruent, critical_point, solution_congruent, three_phase
-from .newton import newton
-from .tangent import common_tangent, fractions, logit, tangent_to_point
+from ..minimize.newton import newton
+from ..minimize.tangent import common_tangent, fractions, logit, tangent_to_point
 
 #: Temperature levels of the initial scan.
 SCAN_LEVELS = 48

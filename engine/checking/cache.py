@@ -15,7 +15,7 @@ import os
 from functools import lru_cache
 from pathlib import Path
 
-from .atomic_files import write_atomic
+from ..files.atomic_files import write_atomic
 from .measure import evaluate_all
 
 
@@ -28,14 +28,15 @@ def cache_folder() -> Path:
 @lru_cache(maxsize=1)
 def _engine_digest() -> bytes:
     h = hashlib.sha256()
-    for path in sorted(Path(__file__).parent.glob("*.py")):
-        h.update(path.name.encode())
+    root = Path(__file__).parent.parent
+    for path in sorted(root.rglob("*.py")):
+        h.update(path.relative_to(root).as_posix().encode())
         h.update(path.read_bytes())
     return h.digest()
 
 
 def _key(system) -> str:
-    from .catalog import shipped_library
+    from ..files.loader import shipped_library
 
     h = hashlib.sha256(_engine_digest())
     h.update(Path(system.path).read_bytes())

@@ -7,7 +7,7 @@ from typing import Any, Callable
 
 import numpy as np
 
-from .units import kelvin_from, mole_from_mass
+from ..units import kelvin_from, mole_from_mass
 
 KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy")
 REACTIONS = ("eutectic", "peritectic", "monotectic", "eutectoid", "peritectoid", "syntectic", "metatectic", "congruent")
@@ -31,7 +31,7 @@ def _num(v: Any) -> bool:
 
 def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], Exception]) -> list:
     """Validate the `[[check]]` or `[[measured]]` list of a document into Fact objects."""
-    from .system import Fact
+    from ..models.system import Fact
 
     if not isinstance(items, list):
         raise fail(list_name, f"expected a list of tables ([[{list_name}]])")

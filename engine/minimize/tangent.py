@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .phases import SolutionAtT
+from ..models.phases import SolutionAtT
 
 #: Largest change of y = ln(xB/xA) allowed in one Newton step.
 _MAX_STEP = 6.0

@@ -12,25 +12,9 @@ from dataclasses import dataclass
 from functools import lru_cache
 from pathlib import Path
 
-from .errors import SystemFileError, UnknownSystem
-from .loader import ElementLibrary, load_system
-from .system import System
-
-LIBRARY_FILE = "elements.toml"
-
-
-def shipped_folder() -> Path:
-    """The folder of the shipped system files."""
-    import ladle.systems
-
-    return Path(ladle.systems.__file__).parent
-
-
-@lru_cache(maxsize=1)
-def shipped_library() -> ElementLibrary:
-    """The shipped pure-element library (systems/elements.toml)."""
-    return ElementLibrary(shipped_folder() / LIBRARY_FILE)
-
+from ..errors import SystemFileError, UnknownSystem
+from .loader import LIBRARY_FILE, ElementLibrary, load_system, shipped_folder, shipped_library
+from ..models.system import System
 
 def user_folders() -> list[Path]:
     """The folders searched for the user's own system files, in order."""

@@ -12,12 +12,12 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .diagram import map_diagram
-from .equilibrium import PointEquilibrium, equilibrate
-from .melt import melt_range
-from .solidify_heat import State, released_between
-from .solidify_liquidus import LIQUID
-from .solidify_path import (SAME_K, Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes,
+from ..diagrams.diagram import map_diagram
+from ..minimize.equilibrium import PointEquilibrium, equilibrate
+from ..diagrams.melt import melt_range
+from .heat import State, released_between
+from .liquidus import LIQUID
+from .records import (SAME_K, Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes,
                             describe_reaction, molar_mass_of, reaction_products, solid_label)
 
 #: States are taken this far (K) above and below each boundary crossed.

@@ -13,9 +13,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .newton import newton
-from .phases import CompoundPhase
-from .tangent import fractions, logit
+from ..minimize.newton import newton
+from ..models.phases import CompoundPhase
+from ..minimize.tangent import fractions, logit
 
 #: Chemical potentials of the phases at a special point agree to this many J/mol.
 POTENTIAL_TOLERANCE = 1e-8

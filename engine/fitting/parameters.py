@@ -16,7 +16,7 @@ import math
 from dataclasses import dataclass
 from typing import Any
 
-from .polynomials import COEFFICIENTS
+from ..models.polynomials import COEFFICIENTS
 
 #: Magnitude (J/mol) that one unit of a scaled parameter adds to G at the reference temperature.
 SCALE_J_PER_MOL = 1000.0

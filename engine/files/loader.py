@@ -8,18 +8,19 @@ from __future__ import annotations
 
 import math
 import re
+from functools import lru_cache
 import tomllib
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
-from .errors import SystemFileError
+from ..errors import SystemFileError
 from .facts import parse_facts
-from .formula import parse_formula
-from .phases import CompoundPhase, MagneticModel, SolutionPhase
-from .polynomials import COEFFICIENTS, TemperatureFunction
-from .system import System
+from ..models.formula import parse_formula
+from ..models.phases import CompoundPhase, MagneticModel, SolutionPhase
+from ..models.polynomials import COEFFICIENTS, TemperatureFunction
+from ..models.system import System
 
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
 _TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
@@ -142,6 +143,22 @@ def _read_toml(path: Path) -> dict:
         raise SystemFileError(f"{path.name}: not valid TOML: {e}") from None
 
 
+LIBRARY_FILE = "elements.toml"
+
+
+def shipped_folder() -> Path:
+    """The folder of the shipped system files."""
+    import ladle.systems
+
+    return Path(ladle.systems.__file__).parent
+
+
+@lru_cache(maxsize=1)
+def shipped_library() -> ElementLibrary:
+    """The shipped pure-element library (systems/elements.toml)."""
+    return ElementLibrary(shipped_folder() / LIBRARY_FILE)
+
+
 def load_system(path: Path | str, library: ElementLibrary | None = None, name: str | None = None,
                 document: dict | None = None) -> System:
     """Read, validate and build the System in `path`.
@@ -151,7 +168,6 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     """
     path = Path(path)
     if library is None:
-        from .catalog import shipped_library
         library = shipped_library()
     doc = _read_toml(path) if document is None else document
     r = _Reader(path)

@@ -20,13 +20,13 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .equilibrium import section_at
-from .grid import DEFAULT_POINTS, composition_grid
-from .phases import CompoundPhase
-from .section import Section, TieLine
-from .special import bracket_root
-from .tangent import lowest_against_line
-from .units import GAS_CONSTANT
+from ..minimize.equilibrium import section_at
+from ..minimize.grid import DEFAULT_POINTS, composition_grid
+from ..models.phases import CompoundPhase
+from ..minimize.section import Section, TieLine
+from ..diagrams.special import bracket_root
+from ..minimize.tangent import lowest_against_line
+from ..units import GAS_CONSTANT
 
 LIQUID = "liquid"
 #: Temperature levels of the scan from the top of the window that brackets a boundary.

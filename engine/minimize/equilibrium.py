@@ -9,7 +9,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .section import Section
-from .units import mass_from_mole
+from ..units import mass_from_mole
 
 _SECTION_CACHE_SIZE = 64
 

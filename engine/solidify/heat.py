@@ -9,7 +9,7 @@ Energies in J per mole of atoms (J/g where a name says so), temperatures in K.
 
 from __future__ import annotations
 
-from .phases import CompoundPhase
+from ..models.phases import CompoundPhase
 
 #: A state: (phase name, x_B of the phase, moles of atoms of the phase per mole of alloy).
 State = tuple[tuple[str, float, float], ...]

@@ -24,10 +24,10 @@ from functools import lru_cache
 
 import numpy as np
 
-from .diagram import Invariant, map_diagram
-from .phases import CompoundPhase
-from .solidify_liquidus import LIQUID, LiquidusPoint, solve_liquidus_point
-from .tangent import logit
+from ..diagrams.diagram import Invariant, map_diagram
+from ..models.phases import CompoundPhase
+from .liquidus import LIQUID, LiquidusPoint, solve_liquidus_point
+from ..minimize.tangent import logit
 
 #: |y| of the first point traced next to a pure element (x about 2e-16).
 PURE_END_Y = 36.0

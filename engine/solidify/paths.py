@@ -2,7 +2,7 @@
 Scheil-Gulliver cooling (no diffusion in the solid) side by side, with the latent heat released
 and the arrests a thermal-analysis trace would show.
 
-    from ladle.engine.solidify import solidify
+    from ladle.engine.solidify.paths import solidify
     s = solidify(system, x_B)          # x_B: mole fraction of the system's second element
     s.equilibrium.end_K, s.scheil.constituents, s.states_at(500.0)
 
@@ -14,9 +14,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .solidify_equilibrium import EquilibriumCooling
-from .solidify_path import Arrest, Constituent, CoolingPath, PathError, PathStep, mass_fraction_of_B
-from .solidify_scheil import ScheilCooling
+from .equilibrium_path import EquilibriumCooling
+from .records import Arrest, Constituent, CoolingPath, PathError, PathStep, mass_fraction_of_B
+from .scheil import ScheilCooling
 
 MODELS = ("equilibrium", "scheil")
 

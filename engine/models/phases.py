@@ -19,7 +19,7 @@ import numpy as np
 
 from .magnetic import hillert_jarl, where
 from .polynomials import TemperatureFunction
-from .units import GAS_CONSTANT as R
+from ..units import GAS_CONSTANT as R
 
 
 #: The element pair of a binary's interaction parameters (indices into `elements`).

@@ -19,13 +19,13 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, chain_from, fractions_array, invert_hermite,
+from .branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, Branch, chain_from, fractions_array, invert_hermite,
                                 liquidus_branches)
-from .solidify_heat import released_between
-from .solidify_liquidus import LIQUID
-from .solidify_path import (SAME_K, Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes,
+from .heat import released_between
+from .liquidus import LIQUID
+from .records import (SAME_K, Arrest, Constituent, CoolingPath, PathError, PathStep, coverage_notes,
                             describe_reaction, molar_mass_of, reaction_products, solid_label)
-from .tangent import logit
+from ..minimize.tangent import logit
 
 #: Freezing "ends" in the last-liquid case when this share of the alloy's atoms is still liquid.
 LAST_LIQUID = 1e-6
@@ -146,7 +146,7 @@ class ScheilCooling:
     def _single_solid(self) -> tuple[str, float, str] | None:
         """(solid, temperature K, end kind) for an alloy that freezes at one temperature as one
         solid: a pure element, or a compound or solution at its congruent melting point."""
-        from .diagram import map_diagram
+        from ..diagrams.diagram import map_diagram
 
         y0 = logit(1.0 - self.x_B, self.x_B)
         diagram = map_diagram(self.system)

@@ -16,10 +16,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .phases import CompoundPhase, SolutionPhase
-from .polynomials import TemperatureOutOfRange
-from .tangent import fractions
-from .units import GAS_CONSTANT
+from ..models.phases import CompoundPhase, SolutionPhase
+from ..models.polynomials import TemperatureOutOfRange
+from ..minimize.tangent import fractions
+from ..units import GAS_CONSTANT
 
 LIQUID = "liquid"
 #: Step (K) of the central difference that gives temperature derivatives of chemical potentials.

@@ -20,7 +20,7 @@ import numpy as np
 
 from .grid import DEFAULT_POINTS, composition_grid, ideal_mixing_on_grid
 from .hull import lower_hull
-from .phases import CompoundPhase, SolutionAtT
+from ..models.phases import CompoundPhase, SolutionAtT
 from .tangent import common_tangent, lowest_against_line, tangent_to_point
 
 #: The hull is taken over every HULL_STRIDE-th grid point; checks use the whole grid.

@@ -10,8 +10,8 @@ relation), in J per mole of atoms, at T in K.
 
 from __future__ import annotations
 
-from .phases import CompoundPhase, SolutionPhase
-from .pure import stable_pure_phase
+from ..models.phases import CompoundPhase, SolutionPhase
+from ..models.pure import stable_pure_phase
 
 
 def _solution_enthalpy(phase: SolutionPhase, T: float, xa: float, xb: float) -> float:

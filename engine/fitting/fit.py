@@ -30,13 +30,13 @@ from typing import Callable
 
 import numpy as np
 
-from .diagram import map_diagram
-from .errors import SystemFileError
-from .fit_parameters import ParameterPath, ParameterPathError, parse_free
-from .fit_targets import Target, TargetInputError, TargetLost, make_target
-from .loader import load_system
-from .measure import FactOutcome, describe, evaluate_all, outside_coverage
-from .polynomials import TemperatureOutOfRange
+from ..diagrams.diagram import map_diagram
+from ..errors import SystemFileError
+from .parameters import ParameterPath, ParameterPathError, parse_free
+from .targets import Target, TargetInputError, TargetLost, make_target
+from ..files.loader import load_system
+from ..checking.measure import FactOutcome, describe, evaluate_all, outside_coverage
+from ..models.polynomials import TemperatureOutOfRange
 
 #: Weighted residual given to each value of a target the trial model has lost: large enough
 #: that the optimiser steps back, finite so that it can.

@@ -14,7 +14,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .diagram import PhaseDiagram, map_diagram, tie_line_at
-from .equilibrium import equilibrate
+from ..minimize.equilibrium import equilibrate
 from .special import bracket_root
 
 LIQUID = "liquid"

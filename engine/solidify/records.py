@@ -11,7 +11,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .units import mass_from_mole
+from ..units import mass_from_mole
 
 #: Temperatures (K) closer than this are one plateau's (the two paths find each reaction's
 #: temperature separately).

@@ -23,12 +23,12 @@ from functools import lru_cache
 
 import numpy as np
 
-from .diagram import map_diagram
-from .solidify_branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, fractions_array, hermite_at, invert_hermite,
+from ..diagrams.diagram import map_diagram
+from .branches import (CONGRUENT_OFFSET_Y, PURE_END_Y, fractions_array, hermite_at, invert_hermite,
                                 liquidus_branches, logit_array)
-from .solidify_liquidus import LIQUID
-from .solidify_path import molar_mass_of
-from .solidify_scheil import run_liquid, start_branches
+from .liquidus import LIQUID
+from .records import molar_mass_of
+from .scheil import run_liquid, start_branches
 
 
 @dataclass(frozen=True)

@@ -25,11 +25,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
-from .measure_enthalpy import formation_enthalpy, mixing_enthalpy
-from .polynomials import TemperatureOutOfRange
-from .system import Fact
-from .units import mass_from_mole
+from .boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
+from .enthalpy import formation_enthalpy, mixing_enthalpy
+from ..models.polynomials import TemperatureOutOfRange
+from ..models.system import Fact
+from ..units import mass_from_mole
 
 #: Spread keys of a fact: the temperature's, and a composition's (per phase, else common).
 _K = "K"
@@ -235,7 +235,7 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
             return FactOutcome(fact, (Comparison("enthalpy", "J/mol", fact.enthalpy_J_per_mol, model_enthalpy(system, fact),
                                                  enthalpy_spread(fact)),))
         if diagram is None:
-            from .diagram import map_diagram
+            from ..diagrams.diagram import map_diagram
 
             diagram = map_diagram(system)
         return _invariant(system, fact, diagram)
@@ -247,7 +247,7 @@ def evaluate_all(system, facts: list[Fact]) -> list[FactOutcome]:
     """The model against every fact of a list (the diagram is mapped once, if any fact needs it)."""
     diagram = None
     if any(f.kind == "invariant" for f in facts):
-        from .diagram import map_diagram
+        from ..diagrams.diagram import map_diagram
 
         diagram = map_diagram(system)
     return [evaluate(system, f, diagram) for f in facts]

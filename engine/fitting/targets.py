@@ -16,13 +16,13 @@ from __future__ import annotations
 from abc import ABC, abstractmethod
 from dataclasses import dataclass
 
-from .measure import (composition_spread, enthalpy_spread, match_reaction, model_enthalpy, reaction_candidates,
+from ..checking.measure import (composition_spread, enthalpy_spread, match_reaction, model_enthalpy, reaction_candidates,
                       reaction_name, temperature_spread)
-from .measure_boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
-from .phases import CompoundPhase
-from .polynomials import TemperatureOutOfRange
-from .special import compound_congruent, solution_congruent, three_phase
-from .system import Fact
+from ..checking.boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
+from ..models.phases import CompoundPhase
+from ..models.polynomials import TemperatureOutOfRange
+from ..diagrams.special import compound_congruent, solution_congruent, three_phase
+from ..models.system import Fact
 
 #: Half-width (K) of the bracket searched around the last congruent temperature.
 _CONGRUENT_WINDOW_K = 25.0

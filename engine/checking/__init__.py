@@ -1,0 +1,3 @@
+"""The model's value of every measured or checked fact (melting points, invariants, liquidus,
+solidus, boundaries, enthalpies), and the cached pass counts. Built on `diagrams`.
+"""

@@ -1,0 +1,4 @@
+"""The phase models: pure-element Gibbs energies as temperature polynomials, the magnetic term,
+solution phases and stoichiometric compounds, and the System that holds them. The bottom layer:
+imports nothing else of the engine but `errors` and `units`.
+"""
