@@ -2,11 +2,17 @@
 
 Temperatures: kelvin (K), degrees Celsius (C) and degrees Fahrenheit (F).
 Compositions: mole fractions and mass fractions of each element of a system.
+
+numpy is imported only by the composition conversions, so that reading a typed temperature (and
+`ladle --help`) does not load it.
 """
 
 from __future__ import annotations
 
-import numpy as np
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    import numpy as np
 
 #: Molar gas constant, J/(mol K) (CODATA 2018, exact).
 GAS_CONSTANT = 8.314462618
@@ -40,11 +46,15 @@ def kelvin_to(temperature_K: float, unit: str) -> float:
 
 def mass_from_mole(x: np.ndarray, molar_mass: np.ndarray) -> np.ndarray:
     """Mass fractions from mole fractions (last axis: elements; molar masses in g/mol)."""
+    import numpy as np
+
     m = np.asarray(x, dtype=float) * molar_mass
     return m / m.sum(axis=-1, keepdims=True)
 
 
 def mole_from_mass(w: np.ndarray, molar_mass: np.ndarray) -> np.ndarray:
     """Mole fractions from mass fractions (last axis: elements; molar masses in g/mol)."""
+    import numpy as np
+
     n = np.asarray(w, dtype=float) / molar_mass
     return n / n.sum(axis=-1, keepdims=True)

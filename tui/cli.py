@@ -9,9 +9,11 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import re
 import sys
 
+from .blas_threads import limit_blas_threads
 from .errors import report
 
 #: Subcommand name -> module under ladle.tui.commands.
@@ -35,21 +37,28 @@ class _Parser(argparse.ArgumentParser):
         self.exit(2, f"{self.prog}: {message} (see {self.prog} --help)\n")
 
 
-def build_parser() -> tuple[argparse.ArgumentParser, dict]:
+def build_parser(command: str | None = None) -> tuple[argparse.ArgumentParser, dict]:
+    """The `ladle` parser, with the arguments of `command` only (every command is listed with
+    its one-line help; building the others' arguments would only cost time)."""
     parser = _Parser(prog="ladle", description="Phase equilibria of binary alloys from Gibbs-energy models. "
-                     "Without a command (or with a system name), opens the full-screen explorer.")
+                     "Without a command, `ladle [SYSTEM] [--ascii]` opens the full-screen explorer "
+                     "(on the system named, else the one used last; --ascii or LADLE_ASCII=1 draws "
+                     "with plain ASCII for old terminals and serial consoles).")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     modules = {}
     for name, module in COMMANDS.items():
         mod = importlib.import_module(f"ladle.tui.commands.{module}")
         p = sub.add_parser(name, help=mod.HELP, description=mod.HELP)
-        mod.add_arguments(p)
+        if name == command:
+            mod.add_arguments(p)
         modules[name] = mod
     return parser, modules
 
 
 def _opens_explorer(argv: list[str]) -> bool:
-    """True for no arguments, explorer options, or a system name or path first."""
+    """True for no arguments, explorer options, or a system name or path first. A first word
+    that is neither a command nor a system ends the program with the line `ladle melt WORD`
+    would print (the known systems) and exit status 2."""
     if not argv:
         return True
     first = argv[0]
@@ -57,12 +66,14 @@ def _opens_explorer(argv: list[str]) -> bool:
         return False
     if first.startswith("-"):
         return True
-    from ladle.engine.catalog import resolve
+    from ladle.engine.errors import SystemFileError, UnknownSystem
+    from ladle.engine.files.catalog import resolve
 
     try:
         resolve(first)
-    except (LookupError, ValueError):
-        return False      # argparse then names the unknown command
+    except (SystemFileError, UnknownSystem) as error:
+        print(f"ladle: {error.args[0]} (commands: {', '.join(COMMANDS)})", file=sys.stderr)
+        sys.exit(2)
     return True
 
 
@@ -84,12 +95,13 @@ def _attach_negative_values(argv: list[str]) -> list[str]:
 
 
 def main(argv: list[str] | None = None) -> int:
+    limit_blas_threads(os.environ)
     argv = _attach_negative_values(sys.argv[1:] if argv is None else argv)
     if _opens_explorer(argv):
         from .explorer import run as run_explorer
 
         return run_explorer(argv)
-    parser, modules = build_parser()
+    parser, modules = build_parser(argv[0] if argv else None)
     args = parser.parse_args(argv)
     with report(f"ladle {args.command}"):
         return modules[args.command].run(args)

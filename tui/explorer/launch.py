@@ -50,6 +50,11 @@ def run_explorer(argv: list[str]) -> int:
     """Parse the options, open the system and run the app; returns the exit status."""
     try:
         options = parse_options(argv)
+        if not (sys.stdout.isatty() and sys.stdin.isatty()):
+            raise OptionsError(
+                "the full-screen explorer needs a terminal (standard input and output are not "
+                "both one); for a file or a pipe use a line command, e.g. ladle diagram "
+                f"{options.system or 'SYSTEM'} (see ladle --help)")
         path = state_path()
         exploration = first_exploration(options.system, load_state(path))
     except (OptionsError, ValueError) as error:

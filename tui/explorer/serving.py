@@ -51,7 +51,8 @@ def serve_in_browser(argv: list[str]) -> int:
     try:
         from textual_serve.server import Server
     except ImportError:
-        print("ladle serve: needs the optional serve extra: pip install 'ladle[serve]'",
+        print("ladle serve: needs the optional serve extra: pip install '.[serve]' "
+              "in ladle's source folder (see the README)",
               file=sys.stderr)
         return 2
     server = Server(explorer_command(args.system, args.ascii), host=args.host, port=args.port,
