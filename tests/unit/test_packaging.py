@@ -45,3 +45,22 @@ def test_engine_layers_import_only_those_below():
                     target = node.module.split(".")[0]
                     if target in LAYERS:
                         assert target in allowed, f"{path.relative_to(ROOT)} imports {target}"
+
+
+def test_wheel_holds_every_tracked_package_file(tmp_path):
+    """`pip install .` installs the wheel: every tracked source and data file of the three package
+    folders must be inside it (the stylesheet and the demo list were once left out)."""
+    import subprocess
+    import sys
+    import zipfile
+
+    subprocess.run([sys.executable, "-m", "pip", "wheel", "-q", "--no-deps", str(ROOT), "-w", str(tmp_path)],
+                   check=True, capture_output=True, timeout=300)
+    (wheel,) = tmp_path.glob("*.whl")
+    names = set(zipfile.ZipFile(wheel).namelist())
+    tracked = subprocess.run(["git", "ls-files", *FOLDERS], cwd=ROOT, capture_output=True, text=True,
+                             check=True).stdout.split()
+    shipped = [f for f in tracked if f.endswith((".py", ".toml", ".tcss", ".csv"))]
+    assert len(shipped) > 50
+    missing = [f for f in shipped if "ladle/" + f not in names]
+    assert not missing
