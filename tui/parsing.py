@@ -57,6 +57,118 @@ def parse_composition(text: str) -> Composition:
     return Composition(element, percent, m.group(3).lower())
 
 
+#: How far (as a fraction of the alloy) the contents of an alloy that names every element may sum
+#: away from 100 %.
+SUM_TOLERANCE = 1e-6
+
+
+@dataclass(frozen=True)
+class AlloySpec:
+    """A typed alloy before it meets a system: (element, percent) in the order typed (element None
+    for a binary's short form, '12wt%'), all in one `basis` ("wt" or "at"); `text` as typed."""
+
+    parts: tuple[tuple[str | None, float], ...]
+    basis: str
+    text: str
+
+
+@dataclass(frozen=True)
+class Alloy:
+    """An alloy resolved against a system's `elements`: the fraction (0-1) of every element in
+    `basis` ("wt": mass fractions, "at": mole fractions), the element that makes up the `balance`
+    (None where every element was named), and the elements the person `named`, in typed order."""
+
+    elements: tuple[str, ...]
+    fractions: tuple[float, ...]
+    basis: str
+    balance: str | None
+    named: tuple[str, ...]
+
+    @property
+    def shown_element(self) -> str:
+        """The element whose content the person thinks in: the first one named (a binary's second
+        element where none was named)."""
+        return self.named[0] if self.named else self.elements[-1]
+
+    def mole_fractions(self, molar_mass):
+        """Mole fractions of every element (numpy array, system order); molar masses in g/mol."""
+        import numpy as np
+
+        from ladle.engine.units import mole_from_mass
+
+        fractions = np.array(self.fractions)
+        return fractions if self.basis == "at" else mole_from_mass(fractions, np.asarray(molar_mass, dtype=float))
+
+
+def parse_alloy(texts: str | list[str] | tuple[str, ...]) -> AlloySpec:
+    """Read one or more --comp values, each a comma-separated list of element=amount with wt% or
+    at% ('Ag=3wt%,Cu=0.5wt%'), or a binary's short form ('12wt%': the second element). Mixing wt%
+    and at% in one alloy, naming an element twice, a negative content or one above 100 % raise
+    ValueError with one line naming the value."""
+    texts = [texts] if isinstance(texts, str) else list(texts)
+    whole = ",".join(t.strip() for t in texts)
+    parts: list[tuple[str | None, float]] = []
+    bases: dict[str, str] = {}
+    for text in texts:
+        for word in text.split(","):
+            if word.strip() != text.strip() and not _COMPOSITION.match(word):
+                raise ValueError(f"cannot read composition {text.strip()!r} (at {word.strip()!r}); expected "
+                                 f"element=amount with wt% or at%, comma-separated, e.g. Ag=3wt%,Cu=0.5wt%")
+            comp = parse_composition(word)
+            if comp.element is not None and any(comp.element == e for e, _ in parts):
+                raise ValueError(f"element {comp.element} is given twice in {whole!r}")
+            parts.append((comp.element, comp.percent))
+            bases.setdefault(comp.basis, word.strip())
+    if len(bases) > 1:
+        raise ValueError(f"{bases['wt']} and {bases['at']} mix wt% and at% in one alloy; give every content in one of them")
+    if len(parts) > 1 and any(e is None for e, _ in parts):
+        raise ValueError(f"name the element of every content in {whole!r}, e.g. Ag=3wt%,Cu=0.5wt%")
+    return AlloySpec(tuple(parts), next(iter(bases)), whole)
+
+
+def resolve_percentages(parts, basis: str, elements: tuple[str, ...], what: str = "") -> Alloy:
+    """The alloy with these contents in a system of `elements`: `parts` are (element, percent)
+    pairs (element None: a binary's second element), all in `basis` ("wt" or "at"); the one
+    element left unnamed is the balance. `what` names the alloy in messages (a --comp value, a
+    heat list's line). Plain Python, for typed alloys and heat-list rows alike.
+
+    Raises ValueError with one line for an element not in the system, a content below 0 or
+    above 100 %, contents summing over 100 %, two or more unnamed elements (balance candidates),
+    or every element named with a sum other than 100 % (within SUM_TOLERANCE)."""
+    what = what or ",".join(f"{e or ''}{'=' if e else ''}{p:g}{basis}%" for e, p in parts)
+    named: dict[str, float] = {}
+    for element, percent in parts:
+        if element is None:
+            if len(elements) != 2:
+                raise ValueError(f"{what}: name the element (this system has {len(elements)}: "
+                                 f"{'-'.join(elements)}), e.g. {elements[1]}=3wt%")
+            element = elements[1]
+        if element not in elements:
+            raise ValueError(f"element {element} is not in this system ({'-'.join(elements)})")
+        if not 0.0 <= percent <= 100.0:
+            raise ValueError(f"composition {element}={percent:g}{basis}% is outside 0-100 %")
+        named[element] = percent / 100.0
+    total = sum(named.values())
+    if total > 1.0 + SUM_TOLERANCE:
+        raise ValueError(f"{what} sums to {100.0 * total:.6g} %, over 100 %")
+    rest = [e for e in elements if e not in named]
+    if len(rest) > 1:
+        raise ValueError(f"{what} leaves {' and '.join(rest)} unnamed: name all but one (the balance)")
+    if not rest and abs(total - 1.0) > SUM_TOLERANCE:
+        raise ValueError(f"{what} names every element but sums to {100.0 * total:.6g} %, not 100 %")
+    balance = rest[0] if rest else None
+    if balance is not None:
+        named[balance] = max(0.0, 1.0 - total)
+    scale = sum(named.values())
+    fractions = tuple(named[e] / scale for e in elements)
+    return Alloy(tuple(elements), fractions, basis, balance, tuple(e for e in named if e != balance))
+
+
+def resolve_alloy(spec: AlloySpec, elements: tuple[str, ...]) -> Alloy:
+    """A parsed alloy (`parse_alloy`) in a system of `elements`; errors as `resolve_percentages`."""
+    return resolve_percentages(spec.parts, spec.basis, elements, spec.text)
+
+
 def fractions_of_B(percent, element: str, basis: str, elements: tuple[str, str], molar_mass):
     """Mole fractions of the system's second element (numpy array) for percentages (array) of
     `element` in `basis` ("wt" or "at"); molar masses in g/mol."""
@@ -69,11 +181,3 @@ def fractions_of_B(percent, element: str, basis: str, elements: tuple[str, str],
     if basis == "wt":
         pair = mole_from_mass(pair, np.asarray(molar_mass))
     return pair[..., 1]
-
-
-def mole_fraction_of_B(comp: Composition, elements: tuple[str, str], molar_mass) -> float:
-    """Mole fraction of the system's second element for a typed composition."""
-    element = comp.element or elements[1]
-    if element not in elements:
-        raise ValueError(f"element {element} is not in this system ({elements[0]}-{elements[1]})")
-    return float(fractions_of_B(comp.percent, element, comp.basis, elements, molar_mass))

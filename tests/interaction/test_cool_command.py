@@ -9,7 +9,7 @@ import pytest
 from ladle.engine import find_system
 from ladle.engine.diagrams.melt import melt_range
 from ladle.tui.cli import main
-from ladle.tui.parsing import mole_fraction_of_B, parse_composition
+from ladle.tui.parsing import parse_alloy, resolve_alloy
 
 
 def _run(capsys, *argv: str) -> str:
@@ -20,7 +20,7 @@ def _run(capsys, *argv: str) -> str:
 def test_json_has_both_paths_and_the_documented_keys(capsys):
     report = json.loads(_run(capsys, "pb-sn", "--comp", "Sn=10wt%", "--json", "--scheil"))
     system = find_system("pb-sn")
-    x_b = mole_fraction_of_B(parse_composition("Sn=10wt%"), system.elements, system.molar_mass)
+    x_b = float(resolve_alloy(parse_alloy("Sn=10wt%"), system.elements).mole_fractions(system.molar_mass)[1])
     assert report["model"] == "scheil"
     assert report["mole_fraction"]["Sn"] == pytest.approx(x_b, abs=1e-15)
     assert report["liquidus_K"] == pytest.approx(melt_range(system, x_b).liquidus_K, abs=1e-6)

@@ -53,3 +53,27 @@ def test_points_outside_the_system_are_refused_with_its_range():
     with pytest.raises(EntryError, match="covers 0 to 40.0 at% only"):
         check_inside(TypedPoint(None, 0.5), limits, scales, UNICODE)
     check_inside(TypedPoint(500.0, 0.4), limits, scales, UNICODE)   # inside: no error
+
+
+SAC = ("Sn", "Ag", "Cu")
+SAC_MASS = np.array([118.71, 107.87, 63.546])   # g/mol, IUPAC standard atomic weights
+
+
+def test_a_multicomponent_alloy_is_typed_as_on_the_command_line():
+    point = parse_point("Ag=3wt% Cu=0.5wt% 250C", SAC, SAC_MASS)
+    assert point.temperature_K == pytest.approx(523.15)
+    assert point.x_B is None
+    # x_i = (w_i / M_i) / sum_j (w_j / M_j), the definition of the mole fraction
+    n = np.array([0.965, 0.03, 0.005]) / SAC_MASS
+    assert point.mole_fractions == pytest.approx(tuple(n / n.sum()), rel=1e-12)
+
+
+@pytest.mark.parametrize("text, reason", [
+    ("Ag=3wt% 250C", "leaves Sn and Cu unnamed"),
+    ("Ag=3wt% Cu=0.5at%", "mix wt% and at%"),
+    ("Ag=3wt% Zn=1wt%", "element Zn is not in this system (Sn-Ag-Cu)"),
+])
+def test_multicomponent_mistakes_say_why(text, reason):
+    with pytest.raises(EntryError) as caught:
+        parse_point(text, SAC, SAC_MASS)
+    assert reason in str(caught.value)

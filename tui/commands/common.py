@@ -11,7 +11,7 @@ from collections.abc import Callable
 
 from .. import quote
 from ..errors import CommandError
-from ..parsing import Composition, mole_fraction_of_B, parse_composition, parse_temperature
+from ..parsing import Alloy, parse_alloy, parse_temperature, resolve_alloy
 
 
 def add_system_argument(p: argparse.ArgumentParser) -> None:
@@ -19,13 +19,15 @@ def add_system_argument(p: argparse.ArgumentParser) -> None:
 
 
 def add_composition_argument(p: argparse.ArgumentParser) -> None:
-    p.add_argument("--comp", required=True, metavar="SPEC", help="alloy composition, e.g. Ni=40wt%% or Ni=40at%%")
+    p.add_argument("--comp", required=True, action="append", metavar="SPEC",
+                   help="alloy composition, e.g. Ni=40wt%% or Ni=40at%%; for three or more elements name all but "
+                        "the balance, e.g. Ag=3wt%%,Cu=0.5wt%% (or repeat --comp)")
 
 
 def open_system(name: str):
     """The System named on the command line; conflicts in the user's folder go to stderr."""
     from ladle.engine import find_system
-    from ladle.engine.catalog import catalog
+    from ladle.engine.files.catalog import catalog
 
     system = find_system(name)
     for line in catalog()[1]:
@@ -33,14 +35,27 @@ def open_system(name: str):
     return system
 
 
-def alloy_composition(system, spec: str) -> tuple[float, Composition]:
-    """(x_B, parsed spec) for a --comp value, refused outside the range the model covers."""
-    comp = parse_composition(spec)
-    x_b = mole_fraction_of_B(comp, system.elements, system.molar_mass)
-    problem = coverage_problem(system, x_b, spec)
-    if problem:
-        raise CommandError(f"{problem}; no answer is given there")
-    return x_b, comp
+def read_alloy(system, specs: str | list[str]):
+    """(mole fractions of every element as a numpy array in the system's order, the resolved
+    Alloy) for the --comp value(s); a binary alloy is refused outside the range the model covers."""
+    spec = parse_alloy(specs)
+    alloy = resolve_alloy(spec, tuple(system.elements))
+    x = alloy.mole_fractions(system.molar_mass)
+    if len(system.elements) == 2:
+        problem = coverage_problem(system, float(x[1]), spec.text)
+        if problem:
+            raise CommandError(f"{problem}; no answer is given there")
+    return x, alloy
+
+
+def alloy_composition(system, specs: str | list[str]) -> tuple[float, Alloy]:
+    """(x_B, resolved alloy) for the --comp value(s) of a binary system, refused outside the range
+    the model covers."""
+    if len(system.elements) != 2:
+        raise CommandError(f"this command takes binary systems only; {system.name} has "
+                           f"{len(system.elements)} elements ({'-'.join(system.elements)})")
+    x, alloy = read_alloy(system, specs)
+    return float(x[1]), alloy
 
 
 def coverage_problem(system, x_b: float, what: str) -> str | None:

@@ -30,7 +30,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from ladle.engine.solidify import solidify
+    from ladle.engine.solidify.paths import solidify
 
     system = open_system(args.system)
     x_b, comp = alloy_composition(system, args.comp)
@@ -39,7 +39,7 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         print_json(result.to_json(model))
         return 0
-    element = comp.element or system.elements[1]
+    element = comp.shown_element
     lines = [f"{system_title(system)}, alloy {composition_both(system, x_b, element, comp.basis)}"]
     if args.plot:
         lines.append(render_plot(system, result, args.unit, args.ascii))
@@ -53,7 +53,7 @@ def run(args: argparse.Namespace) -> int:
 # --- text --------------------------------------------------------------------------------------
 def _composition(system, x_b: float, element: str, basis: str) -> str:
     """x_B as the person's element and basis: '10.0' (wt% or at% of `element`)."""
-    from ladle.engine.solidify_path import mass_fraction_of_B
+    from ladle.engine.solidify.records import mass_fraction_of_B
 
     frac_b = mass_fraction_of_B(system, x_b) if basis == "wt" else x_b
     return quote.percent(frac_b if element == system.elements[1] else 1.0 - frac_b)

@@ -19,7 +19,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from ladle.engine.melt import melt_range
+    from ladle.engine.diagrams.melt import melt_range
     from ladle.engine.units import mass_from_mole
 
     import numpy as np
@@ -41,7 +41,7 @@ def run(args: argparse.Namespace) -> int:
         })
         return 0
     unit = args.unit
-    print(f"{system_title(system)}, alloy {composition_both(system, x_b, comp.element or els[1], comp.basis)}")
+    print(f"{system_title(system)}, alloy {composition_both(system, x_b, comp.shown_element, comp.basis)}")
 
     def temp(T: float | None) -> str:
         return "not inside the mapped range" if T is None else temperature_both(T, unit)

@@ -28,7 +28,7 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         print_json(result.to_json(system))
         return 0
-    print("\n".join(render(system, result, t.unit, comp.element or system.elements[1], comp.basis)))
+    print("\n".join(render(system, result, t.unit, comp.shown_element, comp.basis)))
     return 0
 
 

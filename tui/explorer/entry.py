@@ -1,9 +1,11 @@
-"""Reading a typed point: "650C 12wt%", "923K 20at%", "Sn=12wt%", "1200F".
+"""Reading a typed point: "650C 12wt%", "923K 20at%", "Sn=12wt%", "1200F", and for three or
+more elements "Ag=3wt% Cu=0.5wt% 250C" (every element but the balance named).
 
 The words are read by the same parser as the line-mode commands (`ladle.tui.parsing`): a
 temperature is a number with an optional unit C, K or F (no unit: degrees Celsius), a
-composition a number with wt% or at%, optionally after an element and "=". Either part may be
-left out; the cursor keeps its other coordinate. A bad entry raises EntryError, one line.
+composition a number with wt% or at%, optionally after an element and "=" (several such words
+make one alloy, as `--comp` does). Either part may be left out; the cursor keeps its other
+coordinate. A bad entry raises EntryError, one line.
 """
 
 from __future__ import annotations
@@ -11,7 +13,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from ladle.tui.parsing import mole_fraction_of_B, parse_composition, parse_temperature
+from ladle.tui.parsing import parse_alloy, parse_temperature, resolve_alloy
 from ladle.tui.quote import percent
 
 from .cursor import Window
@@ -26,10 +28,12 @@ class EntryError(ValueError):
 
 @dataclass(frozen=True)
 class TypedPoint:
-    """What the user typed: temperature in K and mole fraction of B, each None if not given."""
+    """What the user typed: temperature in K and mole fraction of B (binaries), each None if not
+    given; `mole_fractions` holds every element's (system order) wherever an alloy was typed."""
 
     temperature_K: float | None
     x_B: float | None
+    mole_fractions: tuple[float, ...] | None = None
 
 
 def _words(text: str) -> list[str]:
@@ -45,28 +49,28 @@ def _is_composition(word: str) -> bool:
             or word.endswith("%") or "=" in word)
 
 
-def parse_point(text: str, elements: tuple[str, str], molar_mass) -> TypedPoint:
-    """Read a typed point for a system of `elements` (A, B) with molar masses (g/mol)."""
+def parse_point(text: str, elements: tuple[str, ...], molar_mass) -> TypedPoint:
+    """Read a typed point for a system of `elements` with molar masses (g/mol)."""
     words = _words(text)
     if not words:
         raise EntryError("type a temperature and/or a composition, for example 650C 12wt%")
     temperature_K: float | None = None
-    x_B: float | None = None
-    for word in words:
-        try:
-            if _is_composition(word):
-                if x_B is not None:
-                    raise EntryError(f"{word}: a second composition; give one")
-                x_B = mole_fraction_of_B(parse_composition(word), elements, molar_mass)
-            else:
-                if temperature_K is not None:
-                    raise EntryError(f"{word}: a second temperature; give one")
-                temperature_K = parse_temperature(word).kelvin
-        except EntryError:
-            raise
-        except ValueError as error:
-            raise EntryError(str(error)) from None
-    return TypedPoint(temperature_K, x_B)
+    contents = [word for word in words if _is_composition(word)]
+    try:
+        for word in words:
+            if word in contents:
+                continue
+            if temperature_K is not None:
+                raise EntryError(f"{word}: a second temperature; give one")
+            temperature_K = parse_temperature(word).kelvin
+        if not contents:
+            return TypedPoint(temperature_K, None)
+        x = tuple(float(v) for v in resolve_alloy(parse_alloy(contents), tuple(elements)).mole_fractions(molar_mass))
+    except EntryError:
+        raise
+    except ValueError as error:
+        raise EntryError(str(error)) from None
+    return TypedPoint(temperature_K, x[1] if len(elements) == 2 else None, x)
 
 
 def check_inside(point: TypedPoint, limits: Window, scales: Scales, glyphs: Glyphs) -> None:
