@@ -27,6 +27,7 @@ COMMANDS = {
     "cool": "cool",
     "batch": "batch",
     "serve": "serve",
+    "transitions": "transitions",
 }
 
 

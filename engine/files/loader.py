@@ -17,6 +17,7 @@ import numpy as np
 
 from ..errors import SystemFileError
 from .facts import parse_facts
+from .trade_names import read_trade_names
 from ..models.formula import parse_formula
 from ..models.phases import CompoundPhase, MagneticModel, SolutionPhase
 from ..models.polynomials import COEFFICIENTS, TemperatureFunction
@@ -24,7 +25,8 @@ from ..models.system import System
 
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
 _TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
-             "temperature_range_K", "phase", "check", "measured", "fit", "fit_report"}
+             "temperature_range_K", "phase", "check", "measured", "fit", "fit_report",
+             "trade_names", "trade_line", "heat_treatment"}
 _SOLUTION_KEYS = {"model", "G", "L", "magnetic", "notes", "source"}
 _COMPOUND_KEYS = {"model", "formula", "reference", "formation", "notes", "source"}
 _MAGNETIC_KEYS = {"above_curie_fraction", "curie_K", "moment", "curie_L", "moment_L", "antiferro_factor"}
@@ -255,6 +257,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     )
     system.checks = parse_facts(doc.get("check", []), "check", system, r.fail)
     system.measured = parse_facts(doc.get("measured", []), "measured", system, r.fail)
+    read_trade_names(doc, phases, r.fail)
     if "fit" in doc:
         fit = r.table(doc["fit"], "fit")
         r.known_keys(fit, {"free"}, "fit")

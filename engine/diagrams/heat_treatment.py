@@ -1,0 +1,86 @@
+"""Heat-treatment windows read from one alloy's transitions (engine/diagrams/alloy_transitions.py).
+
+- Austenitizing (steels; the trade's lines A1, A3 and Acm named in the system file): a
+  hypoeutectoid steel is fully austenitic from A3 up to the next change above it; a hypereutectoid
+  steel is hardened from austenite + cementite between A1 and Acm; a eutectoid steel is fully
+  austenitic above A1.
+- Solution treatment (age-hardening alloys): the single solid phase between its solvus and the
+  lower of the equilibrium solidus and the end of Scheil-Gulliver freezing (above that end the
+  last liquid of a cast structure can melt: incipient melting).
+
+These are equilibrium temperatures of the model, not a process specification. Temperatures in K.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .alloy_transitions import AlloyTransitions, Transition
+
+A1, A3, ACM = "A1", "A3", "Acm"
+_LIQUID = "liquid"
+
+
+@dataclass(frozen=True)
+class HeatTreatmentWindow:
+    """The temperatures (K) between `low_K` and `high_K` where `phases` are the stable phases
+    that the treatment `kind` ("austenitizing" or "solution") aims at. `low_is` and `high_is` say
+    what bounds the window ("A3", "solvus", "solidus", "Scheil end", ...); `high_K` is None where
+    nothing bounds it inside the scan. `notes` explain a missing or narrowed window."""
+
+    kind: str
+    low_K: float
+    high_K: float | None
+    low_is: str
+    high_is: str
+    phases: tuple[str, ...]
+    notes: tuple[str, ...] = ()
+
+
+def _next_above(result: AlloyTransitions, t: Transition) -> Transition | None:
+    hotter = [u for u in result.transitions if u.temperature_K > t.temperature_K]
+    return hotter[-1] if hotter else None
+
+
+def _bounded_above(result: AlloyTransitions, t: Transition, kind: str, low_is: str) -> HeatTreatmentWindow:
+    up = _next_above(result, t)
+    if up is None:
+        return HeatTreatmentWindow(kind, t.temperature_K, None, low_is, "top of the scan", t.above)
+    high_is = "solidus" if _LIQUID in up.below and _LIQUID not in t.above else "next change"
+    return HeatTreatmentWindow(kind, t.temperature_K, up.temperature_K, low_is, high_is, t.above)
+
+
+def austenitizing_window(result: AlloyTransitions, labels: dict[int, str]) -> HeatTreatmentWindow | None:
+    """The austenitizing window of a steel from its transitions and their trade labels
+    (`labels`: index into result.transitions -> label); None where no A1 or A3 is crossed."""
+    found = {label: result.transitions[i] for i, label in labels.items()}
+    if ACM in found and A1 in found:
+        a1, acm = found[A1], found[ACM]
+        return HeatTreatmentWindow("austenitizing", a1.temperature_K, acm.temperature_K, A1, ACM, a1.above)
+    if A3 in found:
+        return _bounded_above(result, found[A3], "austenitizing", A3)
+    if A1 in found and len(found[A1].above) == 1:
+        return _bounded_above(result, found[A1], "austenitizing", A1)
+    return None
+
+
+def solution_window(result: AlloyTransitions, scheil_end_K: float | None) -> HeatTreatmentWindow | None:
+    """The solution-treatment window: from the highest solvus (a single solid phase above, that
+    phase and a precipitate below) up to the lower of the next change above (the equilibrium
+    solidus) and `scheil_end_K` (K, the end of Scheil-Gulliver freezing; None where unknown).
+    None where the alloy never has a single solid phase above a solvus."""
+    solvus = next((t for t in result.transitions
+                   if len(t.above) == 1 and _LIQUID not in t.above and set(t.above) < set(t.below)), None)
+    if solvus is None:
+        return None
+    window = _bounded_above(result, solvus, "solution", "solvus")
+    notes = []
+    if scheil_end_K is None:
+        notes.append("the end of Scheil-Gulliver freezing is not known here; the window's top is the equilibrium solidus")
+    elif window.high_K is None or scheil_end_K < window.high_K:
+        if scheil_end_K <= window.low_K:
+            notes.append("Scheil-Gulliver freezing ends below the solvus: a cast structure can melt locally "
+                         "at any temperature of the single-phase field (homogenise first)")
+        window = HeatTreatmentWindow("solution", window.low_K, scheil_end_K, "solvus", "Scheil end", window.phases)
+    return HeatTreatmentWindow(window.kind, window.low_K, window.high_K, window.low_is, window.high_is,
+                               window.phases, tuple(notes))

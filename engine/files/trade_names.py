@@ -1,0 +1,145 @@
+"""The trade's words in a system file: names of phases (austenite for fcc iron), names of the lines
+where an alloy's phases change (A1, A3, Acm of steels), and the kind of heat treatment the
+system's alloys take. The keys are described in systems/FORMAT.md ("The trade's names").
+
+The loader validates them when it reads a file (`read_trade_names`); commands read them from a
+loaded system with `trade_names(system)`. Temperatures in K.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Collection, Iterable
+from dataclasses import dataclass
+from functools import lru_cache
+from typing import Any
+
+#: The heat treatments a file may name (`heat_treatment`): solution treatment of age-hardening
+#: alloys, and austenitizing (hardening) of steels.
+HEAT_TREATMENTS = ("solution", "austenitizing")
+_LINE_KEYS = {"name", "above", "below", "note"}
+_NAME_KEYS = {"name", "from_K", "upto_K"}
+
+
+@dataclass(frozen=True)
+class TradeLine:
+    """A named line: on cooling, the stable phases change from the set `above` to the set
+    `below`; `note` (may be empty) says what the name means."""
+
+    name: str
+    above: frozenset[str]
+    below: frozenset[str]
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class PhaseName:
+    """The trade's name of a phase between `from_K` and `upto_K` (K)."""
+
+    name: str
+    from_K: float = 0.0
+    upto_K: float = math.inf
+
+
+@dataclass(frozen=True)
+class TradeNames:
+    """A system's trade names: `phases` (phase -> its names by temperature), `lines` and the
+    `heat_treatment` its alloys take (one of HEAT_TREATMENTS, or None)."""
+
+    phases: dict[str, tuple[PhaseName, ...]]
+    lines: tuple[TradeLine, ...]
+    heat_treatment: str | None = None
+
+    def phase_name(self, phase: str, temperature_K: float) -> str | None:
+        """The trade's name of `phase` at temperature_K (K), or None."""
+        return next((n.name for n in self.phases.get(phase, ()) if n.from_K <= temperature_K < n.upto_K), None)
+
+    def line(self, above: Iterable[str], below: Iterable[str]) -> TradeLine | None:
+        """The named line for a change from the phases `above` to those `below`, or None."""
+        up, down = frozenset(above), frozenset(below)
+        return next((ln for ln in self.lines if ln.above == up and ln.below == down), None)
+
+
+def read_trade_names(doc: dict, phases: Collection[str], fail: Callable[[str, str], Exception]) -> TradeNames:
+    """The trade names of a parsed system file `doc` whose phases are `phases`. Raises
+    fail(key, what) for a bad entry."""
+    names: dict[str, tuple[PhaseName, ...]] = {}
+    table = doc.get("trade_names", {})
+    if not isinstance(table, dict):
+        raise fail("trade_names", "expected a table such as { fcc = \"austenite\" }")
+    for phase, value in table.items():
+        key = f"trade_names.{phase}"
+        if phase not in phases:
+            raise fail(key, f"no phase {phase!r} in this system; it has {', '.join(sorted(phases))}")
+        names[phase] = _phase_names(value, key, fail)
+    lines = []
+    entries = doc.get("trade_line", [])
+    if not isinstance(entries, list):
+        raise fail("trade_line", "expected a list of [[trade_line]] tables")
+    for i, entry in enumerate(entries):
+        lines.append(_line(entry, f"trade_line[{i}]", phases, fail))
+    treatment = doc.get("heat_treatment")
+    if treatment is not None and treatment not in HEAT_TREATMENTS:
+        raise fail("heat_treatment", f"expected one of {', '.join(repr(h) for h in HEAT_TREATMENTS)}, found {treatment!r}")
+    return TradeNames(names, tuple(lines), treatment)
+
+
+def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) -> tuple[PhaseName, ...]:
+    if isinstance(value, str) and value.strip():
+        return (PhaseName(value),)
+    if not isinstance(value, list) or not value:
+        raise fail(key, "expected a name, or a list of { name = .., from_K = .., upto_K = .. }")
+    out = []
+    for i, item in enumerate(value):
+        k = f"{key}[{i}]"
+        if not isinstance(item, dict):
+            raise fail(k, "expected a table { name = .., from_K = .., upto_K = .. }")
+        for extra in set(item) - _NAME_KEYS:
+            raise fail(f"{k}.{extra}", f"unknown key; expected one of {', '.join(sorted(_NAME_KEYS))}")
+        name = item.get("name")
+        if not isinstance(name, str) or not name.strip():
+            raise fail(f"{k}.name", "expected a non-empty text")
+        bounds = []
+        for bound, default in (("from_K", 0.0), ("upto_K", math.inf)):
+            v = item.get(bound, default)
+            if isinstance(v, bool) or not isinstance(v, (int, float)) or math.isnan(v) or v < 0:
+                raise fail(f"{k}.{bound}", f"expected a temperature in K, found {v!r}")
+            bounds.append(float(v))
+        if not bounds[0] < bounds[1]:
+            raise fail(k, "expected from_K below upto_K")
+        out.append(PhaseName(name, bounds[0], bounds[1]))
+    return tuple(out)
+
+
+def _line(entry: Any, key: str, phases: Collection[str], fail: Callable[[str, str], Exception]) -> TradeLine:
+    if not isinstance(entry, dict):
+        raise fail(key, "expected a table with name, above and below")
+    for extra in set(entry) - _LINE_KEYS:
+        raise fail(f"{key}.{extra}", f"unknown key; expected one of {', '.join(sorted(_LINE_KEYS))}")
+    name = entry.get("name")
+    if not isinstance(name, str) or not name.strip():
+        raise fail(f"{key}.name", "expected a non-empty text such as \"A3\"")
+    sides = []
+    for side in ("above", "below"):
+        value = entry.get(side)
+        if not isinstance(value, list) or not value or not all(isinstance(p, str) for p in value):
+            raise fail(f"{key}.{side}", "expected a list of phase names such as [\"fcc\"]")
+        for p in value:
+            if p not in phases:
+                raise fail(f"{key}.{side}", f"no phase {p!r} in this system; it has {', '.join(sorted(phases))}")
+        sides.append(frozenset(value))
+    note = entry.get("note", "")
+    if not isinstance(note, str):
+        raise fail(f"{key}.note", "expected a text")
+    return TradeLine(name, sides[0], sides[1], note)
+
+
+@lru_cache(maxsize=64)
+def trade_names(system) -> TradeNames:
+    """The trade names of a loaded system (validated when it was loaded). A system with phases
+    left out keeps the names of its file: lines naming a left-out phase then match no change."""
+
+    def fail(key: str, what: str) -> Exception:
+        return ValueError(f"{system.path.name}: {key}: {what}")
+
+    return read_trade_names(system.document, tuple(system.document.get("phase", system.phases)), fail)

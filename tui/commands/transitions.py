@@ -1,0 +1,153 @@
+"""`ladle transitions`: every temperature at which one alloy's stable phases change, from above the
+liquidus down to room temperature, with the trade's names of the lines and the heat-treatment
+window where the system names one."""
+
+from __future__ import annotations
+
+import argparse
+
+from .. import quote
+from .common import (add_composition_argument, add_system_argument, closing_lines, open_system, print_json,
+                     read_alloy, system_title, temperature_both)
+
+HELP = "every temperature where one alloy's stable phases change, hot to cold, with the trade's names of the lines"
+
+SPECIFICATION_NOTE = ("Heat-treatment temperatures here are equilibrium estimates from the model: the alloy's "
+                      "specification and the user's qualified procedure govern.")
+
+
+def add_arguments(p: argparse.ArgumentParser) -> None:
+    add_system_argument(p)
+    add_composition_argument(p)
+    p.add_argument("--unit", choices=("C", "K", "F"), default="C", help="temperature unit of the table (default C)")
+    p.add_argument("--json", action="store_true", help="print one JSON object")
+
+
+def run(args: argparse.Namespace) -> int:
+    from ladle.engine.diagrams.alloy_transitions import alloy_transitions
+    from ladle.engine.files.trade_names import trade_names
+    from ladle.engine.units import mass_from_mole
+
+    system = open_system(args.system)
+    x, alloy = read_alloy(system, args.comp)
+    result = alloy_transitions(system, x)
+    names = trade_names(system)
+    labels = {i: line.name for i, t in enumerate(result.transitions)
+              if (line := names.line(t.above, t.below)) is not None}
+    window = _window(system, result, labels, names.heat_treatment)
+    w = mass_from_mole(x, system.molar_mass)
+    if args.json:
+        print_json(_json(system, result, labels, window, x, w))
+        return 0
+    print("\n".join(_render(system, result, labels, names, window, alloy, x, w, args.unit)))
+    return 0
+
+
+def _window(system, result, labels: dict[int, str], treatment: str | None):
+    """The heat-treatment window the system's file asks for, or None."""
+    from ladle.engine.diagrams.heat_treatment import austenitizing_window, solution_window
+
+    if treatment == "austenitizing":
+        return austenitizing_window(result, labels)
+    if treatment == "solution":
+        scheil_end = None
+        if len(system.elements) == 2 and "liquid" in system.phases:
+            from ladle.engine.solidify.records import PathError
+            from ladle.engine.solidify.scheil import ScheilCooling
+
+            try:
+                scheil_end = ScheilCooling(system, float(result.composition[1])).end_K
+            except PathError:
+                scheil_end = None
+        return solution_window(result, scheil_end)
+    return None
+
+
+def _json(system, result, labels: dict[int, str], window, x, w) -> dict:
+    els = system.elements
+    return {
+        "system": system.name,
+        "mole_fraction": {el: float(x[i]) for i, el in enumerate(els)},
+        "mass_fraction": {el: float(w[i]) for i, el in enumerate(els)},
+        "scan_K": [result.highest_K, result.lowest_K],
+        "step_K": result.step_K,
+        "tolerance_K": result.tolerance_K,
+        "transitions": [
+            {"temperature_K": t.temperature_K, "above": list(t.above), "below": list(t.below),
+             "label": labels.get(i),
+             "phases_below": [{"name": p.name, "phase_fraction_mol": p.amount_mol, "phase_fraction_mass": p.amount_mass,
+                               "mole_fraction": {el: float(p.x[k]) for k, el in enumerate(els)}}
+                              for p in t.amounts_below]}
+            for i, t in enumerate(result.transitions)],
+        "heat_treatment_window": None if window is None else {
+            "kind": window.kind, "low_K": window.low_K, "high_K": window.high_K, "low_is": window.low_is,
+            "high_is": window.high_is, "phases": list(window.phases), "notes": list(window.notes)},
+        "warnings": list(result.warnings),
+    }
+
+
+def _alloy_line(system, alloy, x, w) -> str:
+    """'C 0.400 wt% (1.84 at%)' for each element the person named (the binary's second element
+    where none was named)."""
+    shown = alloy.named or (alloy.shown_element,)
+    first, second = (w, x) if alloy.basis == "wt" else (x, w)
+    other = "at" if alloy.basis == "wt" else "wt"
+    parts = []
+    for el in shown:
+        i = system.elements.index(el)
+        parts.append(f"{el} {quote.percent(first[i])} {alloy.basis}% ({quote.percent(second[i])} {other}%)")
+    return ", ".join(parts)
+
+
+def _phases(names, phases, T: float) -> str:
+    """'fcc (austenite) + Fe3C (cementite)': each phase with the trade's name at T (K) beside it."""
+    out = []
+    for p in phases:
+        trade = names.phase_name(p, T)
+        out.append(f"{p} ({trade})" if trade and trade != p else p)
+    return " + ".join(out)
+
+
+def _render(system, result, labels, names, window, alloy, x, w, unit: str) -> list[str]:
+    lines = [f"{system_title(system)}, alloy {_alloy_line(system, alloy, x, w)}",
+             f"equilibrium phase changes on cooling from {temperature_both(result.highest_K, unit)} "
+             f"to {temperature_both(result.lowest_K, unit)} (each within {result.tolerance_K:g} K):"]
+    if not result.transitions:
+        lines.append(f"  none: {_phases(names, result.top, result.highest_K)} throughout")
+    used = []
+    for i, t in enumerate(result.transitions):
+        T = t.temperature_K
+        label = labels.get(i)
+        if label and label not in used:
+            used.append(label)
+        lines.append(f"  {quote.temperature(T, unit):>11}  {_phases(names, t.above, T + 1e-3)}  ->  "
+                     f"{_phases(names, t.below, T - 1e-3)}" + (f"   [{label}]" if label else ""))
+        amounts = ", ".join(f"{p.name} {quote.percent(p.amount_mass)} wt%" for p in t.amounts_below)
+        lines.append(f"  {'':>11}  just below: {amounts}")
+    for label in used:
+        note = next((ln.note for ln in names.lines if ln.name == label and ln.note), "")
+        if note:
+            lines.append(f"{label}: {note}")
+    if window is not None:
+        lines.append("")
+        lines += _window_lines(window, names, unit)
+        lines.append(SPECIFICATION_NOTE)
+    for warning in result.warnings:
+        lines.append(f"warning: {warning}")
+    return lines + closing_lines(system)
+
+
+def _window_lines(window, names, unit: str) -> list[str]:
+    what = {"austenitizing": "austenitizing window", "solution": "solution-treatment window"}[window.kind]
+    T_mid = window.low_K + 1e-3
+    phases = _phases(names, window.phases, T_mid)
+    low = f"{quote.temperature(window.low_K, unit)} ({window.low_is})"
+    if window.high_K is None:
+        lines = [f"{what} (equilibrium): {phases} above {low}"]
+    elif window.high_K <= window.low_K:
+        lines = [f"{what} (equilibrium): none: the {window.high_is} "
+                 f"({quote.temperature(window.high_K, unit)}) lies at or below the {window.low_is} ({low})"]
+    else:
+        lines = [f"{what} (equilibrium): {phases} from {low} to "
+                 f"{quote.temperature(window.high_K, unit)} ({window.high_is})"]
+    return lines + [f"  note: {n}" for n in window.notes]
