@@ -1,4 +1,6 @@
-"""How many of a system's checks pass, remembered between runs (for `ladle systems`).
+"""How many of a system's independent checks pass, remembered between runs (for `ladle systems`
+and the explorer's system picker). Only independent checks count (engine/checking/measure.py:
+not the fit targets, not the pure-element melting points).
 
 Evaluating every check of every system maps each diagram; the counts are therefore kept in the
 user's cache folder ($XDG_CACHE_HOME/ladle/checks, default ~/.cache/ladle/checks), one small
@@ -16,7 +18,7 @@ from functools import lru_cache
 from pathlib import Path
 
 from ..files.atomic_files import write_atomic
-from .measure import evaluate_all
+from .measure import evaluate_all, independent_checks
 
 
 def cache_folder() -> Path:
@@ -60,14 +62,15 @@ def _read(path: Path) -> tuple[int, int] | None:
 
 
 def check_counts(system) -> tuple[int, int]:
-    """(checks passed, checks in the file) of a loaded system, from the cache where it holds
-    them, else evaluated (engine/measure.py) and remembered."""
-    if not system.checks:
+    """(independent checks passed, independent checks in the file) of a loaded system, from the
+    cache where it holds them, else evaluated (engine/checking/measure.py) and remembered."""
+    checks = independent_checks(system)
+    if not checks:
         return 0, 0
     path = _cache_file(system)
     counts = _read(path) if path is not None else None
     if counts is None:
-        outcomes = evaluate_all(system, system.checks)
+        outcomes = evaluate_all(system, checks)
         counts = sum(o.passed for o in outcomes), len(outcomes)
         if path is not None:
             try:

@@ -47,6 +47,7 @@ class Comparison:
     reference: float
     model: float | None
     spread: float | None
+    factor: float | None = None
 
     @property
     def difference(self) -> float | None:
@@ -55,9 +56,15 @@ class Comparison:
 
     @property
     def within(self) -> bool:
-        """True where the model lies within the spread of the reference."""
+        """True where the model lies within the spread of the reference: the absolute spread,
+        and, where the fact gives a relative tolerance `factor` (dilute solubilities), within
+        reference / factor to reference x factor as well."""
         d = self.difference
-        return d is not None and self.spread is not None and abs(d) <= self.spread
+        if d is None:
+            return False
+        if self.factor is not None and not self.reference / self.factor <= self.model <= self.reference * self.factor:
+            return False
+        return self.factor is not None if self.spread is None else abs(d) <= self.spread
 
 
 @dataclass(frozen=True)
@@ -94,6 +101,27 @@ def describe(fact: Fact, system) -> str:
     return f"{fact.phase} next to {fact.partner} at {fact.temperature_K:.2f} K"
 
 
+#: The roles of a fact: an independent check (a [[check]] the model was not fitted to), a fit
+#: target (a [[measured]] fact the parameters were fitted to: agreement proves nothing), and a
+#: pure-element melting point (built into the element data, exact by construction: neither).
+INDEPENDENT = "independent check"
+FIT_TARGET = "fit target"
+PURE_ELEMENT = "pure-element melting point"
+
+
+def fact_role(fact: Fact, list_name: str) -> str:
+    """The role of a fact of the `[[check]]` or `[[measured]]` list (`list_name` "check" or
+    "measured"): INDEPENDENT, FIT_TARGET or PURE_ELEMENT."""
+    if fact.kind == "melting":
+        return PURE_ELEMENT
+    return INDEPENDENT if list_name == "check" else FIT_TARGET
+
+
+def independent_checks(system) -> list[Fact]:
+    """The system's independent checks: its [[check]] facts other than pure-element melting points."""
+    return [f for f in system.checks if fact_role(f, "check") == INDEPENDENT]
+
+
 def temperature_spread(fact: Fact) -> float | None:
     return fact.spread.get(_K)
 
@@ -126,6 +154,17 @@ def outside_coverage(system, fact: Fact) -> str | None:
         return (f"{fact.temperature_K:.2f} K lies outside the window the diagram is mapped over "
                 f"({w_lo:.1f}-{w_hi:.1f} K; see temperature_range_K)")
     return None
+
+
+def composition_factor(fact: Fact, phase: str | None = None) -> float | None:
+    """The relative composition tolerance of a check (for `phase` where given per phase), or None."""
+    if phase is not None and f"factor:{phase}" in fact.spread:
+        return fact.spread[f"factor:{phase}"]
+    return fact.spread.get("factor")
+
+
+def _composition(fact: Fact, phase: str | None, quantity: str, reference: float, model: float | None) -> Comparison:
+    return Comparison(quantity, "at%", reference, model, composition_spread(fact, phase), composition_factor(fact, phase))
 
 
 def enthalpy_spread(fact: Fact) -> float | None:
@@ -163,10 +202,10 @@ def _tie_line(system, fact: Fact) -> FactOutcome:
     tie = tie_line_between(system, fact.temperature_K, fact.phase, fact.partner, fact.x_B)
     quantity = f"x({fact.phase})"
     if tie is None:
-        return FactOutcome(fact, (Comparison(quantity, "at%", 100 * fact.x_B, None, composition_spread(fact)),),
+        return FactOutcome(fact, (_composition(fact, None, quantity, 100 * fact.x_B, None),),
                            f"the model has no {fact.phase} + {fact.partner} tie-line at {fact.temperature_K:.2f} K")
     x = phase_end(tie, fact.phase, fact.x_B)
-    return FactOutcome(fact, (Comparison(quantity, "at%", 100 * fact.x_B, 100 * x, composition_spread(fact)),))
+    return FactOutcome(fact, (_composition(fact, None, quantity, 100 * fact.x_B, 100 * x),))
 
 
 def reaction_candidates(diagram, reaction: str) -> list[tuple[str, float, tuple[tuple[str, float], ...]]]:
@@ -196,7 +235,7 @@ def reaction_comparisons(fact: Fact, T: float | None, phases) -> tuple[Compariso
     for name, x_ref in fact.phase_x_B:
         xs = [x for n, x in phases if n == name]
         model = 100 * min(xs, key=lambda x: abs(x - x_ref)) if xs else None
-        out.append(Comparison(f"x({name})", "at%", 100 * x_ref, model, composition_spread(fact, name)))
+        out.append(_composition(fact, name, f"x({name})", 100 * x_ref, model))
     return tuple(out)
 
 

@@ -1,4 +1,9 @@
-"""Measured facts of a system file: the `[[check]]` and `[[measured]]` lists (systems/FORMAT.md)."""
+"""Measured facts of a system file: the `[[check]]` and `[[measured]]` lists (systems/FORMAT.md).
+
+The two lists are kept apart: `[[measured]]` facts are the fit targets the parameters were fitted
+to, `[[check]]` facts are independent checks the model was not fitted to. A fact may not be both
+(`reject_repeated_facts`).
+"""
 
 from __future__ import annotations
 
@@ -23,10 +28,27 @@ _KIND_KEYS = {
 }
 _SPREAD_KEYS = {"check": ("tolerance_K", "tolerance_at", "tolerance_J"),
                 "measured": ("uncertainty_K", "uncertainty_at", "uncertainty_J")}
+#: A relative tolerance on compositions (dilute solubilities): the model within a factor of the
+#: reference value (checks only).
+FACTOR_KEY = "tolerance_factor"
 
 
 def _num(v: Any) -> bool:
     return not isinstance(v, bool) and isinstance(v, (int, float)) and math.isfinite(v)
+
+
+def _read_factor(v: Any, key: str, spread: dict[str, float], fail: Callable[[str, str], Exception]) -> None:
+    """A relative composition tolerance (a number above 1, or a table per phase) into `spread`
+    under "factor" or "factor:<phase>"."""
+    if isinstance(v, dict):
+        for ph, f in v.items():
+            if not _num(f) or f <= 1:
+                raise fail(f"{key}.{ph}", "expected a factor above 1 (2 means within half to twice the value)")
+            spread[f"factor:{ph}"] = float(f)
+    elif _num(v) and v > 1:
+        spread["factor"] = float(v)
+    else:
+        raise fail(key, "expected a factor above 1 (2 means within half to twice the value), or a table per phase")
 
 
 def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], Exception]) -> list:
@@ -45,6 +67,8 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         if kind not in KINDS:
             raise fail(f"{key}.kind", f"expected one of {', '.join(KINDS)}, found {kind!r}")
         allowed = _COMMON | _KIND_KEYS[kind] | {k_key, at_key, j_key}
+        if list_name == "check" and kind in ("invariant", "boundary"):
+            allowed = allowed | {FACTOR_KEY}
         for k in item:
             if k not in allowed:
                 raise fail(f"{key}.{k}", f"unknown key for a {kind} fact; expected one of {', '.join(sorted(allowed))}")
@@ -82,6 +106,8 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
                 spread["at"] = float(v)
             else:
                 raise fail(f"{key}.{at_key}", "expected a positive number of at% (or a table per phase)")
+        if FACTOR_KEY in item:
+            _read_factor(item[FACTOR_KEY], f"{key}.{FACTOR_KEY}", spread, fail)
         fields["spread"] = spread
 
         if kind == "melting":
@@ -140,3 +166,28 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             fields["phase_x_B"] = tuple(comp)
         facts.append(Fact(**fields))
     return facts
+
+
+def _same_fact(a, b) -> bool:
+    """Whether two facts state the same measurement (kind, temperature within 0.5 K, the same
+    composition, element, phases and reaction)."""
+    if a.kind != b.kind or abs(a.temperature_K - b.temperature_K) > 0.5:
+        return False
+    if (a.element, a.reaction, a.phase, a.partner) != (b.element, b.reaction, b.phase, b.partner):
+        return False
+    if (a.x_B is None) != (b.x_B is None) or (a.x_B is not None and abs(a.x_B - b.x_B) > 5e-4):
+        return False
+    return a.kind != "invariant" or {n for n, _x in a.phase_x_B} & {n for n, _x in b.phase_x_B} != set()
+
+
+def reject_repeated_facts(checks: list, measured: list, fail: Callable[[str, str], Exception]) -> None:
+    """Refuse a `[[check]]` that repeats a `[[measured]]` fact: a fact the model was fitted to
+    proves nothing about it, so it cannot also be an independent check. Pure-element melting
+    points are exempt (they are neither: the element data build them in)."""
+    for c in checks:
+        if c.kind == "melting":
+            continue
+        for m in measured:
+            if _same_fact(c, m):
+                raise fail(f"check[{c.index}]", f"repeats measured[{m.index}], a fact the parameters are fitted to; "
+                           "a fit target is not an independent check (keep it in [[measured]] only)")

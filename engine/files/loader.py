@@ -16,7 +16,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import SystemFileError
-from .facts import parse_facts
+from .facts import parse_facts, reject_repeated_facts
 from .trade_names import read_trade_names
 from ..models.formula import parse_formula
 from ..models.phases import CompoundPhase, MagneticModel, SolutionPhase
@@ -257,6 +257,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     )
     system.checks = parse_facts(doc.get("check", []), "check", system, r.fail)
     system.measured = parse_facts(doc.get("measured", []), "measured", system, r.fail)
+    reject_repeated_facts(system.checks, system.measured, r.fail)
     read_trade_names(doc, phases, r.fail)
     if "fit" in doc:
         fit = r.table(doc["fit"], "fit")

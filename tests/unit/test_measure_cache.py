@@ -1,4 +1,9 @@
-"""Remembered check counts for `ladle systems` (engine/measure_cache.py)."""
+"""Remembered counts of independent checks for `ladle systems` (engine/checking/cache.py).
+
+The invented system is ideal (tests/unit/measure_systems.py): its liquid's enthalpy of mixing is
+zero at every composition and temperature (an ideal solution mixes without heat: D.R. Gaskell,
+Introduction to the Thermodynamics of Materials, 5th ed. (2008), ch. 9). Pure-element melting
+points are not independent checks and are not counted."""
 
 from __future__ import annotations
 
@@ -14,14 +19,25 @@ kind = "melting"
 element = "A"
 temperature_K = {MELT_A_K}
 tolerance_K = 0.5
-source = "closed form: Tm of the invented simple-form liquid"
+source = "closed form: Tm of the invented simple-form liquid (not counted: a pure-element melting point)"
 
 [[check]]
-kind = "melting"
-element = "A"
-temperature_K = {MELT_A_K + 10}
-tolerance_K = 0.5
-source = "built to fail by 10 K"
+kind = "mixing_enthalpy"
+phase = "liquid"
+at_percent = 40
+temperature_K = 1100
+enthalpy_J_per_mol = 0.0
+tolerance_J = 1
+source = "closed form: an ideal solution mixes without heat"
+
+[[check]]
+kind = "mixing_enthalpy"
+phase = "liquid"
+at_percent = 40
+temperature_K = 1100
+enthalpy_J_per_mol = 500.0
+tolerance_J = 1
+source = "built to fail by 500 J/mol"
 '''
 
 
@@ -46,7 +62,7 @@ def test_counts_are_evaluated_once_then_remembered(tmp_path, cache_home, monkeyp
 def test_a_changed_file_is_evaluated_again(tmp_path, cache_home):
     path = write(tmp_path, ideal_text(CHECKS))
     assert measure_cache.check_counts(load_system(path)) == (1, 2)
-    path.write_text(ideal_text(CHECKS.replace(f"{MELT_A_K + 10}", f"{MELT_A_K + 0.1}")))
+    path.write_text(ideal_text(CHECKS.replace("enthalpy_J_per_mol = 500.0", "enthalpy_J_per_mol = 0.5")))
     assert measure_cache.check_counts(load_system(path)) == (2, 2)
     assert len(list(cache_home.glob("*.json"))) == 2
 

@@ -21,8 +21,11 @@ def _signed(value: float | None, unit: str) -> str:
     return f"{value:+.0f} {unit}" if unit == "J/mol" else f"{value:+.2f} {unit}"
 
 
-def _spread(value: float | None, unit: str) -> str:
-    return "none given" if value is None else f"{value:g} {unit}"
+def _spread(value: float | None, unit: str, factor: float | None = None) -> str:
+    relative = f"x{factor:g}" if factor is not None else ""
+    if value is None:
+        return relative or "none given"
+    return f"{value:g} {unit}" + (f", {relative}" if relative else "")
 
 
 def comparison_rows(outcome, spread_name: str, weighted: bool) -> list[str]:
@@ -36,7 +39,7 @@ def comparison_rows(outcome, spread_name: str, weighted: bool) -> list[str]:
         else:
             mark = "ok" if c.within else ("no" if c.model is not None else "")
         rows.append((c.quantity, _value(c.model, c.unit), _value(c.reference, c.unit),
-                     _signed(c.difference, c.unit), _spread(c.spread, c.unit), mark))
+                     _signed(c.difference, c.unit), _spread(c.spread, c.unit, c.factor), mark))
     widths = [max(len(r[i]) for r in rows) for i in range(6)]
     return ["  ".join(f"{cell:<{w}}" if i == 0 else f"{cell:>{w}}" for i, (cell, w) in enumerate(zip(r, widths))).rstrip()
             for r in rows]
@@ -46,7 +49,7 @@ def fact_blocks(system, outcomes, list_name: str, spread_name: str, weighted: bo
     """One block per fact: verdict (PASS/FAIL for checks; for measurements LOST where the model
     has no such feature, WRONG where it has one of another kind), label, problem, comparison rows
     and source."""
-    from ladle.engine.measure import describe
+    from ladle.engine.checking.measure import describe
 
     lines = []
     for o in outcomes:
@@ -70,11 +73,13 @@ UNITS_NOTE = ("Temperatures in C; differences, tolerances and uncertainties in K
               "at% or J per mole of atoms.")
 
 
-def outcome_json(system, outcome, spread_name: str) -> dict:
+def outcome_json(system, outcome, spread_name: str, list_name: str | None = None) -> dict:
     """One fact's outcome as JSON (temperatures in K, compositions in at%, enthalpies in J/mol);
     `spread_name` names the spread: "tolerance" (checks, judged within or not) or "uncertainty"
-    (measurements, with the weighted residual difference / uncertainty)."""
-    from ladle.engine.measure import describe
+    (measurements, with the weighted residual difference / uncertainty). With `list_name`
+    ("check" or "measured") the fact also says which list it is from, its role (independent
+    check, fit target, pure-element melting point) and `independent`: true or false."""
+    from ladle.engine.checking.measure import INDEPENDENT, describe, fact_role
 
     f = outcome.fact
 
@@ -83,10 +88,13 @@ def outcome_json(system, outcome, spread_name: str) -> dict:
             return {"within": c.within}
         return {"residual": c.difference / c.spread if c.model is not None and c.spread else None}
 
+    role = {} if list_name is None else {"list": list_name, "role": fact_role(f, list_name),
+                                         "independent": fact_role(f, list_name) == INDEPENDENT}
     return {
-        "index": f.index, "kind": f.kind, "label": describe(f, system), "passed": outcome.passed,
+        **role, "index": f.index, "kind": f.kind, "label": describe(f, system), "passed": outcome.passed,
         "problem": outcome.problem, "model_reaction": outcome.model_reaction, "source": f.source,
         "comparisons": [{"quantity": c.quantity, "unit": c.unit, "model": c.model, "reference": c.reference,
-                         "difference": c.difference, spread_name: c.spread, **judged(c)}
+                         "difference": c.difference, spread_name: c.spread,
+                         **({"tolerance_factor": c.factor} if c.factor is not None else {}), **judged(c)}
                         for c in outcome.comparisons],
     }

@@ -1,23 +1,30 @@
-"""`ladle systems`: the shipped and user systems with their sources."""
+"""`ladle systems`: the shipped and user systems with their sources and how many of their
+independent checks pass (checks the model was not fitted to; fit targets and pure-element
+melting points are not counted). The text is wrapped to the terminal's width; `--json` gives
+every text in full."""
 
 from __future__ import annotations
 
 import argparse
+import shutil
 import sys
 
 from .common import print_json
 
-HELP = "list the alloy systems (shipped and your own) with their sources"
+HELP = "list the alloy systems (shipped and your own) with their sources and independent checks passed"
+
+#: Columns of the name, and the indent of the lines under it.
+_NAME = 9
 
 
 def add_arguments(p: argparse.ArgumentParser) -> None:
-    p.add_argument("--json", action="store_true", help="print one JSON object")
+    p.add_argument("--json", action="store_true", help="print one JSON object (every text in full)")
 
 
 def run(args: argparse.Namespace) -> int:
     from ladle.engine import SystemFileError
-    from ladle.engine.catalog import catalog, find_system
-    from ladle.engine.measure_cache import check_counts
+    from ladle.engine.checking.cache import check_counts
+    from ladle.engine.files.catalog import catalog, find_system
 
     entries, conflicts = catalog()
     rows = []
@@ -27,24 +34,41 @@ def run(args: argparse.Namespace) -> int:
         except SystemFileError as err:
             rows.append({"name": e.name, "origin": e.origin, "path": str(e.path), "error": str(err)})
             continue
+        passed, total = check_counts(s)
         rows.append({"name": e.name, "origin": e.origin, "path": str(e.path), "title": s.title,
                      "elements": list(s.elements), "covers_at_percent": [100 * s.covers[0], 100 * s.covers[1]],
-                     "source": s.source, "safety": s.safety, "checks": len(s.checks),
-                     "checks_passed": check_counts(s)[0]})
+                     "source": s.source, "safety": s.safety,
+                     "independent_checks": total, "independent_checks_passed": passed,
+                     "fit_targets": len(s.measured)})
     if args.json:
         print_json({"systems": rows, "conflicts": conflicts})
-        return 0
-    for r in rows:
-        if "error" in r:
-            print(f"{r['name']:<8} (unreadable) {r['error']}")
-            continue
-        lo, hi = r["covers_at_percent"]
-        span = "" if (lo, hi) == (0, 100) else f" [covers {lo:g}-{hi:g} at% {r['elements'][1]}]"
-        mark = " (yours)" if r["origin"] == "user" else ""
-        print(f"{r['name']:<8} {r['title'] or '-'.join(r['elements'])}{span}{mark}")
-        if r["checks"]:
-            print(f"         checks: {r['checks_passed']} of {r['checks']} pass (ladle check {r['name']})")
-        print(f"         source: {r['source']}")
+    else:
+        width = max(shutil.get_terminal_size((80, 24)).columns, 40)
+        print("\n".join(line for r in rows for line in render_row(r, width)))
     for c in conflicts:
         print(f"ladle: note: {c}", file=sys.stderr)
     return 0
+
+
+def render_row(row: dict, width: int) -> list[str]:
+    """One system's lines, wrapped to `width` columns: name and title, independent checks
+    passed (and the fit targets, not counted), source."""
+    import textwrap
+
+    def wrapped(first: str, text: str) -> list[str]:
+        return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=" " * _NAME) or [first.rstrip()]
+
+    if "error" in row:
+        return wrapped(f"{row['name']:<{_NAME - 1}} ", f"(unreadable) {row['error']}")
+    lo, hi = row["covers_at_percent"]
+    span = "" if (lo, hi) == (0, 100) else f" [covers {lo:g}-{hi:g} at% {row['elements'][1]}]"
+    mark = " (yours)" if row["origin"] == "user" else ""
+    lines = wrapped(f"{row['name']:<{_NAME - 1}} ", f"{row['title'] or '-'.join(row['elements'])}{span}{mark}")
+    total, passed = row["independent_checks"], row["independent_checks_passed"]
+    checks = (f"independent checks passed: {passed} of {total}" if total else "no independent checks")
+    targets = row["fit_targets"]
+    if targets:
+        checks += f"; {targets} fit target{'s' if targets != 1 else ''} (not counted)"
+    lines += wrapped(" " * _NAME, f"{checks} (ladle check {row['name']})")
+    lines += wrapped(" " * _NAME, f"source: {row['source']}")
+    return lines

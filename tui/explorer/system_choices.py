@@ -27,6 +27,8 @@ class SystemChoice:
 
 def system_choices() -> list[SystemChoice]:
     """Every system the catalog knows, loaded; a file that fails to load says why."""
+    from ladle.engine.checking.measure import independent_checks
+
     choices = []
     for entry in list_systems():
         try:
@@ -35,24 +37,24 @@ def system_choices() -> list[SystemChoice]:
             choices.append(SystemChoice(entry.name, problem=str(error)))
             continue
         choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
-                                    checks_text(None, len(system.checks))))
+                                    checks_text(None, len(independent_checks(system)))))
     return choices
 
 
 def checks_text(passed: int | None, total: int) -> str:
-    """'12 handbook checks', or '11 of 12 handbook checks pass' once they are evaluated."""
+    """'12 independent checks', or 'independent checks passed: 11 of 12' once they are evaluated
+    (checks the model was not fitted to; fit targets and melting points are not counted)."""
     if not total:
-        return "no checks"
-    noun = f"handbook check{'s' if total != 1 else ''}"
+        return "no independent checks"
     if passed is None:
-        return f"{total} {noun}"
-    return f"{passed} of {total} {noun} pass"
+        return f"{total} independent check{'s' if total != 1 else ''}"
+    return f"independent checks passed: {passed} of {total}"
 
 
 def with_check_results(choices: list[SystemChoice]) -> list[SystemChoice]:
-    """The choices with how many checks pass (evaluated by the engine, remembered in the user's
+    """The choices with how many independent checks pass (evaluated by the engine, remembered in the user's
     cache, so slow only the first time a system file is seen)."""
-    from ladle.engine.measure_cache import check_counts
+    from ladle.engine.checking.cache import check_counts
 
     out = []
     for choice in choices:

@@ -40,7 +40,7 @@ class SystemPicker(ModalScreen[str | None]):
         self.run_worker(self._count_checks, thread=True, exclusive=True)
 
     def _count_checks(self) -> None:
-        """In a thread: how many checks each system passes, then show them."""
+        """In a thread: how many independent checks each system passes, then show them."""
         counted = with_check_results(self.choices)
         self.app.call_from_thread(self._show_counts, counted)
 
