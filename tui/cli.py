@@ -15,6 +15,7 @@ import sys
 
 from .blas_threads import limit_blas_threads
 from .errors import report
+from .quote import one_line
 
 #: Subcommand name -> module under ladle.tui.commands.
 COMMANDS = {
@@ -35,7 +36,7 @@ class _Parser(argparse.ArgumentParser):
     """An argument parser whose errors are one line on stderr and exit status 2."""
 
     def error(self, message: str) -> None:  # type: ignore[override]
-        self.exit(2, f"{self.prog}: {message} (see {self.prog} --help)\n")
+        self.exit(2, f"{self.prog}: {one_line(message)} (see {self.prog} --help)\n")
 
 
 def build_parser(command: str | None = None) -> tuple[argparse.ArgumentParser, dict]:
@@ -73,7 +74,7 @@ def _opens_explorer(argv: list[str]) -> bool:
     try:
         resolve(first)
     except (SystemFileError, UnknownSystem) as error:
-        print(f"ladle: {error.args[0]} (commands: {', '.join(COMMANDS)})", file=sys.stderr)
+        print(f"ladle: {one_line(error.args[0])} (commands: {', '.join(COMMANDS)})", file=sys.stderr)
         sys.exit(2)
     return True
 

@@ -2,12 +2,14 @@
 
 User files are read from $LADLE_SYSTEMS (folders separated by os.pathsep) or, without it, from
 $XDG_CONFIG_HOME/ladle/systems (default ~/.config/ladle/systems). A user file with the same name
-as a shipped one is reported as a conflict; the shipped system keeps the name.
+as a shipped one is reported as a conflict; the shipped system keeps the name. A folder that
+cannot be read is skipped with a note. Nothing is loaded until a system is asked for.
 """
 
 from __future__ import annotations
 
 import os
+from collections.abc import Iterator
 from dataclasses import dataclass
 from functools import lru_cache
 from pathlib import Path
@@ -34,51 +36,89 @@ class SystemEntry:
     origin: str
 
 
-def _system_files(folder: Path) -> list[Path]:
-    if not folder.is_dir():
-        return []
-    return sorted(p for p in folder.glob("*.toml") if p.name != LIBRARY_FILE and not p.name.startswith("."))
+def _system_files(folder: Path) -> tuple[list[Path], str | None]:
+    """The system files in `folder` (sorted), and a note when the folder cannot be read."""
+    try:
+        if not folder.is_dir():
+            return [], None
+        with os.scandir(folder) as listing:
+            names = [e.name for e in listing]
+    except OSError as error:
+        return [], f"{folder}: skipped, cannot read this folder of systems ({error.strerror or error})"
+    files = sorted(folder / n for n in names if n.endswith(".toml") and n != LIBRARY_FILE and not n.startswith("."))
+    return files, None
+
+
+def _shipped_entries() -> list[SystemEntry]:
+    return [SystemEntry(p.stem.lower(), p, "shipped") for p in _system_files(shipped_folder())[0]]
+
+
+def _user_entries(taken: set[str]) -> Iterator[SystemEntry | str]:
+    """The user's system files, folder by folder (each folder read only when reached), and one
+    note (a str) per name conflict or unreadable folder. `taken` holds the names used so far
+    and grows."""
+    for folder in user_folders():
+        files, problem = _system_files(folder)
+        if problem:
+            yield problem
+        for p in files:
+            name = p.stem.lower()
+            if name in taken:
+                yield (f"{p}: a system named {name!r} exists already; this file is not used under that name "
+                       f"(rename it, or open it by its path)")
+                continue
+            taken.add(name)
+            yield SystemEntry(name, p, "user")
 
 
 def catalog() -> tuple[list[SystemEntry], list[str]]:
-    """All system files (shipped first, then the user's) and one line per name conflict."""
-    entries = [SystemEntry(p.stem.lower(), p, "shipped") for p in _system_files(shipped_folder())]
-    names = {e.name for e in entries}
-    conflicts = []
-    for folder in user_folders():
-        for p in _system_files(folder):
-            name = p.stem.lower()
-            if name in names:
-                conflicts.append(f"{p}: a system named {name!r} exists already; this file is not used under that name "
-                                 f"(rename it, or open it by its path)")
-                continue
-            names.add(name)
-            entries.append(SystemEntry(name, p, "user"))
-    return entries, conflicts
+    """All system files (shipped first, then the user's) and one line per name conflict or
+    unreadable folder of the user's (which is skipped). No file is read here."""
+    entries = _shipped_entries()
+    notes = []
+    for item in _user_entries({e.name for e in entries}):
+        (notes if isinstance(item, str) else entries).append(item)
+    return entries, notes
 
 
 def _normalise(name: str) -> str:
     return name.strip().lower()
 
 
+def _is_file(p: Path, text: str) -> bool:
+    try:
+        return p.is_file()
+    except OSError as error:
+        raise SystemFileError(f"{text}: {error.strerror or error}") from None
+
+
 def resolve(name_or_path: str) -> SystemEntry:
-    """The catalog entry for a system name (elements joined by '-', any case, either order) or a path."""
+    """The catalog entry for a system name (elements joined by '-', any case, either order) or a
+    path. Shipped names are found without reading the user's folders, and the user's folders are
+    read in order only until the name is found."""
     text = name_or_path.strip()
-    p = Path(text).expanduser()
     if text.endswith(".toml") or os.sep in text:
-        if not p.is_file():
+        p = Path(text).expanduser()
+        if not _is_file(p, text):
             raise SystemFileError(f"{text}: no such system file")
         return SystemEntry(p.stem.lower(), p, "path")
     wanted = _normalise(text)
-    entries, _ = catalog()
-    by_name = {e.name: e for e in entries}
-    if wanted in by_name:
-        return by_name[wanted]
-    swapped = "-".join(reversed(wanted.split("-")))
-    if swapped in by_name:
-        return by_name[swapped]
-    known = ", ".join(sorted(by_name)) or "none"
-    raise UnknownSystem(f"unknown system {text!r}; known systems: {known}")
+    candidates = (wanted, "-".join(reversed(wanted.split("-"))))
+    shipped = _shipped_entries()
+    known = [e.name for e in shipped]
+    for entries in (shipped, _user_entries(set(known))):
+        found = []
+        for e in entries:
+            if isinstance(e, SystemEntry):
+                if e.origin == "user":
+                    known.append(e.name)
+                if e.name in candidates:
+                    found.append(e)
+                    if e.name == wanted:
+                        return e
+        if found:
+            return found[0]
+    raise UnknownSystem(f"unknown system {text!r}; known systems: {', '.join(sorted(known)) or 'none'}")
 
 
 def find_system(name_or_path: str) -> System:

@@ -13,6 +13,7 @@ from typing import Any, Callable
 import numpy as np
 
 from ..units import kelvin_from, mole_from_mass
+from .plain_text import without_controls
 
 KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy")
 REACTIONS = ("eutectic", "peritectic", "monotectic", "eutectoid", "peritectoid", "syntectic", "metatectic", "congruent")
@@ -84,7 +85,7 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         T = kelvin_from(tval, temps[0][-1])
         if T <= 0:
             raise fail(f"{key}.{temps[0]}", "expected a temperature above absolute zero")
-        fields: dict[str, Any] = {"kind": kind, "source": source, "temperature_K": T, "index": i}
+        fields: dict[str, Any] = {"kind": kind, "source": without_controls(source), "temperature_K": T, "index": i}
 
         spread: dict[str, float] = {}
         if k_key in item:

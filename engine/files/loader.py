@@ -23,6 +23,7 @@ from ..models.phases import CompoundPhase, MagneticModel, SolutionPhase
 from ..models.polynomials import COEFFICIENTS, TemperatureFunction
 from ..models.system import System
 
+from .plain_text import has_controls, without_controls
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
 _TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
              "temperature_range_K", "phase", "check", "measured", "fit", "fit_report",
@@ -49,9 +50,10 @@ class _Reader:
         return float(value)
 
     def text(self, value: Any, key: str) -> str:
-        if not isinstance(value, str) or not value.strip():
+        """A non-empty text, without control characters (it may reach a terminal)."""
+        if not isinstance(value, str) or not without_controls(value).strip():
             raise self.fail(key, "expected a non-empty text")
-        return value
+        return without_controls(value, keep_newlines=True)
 
     def table(self, value: Any, key: str) -> dict:
         if not isinstance(value, dict):
@@ -231,6 +233,8 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         ptable = r.table(ptable, key)
         model = ptable.get("model")
         if model == "solution":
+        if has_controls(pname):
+            raise r.fail(f"phase.{pname!r}", "a phase name may not hold control characters")
             solutions[pname] = _solution(r, library, pname, ptable, elements)
         elif model == "compound":
             compound_docs[pname] = ptable

@@ -12,7 +12,7 @@ import sys
 import time
 from pathlib import Path
 
-from ..errors import CommandError
+from ..errors import CommandError, os_error_text
 from .common import print_json
 from .fact_table import UNITS_NOTE, fact_blocks, outcome_json
 
@@ -48,6 +48,23 @@ def _check_output(source: Path, output: Path, force: bool) -> None:
     folder = output.parent if str(output.parent) else Path(".")
     if not folder.is_dir():
         raise CommandError(f"{output}: the folder {folder} does not exist")
+    from ladle.engine.files.atomic_files import check_writable
+
+    check_writable(output)
+
+
+def _write_or_keep(source: Path, output: Path, force: bool, text: str) -> None:
+    """Write the fitted file to `output`; where that fails after the fit, keep it in the
+    temporary folder and raise a CommandError that names both."""
+    from ladle.engine.files.atomic_files import keep_elsewhere, write_atomic
+
+    try:
+        _check_output(source, output, force)
+        write_atomic(output, text)
+    except (CommandError, OSError) as error:
+        reason = os_error_text(error) if isinstance(error, OSError) else str(error)
+        kept = keep_elsewhere(output.stem or "fitted", ".toml", text)
+        raise CommandError(f"{reason}; the fitted file was kept as {kept}") from None
 
 
 class _Progress:
@@ -132,10 +149,9 @@ def report_json(result, measurements: Path, written: Path | None) -> dict:
 
 def run(args: argparse.Namespace) -> int:
     from ladle.engine import load_system
-    from ladle.engine.fit import fit
-    from ladle.engine.fit_report import fitted_document
-    from ladle.engine.atomic_files import write_atomic
-    from ladle.engine.fit_toml import toml_text
+    from ladle.engine.fitting.fit import fit
+    from ladle.engine.fitting.report import fitted_document
+    from ladle.engine.fitting.toml_writer import toml_text
 
     source, output = Path(args.measurements), Path(args.output)
     _check_output(source, output, args.force)
@@ -152,8 +168,7 @@ def run(args: argparse.Namespace) -> int:
     if result.acceptable or args.write_anyway:
         header = (f"Written by `ladle fit` from {source.name}; the fit's figures are in [fit_report].\n"
                   f"Comments of the input file are not carried over: its keys (source, notes) are.")
-        _check_output(source, output, args.force)
-        write_atomic(output, toml_text(fitted_document(result, source.name), header))
+        _write_or_keep(source, output, args.force, toml_text(fitted_document(result, source.name), header))
         written = output
     if args.json:
         print_json(report_json(result, source, written))
