@@ -16,7 +16,8 @@ are enlarged by the Birge ratio sqrt(chi-square / degrees of freedom) (R.T. Birg
 Afterwards the fitted model is judged on its stable diagram (engine/measure.py): a measured
 reaction, tie-line or boundary that the fitted model does not have makes the fit unacceptable
 (its topology is wrong), as does a fit that did not converge or whose measurements do not
-determine every free coefficient.
+determine every free coefficient (a coefficient whose standard uncertainty exceeds its value, or
+that is correlated with another beyond 0.99, is "not determined").
 
 Units: temperatures in K, compositions in at% of B, coefficients in J/mol times powers of K.
 """
@@ -43,6 +44,9 @@ from ..models.polynomials import TemperatureOutOfRange
 LOST_PENALTY = 1.0e3
 #: Correlations at least this large (in absolute value) are reported (common practice: 0.9).
 HIGH_CORRELATION = 0.9
+#: A pair of coefficients correlated beyond this (in absolute value) is not determined separately:
+#: the measurements fix one combination of them, not each.
+DEGENERATE_CORRELATION = 0.99
 #: Relative finite-difference step on the scaled coefficients (a change of about 1e-3 J/mol).
 DIFF_STEP = 1e-6
 #: A combination of coefficients whose standard uncertainty exceeds this many scaled units
@@ -60,13 +64,16 @@ class FitInputError(ValueError):
 
 @dataclass(frozen=True)
 class FittedParameter:
-    """One free coefficient: its dotted path, starting and fitted values, and the standard
-    uncertainty of the fitted value (None where the measurements do not determine it)."""
+    """One free coefficient: its dotted path, starting and fitted values, the standard
+    uncertainty of the fitted value (None where the measurements do not determine it at all), and
+    whether it is determined: not where its uncertainty is None or exceeds its value, or where it
+    is correlated with another coefficient beyond DEGENERATE_CORRELATION."""
 
     path: str
     start: float
     value: float
     uncertainty: float | None
+    determined: bool = True
 
 
 @dataclass(frozen=True)
@@ -231,8 +238,6 @@ def fit(system, progress: Progress | None = None, max_steps: int | None = None) 
     cov *= scale**2
     sd = np.sqrt(np.clip(np.diag(cov), 0.0, None))
     values = result.x * scales
-    params = tuple(FittedParameter(p.text, float(s0), float(v), None if p.text in undetermined else float(u))
-                   for p, s0, v, u in zip(paths, starts, values, sd))
     correlations = []
     for i in range(len(paths)):
         for j in range(i + 1, len(paths)):
@@ -240,11 +245,22 @@ def fit(system, progress: Progress | None = None, max_steps: int | None = None) 
                 c = float(cov[i, j] / (sd[i] * sd[j]))
                 if abs(c) >= HIGH_CORRELATION:
                     correlations.append((paths[i].text, paths[j].text, c))
+    loose = [p.text for p, v, u in zip(paths, values, sd) if p.text not in undetermined and u > abs(v)]
+    degenerate = list(dict.fromkeys(n for a, b, c in correlations if abs(c) > DEGENERATE_CORRELATION for n in (a, b)))
+    params = tuple(FittedParameter(p.text, float(s0), float(v), None if p.text in undetermined else float(u),
+                                   p.text not in undetermined + loose + degenerate)
+                   for p, s0, v, u in zip(paths, starts, values, sd))
 
     problems = []
     if undetermined:
         problems.append(f"the measurements do not determine {', '.join(undetermined)} (separately); "
                         f"free fewer coefficients or add measurements that depend on them")
+    if loose:
+        problems.append(f"not determined: the standard uncertainty of {', '.join(loose)} exceeds its value; "
+                        f"free fewer coefficients or add measurements that depend on them")
+    if degenerate:
+        problems.append(f"not determined: {', '.join(degenerate)} are correlated beyond {DEGENERATE_CORRELATION} "
+                        f"(the measurements fix a combination, not each); free fewer coefficients or add measurements")
     for t, why in lost:
         problems.append(f"measured[{t.fact.index}] ({describe(t.fact, system)}): the fitted model has none: {why}")
     for o in outcomes:

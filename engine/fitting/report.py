@@ -44,7 +44,7 @@ def report_table(result: FitResult, input_name: str, today: datetime.date) -> di
         entry = {"start": p.start, "value": p.value}
         if p.uncertainty is not None:
             entry["uncertainty"] = p.uncertainty
-        else:
+        if not p.determined:
             entry["determined"] = False
         params[p.path] = entry
     table["parameters"] = params

@@ -3,6 +3,8 @@ case against handbook values, and the guards (undetermined coefficients, lost re
 
 from __future__ import annotations
 
+import datetime
+
 import numpy as np
 import pytest
 from scipy.stats import chi2
@@ -10,6 +12,7 @@ from scipy.stats import chi2
 from ladle.engine import load_system
 from ladle.engine.diagrams.diagram import map_diagram
 from ladle.engine.fitting.fit import FitInputError, fit
+from ladle.engine.fitting.report import report_table
 from ladle.engine.checking.measure import evaluate_all
 from ladle.engine.checking.boundaries import boundary_temperature, phase_end, tie_line_between
 from measure_systems import EUTECTIC_TRUE, eutectic_text, write
@@ -153,7 +156,7 @@ G.Sn = "bct"
 L = [ { a = 15000.0 } ]
 
 [fit]
-free = ["liquid.L.0.a", "liquid.L.0.b", "liquid.L.1.a", "fcc.L.0.a", "bct.L.0.a"]
+free = ["liquid.L.0.a", "liquid.L.1.a", "fcc.L.0.a", "bct.L.0.a"]
 
 [[measured]]
 kind = "invariant"
@@ -204,3 +207,17 @@ def test_real_case_lead_tin_predicts_handbook_values_not_fitted(tmp_path):
     outcomes = evaluate_all(fitted, fitted.checks)
     assert len(outcomes) == 5
     assert [(o.fact.index, round(o.comparisons[0].difference, 1)) for o in outcomes if not o.passed] == []
+
+
+def test_a_temperature_term_the_measurements_cannot_separate_is_not_determined(tmp_path):
+    """The same Pb-Sn facts with the liquid's L[0] free as a + b T: the facts lie within 130 K of
+    each other, so a and b are correlated beyond 0.99 and the fit says they are not determined
+    (it is refused), instead of reporting two large, cancelling coefficients as a result."""
+    text = PB_SN.replace('free = ["liquid.L.0.a", "liquid.L.1.a",', 'free = ["liquid.L.0.a", "liquid.L.0.b", "liquid.L.1.a",')
+    result = fit(load_system(write(tmp_path, text, "pb-sn-measured.toml")))
+    assert not result.acceptable
+    undetermined = {p.path for p in result.parameters if not p.determined}
+    assert {"liquid.L.0.a", "liquid.L.0.b"} <= undetermined
+    assert any(p.startswith("not determined:") for p in result.problems)
+    table = report_table(result, "pb-sn-measured.toml", datetime.date(2026, 1, 1))
+    assert table["parameters"]["liquid.L.0.b"]["determined"] is False
