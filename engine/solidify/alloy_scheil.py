@@ -1,0 +1,366 @@
+"""Scheil-Gulliver cooling of an alloy of any number of elements: complete mixing in the liquid,
+no diffusion in the solid (E. Scheil, Z. Metallkd. 34 (1942) 70; G.H. Gulliver, J. Inst. Met. 9
+(1913) 120), computed stepwise from point equilibria of the remaining liquid as in H.L. Lukas,
+S.G. Fries and B. Sundman, Computational Thermodynamics: The Calphad Method, Cambridge (2007).
+
+The liquid (f_L moles of atoms per mole of alloy, composition x_L) is followed down in
+temperature. The mass balance d(f_L x_L) = x_S d(f_L) (x_S: the solid forming at that moment)
+is integrated one step of h K at a time with the trapezoid rule: the solid that forms in the
+step is taken as half the solid forming at the step's start and half the solid in equilibrium
+with the liquid at its end, found by a point equilibrium of the composition
+z* = (f_L x_L - D/2 x_S,start) / (f_L - D/2) at T - h, with D (the step's solid) solved from the
+linear dependence of that equilibrium's solid amount on D (two point equilibria: D = 0, which
+is the first-order step, and D from it). The difference between the first-order and the
+trapezoid step is the step's error estimate and sets the next step. Mass balance is exact at
+every step: the solid of a step is what leaves the liquid.
+
+Where the stable phases of the liquid's equilibrium change (a new solid starts to form, one
+stops, or no liquid is left), the change is bisected to EVENT_TOLERANCE_K. Freezing ends where
+the liquid freezes at once into several solids (an invariant reaction: `eutectic` with two,
+`ternary eutectic` with three, ...), where it freezes into one solid (`last liquid`), or at the
+bottom of the window. Constituents are named by what forms together.
+
+Temperatures in K, compositions in mole fractions of every element, amounts as fractions of
+the alloy, heats in J per gram of alloy (H = G - T dG/dT of each phase from its model).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..minimize.equilibrium import equilibrate
+from .alloy_records import (LIQUID, AlloyConstituent, AlloyPath, AlloyStep, assemblage_enthalpy, forming_together,
+                            labelled, molar_mass, phase_enthalpy)
+from .records import Arrest, PathError
+
+#: Phase changes are bracketed to this width (K).
+EVENT_TOLERANCE_K = 1e-7
+#: Target of the first-order step's local deviation from the trapezoid step (mole fraction).
+STEP_TOLERANCE = 2e-4
+_FIRST_STEP_K = 2.0
+_MAX_STEP_K = 10.0
+_MIN_STEP_K = 1e-5
+#: Step (K) of the search down from an all-liquid state for the liquidus.
+_LIQUIDUS_SEARCH_K = 10.0
+_LIQUID_SEARCH_STEP_K = 50.0
+_MAX_STEPS = 5000
+#: Freezing ends when less than this share of the alloy's atoms is liquid.
+LAST_LIQUID = 1e-10
+
+
+def _equilibrium(system, T: float, x: np.ndarray):
+    """Point equilibrium at T (K) of mole fractions x (every element)."""
+    return equilibrate(system, T, float(x[1]) if len(x) == 2 else x)
+
+
+def _key(eq) -> tuple[str, ...]:
+    return tuple(sorted(p.name for p in eq.phases))
+
+
+def _split(eq):
+    """(the liquid's share or None, the solid shares) of a point equilibrium."""
+    liquid = next((p for p in eq.phases if p.name == LIQUID), None)
+    return liquid, [p for p in eq.phases if p.name != LIQUID]
+
+
+def _solid_amount(eq) -> float:
+    return sum(p.amount_mol for p in eq.phases if p.name != LIQUID)
+
+
+def _mean_x(shares) -> np.ndarray:
+    total = sum(p.amount_mol for p in shares)
+    return sum(p.amount_mol * np.asarray(p.x, dtype=float) for p in shares) / total
+
+
+@dataclass
+class _State:
+    """The liquid at T (K): f_L moles of atoms per mole of alloy, its share of the last point
+    equilibrium (composition, site fractions), the solids forming with it (shares, None before
+    a stage's first step) and the phase set of the liquid's equilibrium."""
+
+    T: float
+    f_L: float
+    liquid: object
+    forming: list | None
+    key: tuple[str, ...]
+
+    @property
+    def x_L(self) -> np.ndarray:
+        return np.asarray(self.liquid.x, dtype=float)
+
+
+@dataclass
+class _Stage:
+    """Solid formed while one set of solids forms together: its name, moles of atoms, moles of
+    each element and mass (g per mole of alloy)."""
+
+    name: str
+    mol: float = 0.0
+    elements: np.ndarray | None = None
+    mass: float = 0.0
+
+    def add(self, moles: float, x: np.ndarray, mass: float) -> None:
+        self.mol += moles
+        self.elements = moles * x if self.elements is None else self.elements + moles * x
+        self.mass += mass
+
+
+class AlloyScheil:
+    """The Scheil-Gulliver path of the alloy with mole fractions `x` (every element, summing to 1)."""
+
+    def __init__(self, system, x) -> None:
+        self.system = system
+        self.x = np.asarray(x, dtype=float)
+        self.M = molar_mass(system, self.x)
+        self.steps: list[AlloyStep] = []
+        self.arrests: list[Arrest] = []
+        self.forms: list[tuple[str, float]] = []
+        self.stages: list[_Stage] = []
+        self.current: _Stage | None = None
+        self.heat = 0.0                       # J per mole of alloy
+        self.end_K: float | None = None
+        self.end = "window"
+        self.calls = 0
+
+    # --- point equilibria --------------------------------------------------------------------
+    def _eq(self, T: float, x: np.ndarray):
+        self.calls += 1
+        return _equilibrium(self.system, T, x)
+
+    # --- the path ----------------------------------------------------------------------------
+    def path(self) -> AlloyPath:
+        lo, _hi = self.system.temperature_range_K
+        state, below = self._liquidus()
+        self._record(state)
+        self.liquidus_K = state.T
+        self._change(state, below)
+        h = _FIRST_STEP_K
+        for _ in range(_MAX_STEPS):
+            if state.f_L <= LAST_LIQUID or self.end_K is not None:
+                break
+            if state.T - h < lo:
+                h = state.T - lo
+                if h <= EVENT_TOLERANCE_K:
+                    break
+            step = self._step(state, h)
+            if step is None:                              # the phase set changes within the step
+                state = self._event(state, h)
+                h = _FIRST_STEP_K
+                continue
+            new, error = step
+            if error > 4.0 * STEP_TOLERANCE and h > _MIN_STEP_K:
+                h *= 0.3
+                continue
+            self._accept(state, new, h)
+            state = new
+            h = min(_MAX_STEP_K, max(_MIN_STEP_K, h * min(2.0, max(0.3, 0.9 * np.sqrt(STEP_TOLERANCE / max(error, 1e-30))))))
+        else:
+            raise PathError("the Scheil path did not reach the end of freezing in its step limit")
+        if self.end_K is None and state.f_L <= LAST_LIQUID:
+            self._finish_last_liquid(state)
+        return self._result(state)
+
+    def _liquidus(self):
+        """(the all-liquid state at the liquidus, the point equilibrium just below it)."""
+        system = self.system
+        lo, top = system.temperature_range_K
+        ceiling = system.model_range_K[1]
+        T = min(top, ceiling)
+        eq = self._eq(T, self.x)
+        while _key(eq) != (LIQUID,):
+            if T >= ceiling:
+                raise PathError(f"the alloy is not all liquid at the top of the models' range ({ceiling:.0f} K)")
+            T = min(T + _LIQUID_SEARCH_STEP_K, ceiling)
+            eq = self._eq(T, self.x)
+        hot = eq
+        while True:
+            T_next = max(T - _LIQUIDUS_SEARCH_K, lo)
+            below = self._eq(T_next, self.x)
+            if _key(below) != (LIQUID,):
+                break
+            if T_next <= lo:
+                raise PathError(f"no liquidus for this alloy inside the window ({lo:.0f}-{top:.0f} K)")
+            T, hot = T_next, below
+        T_hot, T_cold = T, T_next
+        while T_hot - T_cold > EVENT_TOLERANCE_K:
+            mid = 0.5 * (T_hot + T_cold)
+            eq = self._eq(mid, self.x)
+            if _key(eq) == (LIQUID,):
+                T_hot, hot = mid, eq
+            else:
+                T_cold, below = mid, eq
+        return _State(T_hot, 1.0, _split(hot)[0], None, (LIQUID,)), below
+
+    def _step(self, state: _State, h: float):
+        """(the state h K lower, the step's error estimate), or None where the phase set changes."""
+        T1 = state.T - h
+        x_L, f_L = state.x_L, state.f_L
+        first = self._eq(T1, x_L)
+        if _key(first) != state.key:
+            return None
+        d0 = f_L * _solid_amount(first)
+        x_start = _mean_x(state.forming if state.forming else _split(first)[1])
+
+        def trapezoid(d: float):
+            m = f_L - 0.5 * d
+            z = (f_L * x_L - 0.5 * d * x_start) / m
+            if np.any(z < 0.0):
+                return None
+            eq = self._eq(T1, z / z.sum())
+            return (eq, m) if _key(eq) == state.key else None
+
+        guess = trapezoid(d0)
+        chosen = None
+        if guess is not None:
+            s1 = guess[1] * _solid_amount(guess[0])
+            denominator = 3.0 * d0 - 2.0 * s1
+            if denominator > 0.0:
+                chosen = trapezoid(2.0 * d0 * d0 / denominator)
+            chosen = chosen or guess
+        eq, m = chosen if chosen is not None else (first, f_L)
+        liquid, solids = _split(eq)
+        f_new = m * (1.0 - _solid_amount(eq))
+        first_liquid = _split(first)[0]
+        error = abs(f_new - f_L * (1.0 - _solid_amount(first))) + \
+            float(np.max(np.abs(np.asarray(liquid.x) - np.asarray(first_liquid.x))))
+        return _State(T1, f_new, liquid, solids, state.key), error
+
+    def _accept(self, old: _State, new: _State, h: float) -> None:
+        """Book the solid of one step: its stage, its mass and the heat released."""
+        system = self.system
+        d = old.f_L - new.f_L
+        if d <= 0.0:
+            self._record(new)
+            return
+        x_solid = (old.f_L * old.x_L - new.f_L * new.x_L) / d
+        mass = old.f_L * molar_mass(system, old.x_L) - new.f_L * molar_mass(system, new.x_L)
+        self.current.add(d, x_solid, mass)
+        T_mid = old.T - 0.5 * h
+        start = old.forming if old.forming else new.forming
+        h_solid = 0.5 * (assemblage_enthalpy(system, start, T_mid) + assemblage_enthalpy(system, new.forming, T_mid))
+        self.heat += (old.f_L * phase_enthalpy(system, old.liquid, T_mid)
+                      - new.f_L * phase_enthalpy(system, new.liquid, T_mid) - d * h_solid)
+        self._record(new)
+
+    def _event(self, state: _State, h: float) -> _State:
+        """Bisect the change of phases within a step of h K below `state`, move there, and start
+        the next stage (or end freezing)."""
+        lo, hi = 0.0, h
+        below = None
+        while hi - lo > EVENT_TOLERANCE_K:
+            mid = 0.5 * (lo + hi)
+            eq = self._eq(state.T - mid, state.x_L)
+            if _key(eq) == state.key:
+                lo = mid
+            else:
+                hi, below = mid, eq
+        if below is None:
+            below = self._eq(state.T - hi, state.x_L)
+        if lo > 0.0:
+            step = self._step(state, lo)
+            if step is not None:
+                self._accept(state, step[0], lo)
+                state = step[0]
+        self._change(state, below)
+        return state
+
+    def _change(self, state: _State, below) -> None:
+        """The liquid's phases change just below state.T: start the next stage, or freeze the
+        rest of the liquid there."""
+        liquid, solids = _split(below)
+        T = state.T
+        known = {n for n, _ in self.forms}
+        order = {n: k for k, (n, _) in enumerate(self.forms)}
+        solids = sorted(solids, key=lambda p: order.get(p.name, len(order)))
+        names = labelled(self.system, solids)
+        if liquid is None:
+            self._freeze_rest(state, solids, names)
+            return
+        before = [n for n in state.key if n != LIQUID]
+        new = [n for n in names if n not in known]
+        self.forms += [(n, T) for n in new]
+        if not self.stages:
+            kind = "primary" if len(solids) == 1 else forming_together(len(solids))
+            self.arrests.append(Arrest(T, "liquidus", f"liquidus: {' + '.join(names)} start{'s' if len(names) == 1 else ''} to form"))
+        else:
+            kind = forming_together(len(solids)) if len(solids) > 1 else "peritectic"
+            gone = [n for n in before if n not in {p.name for p in solids}]
+            what = [f"{n} starts to form" for n in new] + [f"{n} stops forming" for n in gone]
+            self.arrests.append(Arrest(T, "new phase", f"{kind}: {', '.join(what) or 'the solids change'}"))
+        self._start_stage(f"{kind} {' + '.join(names)}")
+        state.key, state.forming = _key(below), solids
+
+    def _start_stage(self, name: str) -> None:
+        """Solid formed from now on belongs to the constituent `name` (one per name)."""
+        self.current = next((s for s in self.stages if s.name == name), None)
+        if self.current is None:
+            self.current = _Stage(name)
+            self.stages.append(self.current)
+
+    def _freeze_rest(self, state: _State, solids, names) -> None:
+        """No liquid is left just below state.T: the rest freezes there at once."""
+        system = self.system
+        T = state.T
+        f_L = state.f_L
+        plateau = f_L * (phase_enthalpy(system, state.liquid, T) - assemblage_enthalpy(system, solids, T))
+        self.heat += plateau
+        mass = f_L * molar_mass(system, state.x_L)
+        if len(solids) > 1:
+            self.end = forming_together(len(solids))
+            self._start_stage(f"{self.end} {' + '.join(names)}")
+            self.arrests.append(Arrest(T, "plateau", f"{self.end} plateau: liquid -> {' + '.join(names)}",
+                                       float(plateau / self.M)))
+        else:
+            self.end = "last liquid"
+            if not self.stages:
+                self.end = "melting point" if float(np.max(self.x)) > 1.0 - 1e-12 else "congruent"
+                self._start_stage(f"primary {names[0]}")
+                self.forms.append((names[0], T))
+                self.arrests.append(Arrest(T, "plateau", f"{self.end} plateau: liquid -> {names[0]}", plateau / self.M))
+            else:
+                self.arrests.append(Arrest(T, "end", "the last liquid freezes"))
+        self.forms += [(n, T) for n in names if n not in {f for f, _ in self.forms}]
+        self.current.add(f_L, state.x_L, mass)
+        self.end_K = T
+        state.f_L = 0.0
+        self.steps.append(AlloyStep(T, 1.0, 1.0, None, tuple(names), self.heat / self.M))
+
+    def _finish_last_liquid(self, state: _State) -> None:
+        """The liquid left is below LAST_LIQUID: it joins the last stage."""
+        self.current.add(state.f_L, state.x_L, state.f_L * molar_mass(self.system, state.x_L))
+        self.end, self.end_K = "last liquid", state.T
+        self.arrests.append(Arrest(state.T, "end", "the last liquid freezes"))
+        solids = tuple(n for n in state.key if n != LIQUID)
+        state.f_L = 0.0
+        self.steps.append(AlloyStep(state.T, 1.0, 1.0, None, solids, self.heat / self.M))
+
+    def _record(self, state: _State) -> None:
+        f_mass = state.f_L * molar_mass(self.system, state.x_L) / self.M
+        solids = tuple(n for n in state.key if n != LIQUID)
+        self.steps.append(AlloyStep(state.T, 1.0 - f_mass, 1.0 - state.f_L, tuple(float(v) for v in state.x_L),
+                                    (LIQUID,) + solids, self.heat / self.M))
+
+    def _result(self, state: _State) -> AlloyPath:
+        notes: list[str] = []
+        constituents = [AlloyConstituent(s.name, float(s.mass / self.M), float(s.mol), tuple(float(v) for v in s.elements / s.mol))
+                        for s in self.stages if s.mol > 0.0]
+        if self.end_K is None:
+            f_mass = state.f_L * molar_mass(self.system, state.x_L) / self.M
+            constituents.append(AlloyConstituent("liquid left at the bottom of the window", f_mass, state.f_L,
+                                                 tuple(float(v) for v in state.x_L)))
+            notes.append("liquid is left at the bottom of the window")
+        return AlloyPath("scheil", self.system, tuple(float(v) for v in self.x), self.liquidus_K, self.end_K,
+                         self.end, tuple(self.steps), tuple(self.forms), tuple(constituents), self.heat / self.M,
+                         tuple(self.arrests), tuple(notes))
+
+
+def alloy_scheil(system, x) -> AlloyPath:
+    """The Scheil-Gulliver path of the alloy with mole fractions `x` (every element of `system`,
+    summing to 1), from its liquidus to the end of freezing. Raises PathError (a ValueError)
+    with one line where no path can be computed."""
+    x = np.asarray(x, dtype=float)
+    if x.shape != (len(system.elements),) or np.any(x < 0.0) or abs(x.sum() - 1.0) > 1e-9:
+        raise PathError(f"expected {len(system.elements)} non-negative mole fractions summing to 1")
+    return AlloyScheil(system, x).path()
