@@ -5,6 +5,8 @@ Textual is imported only when one of these functions runs, never on import of th
 
 from __future__ import annotations
 
+import argparse
+
 
 def run(argv: list[str]) -> int:
     """Open the explorer in this terminal. argv: the arguments after `ladle` (an optional system
@@ -14,9 +16,10 @@ def run(argv: list[str]) -> int:
     return run_explorer(argv)
 
 
-def serve(argv: list[str]) -> int:
-    """Serve the explorer to a web browser on localhost (needs the `serve` extra).
-    argv: the arguments after `ladle serve`. Returns the process exit status."""
+def serve(args: argparse.Namespace) -> int:
+    """Serve the explorer to a web browser on this machine (needs the `serve` extra).
+    args: the parsed options of `ladle serve` (serving.add_serve_arguments). Returns the process
+    exit status."""
     from .serving import serve_in_browser
 
-    return serve_in_browser(argv)
+    return serve_in_browser(args)

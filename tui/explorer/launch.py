@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import sys
 
 from ladle.engine import SystemFileError, UnknownSystem, find_system, list_systems
@@ -46,11 +47,17 @@ def first_exploration(asked: str | None, saved: SavedState | None) -> Exploratio
     return Exploration(system, scales, cursor)
 
 
+def served_to_a_browser() -> bool:
+    """Whether this explorer runs under `ladle serve` (textual-serve talks to it over pipes and
+    names its web driver in TEXTUAL_DRIVER)."""
+    return "web_driver" in os.environ.get("TEXTUAL_DRIVER", "")
+
+
 def run_explorer(argv: list[str]) -> int:
     """Parse the options, open the system and run the app; returns the exit status."""
     try:
         options = parse_options(argv)
-        if not (sys.stdout.isatty() and sys.stdin.isatty()):
+        if not served_to_a_browser() and not (sys.stdout.isatty() and sys.stdin.isatty()):
             raise OptionsError(
                 "the full-screen explorer needs a terminal (standard input and output are not "
                 "both one); for a file or a pipe use a line command, e.g. ladle diagram "
