@@ -1,0 +1,326 @@
+"""Isopleths (vertical sections) of a system of any number of elements: temperature against one
+element's content, every other element held as given (the balance element takes up the rest),
+mapped as zero-phase-fraction lines: each line is where one phase's amount goes to zero
+(J.E. Morral and H. Gupta, Scripta Metall. Mater. 25 (1991) 1393).
+
+Method: point equilibria (`equilibrate`) on a grid over the section (columns of composition,
+rows of temperature). Wherever two neighbouring nodes differ in their stable phases, the edge
+between them is bisected to its tolerance; each change found is a point of the zero-phase-
+fraction line of every phase present on one side only. Within each grid cell the points of one
+phase's line are joined (marching squares: W.E. Lorensen and H.E. Cline, Comput. Graph. 21
+(1987) 163, in two dimensions), and the pieces chained into lines, split where the phase sets on
+the two sides change, so that every line carries one pair of phase sets. A field is a connected
+set of nodes with one phase set; an invariant reaction is a change where N + 1 phases meet (N
+elements), at one temperature across the section.
+
+The section runs from composition `start` (u = 0) to `end` (u = 1), straight in the chosen
+basis ("wt": mass fractions, "at": mole fractions). Temperatures in K, compositions as fractions.
+"""
+
+from __future__ import annotations
+
+from collections import defaultdict
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..minimize.equilibrium import equilibrate
+from ..units import mole_from_mass
+
+#: Grid of the section: columns of composition and rows of temperature.
+DEFAULT_COLUMNS = 25
+DEFAULT_ROWS = 33
+#: Each change on an edge is bracketed to this share of the edge.
+EDGE_TOLERANCE = 2e-4
+#: Changes where N + 1 phases meet within this many K are one invariant reaction.
+_SAME_INVARIANT_K = 0.5
+
+
+@dataclass(frozen=True)
+class ZeroFractionLine:
+    """Where `phase`'s amount goes to zero: `with_phase` is the phase set on the side that holds
+    it, `without_phase` the set on the other side; points are (u, T in K)."""
+
+    phase: str
+    with_phase: tuple[str, ...]
+    without_phase: tuple[str, ...]
+    points: tuple[tuple[float, float], ...]
+
+
+@dataclass(frozen=True)
+class SectionField:
+    """A connected region of one phase set: its nodes' (u, T) and the node nearest its middle."""
+
+    phases: tuple[str, ...]
+    nodes: tuple[tuple[float, float], ...]
+    middle: tuple[float, float]
+
+
+@dataclass(frozen=True)
+class SectionInvariant:
+    """An invariant reaction crossed by the section: its temperature (K), the N + 1 phases that
+    meet, and the range of u over which the section meets it."""
+
+    temperature_K: float
+    phases: tuple[str, ...]
+    u_range: tuple[float, float]
+
+
+@dataclass(frozen=True)
+class Isopleth:
+    """A mapped isopleth of `system` from `start` to `end` (fractions of every element in
+    `basis`), with `element` the one that varies."""
+
+    system: object = field(repr=False)
+    start: tuple[float, ...]
+    end: tuple[float, ...]
+    basis: str
+    element: str
+    temperature_range_K: tuple[float, float]
+    lines: tuple[ZeroFractionLine, ...]
+    fields: tuple[SectionField, ...]
+    invariants: tuple[SectionInvariant, ...]
+    warnings: tuple[str, ...] = ()
+
+    def content(self, u: float) -> float:
+        """The varying element's fraction (in `basis`) at u."""
+        i = self.system.elements.index(self.element)
+        return self.start[i] + u * (self.end[i] - self.start[i])
+
+    def mole_fractions(self, u: float) -> np.ndarray:
+        """Mole fractions of every element at u."""
+        return section_mole_fractions(self.system, self.start, self.end, self.basis, np.array([u]))[0]
+
+    def to_json(self) -> dict:
+        """Plain JSON: the axis, the held contents, every line with the phase sets on both sides,
+        the fields and the invariant reactions; compositions as the varying element's fraction in
+        the basis."""
+        els = self.system.elements
+
+        def point(u: float, T: float) -> list[float]:
+            return [float(self.content(u)), float(T)]
+
+        return {
+            "system": self.system.name,
+            "element": self.element,
+            "basis": self.basis,
+            "point_order": [f"{self.element} fraction ({'mass' if self.basis == 'wt' else 'mole'})", "temperature_K"],
+            "start": {el: float(v) for el, v in zip(els, self.start)},
+            "end": {el: float(v) for el, v in zip(els, self.end)},
+            "temperature_range_K": list(self.temperature_range_K),
+            "lines": [{"phase": ln.phase, "with": list(ln.with_phase), "without": list(ln.without_phase),
+                       "points": [point(u, T) for u, T in ln.points]} for ln in self.lines],
+            "fields": [{"phases": list(f.phases), "label_at": point(*f.middle)} for f in self.fields],
+            "invariants": [{"temperature_K": inv.temperature_K, "phases": list(inv.phases),
+                            "from": float(self.content(inv.u_range[0])), "to": float(self.content(inv.u_range[1]))}
+                           for inv in self.invariants],
+            "warnings": list(self.warnings),
+        }
+
+
+def section_mole_fractions(system, start, end, basis: str, u: np.ndarray) -> np.ndarray:
+    """Mole fractions (len(u), N) along the section at parameters u (0 at `start`, 1 at `end`)."""
+    start, end = np.asarray(start, dtype=float), np.asarray(end, dtype=float)
+    f = start[None, :] + np.asarray(u, dtype=float)[:, None] * (end - start)[None, :]
+    f = np.clip(f, 0.0, None)
+    f /= f.sum(axis=1, keepdims=True)
+    return mole_from_mass(f, system.molar_mass) if basis == "wt" else f
+
+
+def _key(eq) -> tuple[str, ...]:
+    return tuple(sorted(eq.phase_names))
+
+
+def _changed(a: tuple[str, ...], b: tuple[str, ...]) -> set[str]:
+    """Phases present on one side only (a phase counted twice on one side, once on the other:
+    the second composition set appears)."""
+    out = set()
+    for name in set(a) | set(b):
+        if a.count(name) != b.count(name):
+            out.add(name)
+    return out
+
+
+class _Mapper:
+    """Point equilibria of one section, cached by node."""
+
+    def __init__(self, system, start, end, basis: str) -> None:
+        self.system, self.start, self.end, self.basis = system, start, end, basis
+        self.n = len(system.elements)
+        self.calls = 0
+        self.warnings: list[str] = []
+
+    def key_at(self, u: float, T: float) -> tuple[str, ...]:
+        x = section_mole_fractions(self.system, self.start, self.end, self.basis, np.array([u]))[0]
+        self.calls += 1
+        eq = equilibrate(self.system, T, float(x[1]) if self.n == 2 else x)
+        if not eq.converged:
+            self.warnings.append(f"the equilibrium at {T:.2f} K, u = {u:.4f} did not converge")
+        return _key(eq)
+
+    def changes(self, a: tuple[float, float], b: tuple[float, float], ka, kb, depth: int = 0) -> list:
+        """Every change between points a and b ((u, T) each; phase sets ka, kb), bisected:
+        [(point, set on a's side, set on b's side)]."""
+        if ka == kb:
+            return []
+        mid = (0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1]))
+        if depth >= self.depth:
+            return [(mid, ka, kb)]
+        km = self.key_at(*mid)
+        return self.changes(a, mid, ka, km, depth + 1) + self.changes(mid, b, km, kb, depth + 1)
+
+
+def map_isopleth(system, start, end, basis: str, element: str, temperature_range_K: tuple[float, float] | None = None,
+                 columns: int = DEFAULT_COLUMNS, rows: int = DEFAULT_ROWS) -> Isopleth:
+    """The isopleth of `system` from `start` to `end` (fractions of every element in `basis`,
+    "wt" or "at", each summing to 1) with `element` varying, between the temperatures of
+    `temperature_range_K` (default: the system's diagram window). Raises ValueError with one
+    line for a bad section."""
+    start, end = tuple(float(v) for v in start), tuple(float(v) for v in end)
+    if len(start) != len(system.elements) or len(end) != len(system.elements):
+        raise ValueError(f"a section needs {len(system.elements)} fractions at each end")
+    if min(start + end) < 0.0 or abs(sum(start) - 1.0) > 1e-9 or abs(sum(end) - 1.0) > 1e-9:
+        raise ValueError("a section's ends must hold non-negative fractions summing to 1")
+    T_lo, T_hi = temperature_range_K or system.temperature_range_K
+    mapper = _Mapper(system, start, end, basis)
+    mapper.depth = int(np.ceil(np.log2(1.0 / EDGE_TOLERANCE)))
+    us = np.linspace(0.0, 1.0, columns)
+    Ts = np.linspace(T_hi, T_lo, rows)
+    keys = [[mapper.key_at(float(u), float(T)) for u in us] for T in Ts]
+
+    # edge points: per grid edge, the changes found on it
+    edges: dict[tuple, list] = {}
+    for r in range(rows):
+        for c in range(columns):
+            here = (float(us[c]), float(Ts[r]))
+            if c + 1 < columns:
+                edges[("h", r, c)] = mapper.changes(here, (float(us[c + 1]), float(Ts[r])), keys[r][c], keys[r][c + 1])
+            if r + 1 < rows:
+                edges[("v", r, c)] = mapper.changes(here, (float(us[c]), float(Ts[r + 1])), keys[r][c], keys[r + 1][c])
+
+    lines = _lines(edges, rows, columns)
+    fields = _fields(keys, us, Ts)
+    invariants = _invariants(edges, len(system.elements))
+    return Isopleth(system, start, end, basis, element, (float(T_lo), float(T_hi)), tuple(lines), tuple(fields),
+                    tuple(invariants), tuple(dict.fromkeys(mapper.warnings)))
+
+
+def _sides(phase: str, ka, kb) -> tuple[tuple[str, ...], tuple[str, ...]]:
+    """(the set holding `phase`, the set without it) of a change between ka and kb."""
+    return (ka, kb) if ka.count(phase) > kb.count(phase) else (kb, ka)
+
+
+def _lines(edges: dict, rows: int, columns: int) -> list[ZeroFractionLine]:
+    """Join the edge points of each phase cell by cell, chain the pieces, split where the sides
+    change."""
+    segments: dict[str, list[tuple[tuple, tuple]]] = defaultdict(list)   # phase -> [(point id, point id)]
+    points: dict[tuple, tuple] = {}                                       # point id -> ((u, T), ka, kb)
+    for edge, found in edges.items():
+        for k, (p, ka, kb) in enumerate(found):
+            points[(edge, k)] = (p, ka, kb)
+    for r in range(rows - 1):
+        for c in range(columns - 1):
+            cell = [("h", r, c), ("h", r + 1, c), ("v", r, c), ("v", r, c + 1)]
+            by_phase: dict[str, list[tuple]] = defaultdict(list)
+            for edge in cell:
+                for k, (_p, ka, kb) in enumerate(edges.get(edge, [])):
+                    for phase in _changed(ka, kb):
+                        by_phase[phase].append((edge, k))
+            for phase, ids in by_phase.items():
+                ids = list(dict.fromkeys(ids))
+                while len(ids) >= 2:
+                    first = ids.pop(0)
+                    p0 = np.array(points[first][0])
+                    nearest = min(ids, key=lambda i: float(np.sum((np.array(points[i][0]) - p0) ** 2)))
+                    ids.remove(nearest)
+                    segments[phase].append((first, nearest))
+    out: list[ZeroFractionLine] = []
+    for phase, segs in segments.items():
+        for chain in _chains(segs):
+            current: list[tuple[float, float]] = []
+            sides = None
+            for pid in chain:
+                p, ka, kb = points[pid]
+                these = _sides(phase, ka, kb)
+                if sides is not None and these != sides and len(current) >= 2:
+                    out.append(ZeroFractionLine(phase, sides[0], sides[1], tuple(current)))
+                    current = [current[-1]]
+                if sides is None or these != sides:
+                    sides = these
+                current.append(p)
+            if len(current) >= 2:
+                out.append(ZeroFractionLine(phase, sides[0], sides[1], tuple(current)))
+    return out
+
+
+def _chains(segments: list[tuple]) -> list[list]:
+    """Chain segments (pairs of point ids) into polylines."""
+    neighbours: dict = defaultdict(list)
+    for a, b in segments:
+        neighbours[a].append(b)
+        neighbours[b].append(a)
+    seen_edges: set = set()
+    chains = []
+    starts = [p for p, n in neighbours.items() if len(n) != 2] + list(neighbours)
+    for start in starts:
+        for nxt in list(neighbours[start]):
+            if frozenset((start, nxt)) in seen_edges:
+                continue
+            chain = [start]
+            prev, cur = start, nxt
+            seen_edges.add(frozenset((prev, cur)))
+            while True:
+                chain.append(cur)
+                onward = [q for q in neighbours[cur] if frozenset((cur, q)) not in seen_edges]
+                if not onward:
+                    break
+                prev, cur = cur, onward[0]
+                seen_edges.add(frozenset((prev, cur)))
+            chains.append(chain)
+    return chains
+
+
+def _fields(keys, us, Ts) -> list[SectionField]:
+    """Connected regions of grid nodes with one phase set."""
+    rows, columns = len(keys), len(keys[0])
+    seen = [[False] * columns for _ in range(rows)]
+    out = []
+    for r in range(rows):
+        for c in range(columns):
+            if seen[r][c]:
+                continue
+            key, stack, nodes = keys[r][c], [(r, c)], []
+            seen[r][c] = True
+            while stack:
+                i, j = stack.pop()
+                nodes.append((i, j))
+                for di, dj in ((1, 0), (-1, 0), (0, 1), (0, -1)):
+                    a, b = i + di, j + dj
+                    if 0 <= a < rows and 0 <= b < columns and not seen[a][b] and keys[a][b] == key:
+                        seen[a][b] = True
+                        stack.append((a, b))
+            pts = np.array([(us[j], Ts[i]) for i, j in nodes])
+            span = np.array([1.0, max(Ts[0] - Ts[-1], 1e-9)])
+            centre = pts.mean(axis=0)
+            middle = pts[int(np.argmin(np.sum(((pts - centre) / span) ** 2, axis=1)))]
+            out.append(SectionField(key, tuple((float(u), float(T)) for u, T in pts), (float(middle[0]), float(middle[1]))))
+    return out
+
+
+def _invariants(edges: dict, n_elements: int) -> list[SectionInvariant]:
+    """Changes where N + 1 phases meet, grouped by temperature."""
+    found: list[tuple[float, tuple[str, ...], float]] = []
+    for edge, changes in edges.items():
+        for (u, T), ka, kb in changes:
+            together = tuple(sorted(set(ka) | set(kb)))
+            if edge[0] == "v" and len(set(ka) | set(kb)) >= n_elements + 1:
+                found.append((T, together, u))
+    found.sort()
+    groups: list[list] = []
+    for T, phases, u in found:
+        if groups and groups[-1][1] == phases and abs(groups[-1][0][-1] - T) <= _SAME_INVARIANT_K:
+            groups[-1][0].append(T)
+            groups[-1][2].append(u)
+        else:
+            groups.append([[T], phases, [u]])
+    return [SectionInvariant(float(np.median(Ts)), phases, (float(min(u)), float(max(u)))) for Ts, phases, u in groups]

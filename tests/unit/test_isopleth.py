@@ -1,0 +1,77 @@
+"""Isopleths as zero-phase-fraction lines (engine/diagrams/isopleth.py): every line's two sides
+are what point equilibria find there, on the invented ideal ternaries of
+tests/unit/ideal_ternaries.py (closed-form equilibria: sources there)."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from scipy.optimize import brentq
+
+import ideal_ternaries as it
+from ladle.engine.diagrams import isopleth
+
+#: The A-B section at 15 at% C (u = 0: 85 A, 15 C; u = 1: 85 B, 15 C).
+START, END = (0.85, 0.0, 0.15), (0.0, 0.85, 0.15)
+WINDOW_K = (450.0, 1350.0)
+
+
+@pytest.fixture
+def section(monkeypatch):
+    def make(system_maker):
+        system = system_maker()
+        solve = it.equilibrate_for(system)
+        monkeypatch.setattr(isopleth, "equilibrate", solve)
+        return system, isopleth.map_isopleth(system, START, END, "at", "B", WINDOW_K, columns=17, rows=21), solve
+    return make
+
+
+def _normal_steps(points: np.ndarray, k: int, span: np.ndarray, distance: float) -> tuple[np.ndarray, np.ndarray]:
+    """Two points `distance` (in units of the window) either side of points[k], across the line."""
+    scaled = points / span
+    tangent = scaled[min(k + 1, len(points) - 1)] - scaled[max(k - 1, 0)]
+    normal = np.array([-tangent[1], tangent[0]]) / np.linalg.norm(tangent)
+    return (scaled[k] + distance * normal) * span, (scaled[k] - distance * normal) * span
+
+
+@pytest.mark.parametrize("maker", [it.eutectic_system, it.lens_system])
+def test_both_sides_of_every_line_are_what_point_equilibria_find(section, maker):
+    system, iso, solve = section(maker)
+    assert iso.lines
+    span = np.array([1.0, WINDOW_K[1] - WINDOW_K[0]])
+    checked = 0
+    for line in iso.lines:
+        pts = np.array(line.points)
+        for k in range(1, len(pts) - 1):                      # away from the ends, where lines meet
+            for p in _normal_steps(pts, k, span, 1e-3):
+                if not (0.0 < p[0] < 1.0 and WINDOW_K[0] < p[1] < WINDOW_K[1]):
+                    continue
+                x = isopleth.section_mole_fractions(system, START, END, "at", np.array([p[0]]))[0]
+                found = tuple(sorted(solve(system, p[1], x).phase_names))
+                assert found in (line.with_phase, line.without_phase), (line.phase, p, found)
+                checked += 1
+    assert checked > 50
+
+
+def test_liquidus_of_the_primary_phase_is_the_closed_form(section):
+    """Where alpha (pure A) first forms from the ideal liquid, x_A = a_A(T) (ideal_ternaries)."""
+    _system, iso, _solve = section(it.eutectic_system)
+    line = next(ln for ln in iso.lines if ln.phase == "alpha" and ln.without_phase == ("liquid",))
+    for u, T in line.points:
+        x_A = START[0] * (1.0 - u)
+        assert T == pytest.approx(brentq(lambda t: it.saturation(t)[0] - x_A, 400.0, 1400.0), abs=0.05)
+
+
+def test_the_ternary_eutectic_is_the_one_invariant(section):
+    _system, iso, _solve = section(it.eutectic_system)
+    T_eutectic = brentq(lambda T: it.saturation(T).sum() - 1.0, 400.0, 1000.0)
+    assert len(iso.invariants) == 1
+    inv = iso.invariants[0]
+    assert inv.phases == ("alpha", "beta", "gamma", "liquid")
+    assert inv.temperature_K == pytest.approx(T_eutectic, abs=0.05)
+    fields = {f.phases for f in iso.fields}
+    assert {("liquid",), ("alpha", "liquid"), ("beta", "liquid"), ("alpha", "beta", "liquid"),
+            ("alpha", "beta", "gamma")} <= fields
+    out = iso.to_json()
+    assert out["invariants"][0]["phases"] == ["alpha", "beta", "gamma", "liquid"]
+    assert all({"phase", "with", "without", "points"} <= set(line) for line in out["lines"])
