@@ -3,6 +3,8 @@
 import json
 import os
 
+import pytest
+
 from ladle.tui.explorer.saved_state import SavedState, load_state, save_state, state_path
 
 
@@ -32,3 +34,46 @@ def test_damaged_or_strange_files_are_ignored(tmp_path):
         path.write_text(text)
         assert load_state(path) is None
     assert load_state(tmp_path / "missing.json") is None
+
+
+def test_hostile_state_files_are_ignored_with_a_reason(tmp_path):
+    from ladle.tui.explorer.saved_state import LARGEST_STATE_BYTES, read_state
+
+    path = tmp_path / "explorer.json"
+    hostile = {
+        "deeply nested": "[" * 30000 + "]" * 30000,                 # RecursionError in json
+        "400-digit temperature": '{"system": "pb-sn", "temperature_K": ' + "9" * 400 + ', "x_B": 0.5}',
+        "5000-digit temperature": '{"system": "pb-sn", "temperature_K": ' + "9" * 5000 + ', "x_B": 0.5}',
+        "infinite temperature": '{"system": "pb-sn", "temperature_K": 1e999, "x_B": 0.5}',
+        "not UTF-8": b"\xff\xfe{".decode("latin-1"),
+        "too large": '{"system": "' + "x" * LARGEST_STATE_BYTES + '"}',
+    }
+    for what, text in hostile.items():
+        path.write_text(text, encoding="latin-1" if what == "not UTF-8" else "utf-8")
+        state, reason = read_state(path)
+        assert state is None and reason, what
+    assert read_state(tmp_path / "missing.json") == (None, None)    # no file: nothing to say
+
+
+def test_the_explorer_starts_afresh_on_a_corrupt_state_file_and_says_so(tmp_path, monkeypatch, capsys):
+    from ladle.tui.explorer import launch
+
+    state = tmp_path / "ladle" / "explorer.json"
+    state.parent.mkdir()
+    state.write_text("[" * 30000 + "]" * 30000)
+    monkeypatch.setenv("XDG_STATE_HOME", str(tmp_path))
+    started = []
+
+    class Stop(Exception):
+        """Ends the run where the app would start."""
+
+    def first_exploration(asked, saved):
+        started.append((asked, saved))
+        raise Stop
+
+    monkeypatch.setattr(launch, "first_exploration", first_exploration)
+    monkeypatch.setattr(launch, "served_to_a_browser", lambda: True)    # no terminal needed here
+    with pytest.raises(Stop):
+        launch.run_explorer(["pb-sn"])
+    assert started == [("pb-sn", None)]
+    assert "ignored the remembered place" in capsys.readouterr().err

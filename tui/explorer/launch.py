@@ -11,7 +11,7 @@ from .cursor import Cursor
 from .exploration import Exploration
 from .glyphs import glyphs_for
 from .options import OptionsError, parse_options
-from .saved_state import SavedState, load_state, state_path
+from .saved_state import SavedState, read_state, state_path
 from .scales import Scales
 
 
@@ -63,7 +63,11 @@ def run_explorer(argv: list[str]) -> int:
                 "both one); for a file or a pipe use a line command, e.g. ladle diagram "
                 f"{options.system or 'SYSTEM'} (see ladle --help)")
         path = state_path()
-        exploration = first_exploration(options.system, load_state(path))
+        saved, ignored = read_state(path)
+        if ignored:
+            print(f"ladle: note: ignored the remembered place in {path} ({ignored}); starting afresh",
+                  file=sys.stderr)
+        exploration = first_exploration(options.system, saved)
     except (OptionsError, ValueError) as error:
         print(f"ladle: {error}", file=sys.stderr)
         return 2

@@ -13,7 +13,7 @@ import os
 from dataclasses import asdict, dataclass
 from pathlib import Path
 
-from ladle.engine.atomic_files import write_atomic
+from ladle.engine.files.atomic_files import write_atomic
 from ladle.engine.units import TEMPERATURE_UNITS
 
 from .scales import COMPOSITION_UNITS
@@ -39,14 +39,32 @@ def state_path(environ: dict[str, str] | None = None) -> Path:
     return Path(base) / "ladle" / "explorer.json"
 
 
-def load_state(path: Path) -> SavedState | None:
-    """The saved state, or None when there is none or it cannot be read as one.
+#: A state file is a few hundred bytes; anything much larger is not one of ours.
+LARGEST_STATE_BYTES = 65536
 
-    A damaged or foreign file is ignored (and replaced on the next save): the explorer then
-    opens as on a first run.
+
+def load_state(path: Path) -> SavedState | None:
+    """The saved state, or None when there is none or it cannot be read as one."""
+    return read_state(path)[0]
+
+
+def read_state(path: Path) -> tuple[SavedState | None, str | None]:
+    """(the saved state or None, why a file that exists was not used or None).
+
+    A damaged or foreign file (not JSON, deeply nested, huge numbers, wrong fields, too large)
+    is ignored (and replaced on the next save): the explorer then opens as on a first run.
     """
     try:
-        data = json.loads(path.read_text(encoding="utf-8"))
+        with path.open("rb") as handle:
+            raw = handle.read(LARGEST_STATE_BYTES + 1)
+    except FileNotFoundError:
+        return None, None
+    except OSError as error:
+        return None, f"cannot read it ({error.strerror or error})"
+    if len(raw) > LARGEST_STATE_BYTES:
+        return None, f"larger than {LARGEST_STATE_BYTES} bytes"
+    try:
+        data = json.loads(raw.decode("utf-8"))
         state = SavedState(
             system=str(data["system"]),
             temperature_K=float(data["temperature_K"]),
@@ -54,14 +72,14 @@ def load_state(path: Path) -> SavedState | None:
             temperature_unit=str(data.get("temperature_unit", "C")),
             composition_unit=str(data.get("composition_unit", "wt")),
         )
-    except (OSError, ValueError, KeyError, TypeError):
-        return None
+    except (ValueError, KeyError, TypeError, AttributeError, RecursionError, OverflowError, IndexError):
+        return None, "not a state file of this version"
     if not (math.isfinite(state.temperature_K) and state.temperature_K > 0
             and math.isfinite(state.x_B) and 0.0 <= state.x_B <= 1.0
             and state.temperature_unit in TEMPERATURE_UNITS
             and state.composition_unit in COMPOSITION_UNITS):
-        return None
-    return state
+        return None, "values out of range"
+    return state, None
 
 
 def save_state(path: Path, state: SavedState) -> None:
