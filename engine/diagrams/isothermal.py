@@ -1,0 +1,126 @@
+"""The isothermal section of a ternary system: the stable phases over the composition triangle
+at one temperature, with tie-lines in the two-phase fields and the tie-triangles of the
+three-phase fields.
+
+Method: point equilibria (`equilibrate`) at the nodes of a triangular grid (each mole fraction a
+multiple of 1/divisions); nodes are grouped by their phase set; a two-phase node gives the
+tie-line through it (the compositions of its two phases), a three-phase node the tie-triangle
+(its three phases' compositions, the same for every node of the field up to the solver's
+tolerance). Temperatures in K, compositions in mole fractions of the three elements.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..minimize.equilibrium import equilibrate
+
+DEFAULT_DIVISIONS = 24
+#: Tie-lines kept per two-phase field (spread over it).
+TIE_LINES_PER_FIELD = 7
+#: Triangle corners closer than this (mole fraction) are one corner.
+_SAME_CORNER = 1e-3
+
+
+@dataclass(frozen=True)
+class TieLine:
+    """A tie-line: its two phases and their compositions (mole fractions)."""
+
+    phases: tuple[str, str]
+    ends: tuple[tuple[float, ...], tuple[float, ...]]
+
+
+@dataclass(frozen=True)
+class SectionRegion:
+    """The nodes of one phase set: how many, the composition nearest their middle, and the
+    tie-lines (two phases) or tie-triangles (three phases: the phases' compositions) found."""
+
+    phases: tuple[str, ...]
+    nodes: int
+    middle: tuple[float, ...]
+    tie_lines: tuple[TieLine, ...] = ()
+    triangles: tuple[tuple[tuple[float, ...], ...], ...] = ()
+
+
+@dataclass(frozen=True)
+class IsothermalSection:
+    """The isothermal section of a ternary `system` at `temperature_K` (K)."""
+
+    system: object = field(repr=False)
+    temperature_K: float
+    fields: tuple[SectionRegion, ...]
+    warnings: tuple[str, ...] = ()
+
+    def to_json(self) -> dict:
+        """Plain JSON: every field with its phases, a point inside it, its tie-lines and
+        tie-triangles; compositions as objects of mole fractions per element."""
+        els = self.system.elements
+
+        def comp(x) -> dict:
+            return {el: float(v) for el, v in zip(els, x)}
+
+        return {
+            "system": self.system.name,
+            "temperature_K": self.temperature_K,
+            "fields": [{"phases": list(r.phases), "label_at": comp(r.middle),
+                        "tie_lines": [{"phases": list(t.phases), "ends": [comp(t.ends[0]), comp(t.ends[1])]}
+                                      for t in r.tie_lines],
+                        "triangles": [[comp(c) for c in tri] for tri in r.triangles]} for r in self.fields],
+            "warnings": list(self.warnings),
+        }
+
+
+def triangle_nodes(divisions: int) -> np.ndarray:
+    """Every (x1, x2, x3) with each a multiple of 1/divisions, summing to 1: shape (k, 3)."""
+    pts = [(divisions - j - k, j, k) for k in range(divisions + 1) for j in range(divisions + 1 - k)]
+    return np.array(pts, dtype=float) / divisions
+
+
+def _spread(points: np.ndarray, count: int) -> list[int]:
+    """Indices of up to `count` points spread over the set (farthest-point order)."""
+    chosen = [0]
+    distance = np.linalg.norm(points - points[0], axis=1)
+    while len(chosen) < min(count, len(points)):
+        k = int(np.argmax(distance))
+        if distance[k] <= 0.0:
+            break
+        chosen.append(k)
+        distance = np.minimum(distance, np.linalg.norm(points - points[k], axis=1))
+    return chosen
+
+
+def map_isothermal(system, temperature_K: float, divisions: int = DEFAULT_DIVISIONS) -> IsothermalSection:
+    """The isothermal section of the ternary `system` at temperature_K (K) on a grid of
+    `divisions` steps per side. Raises ValueError for a system of other than three elements."""
+    if len(system.elements) != 3:
+        raise ValueError(f"an isothermal section on a triangle needs a ternary system; {system.name} has "
+                         f"{len(system.elements)} elements")
+    nodes = triangle_nodes(divisions)
+    groups: dict[tuple[str, ...], list] = {}
+    warnings = []
+    for x in nodes:
+        eq = equilibrate(system, temperature_K, x)
+        if not eq.converged:
+            warnings.append(f"the equilibrium at {', '.join(f'{v:.3f}' for v in x)} did not converge")
+        groups.setdefault(tuple(sorted(eq.phase_names)), []).append((x, eq))
+    fields = []
+    for phases, members in sorted(groups.items(), key=lambda item: -len(item[1])):
+        xs = np.array([x for x, _ in members])
+        middle = xs[int(np.argmin(np.linalg.norm(xs - xs.mean(axis=0), axis=1)))]
+        ties, triangles = [], []
+        if len(phases) == 2:
+            for k in _spread(xs, TIE_LINES_PER_FIELD):
+                eq = members[k][1]
+                a, b = eq.phases
+                ties.append(TieLine((a.name, b.name), (tuple(float(v) for v in a.x), tuple(float(v) for v in b.x))))
+        elif len(phases) == 3:
+            for _x, eq in members:
+                corners = tuple(tuple(float(v) for v in p.x) for p in sorted(eq.phases, key=lambda p: p.name))
+                if not any(max(np.max(np.abs(np.array(c) - np.array(d))) for c, d in zip(corners, t)) < _SAME_CORNER
+                           for t in triangles):
+                    triangles.append(corners)
+        fields.append(SectionRegion(phases, len(members), tuple(float(v) for v in middle), tuple(ties),
+                                     tuple(triangles)))
+    return IsothermalSection(system, float(temperature_K), tuple(fields), tuple(dict.fromkeys(warnings)))
