@@ -1,54 +1,85 @@
-"""Heat lists: a CSV file of heats (an identifier and one composition column whose header names
-the element and the unit, such as `Si wt%`), read row by row, and the results written beside
-them, atomically.
+"""Heat lists: CSV files of heats (an identifier and one composition column whose header names
+the element and the unit, such as `Si wt%`), read in blocks of whole rows and parsed a column
+at a time with numpy.
 
-A bad row is not an error of the file: it is kept with the reason in `problem`, so the other
-rows still get their answers. Problems of the file itself raise CommandError with one line.
+The file is scanned once first (`scan_heat_list`): its fingerprint (for `--resume`), its
+encoding (UTF-8, else Windows-1252, or the one the user names) and its size. `read_layout`
+reads the header; `blocks` then cuts the data into blocks of whole rows (a quoted cell may span
+lines) that can be parsed anywhere, in any order (`parse_block`).
+
+A bad row is not an error of the file: it keeps its place with the reason, so the other rows
+still get their answers. Problems of the file itself raise CommandError with one line.
 Lines whose first cell starts with '#' are comments (a file can say where it comes from).
 """
 
 from __future__ import annotations
 
+import codecs
 import csv
+import hashlib
 import io
 import math
+import os
 import re
-from dataclasses import dataclass
+from collections.abc import Iterator
+from dataclasses import dataclass, replace
 from pathlib import Path
+from typing import NamedTuple
 
-from ladle.engine.atomic_files import write_atomic
-
+from .csv_columns import may_hold_formulas
 from .errors import CommandError
+from .quote import one_line, quoted_path
 
 _HEADER = re.compile(r"^\s*([A-Za-z]{1,2})\s*[(\[]?\s*(wt|at|mass|mol)\s*\.?\s*%\s*[)\]]?\s*$", re.IGNORECASE)
 _BASIS = {"wt": "wt", "mass": "wt", "at": "at", "mol": "at"}
 _DELIMITERS = ",;\t"
 _TEMPERATURE_DIFFERENCE = re.compile(r"^\s*([+]?(?:\d+(?:\.\d*)?|\.\d+))\s*(°?\s*[CcKkFf])?\s*$")
+#: The largest superheat accepted (K): common foundry practice pours tens to a few hundred
+#: kelvins above the liquidus; more than this is a typing error, not a pouring temperature.
+MAX_SUPERHEAT_K = 500.0
+#: Bytes the first scan reads at a time.
+_SCAN_BYTES = 1 << 20
+#: Bytes not valid in Windows-1252 (undefined code points).
+_NOT_CP1252 = b"\x81\x8d\x8f\x90\x9d"
+#: Identifiers up to this many characters are hashed together with numpy; longer ones alone.
+_HASHED_WIDTH = 64
 
 
 @dataclass(frozen=True)
-class Heat:
-    """One row: its line in the file, its cells, the composition read from it (percent of the
-    column's element) or the reason it could not be read."""
+class FileScan:
+    """What the first pass over a heat list found: size (bytes), modification time (ns),
+    SHA-256 of the contents, the encoding to read it with and the number of lines."""
 
-    line: int
-    cells: list[str]
-    percent: float | None
-    problem: str | None = None
+    size: int
+    mtime_ns: int
+    sha256: str
+    encoding: str
+    lines: int
 
 
 @dataclass(frozen=True)
-class HeatList:
-    """A read heat list: its header, the composition column (index, element, "wt" or "at") and
-    its heats in file order."""
+class Layout:
+    """How to read a heat list: its encoding and separator, the header's cells, the composition
+    column (index, element, "wt" or "at"), the identifier column (the first other column, or
+    None), where the data start (byte offset and line number), and whether numbers are written
+    with a decimal comma."""
 
-    path: Path
+    name: str
+    encoding: str
     delimiter: str
-    header: list[str]
+    header: tuple[str, ...]
     column: int
     element: str
     basis: str
-    heats: list[Heat]
+    id_column: int | None
+    data_offset: int
+    data_line: int
+    decimal_comma: bool
+
+    @property
+    def label(self) -> str:
+        """The composition column's header, as the file writes it."""
+        return self.header[self.column]
 
 
 def composition_header(cell: str, elements: tuple[str, str]) -> tuple[str, str] | None:
@@ -59,99 +90,332 @@ def composition_header(cell: str, elements: tuple[str, str]) -> tuple[str, str] 
     return m.group(1).capitalize(), _BASIS[m.group(2).lower()]
 
 
-def _number(text: str, delimiter: str) -> float | None:
-    value = text.strip()
-    if delimiter != "," and value.count(",") == 1 and "." not in value:
-        value = value.replace(",", ".")          # a decimal comma where commas do not split cells
+def _open_error(path: Path, e: OSError) -> CommandError:
+    if isinstance(e, FileNotFoundError):
+        return CommandError(f"{quoted_path(path)}: no such file")
+    if isinstance(e, IsADirectoryError):
+        return CommandError(f"{quoted_path(path)}: is a folder, not a CSV file")
+    return CommandError(f"{quoted_path(path)}: cannot read: {e.strerror or e}")
+
+
+def _ascii_compatible(encoding: str) -> bool:
     try:
-        number = float(value)
-    except ValueError:
-        return None
-    return number if math.isfinite(number) else None
+        return "\n\r,;\t\"#".encode(encoding) == b"\n\r,;\t\"#"
+    except (LookupError, UnicodeError):
+        return False
 
 
-def read_heat_list(path: Path, elements: tuple[str, str]) -> HeatList:
-    """Read the heat list at `path` for a system of `elements` (the file is only read)."""
+def scan_heat_list(path: Path, encoding: str | None) -> FileScan:
+    """Read the whole file once: fingerprint, encoding (`encoding`, else UTF-8, else
+    Windows-1252) and line count. Refuses what is not a regular text file."""
+    if encoding is not None:
+        try:
+            encoding = codecs.lookup(encoding).name
+        except LookupError:
+            raise CommandError(f"--encoding {one_line(encoding)}: unknown encoding; e.g. utf-8, cp1252, latin-1") from None
+        if not _ascii_compatible(encoding):
+            raise CommandError(f"--encoding {encoding}: not readable here; ladle batch reads encodings that write "
+                               f"ASCII characters as single bytes (utf-8, cp1252, latin-1, ...)")
+    digest = hashlib.sha256()
+    utf8 = codecs.getincrementaldecoder(encoding or "utf-8")()
+    utf8_ok, cp1252_ok, lines, offset = True, True, 0, 0
+    try:
+        with open(path, "rb") as f:
+            st = os.fstat(f.fileno())
+            if not _is_regular(st.st_mode):
+                raise CommandError(f"{quoted_path(path)}: not a regular file (ladle batch reads the heat list twice)")
+            while block := f.read(_SCAN_BYTES):
+                digest.update(block)
+                if b"\0" in block:
+                    raise CommandError(f"{path.name}: not a text file (a NUL byte near byte {offset + block.index(0)})")
+                lines += line_count(block)
+                if utf8_ok:
+                    try:
+                        utf8.decode(block)
+                    except UnicodeDecodeError as e:
+                        utf8_ok, bad = False, offset + e.start
+                cp1252_ok = cp1252_ok and len(block.translate(None, _NOT_CP1252)) == len(block)
+                offset += len(block)
+            if utf8_ok:
+                try:
+                    utf8.decode(b"", final=True)
+                except UnicodeDecodeError:
+                    utf8_ok, bad = False, offset
+    except OSError as e:
+        raise _open_error(path, e) from None
+    if utf8_ok:
+        chosen = encoding or "utf-8"
+    elif encoding is not None:
+        raise CommandError(f"{path.name}: not {encoding} text (byte {bad}); name the file's encoding with --encoding")
+    elif cp1252_ok:
+        chosen = "cp1252"
+    else:
+        raise CommandError(f"{path.name}: neither UTF-8 nor Windows-1252 text (byte {bad}); name the file's "
+                           f"encoding with --encoding, e.g. --encoding latin-1")
+    return FileScan(offset, st.st_mtime_ns, digest.hexdigest(), chosen, lines)
+
+
+def _is_regular(mode: int) -> bool:
+    import stat
+
+    return stat.S_ISREG(mode)
+
+
+_LINE = re.compile(rb"([^\r\n]*)(\r\n|\r|\n|$)")
+
+
+def read_layout(path: Path, scan: FileScan, elements: tuple[str, str]) -> Layout:
+    """The header of the heat list at `path` (scanned as `scan`) for a system of `elements`."""
     name = path.name
     try:
-        text = path.read_text(encoding="utf-8-sig")
-    except FileNotFoundError:
-        raise CommandError(f"{path}: no such file") from None
-    except IsADirectoryError:
-        raise CommandError(f"{path}: is a folder, not a CSV file") from None
-    except UnicodeDecodeError:
-        raise CommandError(f"{name}: not a text file (expected UTF-8 CSV)") from None
+        with open(path, "rb") as f:
+            head = f.read(min(scan.size, 4 * _SCAN_BYTES))
     except OSError as e:
-        raise CommandError(f"{path}: cannot read: {e.strerror}") from None
-    first = next((line for line in text.splitlines() if line.strip() and not line.lstrip().startswith("#")), "")
-    if not first:
-        raise CommandError(f"{name}: empty file; expected a header such as 'heat,{elements[1]} wt%' and one row per heat")
-    delimiter = max(_DELIMITERS, key=first.count)
-    rows = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter)
-    header = [c.strip() for c in next(r for r in rows if any(c.strip() for c in r) and not _comment(r))]
-    found = [(i, composition_header(c, elements)) for i, c in enumerate(header)]
-    found = [(i, f) for i, f in found if f is not None]
+        raise _open_error(path, e) from None
+    offset, line = (3, 1) if head.startswith(codecs.BOM_UTF8) and scan.encoding == "utf-8" else (0, 1)
+    while True:
+        m = _LINE.match(head, offset)
+        if m is None or (offset >= len(head)):
+            raise CommandError(f"{name}: empty file; expected a header such as 'heat,{elements[1]} wt%' and one row per heat")
+        text = m.group(1).decode(scan.encoding, errors="replace")
+        offset, line = m.end(), line + 1
+        if text.strip() and not text.lstrip().startswith("#"):
+            break
+        if not m.group(2):
+            raise CommandError(f"{name}: empty file; expected a header such as 'heat,{elements[1]} wt%' and one row per heat")
+    delimiter = max(_DELIMITERS, key=text.count)
+    header = tuple(c.strip() for c in next(csv.reader([text], delimiter=delimiter)))
+    found = [(i, f) for i, f in ((i, composition_header(c, elements)) for i, c in enumerate(header)) if f is not None]
     if not found:
         raise CommandError(f"{name}: no composition column; expected a header such as '{elements[1]} wt%' or "
                            f"'{elements[0]} at%' (an element of {elements[0]}-{elements[1]} and wt% or at%)")
     if len(found) > 1:
         names = ", ".join(repr(header[i]) for i, _ in found)
-        raise CommandError(f"{name}: several composition columns ({names}); keep one")
+        raise CommandError(f"{one_line(name)}: several composition columns ({one_line(names)}); keep one")
     column, (element, basis) = found[0]
-    heats = []
-    for cells in rows:
-        line = rows.line_num
-        if not any(c.strip() for c in cells) or _comment(cells):
-            continue
-        heats.append(_heat(line, cells, header, column, delimiter))
-    if not heats:
+    id_column = next((i for i in range(len(header)) if i != column), None)
+    layout = Layout(name, scan.encoding, delimiter, header, column, element, basis, id_column, offset, line, False)
+    first = next(blocks(path, offset, line, scan.size), None)
+    rows = parse_block(layout, first.first_line, first.data) if first is not None else None
+    if rows is None or not rows.count:
         raise CommandError(f"{name}: a header but no heats")
-    return HeatList(path, delimiter, header, column, element, basis, heats)
+    return replace(layout, decimal_comma=delimiter != "," and _writes_decimal_comma(rows.raw, delimiter))
 
 
-def _comment(cells: list[str]) -> bool:
-    return bool(cells) and cells[0].lstrip().startswith("#")
+def _writes_decimal_comma(raw, delimiter: str) -> bool:
+    """Whether a file writes decimal commas, from its first block's composition cells: a comma
+    in a number says so, a point says not; whole numbers only: a ';'-separated file does."""
+    import numpy as np
+
+    if np.any(np.strings.find(raw, ",") >= 0):
+        return True
+    if np.any(np.strings.find(raw, ".") >= 0):
+        return False
+    return delimiter == ";"
 
 
-def _heat(line: int, cells: list[str], header: list[str], column: int, delimiter: str) -> Heat:
-    label = header[column]
-    if len(cells) > len(header):
-        return Heat(line, cells, None, f"{len(cells)} values but the header has {len(header)} columns")
-    cells = cells + [""] * (len(header) - len(cells))
-    raw = cells[column].strip()
-    if not raw:
-        return Heat(line, cells, None, f"no {label} value")
-    value = _number(raw, delimiter)
-    if value is None:
-        return Heat(line, cells, None, f"{label} {raw!r} is not a number")
-    if not 0.0 <= value <= 100.0:
-        return Heat(line, cells, None, f"{label} {raw} is outside 0-100 %")
-    return Heat(line, cells, value)
+class Block(NamedTuple):
+    """Whole rows of the heat list: the byte offset after them, the line they start on, the
+    line after them, and their bytes."""
+
+    end: int
+    first_line: int
+    next_line: int
+    data: bytes
+
+
+def line_count(data: bytes) -> int:
+    """Lines in `data` (ended by LF, CR LF or CR, as the CSV reader counts them)."""
+    if b"\r" not in data:
+        return data.count(b"\n")
+    return data.count(b"\n") + data.count(b"\r") - data.count(b"\r\n")
+
+
+def blocks(path: Path, offset: int, line: int, size: int, block_bytes: int = 1 << 20) -> Iterator[Block]:
+    """The data from byte `offset` (line `line`) to `size` in blocks of about `block_bytes`
+    that end at the end of a row (never inside a quoted cell)."""
+    try:
+        with open(path, "rb") as f:
+            f.seek(offset)
+            carry = b""
+            while offset < size:
+                data = carry + f.read(max(0, min(block_bytes, size - offset - len(carry))))
+                cut = _row_end(data, at_end=offset + len(data) >= size)
+                while cut is None:
+                    more = f.read(max(0, min(block_bytes, size - offset - len(data))))
+                    data += more
+                    cut = _row_end(data, at_end=offset + len(data) >= size or not more)
+                block, carry = data[:cut], data[cut:]
+                after = line + line_count(block)
+                yield Block(offset + len(block), line, after, block)
+                offset, line = offset + len(block), after
+    except OSError as e:
+        raise _open_error(path, e) from None
+
+
+def _row_end(data: bytes, at_end: bool) -> int | None:
+    """Length of the longest prefix of `data` made of whole rows, or None if none is complete
+    (all of `data` at the end of the file). A cut never falls inside a quoted cell (an odd
+    number of quotes before it) nor between the two characters of a CR LF."""
+    if at_end:
+        return len(data)
+    end = len(data) - 1                      # the last byte may be a CR whose LF is still to come
+    while True:
+        i = max(data.rfind(b"\n", 0, end), data.rfind(b"\r", 0, end))
+        if i < 0:
+            return None
+        if not (data[i:i + 2] == b"\r\n") and not data.count(b'"', 0, i + 1) % 2:
+            return i + 1
+        end = i
+
+
+@dataclass
+class Rows:
+    """The heats of one block, a column at a time (numpy arrays of one length): the line each
+    starts on, its cells (the header's number of them, padded), its number of cells, the
+    composition cell stripped (`raw`), whether the block holds quotes, each row's text where
+    it has none (else None), and whether a cell might start a formula."""
+
+    lines: "object"
+    cells: list
+    counts: "object"
+    raw: "object"
+    quoted: bool
+    text: "object | None"
+    formulas: bool
+
+    @property
+    def count(self) -> int:
+        return len(self.lines)
+
+
+def parse_block(layout: Layout, first_line: int, data: bytes) -> Rows:
+    """The heats of a block of whole rows starting at line `first_line` (blank and comment rows
+    left out)."""
+    import numpy as np
+    from numpy.dtypes import StringDType
+
+    text_dtype = StringDType()
+    width = len(layout.header)
+    text = data.decode(layout.encoding, errors="replace").replace("\r\n", "\n").replace("\r", "\n")
+    if '"' in text:
+        reader = csv.reader(io.StringIO(text, newline=""), delimiter=layout.delimiter)
+        rows, starts, at = [], [], first_line
+        for row in reader:
+            rows.append(row)
+            starts.append(at)
+            at = first_line + reader.line_num
+        counts = np.array([len(r) for r in rows], dtype=np.int64)
+        keep = np.array([any(c.strip() for c in r) and not r[0].lstrip().startswith("#") for r in rows], dtype=bool)
+        rows = [r for r, k in zip(rows, keep) if k]
+        cells = [np.array([r[i] if i < len(r) else "" for r in rows], dtype=text_dtype) for i in range(width)]
+        lines = np.array(starts, dtype=np.int64)[keep]
+        counts = counts[keep]
+        rest = None
+    else:
+        lines_text = text.split("\n")
+        if lines_text and lines_text[-1] == "":
+            lines_text.pop()
+        whole = rest = np.array(lines_text, dtype=text_dtype)
+        lines = first_line + np.arange(rest.size, dtype=np.int64)
+        delimiter = np.array(layout.delimiter, dtype=text_dtype)
+        counts = np.strings.count(rest, delimiter) + 1
+        cells = []
+        for _ in range(width):
+            cell, _sep, rest = np.strings.partition(rest, delimiter)
+            cells.append(cell)
+        blank = np.strings.strip(np.strings.replace(whole, delimiter, "")) == ""
+        keep = ~blank & ~np.strings.startswith(np.strings.lstrip(cells[0]), "#")
+        lines, counts, cells, rest = lines[keep], counts[keep], [c[keep] for c in cells], whole[keep]
+    quoted = '"' in text
+    return Rows(lines, cells, counts, np.strings.strip(cells[layout.column]), quoted, rest,
+                quoted or may_hold_formulas(text, layout.delimiter))
+
+
+def percentages(layout: Layout, rows: Rows) -> tuple["object", "object"]:
+    """(percent of the composition column's element, NaN where there is none; the reason a row
+    could not be read, "" where it could) for the rows of a block."""
+    import numpy as np
+    from numpy.dtypes import StringDType
+
+    raw = rows.raw
+    if layout.delimiter != ",":         # a decimal comma where commas do not split cells
+        comma = (np.strings.count(raw, ",") == 1) & (np.strings.find(raw, ".") < 0)
+        raw = np.where(comma, np.strings.replace(raw, ",", "."), raw)
+    percent, readable = _floats(raw)
+    reason = np.full(rows.count, "", dtype=StringDType())
+    label = layout.label
+    outside = readable & ~((percent >= 0.0) & (percent <= 100.0))
+    unreadable = ~readable & (rows.raw != "")
+    for k in np.flatnonzero(outside):
+        reason[k] = f"{label} {rows.raw[k]} is outside 0-100 %"
+    for k in np.flatnonzero(unreadable):
+        reason[k] = f"{label} {str(rows.raw[k])!r} is not a number"
+    reason[rows.raw == ""] = f"no {label} value"
+    too_many = rows.counts > len(layout.header)
+    for k in np.flatnonzero(too_many):
+        reason[k] = f"{rows.counts[k]} values but the header has {len(layout.header)} columns"
+    percent[reason != ""] = np.nan
+    return percent, reason
+
+
+def _floats(text) -> tuple["object", "object"]:
+    """(values, finite) of numbers written as text: each element read on its own (a bad one
+    does not spoil the others); NaN where not a finite number."""
+    import numpy as np
+
+    values = np.full(text.shape, np.nan)
+    pending = [np.arange(text.size)]
+    while pending:
+        index = pending.pop()
+        try:
+            values[index] = text[index].astype(float)
+        except ValueError:
+            if index.size > 1:
+                pending.extend(np.array_split(index, min(index.size, 16)))
+    finite = np.isfinite(values)
+    values[~finite] = np.nan
+    return values, finite
+
+
+def identifier_hashes(layout: Layout, rows: Rows) -> tuple["object", "object"]:
+    """(64-bit hashes of the rows' identifiers, stripped; whether the identifier is blank). The
+    hash (FNV-1a over the code points) is the same in every process, so that duplicates can be
+    found across blocks computed anywhere."""
+    import numpy as np
+
+    if layout.id_column is None:
+        return np.zeros(rows.count, dtype=np.uint64), np.zeros(rows.count, dtype=bool)
+    ids = np.strings.strip(rows.cells[layout.id_column])
+    lengths = np.strings.str_len(ids)
+    h = np.full(ids.size, 0xCBF29CE484222325, dtype=np.uint64)
+    short = np.flatnonzero(lengths <= _HASHED_WIDTH)
+    width = int(lengths[short].max()) if short.size else 0
+    if width:
+        points = ids[short].astype(f"U{width}").view(np.uint32).reshape(short.size, width).astype(np.uint64)
+        mixed = h[short]
+        prime = np.uint64(0x100000001B3)
+        with np.errstate(over="ignore"):
+            for j in range(width):
+                mixed = (mixed ^ points[:, j]) * prime
+            h[short] = (mixed ^ lengths[short].astype(np.uint64)) * prime
+    for k in np.flatnonzero(lengths > _HASHED_WIDTH):      # rare: long identifiers, one at a time
+        digest = hashlib.blake2b(str(ids[k]).encode("utf-8", "surrogatepass"), digest_size=8).digest()
+        h[k] = int.from_bytes(digest, "little")
+    return h, ids == ""
 
 
 def parse_temperature_difference(text: str, default_unit: str) -> tuple[float, str]:
     """A temperature difference such as '60C', '60 K', '108F' or '60' (in `default_unit`):
-    (kelvins, the unit written)."""
+    (kelvins, the unit written); refused above MAX_SUPERHEAT_K."""
     m = _TEMPERATURE_DIFFERENCE.match(text or "")
     if not m:
-        raise CommandError(f"cannot read superheat {text!r}; expected a positive number of degrees with an optional "
-                           f"unit C, K or F, e.g. 60C")
+        raise CommandError(f"cannot read superheat {one_line(repr(text))}; expected a positive number of degrees with "
+                           f"an optional unit C, K or F, e.g. 60C")
     unit = (m.group(2) or default_unit).replace("°", "").strip().upper()
     value = float(m.group(1))
-    return (value * 5.0 / 9.0 if unit == "F" else value), unit
-
-
-def write_csv_atomically(path: Path, rows: list[list[str]], delimiter: str, force: bool, source: Path) -> None:
-    """Write `rows` to `path` through a temporary file in the same folder and one rename, so
-    that a reader never sees half a file. An existing file is replaced only with `force`; the
-    heat list itself never."""
-    if path.exists() and source.exists() and path.resolve() == source.resolve():
-        raise CommandError(f"{path}: is the heat list itself; write the results to another file")
-    if path.exists() and not force:
-        raise CommandError(f"{path}: exists already; choose another name or add --force to replace it")
-    text = io.StringIO()
-    csv.writer(text, delimiter=delimiter, lineterminator="\n").writerows(rows)
-    try:
-        write_atomic(path, text.getvalue())
-    except OSError as e:
-        raise CommandError(f"{path}: cannot write: {e.strerror}") from None
+    kelvins = value * 5.0 / 9.0 if unit == "F" else value
+    if not math.isfinite(kelvins) or kelvins > MAX_SUPERHEAT_K:
+        raise CommandError(f"superheat {one_line(text)} is more than {MAX_SUPERHEAT_K:g} K ({1.8 * MAX_SUPERHEAT_K:g} F) "
+                           f"above the liquidus; no casting practice pours that hot (expected e.g. 60C)")
+    return kelvins, unit

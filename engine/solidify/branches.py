@@ -187,26 +187,37 @@ class Branch:
 
 def invert_hermite(y: np.ndarray, values: np.ndarray, derivatives: np.ndarray, target: np.ndarray) -> np.ndarray:
     """The y where the Hermite curve through (y, values) with slopes `derivatives` equals
-    `target`; the values must be monotone. Targets outside their range give NaN."""
+    `target`; the values must be monotone. Targets outside their range give NaN.
+
+    Each target is iterated until its own Newton step is below 1e-14 (relative), so its answer
+    does not depend on the other targets of the call."""
     target = np.asarray(target, dtype=float)
     sign = 1.0 if values[-1] > values[0] else -1.0
     k = np.searchsorted(sign * values, sign * target, side="right") - 1
     inside = ((k >= 0) & (k < len(values) - 1)) | (target == values[-1])
-    k = np.clip(k, 0, len(values) - 2)
+    answer = np.full(target.shape, np.nan)
+    target = target[inside]
+    k = np.clip(k[inside], 0, len(values) - 2)
     y0, y1 = y[k], y[k + 1]
     f0, f1 = values[k], values[k + 1]
+    d0, d1 = derivatives[k], derivatives[k + 1]
     with np.errstate(divide="ignore", invalid="ignore"):
         guess = np.where(f1 != f0, y0 + (target - f0) / (f1 - f0) * (y1 - y0), y0)
     lo, hi = np.minimum(y0, y1), np.maximum(y0, y1)
     guess = np.clip(guess, lo, hi)
+    active = np.arange(guess.size)
     for _ in range(30):
-        v, s = hermite(y0, y1, f0, f1, derivatives[k], derivatives[k + 1], guess)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            step = np.where(s != 0, (v - target) / s, 0.0)
-        guess = np.clip(guess - step, lo, hi)
-        if np.all(np.abs(step) < 1e-14 * (1.0 + np.abs(guess))):
+        if not active.size:
             break
-    return np.where(inside, guess, np.nan)
+        g = guess[active]
+        v, s = hermite(y0[active], y1[active], f0[active], f1[active], d0[active], d1[active], g)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            step = np.where(s != 0, (v - target[active]) / s, 0.0)
+        g = np.clip(g - step, lo[active], hi[active])
+        guess[active] = g
+        active = active[np.abs(step) >= 1e-14 * (1.0 + np.abs(g))]
+    answer[inside] = guess
+    return answer
 
 
 # --- tracing --------------------------------------------------------------------------------------

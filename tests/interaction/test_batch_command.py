@@ -1,5 +1,7 @@
 """`ladle batch` as a user runs it: a heat list with good and bad rows, output files that are
-never overwritten unasked, other separators and units, and the shipped demo heat list."""
+never overwritten unasked, other separators, encodings and units, identifiers that are blank,
+repeated or would be spreadsheet formulas, and the shipped demo heat list. (Running at scale:
+test_batch_scale.py.)"""
 
 from __future__ import annotations
 
@@ -56,7 +58,7 @@ def test_good_rows_get_their_values_and_every_bad_row_is_named(heat_list, capsys
         scheil = ScheilCooling(system, _x_si(wt)).path()
         assert float(r["scheil_end_C"]) == pytest.approx(kelvin_to(scheil.end_K, "C"), abs=0.051)
         eutectic = next(c.mass_fraction for c in scheil.constituents if c.name.startswith("eutectic"))
-        assert float(r["eutectic_scheil_wt%"]) == pytest.approx(100 * eutectic, abs=0.0051)
+        assert float(r["eutectic_scheil_mass%_of_alloy"]) == pytest.approx(100 * eutectic, abs=0.0051)
         assert float(r["pouring_C"]) == pytest.approx(float(r["liquidus_C"]) + 60.0, abs=0.11)
         assert r["note"] == ""
     reasons = {"A2": "no Si wt% value", "A3": "Si wt% 'abc' is not a number", "A4": "Si wt% 150 is outside 0-100 %",
@@ -66,6 +68,7 @@ def test_good_rows_get_their_values_and_every_bad_row_is_named(heat_list, capsys
         assert r["liquidus_C"] == r["solidus_C"] == r["pouring_C"] == ""
     err = captured.err.splitlines()
     assert err[0] == "ladle batch: 2 of 6 heats computed"
+    assert err[1] == "ladle batch: 4 row(s) not computed (the note column says why):"
     assert err[2:] == [f"  line {line}: {reasons[h]}" for line, h in ((3, "A2"), (4, "A3"), (5, "A4"), (6, "A5"))]
 
 
@@ -74,7 +77,7 @@ def test_output_file_is_written_whole_and_never_overwritten_unasked(heat_list, t
     out = tmp_path / "results.csv"
     assert main(["batch", "al-si", str(heat_list), "-o", str(out)]) == 1
     assert len(_rows(out.read_text())) == 6
-    assert not [p for p in tmp_path.iterdir() if p.name.endswith(".part")]
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["heats.csv", "results.csv"]     # no partial, no state
     out.write_text("keep me\n")
     with pytest.raises(SystemExit) as e:
         main(["batch", "al-si", str(heat_list), "-o", str(out)])
@@ -90,15 +93,88 @@ def test_output_file_is_written_whole_and_never_overwritten_unasked(heat_list, t
     assert heat_list.read_bytes() == before
 
 
+def _number(text: str) -> float:
+    return float(text.replace(",", "."))
+
+
 def test_semicolons_decimal_commas_the_other_element_and_units(tmp_path, capsys):
     path = tmp_path / "heats.csv"
     path.write_text("heat;Al (wt%)\nB1;93,0\n")
     assert main(["batch", "al-si", str(path), "--superheat", "108F"]) == 0
     (row,) = _rows(capsys.readouterr().out, ";")
     m = melt_range(find_system("al-si"), _x_si(7.0))
-    assert float(row["liquidus_F"]) == pytest.approx(kelvin_to(m.liquidus_K, "F"), abs=0.051)
-    assert float(row["pouring_F"]) == pytest.approx(float(row["liquidus_F"]) + 108.0, abs=0.11)
-    assert float(row["freezing_range_F"]) == pytest.approx(1.8 * (m.liquidus_K - m.solidus_K), abs=0.051)
+    # the answer is written in the file's convention: decimal commas
+    assert "," in row["liquidus_F"] and "." not in row["liquidus_F"]
+    assert _number(row["liquidus_F"]) == pytest.approx(kelvin_to(m.liquidus_K, "F"), abs=0.051)
+    assert _number(row["pouring_F"]) == pytest.approx(_number(row["liquidus_F"]) + 108.0, abs=1e-9)
+    assert _number(row["freezing_range_F"]) == pytest.approx(1.8 * (m.liquidus_K - m.solidus_K), abs=0.051)
+
+
+def test_semicolons_with_decimal_points_keep_points(tmp_path, capsys):
+    path = tmp_path / "heats.csv"
+    path.write_text("heat;Si wt%\nB1;7.0\n")
+    assert main(["batch", "al-si", str(path)]) == 0
+    (row,) = _rows(capsys.readouterr().out, ";")
+    assert row["liquidus_C"] == "617.0" or ("." in row["liquidus_C"] and "," not in row["liquidus_C"])
+
+
+def test_a_windows_1252_export_is_read_and_answered_in_its_encoding(tmp_path, capsys):
+    path = tmp_path / "heats.csv"
+    path.write_bytes("Nº;Si wt%\nH1;7,0\n".encode("cp1252"))
+    out = tmp_path / "out.csv"
+    assert main(["batch", "al-si", str(path), "-o", str(out)]) == 0
+    text = out.read_bytes()
+    assert text.startswith("Nº;Si wt%;liquidus_C".encode("cp1252"))
+    (row,) = _rows(text.decode("cp1252"), ";")
+    assert row["Nº"] == "H1"
+    assert _number(row["liquidus_C"]) == pytest.approx(kelvin_to(melt_range(find_system("al-si"), _x_si(7.0)).liquidus_K, "C"), abs=0.051)
+
+
+def test_an_undecodable_file_names_the_encoding_option(tmp_path, capsys):
+    path = tmp_path / "heats.csv"
+    path.write_bytes(b"heat,Si wt%\nH\x81\xc3,7\n")          # 0x81 is undefined in Windows-1252
+    with pytest.raises(SystemExit) as e:
+        main(["batch", "al-si", str(path)])
+    assert e.value.code == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and "--encoding" in err
+    out = tmp_path / "out.csv"
+    assert main(["batch", "al-si", str(path), "--encoding", "latin-1", "-o", str(out)]) == 0
+    assert out.read_bytes().splitlines()[1].startswith(b"H\x81\xc3,7,")
+
+
+def test_blank_and_repeated_identifiers_are_warned_about_and_kept(tmp_path, capsys):
+    path = tmp_path / "heats.csv"
+    path.write_text("heat,Si wt%\nA,7\n,8\nB,9\nA,10\n  ,11\nB,12\n")
+    assert main(["batch", "al-si", str(path)]) == 0
+    captured = capsys.readouterr()
+    assert [r["Si wt%"] for r in _rows(captured.out)] == ["7", "8", "9", "10", "11", "12"]
+    err = captured.err.splitlines()
+    assert "ladle batch: warning: 2 heat(s) without an identifier (kept): line 3, line 6" in err
+    assert "ladle batch: warning: 2 heat(s) repeat an earlier identifier (kept): line 5 (as line 2), line 7 (as line 4)" in err
+
+
+def test_rounded_columns_agree_with_each_other(tmp_path, capsys):
+    # rounded once: liquidus - solidus is the range column and pouring - liquidus the superheat
+    values = np.random.default_rng(11).uniform(0.5, 30.0, 3000)
+    path = tmp_path / "heats.csv"
+    path.write_text("heat,Si wt%\n" + "".join(f"R{i},{v:.4f}\n" for i, v in enumerate(values)))
+    for unit in ("C", "F", "K"):
+        assert main(["batch", "al-si", str(path), "--superheat", "57.3C", "--unit", unit]) == 0
+        rows = _rows(capsys.readouterr().out)
+        tenths = {k: np.array([round(float(r[f"{k}_{unit}"]) * 10) for r in rows])
+                  for k in ("liquidus", "solidus", "freezing_range", "pouring")}
+        assert np.array_equal(tenths["liquidus"] - tenths["solidus"], tenths["freezing_range"])
+        superheat = round(57.3 * (1.8 if unit == "F" else 1.0) * 10)
+        assert np.array_equal(tenths["pouring"] - tenths["liquidus"], np.full(len(rows), superheat))
+
+
+def test_identifiers_a_spreadsheet_would_evaluate_are_neutralised(tmp_path, capsys):
+    path = tmp_path / "heats.csv"
+    path.write_text("heat,Si wt%\n=1+1,7\n\"+cmd|' /C calc'!A0\",7\n@SUM(1+1),7\n-2+3,7\n-5,7\nD-1,7\n")
+    assert main(["batch", "al-si", str(path)]) == 0
+    heats = [r["heat"] for r in _rows(capsys.readouterr().out)]
+    assert heats == ["'=1+1", "'+cmd|' /C calc'!A0", "'@SUM(1+1)", "'-2+3", "-5", "D-1"]
 
 
 def test_melt_only_and_compositions_outside_the_model(tmp_path, capsys):
@@ -137,7 +213,37 @@ def test_bad_superheat_and_missing_file(tmp_path, capsys):
         with pytest.raises(SystemExit) as e:
             main(["batch", "al-si", str(tmp_path / "h.csv"), bad])
         assert e.value.code == 2
-        assert f"cannot read superheat '{bad.split('=')[1]}'" in capsys.readouterr().err
+        assert "cannot read superheat" in capsys.readouterr().err
+    # bounded to something physical: 500 K above the liquidus at most
+    for bad in ("--superheat=1000000000C", "--superheat=501K", "--superheat=901F", "--superheat=" + "9" * 400):
+        with pytest.raises(SystemExit) as e:
+            main(["batch", "al-si", str(tmp_path / "h.csv"), bad])
+        assert e.value.code == 2
+        err = capsys.readouterr().err
+        assert "more than 500 K (900 F) above the liquidus" in err and err.count("\n") == 1
+    assert main(["batch", "al-si", str(tmp_path / "h.csv"), "--superheat=900F"]) == 1
+
+
+def test_a_row_that_could_not_be_computed_counts_as_bad(tmp_path, capsys, monkeypatch):
+    # a system whose mapped window ends before the alloy is solid: the solidus is missing
+    from ladle.engine.solidify.table import CompositionTable
+
+    evaluate = CompositionTable.evaluate
+
+    def window_too_short(self, x_B, scheil):
+        r = evaluate(self, x_B, scheil)
+        return type(r)(r.liquidus_K, np.where(x_B > 0.1, np.nan, r.solidus_K), r.eutectic_equilibrium,
+                       r.scheil_end_K, r.eutectic_scheil)
+
+    monkeypatch.setattr(CompositionTable, "evaluate", window_too_short)
+    path = tmp_path / "heats.csv"
+    path.write_text("heat,Si at%\nL,5\nH,20\n")
+    assert main(["batch", "al-si", str(path)]) == 1
+    captured = capsys.readouterr()
+    rows = _rows(captured.out)
+    assert rows[0]["note"] == "" and rows[1]["note"] == "not fully solid at the bottom of the mapped window"
+    assert rows[1]["solidus_C"] == rows[1]["freezing_range_C"] == "" and rows[1]["liquidus_C"] != ""
+    assert "line 3: not fully solid at the bottom of the mapped window" in captured.err
 
 
 def test_the_shipped_demo_heat_list(capsys):
@@ -152,3 +258,11 @@ def test_the_shipped_demo_heat_list(capsys):
     assert captured.err.splitlines()[-1] == "  line 13: no Si wt% value"
     # Al-Si eutectic at 577 C: T.B. Massalski (ed.), Binary Alloy Phase Diagrams, 2nd ed. (1990)
     assert all(abs(float(r["scheil_end_C"]) - 577.0) < 3.0 for r in rows if not r["note"])
+
+
+def test_outputs_that_are_not_regular_files_are_refused(tmp_path, capsys):
+    (tmp_path / "h.csv").write_text(HEATS)
+    with pytest.raises(SystemExit) as e:
+        main(["batch", "al-si", str(tmp_path / "h.csv"), "-o", "/dev/null", "--force"])
+    assert e.value.code == 2
+    assert "/dev/null: not a regular file" in capsys.readouterr().err

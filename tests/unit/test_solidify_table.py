@@ -15,7 +15,8 @@ from ladle.engine.diagrams.melt import melt_range
 from ladle.engine.solidify.paths import solidify
 from ladle.engine.solidify.table import composition_table
 from ladle.tui.errors import CommandError
-from ladle.tui.heatlist import composition_header, parse_temperature_difference, read_heat_list
+from ladle.tui.heatlist import (blocks, composition_header, parse_block, parse_temperature_difference, percentages,
+                                read_layout, scan_heat_list)
 
 
 @pytest.mark.parametrize("name", ["pb-sn", "cu-zn", "al-cu"])
@@ -86,13 +87,38 @@ def test_superheat_is_a_temperature_difference(text, unit, kelvins):
     assert parse_temperature_difference(text, default) == (pytest.approx(kelvins), unit)
 
 
+def _read(path, elements=("Al", "Si"), block_bytes=1 << 20):
+    """(layout, [(line, cells, percent, reason)]) of a heat list read block by block."""
+    scan = scan_heat_list(path, None)
+    layout = read_layout(path, scan, elements)
+    heats = []
+    for block in blocks(path, layout.data_offset, layout.data_line, scan.size, block_bytes):
+        rows = parse_block(layout, block.first_line, block.data)
+        percent, reason = percentages(layout, rows)
+        heats += [(int(rows.lines[k]), [str(c[k]) for c in rows.cells], None if math.isnan(percent[k]) else float(percent[k]),
+                   str(reason[k]) or None) for k in range(rows.count)]
+    return layout, heats
+
+
 def test_reader_keeps_line_numbers_past_comments_and_quoted_cells(tmp_path):
     path = tmp_path / "h.csv"
     path.write_text('# invented\nheat,"Si wt%"\n"A, first",7.5\n\nB,x\n')
-    heats = read_heat_list(path, ("Al", "Si"))
-    assert (heats.column, heats.element, heats.basis) == (1, "Si", "wt")
-    assert [(h.line, h.cells[0], h.percent, h.problem) for h in heats.heats] == [
-        (3, "A, first", 7.5, None), (5, "B", None, "Si wt% 'x' is not a number")]
+    layout, heats = _read(path)
+    assert (layout.column, layout.element, layout.basis) == (1, "Si", "wt")
+    assert heats == [(3, ["A, first", "7.5"], 7.5, None), (5, ["B", "x"], None, "Si wt% 'x' is not a number")]
     with pytest.raises(CommandError, match="not a text file"):
         (tmp_path / "b.csv").write_bytes(b"\xff\xfe\x00bad")
-        read_heat_list(tmp_path / "b.csv", ("Al", "Si"))
+        scan_heat_list(tmp_path / "b.csv", None)
+
+
+def test_blocks_end_at_row_ends_whatever_their_size(tmp_path):
+    """Cut into blocks of any size, a list with CR LF and CR line ends, a quoted cell spanning
+    two lines and comments reads the same rows on the same lines."""
+    path = tmp_path / "h.csv"
+    path.write_bytes(b'heat,Si wt%\r\nA,7\r\n"B\r\nsecond line",8\r\n# note\rC,9\rD,1,2\n\nE,\n')
+    whole = _read(path)[1]
+    assert [(h[0], h[1][0], h[2], h[3]) for h in whole] == [
+        (2, "A", 7.0, None), (3, "B\nsecond line", 8.0, None), (6, "C", 9.0, None),
+        (7, "D", None, "3 values but the header has 2 columns"), (9, "E", None, "no Si wt% value")]
+    for size in (1, 2, 3, 5, 8, 13):
+        assert _read(path, block_bytes=size)[1] == whole

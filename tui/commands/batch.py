@@ -1,22 +1,37 @@
-"""`ladle batch`: melt ranges, Scheil ends and pouring temperatures of every heat of a heat list."""
+"""`ladle batch`: melt ranges, Scheil ends and pouring temperatures of every heat of a heat list,
+in bounded memory, on every core or on a Dask cluster, resumable after an interruption."""
 
 from __future__ import annotations
 
 import argparse
+import os
+import signal
 import sys
 from pathlib import Path
 
 from ..errors import CommandError
-from ..heatlist import HeatList, parse_temperature_difference, read_heat_list, write_csv_atomically
-from .common import add_system_argument, coverage_problem, open_system
+from ..quote import one_line, quoted_path
+from .common import add_system_argument
 
 HELP = ("liquidus, solidus, freezing range, Scheil end, eutectic and pouring temperature of every heat "
         "in a CSV heat list (exit status 1 when some rows could not be computed)")
 
-#: Heats evaluated between two updates of the progress bar.
-CHUNK = 2000
-#: Bad rows listed one by one in the summary on stderr.
-LISTED_PROBLEMS = 20
+
+def _workers(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number of worker processes, not {text!r}") from None
+    if value <= 0:
+        raise argparse.ArgumentTypeError(f"expected 1 or more worker processes, not {value}")
+    return value
+
+
+def _cores() -> int:
+    try:
+        return len(os.sched_getaffinity(0))
+    except AttributeError:
+        return os.cpu_count() or 1
 
 
 def add_arguments(p: argparse.ArgumentParser) -> None:
@@ -24,135 +39,109 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
     p.add_argument("file", metavar="FILE.csv",
                    help="the heats: an identifier column and one composition column such as 'Si wt%%' (only read)")
     p.add_argument("--superheat", metavar="DT",
-                   help="adds pouring = liquidus + DT, e.g. 60C or 100F: your shop's rule, not ladle's advice")
+                   help="adds pouring = liquidus + DT, e.g. 60C or 100F (at most 500 K): your shop's rule, not ladle's advice")
     p.add_argument("--melt-only", action="store_true", help="melt ranges only, without the Scheil columns")
     p.add_argument("--unit", choices=("C", "K", "F"),
                    help="temperature unit of the results (default: the superheat's unit, else C)")
-    p.add_argument("-o", "--output", metavar="OUT.csv", help="write the results here (atomically) instead of to standard output")
+    p.add_argument("-o", "--output", metavar="OUT.csv", help="write the results here (whole, at the end) instead of to standard output")
     p.add_argument("--force", action="store_true", help="replace OUT.csv if it exists")
-
-
-class _Progress:
-    """A one-line bar on stderr, drawn only when stderr is a terminal."""
-
-    WIDTH = 30
-
-    def __init__(self, total: int) -> None:
-        self.total = max(total, 1)
-        self.enabled = sys.stderr.isatty()
-
-    def show(self, done: int, what: str) -> None:
-        if self.enabled:
-            filled = self.WIDTH * done // self.total
-            sys.stderr.write(f"\rladle batch: [{'#' * filled}{'.' * (self.WIDTH - filled)}] {done}/{self.total} {what}  ")
-            sys.stderr.flush()
-
-    def close(self) -> None:
-        if self.enabled:
-            sys.stderr.write("\r" + " " * (self.WIDTH + 60) + "\r")
-            sys.stderr.flush()
+    p.add_argument("--encoding", metavar="NAME",
+                   help="the heat list's encoding (default: UTF-8, else Windows-1252); the results use the same")
+    p.add_argument("--workers", type=_workers, default=None, metavar="N",
+                   help=f"worker processes on this machine (default: its cores, {_cores()} here)")
+    p.add_argument("--cluster", metavar="ADDRESS",
+                   help="compute on a Dask cluster instead, e.g. tcp://10.0.0.5:8786 (needs the 'cluster' extra)")
+    p.add_argument("--resume", action="store_true",
+                   help="continue a run to OUT.csv that was interrupted (Ctrl-C, SIGTERM, a dropped session)")
 
 
 def run(args: argparse.Namespace) -> int:
-    system = open_system(args.system)
+    from ..heat_results import BlockJob
+    from ..heatlist import parse_temperature_difference, read_layout, scan_heat_list
+    from ..heatlist_runs import Interrupted, Plan
+    from ..heatlist_runs import run as run_plan
+    from .common import open_system
+
     source = Path(args.file)
     output = Path(args.output) if args.output else None
     superheat = parse_temperature_difference(args.superheat, args.unit or "C") if args.superheat else None
     unit = args.unit or (superheat[1] if superheat else "C")
-    if output is not None and output.exists() and not args.force:
-        raise CommandError(f"{output}: exists already; choose another name or add --force to replace it")
-    heats = read_heat_list(source, system.elements)
-    rows, problems = compute(system, heats, unit, superheat[0] if superheat else None, not args.melt_only)
+    if args.cluster is not None and args.workers is not None:
+        raise CommandError("--workers and --cluster exclude each other (the cluster's workers compute)")
+    if args.resume and output is None:
+        raise CommandError("--resume continues a run that writes a file: give its -o OUT.csv")
+    _check_output(output, args.force, source)
+    system = open_system(args.system, args.without)
+    if len(system.elements) != 2:
+        raise CommandError(f"heat lists take binary systems for now; {system.name} has {len(system.elements)} elements")
+    scan = scan_heat_list(source, args.encoding)
+    layout = read_layout(source, scan, system.elements)
+
+    from ladle.engine.solidify.table import composition_table
+
+    job = BlockJob(layout, composition_table(system), unit, superheat[0] if superheat else None, not args.melt_only)
+    options = {"system": system.name, "without": sorted(args.without), "unit": unit,
+               "superheat_K": job.superheat_K, "scheil": job.scheil, "encoding": layout.encoding}
+    plan = Plan(source, scan, job, output, args.force, args.resume, args.workers or _cores(), args.cluster, options)
+    try:
+        totals = run_plan(plan, _note)
+    except Interrupted as stop:
+        name = signal.Signals(stop.args[0]).name
+        _note(f"stopped by {name}; the same command with --resume continues it" if output is not None
+              else f"stopped by {name}")
+        return 128 + stop.args[0]
+    report(totals, output)
+    return 1 if totals.problems else 0
+
+
+def _check_output(output: Path | None, force: bool, source: Path) -> None:
+    """Refuse an output that is the heat list, that exists (without --force) or that is not a
+    regular file (a device, a FIFO, a folder)."""
     if output is None:
-        import csv
+        return
+    from ladle.engine.files.atomic_files import refuse_unless_regular
 
-        csv.writer(sys.stdout, delimiter=heats.delimiter, lineterminator="\n").writerows(rows)
-    else:
-        write_csv_atomically(output, rows, heats.delimiter, args.force, source)
-    report(len(heats.heats), problems, output)
-    return 1 if problems else 0
-
-
-def compute(system, heats: HeatList, unit: str, superheat_K: float | None, scheil: bool) -> tuple[list[list[str]], list[tuple[int, str]]]:
-    """The output rows (header first: the heat list's own columns, then the results) and the
-    (line, reason) of every heat that could not be computed."""
-    import numpy as np
-
-    from ladle.engine.solidify_table import composition_table
-    from ladle.engine.units import kelvin_to
-
-    from ..parsing import fractions_of_B
-
-    progress = _Progress(len(heats.heats))
-    elements = system.elements
-    percent = np.array([h.percent if h.problem is None else np.nan for h in heats.heats])
-    x_b = fractions_of_B(percent, heats.element, heats.basis, elements, system.molar_mass)
-    problems = {h.line: h.problem for h in heats.heats if h.problem is not None}
-    for h, x in zip(heats.heats, x_b):
-        problem = None if h.problem else coverage_problem(
-            system, float(x), f"{heats.header[heats.column]} {h.cells[heats.column].strip()}")
-        if problem:
-            problems[h.line] = problem
-    ok = np.array([h.line not in problems for h in heats.heats], dtype=bool)
-    progress.show(0, "tracing the diagram")
-    table = composition_table(system)
-    n = len(heats.heats)
-    results = {name: np.full(n, np.nan) for name in ("liquidus", "solidus", "eu_eq", "end", "eu_scheil")}
-    index = np.flatnonzero(ok)
-    for start in range(0, len(index), CHUNK):
-        part = index[start:start + CHUNK]
-        r = table.evaluate(x_b[part], scheil)
-        for name, values in zip(results, (r.liquidus_K, r.solidus_K, r.eutectic_equilibrium, r.scheil_end_K,
-                                          r.eutectic_scheil)):
-            results[name][part] = values
-        progress.show(start + len(part), "heats")
-    progress.close()
-
-    offset, scale = kelvin_to(0.0, unit), kelvin_to(1.0, unit) - kelvin_to(0.0, unit)
-
-    def degrees(T: float) -> str:
-        return "" if np.isnan(T) else f"{offset + scale * T:.1f}"
-
-    def wt_percent(f: float) -> str:
-        return "" if np.isnan(f) else f"{100.0 * f:.2f}"
-
-    header = list(heats.header) + [f"liquidus_{unit}", f"solidus_{unit}", f"freezing_range_{unit}"]
-    if scheil:
-        header += [f"scheil_end_{unit}", "eutectic_scheil_wt%"]
-    header += ["eutectic_equilibrium_wt%"] + ([f"pouring_{unit}"] if superheat_K is not None else []) + ["note"]
-    rows = [header]
-    for k, h in enumerate(heats.heats):
-        liquidus, solidus = results["liquidus"][k], results["solidus"][k]
-        cells = list(h.cells[:len(heats.header)])
-        note = problems.get(h.line, "")
-        if not note:
-            notes = []
-            if np.isnan(liquidus):
-                notes.append("not fully liquid at the top of the mapped window")
-            if np.isnan(solidus):
-                notes.append("not fully solid at the bottom of the mapped window")
-            if scheil and np.isnan(results["end"][k]):
-                notes.append("Scheil: liquid left at the bottom of the mapped window")
-            note = "; ".join(notes)
-        cells += [degrees(liquidus), degrees(solidus), "" if np.isnan(liquidus - solidus) else f"{scale * (liquidus - solidus):.1f}"]
-        if scheil:
-            cells += [degrees(results["end"][k]), wt_percent(results["eu_scheil"][k])]
-        cells.append(wt_percent(results["eu_eq"][k]))
-        if superheat_K is not None:
-            cells.append(degrees(liquidus + superheat_K))
-        cells.append(note)
-        rows.append(cells)
-    return rows, sorted(problems.items())
+    if not os.path.lexists(output):
+        return
+    if source.exists() and output.resolve() == source.resolve():
+        raise CommandError(f"{quoted_path(output)}: is the heat list itself; write the results to another file")
+    refuse_unless_regular(output)
+    if not force:
+        raise CommandError(f"{quoted_path(output)}: exists already; choose another name or add --force to replace it")
 
 
-def report(total: int, problems: list[tuple[int, str]], output: Path | None) -> None:
-    """The summary on stderr: how many heats were computed, and why the others were not."""
-    done = total - len(problems)
-    where = f"; written to {output}" if output is not None else ""
-    print(f"ladle batch: {done} of {total} heats computed{where}", file=sys.stderr)
-    if problems:
-        print(f"ladle batch: {len(problems)} row(s) skipped (the note column says why):", file=sys.stderr)
-        for line, reason in problems[:LISTED_PROBLEMS]:
-            print(f"  line {line}: {reason}", file=sys.stderr)
-        if len(problems) > LISTED_PROBLEMS:
-            print(f"  ... and {len(problems) - LISTED_PROBLEMS} more", file=sys.stderr)
+def _note(text: str) -> None:
+    try:
+        print(f"ladle batch: {one_line(text)}", file=sys.stderr)
+    except OSError:           # no terminal any more (a dropped session)
+        pass
+
+
+def report(totals, output: Path | None) -> None:
+    """The summary on stderr: how many heats were computed, why the others were not, and the
+    heats without an identifier or with one that repeats."""
+    done = totals.heats - totals.problems
+    where = f"; written to {quoted_path(output)}" if output is not None else ""
+    lines = [f"ladle batch: {done} of {totals.heats} heats computed{where}"]
+    if totals.problems:
+        lines.append(f"ladle batch: {totals.problems} row(s) not computed (the note column says why):")
+        lines += [f"  line {line}: {one_line(reason)}" for line, reason in totals.listed]
+        if totals.problems > len(totals.listed):
+            lines.append(f"  ... and {totals.problems - len(totals.listed)} more")
+    if totals.blank_ids:
+        lines.append(f"ladle batch: warning: {totals.blank_ids} heat(s) without an identifier (kept): "
+                     + ", ".join(f"line {n}" for n in totals.blank_listed)
+                     + (" ..." if totals.blank_ids > len(totals.blank_listed) else ""))
+    if totals.duplicates:
+        lines.append(f"ladle batch: warning: {totals.duplicates} heat(s) repeat an earlier identifier (kept): "
+                     + ", ".join(f"line {n} (as line {m})" for n, m in totals.duplicate_listed)
+                     + (" ..." if totals.duplicates > len(totals.duplicate_listed) else ""))
+    if totals.duplicate_check_full:
+        from ..heatlist_runs import DUPLICATE_CHECK_LIMIT
+
+        lines.append(f"ladle batch: note: identifiers were checked for repeats among the first "
+                     f"{DUPLICATE_CHECK_LIMIT:,} heats only")
+    try:
+        print("\n".join(lines), file=sys.stderr)
+    except OSError:
+        pass

@@ -1,0 +1,479 @@
+"""Running a heat list at any size: blocks of rows computed by this process, by local worker
+processes or by a Dask cluster, and written in input order.
+
+Memory stays bounded: only a window of blocks is in flight (a few per worker), and what is kept
+per heat is 16 bytes for the duplicate-identifier check (up to DUPLICATE_CHECK_LIMIT heats).
+With `-o`, the rows go to a partial file beside the output (`.NAME.ladle-partial`) that is
+renamed into place at the end, so the output appears whole or not at all; a state file beside
+it (`.NAME.ladle-state.json`) records after each block how far the run got, so that a run
+stopped by Ctrl-C, SIGTERM or a dropped SSH session (SIGHUP) continues with `--resume`,
+computing only the blocks not yet written.
+"""
+
+from __future__ import annotations
+
+import fcntl
+import json
+import os
+import signal
+import sys
+import time
+from collections import deque
+from collections.abc import Callable, Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from ladle.engine.files.atomic_files import write_atomic
+
+from .errors import CommandError
+from .heat_results import LISTED, BlockJob, BlockResult, compute_block, identifiers
+from .heatlist import Block, FileScan, blocks
+from .quote import quoted_path
+
+#: Bytes of the heat list per block (about 60,000 rows of a short list); a block is the unit
+#: of work sent to a worker and of progress saved for --resume.
+BLOCK_BYTES = 1 << 20
+#: Blocks in flight per worker (enough to keep every worker busy while this process writes).
+WINDOW_PER_WORKER = 2
+#: Heats whose identifiers are checked for duplicates (16 bytes each: 64 MB at most).
+DUPLICATE_CHECK_LIMIT = 4_000_000
+#: Seconds to wait for a Dask scheduler to answer.
+CLUSTER_TIMEOUT_S = 3.0
+#: Seconds between two saves of the state file (and two updates of the progress line).
+CHECKPOINT_S = 0.5
+_STATE_VERSION = 1
+
+
+class Interrupted(Exception):
+    """The run was stopped by a signal (its number) after its last complete block."""
+
+
+class _Stop:
+    """Ctrl-C, SIGTERM and SIGHUP stop the run after the block being written (so that the
+    state saved for --resume is exact); a second signal stops it at once."""
+
+    def __init__(self) -> None:
+        self.signal: int | None = None
+        self.previous: dict = {}
+
+    def __enter__(self) -> "_Stop":
+        import threading
+
+        if threading.current_thread() is threading.main_thread():     # only there can signals be caught
+            for sig in (signal.SIGINT, signal.SIGTERM, signal.SIGHUP):
+                self.previous[sig] = signal.signal(sig, self._handle)
+        return self
+
+    def __exit__(self, *_exc) -> None:
+        for sig, handler in self.previous.items():
+            signal.signal(sig, handler)
+
+    def _handle(self, signum, _frame) -> None:
+        if self.signal is not None:
+            raise Interrupted(signum)
+        self.signal = signum
+
+    def check(self) -> None:
+        if self.signal is not None:
+            raise Interrupted(self.signal)
+
+
+@dataclass
+class Totals:
+    """What the blocks written so far held: heats, rows not computed (count and the first
+    LISTED as (line, reason)), heats without an identifier (count, first lines) and heats whose
+    identifier repeats an earlier one (count, first (line, earlier line)); whether the duplicate
+    check stopped at DUPLICATE_CHECK_LIMIT."""
+
+    heats: int = 0
+    problems: int = 0
+    listed: list = field(default_factory=list)
+    blank_ids: int = 0
+    blank_listed: list = field(default_factory=list)
+    duplicates: int = 0
+    duplicate_listed: list = field(default_factory=list)
+    duplicate_check_full: bool = False
+
+    def add(self, result: BlockResult) -> None:
+        self.heats += result.heats
+        self.problems += result.problems
+        self.listed += result.listed[:LISTED - len(self.listed)]
+        self.blank_ids += result.blank_ids
+        self.blank_listed += result.blank_listed[:LISTED - len(self.blank_listed)]
+
+
+class DuplicateCheck:
+    """Identifier hashes seen so far with the line of their first heat, as sorted runs merged
+    when a run is no longer than the one after it (each hash is merged about log2(n) times)."""
+
+    def __init__(self) -> None:
+        self.runs: list[tuple[np.ndarray, np.ndarray]] = []
+        self.size = 0
+
+    def _seen(self, h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """(whether each hash was seen, the line of its first heat where it was)."""
+        seen, first = np.zeros(h.size, dtype=bool), np.zeros(h.size, dtype=np.int64)
+        for hashes, lines in self.runs:
+            at = np.minimum(np.searchsorted(hashes, h), hashes.size - 1)
+            found = (hashes[at] == h) & ~seen
+            seen |= found
+            first[found] = lines[at[found]]
+        return seen, first
+
+    def add(self, hashes: np.ndarray, lines: np.ndarray, totals: Totals) -> None:
+        """Record a block's identifiers (in row order); count and list the repeats in `totals`."""
+        if totals.duplicate_check_full or not hashes.size:
+            return
+        order = np.argsort(hashes, kind="stable")
+        h, n = hashes[order], lines[order]
+        first_in_block = np.concatenate([[True], h[1:] != h[:-1]])
+        first_of_run = np.maximum.accumulate(np.where(first_in_block, np.arange(h.size), 0))
+        seen, seen_line = self._seen(h)
+        repeat = seen | ~first_in_block
+        if repeat.any():
+            earlier = np.where(seen, seen_line, n[first_of_run])
+            pairs = sorted(zip(n[repeat].tolist(), earlier[repeat].tolist()))
+            totals.duplicates += len(pairs)
+            totals.duplicate_listed += pairs[:LISTED - len(totals.duplicate_listed)]
+        new = first_in_block & ~seen
+        self.runs.append((h[new], n[new]))
+        self.size += int(new.sum())
+        while len(self.runs) > 1 and self.runs[-2][0].size <= 2 * self.runs[-1][0].size:
+            (h1, n1), (h2, n2) = self.runs.pop(), self.runs.pop()
+            merged = np.concatenate([h2, h1])
+            order = np.argsort(merged, kind="stable")
+            self.runs.append((merged[order], np.concatenate([n2, n1])[order]))
+        if self.size >= DUPLICATE_CHECK_LIMIT:
+            totals.duplicate_check_full = True
+            self.runs, self.size = [], 0
+
+
+class Progress:
+    """One line on stderr, only when stderr is a terminal: heats done, heats per second and the
+    time left (from the share of the file's lines done)."""
+
+    def __init__(self, total_lines: int, done_lines: int) -> None:
+        self.enabled = sys.stderr.isatty()
+        self.total, self.start_lines, self.started = max(total_lines, 1), done_lines, time.monotonic()
+        self.shown_at = 0.0
+
+    def show(self, heats: int, lines: int, force: bool = False) -> None:
+        now = time.monotonic()
+        if not self.enabled or (now - self.shown_at < CHECKPOINT_S and not force):
+            return
+        self.shown_at = now
+        elapsed = max(now - self.started, 1e-9)
+        speed = (lines - self.start_lines) / elapsed
+        left = f", about {_duration((self.total - lines) / speed)} left" if speed > 0 and lines < self.total else ""
+        self._write(f"\rladle batch: {heats:,} heats, {heats / elapsed if heats else 0:,.0f} heats/s{left}\x1b[K")
+
+    def close(self) -> None:
+        if self.enabled:
+            self._write("\r\x1b[K")
+
+    def _write(self, text: str) -> None:
+        try:
+            sys.stderr.write(text)
+            sys.stderr.flush()
+        except OSError:              # the terminal went away (a dropped session)
+            self.enabled = False
+
+
+def _duration(seconds: float) -> str:
+    seconds = int(round(seconds))
+    if seconds < 60:
+        return f"{seconds} s"
+    if seconds < 3600:
+        return f"{seconds // 60} min {seconds % 60:02d} s"
+    return f"{seconds // 3600} h {seconds // 60 % 60:02d} min"
+
+
+# --- where the blocks are computed ----------------------------------------------------------------
+class _Done:
+    """A result computed at once, with the interface of a future."""
+
+    def __init__(self, value: BlockResult) -> None:
+        self.value = value
+
+    def result(self) -> BlockResult:
+        return self.value
+
+
+_WORKER_JOB: BlockJob | None = None
+
+
+def _start_worker(job: BlockJob) -> None:
+    """In a local worker process: keep the job, and leave signals to the main process (it
+    stops the workers itself)."""
+    global _WORKER_JOB
+    _WORKER_JOB = job
+    for sig in (signal.SIGINT, signal.SIGTERM, signal.SIGHUP):
+        signal.signal(sig, signal.SIG_IGN)
+
+
+def _compute_in_worker(first_line: int, data: bytes) -> BlockResult:
+    return compute_block(_WORKER_JOB, first_line, data)
+
+
+class Workers:
+    """Computes blocks in this process (one worker), in local worker processes or on a Dask
+    cluster; `submit` returns something whose `result()` is the BlockResult."""
+
+    def __init__(self, job: BlockJob, workers: int, cluster: str | None) -> None:
+        self.job, self.pool, self.client = job, None, None
+        if cluster is not None:
+            self.client = _connect(cluster)
+            self.window = max(2, WINDOW_PER_WORKER * sum(self.client.nthreads().values()))
+        elif workers > 1:
+            import multiprocessing
+            from concurrent.futures import ProcessPoolExecutor
+
+            context = multiprocessing.get_context("fork" if "fork" in multiprocessing.get_all_start_methods() else None)
+            self.pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_start_worker, initargs=(job,))
+            self.window = WINDOW_PER_WORKER * workers
+        else:
+            self.window = 1
+
+    def submit(self, first_line: int, data: bytes):
+        if self.client is not None:
+            # a lost worker's block is recomputed by the scheduler; `retries` also covers errors
+            return self.client.submit(compute_block, self.job, first_line, data, pure=False, retries=2)
+        if self.pool is not None:
+            return self.pool.submit(_compute_in_worker, first_line, data)
+        return _Done(compute_block(self.job, first_line, data))
+
+    def close(self) -> None:
+        if self.pool is not None:
+            self.pool.shutdown(wait=True, cancel_futures=True)
+        if self.client is not None:
+            self.client.close()
+
+
+def _connect(address: str):
+    """A Dask client of the scheduler at `address`; one line of CommandError when the `cluster`
+    extra is missing or no scheduler answers within CLUSTER_TIMEOUT_S."""
+    import logging
+
+    try:
+        from distributed import Client
+    except ImportError:
+        raise CommandError("--cluster needs Dask: pip install 'ladle[cluster]'") from None
+    logging.getLogger("distributed").setLevel(logging.CRITICAL)
+    try:
+        return Client(address, timeout=CLUSTER_TIMEOUT_S, set_as_default=False)
+    except (OSError, TimeoutError, ValueError) as e:
+        detail = str(e).splitlines()[0] if str(e) else type(e).__name__
+        raise CommandError(f"--cluster {address}: no Dask scheduler answered within {CLUSTER_TIMEOUT_S:g} s "
+                           f"({detail[:120]})") from None
+
+
+def in_order(workers: Workers, items: Iterator[Block]) -> Iterator[tuple[int, int, BlockResult]]:
+    """(offset after, line after, result) of each block in input order, with at most the
+    workers' window in flight."""
+    pending: deque = deque()
+    for block in items:
+        pending.append((block.end, block.next_line, workers.submit(block.first_line, block.data)))
+        if len(pending) >= workers.window:
+            end, after, future = pending.popleft()
+            yield end, after, future.result()
+    while pending:
+        end, after, future = pending.popleft()
+        yield end, after, future.result()
+
+
+# --- the run --------------------------------------------------------------------------------------
+@dataclass(frozen=True)
+class Plan:
+    """One run: the heat list and its scan, the job, the output (None: standard output), and
+    how to compute (worker processes or a cluster address) and whether to resume; `options`
+    names everything that changes the output (a resumed run must match)."""
+
+    source: Path
+    scan: FileScan
+    job: BlockJob
+    output: Path | None
+    force: bool
+    resume: bool
+    workers: int
+    cluster: str | None
+    options: dict
+
+
+def partial_path(output: Path) -> Path:
+    return output.with_name(f".{output.name}.ladle-partial")
+
+
+def state_path(output: Path) -> Path:
+    return output.with_name(f".{output.name}.ladle-state.json")
+
+
+def run(plan: Plan, note: Callable[[str], None]) -> Totals:
+    """Compute every heat and write the output; `note` prints a line on stderr. Raises
+    Interrupted (after saving the state) when a signal stops the run."""
+    with _Stop() as stop:
+        if plan.output is None:
+            return _run_to_stdout(plan, stop)
+        return _run_to_file(plan, stop, note)
+
+
+def _run_to_stdout(plan: Plan, stop: _Stop) -> Totals:
+    from ladle.engine.files.plain_text import without_controls
+
+    terminal = sys.stdout.isatty()
+    layout = plan.job.layout
+
+    def write(text: bytes) -> None:
+        if terminal:        # nothing from the file reaches a terminal as a control character
+            sys.stdout.write(without_controls(text.decode(layout.encoding, errors="replace"), keep_newlines=True))
+        else:
+            sys.stdout.buffer.write(text)
+
+    if not terminal:
+        sys.stdout.flush()
+    write(plan.job.header_text())
+    totals, duplicates = Totals(), DuplicateCheck()
+    progress = Progress(plan.scan.lines, layout.data_line)
+    workers = Workers(plan.job, plan.workers, plan.cluster)
+    try:
+        for _offset, line, result in in_order(workers, blocks(plan.source, layout.data_offset, layout.data_line,
+                                                              plan.scan.size, BLOCK_BYTES)):
+            write(result.text)
+            _count(totals, duplicates, result)
+            progress.show(totals.heats, line)
+            stop.check()
+    finally:
+        progress.close()
+        workers.close()
+    return totals
+
+
+def _count(totals: Totals, duplicates: DuplicateCheck, result: BlockResult) -> None:
+    totals.add(result)
+    duplicates.add(result.id_hashes, result.id_lines, totals)
+
+
+def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals:
+    output, layout = plan.output, plan.job.layout
+    partial, state_file = partial_path(output), state_path(output)
+    fd = _open_partial(partial, output, plan.resume)
+    try:
+        with os.fdopen(fd, "r+b") as out:
+            if plan.resume:
+                totals, duplicates, offset, line = _resumed(plan, out, state_file, note)
+            else:
+                if state_file.exists():
+                    note(f"an interrupted run's partial results for {quoted_path(output)} were discarded "
+                         f"(--resume would have continued it)")
+                out.truncate(0)
+                out.write(plan.job.header_text())
+                totals, duplicates, offset, line = Totals(), DuplicateCheck(), layout.data_offset, layout.data_line
+            progress = Progress(plan.scan.lines, line)
+            saved_at = time.monotonic()
+            workers = Workers(plan.job, plan.workers, plan.cluster)
+            try:
+                for after, after_line, result in in_order(workers, blocks(plan.source, offset, line, plan.scan.size,
+                                                                          BLOCK_BYTES)):
+                    out.write(result.text)
+                    _count(totals, duplicates, result)
+                    offset, line = after, after_line
+                    if stop.signal is not None or time.monotonic() - saved_at >= CHECKPOINT_S:
+                        _save_state(plan, out, state_file, totals, offset, line)
+                        saved_at = time.monotonic()
+                    progress.show(totals.heats, line)
+                    stop.check()
+            finally:
+                progress.close()
+                workers.close()
+            out.flush()
+            os.fsync(out.fileno())
+            _put_in_place(partial, output, plan.force)
+    except OSError as e:
+        raise CommandError(f"{quoted_path(e.filename or partial)}: cannot write: {e.strerror or e}") from None
+    try:
+        state_file.unlink()
+    except FileNotFoundError:
+        pass
+    return totals
+
+
+def _open_partial(partial: Path, output: Path, resume: bool) -> int:
+    """The partial file, opened for writing and locked (one run per output at a time)."""
+    try:
+        fd = os.open(partial, os.O_RDWR | (0 if resume else os.O_CREAT), 0o666)
+    except FileNotFoundError:
+        raise CommandError(f"--resume: no interrupted run writing {quoted_path(output)} to continue; "
+                           f"run without --resume") from None
+    except OSError as e:
+        raise CommandError(f"{quoted_path(partial)}: cannot write: {e.strerror}") from None
+    try:
+        fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
+    except OSError:
+        os.close(fd)
+        raise CommandError(f"{quoted_path(partial)}: another ladle batch is writing this output now") from None
+    return fd
+
+
+def _save_state(plan: Plan, out, state_file: Path, totals: Totals, offset: int, line: int) -> None:
+    """Record that the input up to `offset` (line `line`) is written, with the totals so far."""
+    out.flush()
+    os.fsync(out.fileno())
+    state = {"version": _STATE_VERSION, "input": str(plan.source.resolve()), "size": plan.scan.size,
+             "sha256": plan.scan.sha256, "options": plan.options, "input_offset": offset, "line": line,
+             "output_bytes": out.tell(), "totals": totals.__dict__}
+    write_atomic(state_file, json.dumps(state))
+
+
+def _resumed(plan: Plan, out, state_file: Path, note: Callable[[str], None]):
+    """(totals, duplicate check, input offset, line) where the interrupted run stopped; the
+    partial file cut back to what the state records."""
+    try:
+        state = json.loads(state_file.read_text(encoding="utf-8"))
+        offset, line, written = int(state["input_offset"]), int(state["line"]), int(state["output_bytes"])
+        totals = Totals(**state["totals"])
+        totals.listed = [tuple(p) for p in totals.listed]
+        totals.duplicate_listed = [tuple(p) for p in totals.duplicate_listed]
+    except (OSError, ValueError, KeyError, TypeError):
+        raise CommandError(f"--resume: no readable state of an interrupted run beside {quoted_path(plan.output)}; "
+                           f"run without --resume") from None
+    if state.get("sha256") != plan.scan.sha256 or state.get("size") != plan.scan.size:
+        raise CommandError(f"--resume: {quoted_path(plan.source)} changed since the interrupted run; "
+                           f"run without --resume to start over")
+    if state.get("options") != plan.options or state.get("version") != _STATE_VERSION:
+        raise CommandError("--resume: the interrupted run had other options (system, unit, superheat, "
+                           "Scheil, encoding); repeat them, or run without --resume")
+    out.seek(0, os.SEEK_END)
+    if out.tell() < written:
+        raise CommandError(f"--resume: {quoted_path(partial_path(plan.output))} is shorter than its state says; "
+                           f"run without --resume")
+    out.truncate(written)
+    out.seek(written)
+    duplicates = DuplicateCheck()
+    if not totals.duplicate_check_full:          # the identifiers already written, read again
+        rebuilt = Totals()
+        layout = plan.job.layout
+        for block in blocks(plan.source, layout.data_offset, layout.data_line, offset, BLOCK_BYTES):
+            duplicates.add(*identifiers(plan.job, block.first_line, block.data), rebuilt)
+        totals.duplicate_check_full = rebuilt.duplicate_check_full
+    note(f"resuming at line {line}: {totals.heats:,} heats were written before")
+    return totals, duplicates, offset, line
+
+
+def _put_in_place(partial: Path, output: Path, force: bool) -> None:
+    """Rename the finished partial file to `output` (replacing it only with `force`)."""
+    from ladle.engine.files.atomic_files import _claim, refuse_unless_regular
+
+    refuse_unless_regular(output)
+    if force:
+        os.replace(partial, output)
+        return
+    try:
+        _claim(str(partial), output)
+    except FileExistsError:
+        raise CommandError(f"{quoted_path(output)}: exists already (created while this run went on); the results "
+                           f"stay in {quoted_path(partial)}") from None
+    try:
+        os.unlink(partial)
+    except FileNotFoundError:          # moved, not linked
+        pass
