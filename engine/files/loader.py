@@ -16,21 +16,18 @@ from typing import Any
 import numpy as np
 
 from ..errors import SystemFileError
+from . import bounds as limits
 from .facts import parse_facts, reject_repeated_facts
 from .trade_names import read_trade_names
-from ..models.formula import parse_formula
-from ..models.phases import CompoundPhase, MagneticModel, SolutionPhase
+from .phase_reader import read_phases
 from ..models.polynomials import COEFFICIENTS, TemperatureFunction
 from ..models.system import System
-
 from .plain_text import has_controls, without_controls
+
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
 _TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
-             "temperature_range_K", "phase", "check", "measured", "fit", "fit_report",
+             "temperature_range_K", "phase", "check", "measured", "fit", "fit_report", "builds_on",
              "trade_names", "trade_line", "heat_treatment"}
-_SOLUTION_KEYS = {"model", "G", "L", "magnetic", "notes", "source"}
-_COMPOUND_KEYS = {"model", "formula", "reference", "formation", "notes", "source"}
-_MAGNETIC_KEYS = {"above_curie_fraction", "curie_K", "moment", "curie_L", "moment_L", "antiferro_factor"}
 _LOWEST_K = 1.0
 
 
@@ -71,12 +68,14 @@ class _Reader:
         table = self.table(value, key)
         self.known_keys(table, set(COEFFICIENTS), key)
         coeffs = {k: self.number(v, f"{key}.{k}") for k, v in table.items()}
-        return TemperatureFunction.constant_terms(coeffs, 0.0, math.inf)
+        limits.check_terms([coeffs.get(c, 0.0) for c in COEFFICIENTS], _LOWEST_K, limits.MAX_TEMPERATURE_K, key, self.fail)
+        return TemperatureFunction.constant_terms(coeffs, 0.0, limits.MAX_TEMPERATURE_K)
 
     def pieces(self, value: Any, key: str) -> TemperatureFunction:
         """A list of pieces [{upto = .., a = ..}, ...] in increasing `upto`."""
         if not isinstance(value, list) or not value:
             raise self.fail(key, "expected a list of pieces such as [ { upto = 3000, a = 0, b = 0 } ]")
+        limits.check_count(len(value), limits.MAX_PIECES, key, "pieces", self.fail)
         bounds = [_LOWEST_K]
         rows = []
         for i, piece in enumerate(value):
@@ -93,13 +92,16 @@ class _Reader:
             upto = self.number(piece["upto"], f"{k}.upto")
             if upto <= bounds[-1]:
                 raise self.fail(f"{k}.upto", f"pieces must be listed in increasing 'upto' ({upto:g} K follows {bounds[-1]:g} K)")
+            limits.check_temperature(upto, f"{k}.upto", self.fail)
             bounds.append(upto)
             rows.append([self.number(piece.get(c, 0.0), f"{k}.{c}") for c in COEFFICIENTS])
+            limits.check_terms(rows[-1], bounds[-2], upto, k, self.fail)
         return TemperatureFunction(tuple(bounds), np.array(rows))
 
     def expressions(self, value: Any, key: str) -> tuple[TemperatureFunction, ...]:
         if not isinstance(value, list):
             raise self.fail(key, "expected a list of tables such as [ { a = -5000, b = 1.5 }, { a = 800 } ]")
+        limits.check_count(len(value), limits.MAX_TERMS, key, "coefficients", self.fail)
         return tuple(self.expression(v, f"{key}[{i}]") for i, v in enumerate(value))
 
 
@@ -134,6 +136,9 @@ class ElementLibrary:
 
 def _read_toml(path: Path) -> dict:
     try:
+        size = path.stat().st_size
+        if size > limits.MAX_FILE_BYTES:
+            raise SystemFileError(f"{path.name}: {size} bytes; a system file may hold at most {limits.MAX_FILE_BYTES} bytes")
         data = path.read_bytes()
     except FileNotFoundError:
         raise SystemFileError(f"{path}: no such file") from None
@@ -164,11 +169,12 @@ def shipped_library() -> ElementLibrary:
 
 
 def load_system(path: Path | str, library: ElementLibrary | None = None, name: str | None = None,
-                document: dict | None = None) -> System:
+                document: dict | None = None, building: tuple[Path, ...] = ()) -> System:
     """Read, validate and build the System in `path`.
 
     `document` may hold the already parsed TOML (the fitting command rebuilds systems from edited
-    documents); `library` is the element library (default: the shipped one).
+    documents); `library` is the element library (default: the shipped one); `building` holds
+    the files being built on this one (`builds_on`), to refuse a cycle.
     """
     path = Path(path)
     if library is None:
@@ -176,19 +182,25 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     doc = _read_toml(path) if document is None else document
     r = _Reader(path)
     r.known_keys(doc, _TOP_KEYS, "")
-    for key in ("elements", "molar_mass", "source", "phase"):
+    for key in ("elements", "source") + (() if "builds_on" in doc else ("molar_mass", "phase")):
         if key not in doc:
             raise r.fail(key, "missing (required)")
     elements = doc["elements"]
-    if (not isinstance(elements, list) or len(elements) != 2 or not all(isinstance(e, str) and _SYMBOL.match(e) for e in elements)
-            or elements[0] == elements[1]):
-        raise r.fail("elements", "expected two different element symbols, such as [\"Cu\", \"Ni\"]")
-    elements = (elements[0], elements[1])
-    mm = r.table(doc["molar_mass"], "molar_mass")
+    if (not isinstance(elements, list) or not 2 <= len(elements) <= limits.MAX_ELEMENTS
+            or not all(isinstance(e, str) and _SYMBOL.match(e) for e in elements) or len(set(elements)) != len(elements)):
+        raise r.fail("elements", f"expected two different element symbols or more (at most {limits.MAX_ELEMENTS}), "
+                     "such as [\"Cu\", \"Ni\"]")
+    elements = tuple(elements)
+    bases = _bases(r, library, doc, elements, path, building)
+    mm = r.table(doc.get("molar_mass", {}), "molar_mass")
     masses = []
     for el in elements:
         if el not in mm:
-            raise r.fail(f"molar_mass.{el}", "missing (g/mol of every element is required)")
+            known = [float(b.molar_mass[b.elements.index(el)]) for _n, b in bases if el in b.elements]
+            if not known:
+                raise r.fail(f"molar_mass.{el}", "missing (g/mol of every element is required)")
+            masses.append(known[0])
+            continue
         m = r.number(mm[el], f"molar_mass.{el}")
         if m <= 0:
             raise r.fail(f"molar_mass.{el}", f"expected a positive molar mass in g/mol, found {m:g}")
@@ -198,6 +210,8 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     covers = (0.0, 1.0)
     if "covers_at_percent" in doc:
         c = doc["covers_at_percent"]
+        if len(elements) != 2:
+            raise r.fail("covers_at_percent", "is read for two-element systems only (at% of the second element)")
         if not isinstance(c, list) or len(c) != 2:
             raise r.fail("covers_at_percent", "expected [from, to] in at% of " + elements[1])
         lo, hi = (r.number(v, "covers_at_percent") for v in c)
@@ -212,6 +226,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         lo, hi = (r.number(v, "covers_K") for v in c)
         if not 0 <= lo < hi:
             raise r.fail("covers_K", "expected 0 <= low < high (K)")
+        limits.check_temperature(hi, "covers_K", r.fail)
         covers_K = (lo, hi)
     t_range = None
     if "temperature_range_K" in doc:
@@ -221,28 +236,16 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         lo, hi = (r.number(v, "temperature_range_K") for v in c)
         if not 0 < lo < hi:
             raise r.fail("temperature_range_K", "expected 0 < low < high (K)")
+        limits.check_temperature(hi, "temperature_range_K", r.fail)
         t_range = (lo, hi)
 
-    phase_table = r.table(doc["phase"], "phase")
-    if not phase_table:
+    phase_table = r.table(doc.get("phase", {}), "phase")
+    if not phase_table and not bases:
         raise r.fail("phase", "expected at least one phase")
-    solutions: dict[str, SolutionPhase] = {}
-    compound_docs = {}
-    for pname, ptable in phase_table.items():
-        key = f"phase.{pname}"
-        ptable = r.table(ptable, key)
-        model = ptable.get("model")
-        if model == "solution":
+    for pname in phase_table:
         if has_controls(pname):
             raise r.fail(f"phase.{pname!r}", "a phase name may not hold control characters")
-            solutions[pname] = _solution(r, library, pname, ptable, elements)
-        elif model == "compound":
-            compound_docs[pname] = ptable
-        else:
-            raise r.fail(f"{key}.model", f"unknown model {model!r}; expected \"solution\" or \"compound\"")
-    phases: dict = dict(solutions)
-    for pname, ptable in compound_docs.items():
-        phases[pname] = _compound(r, library, pname, ptable, elements, solutions)
+    phases, models = read_phases(r, library, phase_table, elements, bases)
 
     system = System(
         name=name or path.stem.lower(),
@@ -251,6 +254,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         molar_mass=np.array(masses),
         source=source,
         phases=phases,
+        models=models,
         title=r.text(doc["title"], "title") if "title" in doc else "",
         safety=r.text(doc["safety"], "safety") if "safety" in doc else "",
         notes=r.text(doc["notes"], "notes") if "notes" in doc else "",
@@ -259,10 +263,14 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         declared_temperature_range_K=t_range,
         document=doc,
     )
+    if len(elements) > 2:
+        for key in ("check", "measured", "fit"):
+            if key in doc:
+                raise r.fail(key, "is read for two-element systems only so far")
     system.checks = parse_facts(doc.get("check", []), "check", system, r.fail)
     system.measured = parse_facts(doc.get("measured", []), "measured", system, r.fail)
-    reject_repeated_facts(system.checks, system.measured, r.fail)
     read_trade_names(doc, phases, r.fail)
+    reject_repeated_facts(system.checks, system.measured, r.fail)
     if "fit" in doc:
         fit = r.table(doc["fit"], "fit")
         r.known_keys(fit, {"free"}, "fit")
@@ -276,99 +284,38 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     return system
 
 
-def _element_function(r: _Reader, library: ElementLibrary, value: Any, key: str, element: str) -> TemperatureFunction:
-    if isinstance(value, list):
-        return r.pieces(value, key)
-    if isinstance(value, str):
-        return library.function(element, value, key, r)
-    if isinstance(value, dict):
-        r.known_keys(value, set(COEFFICIENTS) | {"library"}, key)
-        if "library" not in value or not isinstance(value["library"], str):
-            raise r.fail(key, "a table here needs 'library' naming a structure of the element library, e.g. { library = \"bct\", a = 4000 }")
-        base = library.function(element, value["library"], key, r)
-        extra = {k: v for k, v in value.items() if k != "library"}
-        return base.plus(r.expression(extra, key))
-    raise r.fail(key, "expected a list of pieces, a structure name of the element library, or { library = \"...\", a = ... }")
-
-
-def _solution(r: _Reader, library: ElementLibrary, name: str, table: dict, elements: tuple[str, str]) -> SolutionPhase:
-    key = f"phase.{name}"
-    r.known_keys(table, _SOLUTION_KEYS, key)
-    if "G" not in table:
-        raise r.fail(f"{key}.G", "missing: the Gibbs energy of each pure element in this phase")
-    g_table = r.table(table["G"], f"{key}.G")
-    r.known_keys(g_table, set(elements), f"{key}.G")
-    endmembers = []
-    for el in elements:
-        if el not in g_table:
-            raise r.fail(f"{key}.G.{el}", "missing: every element of the system needs its Gibbs energy in every solution phase")
-        endmembers.append(_element_function(r, library, g_table[el], f"{key}.G.{el}", el))
-    interactions = {(0, 1): r.expressions(table.get("L", []), f"{key}.L")}
-    magnetic = None
-    if "magnetic" in table:
-        magnetic = _magnetic(r, table["magnetic"], f"{key}.magnetic", elements)
-    return SolutionPhase(name, elements, tuple(endmembers), interactions, magnetic)
-
-
-def _magnetic(r: _Reader, value: Any, key: str, elements: tuple[str, str]) -> MagneticModel:
-    m = r.table(value, key)
-    r.known_keys(m, _MAGNETIC_KEYS, key)
-    for req in ("above_curie_fraction", "curie_K", "moment"):
-        if req not in m:
-            raise r.fail(f"{key}.{req}", "missing (required for a magnetic contribution)")
-    p = r.number(m["above_curie_fraction"], f"{key}.above_curie_fraction")
-    if not 0 < p < 1:
-        raise r.fail(f"{key}.above_curie_fraction", "expected a number between 0 and 1 (0.40 for bcc, 0.28 otherwise)")
-
-    def per_element(k: str) -> np.ndarray:
-        t = r.table(m[k], f"{key}.{k}")
-        r.known_keys(t, set(elements), f"{key}.{k}")
-        vals = []
-        for el in elements:
-            if el not in t:
-                raise r.fail(f"{key}.{k}.{el}", "missing: give a value for every element (0 if not magnetic)")
-            vals.append(r.number(t[el], f"{key}.{k}.{el}"))
-        return np.array(vals)
-
-    factor = r.number(m.get("antiferro_factor", -3.0), f"{key}.antiferro_factor")
-    if factor >= 0:
-        raise r.fail(f"{key}.antiferro_factor", "expected a negative number (-1 for bcc, -3 for fcc and hcp)")
-    return MagneticModel(p, per_element("curie_K"), per_element("moment"),
-                         {(0, 1): r.expressions(m.get("curie_L", []), f"{key}.curie_L")},
-                         {(0, 1): r.expressions(m.get("moment_L", []), f"{key}.moment_L")}, factor)
-
-
-def _compound(r: _Reader, library: ElementLibrary, name: str, table: dict, elements: tuple[str, str],
-              solutions: dict[str, SolutionPhase]) -> CompoundPhase:
-    key = f"phase.{name}"
-    r.known_keys(table, _COMPOUND_KEYS, key)
-    for req in ("formula", "reference", "formation"):
-        if req not in table:
-            raise r.fail(f"{key}.{req}", "missing (required for a compound)")
-    try:
-        counts = parse_formula(table["formula"])
-    except ValueError as e:
-        raise r.fail(f"{key}.formula", str(e)) from None
-    for el in counts:
-        if el not in elements:
-            raise r.fail(f"{key}.formula", f"element {el} is not in this system ({', '.join(elements)})")
-    total = sum(counts.values())
-    x = np.array([counts.get(el, 0.0) / total for el in elements])
-    refs_table = r.table(table["reference"], f"{key}.reference")
-    r.known_keys(refs_table, set(elements), f"{key}.reference")
-    refs = []
-    for i, el in enumerate(elements):
-        ref = refs_table.get(el)
-        if ref is None:
-            if x[i] > 0:
-                raise r.fail(f"{key}.reference.{el}", "missing: name the phase whose pure-element energy is the reference")
-            ref = next(iter(solutions), None)
-        if ref in solutions:
-            refs.append(solutions[ref].endmembers[i])
-        elif isinstance(ref, str):      # a structure of the element library
-            refs.append(library.function(el, ref, f"{key}.reference.{el}", r))
-        else:
-            raise r.fail(f"{key}.reference.{el}", f"expected a solution phase of this system ({', '.join(solutions) or 'none'}) "
-                         f"or a structure of the element library, found {ref!r}")
-    formation = r.expression(table["formation"], f"{key}.formation")
-    return CompoundPhase(name, elements, x, tuple(refs), formation)
+def _bases(r: _Reader, library: ElementLibrary, doc: dict, elements: tuple[str, ...], path: Path,
+           building: tuple[Path, ...]) -> list[tuple[str, System]]:
+    """The systems named by `builds_on` (file name, System): files beside this one, or else
+    shipped ones, whose elements are all elements of this file."""
+    if "builds_on" not in doc:
+        return []
+    names = doc["builds_on"]
+    if not isinstance(names, list) or not names or not all(isinstance(n, str) for n in names):
+        raise r.fail("builds_on", "expected a list of system files such as [\"ag-cu.toml\", \"sn-ag.toml\"]")
+    limits.check_count(len(names), limits.MAX_ELEMENTS * (limits.MAX_ELEMENTS - 1) // 2, "builds_on", "files", r.fail)
+    here = path.resolve()
+    if len(building) >= limits.MAX_BUILD_DEPTH:
+        raise r.fail("builds_on", f"files build on files more than {limits.MAX_BUILD_DEPTH} deep")
+    out = []
+    for n in names:
+        if not n.endswith(".toml") or Path(n).name != n or n.startswith(".") or len(n) > 200:
+            raise r.fail("builds_on", f"expected names of system files such as \"ag-cu.toml\" (beside this file, or shipped), found {n[:40]!r}")
+        base = None
+        for folder in (path.parent, shipped_folder()):
+            try:
+                if (folder / n).is_file():
+                    base = folder / n
+                    break
+            except OSError:
+                continue
+        if base is None:
+            raise r.fail("builds_on", f"{n}: no such system file beside this file or among the shipped systems")
+        if base.resolve() == here or base.resolve() in building:
+            raise r.fail("builds_on", f"{n}: builds on the file being read (a cycle)")
+        system = load_system(base, library, building=building + (here,))
+        extra = [el for el in system.elements if el not in elements]
+        if extra:
+            raise r.fail("builds_on", f"{n} holds {', '.join(extra)}, which this file's elements lack")
+        out.append((n, system))
+    return out

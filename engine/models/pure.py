@@ -12,6 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .phases import SolutionPhase
+from .sublattice import SublatticePhase
 
 
 @dataclass(frozen=True)
@@ -24,14 +25,23 @@ class PureTransition:
     above: str
 
 
+def _pure_function(phase, index: int):
+    """The G(T) function of pure element `index` in a substitutional solution phase (either
+    form), or None for other phases and for a solution that does not hold the element."""
+    if isinstance(phase, SolutionPhase):
+        return phase.endmembers[index]
+    if isinstance(phase, SublatticePhase) and phase.is_substitutional:
+        return phase.end_members.get((phase.elements[index],))
+    return None
+
+
 def _pure_gibbs(phases: dict, index: int, T: float) -> dict[str, float]:
     """G (J/mol) of pure element `index` in every solution phase that is defined at T."""
     out = {}
     for name, ph in phases.items():
-        if isinstance(ph, SolutionPhase):
-            f = ph.endmembers[index]
-            if f.lower_K <= T <= f.upper_K:
-                out[name] = f.value(T)
+        f = _pure_function(ph, index)
+        if f is not None and f.lower_K <= T <= f.upper_K:
+            out[name] = f.value(T)
     return out
 
 

@@ -1,8 +1,8 @@
-"""The System: one binary alloy system as loaded from its file."""
+"""The System: one alloy system (two or more elements) as loaded from its file."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from functools import cached_property
 from pathlib import Path
 
@@ -10,6 +10,7 @@ import numpy as np
 
 from .phases import CompoundPhase, Phase, SolutionPhase
 from .pure import melting_point
+from .sublattice import SublatticePhase
 
 
 @dataclass(frozen=True)
@@ -39,18 +40,23 @@ class Fact:
 
 @dataclass(eq=False)
 class System:
-    """A binary alloy system: elements A and B, molar masses (g/mol) and phase models.
+    """An alloy system: its elements (two or more), molar masses (g/mol) and phase models.
 
-    `covers` is the range of x_B (mole fraction) and `covers_K` the range of temperature (K)
-    the model is meant for.
+    `phases` holds each phase in the form today's binary engine evaluates where one exists (a
+    binary's substitutional solutions as SolutionPhase, compounds as CompoundPhase) and as the
+    general SublatticePhase otherwise; `models` holds every phase in the general form, built
+    from the same parsed parameters.
+    `covers` is the range of x_B (mole fraction; binaries) and `covers_K` the range of
+    temperature (K) the model is meant for.
     """
 
     name: str
     path: Path
-    elements: tuple[str, str]
+    elements: tuple[str, ...]
     molar_mass: np.ndarray
     source: str
-    phases: dict[str, Phase]
+    phases: dict[str, Phase | SublatticePhase]
+    models: dict[str, SublatticePhase]
     title: str = ""
     safety: str = ""
     notes: str = ""
@@ -69,6 +75,18 @@ class System:
     @property
     def compounds(self) -> dict[str, CompoundPhase]:
         return {n: p for n, p in self.phases.items() if isinstance(p, CompoundPhase)}
+
+    def without(self, names) -> "System":
+        """A new System lacking the phases `names` (metastable equilibria). Raises ValueError
+        naming an unknown phase, or when no phase would be left."""
+        names = [names] if isinstance(names, str) else list(names)
+        for n in names:
+            if n not in self.phases:
+                raise ValueError(f"{self.name}: no phase named {n!r}; its phases are {', '.join(self.phases)}")
+        kept = [n for n in self.phases if n not in names]
+        if not kept:
+            raise ValueError(f"{self.name}: leaving out {', '.join(names)} leaves no phase")
+        return replace(self, phases={n: self.phases[n] for n in kept}, models={n: self.models[n] for n in kept})
 
     @cached_property
     def model_range_K(self) -> tuple[float, float]:

@@ -1,0 +1,624 @@
+"""Reading the phases of a system file (systems/FORMAT.md): substitutional solutions in any number
+of elements, sublattice phases, stoichiometric compounds, and the phases of the files a system
+builds on, merged with its own.
+
+Every solution and sublattice phase is read once into the general model (`SublatticePhase`); a
+binary's solution class is derived from that model (models/general_form.py). Messages name the
+file and the key (through the reader's `fail`).
+"""
+
+from __future__ import annotations
+
+import itertools
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from . import bounds
+from ..models.formula import parse_formula
+from ..models.general_form import binary_solution, compound_model
+from ..models.phases import CompoundPhase
+from ..models.polynomials import COEFFICIENTS, TemperatureFunction
+from ..models.sublattice import VACANCY, Interaction, MagneticTerms, SublatticePhase
+
+if TYPE_CHECKING:
+    from ..models.system import System
+    from .loader import ElementLibrary, _Reader
+
+SOLUTION_KEYS = {"model", "G", "L", "magnetic", "notes", "source"}
+SUBLATTICE_KEYS = {"model", "sublattices", "end_member", "interaction", "magnetic", "notes", "source"}
+COMPOUND_KEYS = {"model", "formula", "reference", "formation", "notes", "source"}
+MODELS = ("solution", "sublattices", "compound")
+_SOLUTION_MAGNETIC_KEYS = {"above_curie_fraction", "curie_K", "moment", "curie_L", "moment_L", "antiferro_factor"}
+_SUBLATTICE_MAGNETIC_KEYS = {"above_curie_fraction", "antiferro_factor"}
+_SUBLATTICE_ENTRY_KEYS = {"sites", "holds"}
+_END_MEMBER_KEYS = {"constituents", "G", "curie_K", "moment", "notes", "source"}
+_INTERACTION_KEYS = {"constituents", "L", "curie_L", "moment_L", "notes", "source"}
+
+Constituents = tuple[tuple[str, ...], ...]
+
+
+@dataclass
+class _Draft:
+    """One phase while it is read and merged: every value with `where` it came from
+    ("file: key"), so that a conflict between two files can name both."""
+
+    name: str
+    kind: str                                   # "solution" or "sublattices"
+    site_ratios: tuple[float, ...]
+    constituents: list[list[str]]
+    end_members: dict[tuple[str, ...], tuple[TemperatureFunction, str]] = field(default_factory=dict)
+    interactions: dict[Constituents, tuple[tuple[TemperatureFunction, ...], str]] = field(default_factory=dict)
+    curie: dict[Constituents, tuple[tuple[TemperatureFunction, ...], str]] = field(default_factory=dict)
+    moment: dict[Constituents, tuple[tuple[TemperatureFunction, ...], str]] = field(default_factory=dict)
+    magnetic: tuple[float, float, str] | None = None   # (above_curie_fraction, antiferro_factor, where)
+
+
+# --- temperature functions of elements --------------------------------------------------------
+def element_function(r: "_Reader", library: "ElementLibrary", value: Any, key: str, element: str) -> TemperatureFunction:
+    """G (J/mol) of one element: pieces, a structure of the element library, or
+    { library = "...", a = ... } (the library function plus a correction)."""
+    if isinstance(value, list):
+        return r.pieces(value, key)
+    if isinstance(value, str):
+        return library.function(element, value, key, r)
+    if isinstance(value, dict):
+        r.known_keys(value, set(COEFFICIENTS) | {"library"}, key)
+        if "library" not in value or not isinstance(value["library"], str):
+            raise r.fail(key, "a table here needs 'library' naming a structure of the element library, e.g. { library = \"bct\", a = 4000 }")
+        base = library.function(element, value["library"], key, r)
+        extra = {k: v for k, v in value.items() if k != "library"}
+        return base.plus(r.expression(extra, key))
+    raise r.fail(key, "expected a list of pieces, a structure name of the element library, or { library = \"...\", a = ... }")
+
+
+def _reference_function(r: "_Reader", library: "ElementLibrary", ref: Any, element: str, key: str,
+                        solutions: dict[str, SublatticePhase]) -> TemperatureFunction:
+    """G (J/mol) of pure `element` in `ref`: a solution phase of this system, or else a structure
+    of the element library."""
+    if isinstance(ref, str) and ref in solutions:
+        f = solutions[ref].end_members.get((element,))
+        if f is None:
+            raise r.fail(key, f"solution phase {ref} does not hold {element}")
+        return f
+    if isinstance(ref, str) and ref:
+        return library.function(element, ref, key, r)
+    raise r.fail(key, f"expected a solution phase of this system ({', '.join(solutions) or 'none'}) "
+                 f"or a structure of the element library, found {ref!r}")
+
+
+# --- names of interacting elements --------------------------------------------------------------
+def _named_elements(r: "_Reader", name: str, key: str, allowed: tuple[str, ...]) -> tuple[str, ...]:
+    """ "Ag-Cu" or "Ag-Cu-Sn": two or three distinct constituents of `allowed`."""
+    parts = tuple(name.split("-"))
+    if len(parts) not in (2, 3) or len(set(parts)) != len(parts) or any(p not in allowed for p in parts):
+        raise r.fail(key, f"expected two or three different elements of this system joined by '-', such as "
+                     f"\"{'-'.join(allowed[:2])}\"")
+    return parts
+
+
+def _coefficients(r: "_Reader", value: Any, key: str, named: tuple[str, ...]) -> tuple[TemperatureFunction, ...]:
+    """The coefficients of an interaction among `named` (on one sublattice): for two, the list of
+    Redlich-Kister orders; for three, a one-entry list (composition-independent) or a table with
+    one expression per constituent; otherwise a one-entry list."""
+    if len(named) == 3 and isinstance(value, dict):
+        r.known_keys(value, set(named), key)
+        for c in named:
+            if c not in value:
+                raise r.fail(f"{key}.{c}", f"missing: a ternary term gives one expression for each of {', '.join(named)}")
+        return tuple(r.expression(value[c], f"{key}.{c}") for c in named)
+    series = r.expressions(value, key)
+    if not series:
+        raise r.fail(key, "expected at least one expression such as [ { a = -5000 } ]")
+    bounds.check_count(len(series), bounds.MAX_TERMS, key, "coefficients", r.fail)
+    if len(named) != 2 and len(series) != 1:
+        raise r.fail(key, "expected one expression here (several orders exist only between two constituents; "
+                     "a ternary term's three coefficients are a table, one per constituent)")
+    return series
+
+
+def _pair_terms(r: "_Reader", value: Any, key: str, elements: tuple[str, ...]) -> dict[Constituents, tuple[TemperatureFunction, ...]]:
+    """A solution phase's L (or curie_L, moment_L): a list (the pair of a two-element file) or a
+    table by "A-B" / "A-B-C"."""
+    if isinstance(value, list):
+        if len(elements) != 2:
+            raise r.fail(key, "expected a table by element pair, such as { Ag-Cu = [ { a = -5000 } ] } (a plain list names "
+                         "the pair of a two-element system only)")
+        return {(tuple(elements),): _coefficients(r, value, key, tuple(elements))} if value else {}
+    if not isinstance(value, dict):
+        raise r.fail(key, "expected a list of expressions such as [ { a = -5000 } ] (the pair of a two-element system) "
+                     "or a table by element pair such as { Ag-Cu = [ { a = -5000 } ] }")
+    table = value
+    bounds.check_count(len(table), bounds.MAX_INTERACTIONS, key, "interaction parameters", r.fail)
+    out = {}
+    for name, v in table.items():
+        named = _named_elements(r, name, f"{key}.{name}", elements)
+        if any(set(named) == set(c[0]) for c in out):
+            raise r.fail(f"{key}.{name}", "these elements are named twice")
+        out[(named,)] = _coefficients(r, v, f"{key}.{name}", named)
+    return out
+
+
+def _magnetic_header(r: "_Reader", m: dict, key: str) -> tuple[float, float, str]:
+    if "above_curie_fraction" not in m:
+        raise r.fail(f"{key}.above_curie_fraction", "missing (required for a magnetic contribution)")
+    p = r.number(m["above_curie_fraction"], f"{key}.above_curie_fraction")
+    if not 0 < p < 1:
+        raise r.fail(f"{key}.above_curie_fraction", "expected a number between 0 and 1 (0.40 for bcc, 0.28 otherwise)")
+    factor = r.number(m.get("antiferro_factor", -3.0), f"{key}.antiferro_factor")
+    if factor >= 0:
+        raise r.fail(f"{key}.antiferro_factor", "expected a negative number (-1 for bcc, -3 for fcc and hcp)")
+    return p, factor, f"{r.path.name}: {key}"
+
+
+def _constant(value: float) -> TemperatureFunction:
+    return TemperatureFunction.constant_terms({"a": value}, 0.0, bounds.MAX_TEMPERATURE_K)
+
+
+def _magnetic_number(r: "_Reader", value: Any, key: str, which: str) -> float:
+    v = r.number(value, key)
+    if which == "curie_K":
+        bounds.check_magnitude(v, bounds.MAX_CURIE_K, key, "K", r.fail)
+    else:
+        bounds.check_magnitude(v, bounds.MAX_MOMENT, key, "Bohr magnetons", r.fail)
+    return v
+
+
+# --- solution phases -------------------------------------------------------------------------------
+def _solution_draft(r: "_Reader", library: "ElementLibrary", name: str, table: dict, elements: tuple[str, ...],
+                    complete: bool) -> _Draft:
+    """A solution phase of the file; `complete`: every element must be given here (no file to
+    build on)."""
+    key = f"phase.{name}"
+    where = r.path.name
+    r.known_keys(table, SOLUTION_KEYS, key)
+    if "G" not in table and complete:
+        raise r.fail(f"{key}.G", "missing: the Gibbs energy of each pure element in this phase")
+    g_table = r.table(table.get("G", {}), f"{key}.G")
+    r.known_keys(g_table, set(elements), f"{key}.G")
+    draft = _Draft(name, "solution", (1.0,), [[]])
+    for el in elements:
+        if el in g_table:
+            draft.end_members[(el,)] = (element_function(r, library, g_table[el], f"{key}.G.{el}", el), f"{where}: {key}.G.{el}")
+            draft.constituents[0].append(el)
+        elif complete:
+            raise r.fail(f"{key}.G.{el}", "missing: every element of the system needs its Gibbs energy in every solution phase")
+    for c, coeffs in _pair_terms(r, table.get("L", []), f"{key}.L", elements).items():
+        draft.interactions[c] = (coeffs, f"{where}: {key}.L")
+    if "magnetic" in table:
+        mkey = f"{key}.magnetic"
+        m = r.table(table["magnetic"], mkey)
+        r.known_keys(m, _SOLUTION_MAGNETIC_KEYS, mkey)
+        draft.magnetic = _magnetic_header(r, m, mkey)
+        for which, store in (("curie_K", draft.curie), ("moment", draft.moment)):
+            if which not in m and complete:
+                raise r.fail(f"{mkey}.{which}", "missing (required for a magnetic contribution)")
+            t = r.table(m.get(which, {}), f"{mkey}.{which}")
+            r.known_keys(t, set(elements), f"{mkey}.{which}")
+            for el in elements:
+                if el in t:
+                    store[((el,),)] = ((_constant(_magnetic_number(r, t[el], f"{mkey}.{which}.{el}", which)),),
+                                       f"{where}: {mkey}.{which}.{el}")
+                elif complete:
+                    raise r.fail(f"{mkey}.{which}.{el}", "missing: give a value for every element (0 if not magnetic)")
+        for which, store in (("curie_L", draft.curie), ("moment_L", draft.moment)):
+            for c, coeffs in _pair_terms(r, m.get(which, []), f"{mkey}.{which}", elements).items():
+                store[c] = (coeffs, f"{where}: {mkey}.{which}")
+    return draft
+
+
+# --- sublattice phases --------------------------------------------------------------------------------
+def _constituent_list(r: "_Reader", value: Any, key: str) -> list[str]:
+    if isinstance(value, str):
+        value = [value]
+    if not isinstance(value, list) or not value or not all(isinstance(v, str) for v in value):
+        raise r.fail(key, "expected a list of constituents such as [\"Fe\", \"Cr\"]")
+    if len(set(value)) != len(value):
+        raise r.fail(key, "a constituent is named twice")
+    return list(value)
+
+
+def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table: dict, elements: tuple[str, ...],
+                      solutions: dict[str, SublatticePhase]) -> _Draft:
+    key = f"phase.{name}"
+    where = r.path.name
+    r.known_keys(table, SUBLATTICE_KEYS, key)
+    if "sublattices" not in table:
+        raise r.fail(f"{key}.sublattices", "missing: the list of sublattices, such as "
+                     "[ { sites = 1, holds = [\"Fe\", \"Cr\"] }, { sites = 3, holds = [\"C\", \"Va\"] } ]")
+    lattices = table["sublattices"]
+    if not isinstance(lattices, list) or not lattices:
+        raise r.fail(f"{key}.sublattices", "expected a list of tables such as [ { sites = 1, holds = [\"Fe\"] } ]")
+    bounds.check_count(len(lattices), bounds.MAX_SUBLATTICES, f"{key}.sublattices", "sublattices", r.fail)
+    ratios, held = [], []
+    for s, entry in enumerate(lattices):
+        k = f"{key}.sublattices[{s}]"
+        entry = r.table(entry, k)
+        r.known_keys(entry, _SUBLATTICE_ENTRY_KEYS, k)
+        for req in ("sites", "holds"):
+            if req not in entry:
+                raise r.fail(f"{k}.{req}", "missing (each sublattice gives its sites per formula unit and what it holds)")
+        sites = r.number(entry["sites"], f"{k}.sites")
+        if not 0 < sites <= bounds.MAX_SITES:
+            raise r.fail(f"{k}.sites", f"expected a positive number of sites per formula unit, at most {bounds.MAX_SITES:g}")
+        holds = _constituent_list(r, entry["holds"], f"{k}.holds")
+        bounds.check_count(len(holds), bounds.MAX_CONSTITUENTS, f"{k}.holds", "constituents", r.fail)
+        for c in holds:
+            if c != VACANCY and c not in elements:
+                raise r.fail(f"{k}.holds", f"{c} is neither an element of this system ({', '.join(elements)}) nor {VACANCY} (the vacancy)")
+        ratios.append(sites)
+        held.append(holds)
+    if all(c == VACANCY for h in held for c in h):
+        raise r.fail(f"{key}.sublattices", "the phase holds only vacancies")
+    draft = _Draft(name, "sublattices", tuple(ratios), held)
+    magnetic_values = False
+
+    def constituents_of(value: Any, k: str, single: bool) -> Constituents:
+        if not isinstance(value, list) or len(value) != len(held):
+            raise r.fail(k, f"expected {len(held)} entries, one per sublattice")
+        out = []
+        for s, v in enumerate(value):
+            names = _constituent_list(r, v, f"{k}[{s}]")
+            if single and len(names) != 1:
+                raise r.fail(f"{k}[{s}]", "expected one constituent per sublattice for an end member")
+            for c in names:
+                if c not in held[s]:
+                    raise r.fail(f"{k}[{s}]", f"sublattice {s + 1} holds {', '.join(held[s])}, not {c}")
+            out.append(tuple(names))
+        return tuple(out)
+
+    entries = table.get("end_member", [])
+    if not isinstance(entries, list):
+        raise r.fail(f"{key}.end_member", "expected a list of tables ([[phase.NAME.end_member]])")
+    for i, entry in enumerate(entries):
+        k = f"{key}.end_member[{i}]"
+        entry = r.table(entry, k)
+        r.known_keys(entry, _END_MEMBER_KEYS, k)
+        for req in ("constituents", "G"):
+            if req not in entry:
+                raise r.fail(f"{k}.{req}", "missing (each end member names its constituents and gives its G)")
+        combo = tuple(c[0] for c in constituents_of(entry["constituents"], f"{k}.constituents", True))
+        if combo in draft.end_members:
+            raise r.fail(f"{k}.constituents", "this end member is given twice")
+        draft.end_members[combo] = (_end_member_function(r, library, entry["G"], f"{k}.G", combo, ratios, solutions),
+                                    f"{where}: {k}.G")
+        for which, store in (("curie_K", draft.curie), ("moment", draft.moment)):
+            if which in entry:
+                magnetic_values = True
+                store[tuple((c,) for c in combo)] = ((_constant(_magnetic_number(r, entry[which], f"{k}.{which}", which)),),
+                                                     f"{where}: {k}.{which}")
+    entries = table.get("interaction", [])
+    if not isinstance(entries, list):
+        raise r.fail(f"{key}.interaction", "expected a list of tables ([[phase.NAME.interaction]])")
+    bounds.check_count(len(entries), bounds.MAX_INTERACTIONS, f"{key}.interaction", "interaction parameters", r.fail)
+    for i, entry in enumerate(entries):
+        k = f"{key}.interaction[{i}]"
+        entry = r.table(entry, k)
+        r.known_keys(entry, _INTERACTION_KEYS, k)
+        if "constituents" not in entry:
+            raise r.fail(f"{k}.constituents", "missing: the constituents on each sublattice, such as [[\"Fe\", \"Cr\"], [\"Va\"]]")
+        consts = constituents_of(entry["constituents"], f"{k}.constituents", False)
+        mixed = [c for c in consts if len(c) > 1]
+        if not mixed:
+            raise r.fail(f"{k}.constituents", "an interaction names two or three constituents on at least one sublattice")
+        if any(len(c) > 3 for c in mixed):
+            raise r.fail(f"{k}.constituents", "at most three constituents interact on one sublattice")
+        named = mixed[0] if len(mixed) == 1 else ()
+        found = False
+        for which, store in (("L", draft.interactions), ("curie_L", draft.curie), ("moment_L", draft.moment)):
+            if which in entry:
+                if _find(store, consts) is not None:
+                    raise r.fail(f"{k}.constituents", f"{which} of these constituents is given twice")
+                found = True
+                magnetic_values |= which != "L"
+                store[consts] = (_coefficients(r, entry[which], f"{k}.{which}", named), f"{where}: {k}.{which}")
+        if not found:
+            raise r.fail(k, "expected L (and/or curie_L, moment_L): the interaction's coefficients")
+    if "magnetic" in table:
+        mkey = f"{key}.magnetic"
+        m = r.table(table["magnetic"], mkey)
+        r.known_keys(m, _SUBLATTICE_MAGNETIC_KEYS, mkey)
+        draft.magnetic = _magnetic_header(r, m, mkey)
+    elif magnetic_values:
+        raise r.fail(f"{key}.magnetic", "missing: curie_K or moment values need [phase.NAME.magnetic] with above_curie_fraction")
+    return draft
+
+
+def _end_member_function(r: "_Reader", library: "ElementLibrary", value: Any, key: str, combo: tuple[str, ...],
+                         ratios: list[float], solutions: dict[str, SublatticePhase]) -> TemperatureFunction:
+    """G (J per mole of formula units) of an end member: pieces, or
+    { reference = { El = "phase or structure" }, a = ..., ... }: the sum over sublattices of sites
+    times the element's reference energy, plus the expression."""
+    if isinstance(value, list):
+        return r.pieces(value, key)
+    table = r.table(value, key) if isinstance(value, dict) else None
+    if table is None or "reference" not in table:
+        raise r.fail(key, "expected a list of pieces, or { reference = { Fe = \"fcc\", C = \"graphite\" }, a = ..., b = ... }")
+    r.known_keys(table, set(COEFFICIENTS) | {"reference"}, key)
+    refs = r.table(table["reference"], f"{key}.reference")
+    present = [c for c in combo if c != VACANCY]
+    r.known_keys(refs, set(present), f"{key}.reference")
+    total = r.expression({k: v for k, v in table.items() if k != "reference"}, key)
+    for el in dict.fromkeys(present):
+        if el not in refs:
+            raise r.fail(f"{key}.reference.{el}", "missing: name the phase or structure whose pure-element energy is the reference")
+        sites = sum(a for a, c in zip(ratios, combo) if c == el)
+        f = _reference_function(r, library, refs[el], el, f"{key}.reference.{el}", solutions)
+        total = total.plus(f.scaled(sites))
+    return total
+
+
+# --- compounds ----------------------------------------------------------------------------------------
+def _compound(r: "_Reader", library: "ElementLibrary", name: str, table: dict, elements: tuple[str, ...],
+              solutions: dict[str, SublatticePhase]) -> CompoundPhase:
+    key = f"phase.{name}"
+    r.known_keys(table, COMPOUND_KEYS, key)
+    for req in ("formula", "reference", "formation"):
+        if req not in table:
+            raise r.fail(f"{key}.{req}", "missing (required for a compound)")
+    try:
+        counts = parse_formula(table["formula"])
+    except ValueError as e:
+        raise r.fail(f"{key}.formula", str(e)) from None
+    for el in counts:
+        if el not in elements:
+            raise r.fail(f"{key}.formula", f"element {el} is not in this system ({', '.join(elements)})")
+    total = sum(counts.values())
+    x = np.array([counts.get(el, 0.0) / total for el in elements])
+    refs_table = r.table(table["reference"], f"{key}.reference")
+    r.known_keys(refs_table, set(elements), f"{key}.reference")
+    refs: dict[int, TemperatureFunction] = {}
+    for i, el in enumerate(elements):
+        ref = refs_table.get(el)
+        if ref is None:
+            if x[i] > 0:
+                raise r.fail(f"{key}.reference.{el}", "missing: name the phase whose pure-element energy is the reference")
+            continue
+        refs[i] = _reference_function(r, library, ref, el, f"{key}.reference.{el}", solutions)
+    formation = r.expression(table["formation"], f"{key}.formation")
+    return CompoundPhase(name, elements, x, _all_references(refs, x), formation)
+
+
+def _all_references(refs: dict[int, TemperatureFunction], x: np.ndarray) -> tuple[TemperatureFunction, ...]:
+    """One reference per element; an element the formula lacks (weight 0) takes the first formula
+    element's, which leaves G and the valid temperatures unchanged."""
+    first = refs[next(i for i in range(len(x)) if x[i] > 0)]
+    return tuple(refs.get(i, first) for i in range(len(x)))
+
+
+def _widened(c: CompoundPhase, elements: tuple[str, ...]) -> CompoundPhase:
+    """A compound of a file built on, over this system's elements."""
+    x = np.array([c.x[c.elements.index(el)] if el in c.elements else 0.0 for el in elements])
+    refs = {i: c.references[c.elements.index(el)] for i, el in enumerate(elements) if el in c.elements and x[i] > 0}
+    return CompoundPhase(c.name, elements, x, _all_references(refs, x), c.formation)
+
+
+# --- merging the files built on ---------------------------------------------------------------------
+def _same_function(f: TemperatureFunction, g: TemperatureFunction) -> bool:
+    """Whether two functions agree (to 1e-9 relative) wherever both hold."""
+    if f.bounds == g.bounds and np.array_equal(np.asarray(f.coefficients), np.asarray(g.coefficients)):
+        return True
+    lo, hi = max(f.lower_K, g.lower_K, 1.0), min(f.upper_K, g.upper_K, bounds.MAX_TEMPERATURE_K)
+    if lo >= hi:
+        return False
+    for T in np.geomspace(lo, hi, 41):
+        a, b = f.value(float(T)), g.value(float(T))
+        if abs(a - b) > 1e-9 * max(abs(a), abs(b), 1.0):
+            return False
+    return True
+
+
+def _same(a: tuple[TemperatureFunction, ...], b: tuple[TemperatureFunction, ...]) -> bool:
+    return len(a) == len(b) and all(_same_function(f, g) for f, g in zip(a, b))
+
+
+def _draft_of(model: SublatticePhase, origin: str) -> _Draft:
+    """A phase of a file built on, as a draft whose values name that file."""
+    where = f"{origin}: phase.{model.name}"
+    kind = "solution" if model.is_substitutional else "sublattices"
+    draft = _Draft(model.name, kind, model.site_ratios, [list(c) for c in model.constituents])
+    draft.end_members = {combo: (f, where) for combo, f in model.end_members.items()}
+    draft.interactions = {t.constituents: (t.coefficients, where) for t in model.interactions}
+    if model.magnetic is not None:
+        mag = model.magnetic
+        draft.magnetic = (mag.above_curie_fraction, mag.antiferro_factor, where)
+        draft.curie = {t.constituents: (t.coefficients, where) for t in mag.curie_K}
+        draft.moment = {t.constituents: (t.coefficients, where) for t in mag.moment}
+    return draft
+
+
+def _merge(r: "_Reader", into: _Draft, other: _Draft, own: bool) -> None:
+    """Add `other` (a file built on, or with `own` the file itself, whose values win) into `into`."""
+    key = f"phase.{into.name}"
+    if into.kind != other.kind or len(into.site_ratios) != len(other.site_ratios) or \
+            any(abs(a - b) > 1e-12 * max(a, b) for a, b in zip(into.site_ratios, other.site_ratios)):
+        raise r.fail(key, f"the phase has a different structure in {_origin(other)} than in {_origin(into)} "
+                     "(model, number of sublattices or sites); phases of the same name must agree")
+    for s, held in enumerate(other.constituents):
+        into.constituents[s].extend(c for c in held if c not in into.constituents[s])
+    for mine, theirs, what in ((into.end_members, other.end_members, "Gibbs energy"),
+                               (into.interactions, other.interactions, "interaction"),
+                               (into.curie, other.curie, "Curie temperature"),
+                               (into.moment, other.moment, "magnetic moment")):
+        for c, value in theirs.items():
+            old = _find(mine, c)
+            if old is not None and not own:
+                a, b = mine[old][0], value[0]
+                a, b = (a, b) if isinstance(a, tuple) else ((a,), (b,))
+                if not _same(a, _reordered(b, c, old)):
+                    raise r.fail(key, f"the {what} of {_label(c)} differs between {mine[old][1]} and {value[1]}; "
+                                 "give it in this file to choose")
+                continue
+            if old is not None:
+                del mine[old]
+            mine[c] = value
+    if other.magnetic is not None:
+        if into.magnetic is not None and not own and into.magnetic[:2] != other.magnetic[:2]:
+            raise r.fail(f"{key}.magnetic", f"above_curie_fraction or antiferro_factor differ between {into.magnetic[2]} "
+                         f"and {other.magnetic[2]}; give them in this file to choose")
+        into.magnetic = other.magnetic
+
+
+def _find(store: dict, c) -> Any:
+    """The key of `store` naming the same constituents as `c` (in any order within a sublattice)."""
+    if c in store:
+        return c
+    if isinstance(c, tuple) and c and isinstance(c[0], tuple):
+        want = tuple(frozenset(s) for s in c)
+        for k in store:
+            if tuple(frozenset(s) for s in k) == want:
+                return k
+    return None
+
+
+def _reordered(coeffs: tuple[TemperatureFunction, ...], c, target) -> tuple[TemperatureFunction, ...]:
+    """Coefficients of the term `c` expressed in the constituent order of `target`: a binary
+    series changes the sign of its odd orders when its pair is reversed; a ternary's three follow
+    their constituents."""
+    if c == target or not (isinstance(c, tuple) and c and isinstance(c[0], tuple)):
+        return coeffs
+    mixed = [(a, b) for a, b in zip(c, target) if len(a) > 1]
+    if len(mixed) == 1 and len(mixed[0][0]) == 2 and mixed[0][0] != mixed[0][1]:
+        return tuple(f.scaled(-1.0) if k % 2 else f for k, f in enumerate(coeffs))
+    if len(mixed) == 1 and len(mixed[0][0]) == 3 and len(coeffs) == 3:
+        a, b = mixed[0]
+        return tuple(coeffs[a.index(x)] for x in b)
+    return coeffs
+
+
+def _label(c) -> str:
+    if isinstance(c, tuple) and c and isinstance(c[0], tuple):
+        return " : ".join(",".join(s) for s in c)
+    return " : ".join(c)
+
+
+def _origin(d: _Draft) -> str:
+    for _f, where in d.end_members.values():
+        return where.split(":")[0]
+    return "this file"
+
+
+# --- building -------------------------------------------------------------------------------------
+def _build(r: "_Reader", draft: _Draft, elements: tuple[str, ...]) -> SublatticePhase:
+    key = f"phase.{draft.name}"
+    if draft.kind == "solution":
+        for el in elements:
+            if (el,) not in draft.end_members:
+                raise r.fail(f"{key}.G.{el}", "missing: every element of the system needs its Gibbs energy in every "
+                             "solution phase (none of the files this one builds on gives it)")
+        draft.constituents = [[el for el in elements]]
+        if draft.magnetic is not None:
+            for which, store in (("curie_K", draft.curie), ("moment", draft.moment)):
+                for el in elements:
+                    if ((el,),) not in store:
+                        raise r.fail(f"{key}.magnetic.{which}.{el}", "missing: give a value for every element (0 if not magnetic)")
+    else:
+        for combo in itertools.product(*draft.constituents):
+            if combo not in draft.end_members:
+                raise r.fail(f"{key}.end_member", f"missing the end member with constituents {list(combo)}: every "
+                             "combination of one constituent per sublattice needs its G")
+    magnetic = None
+    if draft.magnetic is not None:
+        p, factor, _where = draft.magnetic
+        magnetic = MagneticTerms(p, tuple(Interaction(c, v[0]) for c, v in draft.curie.items()),
+                                 tuple(Interaction(c, v[0]) for c, v in draft.moment.items()), factor)
+    elif draft.curie or draft.moment:
+        raise r.fail(f"{key}.magnetic", "missing: magnetic values need above_curie_fraction")
+    try:
+        return SublatticePhase(name=draft.name, elements=elements, site_ratios=draft.site_ratios,
+                               constituents=tuple(tuple(h) for h in draft.constituents),
+                               end_members={c: v[0] for c, v in draft.end_members.items()},
+                               interactions=tuple(Interaction(c, v[0]) for c, v in draft.interactions.items()),
+                               magnetic=magnetic)
+    except ValueError as e:
+        raise r.fail(key, str(e)) from None
+
+
+def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elements: tuple[str, ...],
+                bases: list[tuple[str, "System"]]) -> tuple[dict, dict[str, SublatticePhase]]:
+    """The phases of a file (`phase_table`, names already checked) merged with those of the files
+    it builds on (`bases`: file name and System). Returns (phases, models): `phases` in the forms
+    the binary engine evaluates where they exist, `models` every phase in the general form."""
+    tables = {}
+    for name, table in phase_table.items():
+        table = r.table(table, f"phase.{name}")
+        model = table.get("model")
+        if model not in MODELS:
+            raise r.fail(f"phase.{name}.model", f"unknown model {model!r}; expected one of {', '.join(repr(m) for m in MODELS)}")
+        tables[name] = (model, table)
+    complete = not bases
+    base_drafts: dict[str, list[_Draft]] = {}
+    base_compounds: dict[str, tuple[CompoundPhase, str]] = {}
+    for origin, system in bases:
+        for name, phase in system.phases.items():
+            if isinstance(phase, CompoundPhase):
+                if name in base_compounds and not _same_compound(base_compounds[name][0], phase):
+                    raise r.fail(f"phase.{name}", f"compound {name} differs between {base_compounds[name][1]} and {origin}; "
+                                 "give it in this file to choose")
+                base_compounds.setdefault(name, (phase, origin))
+            else:
+                base_drafts.setdefault(name, []).append(_draft_of(system.models[name], origin))
+    for name in base_compounds:
+        if name in base_drafts:
+            raise r.fail(f"phase.{name}", "is a compound in one file built on and a solution or sublattice phase in another")
+    bounds.check_count(len(set(tables) | set(base_drafts) | set(base_compounds)), bounds.MAX_PHASES, "phase", "phases", r.fail)
+
+    def merged(name: str, own: _Draft | None) -> SublatticePhase:
+        drafts = base_drafts.get(name, [])
+        into = drafts[0] if drafts else own
+        for other in drafts[1:]:
+            _merge(r, into, other, own=False)
+        if own is not None and into is not own:
+            _merge(r, into, own, own=True)
+        return _build(r, into, elements)
+
+    solutions: dict[str, SublatticePhase] = {}
+    for name, (model, table) in tables.items():
+        if model == "solution":
+            solutions[name] = merged(name, _solution_draft(r, library, name, table, elements, complete))
+    for name, drafts in base_drafts.items():
+        if name not in tables and drafts[0].kind == "solution":
+            solutions[name] = merged(name, None)
+    lattices: dict[str, SublatticePhase] = {}
+    for name, (model, table) in tables.items():
+        if model == "sublattices":
+            lattices[name] = merged(name, _sublattice_draft(r, library, name, table, elements, solutions))
+    for name, drafts in base_drafts.items():
+        if name not in tables and drafts[0].kind == "sublattices":
+            lattices[name] = merged(name, None)
+    compounds: dict[str, CompoundPhase] = {}
+    for name, (model, table) in tables.items():
+        if model == "compound":
+            if name in base_drafts:
+                raise r.fail(f"phase.{name}.model", "a file this one builds on has this phase as a solution or sublattice phase")
+            compounds[name] = _compound(r, library, name, table, elements, solutions)
+    for name, (phase, _origin_name) in base_compounds.items():
+        if name not in tables:
+            compounds[name] = _widened(phase, elements)
+        elif tables[name][0] != "compound":
+            raise r.fail(f"phase.{name}.model", "a file this one builds on has this phase as a compound")
+
+    binary = len(elements) == 2
+    phases: dict = {n: binary_solution(m) if binary else m for n, m in solutions.items()}
+    phases.update(lattices)
+    phases.update(compounds)
+    models: dict[str, SublatticePhase] = {**solutions, **lattices}
+    models.update({n: compound_model(c) for n, c in compounds.items()})
+    return phases, {n: models[n] for n in phases}
+
+
+def _same_compound(a: CompoundPhase, b: CompoundPhase) -> bool:
+    """Whether two compounds of files built on are the same (formula and G)."""
+    ma, mb = compound_model(a), compound_model(b)
+    if set(ma.constituents) != set(mb.constituents):
+        return False
+    lo, hi = max(ma.valid_range_K()[0], mb.valid_range_K()[0], 1.0), min(ma.valid_range_K()[1], mb.valid_range_K()[1])
+    xa = dict(zip((c[0] for c in ma.constituents), ma.site_ratios))
+    xb = dict(zip((c[0] for c in mb.constituents), mb.site_ratios))
+    if any(abs(xa[k] - xb[k]) > 1e-12 for k in xa):
+        return False
+    fa, fb = next(iter(ma.end_members.values())), next(iter(mb.end_members.values()))
+    return lo < hi and all(abs(fa.value(float(T)) - fb.value(float(T))) <= 1e-9 * max(1.0, abs(fa.value(float(T))))
+                           for T in np.geomspace(lo, min(hi, bounds.MAX_TEMPERATURE_K), 21))
+
