@@ -181,3 +181,46 @@ def fractions_of_B(percent, element: str, basis: str, elements: tuple[str, str],
     if basis == "wt":
         pair = mole_from_mass(pair, np.asarray(molar_mass))
     return pair[..., 1]
+
+
+_RANGE = re.compile(rf"^\s*([A-Za-z]{{1,2}})\s*=\s*({_NUMBER})\s*\.\.\s*({_NUMBER})\s*(?:(wt|at)\s*%?)?\s*$", re.IGNORECASE)
+
+
+@dataclass(frozen=True)
+class ContentRange:
+    """A typed range of one element's content: from `low` to `high` percent in `basis` ("wt" or
+    "at"; None where the person left it to the alloy's basis)."""
+
+    element: str
+    low: float
+    high: float
+    basis: str | None
+
+
+def parse_range(text: str) -> ContentRange:
+    """'Cu=0..2wt%', 'Si=5..12at%', 'Cu=0..2' -> ContentRange; ValueError with one line naming the
+    value otherwise."""
+    m = _RANGE.match(text or "")
+    if not m:
+        raise ValueError(f"cannot read range {text!r}; expected element=low..high with wt% or at%, e.g. Cu=0..2wt%")
+    low, high = float(m.group(2)), float(m.group(3))
+    if not 0.0 <= low < high <= 100.0:
+        raise ValueError(f"range {text.strip()} must rise from low to high within 0-100 %")
+    return ContentRange(m.group(1).capitalize(), low, high, m.group(4).lower() if m.group(4) else None)
+
+
+def section_ends(spec: AlloySpec, vary: ContentRange, elements: tuple[str, ...]) -> tuple[Alloy, Alloy]:
+    """The two ends of a section through the alloy `spec` along which `vary`'s element runs from
+    its low to its high content, every other named element held and the balance taking up the
+    rest; errors as `resolve_percentages`, plus a range in another basis than the alloy's, or
+    no balance element left to take up the change."""
+    basis = vary.basis or spec.basis
+    if basis != spec.basis:
+        raise ValueError(f"--vary {vary.element} is in {basis}% but the alloy is in {spec.basis}%; give both in one of them")
+    held = [(e, p) for e, p in spec.parts if e != vary.element]
+    if {e for e, _ in held} | {vary.element} >= set(elements):
+        raise ValueError(f"{spec.text} and --vary {vary.element} name every element: leave one unnamed as the "
+                         f"balance that takes up {vary.element}'s change")
+    low = resolve_percentages(held + [(vary.element, vary.low)], basis, elements, f"{spec.text} with {vary.element} at {vary.low:g}{basis}%")
+    high = resolve_percentages(held + [(vary.element, vary.high)], basis, elements, f"{spec.text} with {vary.element} at {vary.high:g}{basis}%")
+    return low, high

@@ -4,7 +4,7 @@ one clear line for every kind of mistake."""
 import numpy as np
 import pytest
 
-from ladle.tui.parsing import SUM_TOLERANCE, parse_alloy, resolve_alloy, resolve_percentages
+from ladle.tui.parsing import SUM_TOLERANCE, parse_alloy, parse_range, resolve_alloy, resolve_percentages, section_ends
 
 SAC = ("Sn", "Ag", "Cu")
 #: g/mol, IUPAC standard atomic weights (abridged, 2021)
@@ -75,3 +75,23 @@ def test_heat_list_rows_resolve_with_the_same_rules():
     assert alloy == sac("Ag=3wt%,Cu=0.5wt%")
     with pytest.raises(ValueError, match="line 4 sums to 110 %"):
         resolve_percentages([("Ag", 80.0), ("Cu", 30.0)], "wt", SAC, "line 4")
+
+
+def test_a_section_holds_the_named_elements_and_the_balance_takes_up_the_change():
+    low, high = section_ends(parse_alloy("Ag=3wt%"), parse_range("Cu=0..2wt%"), SAC)
+    assert low.fractions == pytest.approx((0.97, 0.03, 0.0)) and high.fractions == pytest.approx((0.95, 0.03, 0.02))
+    low, high = section_ends(parse_alloy("Ag=3wt%,Cu=0.5wt%"), parse_range("cu = 0 .. 2"), SAC)
+    assert high.fractions == pytest.approx((0.95, 0.03, 0.02)) and low.balance == "Sn"
+
+
+@pytest.mark.parametrize("comp, vary, message", [
+    ("Ag=3wt%", "Cu=0..2at%", "--vary Cu is in at% but the alloy is in wt%"),
+    ("Ag=3wt%,Cu=0.5wt%,Sn=96.5wt%", "Cu=0..2wt%", "name every element: leave one unnamed as the balance"),
+    ("Ag=3wt%", "Cu=2..1wt%", "must rise from low to high within 0-100 %"),
+    ("Ag=90wt%", "Cu=0..20wt%", "sums to 110 %, over 100 %"),
+    ("Ag=3wt%", "Cu=0-2wt%", "cannot read range 'Cu=0-2wt%'"),
+])
+def test_bad_sections_get_one_line(comp, vary, message):
+    with pytest.raises(ValueError) as caught:
+        section_ends(parse_alloy(comp), parse_range(vary), SAC)
+    assert message in str(caught.value) and "\n" not in str(caught.value)

@@ -8,6 +8,7 @@ import sys
 
 from .. import quote
 from .common import add_system_argument, ascii_text, closing_lines, open_system, print_json, system_title, terminal_plot
+from .section_diagram import add_section_arguments, run_section, wants_section
 
 HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
 
@@ -20,12 +21,15 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
     p.add_argument("--at", action="store_true", help="composition axis in at%% (default wt%%)")
     p.add_argument("--unit", choices=("C", "K", "F"), default="C", help="temperature unit (default C)")
     p.add_argument("--ascii", action="store_true", help="plain ASCII characters only")
+    add_section_arguments(p)
 
 
 def run(args: argparse.Namespace) -> int:
     from ladle.engine.diagram import map_diagram
 
     system = open_system(args.system)
+    if wants_section(args) or len(system.elements) != 2:
+        return run_section(system, args)
     diagram = map_diagram(system)
     if args.json:
         print_json(diagram.to_json())

@@ -1,0 +1,104 @@
+"""`ladle diagram` for systems of three or more elements: the isopleth through an alloy
+(--comp SPEC --vary El=A..B) and, for a ternary, the isothermal section on the composition
+triangle (--temp T); plotted in the terminal with every field labelled, or --json."""
+
+from __future__ import annotations
+
+import argparse
+
+from .. import quote
+from ..errors import CommandError
+from .common import ascii_text, closing_lines, print_json, system_title, terminal_plot, temperature_kelvin
+
+
+def add_section_arguments(p: argparse.ArgumentParser) -> None:
+    """The options of a section: --comp, --vary and --temp."""
+    p.add_argument("--comp", action="append", metavar="SPEC",
+                   help="with --vary, an isopleth through this alloy, e.g. Ag=3wt%%,Cu=0.5wt%% (the element not named "
+                        "is the balance)")
+    p.add_argument("--vary", metavar="EL=A..B", help="the element that varies along the isopleth and its range, "
+                                                     "e.g. Cu=0..2wt%% (the balance takes up the change)")
+    p.add_argument("--temp", metavar="T", help="a ternary's isothermal section at this temperature, e.g. 250C")
+
+
+def wants_section(args: argparse.Namespace) -> bool:
+    """Whether the options ask for a section rather than the binary diagram."""
+    return bool(args.comp or args.vary or args.temp)
+
+
+def run_section(system, args: argparse.Namespace) -> int:
+    """Print the isopleth or the isothermal section the options ask for."""
+    if args.csv:
+        raise CommandError("--csv gives a binary diagram's tie-lines; use --json for a section")
+    if args.temp and (args.comp or args.vary):
+        raise CommandError("give either --comp with --vary (an isopleth) or --temp (an isothermal section), not both")
+    if args.temp:
+        return _isothermal(system, args)
+    if not (args.comp and args.vary):
+        raise CommandError("an isopleth needs both --comp SPEC and --vary EL=A..B, e.g. --comp Ag=3wt% --vary Cu=0..2wt%")
+    return _isopleth(system, args)
+
+
+def _isopleth(system, args: argparse.Namespace) -> int:
+    from ladle.engine.diagrams.isopleth import map_isopleth
+
+    from ..parsing import parse_alloy, parse_range, section_ends
+
+    spec, vary = parse_alloy(args.comp), parse_range(args.vary)
+    low, high = section_ends(spec, vary, tuple(system.elements))
+    iso = map_isopleth(system, low.fractions, high.fractions, low.basis, vary.element)
+    if args.json:
+        print_json(iso.to_json())
+        return 0
+    held = ", ".join(f"{el} {quote.percent(f)} {low.basis}%" for el, f in zip(system.elements, low.fractions)
+                     if el not in (vary.element, low.balance))
+    title = f"{system_title(system)}: {vary.element} {vary.low:g}-{vary.high:g} {low.basis}%, {held}, {low.balance} balance"
+    from ..explorer.glyphs import glyphs_for
+    from ..explorer.section_drawing import draw_section, isopleth_scene
+
+    glyphs = glyphs_for(args.ascii)
+    key: list[str] = []
+
+    def draw(plt, width: int, height: int) -> None:
+        scene = isopleth_scene(iso, args.unit, glyphs, width, height)
+        key.extend(scene.key)
+        draw_section(plt, scene, glyphs)
+
+    print(terminal_plot(title, glyphs, 24, draw))
+    lines = [f"fields: {'; '.join(key)}"] if key else []
+    lines.append("invariant reactions crossed:" if iso.invariants else "invariant reactions crossed: none")
+    for inv in iso.invariants:
+        lines.append(f"  {quote.temperature(inv.temperature_K, args.unit):>12}  {' + '.join(inv.phases)}")
+    lines += [f"note: {w}" for w in iso.warnings]
+    print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
+    return 0
+
+
+def _isothermal(system, args: argparse.Namespace) -> int:
+    from ladle.engine.diagrams.isothermal import map_isothermal
+
+    t = temperature_kelvin(system, args.temp)
+    if len(system.elements) != 3:
+        raise CommandError(f"--temp draws a ternary's isothermal section; {system.name} has {len(system.elements)} "
+                           f"elements: use --comp with --vary for an isopleth")
+    section = map_isothermal(system, t.kelvin)
+    if args.json:
+        print_json(section.to_json())
+        return 0
+    from ..explorer.glyphs import glyphs_for
+    from ..explorer.section_drawing import draw_section, triangle_scene
+
+    glyphs = glyphs_for(args.ascii)
+    key: list[str] = []
+
+    def draw(plt, width: int, height: int) -> None:
+        scene = triangle_scene(section, glyphs, width, height)
+        key.extend(scene.key)
+        draw_section(plt, scene, glyphs)
+
+    title = f"{system_title(system)} at {quote.temperature(t.kelvin, t.unit)}"
+    print(terminal_plot(title, glyphs, 24, draw))
+    lines = [f"fields: {'; '.join(key)}"] if key else []
+    lines += [f"note: {w}" for w in section.warnings]
+    print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
+    return 0
