@@ -38,6 +38,13 @@ class _Parser(argparse.ArgumentParser):
     def error(self, message: str) -> None:  # type: ignore[override]
         self.exit(2, f"{self.prog}: {one_line(message)} (see {self.prog} --help)\n")
 
+    def _print_message(self, message: str, file=None) -> None:  # type: ignore[override]
+        """Print and flush; argparse's own version hides a broken pipe (`ladle --help | head`)."""
+        if message:
+            file = file or sys.stderr
+            file.write(message)
+            file.flush()
+
 
 def build_parser(command: str | None = None) -> tuple[argparse.ArgumentParser, dict]:
     """The `ladle` parser, with the arguments of `command` only (every command is listed with
@@ -104,7 +111,8 @@ def main(argv: list[str] | None = None) -> int:
 
         return run_explorer(argv)
     parser, modules = build_parser(argv[0] if argv else None)
-    args = parser.parse_args(argv)
+    with report("ladle"):          # --help into a closed pipe: status 1, as every command
+        args = parser.parse_args(argv)
     with report(f"ladle {args.command}"):
         return modules[args.command].run(args)
 

@@ -50,12 +50,12 @@ def report(prog: str) -> Iterator[None]:
     """Run a command and flush its output; on bad input or an operating-system error print
     `prog: message` (one line) on stderr and exit with status 2; on a broken pipe exit with
     status 1 silently."""
-    from ladle.engine import SystemFileError, TemperatureOutOfRange, UnknownSystem
+    from ladle.engine.errors import UnknownSystem   # no numpy: `ladle --help` runs through here
 
     try:
         yield
         sys.stdout.flush()
-    except (CommandError, SystemFileError, UnknownSystem, TemperatureOutOfRange, ValueError) as e:
+    except (CommandError, UnknownSystem, ValueError) as e:   # the engine's input errors are ValueErrors
         message = e.args[0] if e.args else str(e)
         print(f"{prog}: {one_line(str(message))}", file=sys.stderr)
         sys.exit(2)
