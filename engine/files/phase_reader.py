@@ -121,11 +121,13 @@ def _coefficients(r: "_Reader", value: Any, key: str, named: tuple[str, ...]) ->
 def _pair_terms(r: "_Reader", value: Any, key: str, elements: tuple[str, ...]) -> dict[Constituents, tuple[TemperatureFunction, ...]]:
     """A solution phase's L (or curie_L, moment_L): a list (the pair of a two-element file) or a
     table by "A-B" / "A-B-C"."""
+    if isinstance(value, list) and not value:
+        return {}
     if isinstance(value, list):
         if len(elements) != 2:
             raise r.fail(key, "expected a table by element pair, such as { Ag-Cu = [ { a = -5000 } ] } (a plain list names "
                          "the pair of a two-element system only)")
-        return {(tuple(elements),): _coefficients(r, value, key, tuple(elements))} if value else {}
+        return {(tuple(elements),): _coefficients(r, value, key, tuple(elements))}
     if not isinstance(value, dict):
         raise r.fail(key, "expected a list of expressions such as [ { a = -5000 } ] (the pair of a two-element system) "
                      "or a table by element pair such as { Ag-Cu = [ { a = -5000 } ] }")
@@ -428,8 +430,10 @@ def _draft_of(model: SublatticePhase, origin: str) -> _Draft:
     return draft
 
 
-def _merge(r: "_Reader", into: _Draft, other: _Draft, own: bool) -> None:
-    """Add `other` (a file built on, or with `own` the file itself, whose values win) into `into`."""
+def _merge(r: "_Reader", into: _Draft, other: _Draft, own: bool, chosen: _Draft | None = None) -> None:
+    """Add `other` (a file built on, or with `own` the file itself, whose values win) into `into`.
+    Two files built on may disagree only where the file itself (`chosen`) gives the value."""
+    chosen = chosen or _Draft(into.name, into.kind, into.site_ratios, [])
     key = f"phase.{into.name}"
     if into.kind != other.kind or len(into.site_ratios) != len(other.site_ratios) or \
             any(abs(a - b) > 1e-12 * max(a, b) for a, b in zip(into.site_ratios, other.site_ratios)):
@@ -437,13 +441,13 @@ def _merge(r: "_Reader", into: _Draft, other: _Draft, own: bool) -> None:
                      "(model, number of sublattices or sites); phases of the same name must agree")
     for s, held in enumerate(other.constituents):
         into.constituents[s].extend(c for c in held if c not in into.constituents[s])
-    for mine, theirs, what in ((into.end_members, other.end_members, "Gibbs energy"),
-                               (into.interactions, other.interactions, "interaction"),
-                               (into.curie, other.curie, "Curie temperature"),
-                               (into.moment, other.moment, "magnetic moment")):
+    for mine, theirs, settled, what in ((into.end_members, other.end_members, chosen.end_members, "Gibbs energy"),
+                                        (into.interactions, other.interactions, chosen.interactions, "interaction"),
+                                        (into.curie, other.curie, chosen.curie, "Curie temperature"),
+                                        (into.moment, other.moment, chosen.moment, "magnetic moment")):
         for c, value in theirs.items():
             old = _find(mine, c)
-            if old is not None and not own:
+            if old is not None and not own and _find(settled, c) is None:
                 a, b = mine[old][0], value[0]
                 a, b = (a, b) if isinstance(a, tuple) else ((a,), (b,))
                 if not _same(a, _reordered(b, c, old)):
@@ -454,7 +458,7 @@ def _merge(r: "_Reader", into: _Draft, other: _Draft, own: bool) -> None:
                 del mine[old]
             mine[c] = value
     if other.magnetic is not None:
-        if into.magnetic is not None and not own and into.magnetic[:2] != other.magnetic[:2]:
+        if into.magnetic is not None and not own and chosen.magnetic is None and into.magnetic[:2] != other.magnetic[:2]:
             raise r.fail(f"{key}.magnetic", f"above_curie_fraction or antiferro_factor differ between {into.magnetic[2]} "
                          f"and {other.magnetic[2]}; give them in this file to choose")
         into.magnetic = other.magnetic
@@ -568,7 +572,7 @@ def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elem
         drafts = base_drafts.get(name, [])
         into = drafts[0] if drafts else own
         for other in drafts[1:]:
-            _merge(r, into, other, own=False)
+            _merge(r, into, other, own=False, chosen=own)
         if own is not None and into is not own:
             _merge(r, into, own, own=True)
         return _build(r, into, elements)
