@@ -10,12 +10,13 @@ step is taken as half the solid forming at the step's start and half the solid i
 with the liquid at its end, found by a point equilibrium of the composition
 z* = (f_L x_L - D/2 x_S,start) / (f_L - D/2) at T - h, with D (the step's solid) solved from the
 linear dependence of that equilibrium's solid amount on D (two point equilibria: D = 0, which
-is the first-order step, and D from it). The difference between the first-order and the
+is the first-order step, and D from it; the liquid at the solved D is interpolated between
+them, linear in D as the lever rule is). The difference between the first-order and the
 trapezoid step is the step's error estimate and sets the next step. Mass balance is exact at
 every step: the solid of a step is what leaves the liquid.
 
 Where the stable phases of the liquid's equilibrium change (a new solid starts to form, one
-stops, or no liquid is left), the change is bisected to EVENT_TOLERANCE_K. Freezing ends where
+stops, or no liquid is left), the change is narrowed to EVENT_TOLERANCE_K (`_bracket`). Freezing ends where
 the liquid freezes at once into several solids (an invariant reaction: `eutectic` with two,
 `ternary eutectic` with three, ...), where it freezes into one solid (`last liquid`), or at the
 bottom of the window. Constituents are named by what forms together.
@@ -42,12 +43,10 @@ STEP_TOLERANCE = 2e-4
 _FIRST_STEP_K = 2.0
 _MAX_STEP_K = 10.0
 _MIN_STEP_K = 1e-5
-#: Step (K) of the search down from an all-liquid state for the liquidus.
-_LIQUIDUS_SEARCH_K = 10.0
 _LIQUID_SEARCH_STEP_K = 50.0
 _MAX_STEPS = 5000
 #: Freezing ends when less than this share of the alloy's atoms is liquid.
-LAST_LIQUID = 1e-10
+LAST_LIQUID = 1e-6
 
 
 def _equilibrium(system, T: float, x: np.ndarray):
@@ -74,21 +73,31 @@ def _mean_x(shares) -> np.ndarray:
     return sum(p.amount_mol * np.asarray(p.x, dtype=float) for p in shares) / total
 
 
+def _blend_x(blend) -> np.ndarray:
+    """Mole fractions of a blend ((weight, share), ...) of point-equilibrium phase shares."""
+    return sum(w * np.asarray(p.x, dtype=float) for w, p in blend)
+
+
 @dataclass
 class _State:
-    """The liquid at T (K): f_L moles of atoms per mole of alloy, its share of the last point
-    equilibrium (composition, site fractions), the solids forming with it (shares, None before
+    """The liquid at T (K): f_L moles of atoms per mole of alloy; the liquid as a blend of phase
+    shares of point equilibria ((weight, share), weights summing to 1: one share, or two where a
+    step interpolates between two equilibria); the solids forming with it (shares, None before
     a stage's first step) and the phase set of the liquid's equilibrium."""
 
     T: float
     f_L: float
-    liquid: object
+    liquid: tuple[tuple[float, object], ...]
     forming: list | None
     key: tuple[str, ...]
 
     @property
     def x_L(self) -> np.ndarray:
-        return np.asarray(self.liquid.x, dtype=float)
+        return _blend_x(self.liquid)
+
+    def liquid_enthalpy(self, system, T: float) -> float:
+        """The liquid's enthalpy (J per mole of atoms) at T (K), blended as its composition."""
+        return sum(w * phase_enthalpy(system, p, T) for w, p in self.liquid)
 
 
 @dataclass
@@ -174,24 +183,12 @@ class AlloyScheil:
                 raise PathError(f"the alloy is not all liquid at the top of the models' range ({ceiling:.0f} K)")
             T = min(T + _LIQUID_SEARCH_STEP_K, ceiling)
             eq = self._eq(T, self.x)
-        hot = eq
-        while True:
-            T_next = max(T - _LIQUIDUS_SEARCH_K, lo)
-            below = self._eq(T_next, self.x)
-            if _key(below) != (LIQUID,):
-                break
-            if T_next <= lo:
-                raise PathError(f"no liquidus for this alloy inside the window ({lo:.0f}-{top:.0f} K)")
-            T, hot = T_next, below
-        T_hot, T_cold = T, T_next
-        while T_hot - T_cold > EVENT_TOLERANCE_K:
-            mid = 0.5 * (T_hot + T_cold)
-            eq = self._eq(mid, self.x)
-            if _key(eq) == (LIQUID,):
-                T_hot, hot = mid, eq
-            else:
-                T_cold, below = mid, eq
-        return _State(T_hot, 1.0, _split(hot)[0], None, (LIQUID,)), below
+        below = self._eq(lo, self.x)
+        if _key(below) == (LIQUID,):
+            raise PathError(f"no liquidus for this alloy inside the window ({lo:.0f}-{top:.0f} K)")
+        near, _far, hot, below = self._bracket(lambda h: self._eq(T - h, self.x), 0.0, T - lo, (LIQUID,), eq, below)
+        T_hot = T - near
+        return _State(T_hot, 1.0, ((1.0, _split(hot)[0]),), None, (LIQUID,)), below
 
     def _step(self, state: _State, h: float):
         """(the state h K lower, the step's error estimate), or None where the phase set changes."""
@@ -204,6 +201,8 @@ class AlloyScheil:
         x_start = _mean_x(state.forming if state.forming else _split(first)[1])
 
         def trapezoid(d: float):
+            """The equilibrium at T1 of the liquid less half the step's solid d at the step's
+            start composition, and that liquid's amount."""
             m = f_L - 0.5 * d
             z = (f_L * x_L - 0.5 * d * x_start) / m
             if np.any(z < 0.0):
@@ -211,21 +210,21 @@ class AlloyScheil:
             eq = self._eq(T1, z / z.sum())
             return (eq, m) if _key(eq) == state.key else None
 
-        guess = trapezoid(d0)
-        chosen = None
+        first_liquid, first_solids = _split(first)
+        f_first = f_L * (1.0 - _solid_amount(first))
+        guess = trapezoid(d0) if d0 > 0.0 else None
+        blend, f_new, solids = ((1.0, first_liquid),), f_first, first_solids
         if guess is not None:
-            s1 = guess[1] * _solid_amount(guess[0])
+            eq, m = guess
+            s1 = m * _solid_amount(eq)
             denominator = 3.0 * d0 - 2.0 * s1
-            if denominator > 0.0:
-                chosen = trapezoid(2.0 * d0 * d0 / denominator)
-            chosen = chosen or guess
-        eq, m = chosen if chosen is not None else (first, f_L)
-        liquid, solids = _split(eq)
-        f_new = m * (1.0 - _solid_amount(eq))
-        first_liquid = _split(first)[0]
-        error = abs(f_new - f_L * (1.0 - _solid_amount(first))) + \
-            float(np.max(np.abs(np.asarray(liquid.x) - np.asarray(first_liquid.x))))
-        return _State(T1, f_new, liquid, solids, state.key), error
+            d = 2.0 * d0 * d0 / denominator if denominator > 0.0 else 2.0 * s1
+            t = d / d0
+            trial = ((1.0 - t, first_liquid), (t, _split(eq)[0]))
+            if 0.0 < t < 2.0 and np.all(_blend_x(trial) >= 0.0):
+                blend, f_new, solids = trial, f_L - d, _split(eq)[1]
+        error = abs(f_new - f_first) + float(np.max(np.abs(_blend_x(blend) - np.asarray(first_liquid.x))))
+        return _State(T1, f_new, blend, solids, state.key), error
 
     def _accept(self, old: _State, new: _State, h: float) -> None:
         """Book the solid of one step: its stage, its mass and the heat released."""
@@ -240,24 +239,17 @@ class AlloyScheil:
         T_mid = old.T - 0.5 * h
         start = old.forming if old.forming else new.forming
         h_solid = 0.5 * (assemblage_enthalpy(system, start, T_mid) + assemblage_enthalpy(system, new.forming, T_mid))
-        self.heat += (old.f_L * phase_enthalpy(system, old.liquid, T_mid)
-                      - new.f_L * phase_enthalpy(system, new.liquid, T_mid) - d * h_solid)
+        self.heat += (old.f_L * old.liquid_enthalpy(system, T_mid) - new.f_L * new.liquid_enthalpy(system, T_mid)
+                      - d * h_solid)
         self._record(new)
 
     def _event(self, state: _State, h: float) -> _State:
-        """Bisect the change of phases within a step of h K below `state`, move there, and start
-        the next stage (or end freezing)."""
-        lo, hi = 0.0, h
-        below = None
-        while hi - lo > EVENT_TOLERANCE_K:
-            mid = 0.5 * (lo + hi)
-            eq = self._eq(state.T - mid, state.x_L)
-            if _key(eq) == state.key:
-                lo = mid
-            else:
-                hi, below = mid, eq
-        if below is None:
-            below = self._eq(state.T - hi, state.x_L)
+        """Narrow the change of phases within a step of h K below `state` (`_bracket`), move
+        there, and start the next stage (or end freezing)."""
+        def probe(offset: float):
+            return self._eq(state.T - offset, state.x_L)
+
+        lo, _hi, _above, below = self._bracket(probe, 0.0, h, state.key, None, probe(h))
         if lo > 0.0:
             step = self._step(state, lo)
             if step is not None:
@@ -265,6 +257,48 @@ class AlloyScheil:
                 state = step[0]
         self._change(state, below)
         return state
+
+    def _bracket(self, probe, near: float, far: float, near_key: tuple[str, ...], near_eq, far_eq):
+        """Narrow a change of the stable phases between offsets `near` (phase set `near_key`,
+        point equilibrium `near_eq` or None) and `far` (equilibrium `far_eq`, another set), in K
+        below some temperature, to EVENT_TOLERANCE_K; `probe(offset)` gives the point
+        equilibrium at an offset. Returns (near, far, near_eq, far_eq) at the end.
+
+        Where a phase is present on the far side only and its amount falls toward the change,
+        the amount is taken as linear in the offset there (it is, near a boundary) and its zero
+        tried, alternately a little to either side; bisection otherwise and whenever that does
+        not halve the bracket."""
+        far_points: list[tuple[float, float, tuple[str, ...]]] = []
+        side = 1.0
+        while abs(far - near) > EVENT_TOLERANCE_K:
+            far_key = _key(far_eq)
+            gained = sorted(n for n in set(far_key) if far_key.count(n) > near_key.count(n))
+            if gained and (not far_points or far_points[-1][0] != far):
+                far_points.append((far, sum(p.amount_mol for p in far_eq.phases if p.name == gained[0]), far_key))
+            same = [(h, a) for h, a, k in far_points if k == far_key]
+            width = abs(far - near)
+            trial = 0.5 * (near + far)
+            guessed = False
+            if len(same) >= 2:
+                (h1, a1), (h2, a2) = sorted(same[-2:], key=lambda p: abs(p[0] - near))
+                if a1 < a2:
+                    root = h1 - a1 * (h2 - h1) / (a2 - a1)
+                    guess = root + side * 0.4 * EVENT_TOLERANCE_K * (1.0 if far > near else -1.0)
+                    if min(near, far) < guess < max(near, far):
+                        trial, guessed = guess, True
+            eq = probe(trial)
+            if _key(eq) == near_key:
+                near, near_eq, side = trial, eq, 1.0
+            else:
+                far, far_eq, side = trial, eq, -1.0
+            if guessed and abs(far - near) > 0.5 * width:
+                mid = 0.5 * (near + far)                     # a slow step: bisect once more
+                eq = probe(mid)
+                if _key(eq) == near_key:
+                    near, near_eq = mid, eq
+                else:
+                    far, far_eq = mid, eq
+        return near, far, near_eq, far_eq
 
     def _change(self, state: _State, below) -> None:
         """The liquid's phases change just below state.T: start the next stage, or freeze the
@@ -304,7 +338,7 @@ class AlloyScheil:
         system = self.system
         T = state.T
         f_L = state.f_L
-        plateau = f_L * (phase_enthalpy(system, state.liquid, T) - assemblage_enthalpy(system, solids, T))
+        plateau = f_L * (state.liquid_enthalpy(system, T) - assemblage_enthalpy(system, solids, T))
         self.heat += plateau
         mass = f_L * molar_mass(system, state.x_L)
         if len(solids) > 1:
