@@ -40,19 +40,22 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
 
 import ideal_ternaries as it  # noqa: E402
 
-from ladle.engine.diagrams import isopleth, isothermal  # noqa: E402
-from ladle.tui.commands import diagram  # noqa: E402
+from ladle.engine.diagrams import alloy_transitions, isopleth, isothermal  # noqa: E402
+from ladle.engine.solidify import alloy_equilibrium, alloy_scheil  # noqa: E402
+from ladle.tui.commands import cool, diagram, melt  # noqa: E402
 
 
 @pytest.fixture
 def ternary(monkeypatch):
-    """`ladle diagram ideal-eutectic ...` answered by the invented ternary and its closed-form
-    equilibria."""
+    """`ladle diagram|cool|melt ideal-eutectic ...` answered by the invented ternary and its
+    closed-form equilibria."""
     system = it.eutectic_system()
+    system.phases = system.models
     solve = it.equilibrate_for(system)
-    for module in (isopleth, isothermal):
+    for module in (isopleth, isothermal, alloy_transitions, alloy_scheil, alloy_equilibrium):
         monkeypatch.setattr(module, "equilibrate", solve)
-    monkeypatch.setattr(diagram, "open_system", lambda name, without=(): system)
+    for command in (diagram, cool, melt):
+        monkeypatch.setattr(command, "open_system", lambda name, without=(): system)
     return system
 
 
@@ -92,3 +95,34 @@ SECTION_MISTAKES = [
 @pytest.mark.parametrize("argv,expected", SECTION_MISTAKES, ids=[" ".join(a) for a, _ in SECTION_MISTAKES])
 def test_bad_sections_are_one_line_and_status_2(run, ternary, argv, expected):
     _one_line_error(*run(*argv), argv[0], expected)
+
+
+def test_cool_a_ternary_alloy(run, ternary):
+    """Both paths of A-25B-15C (at%): primary alpha, the alpha + beta valley, the ternary
+    eutectic at a_A + a_B + a_C = 1 (558.39 K, ideal_ternaries' closed form)."""
+    code, out, err = run("cool", "ideal-eutectic", "--comp", "B=25at%,C=15at%", "--unit", "K")
+    assert code == 0 and err == "", err
+    assert "A 60.0 at%" in out and "B 25.0 at%" in out and "C 15.0 at%" in out
+    assert "B at%" in out and "C at%" in out                     # the liquid's named elements, column by column
+    for name in ("primary alpha", "eutectic alpha + beta", "ternary eutectic alpha + beta + gamma"):
+        assert name in out
+    assert "558.4 K (ternary eutectic)" in out
+    code, js, _ = run("cool", "ideal-eutectic", "--comp", "B=25at%,C=15at%", "--scheil", "--json")
+    data = json.loads(js)
+    assert data["model"] == "scheil" and data["end"] == "ternary eutectic"
+    assert data["end_K"] == pytest.approx(558.3908803, abs=1e-6)
+    assert set(data["path"][1]["liquid_mole_fraction"]) == {"A", "B", "C"}
+
+
+def test_melt_a_ternary_alloy(run, ternary):
+    """Liquidus where x_A = a_A(T) (alpha first) and the ternary eutectic ends freezing."""
+    from scipy.optimize import brentq
+
+    code, js, err = run("melt", "ideal-eutectic", "--comp", "B=25at%,C=15at%", "--json")
+    assert code == 0 and err == "", err
+    data = json.loads(js)
+    assert data["liquidus_K"] == pytest.approx(brentq(lambda T: it.saturation(T)[0] - 0.6, 500, 1300), abs=1e-5)
+    assert data["solidus_K"] == pytest.approx(brentq(lambda T: it.saturation(T).sum() - 1.0, 400, 1000), abs=1e-5)
+    assert data["crossings"][0]["above"] == ["liquid"] and set(data["mole_fraction"]) == {"A", "B", "C"}
+    code, out, _ = run("melt", "ideal-eutectic", "--comp", "B=25at%,C=15at%")
+    assert "liquidus" in out and "freezing range" in out and "alpha + beta + gamma" in out

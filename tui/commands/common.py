@@ -107,6 +107,21 @@ def composition_both(system, x_b: float, element: str, basis: str) -> str:
             f"({quote.percent(shares[other][i])} {other}%)")
 
 
+def alloy_both(system, x, basis: str) -> str:
+    """'Sn 96.5 wt% (95.8 at%), Ag 3.00 wt% (3.28 at%), Cu 0.500 wt% (0.927 at%)': every element
+    of an alloy (mole fractions x in the system's order) in the person's basis ("wt" or "at"),
+    then in the other."""
+    import numpy as np
+
+    from ladle.engine.units import mass_from_mole
+
+    x = np.asarray(x, dtype=float)
+    shares = {"at": x, "wt": mass_from_mole(x, system.molar_mass)}
+    other = "at" if basis == "wt" else "wt"
+    return ", ".join(f"{el} {quote.percent(shares[basis][i])} {basis}% ({quote.percent(shares[other][i])} {other}%)"
+                     for i, el in enumerate(system.elements))
+
+
 def terminal_plot(title: str, glyphs, min_rows: int, draw: Callable[[object, int, int], None]) -> str:
     """A plotext picture at the terminal's size: at least 80 columns and `min_rows` rows, six
     lines left for the text around it. `draw(plt, width, height)` issues the plot calls; colour

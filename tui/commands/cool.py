@@ -6,8 +6,8 @@ import argparse
 
 from .. import quote
 from ..cooling_text import PATH_NAMES, structure_rows
-from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines,
-                     ascii_text, composition_both, open_system, print_json, system_title, terminal_plot)
+from .common import (add_composition_argument, add_system_argument, alloy_both, ascii_text, closing_lines,
+                     composition_both, open_system, print_json, read_alloy, system_title, terminal_plot)
 
 HELP = "how an alloy freezes: fraction solid, liquid composition and phases on cooling (equilibrium and Scheil)"
 
@@ -30,33 +30,47 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from ladle.engine.solidify.alloy_paths import solidify_alloy
     from ladle.engine.solidify.paths import solidify
 
     system = open_system(args.system)
-    x_b, comp = alloy_composition(system, args.comp)
-    result = solidify(system, x_b)
+    x, comp = read_alloy(system, args.comp)
+    binary = len(system.elements) == 2
+    result = solidify(system, float(x[1])) if binary else solidify_alloy(system, x)
     model = "scheil" if args.scheil else "equilibrium"
     if args.json:
         print_json(result.to_json(model))
         return 0
     element = comp.shown_element
-    lines = [f"{system_title(system)}, alloy {composition_both(system, x_b, element, comp.basis)}"]
+    alloy = composition_both(system, float(x[1]), element, comp.basis) if binary else alloy_both(system, x, comp.basis)
+    lines = [f"{system_title(system)}, alloy {alloy}"]
     if args.plot:
         lines.append(render_plot(system, result, args.unit, args.ascii))
     else:
-        lines += table(system, result, model, args.unit, element, comp.basis)
+        shown = [element] if binary else [e for e in system.elements if e != comp.balance]
+        lines += table(system, result, model, args.unit, shown, comp.basis)
     lines += summary(system, result, args.unit)
     print("\n".join(ascii_text(lines, args.ascii)))
     return 0
 
 
 # --- text --------------------------------------------------------------------------------------
-def _composition(system, x_b: float, element: str, basis: str) -> str:
-    """x_B as the person's element and basis: '10.0' (wt% or at% of `element`)."""
-    from ladle.engine.solidify.records import mass_fraction_of_B
+def _liquid(system, step, elements: list[str], basis: str) -> list[str]:
+    """The liquid of a path's step as the contents of `elements` in the person's basis ("wt" or
+    "at"): ['10.0'] for a binary's step, one per element for a larger system's; '-' once all is
+    solid."""
+    import numpy as np
 
-    frac_b = mass_fraction_of_B(system, x_b) if basis == "wt" else x_b
-    return quote.percent(frac_b if element == system.elements[1] else 1.0 - frac_b)
+    from ladle.engine.units import mass_from_mole
+
+    x = getattr(step, "liquid_x", None)
+    if x is None and getattr(step, "liquid_x_B", None) is not None:
+        x = (1.0 - step.liquid_x_B, step.liquid_x_B)
+    if x is None:
+        return ["-"] * len(elements)
+    x = np.asarray(x, dtype=float)
+    shares = mass_from_mole(x, system.molar_mass) if basis == "wt" else x
+    return [quote.percent(shares[system.elements.index(el)]) for el in elements]
 
 
 def row_temperatures(result, unit: str) -> list[tuple[float, bool]]:
@@ -97,21 +111,23 @@ def _solid(fraction: float) -> str:
     return f"{100.0 * fraction:.1f}"
 
 
-def table(system, result, model: str, unit: str, element: str, basis: str) -> list[str]:
-    """Temperature, fraction solid of both paths, and the chosen path's liquid and phases."""
-    head = [("", "solid, mass %", "", "liquid", ""),
-            ("temperature", "equilibrium", "Scheil", f"{element} {basis}%", f"phases ({PATH_NAMES[model]} path)")]
+def table(system, result, model: str, unit: str, elements: list[str], basis: str) -> list[str]:
+    """Temperature, fraction solid of both paths, and the chosen path's liquid (the contents of
+    `elements`) and phases."""
+    k = len(elements)
+    head = [("", "solid, mass %", "", "liquid") + ("",) * k,
+            ("temperature", "equilibrium", "Scheil") + tuple(f"{el} {basis}%" for el in elements)
+            + (f"phases ({PATH_NAMES[model]} path)",)]
     rows = []
     for T, after in row_temperatures(result, unit):
         eq, sc = result.states_at(T, below=after)
         shown = sc if model == "scheil" else eq
-        liquid = "-" if shown.liquid_x_B is None else _composition(system, shown.liquid_x_B, element, basis)
         rows.append((quote.temperature(T, unit), _solid(eq.fraction_solid), _solid(sc.fraction_solid),
-                     liquid, " + ".join(shown.phases)))
-    widths = [max(len(r[i]) for r in head + rows) for i in range(4)]
+                     *_liquid(system, shown, elements, basis), " + ".join(shown.phases)))
+    widths = [max(len(r[i]) for r in head + rows) for i in range(3 + k)]
     out = [""]
     for r in head + rows:
-        out.append("  ".join(f"{v:>{w}}" for v, w in zip(r[:4], widths)) + "  " + r[4])
+        out.append("  ".join(f"{v:>{w}}" for v, w in zip(r[:3 + k], widths)) + "  " + r[3 + k])
     return out
 
 

@@ -25,6 +25,10 @@ def run(args: argparse.Namespace) -> int:
     import numpy as np
 
     system = open_system(args.system)
+    if len(system.elements) != 2:
+        from .alloy_melt import run_alloy
+
+        return run_alloy(system, args)
     x_b, comp = alloy_composition(system, args.comp)
     m = melt_range(system, x_b)
     x = np.array([1.0 - x_b, x_b])

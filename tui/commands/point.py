@@ -5,8 +5,8 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
-from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines, open_system,
-                     print_json, system_title, temperature_both, temperature_kelvin)
+from .common import (add_composition_argument, add_system_argument, alloy_both, closing_lines, open_system, print_json,
+                     read_alloy, system_title, temperature_both, temperature_kelvin)
 
 HELP = "phases, their compositions and amounts for one alloy at one temperature"
 
@@ -23,13 +23,41 @@ def run(args: argparse.Namespace) -> int:
 
     system = open_system(args.system)
     t = temperature_kelvin(system, args.temp)
-    x_b, comp = alloy_composition(system, args.comp)
-    result = equilibrate(system, t.kelvin, x_b)
+    x, comp = read_alloy(system, args.comp)
+    binary = len(system.elements) == 2
+    result = equilibrate(system, t.kelvin, float(x[1]) if binary else x)
     if args.json:
         print_json(result.to_json(system))
         return 0
-    print("\n".join(render(system, result, t.unit, comp.shown_element, comp.basis)))
+    lines = render(system, result, t.unit, comp.shown_element, comp.basis) if binary else \
+        render_every_element(system, result, t.unit, comp.basis)
+    print("\n".join(lines))
     return 0
+
+
+def render_every_element(system, result, unit: str, basis: str) -> list[str]:
+    """The table of an alloy of three or more elements: every phase with its amount and the
+    content of every element, in the person's basis ("wt" or "at"; --json gives both)."""
+    first, amount_name, other_name = ("w", "wt%", "mol%") if basis == "wt" else ("x", "mol%", "wt%")
+
+    def amount(p) -> str:
+        a, b = (p.amount_mass, p.amount_mol) if basis == "wt" else (p.amount_mol, p.amount_mass)
+        return f"{quote.percent(a)} {amount_name} ({quote.percent(b)} {other_name})"
+
+    head = ("phase", "amount") + tuple(f"{el} {basis}%" for el in system.elements)
+    rows = [head] + [(p.name, amount(p)) + tuple(quote.percent(v) for v in getattr(p, first)) for p in result.phases]
+    widths = [max(len(r[i]) for r in rows) for i in range(len(head))]
+    lines = [f"{system_title(system)} at {temperature_both(result.temperature_K, unit)}",
+             f"alloy: {alloy_both(system, result.x, basis)}",
+             f"stable: {' + '.join(result.phase_names)}",
+             ""]
+    lines += ["  ".join(f"{v:<{w}}" if i < 2 else f"{v:>{w}}" for i, (v, w) in enumerate(zip(r, widths))).rstrip()
+              for r in rows]
+    lines.append("")
+    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)}")
+    if not result.converged:
+        lines.append("warning: the equilibrium did not converge to its tolerance; treat this answer with suspicion")
+    return lines + closing_lines(system)
 
 
 def render(system, result, unit: str, element: str, basis: str) -> list[str]:

@@ -1,0 +1,48 @@
+"""`ladle melt` for alloys of three or more elements: liquidus, solidus, freezing range and every
+change of the stable phases on cooling, from the one-alloy transition scan
+(ladle.engine.diagrams.alloy_transitions). Binary alloys keep melt.py's answer."""
+
+from __future__ import annotations
+
+import argparse
+
+from .. import quote
+from .common import alloy_both, closing_lines, print_json, read_alloy, system_title, temperature_both
+
+
+def run_alloy(system, args: argparse.Namespace) -> int:
+    """Print the melt range of the --comp alloy of `system` (text, or JSON with --json)."""
+    from ladle.engine.diagrams.alloy_transitions import alloy_transitions
+    from ladle.engine.units import mass_from_mole
+
+    x, comp = read_alloy(system, args.comp)
+    scan = alloy_transitions(system, x)
+    liquidus, solidus = scan.liquidus_K, scan.solidus_K
+    freezing = None if liquidus is None or solidus is None else liquidus - solidus
+    if args.json:
+        w = mass_from_mole(x, system.molar_mass)
+        print_json({
+            "system": system.name,
+            "mole_fraction": {el: float(v) for el, v in zip(system.elements, x)},
+            "mass_fraction": {el: float(v) for el, v in zip(system.elements, w)},
+            "liquidus_K": liquidus, "solidus_K": solidus, "freezing_range_K": freezing,
+            "crossings": [{"temperature_K": c.temperature_K, "above": list(c.above), "below": list(c.below)}
+                          for c in scan.transitions],
+        })
+        return 0
+    unit = args.unit
+
+    def temp(T: float | None) -> str:
+        return "not inside the scanned range" if T is None else temperature_both(T, unit)
+
+    lines = [f"{system_title(system)}, alloy {alloy_both(system, x, comp.basis)}",
+             f"liquidus        {temp(liquidus)}",
+             f"solidus         {temp(solidus)}"]
+    if freezing is not None:
+        lines.append(f"freezing range  {quote.temperature_difference(freezing, unit)}")
+    lines.append("on cooling:")
+    lines += [f"  {quote.temperature(c.temperature_K, unit):>12}  {' + '.join(c.above)}  ->  {' + '.join(c.below)}"
+              for c in scan.transitions]
+    lines += [f"warning: {w}" for w in scan.warnings]
+    print("\n".join(lines + closing_lines(system)))
+    return 0
