@@ -8,8 +8,6 @@ from __future__ import annotations
 import math
 from typing import Callable
 
-import numpy as np
-
 #: The largest system file (bytes).
 MAX_FILE_BYTES = 2_000_000
 #: Elements of one system.
@@ -79,8 +77,3 @@ def check_magnitude(value: float, limit: float, key: str, unit: str, fail: Fail)
     if abs(value) > limit:
         raise fail(key, f"{value:g} {unit} is implausible; expected a magnitude of at most {limit:g} {unit}")
 
-
-def check_rows(coefficients: np.ndarray, bounds: tuple[float, ...], key: str, fail: Fail) -> None:
-    """check_terms for every piece of a function (bounds: lower limit, then each upper limit)."""
-    for i, row in enumerate(coefficients):
-        check_terms(list(row), bounds[i], bounds[i + 1], f"{key}[{i}]", fail)

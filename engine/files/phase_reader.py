@@ -1,6 +1,6 @@
 """Reading the phases of a system file (systems/FORMAT.md): substitutional solutions in any number
 of elements, sublattice phases, stoichiometric compounds, and the phases of the files a system
-builds on, merged with its own.
+builds on, merged with its own (phase_drafts.py).
 
 Every solution and sublattice phase is read once into the general model (`SublatticePhase`); a
 binary's solution class is derived from that model (models/general_form.py). Messages name the
@@ -9,18 +9,17 @@ file and the key (through the reader's `fail`).
 
 from __future__ import annotations
 
-import itertools
-from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from . import bounds
+from .phase_drafts import Constituents, PhaseDraft, build, draft_of, find, merge, same_compound
 from ..models.formula import parse_formula
 from ..models.general_form import binary_solution, compound_model
 from ..models.phases import CompoundPhase
 from ..models.polynomials import COEFFICIENTS, TemperatureFunction
-from ..models.sublattice import VACANCY, Interaction, MagneticTerms, SublatticePhase
+from ..models.sublattice import VACANCY, SublatticePhase
 
 if TYPE_CHECKING:
     from ..models.system import System
@@ -36,23 +35,6 @@ _SUBLATTICE_ENTRY_KEYS = {"sites", "holds"}
 _END_MEMBER_KEYS = {"constituents", "G", "curie_K", "moment", "notes", "source"}
 _INTERACTION_KEYS = {"constituents", "L", "curie_L", "moment_L", "notes", "source"}
 
-Constituents = tuple[tuple[str, ...], ...]
-
-
-@dataclass
-class _Draft:
-    """One phase while it is read and merged: every value with `where` it came from
-    ("file: key"), so that a conflict between two files can name both."""
-
-    name: str
-    kind: str                                   # "solution" or "sublattices"
-    site_ratios: tuple[float, ...]
-    constituents: list[list[str]]
-    end_members: dict[tuple[str, ...], tuple[TemperatureFunction, str]] = field(default_factory=dict)
-    interactions: dict[Constituents, tuple[tuple[TemperatureFunction, ...], str]] = field(default_factory=dict)
-    curie: dict[Constituents, tuple[tuple[TemperatureFunction, ...], str]] = field(default_factory=dict)
-    moment: dict[Constituents, tuple[tuple[TemperatureFunction, ...], str]] = field(default_factory=dict)
-    magnetic: tuple[float, float, str] | None = None   # (above_curie_fraction, antiferro_factor, where)
 
 
 # --- temperature functions of elements --------------------------------------------------------
@@ -169,7 +151,7 @@ def _magnetic_number(r: "_Reader", value: Any, key: str, which: str) -> float:
 
 # --- solution phases -------------------------------------------------------------------------------
 def _solution_draft(r: "_Reader", library: "ElementLibrary", name: str, table: dict, elements: tuple[str, ...],
-                    complete: bool) -> _Draft:
+                    complete: bool) -> PhaseDraft:
     """A solution phase of the file; `complete`: every element must be given here (no file to
     build on)."""
     key = f"phase.{name}"
@@ -179,7 +161,7 @@ def _solution_draft(r: "_Reader", library: "ElementLibrary", name: str, table: d
         raise r.fail(f"{key}.G", "missing: the Gibbs energy of each pure element in this phase")
     g_table = r.table(table.get("G", {}), f"{key}.G")
     r.known_keys(g_table, set(elements), f"{key}.G")
-    draft = _Draft(name, "solution", (1.0,), [[]])
+    draft = PhaseDraft(name, "solution", (1.0,), [[]])
     for el in elements:
         if el in g_table:
             draft.end_members[(el,)] = (element_function(r, library, g_table[el], f"{key}.G.{el}", el), f"{where}: {key}.G.{el}")
@@ -222,7 +204,7 @@ def _constituent_list(r: "_Reader", value: Any, key: str) -> list[str]:
 
 
 def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table: dict, elements: tuple[str, ...],
-                      solutions: dict[str, SublatticePhase]) -> _Draft:
+                      solutions: dict[str, SublatticePhase]) -> PhaseDraft:
     key = f"phase.{name}"
     where = r.path.name
     r.known_keys(table, SUBLATTICE_KEYS, key)
@@ -253,7 +235,7 @@ def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table:
         held.append(holds)
     if all(c == VACANCY for h in held for c in h):
         raise r.fail(f"{key}.sublattices", "the phase holds only vacancies")
-    draft = _Draft(name, "sublattices", tuple(ratios), held)
+    draft = PhaseDraft(name, "sublattices", tuple(ratios), held)
     magnetic_values = False
 
     def constituents_of(value: Any, k: str, single: bool) -> Constituents:
@@ -310,7 +292,7 @@ def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table:
         found = False
         for which, store in (("L", draft.interactions), ("curie_L", draft.curie), ("moment_L", draft.moment)):
             if which in entry:
-                if _find(store, consts) is not None:
+                if find(store, consts) is not None:
                     raise r.fail(f"{k}.constituents", f"{which} of these constituents is given twice")
                 found = True
                 magnetic_values |= which != "L"
@@ -396,149 +378,6 @@ def _widened(c: CompoundPhase, elements: tuple[str, ...]) -> CompoundPhase:
     return CompoundPhase(c.name, elements, x, _all_references(refs, x), c.formation)
 
 
-# --- merging the files built on ---------------------------------------------------------------------
-def _same_function(f: TemperatureFunction, g: TemperatureFunction) -> bool:
-    """Whether two functions agree (to 1e-9 relative) wherever both hold."""
-    if f.bounds == g.bounds and np.array_equal(np.asarray(f.coefficients), np.asarray(g.coefficients)):
-        return True
-    lo, hi = max(f.lower_K, g.lower_K, 1.0), min(f.upper_K, g.upper_K, bounds.MAX_TEMPERATURE_K)
-    if lo >= hi:
-        return False
-    for T in np.geomspace(lo, hi, 41):
-        a, b = f.value(float(T)), g.value(float(T))
-        if abs(a - b) > 1e-9 * max(abs(a), abs(b), 1.0):
-            return False
-    return True
-
-
-def _same(a: tuple[TemperatureFunction, ...], b: tuple[TemperatureFunction, ...]) -> bool:
-    return len(a) == len(b) and all(_same_function(f, g) for f, g in zip(a, b))
-
-
-def _draft_of(model: SublatticePhase, origin: str) -> _Draft:
-    """A phase of a file built on, as a draft whose values name that file."""
-    where = f"{origin}: phase.{model.name}"
-    kind = "solution" if model.is_substitutional else "sublattices"
-    draft = _Draft(model.name, kind, model.site_ratios, [list(c) for c in model.constituents])
-    draft.end_members = {combo: (f, where) for combo, f in model.end_members.items()}
-    draft.interactions = {t.constituents: (t.coefficients, where) for t in model.interactions}
-    if model.magnetic is not None:
-        mag = model.magnetic
-        draft.magnetic = (mag.above_curie_fraction, mag.antiferro_factor, where)
-        draft.curie = {t.constituents: (t.coefficients, where) for t in mag.curie_K}
-        draft.moment = {t.constituents: (t.coefficients, where) for t in mag.moment}
-    return draft
-
-
-def _merge(r: "_Reader", into: _Draft, other: _Draft, own: bool, chosen: _Draft | None = None) -> None:
-    """Add `other` (a file built on, or with `own` the file itself, whose values win) into `into`.
-    Two files built on may disagree only where the file itself (`chosen`) gives the value."""
-    chosen = chosen or _Draft(into.name, into.kind, into.site_ratios, [])
-    key = f"phase.{into.name}"
-    if into.kind != other.kind or len(into.site_ratios) != len(other.site_ratios) or \
-            any(abs(a - b) > 1e-12 * max(a, b) for a, b in zip(into.site_ratios, other.site_ratios)):
-        raise r.fail(key, f"the phase has a different structure in {_origin(other)} than in {_origin(into)} "
-                     "(model, number of sublattices or sites); phases of the same name must agree")
-    for s, held in enumerate(other.constituents):
-        into.constituents[s].extend(c for c in held if c not in into.constituents[s])
-    for mine, theirs, settled, what in ((into.end_members, other.end_members, chosen.end_members, "Gibbs energy"),
-                                        (into.interactions, other.interactions, chosen.interactions, "interaction"),
-                                        (into.curie, other.curie, chosen.curie, "Curie temperature"),
-                                        (into.moment, other.moment, chosen.moment, "magnetic moment")):
-        for c, value in theirs.items():
-            old = _find(mine, c)
-            if old is not None and not own and _find(settled, c) is None:
-                a, b = mine[old][0], value[0]
-                a, b = (a, b) if isinstance(a, tuple) else ((a,), (b,))
-                if not _same(a, _reordered(b, c, old)):
-                    raise r.fail(key, f"the {what} of {_label(c)} differs between {mine[old][1]} and {value[1]}; "
-                                 "give it in this file to choose")
-                continue
-            if old is not None:
-                del mine[old]
-            mine[c] = value
-    if other.magnetic is not None:
-        if into.magnetic is not None and not own and chosen.magnetic is None and into.magnetic[:2] != other.magnetic[:2]:
-            raise r.fail(f"{key}.magnetic", f"above_curie_fraction or antiferro_factor differ between {into.magnetic[2]} "
-                         f"and {other.magnetic[2]}; give them in this file to choose")
-        into.magnetic = other.magnetic
-
-
-def _find(store: dict, c) -> Any:
-    """The key of `store` naming the same constituents as `c` (in any order within a sublattice)."""
-    if c in store:
-        return c
-    if isinstance(c, tuple) and c and isinstance(c[0], tuple):
-        want = tuple(frozenset(s) for s in c)
-        for k in store:
-            if tuple(frozenset(s) for s in k) == want:
-                return k
-    return None
-
-
-def _reordered(coeffs: tuple[TemperatureFunction, ...], c, target) -> tuple[TemperatureFunction, ...]:
-    """Coefficients of the term `c` expressed in the constituent order of `target`: a binary
-    series changes the sign of its odd orders when its pair is reversed; a ternary's three follow
-    their constituents."""
-    if c == target or not (isinstance(c, tuple) and c and isinstance(c[0], tuple)):
-        return coeffs
-    mixed = [(a, b) for a, b in zip(c, target) if len(a) > 1]
-    if len(mixed) == 1 and len(mixed[0][0]) == 2 and mixed[0][0] != mixed[0][1]:
-        return tuple(f.scaled(-1.0) if k % 2 else f for k, f in enumerate(coeffs))
-    if len(mixed) == 1 and len(mixed[0][0]) == 3 and len(coeffs) == 3:
-        a, b = mixed[0]
-        return tuple(coeffs[a.index(x)] for x in b)
-    return coeffs
-
-
-def _label(c) -> str:
-    if isinstance(c, tuple) and c and isinstance(c[0], tuple):
-        return " : ".join(",".join(s) for s in c)
-    return " : ".join(c)
-
-
-def _origin(d: _Draft) -> str:
-    for _f, where in d.end_members.values():
-        return where.split(":")[0]
-    return "this file"
-
-
-# --- building -------------------------------------------------------------------------------------
-def _build(r: "_Reader", draft: _Draft, elements: tuple[str, ...]) -> SublatticePhase:
-    key = f"phase.{draft.name}"
-    if draft.kind == "solution":
-        for el in elements:
-            if (el,) not in draft.end_members:
-                raise r.fail(f"{key}.G.{el}", "missing: every element of the system needs its Gibbs energy in every "
-                             "solution phase (none of the files this one builds on gives it)")
-        draft.constituents = [[el for el in elements]]
-        if draft.magnetic is not None:
-            for which, store in (("curie_K", draft.curie), ("moment", draft.moment)):
-                for el in elements:
-                    if ((el,),) not in store:
-                        raise r.fail(f"{key}.magnetic.{which}.{el}", "missing: give a value for every element (0 if not magnetic)")
-    else:
-        for combo in itertools.product(*draft.constituents):
-            if combo not in draft.end_members:
-                raise r.fail(f"{key}.end_member", f"missing the end member with constituents {list(combo)}: every "
-                             "combination of one constituent per sublattice needs its G")
-    magnetic = None
-    if draft.magnetic is not None:
-        p, factor, _where = draft.magnetic
-        magnetic = MagneticTerms(p, tuple(Interaction(c, v[0]) for c, v in draft.curie.items()),
-                                 tuple(Interaction(c, v[0]) for c, v in draft.moment.items()), factor)
-    elif draft.curie or draft.moment:
-        raise r.fail(f"{key}.magnetic", "missing: magnetic values need above_curie_fraction")
-    try:
-        return SublatticePhase(name=draft.name, elements=elements, site_ratios=draft.site_ratios,
-                               constituents=tuple(tuple(h) for h in draft.constituents),
-                               end_members={c: v[0] for c, v in draft.end_members.items()},
-                               interactions=tuple(Interaction(c, v[0]) for c, v in draft.interactions.items()),
-                               magnetic=magnetic)
-    except ValueError as e:
-        raise r.fail(key, str(e)) from None
-
-
 def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elements: tuple[str, ...],
                 bases: list[tuple[str, "System"]]) -> tuple[dict, dict[str, SublatticePhase]]:
     """The phases of a file (`phase_table`, names already checked) merged with those of the files
@@ -552,45 +391,41 @@ def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elem
             raise r.fail(f"phase.{name}.model", f"unknown model {model!r}; expected one of {', '.join(repr(m) for m in MODELS)}")
         tables[name] = (model, table)
     complete = not bases
-    base_drafts: dict[str, list[_Draft]] = {}
+    base_drafts: dict[str, list[PhaseDraft]] = {}
     base_compounds: dict[str, tuple[CompoundPhase, str]] = {}
     for origin, system in bases:
         for name, phase in system.phases.items():
             if isinstance(phase, CompoundPhase):
-                if name in base_compounds and not _same_compound(base_compounds[name][0], phase):
+                if name in base_compounds and not same_compound(base_compounds[name][0], phase):
                     raise r.fail(f"phase.{name}", f"compound {name} differs between {base_compounds[name][1]} and {origin}; "
                                  "give it in this file to choose")
                 base_compounds.setdefault(name, (phase, origin))
             else:
-                base_drafts.setdefault(name, []).append(_draft_of(system.models[name], origin))
+                base_drafts.setdefault(name, []).append(draft_of(system.models[name], origin))
     for name in base_compounds:
         if name in base_drafts:
             raise r.fail(f"phase.{name}", "is a compound in one file built on and a solution or sublattice phase in another")
     bounds.check_count(len(set(tables) | set(base_drafts) | set(base_compounds)), bounds.MAX_PHASES, "phase", "phases", r.fail)
 
-    def merged(name: str, own: _Draft | None) -> SublatticePhase:
+    def merged(name: str, own: PhaseDraft | None) -> SublatticePhase:
         drafts = base_drafts.get(name, [])
         into = drafts[0] if drafts else own
         for other in drafts[1:]:
-            _merge(r, into, other, own=False, chosen=own)
+            merge(r, into, other, own=False, chosen=own)
         if own is not None and into is not own:
-            _merge(r, into, own, own=True)
-        return _build(r, into, elements)
+            merge(r, into, own, own=True)
+        return build(r, into, elements)
 
-    solutions: dict[str, SublatticePhase] = {}
-    for name, (model, table) in tables.items():
-        if model == "solution":
-            solutions[name] = merged(name, _solution_draft(r, library, name, table, elements, complete))
-    for name, drafts in base_drafts.items():
-        if name not in tables and drafts[0].kind == "solution":
-            solutions[name] = merged(name, None)
-    lattices: dict[str, SublatticePhase] = {}
-    for name, (model, table) in tables.items():
-        if model == "sublattices":
-            lattices[name] = merged(name, _sublattice_draft(r, library, name, table, elements, solutions))
-    for name, drafts in base_drafts.items():
-        if name not in tables and drafts[0].kind == "sublattices":
-            lattices[name] = merged(name, None)
+    def gather(kind: str, read) -> dict[str, SublatticePhase]:
+        """Every phase of one model: the file's own (read by `read(name, table)`), merged with
+        the files built on, then those only the files built on have."""
+        out = {name: merged(name, read(name, table)) for name, (model, table) in tables.items() if model == kind}
+        out.update({name: merged(name, None) for name, drafts in base_drafts.items()
+                    if name not in tables and drafts[0].kind == kind})
+        return out
+
+    solutions = gather("solution", lambda name, table: _solution_draft(r, library, name, table, elements, complete))
+    lattices = gather("sublattices", lambda name, table: _sublattice_draft(r, library, name, table, elements, solutions))
     compounds: dict[str, CompoundPhase] = {}
     for name, (model, table) in tables.items():
         if model == "compound":
@@ -610,19 +445,3 @@ def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elem
     models: dict[str, SublatticePhase] = {**solutions, **lattices}
     models.update({n: compound_model(c) for n, c in compounds.items()})
     return phases, {n: models[n] for n in phases}
-
-
-def _same_compound(a: CompoundPhase, b: CompoundPhase) -> bool:
-    """Whether two compounds of files built on are the same (formula and G)."""
-    ma, mb = compound_model(a), compound_model(b)
-    if set(ma.constituents) != set(mb.constituents):
-        return False
-    lo, hi = max(ma.valid_range_K()[0], mb.valid_range_K()[0], 1.0), min(ma.valid_range_K()[1], mb.valid_range_K()[1])
-    xa = dict(zip((c[0] for c in ma.constituents), ma.site_ratios))
-    xb = dict(zip((c[0] for c in mb.constituents), mb.site_ratios))
-    if any(abs(xa[k] - xb[k]) > 1e-12 for k in xa):
-        return False
-    fa, fb = next(iter(ma.end_members.values())), next(iter(mb.end_members.values()))
-    return lo < hi and all(abs(fa.value(float(T)) - fb.value(float(T))) <= 1e-9 * max(1.0, abs(fa.value(float(T))))
-                           for T in np.geomspace(lo, min(hi, bounds.MAX_TEMPERATURE_K), 21))
-

@@ -289,15 +289,20 @@ CASES = [
 ]
 
 
+def assert_refused(path, key: str, expected: str) -> None:
+    """Loading `path` fails with one line naming the file, the key and what was expected."""
+    with pytest.raises(SystemFileError) as err:
+        load_system(path)
+    message = str(err.value)
+    assert "\n" not in message and message.startswith(f"{path.name}: "), message
+    assert f" {key}: " in message or f" {key}." in message, message
+    assert expected in message, message
+
+
 @pytest.mark.parametrize("case,old,new,key,expected", CASES, ids=[c[0] for c in CASES])
 def test_bad_multicomponent_file_is_one_line(tmp_path, case, old, new, key, expected):
     assert old in ONE_FILE, case
-    with pytest.raises(SystemFileError) as err:
-        load_system(write(tmp_path, "bad.toml", ONE_FILE.replace(old, new, 1)))
-    message = str(err.value)
-    assert "\n" not in message and message.startswith("bad.toml: "), message
-    assert f" {key}: " in message or f" {key}." in message, message
-    assert expected in message, message
+    assert_refused(write(tmp_path, "bad.toml", ONE_FILE.replace(old, new, 1)), key, expected)
 
 
 def test_builds_on_errors_name_the_key(tmp_path, ternary):
@@ -353,12 +358,7 @@ BOUND_CASES = [
 @pytest.mark.parametrize("case,old,new,key,expected", BOUND_CASES, ids=[c[0] for c in BOUND_CASES])
 def test_what_a_file_may_hold_is_bounded(tmp_path, case, old, new, key, expected):
     assert old in VALID, case
-    with pytest.raises(SystemFileError) as err:
-        load_system(write(tmp_path, "big.toml", VALID.replace(old, new, 1)))
-    message = str(err.value)
-    assert "\n" not in message and message.startswith("big.toml: "), message
-    assert f" {key}: " in message or f" {key}." in message, message
-    assert expected in message, message
+    assert_refused(write(tmp_path, "big.toml", VALID.replace(old, new, 1)), key, expected)
 
 
 def test_a_file_too_large_is_refused_before_it_is_parsed(tmp_path):
