@@ -122,8 +122,13 @@ class _Expansion:
         one_hot = one_hot[..., :n_vars]
         self.to_gradient = one_hot.reshape(self.n_terms * width, n_vars)
         self.to_hessian = np.einsum("tpu,tqw->tpquw", one_hot, one_hot).reshape(self.n_terms * width * width, n_vars * n_vars)
-        self.one_hot = one_hot
-        # for each position pair (p, q), the other positions; the diagonal p == q is masked out
+        # the same for the terms whose factor depends on y: (term, position) -> (u, w) of
+        # d monomial/dy_u * slope_w, and term -> slope_u * slope_w
+        self.to_cross = np.einsum("tpu,tw->tpuw", one_hot, self.slopes).reshape(self.n_terms * width, n_vars * n_vars)
+        self.slope_pairs = np.einsum("tu,tw->tuw", self.slopes, self.slopes).reshape(self.n_terms, n_vars * n_vars)
+        # for each position p, the other positions; for each pair (p, q), the others but those two
+        # (the diagonal p == q is masked out)
+        self.others_one = np.array([[r for r in range(width) if r != p] for p in range(width)], dtype=np.intp).reshape(width, width - 1)
         self.others = np.array([[[r for r in range(width) if r not in (p, q)][: max(width - 2, 0)]
                                  for q in range(width)] for p in range(width)], dtype=np.intp).reshape(width, width, max(width - 2, 0))
         self.off_diagonal = 1.0 - np.eye(width)
@@ -142,6 +147,10 @@ class _Expansion:
         """The polynomial factor F(s) of each term and its first two derivatives in s."""
         s = y @ self.slopes.T + self.offsets
         F = np.broadcast_to(C[:, -1], s.shape).copy()
+        if order == 0:
+            for k in range(self.order - 2, -1, -1):
+                F = F * s + C[:, k]
+            return F, None, None
         F1 = np.zeros_like(s)
         F2 = np.zeros_like(s)
         for k in range(self.order - 2, -1, -1):
@@ -163,26 +172,19 @@ class _Expansion:
         value = (monomial * F).sum(axis=-1)
         if order == 0:
             return value, None, None
-        n, width = self.n_vars, chosen.shape[-1]
-        # products of all positions but one: exclusive prefix times exclusive suffix
-        before = np.ones_like(chosen)
-        after = np.ones_like(chosen)
-        if width > 1:
-            before[..., 1:] = np.cumprod(chosen[..., :-1], axis=-1)
-            after[..., :-1] = np.cumprod(chosen[..., :0:-1], axis=-1)[..., ::-1]
-        leave_one = before * after
+        n = self.n_vars
+        leave_one = chosen[..., self.others_one].prod(axis=-1)               # d monomial / d y at each position
         grad = (leave_one * F[..., None]).reshape(lead + (-1,)) @ self.to_gradient
         if self.linear:
-            d_monomial = np.einsum("...tp,tpu->...tu", leave_one, self.one_hot)
             grad = grad + (monomial * F1) @ self.slopes
         if order == 1:
             return value, grad, None
         leave_two = chosen[..., self.others].prod(axis=-1) * self.off_diagonal   # (..., terms, width, width)
         hess = ((leave_two * F[..., None, None]).reshape(lead + (-1,)) @ self.to_hessian).reshape(lead + (n, n))
         if self.linear:
-            cross = (d_monomial * F1[..., None]).swapaxes(-1, -2) @ self.slopes
+            cross = ((leave_one * F1[..., None]).reshape(lead + (-1,)) @ self.to_cross).reshape(lead + (n, n))
             hess = hess + cross + np.swapaxes(cross, -1, -2)
-            hess = hess + (self.slopes.T * (monomial * F2)[..., None, :]) @ self.slopes
+            hess = hess + ((monomial * F2) @ self.slope_pairs).reshape(lead + (n, n))
         return value, grad, hess
 
 

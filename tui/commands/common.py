@@ -7,6 +7,7 @@ import json
 import os
 import shutil
 import sys
+import textwrap
 from collections.abc import Callable
 
 from .. import quote
@@ -85,6 +86,14 @@ def system_title(system) -> str:
     return system.title or "-".join(system.elements)
 
 
+def coverage_note(system) -> str:
+    """ "(model covers 0-45 at% Ag only)" for a model of part of the composition range, else ""."""
+    lo, hi = system.covers
+    if (lo, hi) == (0.0, 1.0):
+        return ""
+    return f"(model covers {100 * lo:g}-{100 * hi:g} at% {system.elements[1]} only)"
+
+
 def temperature_both(T_K: float, unit: str) -> str:
     """'966.9 °C (1240.0 K)': a temperature in K shown in the person's unit ("C", "K" or "F"),
     then in K (in C when the person's unit is K)."""
@@ -129,13 +138,14 @@ def terminal_plot(title: str, glyphs, min_rows: int, draw: Callable[[object, int
     import plotext
 
     size = shutil.get_terminal_size((80, 24))
-    width, height = max(size.columns, 80), max(size.lines - 6, min_rows)
+    width = max(size.columns, 80)
+    heading = textwrap.wrap(title, width)   # plotext would blank a title wider than the plot
+    height = max(size.lines - 5 - len(heading), min_rows)
     plotext.clear_figure()
     plotext.plotsize(width, height)
     plotext.theme("clear")
-    plotext.title(title)
     draw(plotext, width, height)
-    text = plotext.build()
+    text = "\n".join(heading + [plotext.build()])
     if os.environ.get("NO_COLOR") or not sys.stdout.isatty():
         text = plotext.uncolorize(text)
     return glyphs.plot_text(text)

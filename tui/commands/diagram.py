@@ -7,7 +7,9 @@ import csv
 import sys
 
 from .. import quote
-from .common import add_system_argument, ascii_text, closing_lines, open_system, print_json, system_title, terminal_plot
+from ..errors import CommandError
+from .common import (add_system_argument, ascii_text, closing_lines, coverage_note, open_system, print_json, system_title,
+                     terminal_plot)
 from .section_diagram import add_section_arguments, run_section, wants_section
 
 HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
@@ -17,7 +19,10 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
     add_system_argument(p)
     out = p.add_mutually_exclusive_group()
     out.add_argument("--json", action="store_true", help="print one JSON object: invariants, two-phase fields, melting points")
-    out.add_argument("--csv", action="store_true", help="print the tie-lines of every two-phase field as CSV rows")
+    out.add_argument("--csv", action="store_true", help="print the tie-lines of every two-phase field as CSV rows "
+                     "(at least one every --every degrees)")
+    p.add_argument("--every", type=float, default=2.0, metavar="DT",
+                   help="--csv: a tie-line at least every DT degrees of --unit (default 2; smaller for more rows)")
     p.add_argument("--at", action="store_true", help="composition axis in at%% (default wt%%)")
     p.add_argument("--unit", choices=("C", "K", "F"), default="C", help="temperature unit (default C)")
     p.add_argument("--ascii", action="store_true", help="plain ASCII characters only")
@@ -25,7 +30,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from ladle.engine.diagram import map_diagram
+    from ladle.engine.diagrams.diagram import map_diagram
 
     system = open_system(args.system)
     if wants_section(args) or len(system.elements) != 2:
@@ -35,7 +40,9 @@ def run(args: argparse.Namespace) -> int:
         print_json(diagram.to_json())
         return 0
     if args.csv:
-        write_csv(system, diagram, sys.stdout)
+        if not 0.01 <= args.every <= 1000.0:
+            raise CommandError(f"--every {args.every:g}: expected a temperature step of 0.01 to 1000 degrees")
+        write_csv(system, diagram, sys.stdout, args.unit, args.every / (1.8 if args.unit == "F" else 1.0))
         return 0
     basis = "at" if args.at else "wt"
     lines = reaction_lines(system, diagram, args.unit, basis) + [f"note: {w}" for w in diagram.warnings]
@@ -44,20 +51,24 @@ def run(args: argparse.Namespace) -> int:
     return 0
 
 
-def write_csv(system, diagram, stream) -> None:
-    """One row per tie-line: field, T in K and C, x_B and wt% B of each phase."""
+def write_csv(system, diagram, stream, unit: str, every_K: float) -> None:
+    """One row per tie-line, at least one every `every_K` kelvin of each field: field, T in K
+    (and in `unit` unless that is K), x_B and wt% B of each phase."""
     import numpy as np
 
+    from ladle.engine.diagrams.dense_fields import dense_tie_lines
     from ladle.engine.units import kelvin_to, mass_from_mole
 
     b = system.elements[1]
     out = csv.writer(stream, lineterminator="\n")
-    out.writerow(["field", "T_K", "T_C", f"x_{b}_left", f"wt%_{b}_left", f"x_{b}_right", f"wt%_{b}_right"])
+    shown = [] if unit == "K" else [f"T_{unit}"]
+    out.writerow(["field", "T_K", *shown, f"x_{b}_left", f"wt%_{b}_left", f"x_{b}_right", f"wt%_{b}_right"])
     for f in diagram.fields:
         name = "+".join(f.phases)
-        for T, (xl, xr) in zip(f.T, f.x):
+        for T, (xl, xr) in zip(*dense_tie_lines(system, f, every_K)):
             wl, wr = (float(mass_from_mole(np.array([1 - v, v]), system.molar_mass)[1]) for v in (xl, xr))
-            out.writerow([name, f"{T:.4f}", f"{kelvin_to(T, 'C'):.4f}", f"{xl:.8g}", f"{100 * wl:.6g}", f"{xr:.8g}", f"{100 * wr:.6g}"])
+            in_unit = [] if unit == "K" else [f"{kelvin_to(T, unit):.4f}"]
+            out.writerow([name, f"{T:.4f}", *in_unit, f"{xl:.8g}", f"{100 * wl:.6g}", f"{xr:.8g}", f"{100 * wr:.6g}"])
 
 
 def render_plot(system, unit: str, basis: str, ascii_only: bool) -> str:
@@ -69,13 +80,10 @@ def render_plot(system, unit: str, basis: str, ascii_only: bool) -> str:
 
     glyphs = glyphs_for(ascii_only)
     exploration = Exploration(system, Scales(system.molar_mass, unit, basis))
-    title = system_title(system)
-    lo, hi = system.covers
-    if (lo, hi) != (0.0, 1.0):
-        title += f"  (model covers {100 * lo:g}-{100 * hi:g} at% {system.elements[1]} only)"
+    title = " ".join(filter(None, (system_title(system), coverage_note(system))))
 
     def draw(plt, width: int, height: int) -> None:
-        draw_diagram(plt, diagram_scene(exploration, glyphs, width, height), None, None, glyphs)
+        draw_diagram(plt, diagram_scene(exploration, glyphs, width, height), glyphs)
 
     return terminal_plot(title, glyphs, 24, draw)
 

@@ -65,7 +65,7 @@ def render(system, result, unit: str, element: str, basis: str) -> list[str]:
     i = system.elements.index(element)
     first, second = ("w", "x") if basis == "wt" else ("x", "w")
     names = {"w": "wt%", "x": "at%"}
-    amount_names = {"w": "wt%", "x": "mol%"}
+    amount_names = {"w": "mass %", "x": "mol %"}   # amounts: shares of the alloy, not compositions
 
     def comp(share) -> str:
         a, b = getattr(share, first)[i], getattr(share, second)[i]
@@ -76,18 +76,24 @@ def render(system, result, unit: str, element: str, basis: str) -> list[str]:
         b = p.amount_mol if first == "w" else p.amount_mass
         return f"{quote.percent(a)} {amount_names[first]} ({quote.percent(b)} {amount_names[second]})"
 
+    from ..phase_names import phase_label
+
+    among = [(p.name, p.x[1]) for p in result.phases]
+    labels = [phase_label(system, p.name, p.x[1], result.temperature_K, among) for p in result.phases]
     lines = [
         f"{system_title(system)} at {temperature_both(result.temperature_K, unit)}",
         f"alloy: {comp(result)}",
-        f"stable: {' + '.join(result.phase_names)}",
+        f"stable: {' + '.join(labels)}",
         "",
     ]
-    rows = [("phase", "amount", "composition")] + [(p.name, amount(p), comp(p)) for p in result.phases]
+    rows = [("phase", "amount, of the alloy", "composition")] + [
+        (label, amount(p), comp(p)) for label, p in zip(labels, result.phases, strict=True)]
     w0 = max(len(r[0]) for r in rows)
     w1 = max(len(r[1]) for r in rows)
     lines += [f"{r[0]:<{w0}}  {r[1]:<{w1}}  {r[2]}" for r in rows]
     lines.append("")
-    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)}")
+    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)} (relative to the pure elements "
+                 "as their stable solids at this temperature)")
     if not result.converged:
         lines.append("warning: a tie-line did not converge to its tolerance; treat this answer with suspicion")
     return lines + closing_lines(system)
