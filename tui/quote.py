@@ -21,7 +21,7 @@ def temperature(T_K: float, unit: str, decimals: int = 1) -> str:
     """'1250.0 °C', '1523.2 K', '2282.0 °F'."""
     value = kelvin_to(T_K, unit)
     sign = "" if unit == "K" else degree_sign()
-    return f"{value:.{decimals}f} {sign}{unit}"
+    return f"{value:.{decimals}f} {sign}{unit}".removeprefix("-" if round(value, decimals) == 0 else "+")
 
 
 def temperature_difference(dT_K: float, unit: str, decimals: int = 1) -> str:
@@ -33,22 +33,29 @@ def temperature_difference(dT_K: float, unit: str, decimals: int = 1) -> str:
     return f"{value:.{decimals}f} {sign}{unit}"
 
 
+SMALLEST_PERCENT = 1e-3   # shares below this (and within it of 100 %) are numerical noise to a reader
+
+
 def percent(fraction: float) -> str:
-    """A fraction as a percentage with about three significant figures: '40.0', '2.51', '0.0031'."""
+    """A fraction as a percentage with three significant figures: '40.0', '2.51', '0.800',
+    '0.00310'; below 0.001 % '<0.001' (and '0' for nothing), and a near-pure value never
+    rounded up to 100 ('99.98', '>99.999'). JSON output keeps full precision instead."""
     v = 100.0 * fraction
     a = abs(v)
-    if a == 0.0:
+    if a < 1e-9:
         return "0"
-    if a >= 10:
+    if a >= 9.995:   # what rounds to 10.00 is shown as 10.0
         rest = 100.0 - a
+        if 0.0 < rest < SMALLEST_PERCENT:
+            return f">{100.0 - SMALLEST_PERCENT:g}"
         if 0.0 < rest < 0.05:  # never round a near-pure value up to 100
-            return f"{v:.{min(12, 1 - math.floor(math.log10(rest)))}f}"
+            return f"{v:.{-math.floor(math.log10(rest))}f}"
         return f"{v:.1f}"
     if a >= 1:
         return f"{v:.2f}"
-    if a >= 1e-3:
-        return f"{v:.3g}"
-    return f"{v:.1e}"
+    if a >= SMALLEST_PERCENT:
+        return f"{v:#.3g}"
+    return f"<{SMALLEST_PERCENT:g}"
 
 
 def energy(j_per_mol: float) -> str:

@@ -71,7 +71,7 @@ def test_scheil_table_follows_the_scheil_liquid(capsys):
 def test_plot_draws_both_paths(capsys, monkeypatch):
     monkeypatch.setenv("NO_COLOR", "1")
     out = _run(capsys, "pb-sn", "--comp", "Sn=10wt%", "--plot", "--ascii")
-    assert "solid (mass %)" in out and "equilibrium" in out and "Scheil" in out
+    assert "solid, mass % of the alloy" in out and "equilibrium" in out and "Scheil" in out
     plot = out.split("freezing ends")[0]
     assert plot.isascii()
     # the table and summary too; the eutectic at 183 C as above (Massalski, 2nd ed. (1990))

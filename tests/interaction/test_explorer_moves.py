@@ -25,9 +25,10 @@ async def test_status_pane_shows_the_engines_equilibrium():
         # 500 K = 226.85 C = 440.33 F by the definitions of the scales (NIST Special Publication
         # 811 (2008), Guide for the Use of the International System of Units).
         assert "226.9 °C  500.0 K  440.3 °F" in text
-        assert " + ".join(share.name for share in result.phases) in text
+        # each phase by its structure name, with the trade's name from the file: fcc (Pb)
+        assert "fcc (Pb) + liquid" in text and [s.name for s in result.phases] == ["fcc", "liquid"]
         for share in result.phases:
-            assert re.search(rf"{share.name}\s+{re.escape(percent(share.amount_mass))}\s+"
+            assert re.search(rf"{share.name}( \(Pb\))?\s+{re.escape(percent(share.amount_mass))}\s+"
                              rf"{re.escape(percent(share.amount_mol))}", text)
             assert f"Sn {percent(share.w[1])} wt%  ({percent(share.x[1])} at%)" in text
 
@@ -84,7 +85,7 @@ async def test_bad_typed_point_is_marked_with_the_reason_and_nothing_moves():
 async def test_points_outside_the_system_are_refused():
     app = make_app(T_K=500.0, x_B=0.5)
     async with app.run_test(size=SIZE) as pilot:
-        app.screen_stack[0].query_one(PointEntry).open()
+        app.screen_stack[0].query_one(PointEntry).open("Sn")
         await pilot.press(*"3000C", "enter")
         problem = str(app.screen_stack[0].query_one("#point-problem").render())
         assert "3000 °C is outside this system's range" in problem
@@ -110,9 +111,9 @@ async def test_a_40_60_solder_reads_as_the_handbooks_say():
         assert _number_after("solidus", text) == pytest.approx(183, abs=1)
         # T.B. Massalski (ed.), Binary Alloy Phase Diagrams, 2nd ed. (1990): the eutectic
         # liquid holds 61.9 wt% Sn, the Pb-rich fcc solid about 18-19 wt% Sn at 183 C.
-        assert "fcc + liquid" in text
+        assert "fcc (Pb) + liquid" in text     # the trade writes the Pb-rich solid (Pb)
         liquid = re.search(r"liquid\s+[\d.]+\s+[\d.]+\n\s+Sn ([\d.]+) wt%", text)
-        fcc = re.search(r"fcc\s+[\d.]+\s+[\d.]+\n\s+Sn ([\d.]+) wt%", text)
+        fcc = re.search(r"fcc \(Pb\)\s+[\d.]+\s+[\d.]+\n\s+Sn ([\d.]+) wt%", text)
         assert float(liquid.group(1)) == pytest.approx(61.9, abs=1.5)
         assert float(fcc.group(1)) == pytest.approx(18.5, abs=2.0)
         # Lever rule by hand with those handbook compositions: liquid share

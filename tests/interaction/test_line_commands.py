@@ -121,7 +121,7 @@ def test_point_human_table_in_the_typed_units(run, iso):
     assert f"B {100 * xs_b:.1f} at% ({100 * mass_fraction_B(xs_b):.1f} wt%)" in rows["solid"]
     assert f"B {100 * xl_b:.1f} at% ({100 * mass_fraction_B(xl_b):.1f} wt%)" in rows["liquid"]
     f_liquid = (X_POINT - xs_b) / (xl_b - xs_b)
-    assert f"{100 * f_liquid:.1f} mol%" in rows["liquid"]
+    assert f"{100 * f_liquid:.1f} mol %" in rows["liquid"]     # an amount: mol % of the alloy
     assert "Gibbs energy of the alloy:" in out
     assert "defer to the alloy's specification" in out
 
@@ -249,7 +249,9 @@ def test_diagram_csv(run, iso):
     assert len(header) == 7 and "x_B_left" in header and "wt%_B_right" in header
     _code, json_out, _err = run("diagram", iso, "--json")
     (field,) = json.loads(json_out)["two_phase_fields"]
-    assert len(body) == len(field["tie_lines"])
+    # every traced tie-line, and solved ones between them: no gap wider than --every (2 K)
+    assert len(body) >= len(field["tie_lines"])
+    assert max(b - a for a, b in zip(*[[float(r[1]) for r in body][i:] for i in (0, 1)])) <= 2.0 + 1e-9
     col = {name: i for i, name in enumerate(header)}
     for row in body:
         assert row[0] == "solid+liquid"
@@ -260,6 +262,19 @@ def test_diagram_csv(run, iso):
             assert w == pytest.approx(100 * mass_fraction_B(x), abs=1e-3)
         xs_b, _, xl_b, _ = topologies.isomorphous_tie_line(T_K)
         assert float(row[col["x_B_left"]]) == pytest.approx(xs_b, abs=1e-6)
+        assert float(row[col["x_B_right"]]) == pytest.approx(xl_b, abs=1e-6)
+
+
+def test_diagram_csv_in_fahrenheit_with_more_rows(run, iso):
+    code, out, _err = run("diagram", iso, "--csv", "--unit", "F", "--every", "1")
+    rows = list(csv.reader(io.StringIO(out)))
+    header, body = rows[0], rows[1:]
+    assert code == 0 and header[:3] == ["field", "T_K", "T_F"] and "T_C" not in header
+    for row in body:
+        # F = (K - 273.15) * 9/5 + 32 (NIST Special Publication 811 (2008))
+        assert float(row[2]) == pytest.approx((float(row[1]) - 273.15) * 1.8 + 32.0, abs=1e-3)
+    temperatures = [float(row[1]) for row in body]
+    assert max(b - a for a, b in zip(temperatures, temperatures[1:])) <= 1.0 / 1.8 + 1e-9
 
 
 def test_diagram_plot_lists_the_reactions(run, eut):

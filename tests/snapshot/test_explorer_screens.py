@@ -62,7 +62,7 @@ async def test_snapshots_are_stable_between_runs():
     for _ in range(2):
         app = make_app(T_K=458.15, x_B=0.5386)
         async with app.run_test(size=SIZE) as pilot:
-            app.screen_stack[0].query_one(PointEntry).open()
+            app.screen_stack[0].query_one(PointEntry).open("Sn")
             await pilot.pause()
             texts.append((screen_text(app), app.export_screenshot(title="ladle")))
     assert texts[0] == texts[1]

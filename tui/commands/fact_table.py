@@ -18,7 +18,8 @@ def _value(value: float | None, unit: str) -> str:
 def _signed(value: float | None, unit: str) -> str:
     if value is None:
         return "-"
-    return f"{value:+.0f} {unit}" if unit == "J/mol" else f"{value:+.2f} {unit}"
+    text = f"{value:+.0f} {unit}" if unit == "J/mol" else f"{value:+.2f} {unit}"
+    return text[1:] if float(text.split()[0]) == 0.0 else text   # never "-0.00"
 
 
 def _spread(value: float | None, unit: str, factor: float | None = None) -> str:

@@ -98,12 +98,27 @@ def _rounded(value: float, uncertainty: float | None) -> tuple[str, str]:
     return f"{value:.{decimals}f}", f"{uncertainty:.{decimals}f}"
 
 
+#: Why the least-squares solver stopped (scipy.optimize.least_squares names its tests gtol, ftol and
+#: xtol), in the report's words; the solver's own message stays in --json.
+_STOPS = (("maximum number of function evaluations", "the step limit (--max-steps) was reached before the fit settled"),
+          ("`ftol` and `xtol`", "chi-square and the coefficients both stopped changing"),
+          ("`gtol`", "chi-square is flat in every coefficient (a minimum)"),
+          ("`ftol`", "chi-square stopped changing"),
+          ("`xtol`", "the coefficients stopped changing"))
+
+
+def stop_in_words(solver_message: str) -> str:
+    """Why the fit stopped, in the report's words (the solver's message where it is not known)."""
+    return next((words for test, words in _STOPS if test in solver_message), solver_message)
+
+
 def render(result, measurements: Path) -> list[str]:
     """The human-readable fit report."""
     m = sum(len(o.comparisons) for o in result.outcomes)
     status = "converged" if result.converged else "DID NOT CONVERGE"
     lines = [f"Fit of {measurements.name}: {len(result.parameters)} coefficients to {m} measured values",
-             f"{status}: {result.solver_message} ({result.evaluations} model evaluations, {result.seconds:.1f} s)"]
+             f"{status}: {stop_in_words(result.solver_message)} ({result.evaluations} model evaluations, "
+             f"{result.seconds:.1f} s)"]
     dof = result.degrees_of_freedom
     fit_line = f"chi-square {result.chi_square:.4g} (start {result.start_chi_square:.4g}), {dof} degrees of freedom"
     if result.reduced_chi_square is not None:

@@ -23,8 +23,9 @@ class ExplorerApp(App[None]):
 
     def __init__(self, exploration: Exploration, glyphs: Glyphs, state_file: Path | None) -> None:
         # Textual reads (and removes) NO_COLOR; with it, ansi_color=True makes Textual drop
-        # colours instead of turning them grey.
-        super().__init__(ansi_color=True if "NO_COLOR" in os.environ else None)
+        # colours instead of turning them grey, and the plots tell curves apart by their marks.
+        self.plain_colours = "NO_COLOR" in os.environ
+        super().__init__(ansi_color=True if self.plain_colours else None)
         self.glyphs = glyphs
         self.state_file = state_file
         self._first_exploration = exploration

@@ -15,9 +15,11 @@ from textual.message import Message
 from textual.worker import Worker, WorkerState
 from textual_plotext.plot import Plot
 
-from ladle.engine.solidify import solidify
+from ladle.engine.solidify.coring import Coring, primary_coring
+from ladle.engine.solidify.paths import solidify
 
-from .cooling_drawing import cooling_scene, draw_cooling
+from .cooling_drawing import CoolingScene, cooling_scene, draw_cooling
+from .crosshair import Crosshair
 from .exploration import Exploration
 from .glyphs import Glyphs
 from .widgets.plot_pane import CachedPlot
@@ -35,7 +37,9 @@ class CoolingView(CachedPlot):
         super().__init__(glyphs, id=id)
         self.exploration: Exploration | None = None
         self._answers: OrderedDict[tuple[int, float], object] = OrderedDict()
+        self._corings: dict[tuple[int, float], Coring | None] = {}
         self._pending: dict[Worker, tuple[int, float]] = {}
+        self._scene: CoolingScene | None = None
 
     def _key(self) -> tuple[int, float] | None:
         e = self.exploration
@@ -46,13 +50,18 @@ class CoolingView(CachedPlot):
         None while it is being computed."""
         return self._answers.get(self._key())
 
+    def coring(self) -> Coring | None:
+        """The coring of the Scheil path's primary solid of the cursor's alloy (None: none, or
+        not computed yet)."""
+        return self._corings.get(self._key())
+
     def follow(self, exploration: Exploration) -> None:
         """Show the alloy at `exploration`'s cursor; start computing it if it is new."""
         self.exploration = exploration
         key = self._key()
         if key not in self._answers and key not in self._pending.values():
             system, x_B = exploration.system, exploration.cursor.x_B
-            worker = self.run_worker(lambda: solidify(system, x_B), thread=True, exclusive=True,
+            worker = self.run_worker(lambda: _freeze(system, x_B), thread=True, exclusive=True,
                                      group="cooling", exit_on_error=False)
             self._pending[worker] = key
         self.refresh()
@@ -64,9 +73,12 @@ class CoolingView(CachedPlot):
         key = self._pending.pop(worker)
         if event.state == WorkerState.CANCELLED:
             return
-        self._answers[key] = worker.result if event.state == WorkerState.SUCCESS else _reason(worker.error)
+        if event.state == WorkerState.SUCCESS:
+            self._answers[key], self._corings[key] = worker.result
+        else:
+            self._answers[key] = _reason(worker.error)
         while len(self._answers) > KEPT:
-            self._answers.popitem(last=False)
+            self._corings.pop(self._answers.popitem(last=False)[0], None)
         self.refresh()
         self.post_message(self.Ready())
 
@@ -75,7 +87,13 @@ class CoolingView(CachedPlot):
         if e is None:
             return None
         answer = self.answer()
-        return (self._key(), id(answer), e.scales.temperature_unit, e.cursor.temperature_K)
+        return (self._key(), id(answer), e.scales.temperature_unit)
+
+    def crosshair(self) -> Crosshair | None:
+        e = self.exploration
+        if e is None or self._scene is None or not hasattr(self.answer(), "scheil"):
+            return None
+        return Crosshair(self._scene.frame, y=float(e.scales.shown_temperature(e.cursor.temperature_K)))
 
     def draw(self, plt: Plot, width: int, height: int) -> None:
         e = self.exploration
@@ -89,8 +107,14 @@ class CoolingView(CachedPlot):
             plt.yticks([])
             plt.text(message, 0.5, 0.5, alignment="center")
             return
-        scene = cooling_scene(answer, e.scales, self.glyphs, width, height)
-        draw_cooling(plt, scene, self.glyphs, float(e.scales.shown_temperature(e.cursor.temperature_K)))
+        self._scene = cooling_scene(answer, e.scales, self.glyphs, width, height)
+        draw_cooling(plt, self._scene, self.glyphs)
+
+
+def _freeze(system, x_B: float):
+    """Both paths of the alloy x_B, and the coring of the Scheil path's primary solid."""
+    solidification = solidify(system, x_B)
+    return solidification, primary_coring(system, solidification.scheil)
 
 
 def _reason(error: BaseException | None) -> str:

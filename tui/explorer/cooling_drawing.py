@@ -16,13 +16,15 @@ from ladle.tui.cooling_text import PATH_NAMES
 
 from .diagram_drawing import plot_area
 from .glyphs import Glyphs
-from .plotting import CURSOR_COLOUR, Frame, Label, draw_frame, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .readout import format_temperature_value
 from .scales import Scales
 
 EQUILIBRIUM_COLOUR = "cyan"
 SCHEIL_COLOUR = "magenta"
 END_COLOUR = "yellow"
+SHARED_COLOUR = "white"
+SHARED_NAME = "both paths"
 HEADROOM = 0.16   # room above the liquidus (for the legend), as a share of the span shown
 FOOTROOM = 0.14   # room below the lowest end (for the end labels)
 
@@ -32,7 +34,8 @@ class CoolingScene:
     """Both paths in screen units: fraction solid (%) across, temperature up."""
 
     frame: Frame
-    equilibrium: tuple[list[float], list[float]]
+    shared: tuple[list[float], list[float]]        # where both paths are one curve on screen
+    equilibrium: tuple[list[float], list[float]]   # each path below that
     scheil: tuple[list[float], list[float]]
     ends: list[tuple[float, float]]        # (fraction solid %, temperature) of each path's end
     labels: list[Label]
@@ -40,11 +43,38 @@ class CoolingScene:
     y_title: str
 
 
-def _curve(path, scales: Scales, frame: Frame) -> tuple[list[float], list[float]]:
+def _points(path, scales: Scales) -> tuple[np.ndarray, np.ndarray]:
+    """Fraction solid (%) and temperature (unit on screen) of every step of a path."""
     fs = np.array([100.0 * s.fraction_solid for s in path.steps])
-    T = scales.shown_temperature(np.array([s.temperature_K for s in path.steps]))
-    xs, ys = thin_polyline(fs, T, frame)
-    return xs.tolist(), ys.tolist()
+    return fs, np.asarray(scales.shown_temperature(np.array([s.temperature_K for s in path.steps])))
+
+
+def _near_other(points: tuple[np.ndarray, np.ndarray], other: tuple[np.ndarray, np.ndarray],
+                frame: Frame) -> np.ndarray:
+    """For each point, whether a point of the other curve lies within one character cell of it
+    (there the two curves would print over each other)."""
+    cell_x = (frame.x_high - frame.x_low) / max(frame.columns - 1, 1)
+    cell_y = (frame.y_high - frame.y_low) / max(frame.rows - 1, 1)
+    dx = np.abs(points[0][:, None] - other[0][None, :]) / cell_x
+    dy = np.abs(points[1][:, None] - other[1][None, :]) / cell_y
+    return (np.maximum(dx, dy) <= 1.0).any(axis=1) if other[0].size else \
+        np.zeros(points[0].size, dtype=bool)
+
+
+def _pieces(points: tuple[np.ndarray, np.ndarray], keep: np.ndarray,
+            frame: Frame) -> tuple[list[float], list[float]]:
+    """The runs of kept points (each with its neighbours, so the pieces join the rest of the
+    curve), thinned and joined into one NaN-separated series."""
+    runs = []
+    start = None
+    for i, flag in enumerate(list(keep) + [False]):
+        if flag and start is None:
+            start = i
+        elif not flag and start is not None:
+            lo, hi = max(start - 1, 0), min(i + 1, keep.size)
+            runs.append(thin_polyline(points[0][lo:hi], points[1][lo:hi], frame))
+            start = None
+    return joined(runs)
 
 
 def cooling_scene(solidification, scales: Scales, glyphs: Glyphs, width: int, height: int) -> CoolingScene:
@@ -66,20 +96,27 @@ def cooling_scene(solidification, scales: Scales, glyphs: Glyphs, width: int, he
         ends.append((100.0 * path.steps[-1].fraction_solid, T))
         below = T - 0.06 * (frame.y_high - frame.y_low)      # under its line, not over the plateau
         labels.append(Label(f"{name} end {format_temperature_value(T)} {unit}", 60.0, below))
-    return CoolingScene(frame, _curve(eq, scales, frame), _curve(sc, scales, frame), ends,
-                        place_labels(labels, frame), "solid (mass %)", f"temperature ({unit})")
+    eq_points, sc_points = _points(eq, scales), _points(sc, scales)
+    sc_shared = _near_other(sc_points, eq_points, frame)
+    eq_shared = _near_other(eq_points, sc_points, frame)
+    return CoolingScene(frame, _pieces(sc_points, sc_shared, frame),
+                        _pieces(eq_points, ~eq_shared, frame), _pieces(sc_points, ~sc_shared, frame),
+                        ends, place_labels(labels, frame), "solid, mass % of the alloy",
+                        f"T {unit}")
 
 
-def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs, cursor_T: float | None = None) -> None:
-    """Issue the plot calls: the cursor's temperature (if given, in the unit on screen) as a line
-    underneath, both paths (told apart by marker and colour), their ends, labels."""
+def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs) -> None:
+    """Issue the plot calls: both paths (told apart by marker and colour; where they are one
+    curve on screen, a third mark says so), their ends, labels. The explorer writes the cursor's
+    temperature over the built picture."""
     frame = scene.frame
-    if cursor_T is not None and frame.y_low <= cursor_T <= frame.y_high:
-        plt.plot([frame.x_low, frame.x_high], [cursor_T, cursor_T], marker=glyphs.crosshair_marker,
-                 color=CURSOR_COLOUR)
     draw_frame(plt, frame, scene.x_title, scene.y_title)
-    plt.plot(*scene.equilibrium, marker=glyphs.boundary_marker, color=EQUILIBRIUM_COLOUR, label=PATH_NAMES["equilibrium"])
-    plt.plot(*scene.scheil, marker=glyphs.envelope_marker, color=SCHEIL_COLOUR, label=PATH_NAMES["scheil"])
+    for curve, marker, colour, name in (
+            (scene.shared, glyphs.invariant_marker, SHARED_COLOUR, SHARED_NAME),
+            (scene.equilibrium, glyphs.boundary_marker, EQUILIBRIUM_COLOUR, PATH_NAMES["equilibrium"]),
+            (scene.scheil, glyphs.envelope_marker, SCHEIL_COLOUR, PATH_NAMES["scheil"])):
+        if curve[0]:   # plotext cannot draw the legend of an empty series
+            plt.plot(*curve, marker=marker, color=colour, label=name)
     for x, T in scene.ends:
         plt.scatter([x], [T], marker=glyphs.cursor_marker, color=END_COLOUR)
     for label in scene.labels:

@@ -1,20 +1,23 @@
-"""The status pane's lines in the cooling view: where each path's freezing ends, and the
-structure at the end (mass %) by both paths. Plain text as (role, text) lines, no screen code."""
+"""The status pane's lines in the cooling view: where each path's freezing ends, the structure
+at the end (mass % of the alloy) and the latent heat by both paths, and the coring of the
+primary solid by Scheil. Plain text as (role, text) lines, no screen code."""
 
 from __future__ import annotations
 
+from ladle.engine.solidify.coring import Coring
 from ladle.tui.cooling_text import PATH_NAMES, structure_rows
 from ladle.tui.quote import percent
 
 from .glyphs import Glyphs
 from .readout import format_temperature_value
 from .scales import Scales
-from .status_lines import Line
+from .status_lines import WIDTH, Line
 
 
-def cooling_lines(result, scales: Scales, glyphs: Glyphs) -> list[Line]:
+def cooling_lines(result, coring: Coring | None, element_B: str, scales: Scales,
+                  glyphs: Glyphs) -> list[Line]:
     """`result`: the engine's Solidification of the cursor's alloy, a one-line reason why there
-    is none, or None while it is being computed."""
+    is none, or None while it is being computed; `coring`: its Scheil primary solid's."""
     lines: list[Line] = [("heading", "FREEZING of this alloy")]
     if result is None:
         return lines + [("note", " computing both paths ...")]
@@ -27,11 +30,18 @@ def cooling_lines(result, scales: Scales, glyphs: Glyphs) -> list[Line]:
             lines.append(("value", f" {name:<12}{'liquid left':>14}"))
             continue
         T = format_temperature_value(scales.shown_temperature(path.end_K))
-        lines.append(("value", f" {name:<12}{T:>9} {unit}"))
-        lines.append(("note", f"   ends: {path.end}"))
-    lines.append(("heading", f"{'STRUCTURE mass%':<17}{'eq.':>6}{'Sch.':>7}"))
+        lines.append(("value", f" {name:<12}{T:>5} {unit} {path.end}"[:WIDTH]))
+    lines.append(("heading", f"{'STRUCTURE, mass %':<17}{'eq.':>6}{'Sch.':>7}"))
     for constituent, fractions in structure_rows(result):
         amounts = ["-" if f is None else percent(f) for f in fractions]
         lines.append(("value", f" {constituent}"))
         lines.append(("value", f"{'':<17}{amounts[0]:>6}{amounts[1]:>7}"))
+    heats = [f"{result.path(model).latent_heat_J_per_g:.0f}" for model in PATH_NAMES]
+    lines.append(("value", f" {'latent heat J/g':<16}{heats[0]:>6}{heats[1]:>7}"))
+    if coring is not None and abs(scales.shown_composition(coring.x_rim)
+                                  - scales.shown_composition(coring.x_core)) >= 0.05:
+        comp = scales.composition_unit
+        core, rim = (percent(scales.shown_fraction(x)) for x in (coring.x_core, coring.x_rim))
+        lines.append(("heading", f"CORING of {coring.phase}, Scheil"[:WIDTH]))
+        lines.append(("value", f" core {core}  rim {rim} {element_B} {comp}%"[:WIDTH]))
     return lines

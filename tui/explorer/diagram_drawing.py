@@ -11,9 +11,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ladle.tui.phase_names import short_label
+
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import CURSOR_COLOUR, Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .readout import format_temperature_value
 
 BOUNDARY_COLOUR = "cyan"
@@ -83,19 +85,22 @@ def _field_labels(exploration: Exploration, frame: Frame) -> list[Label]:
         for x_b, x in zip(x_B, xs, strict=True):
             cells.setdefault(tuple(diagram.field_at(float(T), float(x_b))), []).append((x, y))
     labels = []
+    system = exploration.system
     for phases, points in sorted(cells.items(), key=lambda item: -len(item[1])):
         pts = np.array(points)
         middle = pts.mean(axis=0)
         x, y = pts[np.argmin(np.hypot((pts[:, 0] - middle[0]) / (frame.x_high - frame.x_low),
                                       (pts[:, 1] - middle[1]) / (frame.y_high - frame.y_low)))]
-        labels.append(Label("+".join(phases), float(x), float(y)))
+        T_K = float(scales.engine_temperature(y))
+        sides = [(name, float(i)) for i, name in enumerate(phases)]   # ordered by composition
+        text = "+".join(short_label(system, name, side, T_K, sides) for name, side in sides)
+        labels.append(Label(text, float(x), float(y)))
     return labels
 
 
-def draw_diagram(plt, scene: DiagramScene, cursor_x: float | None, cursor_y: float | None,
-                 glyphs: Glyphs) -> None:
-    """Issue the plot calls: boundaries, invariant lines, labels, then the cursor on top
-    (no cursor where cursor_x is None: the line-mode `ladle diagram`)."""
+def draw_diagram(plt, scene: DiagramScene, glyphs: Glyphs) -> None:
+    """Issue the plot calls: boundaries, invariant lines, labels (the explorer writes the
+    cursor over the built picture)."""
     frame = scene.frame
     draw_frame(plt, frame, scene.x_title, scene.y_title)
     if scene.boundaries[0]:
@@ -104,10 +109,3 @@ def draw_diagram(plt, scene: DiagramScene, cursor_x: float | None, cursor_y: flo
         plt.plot(*scene.invariants, marker=glyphs.invariant_marker, color=INVARIANT_COLOUR)
     for label in scene.labels:
         plt.text(label.text, label.x, label.y, alignment="center")
-    if cursor_x is None or cursor_y is None:
-        return
-    plt.plot([cursor_x, cursor_x], [frame.y_low, frame.y_high], marker=glyphs.crosshair_marker,
-             color=CURSOR_COLOUR)
-    plt.plot([frame.x_low, frame.x_high], [cursor_y, cursor_y], marker=glyphs.crosshair_marker,
-             color=CURSOR_COLOUR)
-    plt.scatter([cursor_x], [cursor_y], marker=glyphs.cursor_marker, color=CURSOR_COLOUR)

@@ -15,13 +15,16 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import CURSOR_COLOUR, Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .diagram_drawing import plot_area
 
 ENVELOPE_POINTS = 120        # envelope samples across the window
 CURVE_COLOURS = ("cyan", "magenta", "green", "blue", "yellow", "white")
 TANGENT_COLOUR = "yellow"
 ENVELOPE_COLOUR = "white"
+PLAIN_CURVE_MARKERS = ("+", "x", "%", "@", "&", "$")   # without colour: one mark per phase
+ENVELOPE_LABEL = "lowest G (equilibrium)"
+TANGENT_LABEL = "common tangent"
 HEADROOM = 0.8               # room above the envelope, as a share of its own height
 SMALLEST_SPAN_KJ = 0.5       # the y range never shrinks below this (kJ/mol)
 
@@ -87,22 +90,28 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
     return EnergyScene(frame, curves, points, (scales.shown_composition(x_env).tolist(),
                                                env_rel.tolist()),
                        joined(tangents), place_labels(labels, frame),
-                       f"{element_B} {scales.composition_unit}%   G kJ/mol (relative)")
+                       f"{element_B} {scales.composition_unit}%   G kJ/mol, relative (see right)")
 
 
-def draw_energy(plt, scene: EnergyScene, cursor_x: float, glyphs: Glyphs) -> None:
-    """Issue the plot calls: curves, envelope, tangents, labels, then the cursor line."""
+def draw_energy(plt, scene: EnergyScene, glyphs: Glyphs, colour: bool = True) -> None:
+    """Issue the plot calls: curves, envelope, tangents, labels and a legend of the envelope
+    and the tangent (the explorer writes the cursor's line over the built picture). Without
+    `colour` each phase's curve has its own mark, named in the legend too."""
     frame = scene.frame
     draw_frame(plt, frame, scene.x_title)
-    for index, (_, xs, ys) in enumerate(scene.curves):
-        plt.plot(xs, ys, marker=glyphs.boundary_marker,
-                 color=CURVE_COLOURS[index % len(CURVE_COLOURS)])
-    plt.plot(*scene.envelope, marker=glyphs.envelope_marker, color=ENVELOPE_COLOUR)
+    for index, (name, xs, ys) in enumerate(scene.curves):
+        if colour:
+            plt.plot(xs, ys, marker=glyphs.boundary_marker,
+                     color=CURVE_COLOURS[index % len(CURVE_COLOURS)])
+        else:
+            plt.plot(xs, ys, marker=PLAIN_CURVE_MARKERS[index % len(PLAIN_CURVE_MARKERS)],
+                     label=name)
+    plt.plot(*scene.envelope, marker=glyphs.envelope_marker, color=ENVELOPE_COLOUR,
+             label=ENVELOPE_LABEL)
     if scene.tangents[0]:
-        plt.plot(*scene.tangents, marker=glyphs.invariant_marker, color=TANGENT_COLOUR)
+        plt.plot(*scene.tangents, marker=glyphs.invariant_marker, color=TANGENT_COLOUR,
+                 label=TANGENT_LABEL)
     for _, x, y in scene.points:
         plt.scatter([x], [y], marker=glyphs.cursor_marker)
     for label in scene.labels:
         plt.text(label.text, label.x, label.y, alignment="center")
-    plt.plot([cursor_x, cursor_x], [frame.y_low, frame.y_high], marker=glyphs.crosshair_marker,
-             color=CURSOR_COLOUR)

@@ -12,9 +12,11 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from functools import lru_cache
 
+import numpy as np
+
 from ladle.engine import equilibrate, section_at
-from ladle.engine.diagram import map_diagram
-from ladle.engine.melt import LIQUID, melt_range
+from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.diagrams.melt import LIQUID, melt_range
 
 from .cursor import ZOOM_FACTOR, Cursor, Steps, Window, steps_for
 from .entry import TypedPoint
@@ -26,8 +28,9 @@ from .scales import Scales
 class Boundary:
     """The boundary nearest the cursor: its name, where it is, and which way from the cursor.
 
-    `direction` is "up", "down" (a temperature in K at the cursor's composition) or "left",
-    "right" (a composition as mole fraction of B at the cursor's temperature).
+    `direction` is "up", "down", "here" (a temperature in K at the cursor's composition; "here":
+    the cursor is on it) or "left", "right" (a composition as mole fraction of B at the
+    cursor's temperature).
     """
 
     name: str
@@ -45,6 +48,20 @@ class Reading:
     melt: object | None          # the engine's melt range at this composition (None: no answer)
     melt_problem: str | None     # why there is no melt range, in one line
     nearest: Boundary | None
+
+
+OPENING_PROBES = 9     # alloys whose liquidus sets the opening window
+OPENING_MARGIN = 0.15  # room above the highest liquidus, as a share of the window below it
+OPENING_SHARE = 0.7    # narrow the opening window only when it keeps less than this of the range
+ON_LINE_K = 1e-6      # the cursor is on a line this close to it (K)
+SAME_LEVEL_K = 0.05   # a boundary crossing this close to a reaction line is that line (K)
+
+
+def _direction(dT_K: float) -> str:
+    """Which way a level dT_K above the cursor lies: "up", "down" or "here" (on it)."""
+    if abs(dT_K) <= ON_LINE_K:
+        return "here"
+    return "up" if dT_K > 0 else "down"
 
 
 def boundary_name(phase: str, partner: str) -> str:
@@ -80,14 +97,38 @@ class Exploration:
         T_low, T_high = system.temperature_range_K
         x_low, x_high = system.covers
         self.limits = Window(T_low, T_high, x_low, x_high)
-        self.window = self.limits
-        if cursor is None:   # the middle of the diagram, on round numbers of the steps
+        self.window = self._opening_window()
+        T_low, T_high = self.window.T_low, self.window.T_high
+        if cursor is None:   # the middle of the window, on round numbers of the steps
             self.cursor = Cursor(0.5 * (T_low + T_high), 0.5 * (x_low + x_high))
             self.move(1, 1)
             self.move(-1, -1)
         else:
             self.cursor = Cursor(*self.limits.clamp(cursor.temperature_K, cursor.x_B))
+            self.window = self.window.following(self.cursor.temperature_K, self.cursor.x_B)
         self._melt = lru_cache(maxsize=256)(self._melt_uncached)
+
+    def _opening_window(self) -> Window:
+        """The window the system opens on: all of it, or, where the highest liquidus of the
+        covered range lies low in the system's temperature range (solders against the melting
+        point of silver or copper), from the bottom to a little above that liquidus (`0` shows
+        the whole range)."""
+        limits = self.limits
+        tops = []
+        for x_B in np.linspace(limits.x_low, limits.x_high, OPENING_PROBES):
+            try:
+                liquidus = melt_range(self.system, float(x_B)).liquidus_K
+            except ValueError:
+                continue
+            if liquidus is not None:
+                tops.append(liquidus)
+        span = limits.T_high - limits.T_low
+        if not tops:
+            return limits
+        top = max(tops) + OPENING_MARGIN * (max(tops) - limits.T_low)
+        if top - limits.T_low > OPENING_SHARE * span:
+            return limits
+        return replace(limits, T_high=top)
 
     # -- what the engine says -------------------------------------------------------------
 
@@ -129,14 +170,21 @@ class Exploration:
                 if abs(dx) > 1e-12:
                     candidates.append((abs(dx) / x_span, Boundary(
                         boundary_name(own, other), "right" if dx > 0 else "left", x_B=x_edge)))
-        invariants = {round(inv.temperature_K, 6): inv.kind for inv in self.diagram.invariants}
+        reaction_levels = []
+        for invariant in self.diagram.invariants:   # the reaction lines this alloy crosses
+            xs = [x for _, x in invariant.phases]
+            if min(xs) - 1e-9 <= cursor.x_B <= max(xs) + 1e-9:
+                dT = invariant.temperature_K - cursor.temperature_K
+                reaction_levels.append(invariant.temperature_K)
+                candidates.append((abs(dT) / t_span, Boundary(
+                    invariant.kind, _direction(dT), temperature_K=invariant.temperature_K)))
         for crossing in (melt.crossings if melt is not None else ()):
             dT = crossing.temperature_K - cursor.temperature_K
-            if abs(dT) > 1e-9:
-                name = invariants.get(round(crossing.temperature_K, 6)) or crossing_name(
-                    crossing.above, crossing.below)
+            if abs(dT) > ON_LINE_K and all(abs(crossing.temperature_K - level) > SAME_LEVEL_K
+                                           for level in reaction_levels):
                 candidates.append((abs(dT) / t_span, Boundary(
-                    name, "up" if dT > 0 else "down", temperature_K=crossing.temperature_K)))
+                    crossing_name(crossing.above, crossing.below), _direction(dT),
+                    temperature_K=crossing.temperature_K)))
         return min(candidates, key=lambda pair: pair[0])[1] if candidates else None
 
     # -- what the keys do -----------------------------------------------------------------

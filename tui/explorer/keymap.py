@@ -25,26 +25,25 @@ class KeyUse:
 
 
 MAIN_KEYS: tuple[KeyUse, ...] = (
-    KeyUse("up,k", "move(1, 0)", "{up} k", "hotter by one step", "{left}{right}{up}{down} move"),
+    KeyUse("up,k", "move(1, 0)", "{up} k", "hotter by one step", "{left}{right}{up}{down}"),
     KeyUse("down,j", "move(-1, 0)", "{down} j", "colder by one step"),
     KeyUse("right,l", "move(0, 1)", "{right} l", "more of the second element by one step"),
     KeyUse("left,h", "move(0, -1)", "{left} h", "less of the second element by one step"),
-    KeyUse("shift+up,K", "move(1, 0, True)", "shift+{up} K", "hotter by a tenth of a step",
-           "shift fine"),
+    KeyUse("shift+up,K", "move(1, 0, True)", "shift+{up} K", "hotter by a tenth of a step"),
     KeyUse("shift+down,J", "move(-1, 0, True)", "shift+{down} J", "colder by a tenth of a step"),
     KeyUse("shift+right,L", "move(0, 1, True)", "shift+{right} L",
            "more of the second element by a tenth of a step"),
     KeyUse("shift+left,H", "move(0, -1, True)", "shift+{left} H",
            "less of the second element by a tenth of a step"),
-    KeyUse("g", "go_to", "g", "go to a typed point: 650C 12wt%, 923K 20at%, Sn=12wt%",
-           "g go to"),
+    KeyUse("g", "go_to", "g", "go to a typed point: 650C 12wt%, 923K 20at%, {element}=12wt%",
+           "g go"),
     KeyUse("1", "view('diagram')", "1", "diagram view", "1-4 view"),
     KeyUse("2", "view('energy')", "2", "free-energy view at the cursor's temperature"),
     KeyUse("3", "view('reactions')", "3", "reactions view (Enter on a row moves the cursor)"),
     KeyUse("4", "view('cooling')", "4",
            "cooling view: how the cursor's alloy freezes, at equilibrium and by Scheil"),
     KeyUse("s", "systems", "s", "choose another system", "s system"),
-    KeyUse("u", "composition_unit", "u", "compositions in wt% or at%", "u t units"),
+    KeyUse("u", "composition_unit", "u", "compositions in wt% or at%", "u t unit"),
     KeyUse("t", "temperature_unit", "t", "temperatures in C, K or F"),
     KeyUse("plus,equals_sign", "zoom(True)", "+", "zoom in about the cursor", "+-0 zoom"),
     KeyUse("minus", "zoom(False)", "-", "zoom out"),
@@ -77,6 +76,8 @@ def key_bar_text(glyphs: Glyphs, width: int) -> str:
     return " " + "  ".join(chosen + [help_item, quit_item])
 
 
-def help_rows(glyphs: Glyphs) -> list[tuple[str, str]]:
-    """(keys, what they do) for every key, in the table's order."""
-    return [(key_label(use, glyphs), use.description) for use in MAIN_KEYS]
+def help_rows(glyphs: Glyphs, element: str) -> list[tuple[str, str]]:
+    """(keys, what they do) for every key, in the table's order; examples of a typed point
+    name `element` (the open system's second element)."""
+    return [(key_label(use, glyphs), use.description.replace("{element}", element))
+            for use in MAIN_KEYS]

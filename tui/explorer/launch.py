@@ -57,10 +57,10 @@ def run_explorer(argv: list[str]) -> int:
     """Parse the options, open the system and run the app; returns the exit status."""
     try:
         options = parse_options(argv)
-        if not served_to_a_browser() and not (sys.stdout.isatty() and sys.stdin.isatty()):
+        if not served_to_a_browser() and not all(stream.isatty() for stream in (sys.stdin, sys.stdout, sys.stderr)):
             raise OptionsError(
-                "the full-screen explorer needs a terminal (standard input and output are not "
-                "both one); for a file or a pipe use a line command, e.g. ladle diagram "
+                "the full-screen explorer needs a terminal (standard input, output and error "
+                "must all be one); for a file or a pipe use a line command, e.g. ladle diagram "
                 f"{options.system or 'SYSTEM'} (see ladle --help)")
         path = state_path()
         saved, ignored = read_state(path)

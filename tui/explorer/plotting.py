@@ -13,7 +13,6 @@ import numpy as np
 
 from .cursor import nice_step
 
-CURSOR_COLOUR = "red+"   # the cursor in every view
 SUBCELLS_X = 2   # braille dots per character cell, across
 SUBCELLS_Y = 4   # and down
 
@@ -99,7 +98,7 @@ def round_ticks(low: float, high: float, count: int) -> list[float]:
     step = nice_step(high - low, max(count, 1))
     first = np.ceil(low / step - 1e-9) * step
     ticks = np.arange(first, high + 1e-9 * step, step)
-    return [float(t) for t in np.round(ticks, 10)]
+    return [float(t) + 0.0 for t in np.round(ticks, 10)]   # + 0.0: never a tick "-0.00"
 
 
 def draw_frame(plt, frame: Frame, x_title: str, y_title: str | None = None) -> None:

@@ -6,7 +6,10 @@ or a missing answer). The widget styles them; colour never carries meaning that 
 
 from __future__ import annotations
 
+import textwrap
+
 from ladle.engine.units import TEMPERATURE_UNITS, kelvin_to
+from ladle.tui.phase_names import phase_label
 from ladle.tui.quote import percent
 
 from .exploration import Reading
@@ -16,6 +19,7 @@ from .scales import Scales
 
 Line = tuple[str, str]
 WIDTH = 30   # characters a status line may use
+NARROW_RANGE_K = 10.0   # melt ranges narrower than this are shown to a tenth of a degree
 
 
 def _temperature(T_K: float, unit: str, glyphs: Glyphs) -> str:
@@ -28,12 +32,19 @@ def point_lines(reading: Reading, element_B: str, scales: Scales, glyphs: Glyphs
     T_K, x_B = reading.cursor.temperature_K, reading.cursor.x_B
     units = [scales.temperature_unit] + [u for u in TEMPERATURE_UNITS
                                          if u != scales.temperature_unit]
-    temps = "  ".join(_temperature(T_K, unit, glyphs) for unit in units)
-    return [
-        ("heading", "POINT"),
-        ("value", f" {temps}"),
-        ("value", f" {element_B} {_composition_pair(x_B, scales)}"),
-    ]
+    shown = [_temperature(T_K, unit, glyphs) for unit in units]
+    temps = "  ".join(shown)
+    if len(temps) + 1 > WIDTH:   # never wrap: one space apart, then the others to the degree
+        temps = " ".join(shown)
+    if len(temps) + 1 > WIDTH:
+        temps = " ".join([shown[0]] + [f"{format_temperature_value(kelvin_to(T_K, unit))} "
+                                       f"{glyphs.temperature_unit(unit)}" for unit in units[1:]])
+    return [("heading", "POINT"), ("value", f" {temps}"), alloy_line(x_B, element_B, scales)]
+
+
+def alloy_line(x_B: float, element_B: str, scales: Scales) -> Line:
+    """The alloy's composition (wt% and at%, the chosen unit first)."""
+    return ("value", f" {element_B} {_composition_pair(x_B, scales)}")
 
 
 def _composition_pair(x_B: float, scales: Scales) -> str:
@@ -44,15 +55,20 @@ def _composition_pair(x_B: float, scales: Scales) -> str:
             f"({percent(scales.shown_fraction(x_B, second))} {second}%)")
 
 
-def phase_lines(reading: Reading, element_B: str, scales: Scales) -> list[Line]:
-    """The field's name, then each stable phase: amount (mass %, mol %) and composition."""
+def phase_lines(reading: Reading, system, scales: Scales) -> list[Line]:
+    """The field's name, then each stable phase (with its trade name, or the element a side of
+    a miscibility gap is rich in): amount (mass %, mol % of the alloy) and composition."""
     phases = reading.equilibrium.phases
+    T_K, element_B = reading.cursor.temperature_K, system.elements[1]
+    among = [(share.name, share.x[1]) for share in phases]
+    names = [phase_label(system, share.name, share.x[1], T_K, among) for share in phases]
     lines: list[Line] = [("heading", "FIELD"),
-                         ("value", " " + " + ".join(share.name for share in phases)),
-                         ("heading", f"{'PHASE':<15}{'mass%':>7}{'mol%':>7}")]
-    for share in phases:
-        lines.append(("value", f" {share.name:<14}{percent(share.amount_mass):>7}"
-                               f"{percent(share.amount_mol):>7}"))
+                         ("value", " " + " + ".join(names)),
+                         ("heading", f"{'PHASE':<8}{'% of alloy: mass':>16}{'mol':>6}")]
+    for name, share in zip(names, phases, strict=True):
+        amounts = f"{percent(share.amount_mass):>6}{percent(share.amount_mol):>6}"
+        lines.append(("value", f" {name}{' ' * max(WIDTH - 1 - len(name) - len(amounts), 1)}"
+                               f"{amounts}"))
         lines.append(("note", f"   {element_B} {_composition_pair(share.x[1], scales)}"))
     return lines
 
@@ -67,7 +83,10 @@ def melt_lines(reading: Reading, scales: Scales, glyphs: Glyphs) -> list[Line]:
     rows = (("liquidus", melt.liquidus_K, scales.shown_temperature),
             ("solidus", melt.solidus_K, scales.shown_temperature),
             ("freezing range", melt.freezing_range_K, scales.shown_temperature_difference))
-    return lines + [("value", f" {label:<15}{format_temperature_value(convert(value)):>6} {unit}")
+    narrow = melt.freezing_range_K is not None and melt.freezing_range_K < NARROW_RANGE_K
+    decimals = 1 if narrow else 0
+    return lines + [("value", f" {label:<15}"
+                              f"{format_temperature_value(convert(value), decimals):>7} {unit}")
                     if value is not None else ("note", f" {label:<15}{'not in range':>12}")
                     for label, value, convert in rows]
 
@@ -80,29 +99,41 @@ def boundary_lines(reading: Reading, element_B: str, scales: Scales,
     if nearest is None:
         return lines + [("note", " none in this window")]
     arrow = {"up": glyphs.up, "down": glyphs.down, "left": glyphs.left,
-             "right": glyphs.right}[nearest.direction]
+             "right": glyphs.right, "here": "="}[nearest.direction]
     if nearest.temperature_K is not None:
         unit = glyphs.temperature_unit(scales.temperature_unit)
         gap = abs(scales.shown_temperature_difference(
             nearest.temperature_K - reading.cursor.temperature_K))
-        where = (f"{format_temperature_value(scales.shown_temperature(nearest.temperature_K))}"
-                 f" {unit}")
         decimals = 1 if gap < 10 else 0
-        how_far = f"{format_temperature_value(gap, decimals)} {unit} {nearest.direction}"
+        where = (f"{format_temperature_value(scales.shown_temperature(nearest.temperature_K), decimals)}"
+                 f" {unit}")
+        how_far = ("the cursor is on it" if nearest.direction == "here" else
+                   f"{format_temperature_value(gap, decimals)} {nearest.direction}")
     else:
         comp = scales.composition_unit
         shown = scales.shown_composition(nearest.x_B)
         gap = abs(shown - scales.shown_composition(reading.cursor.x_B))
         where = f"{element_B} {percent(shown / 100.0)} {comp}%"
-        how_far = f"{percent(gap / 100.0)} {comp}% {nearest.direction}"
-    return lines + [("value", f" {arrow} {nearest.name} at {where}"),
-                    ("note", f"   {how_far}")]
+        how_far = f"{percent(gap / 100.0)} {nearest.direction}"
+    line = f" {arrow} {nearest.name} {where}"
+    if len(line) + len(how_far) + 2 <= WIDTH:     # one line where it fits
+        return lines + [("value", f"{line}, {how_far}")]
+    return lines + [("value", line), ("note", f"   {how_far}")]
 
 
-def status_lines(reading: Reading, element_B: str, scales: Scales,
-                 glyphs: Glyphs) -> list[Line]:
+def energy_lines(reading: Reading) -> list[Line]:
+    """What the energies of the free-energy view are measured from."""
+    gibbs = reading.equilibrium.gibbs_J_per_mol
+    text = (f"alloy {gibbs:.0f} J/mol, from the pure elements as solids at this temperature. "
+            "Curves: kJ/mol above the straight line joining the lowest G at the window's edges.")
+    return [("heading", "GIBBS ENERGY G")] + [("note", f" {line}")
+                                             for line in textwrap.wrap(text, WIDTH - 1)]
+
+
+def status_lines(reading: Reading, system, scales: Scales, glyphs: Glyphs) -> list[Line]:
     """Every line of the status pane, top to bottom."""
+    element_B = system.elements[1]
     return (point_lines(reading, element_B, scales, glyphs)
-            + phase_lines(reading, element_B, scales)
+            + phase_lines(reading, system, scales)
             + melt_lines(reading, scales, glyphs)
             + boundary_lines(reading, element_B, scales, glyphs))

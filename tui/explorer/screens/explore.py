@@ -8,7 +8,7 @@ from pathlib import Path
 
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Horizontal
+from textual.containers import Horizontal, Vertical
 from textual.events import Resize
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Input, Static
@@ -16,6 +16,7 @@ from textual.widgets import ContentSwitcher, Input, Static
 from ladle.engine import SystemFileError, UnknownSystem, find_system
 from ladle.engine.files.atomic_files import write_new_files
 from ladle.tui.errors import os_error_text
+from ladle.tui.commands.common import coverage_note
 from ladle.tui.quote import percent
 
 from ..cooling import CoolingView
@@ -28,7 +29,8 @@ from ..keymap import MAIN_KEYS
 from ..reaction_rows import reaction_rows
 from ..readout import format_step, format_temperature_value
 from ..screen_text import screen_text
-from ..status_lines import Line, melt_lines, point_lines, status_lines
+from ..status_lines import (WIDTH, Line, alloy_line, energy_lines, melt_lines, phase_lines,
+                            point_lines, status_lines)
 from ..system_choices import system_choices
 from ..widgets.diagram_view import DiagramView
 from ..widgets.energy_view import EnergyView
@@ -41,6 +43,8 @@ from .help import HelpScreen
 from .systems import SystemPicker
 
 MIN_WIDTH, MIN_HEIGHT = 80, 24
+NOTICE_WAITS = 20   # frames to wait at most for notices to leave before a screenshot
+FRAME_S = 0.02
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
 
 
@@ -74,7 +78,9 @@ class ExploreScreen(Screen[None]):
                 yield EnergyView(self.glyphs, id="energy")
                 yield ReactionsView(id="reactions")
                 yield CoolingView(self.glyphs, id="cooling")
-            yield StatusPane(id="status")
+            with Vertical(id="side"):
+                yield StatusPane(id="status")
+                yield Static("", id="caution")   # under the pane, never pushed off it
         yield PointEntry(id="entry")
         yield KeyBar(self.glyphs, id="keys")
         yield Static("", id="too-small")
@@ -105,6 +111,7 @@ class ExploreScreen(Screen[None]):
         """Redraw the status pane, the title and the visible plot for the current state."""
         self._show_title()
         self.query_one(StatusPane).show_lines(self._status_lines())
+        self._show_caution()
         if self.view in ("diagram", "energy"):
             self.query_one(f"#{self.view}").refresh()
         elif self.view == "cooling":
@@ -113,7 +120,8 @@ class ExploreScreen(Screen[None]):
 
     def _show_title(self) -> None:
         system = self.exploration.system
-        self.query_one(TitleBar).show(system.name, system.title, self.view, self.size.width)
+        self.query_one(TitleBar).show(system.name, system.title, coverage_note(system), self.view,
+                                      self.size.width)
 
     def _status_lines(self) -> list[Line]:
         e = self.exploration
@@ -122,19 +130,29 @@ class ExploreScreen(Screen[None]):
         except (ValueError, ArithmeticError) as error:
             return [("heading", "POINT"), ("warning", f" no answer here: {error}")]
         if self.view == "cooling":
-            lines = (point_lines(reading, e.system.elements[1], e.scales, self.glyphs)
+            cooling = self.query_one(CoolingView)
+            lines = ([("heading", "ALLOY"), alloy_line(e.cursor.x_B, e.system.elements[1], e.scales)]
                      + melt_lines(reading, e.scales, self.glyphs)
-                     + cooling_lines(self.query_one(CoolingView).answer(), e.scales, self.glyphs))
+                     + cooling_lines(cooling.answer(), cooling.coring(), e.system.elements[1],
+                                     e.scales, self.glyphs))
+        elif self.view == "energy":
+            lines = (point_lines(reading, e.system.elements[1], e.scales, self.glyphs)
+                     + phase_lines(reading, e.system, e.scales) + energy_lines(reading))
         else:
-            lines = status_lines(reading, e.system.elements[1], e.scales, self.glyphs)
+            lines = status_lines(reading, e.system, e.scales, self.glyphs)
         steps = e.steps()
         unit = self.glyphs.temperature_unit(e.scales.temperature_unit)
-        lines.append(("note", f" step {format_step(steps.temperature)} {unit}, "
-                              f"{format_step(steps.composition)} {e.scales.composition_unit}%"
-                              " (shift /10)"))
-        if e.system.safety:
-            lines.append(("warning", f" ! {safety_headline(e.system.safety)} (? help)"))
+        step = (f" step {format_step(steps.temperature)} {unit}, "
+                f"{format_step(steps.composition)} {e.scales.composition_unit}%")
+        lines.append(("note", step + (" (shift /10)" if len(step) + 11 <= WIDTH else "")))
         return lines
+
+    def _show_caution(self) -> None:
+        """The system's caution, whole, under the status pane (its full text: ? help)."""
+        safety = self.exploration.system.safety
+        caution = self.query_one("#caution", Static)
+        caution.display = bool(safety)
+        caution.update(f"! {safety_headline(safety)} (? more)" if safety else "")
 
     def _fill_reactions(self) -> None:
         e = self.exploration
@@ -176,7 +194,7 @@ class ExploreScreen(Screen[None]):
         self.update_all()
 
     def action_go_to(self) -> None:
-        self.query_one(PointEntry).open()
+        self.query_one(PointEntry).open(self.exploration.system.elements[1])
 
     def action_back(self) -> None:
         entry = self.query_one(PointEntry)
@@ -224,7 +242,8 @@ class ExploreScreen(Screen[None]):
 
     def action_help(self) -> None:
         system = self.exploration.system
-        self.app.push_screen(HelpScreen(self.glyphs, system.name, system.safety))
+        self.app.push_screen(HelpScreen(self.glyphs, system.name, system.safety,
+                                        system.elements[1]))
 
     def action_write_point(self) -> None:
         e = self.exploration
@@ -241,6 +260,17 @@ class ExploreScreen(Screen[None]):
         self._write(stem, {".json": text}, also_copy=True)
 
     def action_write_screen(self) -> None:
+        self.app.clear_notifications()   # a notice from `w` is not part of the screen to save
+        self._save_screen()
+
+    def _save_screen(self, waited: int = 0, clear: int = 0) -> None:
+        """Save once no notice has been on the screen for two looks a frame apart (the screen
+        is then drawn without it)."""
+        clear = 0 if self.query("Toast") else clear + 1
+        if clear < 2 and waited < NOTICE_WAITS:
+            self.refresh(layout=True)
+            self.set_timer(FRAME_S, lambda: self._save_screen(waited + 1, clear))
+            return
         stem = safe_stem(f"ladle-screen-{self.exploration.system.name}-{self.view}")
         self._write(stem, {".txt": screen_text(self.app), ".svg": self.app.export_screenshot(title="ladle")})
 

@@ -20,14 +20,16 @@ class HelpScreen(ModalScreen[None]):
 
     BINDINGS = [Binding("escape,q,question_mark,f1", "close", "close", show=False)]
 
-    def __init__(self, glyphs: Glyphs, system_name: str, system_safety: str) -> None:
+    def __init__(self, glyphs: Glyphs, system_name: str, system_safety: str, element: str) -> None:
         super().__init__()
         self.glyphs = glyphs
         self.system_name = system_name
         self.system_safety = system_safety
+        self.element = element
 
     def compose(self) -> ComposeResult:
-        with VerticalScroll(id="help-body"):
+        with VerticalScroll(id="help-body") as body:
+            body.border_title = "HELP: safety and keys (Esc closes)"
             yield Static(self._cautions(), id="help-cautions")   # first: seen without scrolling
             yield Static(self._keys(), id="help-keys")
             yield Static(f"Esc closes this help. {self.glyphs.up}{self.glyphs.down} "
@@ -41,7 +43,7 @@ class HelpScreen(ModalScreen[None]):
                       padding=(0, 1), expand=True)
         table.add_column("keys", no_wrap=True, style="bold")
         table.add_column("what they do", ratio=1)
-        for keys, what in help_rows(self.glyphs):
+        for keys, what in help_rows(self.glyphs, self.element):
             table.add_row(keys, what)
         return table
 

@@ -8,13 +8,14 @@ from textual_plotext.plot import Plot
 
 from ..diagram_drawing import DiagramScene, diagram_scene, draw_diagram
 from ..exploration import Exploration
+from ..crosshair import Crosshair
 from ..glyphs import Glyphs
 from .plot_pane import CachedPlot
 
 
 class DiagramView(CachedPlot):
-    """Draws the exploration's diagram; the scene (all but the cursor) is kept per window,
-    units and size, so a cursor move only redraws."""
+    """Draws the exploration's diagram; the picture (all but the cursor) is kept per window,
+    units and size, and the cursor's crosshair is written over it."""
 
     def __init__(self, glyphs: Glyphs, *, id: str | None = None) -> None:
         super().__init__(glyphs, id=id)
@@ -26,7 +27,14 @@ class DiagramView(CachedPlot):
         e = self.exploration
         if e is None:
             return None
-        return (id(e), e.window, e.scales.temperature_unit, e.scales.composition_unit, e.cursor)
+        return (id(e), e.window, e.scales.temperature_unit, e.scales.composition_unit)
+
+    def crosshair(self) -> Crosshair | None:
+        e = self.exploration
+        if e is None or self._scene is None:
+            return None
+        return Crosshair(self._scene.frame, float(e.scales.shown_composition(e.cursor.x_B)),
+                         float(e.scales.shown_temperature(e.cursor.temperature_K)))
 
     def draw(self, plt: Plot, width: int, height: int) -> None:
         e = self.exploration
@@ -37,5 +45,4 @@ class DiagramView(CachedPlot):
         if key != self._scene_key or self._scene is None:
             self._scene = diagram_scene(e, self.glyphs, width, height)
             self._scene_key = key
-        draw_diagram(plt, self._scene, e.scales.shown_composition(e.cursor.x_B),
-                     e.scales.shown_temperature(e.cursor.temperature_K), self.glyphs)
+        draw_diagram(plt, self._scene, self.glyphs)

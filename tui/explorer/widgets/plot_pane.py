@@ -1,8 +1,9 @@
 """A plotext plot that rebuilds its picture only when what it shows has changed.
 
 textual-plotext rebuilds the whole picture on every refresh; here the built text is kept and
-reused while the size, theme and the subclass's `picture_key()` stay the same. In ASCII mode
-the built text is translated character for character (the layout does not move).
+reused while the size, theme and the subclass's `picture_key()` stay the same, and the cursor
+is written over a copy of it (`crosshair.with_crosshair`), so a cursor move costs no rebuild.
+In ASCII mode the built text is translated character for character (the layout does not move).
 """
 
 from __future__ import annotations
@@ -14,6 +15,7 @@ from textual.app import RenderResult
 from textual_plotext import PlotextPlot
 from textual_plotext.plot import Plot
 
+from ..crosshair import Crosshair, with_crosshair
 from ..glyphs import Glyphs
 from .plot_text import styled_plot_text
 
@@ -28,8 +30,13 @@ class CachedPlot(PlotextPlot):
         self._built: Text | None = None
 
     def picture_key(self) -> Hashable:
-        """A value that changes whenever the picture would change (size and theme aside)."""
+        """A value that changes whenever the picture without the cursor would change (size and
+        theme aside)."""
         raise NotImplementedError
+
+    def crosshair(self) -> Crosshair | None:
+        """Where to draw the cursor over the picture (None: nowhere)."""
+        return None
 
     def draw(self, plt: Plot, width: int, height: int) -> None:
         """Issue the plot calls for a picture of width x height cells."""
@@ -48,4 +55,6 @@ class CachedPlot(PlotextPlot):
                 self.draw(plt, width, height)
             self._built = styled_plot_text(self.glyphs.plot_text(plt.build()))
             self._built_key = key
-        return self._built
+        crosshair = self.crosshair()
+        return self._built if crosshair is None else with_crosshair(self._built, crosshair,
+                                                                     self.glyphs)

@@ -11,17 +11,17 @@ class PointEntry(Vertical):
     """An input line and a problem line under it; hidden until opened."""
 
     def compose(self) -> ComposeResult:
-        yield Input(placeholder="650C 12wt%   923K 20at%   Sn=12wt%   (Enter: go, Esc: back)",
-                    id="point-input")
+        yield Input(id="point-input")
         yield Static("", id="point-problem")
 
     def on_mount(self) -> None:
         self.query_one(Input).cursor_blink = False   # no idle output over slow links
 
-    def open(self) -> None:
-        """Show the entry, empty, with the keyboard in it."""
+    def open(self, element: str) -> None:
+        """Show the entry, empty, with the keyboard in it; the example names `element`."""
         self.clear_problem()
         field = self.query_one(Input)
+        field.placeholder = f"650C 12wt%   923K 20at%   {element}=12wt%   (Enter: go, Esc: back)"
         field.value = ""
         self.display = True
         field.focus()

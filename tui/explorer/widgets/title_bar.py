@@ -1,6 +1,9 @@
-"""The top line: the system, its title, and which view is showing."""
+"""The top line: the system, its title (never cut: it wraps onto a second line), the range
+the model covers, and which view is showing."""
 
 from __future__ import annotations
+
+import textwrap
 
 from rich.text import Text
 from textual.widgets import Static
@@ -14,18 +17,38 @@ class TitleBar(Static):
 
     COMPONENT_CLASSES = {"title-bar--system", "title-bar--active"}
 
-    def show(self, system_name: str, title: str, view: str, width: int) -> None:
-        """Redraw for this system and view; the active view is bracketed (and styled)."""
+    def show(self, system_name: str, title: str, note: str, view: str, width: int) -> None:
+        """Redraw for this system and view; the active view is bracketed (and styled). The
+        other views are named in full where the title leaves room, else by their keys; a
+        `note` (the range the model covers) that does not fit beside the title goes whole onto
+        the next line."""
+        words = " ".join(filter(None, (title, note)))
+        for short in (False, True):
+            tabs = self._tabs(view, short)
+            if len(system_name) + len(words) + len(tabs) + 4 <= width:
+                break
+        first = Text(f" {system_name}", style=self.get_component_rich_style("title-bar--system"))
+        room = max(width - len(first) - 2 - len(tabs) - 1, 10)
+        if len(words) > room and note and len(title) <= room:
+            lines = [title, note]
+        else:
+            lines = textwrap.wrap(words, room) or [""]
+        head = lines[0]
+        rest = textwrap.wrap(" ".join(lines[1:]), max(width - len(first) - 3, 10))
+        first.append(f"  {head}")
+        first.append(" " * max(width - len(first) - len(tabs), 1))
+        text = first + tabs
+        for line in rest:
+            text.append("\n" + " " * (len(system_name) + 3) + line)
+        self.update(text)
+
+    def _tabs(self, view: str, short: bool) -> Text:
         tabs = Text()
         for key, label in VIEWS:
-            tabs.append("  ")
             if key == view:
+                tabs.append(" ")
                 tabs.append(f"[{label}]", style=self.get_component_rich_style("title-bar--active"))
             else:
-                tabs.append(f" {label} ")
-        left = Text(f" {system_name}", style=self.get_component_rich_style("title-bar--system"))
-        room = width - len(left) - len(tabs) - 1
-        if room > 3 and title:
-            left.append("  " + (title if len(title) + 2 <= room else title[:room - 3] + "~"))
-        left.append(" " * max(width - len(left) - len(tabs), 1))
-        self.update(left + tabs)
+                tabs.append(f" {label.split()[0] if short else label}")
+        tabs.append(" ")
+        return tabs

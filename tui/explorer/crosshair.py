@@ -1,0 +1,108 @@
+"""The cursor drawn over a plot's finished picture, so that a cursor move does not rebuild it.
+
+The picture (plotext's text, styled) is built once per window, units and size, without the
+cursor; each move writes the crosshair into a copy of it. The crosshair takes only blank cells
+of the plot area, so boundaries, invariant lines and labels stay visible under it; the cursor's
+own mark goes on top. Cells are found as plotext places data: a value v between the axis
+limits lo and hi lands in cell floor(0.5 + (n - 1) (v - lo) / (hi - lo)) of the n cells across
+(or up) the plot area inside the frame.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from rich.style import Style
+from rich.text import Text
+
+from .glyphs import Glyphs
+from .plotting import Frame
+
+_BLANK = (" ", "\u2800")             # a space, and an empty braille cell
+CURSOR_STYLE = Style(color="bright_red", bold=True)   # the cursor in every view
+
+
+@dataclass(frozen=True)
+class Crosshair:
+    """Where the cursor is, in the plot's data units: a line across at `y` and a line up at
+    `x` (either may be None), and the cursor's mark where both are given."""
+
+    frame: Frame
+    x: float | None = None
+    y: float | None = None
+
+
+@dataclass(frozen=True)
+class PlotArea:
+    """The character cells inside a picture's frame: the first row and column, and how many."""
+
+    top: int
+    left: int
+    rows: int
+    columns: int
+
+
+def plot_area_of(lines: list[str]) -> PlotArea | None:
+    """The cells inside the frame of a plotext picture (its lines), or None without a frame.
+    The frame is found by its four corners (box-drawing, or '+' in ASCII): the first line with
+    a corner followed by a horizontal line, and the first line below it with corners in the
+    same two columns."""
+    for top, line in enumerate(lines):
+        left = next((i for i, (a, b) in enumerate(zip(line, line[1:]))
+                     if a in "┌+" and b in "─-"), None)
+        if left is None:
+            continue
+        right = max(line.rfind("┐"), line.rfind("+"))
+        if right <= left + 1:
+            return None
+        for bottom in range(top + 2, len(lines)):
+            below = lines[bottom]
+            if len(below) > right and below[left] in "└+" and below[right] in "┘+":
+                return PlotArea(top + 1, left + 1, bottom - top - 1, right - left - 1)
+        return None
+    return None
+
+
+def _cell(value: float, low: float, high: float, cells: int) -> int | None:
+    """The cell (0 = left or bottom) where plotext draws `value`; None outside the limits."""
+    if not low <= value <= high or high <= low:
+        return None
+    return math.floor(round(0.5 + (cells - 1) * (value - low) / (high - low), 8))
+
+
+def with_crosshair(picture: Text, crosshair: Crosshair, glyphs: Glyphs) -> Text:
+    """A copy of `picture` with the crosshair written into the blank cells of its plot area."""
+    lines = picture.plain.split("\n")
+    area = plot_area_of(lines)
+    if area is None:
+        return picture
+    frame = crosshair.frame
+    column = None if crosshair.x is None else _cell(crosshair.x, frame.x_low, frame.x_high,
+                                                     area.columns)
+    up = None if crosshair.y is None else _cell(crosshair.y, frame.y_low, frame.y_high, area.rows)
+    row = None if up is None else area.rows - 1 - up
+    marks: dict[tuple[int, int], str] = {}
+    if row is not None:
+        marks.update(((row, c), glyphs.crosshair_marker) for c in range(area.columns))
+    if column is not None:
+        marks.update(((r, column), glyphs.crosshair_marker) for r in range(area.rows))
+    starts = [0]
+    for line in lines[:-1]:
+        starts.append(starts[-1] + len(line) + 1)
+    chars = list(picture.plain)
+    changed: list[int] = []
+    for (r, c), mark in marks.items():
+        at = starts[area.top + r] + area.left + c
+        if chars[at] in _BLANK:
+            chars[at] = mark
+            changed.append(at)
+    if row is not None and column is not None:
+        at = starts[area.top + row] + area.left + column
+        chars[at] = glyphs.cursor_marker
+        changed.append(at)
+    drawn = picture.copy()
+    drawn.plain = "".join(chars)
+    for at in changed:
+        drawn.stylize(CURSOR_STYLE, at, at + 1)
+    return drawn

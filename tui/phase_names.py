@@ -1,0 +1,41 @@
+"""Phase names as the trade reads them, shared by the line commands and the explorer.
+
+A phase is shown by its structure name (the system file's name, as the engine knows it) with the
+trade's name beside it where the file gives one (`trade_names`: "bct (Sn)", "fcc (Pb)"); where a
+phase appears twice, on both sides of a miscibility gap, each side is named by the element it is
+rich in ("fcc (Ag-rich)"), as the cooling paths name them.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+from ladle.engine.files.trade_names import trade_names
+from ladle.engine.solidify.records import solid_label
+
+
+def _trade_name(system, phase: str, temperature_K: float) -> str | None:
+    return trade_names(system).phase_name(phase, temperature_K)
+
+
+def phase_label(system, phase: str, x_B: float, temperature_K: float,
+                among: Sequence[tuple[str, float]] = ()) -> str:
+    """'bct (Sn)', 'fcc (Ag-rich)' or 'liquid': the phase (x_B, mole fraction of B, at
+    temperature_K, K) among the phases it is stable with (name, x_B)."""
+    gap_side = solid_label(system, phase, x_B, list(among))
+    if gap_side != phase:
+        return gap_side
+    trade = _trade_name(system, phase, temperature_K)
+    if not trade:
+        return phase
+    return f"{phase} {trade}" if trade.startswith("(") else f"{phase} ({trade})"
+
+
+def short_label(system, phase: str, x_B: float, temperature_K: float,
+                among: Sequence[tuple[str, float]] = ()) -> str:
+    """The shortest name a reader knows the phase by, for labels on a plot: the trade's name
+    ('(Sn)'), '(Ag)' for the Ag-rich side of a gap, else the structure name."""
+    gap_side = solid_label(system, phase, x_B, list(among))
+    if gap_side != phase:
+        return f"({gap_side.split('(')[1].removesuffix('-rich)')})"
+    return _trade_name(system, phase, temperature_K) or phase
