@@ -367,7 +367,12 @@ class SublatticePhase:
         total = sum(dims)
         per_lattice = [_simplex_points(len(held), SAMPLE_BUDGET ** (d / total) if total else 1)
                        for held, d in zip(self.constituents, dims)]
-        index = np.array(list(itertools.product(*[range(len(p)) for p in per_lattice])), dtype=np.intp)
+        counts = [len(p) for p in per_lattice]
+        if math.prod(counts) <= 4 * SAMPLE_BUDGET:
+            index = np.array(list(itertools.product(*[range(c) for c in counts])), dtype=np.intp)
+        else:   # a phase of many sublattices: a fixed pseudo-random choice among the combinations
+            rng = np.random.default_rng(0)
+            index = np.stack([rng.integers(0, c, 4 * SAMPLE_BUDGET) for c in counts], axis=1)
         Y = np.concatenate([p[index[:, s]] for s, p in enumerate(per_lattice)], axis=1)
         moles = Y @ self.element_matrix
         atoms = moles.sum(axis=1)
@@ -387,23 +392,40 @@ _LEVEL_CHOICES = ((12, 60), (10, 40), (8, 30), (7, 20), (6, 14), (5, 10), (4, 7)
 
 
 def _simplex_points(n: int, budget: float) -> np.ndarray:
-    """Points of the (n-1)-simplex (rows sum to 1), dense near its corners and edges: every
-    coordinate but one from the level set (log-spaced near 0 and 1), the remaining one closing the
-    sum, for each choice of the remaining one; at most about `budget` points."""
+    """Points of the (n-1)-simplex (rows sum to 1), dense near its corners and edges, about
+    `budget` of them at most: every coordinate but one from the level set (log-spaced near 0 and
+    1), the remaining one closing the sum, for each choice of the remaining one. Where only a
+    coarse level set fits the budget (many constituents), every edge is sampled on a fine level set
+    instead and the interior at fixed pseudo-random points."""
     if n == 1:
         return np.ones((1, 1))
-    points = np.zeros((1, n))
+    points = np.vstack([np.eye(n), np.full((1, n), 1.0 / n)])    # the corners and the centre, at least
+    fine = False
     for n_log, n_mid in _LEVEL_CHOICES:
         levels = _axis_levels(n_log, n_mid)
-        if len(levels) ** (n - 1) > 50 * budget:
-            continue
-        grid = np.array(list(itertools.product(levels, repeat=n - 1)))
+        rows = len(levels) ** (n - 1)
+        if rows > 250 * budget or n * rows / math.factorial(n - 1) > 6 * budget:   # too many, before and
+            continue                                                                # after the sum <= 1
+        grid = np.stack(np.meshgrid(*[levels] * (n - 1), indexing="ij"), axis=-1).reshape(-1, n - 1)
         grid = grid[grid.sum(axis=1) <= 1.0]
-        rest = np.clip(1.0 - grid.sum(axis=1), 0.0, None)
-        families = [np.insert(grid, d, rest, axis=1) for d in range(n)]
-        points = np.unique(np.concatenate(families), axis=0)
-        if len(points) <= budget:
+        if n * len(grid) > 3 * budget:      # too many even after removing duplicates
+            continue
+        rest = 1.0 - grid.sum(axis=1)
+        rest[rest < 1e-12] = 0.0
+        candidate = np.unique(np.concatenate([np.insert(grid, d, rest, axis=1) for d in range(n)]), axis=0)
+        if len(candidate) <= budget:
+            points, fine = candidate, len(levels) >= 12
             break
+    if not fine:
+        t = _axis_levels(6, 9)[1:-1]
+        edges = []
+        for i, j in itertools.combinations(range(n), 2):
+            e = np.zeros((len(t), n))
+            e[:, i], e[:, j] = t, 1.0 - t
+            edges.append(e)
+        interior = np.random.default_rng(n).dirichlet(np.full(n, 0.7), size=max(int(budget) - len(points), 0))
+        points = np.unique(np.concatenate([points] + edges + [interior]), axis=0)[: max(int(budget), n + 1)]
+        points = np.concatenate([np.eye(n), points])
     return points / points.sum(axis=1, keepdims=True)
 
 

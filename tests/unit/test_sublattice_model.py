@@ -260,6 +260,19 @@ def test_samples_of_a_sublattice_phase_give_mole_fractions_per_atom():
     assert 0 < X[X[:, 2] > 0, 2].min() <= 1e-5                   # dilute carbon sampled
 
 
+@pytest.mark.parametrize("n", [4, 6, 12])
+def test_samples_of_many_constituents_keep_corners_and_dilute_edges(n):
+    elements = tuple(f"E{chr(97 + i)}" for i in range(n))
+    phase = SublatticePhase(name="many", elements=elements, site_ratios=(1.0,), constituents=(elements,),
+                            end_members={(el,): f(a=100.0 * i) for i, el in enumerate(elements)})
+    Y, X, G = phase.at(900.0).samples()
+    assert len(Y) <= 4100 and np.allclose(Y.sum(axis=1), 1.0)
+    for i in range(n):
+        assert np.any(Y[:, i] == 1.0)                                    # every pure constituent
+        assert 0 < Y[Y[:, i] > 0, i].min() <= 1e-5                       # and dilute amounts of it
+    assert np.all(np.isfinite(G))
+
+
 def test_compound_has_one_point():
     Y, X, G = compound().at(700.0).samples()
     assert Y.shape == (1, 2) and np.allclose(X, [[0.75, 0.0, 0.25]])
