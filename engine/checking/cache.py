@@ -4,9 +4,10 @@ not the fit targets, not the pure-element melting points).
 
 Evaluating every check of every system maps each diagram; the counts are therefore kept in the
 user's cache folder ($XDG_CACHE_HOME/ladle/checks, default ~/.cache/ladle/checks), one small
-JSON file per key. The key is a SHA-256 hash of the system file, the element library and the
-engine's own source files, so that a change to any of them gives a fresh evaluation. Cache files
-are written atomically; a cache that cannot be read or written is simply not used.
+JSON file per key. The key is a SHA-256 hash of the system file, the names of the phases kept
+(a variant file or --without leaves some out), the element library and the engine's own source
+files, so that a change to any of them gives a fresh evaluation. Cache files are written
+atomically; a cache that cannot be read or written is simply not used.
 """
 
 from __future__ import annotations
@@ -43,6 +44,7 @@ def _key(system) -> str:
     h = hashlib.sha256(_engine_digest())
     h.update(Path(system.path).read_bytes())
     h.update(shipped_library().path.read_bytes())
+    h.update("\0".join(system.phases).encode())      # a variant keeps fewer phases of the same file
     return h.hexdigest()
 
 

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 import re
-from functools import lru_cache
+from functools import lru_cache, partial
 import tomllib
 from pathlib import Path
 from typing import Any
@@ -19,6 +19,7 @@ from ..errors import SystemFileError
 from . import bounds as limits
 from .facts import parse_facts, reject_repeated_facts
 from .trade_names import read_trade_names
+from .variants import is_variant, load_variant
 from .phase_reader import read_phases
 from ..models.polynomials import COEFFICIENTS, TemperatureFunction
 from ..models.system import System
@@ -180,6 +181,8 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     if library is None:
         library = shipped_library()
     doc = _read_toml(path) if document is None else document
+    if is_variant(doc):
+        return load_variant(path, doc, name, _read_toml, partial(load_system, library=library))
     r = _Reader(path)
     r.known_keys(doc, _TOP_KEYS, "")
     for key in ("elements", "source") + (() if "builds_on" in doc else ("molar_mass", "phase")):

@@ -14,6 +14,8 @@ from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
+from .plain_text import without_controls
+
 #: The heat treatments a file may name (`heat_treatment`): solution treatment of age-hardening
 #: alloys, and austenitizing (hardening) of steels.
 HEAT_TREATMENTS = ("solution", "austenitizing")
@@ -60,16 +62,17 @@ class TradeNames:
         return next((ln for ln in self.lines if ln.above == up and ln.below == down), None)
 
 
-def read_trade_names(doc: dict, phases: Collection[str], fail: Callable[[str, str], Exception]) -> TradeNames:
-    """The trade names of a parsed system file `doc` whose phases are `phases`. Raises
-    fail(key, what) for a bad entry."""
+def read_trade_names(doc: dict, phases: Collection[str] | None, fail: Callable[[str, str], Exception]) -> TradeNames:
+    """The trade names of a parsed system file `doc` whose phases are `phases` (None: names of
+    phases are not checked, as for a file already validated). Raises fail(key, what) for a bad
+    entry."""
     names: dict[str, tuple[PhaseName, ...]] = {}
     table = doc.get("trade_names", {})
     if not isinstance(table, dict):
         raise fail("trade_names", "expected a table such as { fcc = \"austenite\" }")
     for phase, value in table.items():
         key = f"trade_names.{phase}"
-        if phase not in phases:
+        if phases is not None and phase not in phases:
             raise fail(key, f"no phase {phase!r} in this system; it has {', '.join(sorted(phases))}")
         names[phase] = _phase_names(value, key, fail)
     lines = []
@@ -85,8 +88,8 @@ def read_trade_names(doc: dict, phases: Collection[str], fail: Callable[[str, st
 
 
 def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) -> tuple[PhaseName, ...]:
-    if isinstance(value, str) and value.strip():
-        return (PhaseName(value),)
+    if isinstance(value, str) and without_controls(value).strip():
+        return (PhaseName(without_controls(value)),)
     if not isinstance(value, list) or not value:
         raise fail(key, "expected a name, or a list of { name = .., from_K = .., upto_K = .. }")
     out = []
@@ -97,8 +100,9 @@ def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) ->
         for extra in set(item) - _NAME_KEYS:
             raise fail(f"{k}.{extra}", f"unknown key; expected one of {', '.join(sorted(_NAME_KEYS))}")
         name = item.get("name")
-        if not isinstance(name, str) or not name.strip():
+        if not isinstance(name, str) or not without_controls(name).strip():
             raise fail(f"{k}.name", "expected a non-empty text")
+        name = without_controls(name)
         bounds = []
         for bound, default in (("from_K", 0.0), ("upto_K", math.inf)):
             v = item.get(bound, default)
@@ -111,13 +115,13 @@ def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) ->
     return tuple(out)
 
 
-def _line(entry: Any, key: str, phases: Collection[str], fail: Callable[[str, str], Exception]) -> TradeLine:
+def _line(entry: Any, key: str, phases: Collection[str] | None, fail: Callable[[str, str], Exception]) -> TradeLine:
     if not isinstance(entry, dict):
         raise fail(key, "expected a table with name, above and below")
     for extra in set(entry) - _LINE_KEYS:
         raise fail(f"{key}.{extra}", f"unknown key; expected one of {', '.join(sorted(_LINE_KEYS))}")
     name = entry.get("name")
-    if not isinstance(name, str) or not name.strip():
+    if not isinstance(name, str) or not without_controls(name).strip():
         raise fail(f"{key}.name", "expected a non-empty text such as \"A3\"")
     sides = []
     for side in ("above", "below"):
@@ -125,13 +129,13 @@ def _line(entry: Any, key: str, phases: Collection[str], fail: Callable[[str, st
         if not isinstance(value, list) or not value or not all(isinstance(p, str) for p in value):
             raise fail(f"{key}.{side}", "expected a list of phase names such as [\"fcc\"]")
         for p in value:
-            if p not in phases:
+            if phases is not None and p not in phases:
                 raise fail(f"{key}.{side}", f"no phase {p!r} in this system; it has {', '.join(sorted(phases))}")
         sides.append(frozenset(value))
     note = entry.get("note", "")
     if not isinstance(note, str):
         raise fail(f"{key}.note", "expected a text")
-    return TradeLine(name, sides[0], sides[1], note)
+    return TradeLine(without_controls(name), sides[0], sides[1], without_controls(note, keep_newlines=True))
 
 
 @lru_cache(maxsize=64)
@@ -142,4 +146,4 @@ def trade_names(system) -> TradeNames:
     def fail(key: str, what: str) -> Exception:
         return ValueError(f"{system.path.name}: {key}: {what}")
 
-    return read_trade_names(system.document, tuple(system.document.get("phase", system.phases)), fail)
+    return read_trade_names(system.document, None, fail)

@@ -62,7 +62,9 @@ def test_solution_window_of_an_aluminium_copper_alloy(ladle) -> None:
 def test_text_names_every_change(ladle) -> None:
     out = ladle("transitions", "cu-ni", "--comp", "Ni=30wt%", "--unit", "K")
     assert out.returncode == 0, out.stderr
-    assert "liquid  ->  fcc + liquid" in out.stdout and "fcc + liquid  ->  fcc" in out.stdout
+    changes = [tuple(frozenset(p.split(" (")[0] for p in side.split(" + ")) for side in line.split("K  ", 1)[1].split("  ->  "))
+               for line in out.stdout.splitlines() if "  ->  " in line]
+    assert changes[:2] == [({"liquid"}, {"liquid", "fcc"}), ({"liquid", "fcc"}, {"fcc"})]
 
 
 def _labels(doc: dict, system, x_b: float) -> tuple[list, dict]:
@@ -101,3 +103,26 @@ def test_bad_trade_names_name_the_key(doc: dict, key: str) -> None:
 
     with pytest.raises(ValueError, match=key.replace("[", r"\[").replace("]", r"\]")):
         read_trade_names(doc, ("liquid", "fcc", "bct"), fail)
+
+
+@pytest.mark.parametrize("command", [
+    ["point", "pb-sn", "--temp", "200", "--comp", "30wt%"],
+    ["melt", "pb-sn", "--comp", "30wt%"],
+    ["transitions", "pb-sn", "--comp", "30wt%"],
+    ["diagram", "pb-sn"],
+    ["cool", "pb-sn", "--comp", "30wt%"],
+    ["check", "pb-sn"],
+])
+def test_without_a_phase_the_system_lacks_is_one_line(ladle, command: list[str]) -> None:
+    out = ladle(*command, "--without", "gamma")
+    assert out.returncode == 2 and out.stdout == ""
+    assert out.stderr.count("\n") == 1 and "'gamma'" in out.stderr
+    out = ladle(*command, "--without", "liquid", "--without", "fcc", "--without", "bct")
+    assert out.returncode == 2 and out.stderr.count("\n") == 1 and "no phase" in out.stderr
+
+
+def test_without_leaves_the_phase_out_of_the_answer(ladle) -> None:
+    out = ladle("transitions", "pb-sn", "--comp", "30wt%", "--without", "bct", "--json")
+    assert out.returncode == 0, out.stderr
+    doc = json.loads(out.stdout)
+    assert all("bct" not in t["above"] + t["below"] for t in doc["transitions"])

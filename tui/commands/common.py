@@ -17,6 +17,8 @@ from ..parsing import Alloy, parse_alloy, parse_temperature, resolve_alloy
 
 def add_system_argument(p: argparse.ArgumentParser) -> None:
     p.add_argument("system", metavar="SYSTEM", help="a system name such as cu-ni (elements joined by '-'), or a path to a system file")
+    p.add_argument("--without", action="append", default=[], metavar="PHASE",
+                   help="leave this phase out (repeatable), for a metastable equilibrium such as iron-cementite: --without graphite")
 
 
 def add_composition_argument(p: argparse.ArgumentParser) -> None:
@@ -25,15 +27,17 @@ def add_composition_argument(p: argparse.ArgumentParser) -> None:
                         "the balance, e.g. Ag=3wt%%,Cu=0.5wt%% (or repeat --comp)")
 
 
-def open_system(name: str):
-    """The System named on the command line; conflicts in the user's folder go to stderr."""
+def open_system(name: str, without: list[str] | tuple[str, ...] = ()):
+    """The System named on the command line, less the phases `without` (--without); conflicts in
+    the user's folder go to stderr. A phase the system lacks, or leaving out every phase, is a
+    ValueError of one line."""
     from ladle.engine import find_system
     from ladle.engine.files.catalog import catalog
 
     system = find_system(name)
     for line in catalog()[1]:
         print(f"ladle: note: {line}", file=sys.stderr)
-    return system
+    return system.without(tuple(without)) if without else system
 
 
 def read_alloy(system, specs: str | list[str]):

@@ -33,7 +33,7 @@ def run(args: argparse.Namespace) -> int:
     from ladle.engine.solidify.alloy_paths import solidify_alloy
     from ladle.engine.solidify.paths import solidify
 
-    system = open_system(args.system)
+    system = open_system(args.system, args.without)
     x, comp = read_alloy(system, args.comp)
     binary = len(system.elements) == 2
     result = solidify(system, float(x[1])) if binary else solidify_alloy(system, x)

@@ -32,7 +32,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 def run(args: argparse.Namespace) -> int:
     from ladle.engine.diagrams.diagram import map_diagram
 
-    system = open_system(args.system)
+    system = open_system(args.system, args.without)
     if wants_section(args) or len(system.elements) != 2:
         return run_section(system, args)
     diagram = map_diagram(system)

@@ -70,7 +70,7 @@ def run(args: argparse.Namespace) -> int:
 
     from ..heatlist import parse_temperature_difference
 
-    system = open_system(args.system)
+    system = open_system(args.system, args.without)
     if len(system.elements) != 2:
         from .alloy_melt import run_alloy
 

@@ -21,7 +21,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 def run(args: argparse.Namespace) -> int:
     from ladle.engine import equilibrate
 
-    system = open_system(args.system)
+    system = open_system(args.system, args.without)
     t = temperature_kelvin(system, args.temp)
     x, comp = read_alloy(system, args.comp)
     binary = len(system.elements) == 2

@@ -28,7 +28,7 @@ def run(args: argparse.Namespace) -> int:
     from ladle.engine.files.trade_names import trade_names
     from ladle.engine.units import mass_from_mole
 
-    system = open_system(args.system)
+    system = open_system(args.system, args.without)
     x, alloy = read_alloy(system, args.comp)
     result = alloy_transitions(system, x)
     names = trade_names(system)
