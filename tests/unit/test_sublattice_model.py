@@ -53,11 +53,12 @@ def ternary_solution(magnetic: MagneticTerms | None = None) -> SublatticePhase:
         magnetic=magnetic)
 
 
+# Tc and beta of A depend on temperature here (b), to exercise that part of dG/dT.
 MAGNETIC = MagneticTerms(
     0.28,
-    (Interaction((("A",),), (f(a=900.0),)), Interaction((("B",),), (f(a=-300.0),)),
+    (Interaction((("A",),), (f(a=900.0, b=0.2),)), Interaction((("B",),), (f(a=-300.0),)),
      Interaction((("A", "B"),), (f(a=-400.0), f(a=100.0)))),
-    (Interaction((("A",),), (f(a=2.2),)), Interaction((("B",),), (f(a=-0.5),)),
+    (Interaction((("A",),), (f(a=2.2, b=-2e-4),)), Interaction((("B",),), (f(a=-0.5),)),
      Interaction((("A", "C"),), (f(a=-1.0),))),
     -3.0)
 
