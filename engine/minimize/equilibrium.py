@@ -1,14 +1,24 @@
-"""Point equilibrium: the stable phases of an alloy at one temperature and overall composition."""
+"""Point equilibrium: the stable phases of an alloy at one temperature and overall composition.
+
+`equilibrate` is the public entry for any number of elements. One engine: a binary whose phases
+are all substitutional solutions or compounds takes the cached binary section (`section`) as an
+internal shortcut; every other system goes to the general minimiser (`global_minimum`). Both give
+the same `PointEquilibrium` (and agree to 1e-9 in composition on binaries; a test compares them).
+Units: K, J per mole of atoms, mole and mass fractions.
+"""
 
 from __future__ import annotations
 
+import math
 import threading
 from collections import OrderedDict
 from dataclasses import dataclass
 
 import numpy as np
 
+from .global_minimum import global_minimum
 from .section import Section
+from ..models.phases import CompoundPhase, SolutionPhase
 from ..units import mass_from_mole
 
 _SECTION_CACHE_SIZE = 64
@@ -16,23 +26,28 @@ _SECTION_CACHE_SIZE = 64
 
 @dataclass(frozen=True)
 class PhaseShare:
-    """One stable phase: its composition (mole and mass fractions, per element) and its amount
-    (mole fraction of the alloy's atoms, and mass fraction of the alloy)."""
+    """One stable phase (one composition set where a phase splits in a miscibility gap): its
+    composition (mole and mass fractions, per element), its amount (mole fraction of the alloy's
+    atoms, and mass fraction of the alloy) and its site fractions, one array per sublattice in
+    the order of the phase's constituents (a substitutional solution: the mole fractions)."""
 
     name: str
     x: np.ndarray
     w: np.ndarray
     amount_mol: float
     amount_mass: float
+    site_fractions: tuple[np.ndarray, ...] = ()
 
 
 @dataclass(frozen=True)
 class PointEquilibrium:
     """The global-minimum state of an alloy at temperature_K (K) and composition x (mole fractions).
 
-    `gibbs_J_per_mol` is the alloy's molar Gibbs energy; `chemical_potentials` holds mu of each
-    element in J/mol (NaN where undefined: the absent element of a pure metal, or at a compound's
-    exact composition); `converged` says whether every Newton solve met its tolerance.
+    `gibbs_J_per_mol` is the alloy's molar Gibbs energy, `gibbs_dT_J_per_mol_K` its temperature
+    derivative at fixed composition (-S, J/(mol K)) and `enthalpy_J_per_mol` H = G - T dG/dT;
+    `chemical_potentials` holds mu of each element in J/mol (NaN where undefined: an element
+    absent from the alloy, or at a compound's exact composition); `converged` says whether every
+    Newton solve met its tolerance.
     """
 
     temperature_K: float
@@ -42,6 +57,8 @@ class PointEquilibrium:
     gibbs_J_per_mol: float
     chemical_potentials: np.ndarray
     converged: bool
+    gibbs_dT_J_per_mol_K: float = math.nan
+    enthalpy_J_per_mol: float = math.nan
 
     @property
     def phase_names(self) -> tuple[str, ...]:
@@ -54,8 +71,10 @@ class PointEquilibrium:
         def per_element(v: np.ndarray) -> dict:
             return {el: float(v[i]) for i, el in enumerate(els)}
 
-        mu = {el: (None if np.isnan(self.chemical_potentials[i]) else float(self.chemical_potentials[i]))
-              for i, el in enumerate(els)}
+        def number(v: float) -> float | None:
+            return None if not math.isfinite(v) else float(v)
+
+        mu = {el: number(self.chemical_potentials[i]) for i, el in enumerate(els)}
         return {
             "system": system.name,
             "temperature_K": self.temperature_K,
@@ -63,10 +82,13 @@ class PointEquilibrium:
             "mass_fraction": per_element(self.w),
             "phases": [
                 {"name": p.name, "phase_fraction_mol": p.amount_mol, "phase_fraction_mass": p.amount_mass,
-                 "mole_fraction": per_element(p.x), "mass_fraction": per_element(p.w)}
+                 "mole_fraction": per_element(p.x), "mass_fraction": per_element(p.w),
+                 "site_fractions": [[float(v) for v in lattice] for lattice in p.site_fractions]}
                 for p in self.phases
             ],
             "gibbs_energy_J_per_mol": self.gibbs_J_per_mol,
+            "enthalpy_J_per_mol": number(self.enthalpy_J_per_mol),
+            "gibbs_energy_dT_J_per_mol_K": number(self.gibbs_dT_J_per_mol_K),
             "chemical_potential_J_per_mol": mu,
             "converged": self.converged,
         }
@@ -104,25 +126,89 @@ def section_at(system, T: float) -> Section:
     return _sections.get(system, T)
 
 
-def equilibrate(system, temperature_K: float, x_B: float, x_A: float | None = None) -> PointEquilibrium:
-    """Global-minimum equilibrium of `system` at temperature_K (K) and mole fraction x_B of B.
+def _composition(system, composition, x_A: float | None) -> tuple[np.ndarray, bool]:
+    """The overall mole fractions as an array, and whether they were given as a binary's x_B.
+    Raises ValueError with one line for a composition of the wrong length, a negative or
+    non-finite fraction, or fractions that do not sum to 1."""
+    n = len(system.elements)
+    if np.ndim(composition) == 0:
+        x_B = float(composition)
+        if n != 2:
+            raise ValueError(f"{system.name} has {n} elements; give a mole fraction for each of {', '.join(system.elements)}")
+        if not 0.0 <= x_B <= 1.0:
+            raise ValueError(f"mole fraction {composition!r} is outside 0-1")
+        return np.array([1.0 - x_B if x_A is None else float(x_A), x_B]), True
+    z = np.asarray(composition, dtype=float)
+    if z.shape != (n,):
+        raise ValueError(f"expected {n} mole fractions ({', '.join(system.elements)}), got {np.size(z)}")
+    if not np.all(np.isfinite(z)) or np.any(z < 0.0):
+        raise ValueError("mole fractions must be finite and not negative")
+    if abs(float(z.sum()) - 1.0) > 1e-9:
+        raise ValueError(f"mole fractions sum to {float(z.sum()):.12g}, expected 1")
+    return z, False
 
-    `x_A` may be given separately (default 1 - x_B) to keep digits near pure B. Raises
-    ValueError for a composition outside [0, 1] and TemperatureOutOfRange outside the models.
+
+def _binary_shortcut(system) -> bool:
+    """True for a binary of substitutional solutions and compounds (today's fast binary path)."""
+    return len(system.elements) == 2 and all(isinstance(p, (SolutionPhase, CompoundPhase))
+                                             for p in system.phases.values())
+
+
+def equilibrate(system, temperature_K: float, composition, x_A: float | None = None) -> PointEquilibrium:
+    """Global-minimum equilibrium of `system` at temperature_K (K) and overall `composition`:
+    a float (the mole fraction x_B of a binary; `x_A` may be given separately, default 1 - x_B,
+    to keep digits near pure B) or the mole fractions of every element (summing to 1).
+
+    Raises ValueError for a composition outside the composition simplex or a temperature at or
+    below 0 K, and TemperatureOutOfRange outside the models.
     """
-    if not 0.0 <= x_B <= 1.0:
-        raise ValueError(f"mole fraction {x_B!r} is outside 0-1")
-    if temperature_K <= 0:
+    if not temperature_K > 0:
         raise ValueError("temperature must be above 0 K")
-    xa0 = 1.0 - x_B if x_A is None else x_A
-    state = section_at(system, temperature_K).state_at(float(xa0), float(x_B))
+    z, _ = _composition(system, composition, x_A)
+    if _binary_shortcut(system):
+        return _binary_equilibrium(system, float(temperature_K), z)
+    return general_equilibrium(system, temperature_K, z)
+
+
+def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
+    """The binary shortcut: the cached isothermal section of the binary engine."""
+    sec = section_at(system, T)
+    state = sec.state_at(float(z[0]), float(z[1]))
     M = system.molar_mass
-    x = np.array([xa0, x_B])
-    w = mass_from_mole(x, M)
-    m_alloy = float(x @ M)
+    m_alloy = float(z @ M)
     shares = []
+    gibbs_dT = 0.0
     for name, (pa, pb), amount in state.phases:
         px = np.array([pa, pb])
-        shares.append(PhaseShare(name, px, mass_from_mole(px, M), float(amount), float(amount * (px @ M) / m_alloy)))
+        k = sec.names.index(name)
+        if k < sec.n_sol:
+            gibbs_dT += amount * float(sec.solutions[k].gibbs_dT(pa, pb))
+            sites = (px,)
+        else:
+            gibbs_dT += amount * sec.compounds[k - sec.n_sol].gibbs_dT(T)
+            model = system.models.get(name) if hasattr(system, "models") else None
+            sites = tuple(np.ones(len(g)) for g in model.groups) if model is not None else (np.ones(1),)
+        shares.append(PhaseShare(name, px, mass_from_mole(px, M), float(amount),
+                                 float(amount * (px @ M) / m_alloy), sites))
     mu = np.array([np.nan if v is None else v for v in state.mu])
-    return PointEquilibrium(float(temperature_K), x, w, tuple(shares), float(state.gibbs), mu, state.converged)
+    return PointEquilibrium(T, z, mass_from_mole(z, M), tuple(shares), float(state.gibbs), mu, state.converged,
+                            gibbs_dT, float(state.gibbs) - T * gibbs_dT)
+
+
+def general_equilibrium(system, temperature_K: float, composition) -> PointEquilibrium:
+    """The general minimiser on `system.models` (any number of elements, any phases), for any
+    system: `equilibrate` calls it for everything but the binary shortcut; tests call it on
+    binaries to compare the two paths. `composition`: mole fractions of every element."""
+    T = float(temperature_K)
+    z, _ = _composition(system, composition, None)
+    models = {name: phase.at(T) for name, phase in system.models.items()}
+    found = global_minimum(models, z)
+    M = system.molar_mass
+    m_alloy = float(z @ M)
+    shares = []
+    for p in found.phases:
+        groups = models[p.name].groups
+        shares.append(PhaseShare(p.name, p.x, mass_from_mole(p.x, M), float(p.amount),
+                                 float(p.amount * (p.x @ M) / m_alloy), tuple(p.y[g] for g in groups)))
+    return PointEquilibrium(T, z, mass_from_mole(z, M), tuple(shares), found.gibbs, found.mu, found.converged,
+                            found.gibbs_dT, found.gibbs - T * found.gibbs_dT)

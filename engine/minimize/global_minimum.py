@@ -1,0 +1,281 @@
+"""The global minimum of the Gibbs energy at one temperature and overall composition, for any
+number of elements and any phases given as site-fraction models (the `SublatticeAtT` interface).
+
+The method (H.L. Lukas, S.G. Fries, B. Sundman, Computational Thermodynamics: The Calphad Method,
+Cambridge 2007): (1) every phase's sample cloud and the lowest combination of samples at the
+overall composition, a linear program (`lowest_combination`) whose basis gives the phases, their
+approximate compositions and amounts, and the chemical potentials; samples of one phase that are
+separated by a region above the hull's plane (a miscibility gap) start separate composition sets;
+(2) Newton's method on the full equilibrium conditions (`multiphase_newton`); (3) the driving
+force of every phase against the refined chemical potentials on its samples, and a few Newton
+steps from the lowest sample of each phase: a point below the plane joins the linear program as a
+new column, which re-solves from its last basis, and Newton refines again. The linear program's
+basis has at most N points, so Gibbs' phase rule (at most N phases at fixed T and P) holds in
+every answer. Units: J per mole of atoms, mole fractions, K.
+
+Elements absent from the alloy (mole fraction exactly 0) are left out: constituents containing
+them are fixed at 0, their chemical potentials are undefined (NaN).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .lowest_combination import LowestCombination
+from .multiphase_newton import PhaseState, lowest_driving_force, solve
+from .site_sampling import site_fraction_cloud
+
+#: A phase lying more than this below the equilibrium's tangent plane (J/mol, relative to RT
+#: where known, else absolute) is missing from the answer.
+DRIVING_FORCE_TOLERANCE = 1e-6
+#: Phases whose lowest sample is within this many J/mol of the plane get Newton steps between samples.
+NEAR_PLANE = 300.0
+#: Samples of a phase this far (site fractions, max norm) from its composition sets seed a search for a gap.
+GAP_DISTANCE = 0.08
+#: Relative size of the neighbourhood added around refined points (see `_neighbourhood`).
+NEIGHBOURHOOD = 1e-2
+_ROUNDS = 8
+_SMALLEST_START = 1e-12
+
+
+@dataclass(frozen=True)
+class PhaseResult:
+    """One phase (composition set) of the minimum: site fractions y, amount in moles of atoms per
+    mole of alloy, composition x (mole fractions of every element)."""
+
+    name: str
+    y: np.ndarray
+    amount: float
+    x: np.ndarray
+
+
+@dataclass(frozen=True)
+class GlobalMinimum:
+    """The minimum: phases, chemical potentials mu (J/mol, NaN for absent elements), G and dG/dT
+    of the alloy (J/mol, J/(mol K)) and whether every Newton solve met its tolerance."""
+
+    phases: tuple[PhaseResult, ...]
+    mu: np.ndarray
+    gibbs: float
+    gibbs_dT: float
+    converged: bool
+
+
+@dataclass
+class _Phase:
+    name: str
+    model: object
+    free: np.ndarray
+    Y: np.ndarray
+    X: np.ndarray           # active elements only, per mole of atoms
+    G: np.ndarray           # J per mole of atoms
+
+
+def _prepare(models: dict[str, object], active: np.ndarray) -> list[_Phase]:
+    out = []
+    inactive = ~active
+    for name, m in models.items():
+        E = np.asarray(m.element_matrix)
+        ok_var = ~np.any(E[:, inactive] != 0.0, axis=1)
+        if not all(ok_var[g].any() for g in m.groups):
+            continue
+        if inactive.any():
+            Y = site_fraction_cloud(m.groups, m.n_vars, ok_var)
+            with np.errstate(all="ignore"):
+                n = Y @ E
+                atoms = n.sum(-1)
+                keep = atoms > 1e-12
+                Y, n, atoms = Y[keep], n[keep], atoms[keep]
+                X, G = n / atoms[:, None], m.gibbs(Y) / atoms
+        else:
+            Y, X, G = m.samples()
+        keep = np.isfinite(G)
+        if not keep.all():
+            Y, X, G = Y[keep], X[keep], G[keep]
+        if len(G) == 0:
+            continue
+        out.append(_Phase(name, m, np.flatnonzero(ok_var), Y, np.ascontiguousarray(X[:, active]), G))
+    return out
+
+
+class _Cloud:
+    """Every sample and refined point given to the linear program, with its phase and site fractions."""
+
+    def __init__(self, phases: list[_Phase]) -> None:
+        self.owner = np.concatenate([np.full(len(p.G), k) for k, p in enumerate(phases)])
+        self.start = np.cumsum([0] + [len(p.G) for p in phases])
+        self.phases = phases
+        self.extra_y: list[np.ndarray] = []
+        self.extra_owner: list[int] = []
+
+    def point(self, k: int) -> tuple[int, np.ndarray]:
+        n0 = int(self.start[-1])
+        if k >= n0:
+            return self.extra_owner[k - n0], self.extra_y[k - n0]
+        p = int(self.owner[k])
+        return p, self.phases[p].Y[k - int(self.start[p])]
+
+    def add(self, owner: int, y: np.ndarray) -> None:
+        self.extra_owner.append(owner)
+        self.extra_y.append(y)
+
+
+def _per_atom(model, y: np.ndarray, active: np.ndarray) -> tuple[np.ndarray, float]:
+    with np.errstate(all="ignore"):
+        n = y @ model.element_matrix
+        atoms = float(n.sum())
+        return n[active] / atoms, float(model.gibbs(y)) / atoms
+
+
+def _start_states(lp: LowestCombination, cloud: _Cloud, active: np.ndarray) -> list[PhaseState]:
+    """Composition sets from the basis: points of one phase merge unless the phase rises above the
+    plane between them (a miscibility gap)."""
+    pts = []
+    for k, w in zip(lp.basis, lp.weights):
+        if k < 0 or w <= 1e-14:
+            continue
+        owner, y = cloud.point(int(k))
+        pts.append([owner, np.array(y, dtype=float), float(w)])
+    merged: list[list] = []
+    for owner, y, w in pts:
+        ph = cloud.phases[owner]
+        for m in merged:
+            if m[0] != owner:
+                continue
+            x_mid, g_mid = _per_atom(ph.model, 0.5 * (m[1] + y), active)
+            if g_mid - x_mid @ lp.mu <= 0.0:          # convex between: one composition set
+                m[1] = (m[2] * m[1] + w * y) / (m[2] + w)
+                m[2] += w
+                break
+        else:
+            merged.append([owner, y, w])
+    states = []
+    for owner, y, w in merged:
+        ph = cloud.phases[owner]
+        y0 = np.zeros_like(y)
+        y0[ph.free] = np.maximum(y[ph.free], _SMALLEST_START)
+        for g in ph.model.groups:
+            gi = g[np.isin(g, ph.free)]
+            y0[gi] /= y0[gi].sum()
+        atoms = float((y0 @ ph.model.element_matrix).sum())
+        states.append(PhaseState(ph.name, ph.model, y0, w / atoms, ph.free))
+    return states
+
+
+def _merge_duplicates(states: list[PhaseState]) -> list[PhaseState]:
+    out: list[PhaseState] = []
+    for st in states:
+        for o in out:
+            if o.name == st.name and np.max(np.abs(o.y - st.y)) < 1e-7:
+                o.amount += st.amount
+                break
+        else:
+            out.append(st)
+    return out
+
+
+def _neighbourhood(ph: _Phase, y: np.ndarray, relative: float = NEIGHBOURHOOD) -> list[np.ndarray]:
+    """y and its neighbours: each free site fraction scaled by 1 +- `relative`, the sublattice
+    renormalised. Added to the linear program around refined points so that its lowest
+    combination can follow the exact tangent plane there."""
+    out = [y.copy()]
+    for j in ph.free:
+        for f in (1.0 + relative, 1.0 - relative):
+            v = y.copy()
+            v[j] *= f
+            g = next(g for g in ph.model.groups if j in g)
+            v[g] /= v[g].sum()
+            out.append(v)
+    return out
+
+
+def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, elements: np.ndarray,
+                tol: float) -> list[tuple[int, np.ndarray, float]]:
+    """Points of any phase below the plane mu by more than tol (J/mol): (phase, y, driving force)."""
+    found = []
+    for p, ph in enumerate(cloud.phases):
+        d = ph.G - ph.X @ mu
+        mine = [st.y for st in states if st.name == ph.name]
+        lowest = int(np.argmin(d))
+        starts = [lowest]
+        if mine and d[lowest] >= -tol:       # the lowest sample is at a composition set: look farther
+            far = np.ones(len(d), dtype=bool)
+            for y in mine:
+                far &= np.max(np.abs(ph.Y - y), axis=1) > GAP_DISTANCE
+            starts = [int(np.flatnonzero(far)[np.argmin(d[far])])] if far.any() else []
+        for k in starts:
+            if d[k] > NEAR_PLANE:
+                continue
+            y0 = np.zeros(ph.model.n_vars)
+            y0[ph.free] = np.maximum(ph.Y[k][ph.free], _SMALLEST_START)
+            y, df = lowest_driving_force(ph.model, y0, mu, elements, ph.free)
+            if not np.isfinite(df) or df > d[k]:
+                y, df = ph.Y[k], float(d[k])
+            if df < -tol:
+                found.append((p, y, df))
+    return found
+
+
+def global_minimum(models: dict[str, object], z: np.ndarray) -> GlobalMinimum:
+    """The global minimum of G over `models` (name -> SublatticeAtT at one temperature) at
+    overall composition z (mole fractions of every element, summing to 1)."""
+    z = np.asarray(z, dtype=float)
+    active = z > 0.0
+    elements = np.flatnonzero(active)
+    za = z[active] / z[active].sum()
+    phases = _prepare(models, active)
+    if not phases:
+        raise ValueError("no phase can hold this composition")
+    cloud = _Cloud(phases)
+    lp = LowestCombination(np.vstack([p.X for p in phases]), np.concatenate([p.G for p in phases]), za)
+    if lp.uses_artificial:
+        raise ValueError("no combination of the phases reaches this composition")
+    converged = False
+    states: list[PhaseState] = []
+    mu = lp.mu
+    scale = abs(lp.gibbs) + 1.0
+    tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * scale)
+    for _ in range(_ROUNDS):
+        states = _start_states(lp, cloud, active)
+        states, mu_new, ok = solve(states, za, lp.mu, elements)
+        states = _merge_duplicates(states)
+        if ok:
+            mu = mu_new
+        else:
+            states, mu = _start_states(lp, cloud, active), lp.mu
+        found = _candidates(cloud, states, mu, elements, tol)
+        converged = ok and not found
+        if not found:
+            break
+        add_X, add_G = [], []
+        seeds = [(p, y) for p, y, _df in found]
+        if ok:
+            seeds += [(next(i for i, ph in enumerate(phases) if ph.name == st.name), st.y) for st in states]
+        for p, y0 in seeds:
+            for y in _neighbourhood(phases[p], y0):
+                x, g = _per_atom(phases[p].model, y, active)
+                cloud.add(p, y)
+                add_X.append(x)
+                add_G.append(g)
+        lp.add(np.array(add_X), np.array(add_G))
+    return _result(states, mu, z, active, elements, converged)
+
+
+def _result(states: list[PhaseState], mu_active: np.ndarray, z: np.ndarray, active: np.ndarray,
+            elements: np.ndarray, converged: bool) -> GlobalMinimum:
+    out = []
+    gibbs = gibbs_dT = 0.0
+    for st in states:
+        with np.errstate(all="ignore"):
+            n = st.y @ st.model.element_matrix
+            atoms = float(n.sum())
+            gibbs += st.amount * float(st.model.gibbs(st.y))
+            gibbs_dT += st.amount * float(st.model.gibbs_dT(st.y))
+        out.append(PhaseResult(st.name, st.y.copy(), st.amount * atoms, n / atoms))
+    mu = np.full(len(z), np.nan)
+    if len(states) != 1 or len(states[0].free) > len(states[0].model.groups):
+        mu[elements] = mu_active
+    total = sum(p.amount for p in out)
+    return GlobalMinimum(tuple(out), mu, gibbs / total, gibbs_dT / total, converged)

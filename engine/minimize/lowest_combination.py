@@ -1,0 +1,119 @@
+"""The lowest combination of sampled points at one overall composition: a linear program over a
+point cloud, solved by the revised simplex method in numpy.
+
+    minimise sum_k w_k G_k   subject to   sum_k w_k x_k = z,   w >= 0
+
+(G_k in J per mole of atoms, x_k mole fractions, w_k moles of atoms per mole of alloy). The
+minimum is the lower convex hull of the cloud at z; the basis holds at most N points (N elements)
+and its dual values are the chemical potentials of the hull's facet. The revised simplex method
+is G.B. Dantzig's (Linear Programming and Extensions, Princeton 1963); its use for the Gibbs
+energy minimum is W.B. White, S.M. Johnson and G.B. Dantzig, J. Chem. Phys. 28 (1958) 751. Each
+iteration computes the chemical potentials mu from the basis and lets the point with the most
+negative driving force G_k - mu.x_k enter (Dantzig's rule). Columns can be appended later and the
+solve continued from the last basis (column generation): the minimiser adds refined points that
+way. Written for N <= about 8 elements (an N x N solve per iteration); numpy only, because
+importing scipy.optimize costs about 0.5-0.9 s, more than a whole line command.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+#: A point enters the basis when its driving force is below -ENTER_TOLERANCE (J/mol).
+ENTER_TOLERANCE = 1e-9
+#: Points priced in the first, coarse solve (every k-th point of a larger cloud).
+COARSE_POINTS = 400
+#: Energy (J/mol) above every point given to the artificial start columns (pure elements).
+_ARTIFICIAL_MARGIN = 1e7
+
+
+class LowestCombination:
+    """The linear program over a cloud of points (X: (k, N) mole fractions, G: (k,) J/mol) at
+    overall composition z (N,), solved on construction; `add` appends points and re-solves.
+
+    After solving: `basis` (N point indices; -1 - i is the artificial pure element i),
+    `weights` (N, moles of atoms), `mu` (N, J/mol), `gibbs` (J/mol) and `iterations`.
+    """
+
+    def __init__(self, X: np.ndarray, G: np.ndarray, z: np.ndarray, max_iterations: int | None = None) -> None:
+        self.z = np.asarray(z, dtype=float)
+        n = len(self.z)
+        self.XT = np.ascontiguousarray(np.asarray(X, dtype=float).T)    # (N, k): fast pricing
+        self.G = np.asarray(G, dtype=float)
+        self.artificial_cost = float(np.max(self.G)) + _ARTIFICIAL_MARGIN if len(self.G) else _ARTIFICIAL_MARGIN
+        self.basis = -1 - np.arange(n)
+        self.iterations = 0
+        self.max_iterations = max_iterations or 60 * n + 40
+        self.converged = False
+        stride = len(self.G) // COARSE_POINTS
+        if stride > 1:                              # a coarse solve first, then every point
+            self._solve(stride)
+        self._solve()
+
+    # --- the basis ---------------------------------------------------------------------------
+    def _columns(self, idx: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        n = len(self.z)
+        cols = np.empty((len(idx), n))
+        cost = np.empty(len(idx))
+        real = idx >= 0
+        cols[real] = self.XT[:, idx[real]].T
+        cost[real] = self.G[idx[real]]
+        art = ~real
+        cols[art] = np.eye(n)[-1 - idx[art]]
+        cost[art] = self.artificial_cost
+        return cols, cost
+
+    def _solve(self, stride: int = 1) -> None:
+        """Simplex iterations from the current basis, pricing every `stride`-th point."""
+        XT, G = self.XT[:, ::stride], self.G[::stride]
+        cols, cost = self._columns(self.basis)
+        inv = np.linalg.inv(cols.T)                  # B^-1, B = the basis columns side by side
+        w = inv @ self.z
+        converged = False
+        since_refactor = 0
+        while self.iterations < self.max_iterations:
+            mu = cost @ inv                          # B^T mu = c_B
+            d = G - mu @ XT
+            k = int(np.argmin(d)) if len(d) else -1
+            if k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k])):
+                converged = True
+                break
+            u = inv @ XT[:, k]
+            pos = u > 1e-12
+            if not pos.any():                        # unbounded cannot happen on a simplex
+                break
+            ratio = np.full(len(u), np.inf)
+            ratio[pos] = np.maximum(w[pos], 0.0) / u[pos]
+            r = int(np.argmin(ratio))
+            step = ratio[r]
+            w = w - step * u
+            w[r] = step
+            self.basis[r] = k * stride
+            cols[r], cost[r] = XT[:, k], G[k]
+            since_refactor += 1
+            if since_refactor >= 20:                 # fresh inverse now and then: rounding
+                inv = np.linalg.inv(cols.T)
+                w = inv @ self.z
+                since_refactor = 0
+            else:                                    # product-form update of the inverse
+                pivot = inv[r] / u[r]
+                inv = inv - np.outer(u, pivot)
+                inv[r] = pivot
+            self.iterations += 1
+        self.converged = converged
+        self.weights = np.linalg.solve(cols.T, self.z)
+        self.mu = np.linalg.solve(cols, cost)
+        self.gibbs = float(self.weights @ cost)
+
+    # --- public ------------------------------------------------------------------------------
+    def add(self, X: np.ndarray, G: np.ndarray) -> None:
+        """Append points (X: (k, N), G: (k,)) and continue the solve from the current basis."""
+        self.XT = np.hstack([self.XT, np.asarray(X, dtype=float).T])
+        self.G = np.concatenate([self.G, G])
+        self.max_iterations = self.iterations + 60 * len(self.z) + 40
+        self._solve()
+
+    @property
+    def uses_artificial(self) -> bool:
+        """True if an artificial column still carries weight (the cloud cannot make z)."""
+        return bool(np.any((self.basis < 0) & (self.weights > 1e-12)))
