@@ -247,9 +247,9 @@ class _Tracer:
         """Close the tracks of `up` and open tracks for `down`, joined at the event's points."""
         if event is None:
             event = _Event([None] * len(down), [None] * len(up))
-            if above.T - below.T > 10 * MIN_INTERVAL_K:
-                names = ", ".join("+".join(t.phases) for t in up + down)
-                self.warnings.append(f"unresolved change of fields ({names}) between {below.T:.2f} and {above.T:.2f} K")
+            names = ", ".join("+".join(t.phases) for t in up + down)
+            self.warnings.append(f"unresolved change of fields ({names}) between {below.T:.2f} and {above.T:.2f} K: "
+                                 "the diagram is not traced there")
         self.invariants += event.invariants
         self.special += event.special
         for tr, end in zip(closing, event.ends):
@@ -267,8 +267,11 @@ class _Tracer:
         middle_forms = len(down) == 2
         two = down if middle_forms else up
         (p, q), (_, r) = two[0].phases, two[1].phases
-        entries = [(p, two[0].x_B[0]), (q, 0.5 * (two[0].x_B[1] + two[1].x_B[0])), (r, two[1].x_B[1])]
-        sol = three_phase(self.system, entries, 0.5 * (T_up + T_down))
+        (left, inner_l), (inner_r, right) = two[0].x, two[1].x
+        middle = (0.5 * (inner_l[0] + inner_r[0]), 0.5 * (inner_l[1] + inner_r[1]))
+        entries = [(p, left[1]), (q, middle[1]), (r, right[1])]
+        line = tuple(0.5 * (a + b) for a, b in zip(two[0].mu, two[1].mu))
+        sol = three_phase(self.system, entries, 0.5 * (T_up + T_down), x_A=[left[0], middle[0], right[0]], mu=line)
         if not sol.converged or not (T_down - 1e-6 <= sol.temperature_K <= T_up + 1e-6):
             return False
         T = sol.temperature_K

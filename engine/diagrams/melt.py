@@ -41,6 +41,9 @@ class MeltRange:
     liquidus_K: float | None
     solidus_K: float | None
     crossings: tuple[Crossing, ...]
+    #: Why the answer may be incomplete (the diagram's own warnings, changes of phases that
+    #: point equilibria found and the traced boundaries missed); empty when all agree.
+    warnings: tuple[str, ...] = ()
 
     @property
     def freezing_range_K(self) -> float | None:
@@ -98,8 +101,14 @@ def melt_range(system, x_B: float) -> MeltRange:
     for t in temps:
         if not merged or merged[-1] - t > _SAME_K:
             merged.append(t)
+    warnings = list(diagram.warnings)
+    missed = _changes_missed(system, x_B, [hi] + merged + [lo])
+    if missed:
+        warnings += [f"the traced diagram misses a change of phases at {t:.2f} K that point equilibria find "
+                     "(placed from point equilibria)" for t in missed]
+        merged = sorted(merged + missed, reverse=True)
     edges = [hi] + merged + [lo]
-    phases = [equilibrate(system, 0.5 * (a + b), x_B).phase_names for a, b in zip(edges[:-1], edges[1:])]
+    phases = [_phases_at(system, 0.5 * (a + b), x_B) for a, b in zip(edges[:-1], edges[1:])]
     crossings = [Crossing(t, up, down)
                  for t, up, down in zip(merged, phases[:-1], phases[1:]) if set(up) != set(down) or len(up) != len(down)]
     liquidus = None
@@ -108,4 +117,38 @@ def melt_range(system, x_B: float) -> MeltRange:
     solidus = None
     if phases and LIQUID not in phases[-1]:
         solidus = next((c.temperature_K for c in reversed(crossings) if LIQUID in c.above and LIQUID not in c.below), None)
-    return MeltRange(x_B, liquidus, solidus, tuple(crossings))
+    return MeltRange(x_B, liquidus, solidus, tuple(crossings), tuple(warnings))
+
+
+def _phases_at(system, T: float, x_B: float) -> tuple[str, ...]:
+    return equilibrate(system, T, x_B).phase_names
+
+
+#: How far inside each interval its ends are compared with its middle (K, at most).
+_END_PROBE_K = 0.01
+#: Changes of phases found by point equilibria are located to this (K).
+_LOCATE_K = 1e-6
+
+
+def _changes_missed(system, x_B: float, edges: list[float]) -> list[float]:
+    """Temperatures (K) where the stable phases of the alloy change inside an interval between
+    two consecutive crossings (`edges`, descending): each interval's phases near both ends are
+    compared with those in its middle by point equilibria, and a difference is located by
+    bisection. Empty when the traced boundaries account for every change."""
+    found: list[float] = []
+    for a, b in zip(edges[:-1], edges[1:]):
+        middle_T = 0.5 * (a + b)
+        middle = _phases_at(system, middle_T, x_B)
+        probe = min(_END_PROBE_K, 0.25 * (a - b))
+        for end_T in (a - probe, b + probe):
+            if _phases_at(system, end_T, x_B) == middle:
+                continue
+            inside, outside = middle_T, end_T
+            while abs(outside - inside) > _LOCATE_K:
+                half = 0.5 * (inside + outside)
+                if _phases_at(system, half, x_B) == middle:
+                    inside = half
+                else:
+                    outside = half
+            found.append(0.5 * (inside + outside))
+    return found

@@ -15,6 +15,7 @@ import numpy as np
 
 from ..minimize.newton import newton
 from ..models.phases import CompoundPhase
+from ..units import GAS_CONSTANT as R
 from ..minimize.tangent import fractions, logit
 
 #: Chemical potentials of the phases at a special point agree to this many J/mol.
@@ -31,21 +32,38 @@ class SpecialSolution:
     converged: bool
 
 
-def three_phase(system, entries: list[tuple[str, float]], T0: float) -> SpecialSolution:
+def three_phase(system, entries: list[tuple[str, float]], T0: float,
+                x_A: list[float] | None = None, mu: tuple[float, float] | None = None) -> SpecialSolution:
     """The three-phase equilibrium of `entries` (phase name, starting x_B), from T0 (K).
+
+    `x_A` gives each entry's starting A fraction computed on its own (default 1 - x_B): a nearly
+    pure B side, such as x_A = 1e-75 under a large positive interaction, has 1 - x_B = 0 in
+    floating point, and a start there would sit far short of the answer in y, beyond the reach
+    of the solver's limited steps. `mu` is a starting common line (mu_A, mu_B) in J/mol (default:
+    the first solution entry's potentials); with it, an entry that starts exactly at a pure
+    element (its solubility below what the caller resolved) starts instead from Henry's law,
+    RT ln x of the dilute element = its potential on the line minus the phase's at a dilute
+    reference composition.
 
     The same solution phase may appear twice (a monotectic's two liquids). Unknowns: T, the
     common line (mu_A, mu_B) and the composition y = ln(xB/xA) of each solution entry."""
     phases = [system.phases[name] for name, _ in entries]
     sol_idx = [i for i, p in enumerate(phases) if not isinstance(p, CompoundPhase)]
-    y0 = [logit(1.0 - entries[i][1], entries[i][1]) for i in sol_idx]
+    starts_A = [1.0 - x for _name, x in entries] if x_A is None else list(x_A)
+    y0 = [logit(starts_A[i], entries[i][1]) for i in sol_idx]
     def potentials(i: int, y: float, T: float) -> tuple[float, float]:
         xa, xb = fractions(y)
         ma, mb = phases[i].at(T).potentials(xa, xb)
         return float(ma), float(mb)
 
-    # start the common line from the first solution entry
-    if sol_idx:
+    if mu is not None:
+        for k, i in enumerate(sol_idx):
+            if starts_A[i] <= 0.0 or entries[i][1] <= 0.0:
+                y0[k] = _henry_start(lambda y, i=i: potentials(i, y, T0), y0[k], mu, R * T0)
+    # start the common line from the caller's, else from the first solution entry
+    if mu is not None:
+        mu0 = mu
+    elif sol_idx:
         mu0 = potentials(sol_idx[0], y0[0], T0)
     else:
         c0, c1 = phases[0], phases[1]
@@ -82,6 +100,16 @@ def three_phase(system, entries: list[tuple[str, float]], T0: float) -> SpecialS
             out.append((name, xa, xb))
             k += 1
     return SpecialSolution(T, tuple(out), r.converged)
+
+
+def _henry_start(potentials, y_edge: float, mu: tuple[float, float], RT: float) -> float:
+    """y of a phase's dilute end in equilibrium with the line `mu`, by Henry's law from the
+    reference composition y_edge (the dilute element's RT ln x grows one RT per unit of y);
+    never closer to the middle than y_edge."""
+    ma, mb = potentials(y_edge)
+    if y_edge < 0:      # B dilute in an A-rich phase: mu_B = ref + RT (y - y_edge)
+        return min(y_edge, y_edge + (mu[1] - mb) / RT)
+    return max(y_edge, y_edge - (mu[0] - ma) / RT)   # A dilute: mu_A = ref - RT (y - y_edge)
 
 
 def compound_congruent(system, compound: str, solution: str, lo: float, hi: float) -> SpecialSolution | None:

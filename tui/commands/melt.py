@@ -92,6 +92,7 @@ def run(args: argparse.Namespace) -> int:
             **({} if superheat_K is None else {"superheat_K": superheat_K, "pouring_K": pouring_K}),
             "crossings": [{"temperature_K": c.temperature_K, "above": list(c.above), "below": list(c.below)}
                           for c in m.crossings],
+            "warnings": list(m.warnings),
         })
         return 0
     unit = args.unit
@@ -113,5 +114,7 @@ def run(args: argparse.Namespace) -> int:
     print("on cooling:")
     for c in m.crossings:
         print(f"  {quote.temperature(c.temperature_K, unit):>12}  {' + '.join(c.above)}  ->  {' + '.join(c.below)}")
+    for warning in m.warnings:
+        print(f"note: {warning}")
     print("\n".join(closing_lines(system)))
     return 0
