@@ -4,8 +4,8 @@ mapped as zero-phase-fraction lines: each line is where one phase's amount goes 
 (J.E. Morral and H. Gupta, Scripta Metall. Mater. 25 (1991) 1393).
 
 Method: point equilibria (`equilibrate`) on a grid over the section (columns of composition,
-rows of temperature). Wherever two neighbouring nodes differ in their stable phases, the edge
-between them is bisected to its tolerance; each change found is a point of the zero-phase-
+rows of temperature). Wherever two neighbouring nodes differ in their stable phases, the change
+on the edge between them is narrowed to its tolerance; each change found is a point of the zero-phase-
 fraction line of every phase present on one side only. Within each grid cell the points of one
 phase's line are joined (marching squares: W.E. Lorensen and H.E. Cline, Comput. Graph. 21
 (1987) 163, in two dimensions), and the pieces chained into lines, split where the phase sets on
@@ -25,13 +25,16 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..minimize.equilibrium import equilibrate
+from .phase_change import narrow_change, phase_set
 from ..units import mole_from_mass
 
 #: Grid of the section: columns of composition and rows of temperature.
-DEFAULT_COLUMNS = 25
-DEFAULT_ROWS = 33
+DEFAULT_COLUMNS = 17
+DEFAULT_ROWS = 21
 #: Each change on an edge is bracketed to this share of the edge.
-EDGE_TOLERANCE = 2e-4
+EDGE_TOLERANCE = 1e-3
+#: An edge holding several changes is split at most this many times.
+_MAX_SPLITS = 6
 #: Changes where N + 1 phases meet within this many K are one invariant reaction.
 _SAME_INVARIANT_K = 0.5
 
@@ -127,10 +130,6 @@ def section_mole_fractions(system, start, end, basis: str, u: np.ndarray) -> np.
     return mole_from_mass(f, system.molar_mass) if basis == "wt" else f
 
 
-def _key(eq) -> tuple[str, ...]:
-    return tuple(sorted(eq.phase_names))
-
-
 def _changed(a: tuple[str, ...], b: tuple[str, ...]) -> set[str]:
     """Phases present on one side only (a phase counted twice on one side, once on the other:
     the second composition set appears)."""
@@ -142,32 +141,56 @@ def _changed(a: tuple[str, ...], b: tuple[str, ...]) -> set[str]:
 
 
 class _Mapper:
-    """Point equilibria of one section, cached by node."""
+    """Point equilibria of one section."""
 
     def __init__(self, system, start, end, basis: str) -> None:
         self.system, self.start, self.end, self.basis = system, start, end, basis
         self.n = len(system.elements)
         self.calls = 0
         self.warnings: list[str] = []
+        self.invariant_K: list[float] = []    # temperatures (K) of invariant reactions found so far
 
-    def key_at(self, u: float, T: float) -> tuple[str, ...]:
+    def eq_at(self, u: float, T: float):
         x = section_mole_fractions(self.system, self.start, self.end, self.basis, np.array([u]))[0]
         self.calls += 1
         eq = equilibrate(self.system, T, float(x[1]) if self.n == 2 else x)
         if not eq.converged:
             self.warnings.append(f"the equilibrium at {T:.2f} K, u = {u:.4f} did not converge")
-        return _key(eq)
+        return eq
 
-    def changes(self, a: tuple[float, float], b: tuple[float, float], ka, kb, depth: int = 0) -> list:
-        """Every change between points a and b ((u, T) each; phase sets ka, kb), bisected:
-        [(point, set on a's side, set on b's side)]."""
+    def changes(self, a: tuple[float, float], b: tuple[float, float], ea, eb, depth: int = 0) -> list:
+        """Every change between points a and b ((u, T) each; point equilibria ea, eb):
+        [(point, set on a's side, set on b's side)]. The middle is looked at once; where it
+        holds a third phase set both halves are searched, else the one change is narrowed to
+        EDGE_TOLERANCE of the edge (phase_change.narrow_change). A change on a column where
+        N + 1 phases meet (an invariant reaction, flat in temperature) is first tried at the
+        temperatures of invariants found on other columns (two point equilibria)."""
+        ka, kb = phase_set(ea), phase_set(eb)
         if ka == kb:
             return []
-        mid = (0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1]))
-        if depth >= self.depth:
-            return [(mid, ka, kb)]
-        km = self.key_at(*mid)
-        return self.changes(a, mid, ka, km, depth + 1) + self.changes(mid, b, km, kb, depth + 1)
+
+        def at(t: float) -> tuple[float, float]:
+            return a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])
+
+        invariant = a[0] == b[0] and len(set(ka) | set(kb)) > self.n
+        if invariant:                      # an invariant reaction found on another column: try its temperature
+            for T in self.invariant_K:
+                t = (T - a[1]) / (b[1] - a[1])
+                if EDGE_TOLERANCE < t < 1.0 - EDGE_TOLERANCE:
+                    above, below = self.eq_at(*at(t - 0.4 * EDGE_TOLERANCE)), self.eq_at(*at(t + 0.4 * EDGE_TOLERANCE))
+                    if phase_set(above) == ka and phase_set(below) == kb:
+                        return [(at(t), ka, kb)]
+        mid = self.eq_at(*at(0.5))
+        km = phase_set(mid)
+        if km not in (ka, kb) and depth < _MAX_SPLITS:
+            return self.changes(a, at(0.5), ea, mid, depth + 1) + self.changes(at(0.5), b, mid, eb, depth + 1)
+        near, far, near_eq, far_eq = (0.0, 0.5, ea, mid) if km != ka else (0.5, 1.0, mid, eb)
+        near, far, _, far_eq = narrow_change(lambda t: self.eq_at(*at(t)), near, far, phase_set(near_eq), near_eq,
+                                             far_eq, EDGE_TOLERANCE)
+        point = at(0.5 * (near + far))
+        if invariant and phase_set(near_eq) == ka and phase_set(far_eq) == kb:
+            self.invariant_K.append(point[1])
+        return [(point, phase_set(near_eq), phase_set(far_eq))]
 
 
 def map_isopleth(system, start, end, basis: str, element: str, temperature_range_K: tuple[float, float] | None = None,
@@ -183,10 +206,10 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
         raise ValueError("a section's ends must hold non-negative fractions summing to 1")
     T_lo, T_hi = temperature_range_K or system.temperature_range_K
     mapper = _Mapper(system, start, end, basis)
-    mapper.depth = int(np.ceil(np.log2(1.0 / EDGE_TOLERANCE)))
     us = np.linspace(0.0, 1.0, columns)
     Ts = np.linspace(T_hi, T_lo, rows)
-    keys = [[mapper.key_at(float(u), float(T)) for u in us] for T in Ts]
+    eqs = [[mapper.eq_at(float(u), float(T)) for u in us] for T in Ts]
+    keys = [[phase_set(eq) for eq in row] for row in eqs]
 
     # edge points: per grid edge, the changes found on it
     edges: dict[tuple, list] = {}
@@ -194,9 +217,9 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
         for c in range(columns):
             here = (float(us[c]), float(Ts[r]))
             if c + 1 < columns:
-                edges[("h", r, c)] = mapper.changes(here, (float(us[c + 1]), float(Ts[r])), keys[r][c], keys[r][c + 1])
+                edges[("h", r, c)] = mapper.changes(here, (float(us[c + 1]), float(Ts[r])), eqs[r][c], eqs[r][c + 1])
             if r + 1 < rows:
-                edges[("v", r, c)] = mapper.changes(here, (float(us[c]), float(Ts[r + 1])), keys[r][c], keys[r + 1][c])
+                edges[("v", r, c)] = mapper.changes(here, (float(us[c]), float(Ts[r + 1])), eqs[r][c], eqs[r + 1][c])
 
     lines = _lines(edges, rows, columns)
     fields = _fields(keys, us, Ts)

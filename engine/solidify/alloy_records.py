@@ -126,9 +126,10 @@ class AlloyPath:
 
 def phase_enthalpy(system, share, T: float) -> float:
     """Molar enthalpy H = G - T dG/dT (J per mole of atoms) of one phase of a point equilibrium
-    (`share`: name and site fractions) at T (K), from the phase's model (Gibbs-Helmholtz)."""
+    (`share`: name and site fractions, one array per sublattice) at T (K), from the phase's
+    model (Gibbs-Helmholtz)."""
     at = system.models[share.name].at(T)
-    y = np.asarray(share.site_fractions, dtype=float)
+    y = np.concatenate([np.atleast_1d(np.asarray(lattice, dtype=float)) for lattice in share.site_fractions])
     atoms = float((y @ at.element_matrix).sum())
     return float(at.gibbs(y) - T * at.gibbs_dT(y)) / atoms
 

@@ -16,7 +16,8 @@ trapezoid step is the step's error estimate and sets the next step. Mass balance
 every step: the solid of a step is what leaves the liquid.
 
 Where the stable phases of the liquid's equilibrium change (a new solid starts to form, one
-stops, or no liquid is left), the change is narrowed to EVENT_TOLERANCE_K (`_bracket`). Freezing ends where
+stops, or no liquid is left), the change is narrowed to EVENT_TOLERANCE_K
+(engine/diagrams/phase_change.py). Freezing ends where
 the liquid freezes at once into several solids (an invariant reaction: `eutectic` with two,
 `ternary eutectic` with three, ...), where it freezes into one solid (`last liquid`), or at the
 bottom of the window. Constituents are named by what forms together.
@@ -31,6 +32,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..diagrams.phase_change import narrow_change, phase_set
 from ..minimize.equilibrium import equilibrate
 from .alloy_records import (LIQUID, AlloyConstituent, AlloyPath, AlloyStep, assemblage_enthalpy, forming_together,
                             labelled, molar_mass, phase_enthalpy)
@@ -52,10 +54,6 @@ LAST_LIQUID = 1e-6
 def _equilibrium(system, T: float, x: np.ndarray):
     """Point equilibrium at T (K) of mole fractions x (every element)."""
     return equilibrate(system, T, float(x[1]) if len(x) == 2 else x)
-
-
-def _key(eq) -> tuple[str, ...]:
-    return tuple(sorted(p.name for p in eq.phases))
 
 
 def _split(eq):
@@ -178,15 +176,16 @@ class AlloyScheil:
         ceiling = system.model_range_K[1]
         T = min(top, ceiling)
         eq = self._eq(T, self.x)
-        while _key(eq) != (LIQUID,):
+        while phase_set(eq) != (LIQUID,):
             if T >= ceiling:
                 raise PathError(f"the alloy is not all liquid at the top of the models' range ({ceiling:.0f} K)")
             T = min(T + _LIQUID_SEARCH_STEP_K, ceiling)
             eq = self._eq(T, self.x)
         below = self._eq(lo, self.x)
-        if _key(below) == (LIQUID,):
+        if phase_set(below) == (LIQUID,):
             raise PathError(f"no liquidus for this alloy inside the window ({lo:.0f}-{top:.0f} K)")
-        near, _far, hot, below = self._bracket(lambda h: self._eq(T - h, self.x), 0.0, T - lo, (LIQUID,), eq, below)
+        near, _far, hot, below = narrow_change(lambda h: self._eq(T - h, self.x), 0.0, T - lo, (LIQUID,), eq, below,
+                                               EVENT_TOLERANCE_K)
         T_hot = T - near
         return _State(T_hot, 1.0, ((1.0, _split(hot)[0]),), None, (LIQUID,)), below
 
@@ -195,7 +194,7 @@ class AlloyScheil:
         T1 = state.T - h
         x_L, f_L = state.x_L, state.f_L
         first = self._eq(T1, x_L)
-        if _key(first) != state.key:
+        if phase_set(first) != state.key:
             return None
         d0 = f_L * _solid_amount(first)
         x_start = _mean_x(state.forming if state.forming else _split(first)[1])
@@ -208,7 +207,7 @@ class AlloyScheil:
             if np.any(z < 0.0):
                 return None
             eq = self._eq(T1, z / z.sum())
-            return (eq, m) if _key(eq) == state.key else None
+            return (eq, m) if phase_set(eq) == state.key else None
 
         first_liquid, first_solids = _split(first)
         f_first = f_L * (1.0 - _solid_amount(first))
@@ -244,12 +243,12 @@ class AlloyScheil:
         self._record(new)
 
     def _event(self, state: _State, h: float) -> _State:
-        """Narrow the change of phases within a step of h K below `state` (`_bracket`), move
-        there, and start the next stage (or end freezing)."""
+        """Narrow the change of phases within a step of h K below `state`, move there, and start
+        the next stage (or end freezing)."""
         def probe(offset: float):
             return self._eq(state.T - offset, state.x_L)
 
-        lo, _hi, _above, below = self._bracket(probe, 0.0, h, state.key, None, probe(h))
+        lo, _hi, _above, below = narrow_change(probe, 0.0, h, state.key, None, probe(h), EVENT_TOLERANCE_K)
         if lo > 0.0:
             step = self._step(state, lo)
             if step is not None:
@@ -257,48 +256,6 @@ class AlloyScheil:
                 state = step[0]
         self._change(state, below)
         return state
-
-    def _bracket(self, probe, near: float, far: float, near_key: tuple[str, ...], near_eq, far_eq):
-        """Narrow a change of the stable phases between offsets `near` (phase set `near_key`,
-        point equilibrium `near_eq` or None) and `far` (equilibrium `far_eq`, another set), in K
-        below some temperature, to EVENT_TOLERANCE_K; `probe(offset)` gives the point
-        equilibrium at an offset. Returns (near, far, near_eq, far_eq) at the end.
-
-        Where a phase is present on the far side only and its amount falls toward the change,
-        the amount is taken as linear in the offset there (it is, near a boundary) and its zero
-        tried, alternately a little to either side; bisection otherwise and whenever that does
-        not halve the bracket."""
-        far_points: list[tuple[float, float, tuple[str, ...]]] = []
-        side = 1.0
-        while abs(far - near) > EVENT_TOLERANCE_K:
-            far_key = _key(far_eq)
-            gained = sorted(n for n in set(far_key) if far_key.count(n) > near_key.count(n))
-            if gained and (not far_points or far_points[-1][0] != far):
-                far_points.append((far, sum(p.amount_mol for p in far_eq.phases if p.name == gained[0]), far_key))
-            same = [(h, a) for h, a, k in far_points if k == far_key]
-            width = abs(far - near)
-            trial = 0.5 * (near + far)
-            guessed = False
-            if len(same) >= 2:
-                (h1, a1), (h2, a2) = sorted(same[-2:], key=lambda p: abs(p[0] - near))
-                if a1 < a2:
-                    root = h1 - a1 * (h2 - h1) / (a2 - a1)
-                    guess = root + side * 0.4 * EVENT_TOLERANCE_K * (1.0 if far > near else -1.0)
-                    if min(near, far) < guess < max(near, far):
-                        trial, guessed = guess, True
-            eq = probe(trial)
-            if _key(eq) == near_key:
-                near, near_eq, side = trial, eq, 1.0
-            else:
-                far, far_eq, side = trial, eq, -1.0
-            if guessed and abs(far - near) > 0.5 * width:
-                mid = 0.5 * (near + far)                     # a slow step: bisect once more
-                eq = probe(mid)
-                if _key(eq) == near_key:
-                    near, near_eq = mid, eq
-                else:
-                    far, far_eq = mid, eq
-        return near, far, near_eq, far_eq
 
     def _change(self, state: _State, below) -> None:
         """The liquid's phases change just below state.T: start the next stage, or freeze the
@@ -324,7 +281,7 @@ class AlloyScheil:
             what = [f"{n} starts to form" for n in new] + [f"{n} stops forming" for n in gone]
             self.arrests.append(Arrest(T, "new phase", f"{kind}: {', '.join(what) or 'the solids change'}"))
         self._start_stage(f"{kind} {' + '.join(names)}")
-        state.key, state.forming = _key(below), solids
+        state.key, state.forming = phase_set(below), solids
 
     def _start_stage(self, name: str) -> None:
         """Solid formed from now on belongs to the constituent `name` (one per name)."""

@@ -16,7 +16,9 @@ Introduction to the Thermodynamics of Materials, 6th ed., CRC Press (2017), ch. 
 
 `equilibrate(system, T, x)` answers like the engine's, with each phase's site fractions and
 models that give G and dG/dT (`system.models[name].at(T)`), for tests that run before the engine
-or beside it.
+or beside it. `write_system_files` writes the same eutectic system as a system file (Pb, Sn and
+Bi stand for A, B and C, with the invented molar masses), and the shipped lead-tin binary with
+bismuth added ideally, for tests and benchmarks through the engine itself.
 """
 
 from __future__ import annotations
@@ -111,7 +113,7 @@ def lens_system() -> SimpleNamespace:
 def _share(name: str, x: np.ndarray, amount: float, y: np.ndarray, z_mass: float) -> SimpleNamespace:
     w = x * MOLAR_MASS / (x @ MOLAR_MASS)
     return SimpleNamespace(name=name, x=x, w=w, amount_mol=amount, amount_mass=amount * (x @ MOLAR_MASS) / z_mass,
-                           site_fractions=y)
+                           site_fractions=(y,))
 
 
 def _result(T: float, z: np.ndarray, phases: list) -> SimpleNamespace:
@@ -175,3 +177,74 @@ def equilibrate_for(system):
         return solve(float(T), np.asarray(x, dtype=float))
 
     return equilibrate
+
+
+EUTECTIC_FILE = """# Invented for tests: an ideal liquid and three pure-element solids (a ternary eutectic system).
+elements = ["Pb", "Sn", "Bi"]
+molar_mass = { Pb = 60.0, Sn = 30.0, Bi = 45.0 }
+title = "Invented ideal ternary eutectic"
+source = "Invented for tests; every number is made up: dG_fus = dH (1 - T/Tm), Tm 1300, 1100, 1000 K, dH 12, 10, 9 kJ/mol."
+temperature_range_K = [400, 1400]
+
+[phase.liquid]
+model = "solution"
+G.Pb = [ { upto = 6000, a = 12000.0, b = -9.230769230769231 } ]
+G.Sn = [ { upto = 6000, a = 10000.0, b = -9.090909090909092 } ]
+G.Bi = [ { upto = 6000, a = 9000.0, b = -9.0 } ]
+
+[phase.alpha]
+model = "compound"
+formula = "Pb"
+reference = { Pb = "fcc" }
+formation = { a = 0.0 }
+
+[phase.beta]
+model = "compound"
+formula = "Sn"
+reference = { Sn = "bct" }
+formation = { a = 0.0 }
+
+[phase.gamma]
+model = "compound"
+formula = "Bi"
+reference = { Bi = "rhombohedral" }
+formation = { a = 0.0 }
+"""
+
+LEAD_TIN_BISMUTH_FILE = """# Invented for tests: the shipped lead-tin binary with bismuth added ideally (no Bi interaction
+# terms), so that a ternary alloy without Bi must give the binary's answers.
+elements = ["Pb", "Sn", "Bi"]
+title = "Lead-tin with ideal bismuth (invented for tests)"
+source = "pb-sn.toml as shipped; bismuth's energies from the element library, no interaction terms (invented for tests)."
+builds_on = ["pb-sn.toml"]
+molar_mass = { Bi = 208.98 }
+
+[phase.liquid]
+model = "solution"
+G.Bi = "liquid"
+
+[phase.fcc]
+model = "solution"
+G.Bi = "fcc"
+
+[phase.bct]
+model = "solution"
+G.Bi = "bct"
+
+[phase.rhombohedral]
+model = "compound"
+formula = "Bi"
+reference = { Bi = "rhombohedral" }
+formation = { a = 0.0 }
+"""
+
+
+def write_system_files(folder) -> dict[str, object]:
+    """Write the two system files into `folder`: {"ideal-eutectic": path, "pb-sn-bi": path}."""
+    from pathlib import Path
+
+    folder = Path(folder)
+    paths = {"ideal-eutectic": folder / "ideal-eutectic.toml", "pb-sn-bi": folder / "pb-sn-bi.toml"}
+    paths["ideal-eutectic"].write_text(EUTECTIC_FILE)
+    paths["pb-sn-bi"].write_text(LEAD_TIN_BISMUTH_FILE)
+    return paths

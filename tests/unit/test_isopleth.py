@@ -50,7 +50,7 @@ def test_both_sides_of_every_line_are_what_point_equilibria_find(section, maker)
                 found = tuple(sorted(solve(system, p[1], x).phase_names))
                 assert found in (line.with_phase, line.without_phase), (line.phase, p, found)
                 checked += 1
-    assert checked > 50
+    assert checked > 30
 
 
 def test_liquidus_of_the_primary_phase_is_the_closed_form(section):
