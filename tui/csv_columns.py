@@ -90,7 +90,7 @@ def _slice_bytes(columns: list, delimiter: str, encoding: str) -> bytes:
 def may_hold_formulas(text: str, delimiter: str) -> bool:
     """Whether any cell of unquoted CSV `text` could start a formula (a quick test of a whole
     block, so that cells are examined one by one only where one might)."""
-    return text[:1] in _FORMULA_STARTS or any(f"{before}{start}" in text for before in ("\n", delimiter)
+    return text[:1] in _FORMULA_STARTS or any(start in text and (f"\n{start}" in text or f"{delimiter}{start}" in text)
                                                for start in _FORMULA_STARTS)
 
 

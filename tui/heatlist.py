@@ -319,17 +319,24 @@ def parse_block(layout: Layout, first_line: int, data: bytes) -> Rows:
         whole = rest = np.array(lines_text, dtype=text_dtype)
         lines = first_line + np.arange(rest.size, dtype=np.int64)
         delimiter = np.array(layout.delimiter, dtype=text_dtype)
-        counts = np.strings.count(rest, delimiter) + 1
+        counts = np.ones(rest.size, dtype=np.int64)
         cells = []
         for _ in range(width):
-            cell, _sep, rest = np.strings.partition(rest, delimiter)
+            cell, separator, rest = np.strings.partition(rest, delimiter)
             cells.append(cell)
-        blank = np.strings.strip(np.strings.replace(whole, delimiter, "")) == ""
+            counts += separator != ""
+        more = np.flatnonzero(counts > width)              # cells beyond the header's: count them all
+        counts[more] += np.strings.count(rest[more], delimiter)
+        raw = np.strings.strip(cells[layout.column])
+        blank = raw == ""
+        maybe = np.flatnonzero(blank)                      # a blank row has a blank composition cell
+        blank[maybe] = np.strings.strip(np.strings.replace(whole[maybe], delimiter, "")) == ""
         keep = ~blank & ~np.strings.startswith(np.strings.lstrip(cells[0]), "#")
-        lines, counts, cells, rest = lines[keep], counts[keep], [c[keep] for c in cells], whole[keep]
+        lines, counts, cells, rest, raw = lines[keep], counts[keep], [c[keep] for c in cells], whole[keep], raw[keep]
     quoted = '"' in text
-    return Rows(lines, cells, counts, np.strings.strip(cells[layout.column]), quoted, rest,
-                quoted or may_hold_formulas(text, layout.delimiter))
+    if quoted:
+        raw = np.strings.strip(cells[layout.column])
+    return Rows(lines, cells, counts, raw, quoted, rest, quoted or may_hold_formulas(text, layout.delimiter))
 
 
 def percentages(layout: Layout, rows: Rows) -> tuple["object", "object"]:

@@ -32,13 +32,14 @@ from .heat_results import LISTED, BlockJob, BlockResult, compute_block, identifi
 from .heatlist import Block, FileScan, blocks
 from .quote import quoted_path
 
-#: Bytes of the heat list per block (about 60,000 rows of a short list); a block is the unit
+#: Bytes of the heat list per block (about 16,000 rows of a short list); a block is the unit
 #: of work sent to a worker and of progress saved for --resume.
-BLOCK_BYTES = 1 << 20
+BLOCK_BYTES = 1 << 18
 #: Blocks in flight per worker (enough to keep every worker busy while this process writes).
 WINDOW_PER_WORKER = 2
-#: Heats whose identifiers are checked for duplicates (16 bytes each: 64 MB at most).
-DUPLICATE_CHECK_LIMIT = 4_000_000
+#: Heats whose identifiers are checked for repeats (16 bytes each, twice that while two runs
+#: are merged: 64 MB at most).
+DUPLICATE_CHECK_LIMIT = 2_000_000
 #: Seconds to wait for a Dask scheduler to answer.
 CLUSTER_TIMEOUT_S = 3.0
 #: Seconds between two saves of the state file (and two updates of the progress line).
@@ -142,9 +143,8 @@ class DuplicateCheck:
         self.size += int(new.sum())
         while len(self.runs) > 1 and self.runs[-2][0].size <= 2 * self.runs[-1][0].size:
             (h1, n1), (h2, n2) = self.runs.pop(), self.runs.pop()
-            merged = np.concatenate([h2, h1])
-            order = np.argsort(merged, kind="stable")
-            self.runs.append((merged[order], np.concatenate([n2, n1])[order]))
+            at = np.searchsorted(h2, h1)          # the runs share no hash: a plain merge
+            self.runs.append((np.insert(h2, at, h1), np.insert(n2, at, n1)))
         if self.size >= DUPLICATE_CHECK_LIMIT:
             totals.duplicate_check_full = True
             self.runs, self.size = [], 0
