@@ -21,8 +21,10 @@ from .alloy_records import (LIQUID, AlloyConstituent, AlloyPath, AlloyStep, form
                             phase_enthalpy)
 from .records import Arrest, PathError
 
-#: About this many states between the liquidus and the end of freezing.
+#: About this many states between the liquidus and the end of freezing; the transition scan
+#: steps as finely (at least 1 K, at most _MAX_SCAN_STEP_K).
 _STATES = 40
+_MAX_SCAN_STEP_K = 5.0
 #: Liquid (mole fraction of the alloy's atoms) above a change that ends freezing, beyond which
 #: the change is a plateau (an invariant reaction) rather than the solidus.
 PLATEAU_LIQUID = 1e-6
@@ -46,7 +48,8 @@ def alloy_equilibrium_cooling(system, x, top_K: float, bottom_K: float) -> Alloy
     its liquidus) down to `bottom_K` (K, below the end of its freezing, such as the Scheil
     path's end). Raises PathError with one line where the alloy has no liquidus in that range."""
     x = np.asarray(x, dtype=float)
-    scan = alloy_transitions(system, x, highest_K=top_K, lowest_K=bottom_K)
+    step = min(_MAX_SCAN_STEP_K, max(1.0, (top_K - bottom_K) / _STATES))
+    scan = alloy_transitions(system, x, step_K=step, highest_K=top_K, lowest_K=bottom_K)
     changes = list(scan.transitions)
     first = next((k for k, t in enumerate(changes) if t.above == (LIQUID,)), None)
     if scan.top != (LIQUID,) or first is None:

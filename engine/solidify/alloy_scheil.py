@@ -130,11 +130,15 @@ class AlloyScheil:
         self.end_K: float | None = None
         self.end = "window"
         self.calls = 0
+        self.unconverged: list[float] = []     # temperatures (K) of point equilibria that did not converge
 
     # --- point equilibria --------------------------------------------------------------------
     def _eq(self, T: float, x: np.ndarray):
         self.calls += 1
-        return _equilibrium(self.system, T, x)
+        eq = _equilibrium(self.system, T, x)
+        if not eq.converged:
+            self.unconverged.append(T)
+        return eq
 
     # --- the path ----------------------------------------------------------------------------
     def path(self) -> AlloyPath:
@@ -335,6 +339,9 @@ class AlloyScheil:
 
     def _result(self, state: _State) -> AlloyPath:
         notes: list[str] = []
+        if self.unconverged:
+            notes.append(f"{len(self.unconverged)} point equilibria between {min(self.unconverged):.1f} and "
+                         f"{max(self.unconverged):.1f} K did not converge: treat the path there with suspicion")
         constituents = [AlloyConstituent(s.name, float(s.mass / self.M), float(s.mol), tuple(float(v) for v in s.elements / s.mol))
                         for s in self.stages if s.mol > 0.0]
         if self.end_K is None:

@@ -126,3 +126,33 @@ def test_melt_a_ternary_alloy(run, ternary):
     assert data["crossings"][0]["above"] == ["liquid"] and set(data["mole_fraction"]) == {"A", "B", "C"}
     code, out, _ = run("melt", "ideal-eutectic", "--comp", "B=25at%,C=15at%")
     assert "liquidus" in out and "freezing range" in out and "alpha + beta + gamma" in out
+
+
+# --- through the engine itself: a ternary system file (tests/unit/ideal_ternaries.py) -------------------
+@pytest.fixture
+def lead_tin_bismuth(tmp_path) -> str:
+    return str(it.write_system_files(tmp_path)["pb-sn-bi"])
+
+
+def test_point_for_a_ternary_alloy_lists_every_phase_and_element(run, lead_tin_bismuth):
+    code, out, err = run("point", lead_tin_bismuth, "--temp", "200C", "--comp", "Sn=30wt%,Bi=2wt%")
+    assert code == 0 and err == "", err
+    assert "alloy: Pb 68.0 wt%" in out and "Sn 30.0 wt%" in out and "Bi 2.00 wt%" in out
+    header = next(line for line in out.splitlines() if line.startswith("phase"))
+    assert header.split()[1:] == ["amount", "Pb", "wt%", "Sn", "wt%", "Bi", "wt%"]
+    code, js, _ = run("point", lead_tin_bismuth, "--temp", "200C", "--comp", "Sn=30wt%", "--comp", "Bi=2wt%", "--json")
+    data = json.loads(js)
+    assert set(data["mole_fraction"]) == set(data["mass_fraction"]) == {"Pb", "Sn", "Bi"}
+    assert data["mass_fraction"]["Bi"] == pytest.approx(0.02, abs=1e-12)
+    assert sum(p["phase_fraction_mol"] for p in data["phases"]) == pytest.approx(1.0, abs=1e-9)
+    for p in data["phases"]:
+        assert set(p["mole_fraction"]) == set(p["mass_fraction"]) == {"Pb", "Sn", "Bi"}
+        assert p["name"] in out
+    # the lever rule in every element: the phases hold the alloy
+    held = {el: sum(p["phase_fraction_mol"] * p["mole_fraction"][el] for p in data["phases"]) for el in ("Pb", "Sn", "Bi")}
+    assert held == pytest.approx(data["mole_fraction"], abs=1e-9)
+
+
+def test_a_ternary_needs_every_element_but_one(run, lead_tin_bismuth):
+    _one_line_error(*run("point", lead_tin_bismuth, "--temp", "200C", "--comp", "Sn=30wt%"), "point",
+                    "leaves Pb and Bi unnamed: name all but one (the balance)")
