@@ -2,9 +2,11 @@
 
 Method: point equilibria (`ladle.engine.equilibrate`) on a descending temperature scan from above
 the liquidus to room temperature (or the lowest temperature the system's models cover); each
-interval whose two ends differ in their stable phases is bisected until it is narrower than the
-stated tolerance, and an interval whose middle differs from both ends is split into two changes.
-This needs no mapped diagram, so it serves any number of elements once `equilibrate` does.
+interval whose two ends differ in their stable phases is narrowed until it is narrower than the
+stated tolerance (engine/diagrams/phase_change.py: regula falsi on the amount of the phase that
+appears, bisection otherwise), and what lies between the change found and the interval's cold end
+is searched again, so that two changes inside one step are both found. This needs no mapped
+diagram, so it serves any number of elements.
 
 A field that lies entirely between two scan levels (narrower in temperature than the scan step)
 and has the same phases on both sides is not seen; the step is an argument for that reason.
@@ -21,6 +23,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..minimize.equilibrium import PhaseShare, PointEquilibrium, equilibrate
+from .phase_change import narrow_change, phase_set
 
 #: Room temperature (K): the lowest temperature of a transition scan unless the models stop higher.
 ROOM_TEMPERATURE_K = 298.15
@@ -118,10 +121,6 @@ def _equilibrium(system, T: float, x: np.ndarray) -> PointEquilibrium:
     return equilibrate(system, T, x)
 
 
-def _phase_set(eq: PointEquilibrium) -> tuple[str, ...]:
-    return tuple(sorted(eq.phase_names))
-
-
 def _window(system) -> tuple[float, float, float]:
     """(lowest, highest start, ceiling) K: room temperature or the lowest temperature the models
     cover; the top of the system's diagram window; the highest temperature the models cover."""
@@ -163,15 +162,15 @@ class _Scan:
         return T, eq
 
     def changes(self, hi: tuple[float, PointEquilibrium], lo: tuple[float, PointEquilibrium]) -> list[Transition]:
-        """The changes between two temperatures (hi above lo) whose phase sets differ, bisected."""
+        """The changes between two temperatures (hi above lo, K) whose phase sets differ, each
+        narrowed to the tolerance, hot to cold."""
         (t_hi, e_hi), (t_lo, e_lo) = hi, lo
-        if _phase_set(e_hi) == _phase_set(e_lo):
+        if phase_set(e_hi) == phase_set(e_lo):
             return []
-        if t_hi - t_lo <= self.tolerance_K:
-            return [Transition(0.5 * (t_hi + t_lo), e_hi.phase_names, e_lo.phase_names, t_hi - t_lo, e_lo)]
-        t_mid = 0.5 * (t_hi + t_lo)
-        mid = (t_mid, self.at(t_mid))
-        return self.changes(hi, mid) + self.changes(mid, lo)
+        near, far, near_eq, far_eq = narrow_change(self.at, t_hi, t_lo, phase_set(e_hi), e_hi, e_lo, self.tolerance_K)
+        above = (near_eq or e_hi).phase_names
+        change = Transition(0.5 * (near + far), above, far_eq.phase_names, abs(near - far), far_eq)
+        return [change] + self.changes((far, far_eq), lo)
 
 
 def alloy_transitions(system, composition: float | Sequence[float] | np.ndarray, *,

@@ -7,6 +7,7 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
+from ..errors import CommandError
 from .common import (add_composition_argument, add_system_argument, closing_lines, open_system, print_json,
                      read_alloy, system_title, temperature_both)
 
@@ -20,6 +21,8 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
     add_system_argument(p)
     add_composition_argument(p)
     p.add_argument("--unit", choices=("C", "K", "F"), default="C", help="temperature unit of the table (default C)")
+    p.add_argument("--step", type=float, default=None, metavar="K",
+                   help="scan step in K (default 1): a field narrower than the step with the same phases on both sides is missed")
     p.add_argument("--json", action="store_true", help="print one JSON object")
 
 
@@ -30,7 +33,9 @@ def run(args: argparse.Namespace) -> int:
 
     system = open_system(args.system, args.without)
     x, alloy = read_alloy(system, args.comp)
-    result = alloy_transitions(system, x)
+    if args.step is not None and not (0.01 <= args.step <= 100.0):
+        raise CommandError(f"--step {args.step:g}: expected a scan step between 0.01 and 100 K")
+    result = alloy_transitions(system, x, **({} if args.step is None else {"step_K": args.step}))
     names = trade_names(system)
     labels = {i: line.name for i, t in enumerate(result.transitions)
               if (line := names.line(t.above, t.below)) is not None}
