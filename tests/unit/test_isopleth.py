@@ -75,3 +75,26 @@ def test_the_ternary_eutectic_is_the_one_invariant(section):
     out = iso.to_json()
     assert out["invariants"][0]["phases"] == ["alpha", "beta", "gamma", "liquid"]
     assert all({"phase", "with", "without", "points"} <= set(line) for line in out["lines"])
+
+
+def test_through_the_engine_both_sides_of_every_line_agree(tmp_path):
+    """The same section of the same invented ternary, as a system file through the general
+    minimiser, on a coarse grid (the engine's point equilibria are the reference here)."""
+    from ladle.engine import equilibrate, load_system
+
+    system = load_system(it.write_system_files(tmp_path)["ideal-eutectic"])
+    iso = isopleth.map_isopleth(system, START, END, "at", "Sn", WINDOW_K, columns=7, rows=9)
+    span = np.array([1.0, WINDOW_K[1] - WINDOW_K[0]])
+    checked = 0
+    for line in iso.lines:
+        pts = np.array(line.points)
+        for k in range(1, len(pts) - 1):
+            for p in _normal_steps(pts, k, span, 1e-3):
+                if not (0.0 < p[0] < 1.0 and WINDOW_K[0] < p[1] < WINDOW_K[1]):
+                    continue
+                x = isopleth.section_mole_fractions(system, START, END, "at", np.array([p[0]]))[0]
+                found = tuple(sorted(equilibrate(system, p[1], x).phase_names))
+                assert found in (line.with_phase, line.without_phase), (line.phase, p, found)
+                checked += 1
+    assert checked > 20
+    assert [inv.phases for inv in iso.invariants] == [("alpha", "beta", "gamma", "liquid")]
