@@ -13,14 +13,17 @@ from .glyphs import glyphs_for
 from .options import OptionsError, parse_options
 from .saved_state import SavedState, read_state, state_path
 from .scales import Scales
+from .system_choices import not_explorable
 
 
 def _open(name: str):
     """The system, or a one-line reason it cannot be opened."""
     try:
-        return find_system(name), None
+        system = find_system(name)
     except (SystemFileError, UnknownSystem, OSError) as error:
         return None, str(error)
+    problem = not_explorable(system)
+    return (None, problem) if problem else (system, None)
 
 
 def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration:

@@ -25,6 +25,14 @@ class SystemChoice:
         return all(word in haystack for word in query.lower().split())
 
 
+def not_explorable(system) -> str | None:
+    """Why the explorer cannot show `system` yet (three or more elements), in one line, or None."""
+    n = len(system.elements)
+    if n == 2:
+        return None
+    return f"{system.name}: {n} elements; the explorer shows binaries only so far (see ladle diagram --vary, --temp)"
+
+
 def system_choices() -> list[SystemChoice]:
     """Every system the catalog knows, loaded; a file that fails to load says why."""
     from ladle.engine.checking.measure import independent_checks
@@ -35,6 +43,10 @@ def system_choices() -> list[SystemChoice]:
             system = find_system(str(entry.path))
         except (SystemFileError, UnknownSystem, OSError) as error:
             choices.append(SystemChoice(entry.name, problem=str(error)))
+            continue
+        problem = not_explorable(system)
+        if problem:
+            choices.append(SystemChoice(entry.name, system.title, system.source, system.safety, problem=problem))
             continue
         choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
                                     checks_text(None, len(independent_checks(system)))))
