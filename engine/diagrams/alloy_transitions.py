@@ -139,13 +139,22 @@ class _Scan:
         self.system = system
         self.x = x
         self.tolerance_K = tolerance_K
-        self.warnings: list[str] = []
+        self.unconverged_K: list[float] = []
 
     def at(self, T: float) -> PointEquilibrium:
         eq = _equilibrium(self.system, T, self.x)
         if not eq.converged:
-            self.warnings.append(f"the equilibrium at {T:.6f} K did not converge")
+            self.unconverged_K.append(T)
         return eq
+
+    def warnings(self) -> tuple[str, ...]:
+        """One line on the point equilibria that did not converge, if any."""
+        if not self.unconverged_K:
+            return ()
+        lo, hi = min(self.unconverged_K), max(self.unconverged_K)
+        where = f"at {lo:.2f} K" if hi - lo < 0.005 else f"between {lo:.2f} and {hi:.2f} K"
+        return (f"{len(self.unconverged_K)} point equilibria {where} did not converge to their tolerance; "
+                "changes near there are less certain",)
 
     def start(self, top_K: float, ceiling_K: float) -> tuple[float, PointEquilibrium]:
         """Where the scan begins (K): above the liquidus when the system has a liquid and the
@@ -207,4 +216,4 @@ def alloy_transitions(system, composition: float | Sequence[float] | np.ndarray,
         found += scan.changes(above, below)
         above = below
     return AlloyTransitions(x, hi, lo, float(step_K), float(tolerance_K), top_eq.phase_names,
-                            above[1].phase_names, tuple(found), tuple(dict.fromkeys(scan.warnings)))
+                            above[1].phase_names, tuple(found), scan.warnings())

@@ -46,7 +46,7 @@ def _bounded_above(result: AlloyTransitions, t: Transition, kind: str, low_is: s
     up = _next_above(result, t)
     if up is None:
         return HeatTreatmentWindow(kind, t.temperature_K, None, low_is, "top of the scan", t.above)
-    high_is = "solidus" if _LIQUID in up.below and _LIQUID not in t.above else "next change"
+    high_is = "solidus" if _LIQUID in up.above and _LIQUID not in up.below else "next change"
     return HeatTreatmentWindow(kind, t.temperature_K, up.temperature_K, low_is, high_is, t.above)
 
 

@@ -45,12 +45,14 @@ class PhaseName:
 
 @dataclass(frozen=True)
 class TradeNames:
-    """A system's trade names: `phases` (phase -> its names by temperature), `lines` and the
+    """A system's trade names: `phases` (phase -> its names by temperature), `lines`, the note
+    shown once under any answer that crosses a named line (`lines_note`, may be empty) and the
     `heat_treatment` its alloys take (one of HEAT_TREATMENTS, or None)."""
 
     phases: dict[str, tuple[PhaseName, ...]]
     lines: tuple[TradeLine, ...]
     heat_treatment: str | None = None
+    lines_note: str = ""
 
     def phase_name(self, phase: str, temperature_K: float) -> str | None:
         """The trade's name of `phase` at temperature_K (K), or None."""
@@ -84,7 +86,10 @@ def read_trade_names(doc: dict, phases: Collection[str] | None, fail: Callable[[
     treatment = doc.get("heat_treatment")
     if treatment is not None and treatment not in HEAT_TREATMENTS:
         raise fail("heat_treatment", f"expected one of {', '.join(repr(h) for h in HEAT_TREATMENTS)}, found {treatment!r}")
-    return TradeNames(names, tuple(lines), treatment)
+    note = doc.get("trade_line_note", "")
+    if not isinstance(note, str):
+        raise fail("trade_line_note", "expected a text")
+    return TradeNames(names, tuple(lines), treatment, without_controls(note, keep_newlines=True))
 
 
 def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) -> tuple[PhaseName, ...]:

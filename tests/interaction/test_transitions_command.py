@@ -87,6 +87,7 @@ def test_trade_lines_label_matching_changes_and_give_the_window() -> None:
     window = austenitizing_window(result, labels)
     assert window.low_K == result.transitions[2].temperature_K
     assert window.high_K == result.transitions[1].temperature_K and window.phases == ("fcc",)
+    assert (window.low_is, window.high_is) == ("A3", "solidus")
     assert solution_window(result, None).notes
 
 

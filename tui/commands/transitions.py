@@ -133,6 +133,8 @@ def _render(system, result, labels, names, window, alloy, x, w, unit: str) -> li
         note = next((ln.note for ln in names.lines if ln.name == label and ln.note), "")
         if note:
             lines.append(f"{label}: {note}")
+    if used and names.lines_note:
+        lines.append(names.lines_note)
     if window is not None:
         lines.append("")
         lines += _window_lines(window, names, unit)
