@@ -1,15 +1,22 @@
 """Benchmark of the full-screen explorer in a real pseudo-terminal (run on demand, not a test).
 
-    python tests/benchmarks/explorer_bench.py [--json] [--system pb-sn] [--presses 40]
+    python tests/benchmarks/explorer_bench.py [--json] [--system pb-sn] [--presses 30] [--use-s 60]
 
 Measures, on an 80x24 pseudo-terminal:
 - start_to_first_screen_s: process start to the last byte of the first full screen (the
   status pane's last heading and the key bar have arrived, then the output stays quiet);
-- key_to_screen_ms: per cursor key press (arrow keys, alternating directions), the time from
-  writing the key to the last byte of the updated status pane and plot; median and 90th percentile;
-- resident_MB: the explorer's resident memory after the presses (VmRSS);
+- key_to_screen_ms (median and 90th percentile) in each view (diagram, energy, reactions,
+  cooling): per key press, the time from writing the key to the last byte of the updated screen.
+  The cursor keeps moving to new points (fine steps right and up in turn; in the cooling view up
+  only, since a new composition starts a computation measured apart); the reactions view moves
+  down its table;
+- cooling_new_alloy_ms: in the cooling view, a step in composition to the last byte of the
+  recomputed paths (median);
+- picker_open_ms: from `s` to the last byte of the system picker (median of five);
+- resident_MB_after_use: resident memory (VmRSS) after --use-s seconds of moving through every view;
 - idle_bytes_per_s: bytes the explorer sends while nothing changes (target 0).
-Targets (issue 4): first screen under 1.0 s, key median under 50 ms, memory under 150 MB.
+Targets (issue 10): key median 15 ms in every view, picker 100 ms; (issue 4) first screen under
+1.0 s, memory under 150 MB.
 """
 
 from __future__ import annotations
@@ -29,7 +36,12 @@ import termios
 import time
 
 QUIET_S = 0.15          # the screen is complete when no byte arrives for this long
-KEYS = ("\x1b[C", "\x1b[A", "\x1b[D", "\x1b[B")   # right, up, left, down
+FINE_RIGHT, FINE_UP, FINE_DOWN = "\x1b[1;2C", "\x1b[1;2A", "\x1b[1;2B"   # shift+arrows
+RIGHT, LEFT, UP, DOWN = "\x1b[C", "\x1b[D", "\x1b[A", "\x1b[B"
+VIEWS = {"diagram": "1", "energy": "2", "reactions": "3", "cooling": "4"}
+#: Keys per view that keep moving the cursor to new points.
+WALKS = {"diagram": (FINE_RIGHT, FINE_UP), "energy": (FINE_RIGHT, FINE_UP), "reactions": (DOWN, UP),
+         "cooling": (FINE_UP,)}
 FIRST_SCREEN_MARKS = (b"NEAREST", b"quit")
 
 
@@ -88,20 +100,74 @@ def _resident_mb(pid: int) -> float:
     return float("nan")
 
 
-def measure(system: str, presses: int) -> dict:
+def _press(fd: int, key: str, quiet_s: float = QUIET_S) -> float | None:
+    """Send one key; the time (ms) to the last byte of the answer, None when nothing came."""
+    sent = time.perf_counter()
+    os.write(fd, key.encode())
+    data, last = _read_until_quiet(fd, quiet_s, 10.0)
+    return (last - sent) * 1000.0 if data else None
+
+
+def _summary(latencies: list[float]) -> dict:
+    ordered = sorted(latencies)
+    if not ordered:
+        return {"median": None, "p90": None, "answered": 0}
+    return {"median": round(statistics.median(ordered), 1),
+            "p90": round(ordered[int(0.9 * (len(ordered) - 1))], 1), "answered": len(ordered)}
+
+
+def _views(fd: int, presses: int) -> dict:
+    """Key-to-screen times in every view, the cursor moving to new points."""
+    out = {}
+    for view, key in VIEWS.items():
+        _press(fd, key, 0.5 if view == "cooling" else QUIET_S)
+        if view == "cooling":
+            _read_until_quiet(fd, 0.5, 10.0)   # the first alloy's paths
+        walk = WALKS[view]
+        times = [_press(fd, walk[i % len(walk)]) for i in range(presses)]
+        out[view] = _summary([t for t in times if t is not None])
+    return out
+
+
+def _new_alloys(fd: int, count: int) -> dict:
+    """In the cooling view: a fine step in composition to the recomputed paths."""
+    times = [_press(fd, FINE_RIGHT, 0.4) for _ in range(count)]
+    return _summary([t for t in times if t is not None])
+
+
+def _picker(fd: int, count: int) -> dict:
+    times = []
+    for _ in range(count):
+        t = _press(fd, "s")
+        if t is not None:
+            times.append(t)
+        _press(fd, "\x1b")
+    return _summary(times)
+
+
+def _use(fd: int, seconds: float) -> None:
+    """Move through every view for `seconds`, as a person exploring would."""
+    keys = (RIGHT, UP, LEFT, DOWN, FINE_RIGHT, FINE_UP, "2", RIGHT, UP, "1", "+", LEFT, "-", "3",
+            DOWN, "1", "0", "4", UP, "1")
+    end = time.perf_counter() + seconds
+    index = 0
+    while time.perf_counter() < end:
+        _press(fd, keys[index % len(keys)], 0.05)
+        index += 1
+
+
+def measure(system: str, presses: int, use_s: float) -> dict:
     with tempfile.TemporaryDirectory() as state_dir:
         process, fd, started = _start(system, state_dir)
         try:
             first = _first_screen(fd, started)
-            latencies = []
-            for index in range(presses):
-                sent = time.perf_counter()
-                os.write(fd, KEYS[index % len(KEYS)].encode())
-                data, last = _read_until_quiet(fd, QUIET_S, 5.0)
-                if data:
-                    latencies.append((last - sent) * 1000.0)
+            views = _views(fd, presses)
+            new_alloys = _new_alloys(fd, 5)
+            _press(fd, "1")
+            picker = _picker(fd, 5)
+            _use(fd, use_s)
+            _read_until_quiet(fd, 1.5, 10.0)   # let the last frame and the state save pass
             resident = _resident_mb(process.pid)
-            _read_until_quiet(fd, 1.5, 5.0)   # let the last frame and the state save pass
             idle_start = time.perf_counter()
             quiet_bytes = bytearray()
             while time.perf_counter() - idle_start < 3.0:
@@ -114,17 +180,17 @@ def measure(system: str, presses: int) -> dict:
             if process.poll() is None:
                 process.kill()
             os.close(fd)
-    latencies.sort()
     return {
         "system": system,
         "start_to_first_screen_s": round(first, 3),
-        "key_to_screen_ms_median": round(statistics.median(latencies), 1),
-        "key_to_screen_ms_p90": round(latencies[int(0.9 * (len(latencies) - 1))], 1),
-        "presses_answered": len(latencies),
-        "resident_MB": round(resident, 1),
+        "key_to_screen_ms": views,
+        "cooling_new_alloy_ms": new_alloys,
+        "picker_open_ms": picker,
+        "use_s": use_s,
+        "resident_MB_after_use": round(resident, 1),
         "idle_bytes_per_s": round(len(quiet_bytes) / 3.0, 1),
-        "targets": {"start_to_first_screen_s": 1.0, "key_to_screen_ms_median": 50,
-                    "resident_MB": 150, "idle_bytes_per_s": 0},
+        "targets": {"start_to_first_screen_s": 1.0, "key_to_screen_ms_median": 15,
+                    "picker_open_ms": 100, "resident_MB": 150, "idle_bytes_per_s": 0},
     }
 
 
@@ -132,9 +198,10 @@ def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--json", action="store_true", help="print one JSON object")
     parser.add_argument("--system", default="pb-sn")
-    parser.add_argument("--presses", type=int, default=40)
+    parser.add_argument("--presses", type=int, default=30, help="key presses per view")
+    parser.add_argument("--use-s", type=float, default=60.0, help="seconds of use before the memory is read")
     args = parser.parse_args()
-    result = measure(args.system, args.presses)
+    result = measure(args.system, args.presses, args.use_s)
     if args.json:
         print(json.dumps(result))
     else:

@@ -13,8 +13,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from rich.segment import Segment
 from rich.style import Style
 from rich.text import Text
+from textual.strip import Strip
 
 from .glyphs import Glyphs
 from .plotting import Frame
@@ -71,38 +73,64 @@ def _cell(value: float, low: float, high: float, cells: int) -> int | None:
     return math.floor(round(0.5 + (cells - 1) * (value - low) / (high - low), 8))
 
 
-def with_crosshair(picture: Text, crosshair: Crosshair, glyphs: Glyphs) -> Text:
-    """A copy of `picture` with the crosshair written into the blank cells of its plot area."""
-    lines = picture.plain.split("\n")
+def crosshair_cells(lines: list[str], crosshair: Crosshair,
+                    glyphs: Glyphs) -> dict[tuple[int, int], str]:
+    """The characters to write over the picture (its lines): (line, column) -> character. The
+    crosshair takes the blank cells of the plot area only; the cursor's mark takes its cell."""
     area = plot_area_of(lines)
     if area is None:
-        return picture
+        return {}
     frame = crosshair.frame
     column = None if crosshair.x is None else _cell(crosshair.x, frame.x_low, frame.x_high,
                                                      area.columns)
     up = None if crosshair.y is None else _cell(crosshair.y, frame.y_low, frame.y_high, area.rows)
     row = None if up is None else area.rows - 1 - up
-    marks: dict[tuple[int, int], str] = {}
+    wanted: list[tuple[int, int]] = []
     if row is not None:
-        marks.update(((row, c), glyphs.crosshair_marker) for c in range(area.columns))
+        wanted += [(row, c) for c in range(area.columns)]
     if column is not None:
-        marks.update(((r, column), glyphs.crosshair_marker) for r in range(area.rows))
+        wanted += [(r, column) for r in range(area.rows)]
+    cells = {(area.top + r, area.left + c): glyphs.crosshair_marker for r, c in wanted
+             if lines[area.top + r][area.left + c] in _BLANK}
+    if row is not None and column is not None:
+        cells[(area.top + row, area.left + column)] = glyphs.cursor_marker
+    return cells
+
+
+def with_crosshair(picture: Text, crosshair: Crosshair, glyphs: Glyphs) -> Text:
+    """A copy of `picture` with the crosshair written into the blank cells of its plot area."""
+    lines = picture.plain.split("\n")
+    cells = crosshair_cells(lines, crosshair, glyphs)
     starts = [0]
     for line in lines[:-1]:
         starts.append(starts[-1] + len(line) + 1)
     chars = list(picture.plain)
-    changed: list[int] = []
-    for (r, c), mark in marks.items():
-        at = starts[area.top + r] + area.left + c
-        if chars[at] in _BLANK:
-            chars[at] = mark
-            changed.append(at)
-    if row is not None and column is not None:
-        at = starts[area.top + row] + area.left + column
-        chars[at] = glyphs.cursor_marker
-        changed.append(at)
+    for (line, column), mark in cells.items():
+        chars[starts[line] + column] = mark
     drawn = picture.copy()
     drawn.plain = "".join(chars)
-    for at in changed:
+    for line, column in cells:
+        at = starts[line] + column
         drawn.stylize(CURSOR_STYLE, at, at + 1)
     return drawn
+
+
+def strips_with_crosshair(strips: list[Strip], cells: dict[tuple[int, int], str],
+                          base: Style) -> list[Strip]:
+    """The screen lines of a picture (one Strip per line, one cell per character) with `cells`
+    written in the cursor's style over `base` (the widget's own style)."""
+    style = base + CURSOR_STYLE
+    by_line: dict[int, list[tuple[int, str]]] = {}
+    for (line, column), mark in cells.items():
+        by_line.setdefault(line, []).append((column, mark))
+    out = list(strips)
+    for line, marks in by_line.items():
+        if line >= len(out):
+            continue
+        strip, pieces, at = out[line], [], 0
+        for column, mark in sorted(marks):
+            pieces += [strip.crop(at, column), Strip([Segment(mark, style)], 1)]
+            at = column + 1
+        pieces.append(strip.crop(at, strip.cell_length))
+        out[line] = Strip.join(pieces)
+    return out

@@ -43,6 +43,7 @@ from .help import HelpScreen
 from .systems import SystemPicker
 
 MIN_WIDTH, MIN_HEIGHT = 80, 24
+PREWARM_DELAY_S = 1.0   # the systems are loaded for the picker this long after the start
 NOTICE_WAITS = 20   # frames to wait at most for notices to leave before a screenshot
 FRAME_S = 0.02
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
@@ -88,6 +89,12 @@ class ExploreScreen(Screen[None]):
     def on_mount(self) -> None:
         self.query_one(PointEntry).display = False
         self._show_exploration()
+        self.set_timer(PREWARM_DELAY_S, self._prewarm_picker)
+
+    def _prewarm_picker(self) -> None:
+        """Load every system once in a thread, after the first screen, so that the picker opens
+        at once (the engine keeps loaded systems)."""
+        self.run_worker(system_choices, thread=True, group="prewarm", exit_on_error=False)
 
     def on_resize(self, event: Resize) -> None:
         width, height = event.size
@@ -151,8 +158,10 @@ class ExploreScreen(Screen[None]):
         """The system's caution, whole, under the status pane (its full text: ? help)."""
         safety = self.exploration.system.safety
         caution = self.query_one("#caution", Static)
-        caution.display = bool(safety)
-        caution.update(f"! {safety_headline(safety)} (? more)" if safety else "")
+        text = f"! {safety_headline(safety)} (? more)" if safety else ""
+        if str(caution.render()) != text or caution.display != bool(safety):
+            caution.display = bool(safety)
+            caution.update(text)
 
     def _fill_reactions(self) -> None:
         e = self.exploration

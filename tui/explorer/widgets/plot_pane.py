@@ -12,10 +12,12 @@ from collections.abc import Hashable
 
 from rich.text import Text
 from textual.app import RenderResult
+from textual.strip import Strip
+from textual.visual import Visual, visualize
 from textual_plotext import PlotextPlot
 from textual_plotext.plot import Plot
 
-from ..crosshair import Crosshair, with_crosshair
+from ..crosshair import Crosshair, crosshair_cells, strips_with_crosshair, with_crosshair
 from ..glyphs import Glyphs
 from .plot_text import styled_plot_text
 
@@ -28,6 +30,11 @@ class CachedPlot(PlotextPlot):
         self.glyphs = glyphs
         self._built_key: Hashable | None = None
         self._built: Text | None = None
+        self._strips_key: Hashable | None = None      # the picture's screen lines, and
+        self._strips: list[Strip] = []                # those with the cursor written over them
+        self._picture_lines: list[str] = []
+        self._lines_key: Hashable | None = None
+        self._lines: list[Strip] = []
 
     def picture_key(self) -> Hashable:
         """A value that changes whenever the picture without the cursor would change (size and
@@ -42,7 +49,8 @@ class CachedPlot(PlotextPlot):
         """Issue the plot calls for a picture of width x height cells."""
         raise NotImplementedError
 
-    def render(self) -> RenderResult:
+    def _picture(self) -> Text:
+        """The built picture without the cursor, rebuilt only when its key changes."""
         width, height = self.size.width, self.size.height
         key = (width, height, self.app.theme, self.picture_key())
         if key != self._built_key or self._built is None:
@@ -55,6 +63,30 @@ class CachedPlot(PlotextPlot):
                 self.draw(plt, width, height)
             self._built = styled_plot_text(self.glyphs.plot_text(plt.build()))
             self._built_key = key
+        return self._built
+
+    def render(self) -> RenderResult:
+        picture = self._picture()
         crosshair = self.crosshair()
-        return self._built if crosshair is None else with_crosshair(self._built, crosshair,
-                                                                     self.glyphs)
+        return picture if crosshair is None else with_crosshair(picture, crosshair, self.glyphs)
+
+    def render_line(self, y: int) -> Strip:
+        """One screen line: the picture's lines are turned into strips once per picture (the
+        costly part of drawing), and the cursor is written over them on each move."""
+        picture = self._picture()
+        width, height = self.size
+        base_key = (id(picture), width, height, self.visual_style)
+        if base_key != self._strips_key:
+            self._strips = Visual.to_strips(self, visualize(self, picture), width, height,
+                                            self.visual_style)
+            self._picture_lines = picture.plain.split("\n")
+            self._strips_key = base_key
+        crosshair = self.crosshair()
+        cells = {} if crosshair is None else crosshair_cells(self._picture_lines, crosshair,
+                                                             self.glyphs)
+        key = (base_key, tuple(sorted(cells.items())))
+        if key != self._lines_key:
+            self._lines = strips_with_crosshair(self._strips, cells, self.visual_style.rich_style)
+            self._lines_key = key
+        return self._lines[y] if 0 <= y < len(self._lines) else Strip.blank(
+            width, self.visual_style.rich_style)

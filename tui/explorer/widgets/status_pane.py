@@ -21,7 +21,7 @@ class StatusPane(Static):
             if index:
                 text.append("\n")
             text.append(line, style=self.get_component_rich_style(f"status-pane--{role}"))
-        self.update(text)
+        self.update(text, layout=False)   # the pane's size never depends on its text
 
     def plain_text(self) -> str:
         """The pane's text without styles (what a reader sees)."""

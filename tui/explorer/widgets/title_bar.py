@@ -17,11 +17,17 @@ class TitleBar(Static):
 
     COMPONENT_CLASSES = {"title-bar--system", "title-bar--active"}
 
+    _shown: tuple | None = None   # what the bar shows now (its text is redrawn only on a change)
+
     def show(self, system_name: str, title: str, note: str, view: str, width: int) -> None:
         """Redraw for this system and view; the active view is bracketed (and styled). The
         other views are named in full where the title leaves room, else by their keys; a
         `note` (the range the model covers) that does not fit beside the title goes whole onto
         the next line."""
+        shown = (system_name, title, note, view, width)
+        if shown == self._shown:
+            return
+        self._shown = shown
         words = " ".join(filter(None, (title, note)))
         for short in (False, True):
             tabs = self._tabs(view, short)
