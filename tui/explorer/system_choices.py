@@ -26,11 +26,18 @@ class SystemChoice:
 
 
 def not_explorable(system) -> str | None:
-    """Why the explorer cannot show `system` yet (three or more elements), in one line, or None."""
+    """Why the explorer cannot show `system` yet (three or more elements, or sublattice phases),
+    in one line, or None."""
     n = len(system.elements)
-    if n == 2:
-        return None
-    return f"{system.name}: {n} elements; the explorer shows binaries only so far (see ladle diagram --vary, --temp)"
+    if n != 2:
+        return f"{system.name}: {n} elements; the explorer shows binaries only so far (see ladle diagram --vary, --temp)"
+    from ladle.engine.diagrams.mappable import unmapped_phases
+
+    unmapped = unmapped_phases(system)
+    if unmapped:
+        return (f"{system.name}: sublattice phases ({', '.join(unmapped)}); the explorer draws diagrams of solutions "
+                "and compounds only so far (see ladle transitions, ladle point)")
+    return None
 
 
 def system_choices() -> list[SystemChoice]:
