@@ -24,12 +24,14 @@ _TEXT = StringDType()
 
 @dataclass(frozen=True)
 class BlockJob:
-    """Everything a worker needs: the file's layout, the system's heat-list table
-    (engine/solidify/table.py), the output's temperature unit ("C", "K" or "F"), the superheat
-    (K) or None, and whether to follow the Scheil path."""
+    """Everything a worker needs: the file's layout, the system, its heat-list table for a
+    binary system (engine/solidify/table.py; None for more elements: those alloys are computed
+    one by one), the output's temperature unit ("C", "K" or "F"), the superheat (K) or None, and
+    whether to follow the Scheil path."""
 
     layout: Layout
-    table: object
+    system: object
+    table: object | None
     unit: str
     superheat_K: float | None
     scheil: bool
@@ -40,7 +42,8 @@ class BlockJob:
         cells = list(self.layout.header) + [f"liquidus_{u}", f"solidus_{u}", f"freezing_range_{u}"]
         if self.scheil:
             cells += [f"scheil_end_{u}", "eutectic_scheil_mass%_of_alloy"]
-        cells.append("eutectic_equilibrium_mass%_of_alloy")
+        if self.table is not None:
+            cells.append("eutectic_equilibrium_mass%_of_alloy")
         if self.superheat_K is not None:
             cells.append(f"pouring_{u}")
         return cells + ["note"]
@@ -76,29 +79,30 @@ def identifiers(job: BlockJob, first_line: int, data: bytes) -> tuple[np.ndarray
 
 def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
     """The output rows of a block of whole rows starting at line `first_line` of the heat list."""
+    from ladle.engine.solidify.table import evaluate_alloys
     from ladle.engine.units import kelvin_to
 
-    from .commands.common import coverage_problem
-    from .parsing import fractions_of_B
-
-    layout, system = job.layout, job.table.system
+    layout, system = job.layout, job.system
     rows = parse_block(layout, first_line, data)
     percent, reason = percentages(layout, rows)
-    x_b = fractions_of_B(percent, layout.element, layout.basis, system.elements, system.molar_mass)
-    lo, hi = system.covers
-    for k in np.flatnonzero(~((x_b >= lo) & (x_b <= hi)) & (reason == "")):
-        problem = coverage_problem(system, float(x_b[k]), f"{layout.label} {rows.raw[k]}")
-        if problem:
-            reason[k] = problem
+    x = _mole_fractions(layout, system, percent)
+    if job.table is not None:
+        _note_outside_coverage(layout, system, rows, x[:, 1], reason)
     ok = reason == ""
     names = ("liquidus", "solidus", "eutectic", "end", "eutectic_scheil")
     values = {name: np.full(rows.count, np.nan) for name in names}
     if ok.any():
-        r = job.table.evaluate(x_b[ok], job.scheil)
+        if job.table is not None:
+            r = job.table.evaluate(x[ok, 1], job.scheil)
+        else:
+            r, problems = evaluate_alloys(system, x[ok], job.scheil)
+            for k, problem in zip(np.flatnonzero(ok), problems):
+                if problem:
+                    reason[k] = problem
         for name, v in zip(names, (r.liquidus_K, r.solidus_K, r.eutectic_equilibrium, r.scheil_end_K,
                                    r.eutectic_scheil)):
             values[name][ok] = v
-    _note_missing(reason, ok, values, job.scheil)
+    _note_missing(reason, reason == "", values, job.scheil)
 
     offset, scale = kelvin_to(0.0, job.unit), kelvin_to(1.0, job.unit) - kelvin_to(0.0, job.unit)
     comma, encoding = layout.decimal_comma, layout.encoding
@@ -110,7 +114,8 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
     if job.scheil:
         columns += [number_bytes(*rounded(offset + scale * values["end"], 1), 1, comma),
                     number_bytes(*rounded(100.0 * values["eutectic_scheil"], 2), 2, comma)]
-    columns.append(number_bytes(*rounded(100.0 * values["eutectic"], 2), 2, comma))
+    if job.table is not None:
+        columns.append(number_bytes(*rounded(100.0 * values["eutectic"], 2), 2, comma))
     if job.superheat_K is not None:
         superheat = int(np.rint(job.superheat_K * scale * 10.0))
         columns.append(number_bytes(liquidus + superheat, liquidus_ok, 1, comma))
@@ -126,6 +131,33 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
                        [(int(rows.lines[k]), str(reason[k])) for k in bad[:LISTED]],
                        hashes[~blank], rows.lines[~blank], int(blank_lines.size),
                        [int(n) for n in blank_lines[:LISTED]])
+
+
+def _mole_fractions(layout: Layout, system, percent: np.ndarray) -> np.ndarray:
+    """Mole fractions of every element of `system` (one row per heat) from the percentages of
+    the elements the columns name (wt% or at%); the balance element takes the rest."""
+    from ladle.engine.units import mole_from_mass
+
+    elements = list(system.elements)
+    fractions = np.zeros((percent.shape[0], len(elements)))
+    for j, element in enumerate(layout.elements):
+        fractions[:, elements.index(element)] = percent[:, j] / 100.0
+    balance = next(i for i, e in enumerate(elements) if e not in layout.elements)
+    fractions[:, balance] = 1.0 - fractions.sum(axis=1)
+    if layout.basis == "wt":
+        fractions = mole_from_mass(fractions, np.asarray(system.molar_mass))
+    return fractions
+
+
+def _note_outside_coverage(layout: Layout, system, rows: Rows, x_b: np.ndarray, reason: np.ndarray) -> None:
+    """Give the binary alloys outside the range the model covers their reason."""
+    from .commands.common import coverage_problem
+
+    lo, hi = system.covers
+    for k in np.flatnonzero(~((x_b >= lo) & (x_b <= hi)) & (reason == "")):
+        problem = coverage_problem(system, float(x_b[k]), f"{layout.labels[0]} {rows.raws[0][k]}")
+        if problem:
+            reason[k] = problem
 
 
 def _input_cells(layout: Layout, rows: Rows) -> np.ndarray:

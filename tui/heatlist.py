@@ -1,6 +1,6 @@
-"""Heat lists: CSV files of heats (an identifier and one composition column whose header names
-the element and the unit, such as `Si wt%`), read in blocks of whole rows and parsed a column
-at a time with numpy.
+"""Heat lists: CSV files of heats (an identifier and composition columns whose headers name the
+element and the unit, such as `Si wt%`: one for a binary system, one per element but the balance
+for more elements), read in blocks of whole rows and parsed a column at a time with numpy.
 
 The file is scanned once first (`scan_heat_list`): its fingerprint (for `--resume`), its
 encoding (UTF-8, else Windows-1252, or the one the user names) and its size. `read_layout`
@@ -60,16 +60,16 @@ class FileScan:
 @dataclass(frozen=True)
 class Layout:
     """How to read a heat list: its encoding and separator, the header's cells, the composition
-    column (index, element, "wt" or "at"), the identifier column (the first other column, or
-    None), where the data start (byte offset and line number), and whether numbers are written
-    with a decimal comma."""
+    columns (indexes, the element each names, "wt" or "at" for all), the identifier column (the
+    first other column, or None), where the data start (byte offset and line number), and
+    whether numbers are written with a decimal comma."""
 
     name: str
     encoding: str
     delimiter: str
     header: tuple[str, ...]
-    column: int
-    element: str
+    columns: tuple[int, ...]
+    elements: tuple[str, ...]
     basis: str
     id_column: int | None
     data_offset: int
@@ -77,12 +77,12 @@ class Layout:
     decimal_comma: bool
 
     @property
-    def label(self) -> str:
-        """The composition column's header, as the file writes it."""
-        return self.header[self.column]
+    def labels(self) -> tuple[str, ...]:
+        """The composition columns' headers, as the file writes them."""
+        return tuple(self.header[c] for c in self.columns)
 
 
-def composition_header(cell: str, elements: tuple[str, str]) -> tuple[str, str] | None:
+def composition_header(cell: str, elements: tuple[str, ...]) -> tuple[str, str] | None:
     """(element, "wt" or "at") when a header cell names an element of the system and a unit."""
     m = _HEADER.match(cell)
     if not m or m.group(1).capitalize() not in elements:
@@ -164,8 +164,9 @@ def _is_regular(mode: int) -> bool:
 _LINE = re.compile(rb"([^\r\n]*)(\r\n|\r|\n|$)")
 
 
-def read_layout(path: Path, scan: FileScan, elements: tuple[str, str]) -> Layout:
-    """The header of the heat list at `path` (scanned as `scan`) for a system of `elements`."""
+def read_layout(path: Path, scan: FileScan, elements: tuple[str, ...]) -> Layout:
+    """The header of the heat list at `path` (scanned as `scan`) for a system of `elements`: one
+    composition column for a binary, one per element but one (the balance) for more."""
     name = path.name
     try:
         with open(path, "rb") as f:
@@ -186,30 +187,50 @@ def read_layout(path: Path, scan: FileScan, elements: tuple[str, str]) -> Layout
     delimiter = max(_DELIMITERS, key=text.count)
     header = tuple(c.strip() for c in next(csv.reader([text], delimiter=delimiter)))
     found = [(i, f) for i, f in ((i, composition_header(c, elements)) for i, c in enumerate(header)) if f is not None]
-    if not found:
-        raise CommandError(f"{name}: no composition column; expected a header such as '{elements[1]} wt%' or "
-                           f"'{elements[0]} at%' (an element of {elements[0]}-{elements[1]} and wt% or at%)")
-    if len(found) > 1:
-        names = ", ".join(repr(header[i]) for i, _ in found)
-        raise CommandError(f"{one_line(name)}: several composition columns ({one_line(names)}); keep one")
-    column, (element, basis) = found[0]
-    id_column = next((i for i in range(len(header)) if i != column), None)
-    layout = Layout(name, scan.encoding, delimiter, header, column, element, basis, id_column, offset, line, False)
+    columns, named, basis = _composition_columns(name, header, found, elements)
+    id_column = next((i for i in range(len(header)) if i not in columns), None)
+    layout = Layout(name, scan.encoding, delimiter, header, columns, named, basis, id_column, offset, line, False)
     first = next(blocks(path, offset, line, scan.size), None)
     rows = parse_block(layout, first.first_line, first.data) if first is not None else None
     if rows is None or not rows.count:
         raise CommandError(f"{name}: a header but no heats")
-    return replace(layout, decimal_comma=delimiter != "," and _writes_decimal_comma(rows.raw, delimiter))
+    return replace(layout, decimal_comma=delimiter != "," and _writes_decimal_comma(rows.raws, delimiter))
 
 
-def _writes_decimal_comma(raw, delimiter: str) -> bool:
+def _composition_columns(name: str, header: tuple[str, ...], found: list, elements: tuple[str, ...]):
+    """(column indexes, elements they name, basis) of the composition columns `found` as
+    (index, (element, basis)); CommandError where they do not make an alloy of `elements`."""
+    if not found:
+        example = (f"'{elements[1]} wt%' or '{elements[0]} at%'" if len(elements) == 2
+                   else " and ".join(f"'{e} wt%'" for e in elements[1:]))
+        raise CommandError(f"{name}: no composition column; expected a header such as {example} "
+                           f"(an element of {'-'.join(elements)} and wt% or at%)")
+    names = ", ".join(repr(header[i]) for i, _ in found)
+    if len(elements) == 2 and len(found) > 1:
+        raise CommandError(f"{one_line(name)}: several composition columns ({one_line(names)}); keep one")
+    named = [element for _, (element, _) in found]
+    if len(set(named)) < len(named):
+        raise CommandError(f"{one_line(name)}: two columns name the same element ({one_line(names)}); keep one")
+    if len({basis for _, (_, basis) in found}) > 1:
+        raise CommandError(f"{one_line(name)}: the composition columns mix wt% and at% ({one_line(names)}); use one")
+    if len(elements) > 2 and len(found) == len(elements):
+        raise CommandError(f"{one_line(name)}: a column for every element ({one_line(names)}); leave out one, the "
+                           f"balance, which takes the rest")
+    if len(elements) > 2 and len(found) < len(elements) - 1:
+        missing = [e for e in elements if e not in named]
+        raise CommandError(f"{one_line(name)}: name every element but the balance in a column of its own: columns for "
+                           f"{', '.join(named)} leave {', '.join(missing)}; expected one of these to be the balance")
+    return tuple(i for i, _ in found), tuple(named), found[0][1][1]
+
+
+def _writes_decimal_comma(raws: list, delimiter: str) -> bool:
     """Whether a file writes decimal commas, from its first block's composition cells: a comma
     in a number says so, a point says not; whole numbers only: a ';'-separated file does."""
     import numpy as np
 
-    if np.any(np.strings.find(raw, ",") >= 0):
+    if any(np.any(np.strings.find(raw, ",") >= 0) for raw in raws):
         return True
-    if np.any(np.strings.find(raw, ".") >= 0):
+    if any(np.any(np.strings.find(raw, ".") >= 0) for raw in raws):
         return False
     return delimiter == ";"
 
@@ -273,13 +294,14 @@ def _row_end(data: bytes, at_end: bool) -> int | None:
 class Rows:
     """The heats of one block, a column at a time (numpy arrays of one length): the line each
     starts on, its cells (the header's number of them, padded), its number of cells, the
-    composition cell stripped (`raw`), whether the block holds quotes, each row's text where
-    it has none (else None), and whether a cell might start a formula."""
+    composition cells stripped (`raws`, one array per composition column), whether the block
+    holds quotes, each row's text where it has none (else None), and whether a cell might start
+    a formula."""
 
     lines: "object"
     cells: list
     counts: "object"
-    raw: "object"
+    raws: list
     quoted: bool
     text: "object | None"
     formulas: bool
@@ -327,40 +349,45 @@ def parse_block(layout: Layout, first_line: int, data: bytes) -> Rows:
             counts += separator != ""
         more = np.flatnonzero(counts > width)              # cells beyond the header's: count them all
         counts[more] += np.strings.count(rest[more], delimiter)
-        raw = np.strings.strip(cells[layout.column])
-        blank = raw == ""
+        raws = [np.strings.strip(cells[c]) for c in layout.columns]
+        blank = raws[0] == ""
         maybe = np.flatnonzero(blank)                      # a blank row has a blank composition cell
         blank[maybe] = np.strings.strip(np.strings.replace(whole[maybe], delimiter, "")) == ""
         keep = ~blank & ~np.strings.startswith(np.strings.lstrip(cells[0]), "#")
-        lines, counts, cells, rest, raw = lines[keep], counts[keep], [c[keep] for c in cells], whole[keep], raw[keep]
+        lines, counts, cells, rest = lines[keep], counts[keep], [c[keep] for c in cells], whole[keep]
+        raws = [raw[keep] for raw in raws]
     quoted = '"' in text
     if quoted:
-        raw = np.strings.strip(cells[layout.column])
-    return Rows(lines, cells, counts, raw, quoted, rest, quoted or may_hold_formulas(text, layout.delimiter))
+        raws = [np.strings.strip(cells[c]) for c in layout.columns]
+    return Rows(lines, cells, counts, raws, quoted, rest, quoted or may_hold_formulas(text, layout.delimiter))
 
 
 def percentages(layout: Layout, rows: Rows) -> tuple["object", "object"]:
-    """(percent of the composition column's element, NaN where there is none; the reason a row
-    could not be read, "" where it could) for the rows of a block."""
+    """(percent of each composition column's element, an array of one column per element named,
+    NaN where a row has none; the reason a row could not be read, "" where it could) for the
+    rows of a block."""
     import numpy as np
     from numpy.dtypes import StringDType
 
-    raw = rows.raw
-    if layout.delimiter != ",":         # a decimal comma where commas do not split cells
-        comma = (np.strings.count(raw, ",") == 1) & (np.strings.find(raw, ".") < 0)
-        raw = np.where(comma, np.strings.replace(raw, ",", "."), raw)
-    percent, readable = _floats(raw)
     reason = np.full(rows.count, "", dtype=StringDType())
-    label = layout.label
-    outside = readable & ~((percent >= 0.0) & (percent <= 100.0))
-    unreadable = ~readable & (rows.raw != "")
-    for k in np.flatnonzero(outside):
-        reason[k] = f"{label} {rows.raw[k]} is outside 0-100 %"
-    for k in np.flatnonzero(unreadable):
-        reason[k] = f"{label} {str(rows.raw[k])!r} is not a number"
-    reason[rows.raw == ""] = f"no {label} value"
-    too_many = rows.counts > len(layout.header)
-    for k in np.flatnonzero(too_many):
+    percent = np.full((rows.count, len(layout.columns)), np.nan)
+    for j in reversed(range(len(layout.columns))):        # the first column's problem is the one told
+        raw, label = rows.raws[j], layout.labels[j]
+        text = raw
+        if layout.delimiter != ",":         # a decimal comma where commas do not split cells
+            comma = (np.strings.count(raw, ",") == 1) & (np.strings.find(raw, ".") < 0)
+            text = np.where(comma, np.strings.replace(raw, ",", "."), raw)
+        percent[:, j], readable = _floats(text)
+        for k in np.flatnonzero(readable & ~((percent[:, j] >= 0.0) & (percent[:, j] <= 100.0))):
+            reason[k] = f"{label} {raw[k]} is outside 0-100 %"
+        for k in np.flatnonzero(~readable & (raw != "")):
+            reason[k] = f"{label} {str(raw[k])!r} is not a number"
+        reason[raw == ""] = f"no {label} value"
+    if len(layout.columns) > 1:
+        total = percent.sum(axis=1)
+        for k in np.flatnonzero((reason == "") & (total > 100.0 + 1e-9)):
+            reason[k] = f"{' + '.join(layout.labels)} = {total[k]:g} %, over 100 %"
+    for k in np.flatnonzero(rows.counts > len(layout.header)):
         reason[k] = f"{rows.counts[k]} values but the header has {len(layout.header)} columns"
     percent[reason != ""] = np.nan
     return percent, reason

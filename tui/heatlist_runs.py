@@ -35,6 +35,8 @@ from .quote import quoted_path
 #: Bytes of the heat list per block (about 16,000 rows of a short list); a block is the unit
 #: of work sent to a worker and of progress saved for --resume.
 BLOCK_BYTES = 1 << 18
+#: Bytes per block for alloys of three or more elements (a few heats: each costs seconds).
+ALLOY_BLOCK_BYTES = 256
 #: Blocks in flight per worker (enough to keep every worker busy while this process writes).
 WINDOW_PER_WORKER = 2
 #: Heats whose identifiers are checked for repeats (16 bytes each, twice that while two runs
@@ -269,6 +271,10 @@ def _connect(address: str):
                            f"({detail[:120]})") from None
 
 
+def _block_bytes(job: BlockJob) -> int:
+    return BLOCK_BYTES if job.table is not None else ALLOY_BLOCK_BYTES
+
+
 def in_order(workers: Workers, items: Iterator[Block]) -> Iterator[tuple[int, int, BlockResult]]:
     """(offset after, line after, result) of each block in input order, with at most the
     workers' window in flight."""
@@ -338,7 +344,7 @@ def _run_to_stdout(plan: Plan, stop: _Stop) -> Totals:
     workers = Workers(plan.job, plan.workers, plan.cluster)
     try:
         for _offset, line, result in in_order(workers, blocks(plan.source, layout.data_offset, layout.data_line,
-                                                              plan.scan.size, BLOCK_BYTES)):
+                                                              plan.scan.size, _block_bytes(plan.job))):
             write(result.text)
             _count(totals, duplicates, result)
             progress.show(totals.heats, line)
@@ -374,7 +380,7 @@ def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals
             workers = Workers(plan.job, plan.workers, plan.cluster)
             try:
                 for after, after_line, result in in_order(workers, blocks(plan.source, offset, line, plan.scan.size,
-                                                                          BLOCK_BYTES)):
+                                                                          _block_bytes(plan.job))):
                     out.write(result.text)
                     _count(totals, duplicates, result)
                     offset, line = after, after_line
@@ -453,7 +459,7 @@ def _resumed(plan: Plan, out, state_file: Path, note: Callable[[str], None]):
     if not totals.duplicate_check_full:          # the identifiers already written, read again
         rebuilt = Totals()
         layout = plan.job.layout
-        for block in blocks(plan.source, layout.data_offset, layout.data_line, offset, BLOCK_BYTES):
+        for block in blocks(plan.source, layout.data_offset, layout.data_line, offset, _block_bytes(plan.job)):
             duplicates.add(*identifiers(plan.job, block.first_line, block.data), rebuilt)
         totals.duplicate_check_full = rebuilt.duplicate_check_full
     note(f"resuming at line {line}: {totals.heats:,} heats were written before")

@@ -1,5 +1,7 @@
 """Melt ranges and Scheil ends of many alloys of one system at once (heat lists).
 
+Binary systems (`CompositionTable`, all alloys together with numpy):
+
 Everything comes from the system's traced liquidus branches (engine/solidify_branches.py),
 computed once per system, evaluated for all alloys together with numpy:
 
@@ -12,8 +14,16 @@ computed once per system, evaluated for all alloys together with numpy:
 
 The branch interpolation is exact to about 1e-5 K in temperature (see solidify_branches); the
 heat-list benchmark (tests/benchmarks/batch_bench.py) measures the agreement with the one-alloy
-computations. Temperatures in K, compositions as mole fraction of B, constituents as mass
-fractions of the alloy.
+computations.
+
+Systems of three or more elements (`evaluate_alloys`, one alloy at a time): the liquidus and
+solidus from the alloy's transition scan (engine/diagrams/alloy_transitions.py), the Scheil end
+and the eutectic constituents (binary and ternary eutectics, ...: every constituent of two or
+more solids forming together) from its Scheil path (engine/solidify/alloy_scheil.py); seconds per alloy, so that a heat list
+of such alloys is worth spreading over every core or a cluster.
+
+Temperatures in K, compositions as mole fraction of B (binary) or of every element, constituents
+as mass fractions of the alloy.
 """
 
 from __future__ import annotations
@@ -171,3 +181,29 @@ def _monotone_runs(branch) -> list[tuple[np.ndarray, ...]]:
 def composition_table(system) -> CompositionTable:
     """The heat-list table of `system`, built once per system."""
     return CompositionTable(system)
+
+
+def evaluate_alloys(system, x: np.ndarray, scheil: bool) -> tuple[HeatResults, list[str | None]]:
+    """Heat-list answers for alloys of any number of elements, one per row of `x` (mole
+    fractions of every element in the system's order), and for each the reason (one line) it
+    could not be computed, or None. The equilibrium eutectic constituent is not computed (NaN)."""
+    from ..diagrams.alloy_transitions import alloy_transitions
+    from .alloy_scheil import alloy_scheil
+
+    n = len(x)
+    out = {name: np.full(n, np.nan) for name in ("liquidus", "solidus", "end", "eutectic")}
+    problems: list[str | None] = [None] * n
+    for k, alloy in enumerate(np.asarray(x, dtype=float)):
+        try:
+            scan = alloy_transitions(system, alloy)
+            out["liquidus"][k] = np.nan if scan.liquidus_K is None else scan.liquidus_K
+            out["solidus"][k] = np.nan if scan.solidus_K is None else scan.solidus_K
+            if scheil:
+                path = alloy_scheil(system, alloy)
+                out["end"][k] = np.nan if path.end_K is None else path.end_K
+                out["eutectic"][k] = sum(c.mass_fraction for c in path.constituents if "eutectic" in c.name)
+        except ValueError as e:             # PathError and TemperatureOutOfRange among them
+            problems[k] = str(e).splitlines()[0] if str(e) else type(e).__name__
+    if not scheil:
+        out["eutectic"][:] = np.nan
+    return HeatResults(out["liquidus"], out["solidus"], np.full(n, np.nan), out["end"], out["eutectic"]), problems

@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import csv
 import io
+import sys
 from pathlib import Path
 
 import numpy as np
@@ -266,3 +267,75 @@ def test_outputs_that_are_not_regular_files_are_refused(tmp_path, capsys):
         main(["batch", "al-si", str(tmp_path / "h.csv"), "-o", "/dev/null", "--force"])
     assert e.value.code == 2
     assert "/dev/null: not a regular file" in capsys.readouterr().err
+
+
+# --- alloys of three or more elements: one column per element but the balance ---------------------------
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
+
+import ideal_ternaries as it  # noqa: E402
+
+
+@pytest.fixture
+def ideal_ternary(tmp_path, monkeypatch) -> Path:
+    """The invented ideal ternary eutectic (Pb, Sn, Bi standing for A, B, C) as a system file,
+    answered by its closed-form equilibria (tests/unit/ideal_ternaries.py) for speed."""
+    from ladle.engine.diagrams import alloy_transitions
+    from ladle.engine.solidify import alloy_scheil
+
+    solve = it.equilibrate_for(it.eutectic_system())
+    for module in (alloy_transitions, alloy_scheil):
+        monkeypatch.setattr(module, "equilibrate", solve)
+    return it.write_system_files(tmp_path)["ideal-eutectic"]
+
+
+def _ideal_liquidus_K(z: np.ndarray) -> float:
+    """The liquidus of an ideal liquid over pure solids: the highest T at which some z_i equals
+    the saturation x_i = exp(-dH_i (1 - T/Tm_i) / RT), i.e. 1/T = 1/Tm_i - R ln(z_i) / dH_i (the
+    ideal freezing-point equation: Gaskell and Laughlin, Introduction to the Thermodynamics of
+    Materials, 6th ed. (2017), ch. 10)."""
+    return float(np.max(1.0 / (1.0 / it.MELTING_K - it.R * np.log(z) / it.FUSION_J)))
+
+
+def _ternary_eutectic_K() -> float:
+    """Where the liquid is saturated with all three solids: sum_i x_i(T) = 1 (scipy's brentq)."""
+    from scipy.optimize import brentq
+
+    return brentq(lambda T: it.saturation(T).sum() - 1.0, 300.0, 1000.0, xtol=1e-10)
+
+
+def test_a_ternary_heat_list_names_all_but_the_balance(ideal_ternary, tmp_path, capsys):
+    path = tmp_path / "heats.csv"
+    path.write_text("heat,Sn at%,Bi at%\nT1,20,10\nT2,30,30\nT3,abc,5\nT4,60,50\n")
+    outputs = []
+    for workers in ("1", "2"):
+        out = tmp_path / f"out{workers}.csv"
+        assert main(["batch", str(ideal_ternary), str(path), "--unit", "K", "--workers", workers, "-o", str(out)]) == 1
+        outputs.append(out.read_bytes())
+    assert outputs[0] == outputs[1]
+    rows = _rows(outputs[0].decode())
+    assert "eutectic_equilibrium_mass%_of_alloy" not in rows[0]
+    eutectic_K = _ternary_eutectic_K()
+    for row, z in ((rows[0], [0.7, 0.2, 0.1]), (rows[1], [0.4, 0.3, 0.3])):
+        assert float(row["liquidus_K"]) == pytest.approx(_ideal_liquidus_K(np.array(z)), abs=0.051)
+        assert float(row["solidus_K"]) == pytest.approx(eutectic_K, abs=0.051)
+        assert float(row["scheil_end_K"]) == pytest.approx(eutectic_K, abs=0.051)
+        assert 0.0 < float(row["eutectic_scheil_mass%_of_alloy"]) < 100.0 and row["note"] == ""
+    assert rows[2]["note"] == "Sn at% 'abc' is not a number"
+    assert rows[3]["note"] == "Sn at% + Bi at% = 110 %, over 100 %"
+    assert "2 of 4 heats computed" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("header, message", [
+    ("heat,Sn at%", "name every element but the balance in a column of its own: columns for Sn leave Pb, Bi"),
+    ("heat,Sn at%,Bi wt%", "the composition columns mix wt% and at%"),
+    ("heat,Sn at%,Sn wt%", "two columns name the same element"),
+    ("heat,Pb at%,Sn at%,Bi at%", "a column for every element ('Pb at%', 'Sn at%', 'Bi at%'); leave out one"),
+])
+def test_ternary_headers_that_do_not_make_an_alloy(ideal_ternary, tmp_path, capsys, header, message):
+    path = tmp_path / "bad.csv"
+    path.write_text(f"{header}\nX,1,1,1\n")
+    with pytest.raises(SystemExit) as e:
+        main(["batch", str(ideal_ternary), str(path)])
+    assert e.value.code == 2
+    err = capsys.readouterr().err
+    assert message in err and err.count("\n") == 1

@@ -95,7 +95,7 @@ def _read(path, elements=("Al", "Si"), block_bytes=1 << 20):
     for block in blocks(path, layout.data_offset, layout.data_line, scan.size, block_bytes):
         rows = parse_block(layout, block.first_line, block.data)
         percent, reason = percentages(layout, rows)
-        heats += [(int(rows.lines[k]), [str(c[k]) for c in rows.cells], None if math.isnan(percent[k]) else float(percent[k]),
+        heats += [(int(rows.lines[k]), [str(c[k]) for c in rows.cells], None if math.isnan(percent[k, 0]) else float(percent[k, 0]),
                    str(reason[k]) or None) for k in range(rows.count)]
     return layout, heats
 
@@ -104,7 +104,7 @@ def test_reader_keeps_line_numbers_past_comments_and_quoted_cells(tmp_path):
     path = tmp_path / "h.csv"
     path.write_text('# invented\nheat,"Si wt%"\n"A, first",7.5\n\nB,x\n')
     layout, heats = _read(path)
-    assert (layout.column, layout.element, layout.basis) == (1, "Si", "wt")
+    assert (layout.columns, layout.elements, layout.basis) == ((1,), ("Si",), "wt")
     assert heats == [(3, ["A, first", "7.5"], 7.5, None), (5, ["B", "x"], None, "Si wt% 'x' is not a number")]
     with pytest.raises(CommandError, match="not a text file"):
         (tmp_path / "b.csv").write_bytes(b"\xff\xfe\x00bad")

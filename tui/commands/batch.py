@@ -37,7 +37,8 @@ def _cores() -> int:
 def add_arguments(p: argparse.ArgumentParser) -> None:
     add_system_argument(p)
     p.add_argument("file", metavar="FILE.csv",
-                   help="the heats: an identifier column and one composition column such as 'Si wt%%' (only read)")
+                   help="the heats: an identifier column and a composition column such as 'Si wt%%' (for three or "
+                        "more elements one per element but the balance, e.g. 'Sn wt%%' and 'Bi wt%%'; only read)")
     p.add_argument("--superheat", metavar="DT",
                    help="adds pouring = liquidus + DT, e.g. 60C or 100F (at most 500 K): your shop's rule, not ladle's advice")
     p.add_argument("--melt-only", action="store_true", help="melt ranges only, without the Scheil columns")
@@ -72,14 +73,13 @@ def run(args: argparse.Namespace) -> int:
         raise CommandError("--resume continues a run that writes a file: give its -o OUT.csv")
     _check_output(output, args.force, source)
     system = open_system(args.system, args.without)
-    if len(system.elements) != 2:
-        raise CommandError(f"heat lists take binary systems for now; {system.name} has {len(system.elements)} elements")
     scan = scan_heat_list(source, args.encoding)
     layout = read_layout(source, scan, system.elements)
 
     from ladle.engine.solidify.table import composition_table
 
-    job = BlockJob(layout, composition_table(system), unit, superheat[0] if superheat else None, not args.melt_only)
+    table = composition_table(system) if len(system.elements) == 2 else None
+    job = BlockJob(layout, system, table, unit, superheat[0] if superheat else None, not args.melt_only)
     options = {"system": system.name, "without": sorted(args.without), "unit": unit,
                "superheat_K": job.superheat_K, "scheil": job.scheil, "encoding": layout.encoding}
     plan = Plan(source, scan, job, output, args.force, args.resume, args.workers or _cores(), args.cluster, options)
