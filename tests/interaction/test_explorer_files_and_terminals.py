@@ -42,6 +42,21 @@ async def test_p_saves_the_screen_as_text_and_svg(clean_environment):
 
 
 @pilot_test
+async def test_p_numbers_the_text_and_svg_alike_and_says_where_under_a_server(clean_environment, monkeypatch):
+    (clean_environment / "ladle-screen-pb-sn-diagram.svg").write_text("an older picture")
+    app = make_app(T_K=458.15, x_B=0.5)
+    monkeypatch.setattr(type(app), "is_web", property(lambda self: True))     # as under ladle serve
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("p")
+        await pilot.pause()
+        notices = [n.message for n in app._notifications]
+    assert sorted(p.name for p in clean_environment.glob("ladle-screen-*")) == [
+        "ladle-screen-pb-sn-diagram-2.svg", "ladle-screen-pb-sn-diagram-2.txt", "ladle-screen-pb-sn-diagram.svg"]
+    assert (clean_environment / "ladle-screen-pb-sn-diagram.svg").read_text() == "an older picture"
+    assert any("on the server's disk" in n and "diagram-2.txt" in n and "diagram-2.svg" in n for n in notices)
+
+
+@pilot_test
 async def test_the_point_and_units_are_remembered_between_runs(clean_environment):
     path = state_path()
     app = make_app(T_K=500.0, x_B=0.5, state_file=path)
