@@ -8,6 +8,7 @@ rich in ("fcc (Ag-rich)"), as the cooling paths name them.
 
 from __future__ import annotations
 
+import re
 from collections.abc import Sequence
 
 from ladle.engine.files.trade_names import trade_names
@@ -29,6 +30,18 @@ def phase_label(system, phase: str, x_B: float, temperature_K: float,
     if not trade:
         return phase
     return f"{phase} {trade}" if trade.startswith("(") else f"{phase} ({trade})"
+
+
+def with_trade_names(system, text: str, temperature_K: float) -> str:
+    """`text` (a constituent such as 'eutectic fcc + bct') with the trade's name beside each
+    phase named in it ('eutectic fcc (Pb) + bct (Sn)'); a name already followed by a bracket
+    (a side of a gap, 'fcc (Ag-rich)') is left as it is."""
+    def named(match: re.Match) -> str:
+        return phase_label(system, match.group(0), 0.0, temperature_K)
+
+    phases = sorted(system.phases, key=len, reverse=True)
+    pattern = r"(?<![\w(])(" + "|".join(map(re.escape, phases)) + r")(?![\w)]| \()"
+    return re.sub(pattern, named, text)
 
 
 def short_label(system, phase: str, x_B: float, temperature_K: float,

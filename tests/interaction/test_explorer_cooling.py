@@ -31,7 +31,7 @@ async def test_cooling_view_shows_both_ends_and_the_structure():
         assert re.search(rf"equilibrium +{expected.equilibrium.end_K - 273.15:.0f} °C solidus", status)
         assert re.search(r"Scheil +183 °C eutectic", status)
         eutectic = next(c for c in expected.scheil.constituents if c.name.startswith("eutectic"))
-        assert " eutectic fcc + bct" in status and percent(eutectic.mass_fraction) in status
+        assert " eutectic fcc (Pb) + bct (Sn)" in status and percent(eutectic.mass_fraction) in status
         heats = [f"{p.latent_heat_J_per_g:.0f}" for p in (expected.equilibrium, expected.scheil)]
         assert re.search(rf"latent heat J/g +{heats[0]} +{heats[1]}", status)
         # coring of the (Pb) dendrites: the rim reaches about the largest solubility of Sn in (Pb),

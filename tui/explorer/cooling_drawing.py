@@ -51,27 +51,33 @@ def _points(path, scales: Scales) -> tuple[np.ndarray, np.ndarray]:
 
 def _near_other(points: tuple[np.ndarray, np.ndarray], other: tuple[np.ndarray, np.ndarray],
                 frame: Frame) -> np.ndarray:
-    """For each point, whether a point of the other curve lies within one character cell of it
-    (there the two curves would print over each other)."""
+    """For each point, whether the other curve (its points joined by straight lines) passes
+    within one character cell of it (there the two curves would print over each other)."""
     cell_x = (frame.x_high - frame.x_low) / max(frame.columns - 1, 1)
     cell_y = (frame.y_high - frame.y_low) / max(frame.rows - 1, 1)
-    dx = np.abs(points[0][:, None] - other[0][None, :]) / cell_x
-    dy = np.abs(points[1][:, None] - other[1][None, :]) / cell_y
-    return (np.maximum(dx, dy) <= 1.0).any(axis=1) if other[0].size else \
-        np.zeros(points[0].size, dtype=bool)
+    px, py = points[0][:, None] / cell_x, points[1][:, None] / cell_y     # in cells
+    ox, oy = other[0] / cell_x, other[1] / cell_y
+    if ox.size < 2:
+        return np.zeros(px.shape[0], dtype=bool) if ox.size == 0 else \
+            (np.hypot(px[:, 0] - ox[0], py[:, 0] - oy[0]) <= 1.0)
+    ax, ay, dx, dy = ox[:-1], oy[:-1], np.diff(ox), np.diff(oy)
+    length2 = np.maximum(dx * dx + dy * dy, 1e-12)
+    t = np.clip(((px - ax) * dx + (py - ay) * dy) / length2, 0.0, 1.0)   # nearest point of each segment
+    distance = np.hypot(px - (ax + t * dx), py - (ay + t * dy))
+    return (distance <= 1.0).any(axis=1)
 
 
-def _pieces(points: tuple[np.ndarray, np.ndarray], keep: np.ndarray,
-            frame: Frame) -> tuple[list[float], list[float]]:
-    """The runs of kept points (each with its neighbours, so the pieces join the rest of the
-    curve), thinned and joined into one NaN-separated series."""
+def _pieces(points: tuple[np.ndarray, np.ndarray], keep: np.ndarray, frame: Frame,
+            reach: int = 1) -> tuple[list[float], list[float]]:
+    """The runs of kept points (each with `reach` neighbours on either side, so the pieces join
+    the rest of the curve), thinned and joined into one NaN-separated series."""
     runs = []
     start = None
     for i, flag in enumerate(list(keep) + [False]):
         if flag and start is None:
             start = i
         elif not flag and start is not None:
-            lo, hi = max(start - 1, 0), min(i + 1, keep.size)
+            lo, hi = max(start - reach, 0), min(i + reach, keep.size)
             runs.append(thin_polyline(points[0][lo:hi], points[1][lo:hi], frame))
             start = None
     return joined(runs)
@@ -99,7 +105,7 @@ def cooling_scene(solidification, scales: Scales, glyphs: Glyphs, width: int, he
     eq_points, sc_points = _points(eq, scales), _points(sc, scales)
     sc_shared = _near_other(sc_points, eq_points, frame)
     eq_shared = _near_other(eq_points, sc_points, frame)
-    return CoolingScene(frame, _pieces(sc_points, sc_shared, frame),
+    return CoolingScene(frame, _pieces(sc_points, sc_shared, frame, reach=0),
                         _pieces(eq_points, ~eq_shared, frame), _pieces(sc_points, ~sc_shared, frame),
                         ends, place_labels(labels, frame), "solid, mass % of the alloy",
                         f"T {unit}")
@@ -111,10 +117,10 @@ def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs) -> None:
     temperature over the built picture."""
     frame = scene.frame
     draw_frame(plt, frame, scene.x_title, scene.y_title)
-    for curve, marker, colour, name in (
-            (scene.shared, glyphs.invariant_marker, SHARED_COLOUR, SHARED_NAME),
+    for curve, marker, colour, name in (   # the shared part last: where both paths are, it shows
             (scene.equilibrium, glyphs.boundary_marker, EQUILIBRIUM_COLOUR, PATH_NAMES["equilibrium"]),
-            (scene.scheil, glyphs.envelope_marker, SCHEIL_COLOUR, PATH_NAMES["scheil"])):
+            (scene.scheil, glyphs.envelope_marker, SCHEIL_COLOUR, PATH_NAMES["scheil"]),
+            (scene.shared, glyphs.invariant_marker, SHARED_COLOUR, SHARED_NAME)):
         if curve[0]:   # plotext cannot draw the legend of an empty series
             plt.plot(*curve, marker=marker, color=colour, label=name)
     for x, T in scene.ends:

@@ -4,8 +4,11 @@ primary solid by Scheil. Plain text as (role, text) lines, no screen code."""
 
 from __future__ import annotations
 
+import textwrap
+
 from ladle.engine.solidify.coring import Coring
 from ladle.tui.cooling_text import PATH_NAMES, structure_rows
+from ladle.tui.phase_names import with_trade_names
 from ladle.tui.quote import percent
 
 from .glyphs import Glyphs
@@ -14,7 +17,7 @@ from .scales import Scales
 from .status_lines import WIDTH, Line
 
 
-def cooling_lines(result, coring: Coring | None, element_B: str, scales: Scales,
+def cooling_lines(result, coring: Coring | None, system, scales: Scales,
                   glyphs: Glyphs) -> list[Line]:
     """`result`: the engine's Solidification of the cursor's alloy, a one-line reason why there
     is none, or None while it is being computed; `coring`: its Scheil primary solid's."""
@@ -32,9 +35,16 @@ def cooling_lines(result, coring: Coring | None, element_B: str, scales: Scales,
         T = format_temperature_value(scales.shown_temperature(path.end_K))
         lines.append(("value", f" {name:<12}{T:>5} {unit} {path.end}"[:WIDTH]))
     lines.append(("heading", f"{'STRUCTURE, mass %':<17}{'eq.':>6}{'Sch.':>7}"))
+    ends = [p.end_K for p in (result.equilibrium, result.scheil) if p.end_K is not None]
+    T_end = min(ends) if ends else result.equilibrium.liquidus_K   # trade names at the end
+    primary = None
     for constituent, fractions in structure_rows(result):
         amounts = ["-" if f is None else percent(f) for f in fractions]
-        lines.append(("value", f" {constituent}"))
+        named = with_trade_names(system, constituent, T_end)
+        if primary is None and constituent.startswith("primary "):
+            primary = named.removeprefix("primary ")
+        lines += [("value", line) for line in textwrap.wrap(named, WIDTH - 1, initial_indent=" ",
+                                                            subsequent_indent="   ")]
         lines.append(("value", f"{'':<17}{amounts[0]:>6}{amounts[1]:>7}"))
     heats = [f"{result.path(model).latent_heat_J_per_g:.0f}" for model in PATH_NAMES]
     lines.append(("value", f" {'latent heat J/g':<16}{heats[0]:>6}{heats[1]:>7}"))
@@ -42,6 +52,8 @@ def cooling_lines(result, coring: Coring | None, element_B: str, scales: Scales,
                                   - scales.shown_composition(coring.x_core)) >= 0.05:
         comp = scales.composition_unit
         core, rim = (percent(scales.shown_fraction(x)) for x in (coring.x_core, coring.x_rim))
-        lines.append(("heading", f"CORING of {coring.phase}, Scheil"[:WIDTH]))
-        lines.append(("value", f" core {core}  rim {rim} {element_B} {comp}%"[:WIDTH]))
+        name = primary if primary and primary.startswith(coring.phase) else coring.phase
+        heading = f"CORING (Scheil) {name}"
+        lines.append(("heading", heading if len(heading) <= WIDTH else "CORING (Scheil)"))
+        lines.append(("value", f" core {core}  rim {rim} {system.elements[1]} {comp}%"[:WIDTH]))
     return lines

@@ -43,6 +43,7 @@ from .help import HelpScreen
 from .systems import SystemPicker
 
 MIN_WIDTH, MIN_HEIGHT = 80, 24
+NOTICE_S = 3.0   # a "wrote ..." notice leaves the status pane after this long
 PREWARM_DELAY_S = 1.0   # the systems are loaded for the picker this long after the start
 NOTICE_WAITS = 20   # frames to wait at most for notices to leave before a screenshot
 FRAME_S = 0.02
@@ -140,8 +141,8 @@ class ExploreScreen(Screen[None]):
             cooling = self.query_one(CoolingView)
             lines = ([("heading", "ALLOY"), alloy_line(e.cursor.x_B, e.system.elements[1], e.scales)]
                      + melt_lines(reading, e.scales, self.glyphs)
-                     + cooling_lines(cooling.answer(), cooling.coring(), e.system.elements[1],
-                                     e.scales, self.glyphs))
+                     + cooling_lines(cooling.answer(), cooling.coring(), e.system, e.scales,
+                                     self.glyphs))
         elif self.view == "energy":
             lines = (point_lines(reading, e.system.elements[1], e.scales, self.glyphs)
                      + phase_lines(reading, e.system, e.scales) + energy_lines(reading))
@@ -295,7 +296,7 @@ class ExploreScreen(Screen[None]):
             self.app.copy_to_clipboard(next(iter(texts.values())))
         where = " on the server's disk" if self.app.is_web else ""
         self.app.notify(f"wrote {' and '.join(str(p) for p in paths)}{where}"
-                        + (" (and copied it)" if also_copy else ""))
+                        + (" (and copied it)" if also_copy else ""), timeout=NOTICE_S)
 
     # -- remembering the point -------------------------------------------------------------
 
