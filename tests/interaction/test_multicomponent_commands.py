@@ -86,6 +86,8 @@ def test_isothermal_section_on_the_triangle(run, ternary):
 
 SECTION_MISTAKES = [
     (("diagram", "ideal-eutectic", "--vary", "B=0..85at%"), "an isopleth needs both --comp SPEC and --vary"),
+    (("diagram", "ideal-eutectic"), "ideal-eutectic has 3 elements: give --comp SPEC --vary EL=A..B for an isopleth or "
+                                    "--temp T for an isothermal section"),
     (("diagram", "ideal-eutectic", "--comp", "C=15at%", "--vary", "B=0..85wt%"), "--vary B is in wt% but the alloy is in at%"),
     (("diagram", "ideal-eutectic", "--comp", "C=15at%", "--vary", "B=0..85at%", "--temp", "650K"), "not both"),
     (("diagram", "ideal-eutectic", "--comp", "C=15at%", "--vary", "Q=0..85at%"), "element Q is not in this system"),
@@ -124,8 +126,11 @@ def test_melt_a_ternary_alloy(run, ternary):
     assert data["liquidus_K"] == pytest.approx(brentq(lambda T: it.saturation(T)[0] - 0.6, 500, 1300), abs=1e-5)
     assert data["solidus_K"] == pytest.approx(brentq(lambda T: it.saturation(T).sum() - 1.0, 400, 1000), abs=1e-5)
     assert data["crossings"][0]["above"] == ["liquid"] and set(data["mole_fraction"]) == {"A", "B", "C"}
-    code, out, _ = run("melt", "ideal-eutectic", "--comp", "B=25at%,C=15at%")
+    code, out, _ = run("melt", "ideal-eutectic", "--comp", "B=25at%,C=15at%", "--superheat", "60C")
     assert "liquidus" in out and "freezing range" in out and "alpha + beta + gamma" in out
+    assert "liquidus + your superheat of 60.0" in out and "(ladle advises none)" in out
+    code, js, _ = run("melt", "ideal-eutectic", "--comp", "B=25at%,C=15at%", "--superheat", "60C", "--json")
+    assert json.loads(js)["pouring_K"] == pytest.approx(data["liquidus_K"] + 60.0, abs=1e-9)
 
 
 # --- through the engine itself: a ternary system file (tests/unit/ideal_ternaries.py) -------------------

@@ -108,9 +108,9 @@ def run(args: argparse.Namespace) -> int:
     for line in eutectic_lines(system, x_b, m.freezing_range_K, unit):
         print(line)
     if superheat_K is not None:
-        pouring = "no liquidus in the mapped range" if pouring_K is None else temperature_both(pouring_K, unit)
-        print(f"pouring         {pouring}: liquidus + your superheat of "
-              f"{quote.temperature_difference(superheat_K, unit)} (ladle advises none)")
+        from .alloy_melt import pouring_line
+
+        print(pouring_line(pouring_K, superheat_K, unit))
     print("on cooling:")
     for c in m.crossings:
         print(f"  {quote.temperature(c.temperature_K, unit):>12}  {' + '.join(c.above)}  ->  {' + '.join(c.below)}")

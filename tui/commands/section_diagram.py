@@ -34,6 +34,9 @@ def run_section(system, args: argparse.Namespace) -> int:
         raise CommandError("give either --comp with --vary (an isopleth) or --temp (an isothermal section), not both")
     if args.temp:
         return _isothermal(system, args)
+    if not (args.comp or args.vary):
+        raise CommandError(f"{system.name} has {len(system.elements)} elements: give --comp SPEC --vary EL=A..B for an "
+                           f"isopleth{' or --temp T for an isothermal section' if len(system.elements) == 3 else ''}")
     if not (args.comp and args.vary):
         raise CommandError("an isopleth needs both --comp SPEC and --vary EL=A..B, e.g. --comp Ag=3wt% --vary Cu=0..2wt%")
     return _isopleth(system, args)
