@@ -232,35 +232,48 @@ def global_minimum(models: dict[str, object], z: np.ndarray) -> GlobalMinimum:
     lp = LowestCombination(np.vstack([p.X for p in phases]), np.concatenate([p.G for p in phases]), za)
     if lp.uses_artificial:
         raise ValueError("no combination of the phases reaches this composition")
+    n_active = len(elements)
+    states, mu = _start_states(lp, cloud, active), lp.mu
+    good = False                            # whether `states` and `mu` are a converged solve
     converged = False
-    states: list[PhaseState] = []
-    mu = lp.mu
     scale = abs(lp.gibbs) + 1.0
     tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * scale)
     for _ in range(_ROUNDS):
-        states = _start_states(lp, cloud, active)
-        states, mu_new, ok = solve(states, za, lp.mu, elements)
-        states = _merge_duplicates(states)
+        refined, mu_new, ok = solve(states, za, mu, elements)
         if ok:
-            mu = mu_new
-        else:
+            states, mu, good = _merge_duplicates(refined), mu_new, True
+        elif not good:
             states, mu = _start_states(lp, cloud, active), lp.mu
         found = _candidates(cloud, states, mu, elements, tol)
         converged = ok and not found
         if not found:
             break
+        if ok and len(states) < n_active:   # room for one more phase: add the lowest, amount 0
+            p, y, _df = min(found, key=lambda c: c[2])
+            states = states + [PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free)]
+            continue
+        # no room (or no converged state): the linear program decides, from the refined plane
         add_X, add_G = [], []
-        seeds = [(p, y) for p, y, _df in found]
-        if ok:
-            seeds += [(next(i for i, ph in enumerate(phases) if ph.name == st.name), st.y) for st in states]
+        first = len(lp.G)
+        state_columns = []
+        seeds = [(_phase_index(phases, st.name), st.y) for st in states] if good else []
+        seeds += [(p, y) for p, y, _df in found]
         for p, y0 in seeds:
-            for y in _neighbourhood(phases[p], y0):
+            for k, y in enumerate(_neighbourhood(phases[p], y0)):
+                if k == 0 and len(state_columns) < len(states) and good:
+                    state_columns.append(first + len(add_G))
                 x, g = _per_atom(phases[p].model, y, active)
                 cloud.add(p, y)
                 add_X.append(x)
                 add_G.append(g)
-        lp.add(np.array(add_X), np.array(add_G))
+        restart = np.array(state_columns) if good and len(state_columns) == n_active else None
+        lp.add(np.array(add_X), np.array(add_G), restart)
+        states, mu, good = _start_states(lp, cloud, active), lp.mu, False
     return _result(states, mu, z, active, elements, converged)
+
+
+def _phase_index(phases: list[_Phase], name: str) -> int:
+    return next(i for i, ph in enumerate(phases) if ph.name == name)
 
 
 def _result(states: list[PhaseState], mu_active: np.ndarray, z: np.ndarray, active: np.ndarray,

@@ -106,10 +106,16 @@ class LowestCombination:
         self.gibbs = float(self.weights @ cost)
 
     # --- public ------------------------------------------------------------------------------
-    def add(self, X: np.ndarray, G: np.ndarray) -> None:
-        """Append points (X: (k, N), G: (k,)) and continue the solve from the current basis."""
+    def add(self, X: np.ndarray, G: np.ndarray, restart: np.ndarray | None = None) -> None:
+        """Append points (X: (k, N), G: (k,)) and continue the solve from the current basis, or
+        from `restart` (N point indices forming a feasible basis, such as refined phases whose
+        amounts make z) when given and not singular."""
         self.XT = np.hstack([self.XT, np.asarray(X, dtype=float).T])
         self.G = np.concatenate([self.G, G])
+        if restart is not None:
+            cols, _cost = self._columns(np.asarray(restart))
+            if np.linalg.matrix_rank(cols) == len(self.z) and np.all(np.linalg.solve(cols.T, self.z) >= -1e-12):
+                self.basis = np.array(restart)
         self.max_iterations = self.iterations + 60 * len(self.z) + 40
         self._solve()
 

@@ -19,7 +19,7 @@ constituents) and an increasing one the plain step. A phase whose amount turns n
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -106,9 +106,10 @@ def _layout(states: list[PhaseState], elements: np.ndarray) -> tuple[list[tuple]
 def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.ndarray,
           max_iterations: int = MAX_ITERATIONS) -> tuple[list[PhaseState], np.ndarray, bool]:
     """Refine `states` to the equilibrium at overall composition z (mole fractions of the active
-    `elements`, an index array) from chemical potentials mu (J/mol, active elements). Returns the
-    states that remain (amounts >= 0), mu and whether the residual met its tolerance."""
-    states = list(states)
+    `elements`, an index array) from chemical potentials mu (J/mol, active elements); `states` are
+    not changed. Returns refined copies of the states that remain (amounts >= 0), mu and whether
+    the residual met its tolerance."""
+    states = [replace(st, y=st.y.copy()) for st in states]
     mu = np.array(mu, dtype=float)
     ne = len(elements)
     extra_step = False

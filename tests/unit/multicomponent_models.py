@@ -225,3 +225,28 @@ def system_of(elements: tuple[str, ...], phases: list, molar_mass: np.ndarray | 
     mm = np.full(len(elements), 50.0) if molar_mass is None else np.asarray(molar_mass, dtype=float)
     return SimpleNamespace(name="test", elements=tuple(elements), molar_mass=mm,
                            models={p.name: p for p in phases}, phases={})
+
+
+def random_system(rng: np.random.Generator, n_elements: int, n_solutions: int = 3, n_compounds: int = 2,
+                  sublattice_phase: bool = False):
+    """An invented system for randomised checks: `n_solutions` Redlich-Kister solutions with
+    random end members and pair terms (orders 0 and 1, strong enough for miscibility gaps),
+    `n_compounds` binary compounds, and optionally a two-sublattice phase (A,B)1(C,Va)1.
+    Returns (elements, phases)."""
+    els = tuple("ABCDEF"[:n_elements])
+    phases: list = []
+    for p in range(n_solutions):
+        g0 = tuple((float(rng.uniform(-3000, 6000)), float(rng.uniform(-4, 0))) for _ in els)
+        L = {(i, j): ((float(rng.uniform(-20000, 30000)), 0.0), (float(rng.uniform(-5000, 5000)), 0.0))
+             for i in range(n_elements) for j in range(i + 1, n_elements)}
+        phases.append(Substitutional(f"s{p}", els, g0, L))
+    for c in range(n_compounds):
+        i, j = rng.choice(n_elements, size=2, replace=False)
+        counts = {int(i): float(rng.integers(1, 4)), int(j): float(rng.integers(1, 4))}
+        phases.append(compound(f"c{c}", n_elements, counts, (float(rng.uniform(-12000, -2000)), 0.0)))
+    if sublattice_phase:
+        end_a = rng.uniform(-8000, 4000, (2, 2))
+        end_a[:, 1] = rng.uniform(-2000, 3000, 2)            # C on the second sublattice vs. a vacancy
+        phases.append(Sublattices("interstitial", n_elements, (1.0, 1.0), ((0, 1), (2, None)),
+                                  end_a, np.zeros((2, 2)), L=float(rng.uniform(-10000, 20000))))
+    return els, phases
