@@ -97,7 +97,6 @@ def alloy_equilibrium_cooling(system, x, top_K: float, bottom_K: float) -> Alloy
         previous = (T, eq)
 
     end = "window"
-    constituents: list[AlloyConstituent] = []
     for c in inside:
         T = c.temperature_K
         if c is inside[0]:
@@ -108,32 +107,60 @@ def alloy_equilibrium_cooling(system, x, top_K: float, bottom_K: float) -> Alloy
             gone = [n for n in c.above if n not in c.below]
             what = [f"{n} starts to form" for n in new] + [f"{n} is used up" for n in gone]
             arrests.append(Arrest(T, "new phase", "; ".join(what) or "the stable phases change"))
+    constituents = _constituents(system, states, forms)
     if end_K is not None:
         above = next(eq for T, eq in states if T == end_K)        # the state just above the end
         below = inside[-1].below_equilibrium
-        plateau_liquid = _liquid_amount(above) > PLATEAU_LIQUID
-        final = [p for p in (above if plateau_liquid else below).phases if p.name != LIQUID]
-        primary = forms[0][0] if forms else None
-        constituents = [AlloyConstituent(f"primary {name}" if name == primary else name, float(p.amount_mass),
-                                         float(p.amount_mol), tuple(float(v) for v in p.x))
-                        for p, name in zip(final, labelled(system, final))]
-        if plateau_liquid:
+        if _liquid_amount(above) > PLATEAU_LIQUID:
             products = list(below.phases)
             end = forming_together(len(products)) if len(products) > 1 else "congruent"
-            liquid = next(p for p in above.phases if p.name == LIQUID)
             plateau = (_enthalpy(system, above, end_K) - _enthalpy(system, below, end_K)) / M
             reaction = " + ".join(labelled(system, products))
             arrests.append(Arrest(end_K, "plateau", f"{end} plateau: liquid -> {reaction}", float(plateau)))
-            constituents.append(AlloyConstituent(f"{end} {reaction}", float(liquid.amount_mass), float(liquid.amount_mol),
-                                                 tuple(float(v) for v in liquid.x)))
         else:
             end = "solidus"
             arrests.append(Arrest(end_K, "end", "solidus: freezing ends"))
     else:
-        last = states[-1][1]
-        constituents = [AlloyConstituent(n if p.name != LIQUID else "liquid left at the bottom of the window",
-                                         float(p.amount_mass), float(p.amount_mol), tuple(float(v) for v in p.x))
-                        for p, n in zip(last.phases, labelled(system, list(last.phases)))]
+        liquid = next(p for p in states[-1][1].phases if p.name == LIQUID)
+        constituents.append(AlloyConstituent("liquid left at the bottom of the window", float(liquid.amount_mass),
+                                             float(liquid.amount_mol), tuple(float(v) for v in liquid.x)))
     notes = tuple(scan.warnings)
     return AlloyPath("equilibrium", system, tuple(float(v) for v in x), liquidus, end_K, end, tuple(steps), tuple(forms),
                      tuple(constituents), heat / M, tuple(arrests), notes)
+
+
+def _constituents(system, states, forms) -> list[AlloyConstituent]:
+    """The structure by what froze together: the liquid lost between two states of the path
+    (its amount and mean composition by mass balance) belongs to the constituent named by the
+    solids present with the liquid at the later state: `primary X` first, `eutectic X + Y` (or
+    `ternary eutectic ...`) while several form together, `peritectic X` where one other solid
+    forms alone later, and, where the last liquid freezes at once at an invariant reaction, the
+    reaction's products. The classical analysis of equilibrium freezing (the solids keep
+    re-equilibrating, so a constituent's composition is that of the liquid it came from)."""
+    order = {n: k for k, (n, _) in enumerate(forms)}
+    found: dict[str, list] = {}
+    previous = None
+    for _T, eq in states:
+        liquid = next((p for p in eq.phases if p.name == LIQUID), None)
+        if previous is not None:
+            f0, x0, m0 = previous.amount_mol, np.asarray(previous.x, dtype=float), previous.amount_mass
+            f1, x1, m1 = (liquid.amount_mol, np.asarray(liquid.x, dtype=float), liquid.amount_mass) if liquid else \
+                (0.0, np.zeros_like(x0), 0.0)
+            if f0 - f1 > 0.0:
+                solids = sorted((p for p in eq.phases if p.name != LIQUID), key=lambda p: order.get(p.name, len(order)))
+                names = labelled(system, solids)
+                if liquid is None and f0 <= PLATEAU_LIQUID and found:
+                    name = next(reversed(found))                     # the last trace joins the stage it ends
+                elif len(names) > 1:
+                    name = f"{forming_together(len(names))} {' + '.join(names)}"
+                elif not found or next(iter(found)) == f"primary {names[0]}":
+                    name = f"primary {names[0]}"
+                else:
+                    name = f"peritectic {names[0]}"
+                stage = found.setdefault(name, [0.0, np.zeros_like(x0), 0.0])
+                stage[0] += f0 - f1
+                stage[1] = stage[1] + f0 * x0 - f1 * x1
+                stage[2] += m0 - m1
+        previous = liquid
+    return [AlloyConstituent(name, float(mass), float(mol), tuple(float(v) for v in elements / mol))
+            for name, (mol, elements, mass) in found.items() if mol > 0.0]

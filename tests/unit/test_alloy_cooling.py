@@ -48,9 +48,11 @@ def test_equilibrium_path_through_a_ternary_eutectic(cool):
     assert eq.end == "ternary eutectic" and eq.end_K == pytest.approx(T_eutectic, abs=1e-6)
     assert [a.kind for a in eq.arrests] == ["liquidus", "new phase", "plateau"]
     names = [c.name for c in eq.constituents]
-    assert names == ["primary alpha", "beta", "ternary eutectic alpha + beta + gamma"]
-    # pure solids keep no memory: the ternary eutectic's share is the Scheil path's
-    assert eq.constituents[-1].fraction_mol == pytest.approx(result.scheil.constituents[-1].fraction_mol, abs=1e-6)
+    assert names == ["primary alpha", "eutectic alpha + beta", "ternary eutectic alpha + beta + gamma"]
+    # pure solids keep no memory: every constituent is the Scheil path's
+    for c_eq, c_scheil in zip(eq.constituents, result.scheil.constituents):
+        assert c_eq.fraction_mol == pytest.approx(c_scheil.fraction_mol, abs=1e-6)
+        assert c_eq.x == pytest.approx(c_scheil.x, abs=1e-6)
 
 
 @pytest.mark.parametrize("make", [it.eutectic_system, it.lens_system])
