@@ -41,7 +41,7 @@ Fail = Callable[[str, str], Exception]
 
 #: Each term of a piece as a function of T, in the order of the coefficients a..h.
 _TERMS = (lambda T: 1.0, lambda T: T, lambda T: T * math.log(T), lambda T: T * T, lambda T: T**3,
-          lambda T: 1.0 / T, lambda T: T**7, lambda T: T**-9)
+          lambda T: 1.0 / T, lambda T: T**7, lambda T: T**-9, lambda T: T**-2, lambda T: T**-3)
 
 
 def check_count(n: int, limit: int, key: str, what: str, fail: Fail) -> None:

@@ -58,7 +58,7 @@ class ParameterPath:
         """The coefficient change (its own unit) that changes G by SCALE_J_PER_MOL at T_ref (K)."""
         lnT = math.log(T_ref)
         term = {"a": 1.0, "b": T_ref, "c": T_ref * lnT, "d": T_ref**2, "e": T_ref**3, "f": 1.0 / T_ref,
-                "g": T_ref**7, "h": T_ref**-9}[self.letter]
+                "g": T_ref**7, "h": T_ref**-9, "i": T_ref**-2, "j": T_ref**-3}[self.letter]
         return SCALE_J_PER_MOL / abs(term)
 
 

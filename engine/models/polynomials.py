@@ -1,7 +1,7 @@
 """Gibbs energies as piecewise functions of temperature.
 
-Each piece is  G(T) = a + b T + c T ln T + d T^2 + e T^3 + f / T + g T^7 + h / T^9  (J/mol, T in K),
-valid from the previous piece's upper limit (or the first piece's lower limit) up to its own.
+Each piece is  G(T) = a + b T + c T ln T + d T^2 + e T^3 + f / T + g T^7 + h / T^9 + i / T^2 + j / T^3
+(J/mol, T in K), valid from the previous piece's upper limit (or the first piece's lower limit) up to its own.
 """
 
 from __future__ import annotations
@@ -14,7 +14,7 @@ from functools import cached_property
 import numpy as np
 
 #: Names of the coefficients, in the order of the terms above.
-COEFFICIENTS = ("a", "b", "c", "d", "e", "f", "g", "h")
+COEFFICIENTS = ("a", "b", "c", "d", "e", "f", "g", "h", "i", "j")
 
 
 class TemperatureOutOfRange(ValueError):
@@ -22,7 +22,7 @@ class TemperatureOutOfRange(ValueError):
 
 
 def _evaluate(row: tuple[float, ...], T: float) -> float:
-    a, b, c, d, e, f, g, h = row
+    a, b, c, d, e, f, g, h, i, j = row
     v = a + T * (b + T * (d + T * e))
     if c:
         v += c * T * math.log(T)
@@ -32,11 +32,13 @@ def _evaluate(row: tuple[float, ...], T: float) -> float:
         v += g * T**7
     if h:
         v += h / T**9
+    if i or j:
+        v += (i + j / T) / (T * T)
     return v
 
 
 def _evaluate_dT(row: tuple[float, ...], T: float) -> float:
-    _a, b, c, d, e, f, g, h = row
+    _a, b, c, d, e, f, g, h, i, j = row
     v = b + T * (2.0 * d + 3.0 * e * T)
     if c:
         v += c * (math.log(T) + 1.0)
@@ -46,6 +48,8 @@ def _evaluate_dT(row: tuple[float, ...], T: float) -> float:
         v += 7.0 * g * T**6
     if h:
         v -= 9.0 * h / T**10
+    if i or j:
+        v -= (2.0 * i + 3.0 * j / T) / (T * T * T)
     return v
 
 

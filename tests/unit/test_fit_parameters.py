@@ -51,7 +51,7 @@ def test_scale_is_one_kilojoule_at_the_reference_temperature():
 @pytest.mark.parametrize("path, message", [
     ("gas.L.0.a", "'gas.L.0.a': no phase 'gas' in this file (phases: liquid, Al2Cu)"),
     ("liquid.L.2.a", "'liquid.L.2.a': phase.liquid.L has 2 entries (0 to 1); add the entry (for example { a = 0 }) to fit it"),
-    ("liquid.L.0.q", "'liquid.L.0.q': expected a coefficient letter (a, b, c, d, e, f, g, h) at the end, found 'q'"),
+    ("liquid.L.0.q", "'liquid.L.0.q': expected a coefficient letter (a, b, c, d, e, f, g, h, i, j) at the end, found 'q'"),
     ("liquid.M.0.a", "'liquid.M.0.a': phase.liquid has keys model, G, L, not 'M'"),
     ("liquid.L.a", "'liquid.L.a': phase.liquid.L is a list; name the entry by its index, such as liquid.L.0.a"),
     ("liquid.a", "'liquid.a': expected phase, key(s) and a coefficient letter, such as \"liquid.L.0.a\""),

@@ -379,3 +379,16 @@ def test_a_temperature_far_outside_the_model_is_an_error_not_an_overflow(tmp_pat
     system = load_system(write(tmp_path, "t7.toml", VALID.replace(PIECE, "G.A = [ { upto = 3000.0, a = 12000.0, g = 1e-20 } ]")))
     with pytest.raises(TemperatureOutOfRange):
         equilibrate(system, 1e60, 0.5)
+
+
+def test_terms_in_inverse_square_and_cube_of_temperature(tmp_path):
+    """i/T^2 and j/T^3 (graphite's function has them): read, evaluated as written out, dG/dT by
+    central differences; refused where a term exceeds the bound (j / T^3 at 1 K)."""
+    piece = "G.A = [ { from = 298.15, upto = 3000.0, a = 1000.0, f = 2.5e6, i = -2.6e8, j = 1.2e10 } ]"
+    system = load_system(write(tmp_path, "ij.toml", VALID.replace(PIECE, piece)))
+    G = system.models["liquid"].end_members[("A",)]
+    for T in (300.0, 900.0, 2500.0):
+        assert G.value(T) == pytest.approx(1000.0 + 2.5e6 / T - 2.6e8 / T**2 + 1.2e10 / T**3, rel=1e-14)
+        assert G.derivative(T) == pytest.approx((G.value(T + 1e-3) - G.value(T - 1e-3)) / 2e-3, rel=1e-7)
+    assert_refused(write(tmp_path, "low.toml", VALID.replace(PIECE, piece.replace("from = 298.15, ", ""))),
+                   "phase.liquid.G.A[0].i", "plausible Gibbs energy")
