@@ -379,6 +379,21 @@ class SublatticePhase:
         keep = atoms > 1e-9
         return Y[keep], moles[keep] / atoms[keep, None], atoms[keep]
 
+    @cached_property
+    def _sample_basis(self) -> tuple[np.ndarray, np.ndarray] | None:
+        """The samples' G without its temperature: (B, S) with G = B @ C(T).ravel() + R T S (the
+        magnetic term apart), B[k, (t, j)] = monomial_t(y_k) s_t(y_k)^j and S the entropy sum;
+        None where B would be large (then G is evaluated afresh)."""
+        Y = self._sample_sites[0]
+        e = self._energy
+        if len(Y) * e.n_terms * e.order > 4_000_000:
+            return None
+        padded = np.concatenate([Y, np.ones((len(Y), 1))], axis=1)
+        monomial = padded[:, e.members].prod(axis=-1)
+        s = Y @ e.slopes.T + e.offsets
+        B = monomial[..., None] * s[..., None] ** np.arange(e.order)
+        return B.reshape(len(Y), -1), _xlogx(Y) @ self._site_weights
+
 
 def _axis_levels(n_log: int, n_mid: int) -> np.ndarray:
     """Values in [0, 1]: 0, log-spaced from SAMPLE_SMALLEST to 0.05, even to 0.95, mirrored to 1."""
@@ -547,7 +562,14 @@ class SublatticeAtT:
     @cached_property
     def _samples(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         Y, X, atoms = self.phase._sample_sites
-        return Y, X, self.gibbs(Y) / atoms
+        basis = self.phase._sample_basis
+        if basis is None:
+            return Y, X, self.gibbs(Y) / atoms
+        B, S = basis
+        g = B @ self._C.ravel() + self.RT * S
+        if self.phase.magnetic is not None:
+            g = g + self._magnetic(Y, 0)[0]
+        return Y, X, g / atoms
 
     def samples(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """(Y, X, G): site fractions (k, n_vars), mole fractions per mole of atoms (k, n_elements)
