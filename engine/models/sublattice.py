@@ -380,19 +380,24 @@ class SublatticePhase:
         return Y[keep], moles[keep] / atoms[keep, None], atoms[keep]
 
     @cached_property
-    def _sample_basis(self) -> tuple[np.ndarray, np.ndarray] | None:
-        """The samples' G without its temperature: (B, S) with G = B @ C(T).ravel() + R T S (the
-        magnetic term apart), B[k, (t, j)] = monomial_t(y_k) s_t(y_k)^j and S the entropy sum;
-        None where B would be large (then G is evaluated afresh)."""
+    def _sample_basis(self) -> tuple[np.ndarray, np.ndarray, tuple[np.ndarray, np.ndarray] | None] | None:
+        """The samples' G without its temperature: (B, S, magnetic) with G = B @ C(T).ravel() +
+        R T S, B[k, (t, j)] = monomial_t(y_k) s_t(y_k)^j, S the entropy sum, and the same bases of
+        Tc and beta where the phase is magnetic; None where a basis would be large (then G is
+        evaluated afresh)."""
         Y = self._sample_sites[0]
-        e = self._energy
-        if len(Y) * e.n_terms * e.order > 4_000_000:
+        expansions = [self._energy] + ([self._curie, self._moment] if self.magnetic is not None else [])
+        if any(len(Y) * e.n_terms * e.order > 4_000_000 for e in expansions):
             return None
         padded = np.concatenate([Y, np.ones((len(Y), 1))], axis=1)
-        monomial = padded[:, e.members].prod(axis=-1)
-        s = Y @ e.slopes.T + e.offsets
-        B = monomial[..., None] * s[..., None] ** np.arange(e.order)
-        return B.reshape(len(Y), -1), _xlogx(Y) @ self._site_weights
+
+        def basis(e: _Expansion) -> np.ndarray:
+            monomial = padded[:, e.members].prod(axis=-1)
+            s = Y @ e.slopes.T + e.offsets
+            return (monomial[..., None] * s[..., None] ** np.arange(e.order)).reshape(len(Y), -1)
+
+        magnetic = (basis(self._curie), basis(self._moment)) if self.magnetic is not None else None
+        return basis(self._energy), _xlogx(Y) @ self._site_weights, magnetic
 
 
 def _axis_levels(n_log: int, n_mid: int) -> np.ndarray:
@@ -467,11 +472,15 @@ class SublatticeAtT:
             self._C_moment = phase._moment.coefficients(self.T)
 
     # --- magnetic part ----------------------------------------------------------------------
-    def _magnetic(self, y: np.ndarray, order: int):
-        """(G, gradient, Hessian) of the magnetic term (J/mol f.u.) up to `order`."""
+    def _magnetic(self, y: np.ndarray, order: int, values: tuple[np.ndarray, np.ndarray] | None = None):
+        """(G, gradient, Hessian) of the magnetic term (J/mol f.u.) up to `order`; `values` may
+        hold Tc and beta at y already (order 0)."""
         mag = self.phase.magnetic
-        tc, gtc, htc = self.phase._curie.evaluate(y, self._C_curie, order)
-        be, gbe, hbe = self.phase._moment.evaluate(y, self._C_moment, order)
+        if values is not None:
+            (tc, be), gtc, htc, gbe, hbe = values, None, None, None, None
+        else:
+            tc, gtc, htc = self.phase._curie.evaluate(y, self._C_curie, order)
+            be, gbe, hbe = self.phase._moment.evaluate(y, self._C_moment, order)
         k_tc = np.where(tc < 0.0, 1.0 / mag.antiferro_factor, 1.0)
         k_be = np.where(be < 0.0, 1.0 / mag.antiferro_factor, 1.0)
         tc, be = tc * k_tc, be * k_be
@@ -565,10 +574,11 @@ class SublatticeAtT:
         basis = self.phase._sample_basis
         if basis is None:
             return Y, X, self.gibbs(Y) / atoms
-        B, S = basis
+        B, S, magnetic = basis
         g = B @ self._C.ravel() + self.RT * S
-        if self.phase.magnetic is not None:
-            g = g + self._magnetic(Y, 0)[0]
+        if magnetic is not None:
+            values = (magnetic[0] @ self._C_curie.ravel(), magnetic[1] @ self._C_moment.ravel())
+            g = g + self._magnetic(Y, 0, values)[0]
         return Y, X, g / atoms
 
     def samples(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
