@@ -30,8 +30,13 @@ from .site_sampling import site_fraction_cloud
 #: A phase lying more than this below the equilibrium's tangent plane (J/mol, relative to RT
 #: where known, else absolute) is missing from the answer.
 DRIVING_FORCE_TOLERANCE = 1e-6
-#: Phases whose lowest sample is within this many J/mol of the plane get Newton steps between samples.
-NEAR_PLANE = 300.0
+#: Phases whose lowest sample is within `NEAR_PLANE (h / NEAR_PLANE_SPACING)^2` J/mol of the
+#: plane get Newton steps between samples, h = k^(-1/f) being the typical spacing of k samples
+#: over f degrees of freedom: the samples miss a minimum between them by about G'' h^2 / 8, about
+#: 1 J/mol at h = 1/60 (a few thousand points over a ternary); 25 J/mol there leaves a wide margin,
+#: and the margin grows as the cloud thins out in more dimensions.
+NEAR_PLANE = 25.0
+NEAR_PLANE_SPACING = 1.0 / 60.0
 #: Samples of a phase this far (site fractions, max norm) from its composition sets seed a search for a gap.
 GAP_DISTANCE = 0.08
 #: Relative size of the neighbourhood added around refined points (see `_neighbourhood`).
@@ -205,8 +210,15 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
             for y in mine:
                 far &= np.max(np.abs(ph.Y - y), axis=1) > GAP_DISTANCE
             starts = [int(np.flatnonzero(far)[np.argmin(d[far])])] if far.any() else []
+        freedom = len(ph.free) - len(ph.model.groups)
+        if freedom == 0:                      # a compound: its one sample is exact
+            starts = [k for k in starts if d[k] < -tol]
+        near = NEAR_PLANE * (len(d) ** (-1.0 / max(freedom, 1)) / NEAR_PLANE_SPACING) ** 2
         for k in starts:
-            if d[k] > NEAR_PLANE:
+            if d[k] > near:
+                continue
+            if freedom == 0:
+                found.append((p, ph.Y[k].copy(), float(d[k])))
                 continue
             y0 = np.zeros(ph.model.n_vars)
             y0[ph.free] = np.maximum(ph.Y[k][ph.free], _SMALLEST_START)

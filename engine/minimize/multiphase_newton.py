@@ -222,7 +222,7 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
         y_new = y.copy()
         y_new[free] = positive_step(yf, dy)
         y = _normalise(y_new, model, free)
-        if big < 1e-12:
+        if big < 1e-10:
             break
     with np.errstate(all="ignore"):
         n = y @ model.element_matrix

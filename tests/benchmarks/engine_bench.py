@@ -12,7 +12,17 @@ Measures, on a four-phase synthetic system (liquid, fcc, bcc and a compound AB):
   whether it ever found a lower Gibbs energy than the engine;
 - diagram_ms: median wall time to map the whole diagram of the largest shipped system (cold),
   and diagram_ms_slowest_shipped, the slowest of all shipped systems (one cold run each);
-- melt_ms: median time of one melt range on that system (diagram already mapped).
+- melt_ms: median time of one melt range on that system (diagram already mapped);
+- ternary_point_us / five_element_point_us: median microseconds per point equilibrium of an
+  invented ternary (liquid, fcc, bcc, two compounds) and five-element system (liquid, fcc, bcc,
+  two compounds) through the general minimiser, every point at a new temperature, and the share
+  of points whose Newton solves converged;
+- ternary_max_dG_vs_dense_J_per_mol: the largest amount by which the engine's G lies above a
+  dense sampled reference (lower convex hull, scipy.spatial.ConvexHull, of 30,000 random points
+  per phase plus the phases' own samples) on the ternary; <= 0 means never above. Beside it,
+  ternary_min_dG_vs_dense_J_per_mol: how far below (the reference's sampling error);
+- ternary_section_ms: median wall time of one isothermal section of that ternary mapped cold at
+  a new temperature (engine/diagrams/isothermal.py: every field, tie-line and tie-triangle).
 """
 
 from __future__ import annotations
@@ -31,7 +41,12 @@ from ladle.engine import equilibrate, load_system
 from ladle.engine.files.catalog import list_systems
 from ladle.engine.diagrams.diagram import map_diagram
 from ladle.engine.minimize.equilibrium import SectionCache
-from ladle.engine import equilibrium as equilibrium_module
+from ladle.engine.minimize import equilibrium as equilibrium_module
+from ladle.engine.models.polynomials import TemperatureFunction
+from ladle.engine.models.sublattice import Interaction, SublatticePhase
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
+from multicomponent_models import system_of  # noqa: E402
 from ladle.engine.diagrams.melt import melt_range
 
 # An invented four-phase system: two terminal solutions, a liquid and a congruent compound.
@@ -159,6 +174,95 @@ def generic_minimizer(system, T: float, x0: float, starts: int, rng) -> float:
     return best
 
 
+def _tf(a: float, b: float = 0.0) -> TemperatureFunction:
+    return TemperatureFunction.constant_terms({"a": a, "b": b})
+
+
+def invented_system(n: int, seed: int = 5):
+    """An invented n-element system of the engine's general phases: a liquid, an fcc and a bcc
+    solution (Redlich-Kister pair terms of orders 0 and 1, a ternary term on the liquid) and two
+    stoichiometric compounds. Every number is invented."""
+    rng = np.random.default_rng(seed)
+    els = tuple("ABCDEFGH"[:n])
+    phases = []
+    for name, (a_lo, a_hi), (b_lo, b_hi) in (("liquid", (9000, 15000), (-10, -8)), ("fcc", (-500, 3000), (0, 1)),
+                                             ("bcc", (0, 4000), (-1, 0))):
+        ends = {(e,): _tf(float(rng.uniform(a_lo, a_hi)), float(rng.uniform(b_lo, b_hi))) for e in els}
+        terms = [Interaction(((els[i], els[j]),), (_tf(float(rng.uniform(-15000, 25000))), _tf(float(rng.uniform(-4000, 4000)))))
+                 for i in range(n) for j in range(i + 1, n)]
+        if name == "liquid":
+            terms.append(Interaction((els[:3],), (_tf(float(rng.uniform(-20000, 20000))),)))
+        phases.append(SublatticePhase(name=name, elements=els, site_ratios=(1.0,), constituents=(els,),
+                                      end_members=ends, interactions=tuple(terms)))
+    for k, (i, j, p, q) in enumerate(((0, 1, 1, 2), (1, n - 1, 3, 1))):
+        phases.append(SublatticePhase(name=f"{els[i]}{p}{els[j]}{q}", elements=els, site_ratios=(float(p), float(q)),
+                                      constituents=((els[i],), (els[j],)),
+                                      end_members={(els[i], els[j]): _tf(-(p + q) * float(rng.uniform(6000, 9000)), (p + q) * 0.5)}))
+    return system_of(els, phases, molar_mass=rng.uniform(20.0, 200.0, n))
+
+
+def time_general(system, count: int, T_range: tuple[float, float], seed: int = 3) -> tuple[float, float, list]:
+    """(median us per point at a new temperature, converged share, results with their (T, z))."""
+    rng = np.random.default_rng(seed)
+    n = len(system.elements)
+    for _ in range(5):                                 # warm-up (imports, caches of shapes)
+        equilibrate(system, float(rng.uniform(*T_range)), rng.dirichlet(np.ones(n)))
+    times, out = [], []
+    for i in range(count):
+        T = T_range[0] + (T_range[1] - T_range[0]) * (i + 0.5) / count + 1e-3 * rng.random()
+        z = rng.dirichlet(np.ones(n))
+        t0 = time.perf_counter()
+        r = equilibrate(system, T, z)
+        times.append(time.perf_counter() - t0)
+        out.append((T, z, r))
+    return 1e6 * statistics.median(times), sum(r.converged for _t, _z, r in out) / len(out), out
+
+
+def dense_hull_gap(system, results: list, temperatures: int = 4, per_phase: int = 30000) -> tuple[float, float]:
+    """(max, min) of the engine's G minus the dense lower hull's G (J/mol) over results at
+    `temperatures` of the temperatures, each hull built once."""
+    from scipy.spatial import ConvexHull
+
+    rng = np.random.default_rng(9)
+    by_T: dict[float, list] = {}
+    for T, z, r in results[:: max(1, len(results) // (temperatures * 10))][: temperatures * 10]:
+        by_T.setdefault(round(T, -2), []).append((T, z, r))
+    worst_above, worst_below = -np.inf, 0.0
+    for group in by_T.values():
+        T = group[0][0]
+        group = [(t, z, equilibrate(system, T, z)) for t, z, _r in group]
+        X, G = [], []
+        for m in (p.at(T) for p in system.models.values()):
+            Y = np.hstack([rng.dirichlet(np.full(len(g), 0.5), size=per_phase) if len(g) > 1 else np.ones((per_phase, 1))
+                           for g in m.groups])
+            Y = np.vstack([Y, m.samples()[0]])
+            moles = Y @ m.element_matrix
+            atoms = moles.sum(-1)
+            X.append(moles / atoms[:, None])
+            G.append(m.gibbs(Y) / atoms)
+        X, G = np.vstack(X), np.concatenate(G)
+        hull = ConvexHull(np.column_stack([X[:, 1:], G]), qhull_options="Qx Qt")
+        planes = hull.equations[hull.equations[:, -2] < -1e-12]
+        for _t, z, r in group:
+            dense = float(np.max(-(planes[:, :-2] @ z[1:] + planes[:, -1]) / planes[:, -2]))
+            worst_above = max(worst_above, r.gibbs_J_per_mol - dense)
+            worst_below = min(worst_below, r.gibbs_J_per_mol - dense)
+    return worst_above, worst_below
+
+
+def time_section(system, T_range: tuple[float, float], repeats: int = 3) -> float:
+    """Median ms of one isothermal section mapped cold at a new temperature."""
+    from ladle.engine.diagrams.isothermal import map_isothermal
+
+    runs = []
+    for k in range(repeats):
+        T = 0.5 * (T_range[0] + T_range[1]) + 7.31 * (k + 1)
+        t0 = time.perf_counter()
+        map_isothermal(system, T)
+        runs.append(time.perf_counter() - t0)
+    return 1e3 * statistics.median(runs)
+
+
 def largest_shipped():
     from ladle.engine import find_system
 
@@ -178,7 +282,15 @@ def main() -> int:
     ap.add_argument("--points", type=int, default=1000)
     ap.add_argument("--compared", type=int, default=60, help="points compared with the slow methods")
     ap.add_argument("--starts", type=int, default=5, help="SLSQP starts per point")
+    ap.add_argument("--general-points", type=int, default=200, help="points of the ternary and five-element timings")
     args = ap.parse_args()
+
+    ternary = invented_system(3)
+    ternary_us, ternary_converged, ternary_results = time_general(ternary, args.general_points, (900.0, 1500.0))
+    five = invented_system(5)
+    five_us, five_converged, _ = time_general(five, max(20, args.general_points // 2), (900.0, 1500.0))
+    dG_above, dG_below = dense_hull_gap(ternary, ternary_results)
+    section_ms = time_section(ternary, (900.0, 1500.0))
 
     system = bench_system()
     pts = points(args.points)
@@ -257,7 +369,16 @@ def main() -> int:
         "melt_ms": None if melt_ms is None else round(melt_ms, 2),
         "diagram_ms_slowest_shipped": round(slowest_ms, 1),
         "diagram_slowest_system": slowest_name,
-        "targets": {"point_us": 300, "vs_dense_grid": 200, "max_dx_vs_dense_grid": 1e-6, "diagram_ms": 300, "melt_ms": 20},
+        "ternary_point_us": round(ternary_us, 1),
+        "ternary_converged_share": ternary_converged,
+        "five_element_point_us": round(five_us, 1),
+        "five_element_converged_share": five_converged,
+        "ternary_max_dG_vs_dense_J_per_mol": dG_above,
+        "ternary_min_dG_vs_dense_J_per_mol": dG_below,
+        "ternary_section_ms": round(section_ms, 1),
+        "targets": {"point_us": 300, "vs_dense_grid": 200, "max_dx_vs_dense_grid": 1e-6, "diagram_ms": 300, "melt_ms": 20,
+                    "ternary_point_us": 1000, "five_element_point_us": 5000, "ternary_section_ms": 500,
+                    "ternary_max_dG_vs_dense_J_per_mol": 0.0},
     }
     if args.json:
         print(json.dumps(out))
