@@ -196,6 +196,9 @@ def test_gradient_and_hessian_match_finite_differences(name):
             assert np.allclose(grad[:, i], fd_grad, rtol=1e-6, atol=1e-4 * R * T), (name, T, i)
             assert np.allclose(hess[:, :, i], fd_hess, rtol=1e-5, atol=1e-3 * R * T), (name, T, i)
         assert np.allclose(hess, np.swapaxes(hess, -1, -2), rtol=1e-12, atol=1e-9)
+        together = at.derivatives(y)
+        for a, b in zip(together, (at.gibbs(y), grad, hess)):
+            assert np.array_equal(a, b)
 
 
 @pytest.mark.parametrize("name", list(MODELS))
