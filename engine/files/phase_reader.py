@@ -396,7 +396,7 @@ def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elem
     for origin, system in bases:
         for name, phase in system.phases.items():
             if isinstance(phase, CompoundPhase):
-                if name in base_compounds and not same_compound(base_compounds[name][0], phase):
+                if name in base_compounds and name not in tables and not same_compound(base_compounds[name][0], phase):
                     raise r.fail(f"phase.{name}", f"compound {name} differs between {base_compounds[name][1]} and {origin}; "
                                  "give it in this file to choose")
                 base_compounds.setdefault(name, (phase, origin))

@@ -392,3 +392,21 @@ def test_terms_in_inverse_square_and_cube_of_temperature(tmp_path):
         assert G.derivative(T) == pytest.approx((G.value(T + 1e-3) - G.value(T - 1e-3)) / 2e-3, rel=1e-7)
     assert_refused(write(tmp_path, "low.toml", VALID.replace(PIECE, piece.replace("from = 298.15, ", ""))),
                    "phase.liquid.G.A[0].i", "plausible Gibbs energy")
+
+
+def test_compounds_of_two_files_built_on_must_agree_unless_the_file_gives_its_own(tmp_path, ternary):
+    write(tmp_path, "c-b.toml", BC + '''[phase.AB2]
+model = "compound"
+formula = "CB2"
+reference = { C = "fcc", B = "fcc" }
+formation = { a = -5000.0 }
+''')
+    assert_refused(ternary, "phase.AB2", "differs between a-b.toml and c-b.toml")
+    write(tmp_path, "a-b-c.toml", ABC + '''[phase.AB2]
+model = "compound"
+formula = "AB2"
+reference = { A = "fcc", B = "fcc" }
+formation = { a = -6000.0 }
+''')
+    system = load_system(ternary)
+    assert system.phases["AB2"].formation.value(800.0) == pytest.approx(-6000.0)
