@@ -146,7 +146,7 @@ class _Expansion:
     def _factors(self, y: np.ndarray, C: np.ndarray, order: int):
         """The polynomial factor F(s) of each term and its first two derivatives in s."""
         s = y @ self.slopes.T + self.offsets
-        F = np.broadcast_to(C[:, -1], s.shape).copy()
+        F = s * 0.0 + C[:, -1]
         if order == 0:
             for k in range(self.order - 2, -1, -1):
                 F = F * s + C[:, k]
@@ -466,6 +466,7 @@ class SublatticeAtT:
         self.element_matrix = phase.element_matrix
         self._C = phase._energy.coefficients(self.T)
         self._weights = phase._site_weights
+        self._eye = np.eye(self.n_vars)
         mag = phase.magnetic
         if mag is not None:
             self._C_curie = phase._curie.coefficients(self.T)
@@ -557,7 +558,7 @@ class SublatticeAtT:
         if order >= 1:
             grad = grad + self.RT * self._weights * (np.log(y) + 1.0)
         if order >= 2:
-            hess = hess + (self.RT * self._weights / y)[..., :, None] * np.eye(self.n_vars)
+            hess = hess + (self.RT * self._weights / y)[..., :, None] * self._eye
         if self.phase.magnetic is not None:
             mg, mgrad, mhess = self._magnetic(y, order)
             g = g + mg
