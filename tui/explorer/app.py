@@ -11,10 +11,12 @@ from .exploration import Exploration
 from .glyphs import Glyphs
 from .saved_state import save_state
 from .screens.explore import ExploreScreen
+from .screens.section_screen import SectionScreen
+from .section_exploration import SectionExploration
 
 
 class ExplorerApp(App[None]):
-    """ladle's full-screen explorer of binary phase diagrams."""
+    """ladle's full-screen explorer: binary phase diagrams, and the isopleths of larger systems."""
 
     CSS_PATH = "explorer.tcss"
     ENABLE_COMMAND_PALETTE = False
@@ -33,7 +35,9 @@ class ExplorerApp(App[None]):
         if glyphs.ascii_only:
             self.add_class("-ascii")
 
-    def get_default_screen(self) -> ExploreScreen:
+    def get_default_screen(self) -> ExploreScreen | SectionScreen:
+        if isinstance(self._first_exploration, SectionExploration):
+            return SectionScreen(self._first_exploration, self.glyphs)
         return ExploreScreen(self._first_exploration, self.glyphs)
 
     @property
@@ -43,10 +47,11 @@ class ExplorerApp(App[None]):
 
     def remember(self) -> None:
         """Write the system, cursor and units to the state file (atomically)."""
-        if self.state_file is None:
+        state = self.explore_screen.exploration.saved()
+        if self.state_file is None or state is None:
             return
         try:
-            save_state(self.state_file, self.explore_screen.exploration.saved())
+            save_state(self.state_file, state)
         except OSError as error:
             if not self._save_problem_shown:
                 self._save_problem_shown = True

@@ -13,6 +13,7 @@ from .glyphs import glyphs_for
 from .options import OptionsError, parse_options
 from .saved_state import SavedState, read_state, state_path
 from .scales import Scales
+from .section_exploration import SectionExploration
 from .system_choices import not_explorable
 
 
@@ -22,13 +23,16 @@ def _open(name: str):
         system = find_system(name)
     except (SystemFileError, UnknownSystem, OSError) as error:
         return None, str(error)
+    if len(system.elements) > 2:
+        return system, None              # shown as its isopleth
     problem = not_explorable(system)
     return (None, problem) if problem else (system, None)
 
 
-def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration:
+def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration | SectionExploration:
     """The exploration to open: the system asked for, else the last one used, else the first
-    shipped; with the saved cursor and units where the system is the saved one.
+    shipped; with the saved cursor and units where the system is the saved one; for a system of
+    three or more elements, its isopleth (SectionExploration).
     Raises ValueError (one line) when the asked-for system cannot be opened."""
     if asked is not None:
         system, problem = _open(asked)
@@ -43,6 +47,8 @@ def first_exploration(asked: str | None, saved: SavedState | None) -> Exploratio
             system, problem = _open(entries[0].name)
             if system is None:
                 raise ValueError(problem)
+    if len(system.elements) > 2:
+        return SectionExploration(system)
     if saved is None:
         return Exploration(system)
     scales = Scales(system.molar_mass, saved.temperature_unit, saved.composition_unit)

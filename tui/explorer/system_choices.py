@@ -26,11 +26,12 @@ class SystemChoice:
 
 
 def not_explorable(system) -> str | None:
-    """Why the explorer cannot show `system` yet (three or more elements, or sublattice phases),
+    """Why the picker cannot switch to `system` (three or more elements: the explorer opens
+    their isopleth when started on them), or the explorer cannot draw it (sublattice phases),
     in one line, or None."""
     n = len(system.elements)
     if n != 2:
-        return f"{system.name}: {n} elements; the explorer shows binaries only so far (see ladle diagram --vary, --temp)"
+        return f"{system.name}: {n} elements; open its isopleth with: ladle {system.name}"
     from ladle.engine.diagrams.mappable import unmapped_phases
 
     unmapped = unmapped_phases(system)

@@ -1,0 +1,90 @@
+"""The explorer on a system of three elements (issue 14): the isopleth through the cursor's
+alloy, the status pane with every phase and element, the arrows along the section, `v` for the
+next varying element, `g` for a typed alloy; at 80x24. The system is the invented ideal ternary
+eutectic of tests/unit/ideal_ternaries.py with its closed-form equilibria (sources there)."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+import pytest
+from explorer_harness import SIZE, THEME, pilot_test, status_text
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
+
+import ideal_ternaries as it  # noqa: E402
+
+from ladle.engine.diagrams import isopleth  # noqa: E402
+from ladle.tui.explorer import section_exploration  # noqa: E402
+from ladle.tui.explorer.app import ExplorerApp  # noqa: E402
+from ladle.tui.explorer.glyphs import glyphs_for  # noqa: E402
+from ladle.tui.explorer.section_exploration import SectionExploration  # noqa: E402
+from ladle.tui.explorer.widgets.point_entry import PointEntry  # noqa: E402
+
+
+@pytest.fixture
+def ternary_app(monkeypatch):
+    system = it.eutectic_system()
+    solve = it.equilibrate_for(system)
+    monkeypatch.setattr(isopleth, "equilibrate", solve)
+    monkeypatch.setattr(section_exploration, "equilibrate", solve)
+    app = ExplorerApp(SectionExploration(system, temperature_K=700.0), glyphs_for(False), None)
+    app.theme = THEME
+    return app
+
+
+async def _settled(app, pilot) -> None:
+    """Wait until the workers have answered (the isopleth is mapped, the point computed)."""
+    for _ in range(200):
+        await pilot.pause(0.02)
+        if app.screen.exploration.isopleth is not None and "computing" not in status_text(app):
+            return
+    raise AssertionError("the workers did not answer")
+
+
+@pilot_test
+async def test_status_pane_lists_every_phase_and_element(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        text = status_text(app)
+        # the opening alloy: 5 at% of each element but the balance A; at 700 K alpha and liquid
+        assert "A 90.0 at%" in text and "B 5.00 at%" in text and "C 5.00 at%" in text
+        assert "alpha" in text and "liquid" in text
+        eq = it.eutectic_equilibrium(700.0, app.screen.exploration.x_at_cursor())
+        liquid = next(p for p in eq.phases if p.name == "liquid")
+        assert "A {:.1f} B {:.1f} C {:.1f}".format(*(100 * liquid.x)) in text
+        assert "isopleth: B varies" in app.screen.query_one("#title").render().plain
+
+
+@pilot_test
+async def test_keys_move_along_the_section_and_choose_the_varying_element(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        e = app.screen.exploration
+        u, T = e.cursor.u, e.cursor.temperature_K
+        await pilot.press("right", "up")
+        assert e.cursor.u > u and e.cursor.temperature_K > T
+        await _settled(app, pilot)
+        b_before = e.x_at_cursor()[1]
+        await pilot.press("v")
+        assert e.element == "C" and e.x_at_cursor()[1] == pytest.approx(b_before, abs=1e-12)
+        await _settled(app, pilot)
+        assert "isopleth: C varies" in app.screen.query_one("#title").render().plain
+
+
+@pilot_test
+async def test_typed_alloy_and_temperature(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        await pilot.press("g")
+        assert app.screen.query_one(PointEntry).display
+        await pilot.press(*"B=20at% C=10at% 800K", "enter")
+        e = app.screen.exploration
+        assert e.cursor.temperature_K == pytest.approx(800.0)
+        assert tuple(e.x_at_cursor()) == pytest.approx((0.7, 0.2, 0.1), abs=1e-12)
+        await pilot.press("g", *"Q=5at%", "enter")
+        assert "element Q is not in this system" in str(app.screen.query_one("#point-problem").render())

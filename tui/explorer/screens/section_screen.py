@@ -1,0 +1,137 @@
+"""The explorer's screen for a system of three or more elements: the isopleth through the
+cursor's alloy beside the status pane (every phase with its amount and the content of every
+element). The arrows move the cursor along the section and in temperature, `v` lets the next
+element vary, `g` goes to a typed alloy and temperature ("Ag=3wt% Cu=0.5wt% 250C").
+
+The isopleth and the point equilibrium are computed in worker threads: keys are answered while
+they run, and a newer request replaces an older one.
+"""
+
+from __future__ import annotations
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical
+from textual.screen import Screen
+from textual.widgets import Input, Static
+from textual.worker import Worker, WorkerState
+
+from ladle.tui.quote import percent
+
+from ..entry import EntryError, parse_point
+from ..glyphs import Glyphs
+from ..section_exploration import SectionExploration
+from ..widgets.point_entry import PointEntry
+from ..widgets.section_view import SectionView
+from ..widgets.status_pane import StatusPane
+
+KEYS = "arrows move  v vary next element  g go to  q quit"
+
+
+class SectionScreen(Screen[None]):
+    """Keys move the cursor on the isopleth; the status pane follows."""
+
+    BINDINGS = [Binding("left", "move(-1, 0)", show=False), Binding("right", "move(1, 0)", show=False),
+                Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
+                Binding("v", "vary", show=False), Binding("g", "go_to", show=False),
+                Binding("escape", "back", show=False), Binding("q", "app.quit", show=False)]
+
+    def __init__(self, exploration: SectionExploration, glyphs: Glyphs) -> None:
+        super().__init__()
+        self.exploration = exploration
+        self.glyphs = glyphs
+        self._equilibrium = None
+        self._point_worker: Worker | None = None
+        self._mapped_key = None
+
+    def compose(self) -> ComposeResult:
+        yield Static("", id="title")
+        with Horizontal(id="body"):
+            yield SectionView(self.glyphs, id="diagram")
+            with Vertical(id="side"):
+                yield StatusPane(id="status")
+        yield PointEntry(id="entry")
+        yield Static(KEYS, id="keys")
+
+    def on_mount(self) -> None:
+        self.query_one(PointEntry).display = False
+        self.query_one(SectionView).exploration = self.exploration
+        self._changed(remap=True)
+
+    # -- drawing and workers ------------------------------------------------------------------
+    def _title(self) -> str:
+        e = self.exploration
+        held = ", ".join(f"{el} {percent(e.alloy[i])}" for i, el in enumerate(e.system.elements)
+                         if i not in (0, e.varying))
+        return f" {e.system.name}  isopleth: {e.element} varies; {held} at%; {e.system.elements[0]} balance"
+
+    def _changed(self, remap: bool = False) -> None:
+        """The cursor or the section moved: redraw, and ask the workers for what changed."""
+        e = self.exploration
+        self.query_one("#title", Static).update(self._title())
+        if remap and e.section_key() != self._mapped_key:
+            self._mapped_key = e.section_key()
+            key = e.section_key()
+            self.run_worker(lambda: (key, e.map()), thread=True, group="isopleth", exclusive=True, exit_on_error=False)
+        self._equilibrium = None
+        self._point_worker = self.run_worker(e.equilibrium, thread=True, group="point", exclusive=True,
+                                             exit_on_error=False)
+        self._show_status()
+        self.query_one(SectionView).refresh()
+
+    def _show_status(self) -> None:
+        lines = self.exploration.status_lines(self._equilibrium, "C", self.glyphs.temperature_unit("C"))
+        if self.exploration.isopleth is None:
+            lines.append(("note", " mapping the isopleth ..."))
+        else:
+            key = self.query_one(SectionView).key()
+            lines += [("heading", "FIELDS")] + [("note", f" {entry}") for entry in key] if key else []
+        self.query_one(StatusPane).show_lines(lines)
+
+    def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
+        worker = event.worker
+        if event.state == WorkerState.ERROR:
+            self.query_one(StatusPane).show_lines([("warning", f" no answer here: {worker.error}")])
+            return
+        if event.state != WorkerState.SUCCESS:
+            return
+        if worker.group == "isopleth":
+            key, isopleth = worker.result
+            if key == self.exploration.section_key():       # still the section on screen
+                self.exploration.isopleth = isopleth
+                self.query_one(SectionView).refresh()
+                self.call_after_refresh(self._show_status)      # the key of numbered fields, once drawn
+        elif worker is self._point_worker:
+            self._equilibrium = worker.result
+        self._show_status()
+
+    # -- keys ----------------------------------------------------------------------------------
+    def action_move(self, columns: int, rows: int) -> None:
+        self.exploration.move(columns, rows)
+        self._changed(remap=True)
+
+    def action_vary(self) -> None:
+        self.exploration.vary_next()
+        self._changed(remap=True)
+
+    def action_go_to(self) -> None:
+        self.query_one(PointEntry).open(self.exploration.element)
+
+    def action_back(self) -> None:
+        entry = self.query_one(PointEntry)
+        if entry.display:
+            entry.close()
+            self.set_focus(None)
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        e = self.exploration
+        entry = self.query_one(PointEntry)
+        try:
+            e.jump(parse_point(event.value, e.system.elements, e.system.molar_mass))
+        except (EntryError, ValueError) as error:
+            entry.show_problem(str(error))
+            return
+        entry.close()
+        self.set_focus(None)
+        self._changed(remap=True)
