@@ -5,7 +5,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ladle.engine.melt import LIQUID
+from ladle.engine.diagrams.melt import LIQUID
+from ladle.tui.phase_names import phase_label
 from ladle.tui.quote import percent
 
 from .glyphs import Glyphs
@@ -38,8 +39,11 @@ def reaction_rows(diagram, elements: tuple[str, str], scales: Scales,
         phases = sorted(invariant.phases, key=lambda item: item[1])
         liquid = [x for name, x in phases if name == LIQUID]
         target = liquid[0] if liquid else phases[len(phases) // 2][1]
-        text = "\n".join(f"{name:<9}{percent(scales.shown_fraction(x)):>6}"
-                         for name, x in phases)
+        labels = [phase_label(diagram.system, name, x, invariant.temperature_K, phases)
+                  for name, x in phases]
+        width = max(9, *(len(label) + 1 for label in labels))
+        text = "\n".join(f"{label:<{width}}{percent(scales.shown_fraction(x)):>6}"
+                         for label, (_, x) in zip(labels, phases, strict=True))
         rows.append(ReactionRow(invariant.kind, _temperature(invariant.temperature_K, scales, unit),
                                 text, invariant.temperature_K, target))
     for point in sorted(diagram.special_points, key=lambda sp: -sp.temperature_K):
