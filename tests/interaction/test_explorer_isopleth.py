@@ -9,7 +9,7 @@ import sys
 from pathlib import Path
 
 import pytest
-from explorer_harness import SIZE, THEME, pilot_test, status_text
+from explorer_harness import SIZE, THEME, pilot_test, screen_text, status_text
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
 
@@ -88,3 +88,15 @@ async def test_typed_alloy_and_temperature(ternary_app):
         assert tuple(e.x_at_cursor()) == pytest.approx((0.7, 0.2, 0.1), abs=1e-12)
         await pilot.press("g", *"Q=5at%", "enter")
         assert "element Q is not in this system" in str(app.screen.query_one("#point-problem").render())
+
+
+@pilot_test
+async def test_help_shows_the_cautions_and_this_screens_keys(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("question_mark")
+        text = screen_text(app)
+        assert "SAFETY" in text and "Molten metal burns" in text
+        assert any(what.startswith("let the next element vary") for _, what in app.screen.rows)
+        await pilot.press("escape")
+        assert app.screen is app.screen_stack[0]

@@ -20,12 +20,14 @@ class HelpScreen(ModalScreen[None]):
 
     BINDINGS = [Binding("escape,q,question_mark,f1", "close", "close", show=False)]
 
-    def __init__(self, glyphs: Glyphs, system_name: str, system_safety: str, element: str) -> None:
+    def __init__(self, glyphs: Glyphs, system_name: str, system_safety: str, element: str,
+                 rows: list[tuple[str, str]] | None = None) -> None:
         super().__init__()
         self.glyphs = glyphs
         self.system_name = system_name
         self.system_safety = system_safety
         self.element = element
+        self.rows = rows   # (keys, what they do) of the screen that opened the help; None: the main screen's
 
     def compose(self) -> ComposeResult:
         with VerticalScroll(id="help-body") as body:
@@ -43,7 +45,7 @@ class HelpScreen(ModalScreen[None]):
                       padding=(0, 1), expand=True)
         table.add_column("keys", no_wrap=True, style="bold")
         table.add_column("what they do", ratio=1)
-        for keys, what in help_rows(self.glyphs, self.element):
+        for keys, what in self.rows or help_rows(self.glyphs, self.element):
             table.add_row(keys, what)
         return table
 

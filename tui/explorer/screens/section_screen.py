@@ -24,8 +24,16 @@ from ..section_exploration import SectionExploration
 from ..widgets.point_entry import PointEntry
 from ..widgets.section_view import SectionView
 from ..widgets.status_pane import StatusPane
+from .help import HelpScreen
 
-KEYS = "arrows move  v vary next element  g go to  q quit"
+KEYS = "arrows move  v vary next element  g go to  ? help, safety  q quit"
+#: The help screen's rows for this screen: (keys, what they do).
+HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
+             ("v", "let the next element vary (the balance, the first element, takes up the change)"),
+             ("g", "go to a typed alloy and temperature: Ag=3wt% Cu=0.5wt% 250C (every element but the balance)"),
+             ("Esc", "close the entry line"),
+             ("?", "this help"),
+             ("q", "quit")]
 
 
 class SectionScreen(Screen[None]):
@@ -34,7 +42,8 @@ class SectionScreen(Screen[None]):
     BINDINGS = [Binding("left", "move(-1, 0)", show=False), Binding("right", "move(1, 0)", show=False),
                 Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
                 Binding("v", "vary", show=False), Binding("g", "go_to", show=False),
-                Binding("escape", "back", show=False), Binding("q", "app.quit", show=False)]
+                Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
+                Binding("q", "app.quit", show=False)]
 
     def __init__(self, exploration: SectionExploration, glyphs: Glyphs) -> None:
         super().__init__()
@@ -113,6 +122,10 @@ class SectionScreen(Screen[None]):
     def action_vary(self) -> None:
         self.exploration.vary_next()
         self._changed(remap=True)
+
+    def action_help(self) -> None:
+        system = self.exploration.system
+        self.app.push_screen(HelpScreen(self.glyphs, system.name, system.safety, self.exploration.element, HELP_ROWS))
 
     def action_go_to(self) -> None:
         self.query_one(PointEntry).open(self.exploration.element)
