@@ -300,7 +300,8 @@ def _result(states: list[PhaseState], mu_active: np.ndarray, z: np.ndarray, acti
             gibbs_dT += st.amount * float(st.model.gibbs_dT(st.y))
         out.append(PhaseResult(st.name, st.y.copy(), st.amount * atoms, n / atoms))
     mu = np.full(len(z), np.nan)
-    if len(states) != 1 or len(states[0].free) > len(states[0].model.groups):
+    fixed = len(states) == 1 and len(states[0].free) == len(states[0].model.groups)
+    if not fixed or len(elements) == 1:     # one fixed composition in 2+ elements: no unique plane
         mu[elements] = mu_active
     total = sum(p.amount for p in out)
     return GlobalMinimum(tuple(out), mu, gibbs / total, gibbs_dT / total, converged)

@@ -90,17 +90,35 @@ def _normalise(y: np.ndarray, model, free: np.ndarray) -> np.ndarray:
     return out
 
 
-def _layout(states: list[PhaseState], elements: np.ndarray) -> tuple[list[tuple], int]:
-    """Per state: its sublattice rows S, element matrix A (free variables x active elements), the
-    offset of its unknowns and the Hessian's index arrays; and the size of the Newton system."""
-    blocks = []
-    size = len(elements)
-    for st in states:
-        S = sublattice_rows(st.model, st.free)
-        A = st.model.element_matrix[np.ix_(st.free, elements)]
-        blocks.append((S, A, size - len(elements), st.free[:, None], st.free[None, :]))
-        size += len(st.free) + S.shape[0] + 1
-    return blocks, size
+class _Layout:
+    """Where each state's unknowns sit in the Newton system (its site fractions, sublattice
+    multipliers and amount; the chemical potentials last), the constant blocks of the Jacobian,
+    and index arrays of the residual's energy and balance rows."""
+
+    def __init__(self, states: list[PhaseState], elements: np.ndarray) -> None:
+        ne = len(elements)
+        self.blocks = []
+        size = 0
+        for st in states:
+            S = sublattice_rows(st.model, st.free)
+            A = st.model.element_matrix[np.ix_(st.free, elements)]
+            self.blocks.append((S, A, size, len(st.free), S.shape[0], st.free[:, None], st.free[None, :]))
+            size += len(st.free) + S.shape[0] + 1
+        self.m0 = size
+        self.size = size + ne
+        J0 = np.zeros((self.size, self.size))
+        energy, balance, ys = [], [np.arange(size, size + ne)], []
+        for S, A, o, nf, ns, _r, _c in self.blocks:
+            J0[o:o + nf, o + nf:o + nf + ns] = -S.T
+            J0[o:o + nf, size:] = -A
+            J0[o + nf:o + nf + ns, o:o + nf] = S
+            ys.append(np.arange(o, o + nf))
+            energy += [np.arange(o, o + nf), [o + nf + ns]]
+            balance.append(np.arange(o + nf, o + nf + ns))
+        self.J0 = J0
+        self.energy_rows = np.concatenate(energy).astype(np.intp) if energy else np.zeros(0, np.intp)
+        self.balance_rows = np.concatenate(balance).astype(np.intp)
+        self.y_rows = np.concatenate(ys).astype(np.intp) if ys else np.zeros(0, np.intp)
 
 
 def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.ndarray,
@@ -111,79 +129,64 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
     the residual met its tolerance."""
     states = [replace(st, y=st.y.copy()) for st in states]
     mu = np.array(mu, dtype=float)
-    ne = len(elements)
     extra_step = False
-    blocks, size = _layout(states, elements)
-    for _ in range(max_iterations):
-        J = np.zeros((size, size))
-        r = np.zeros(size)
-        m0 = size - ne                      # mu occupies the last ne unknowns
-        scale = 1.0
-        balance = -np.array(z, dtype=float)
-        for st, (S, A, o, fr, fc) in zip(states, blocks):
-            nf, ns = len(st.free), S.shape[0]
-            with np.errstate(all="ignore"):
-                G = float(st.model.gibbs(st.y))
-                g = st.model.gradient(st.y)[st.free]
-                H = st.model.hessian(st.y)[fr, fc]
-            yf = st.y[st.free]
-            Amu = A @ mu
-            lam = S @ (yf * (g - Amu)) / (S @ yf)
-            n_el = A.T @ yf
-            iy, il, in_ = o, o + nf, o + nf + ns
-            r[iy:il] = g - Amu - S.T @ lam
-            r[il:in_] = S @ yf - 1.0
-            r[in_] = G - n_el @ mu
-            J[iy:il, iy:il] = H
-            J[iy:il, il:in_] = -S.T
-            J[iy:il, m0:] = -A
-            J[il:in_, iy:il] = S
-            J[in_, iy:il] = g - Amu
-            J[in_, m0:] = -n_el
-            J[m0:, iy:il] = st.amount * A.T
-            J[m0:, in_] = n_el
-            balance += st.amount * n_el
-            scale = max(scale, abs(G), float(np.max(np.abs(g))))
-            st._lam = lam
-        r[m0:] = balance
-        energy_ok = all(
-            np.max(np.abs(r[o:o + len(st.free)]), initial=0.0) <= ENERGY_TOLERANCE * scale
-            and abs(r[o + len(st.free) + S.shape[0]]) <= ENERGY_TOLERANCE * scale
-            for st, (S, _A, o, _r, _c) in zip(states, blocks))
-        balance_ok = np.max(np.abs(r[m0:])) <= BALANCE_TOLERANCE and all(
-            np.max(np.abs(r[o + len(st.free):o + len(st.free) + S.shape[0]])) <= BALANCE_TOLERANCE
-            for st, (S, _A, o, _r, _c) in zip(states, blocks))
-        if energy_ok and balance_ok:
-            if extra_step:
-                return states, mu, True
-            extra_step = True
-        if not np.all(np.isfinite(J)) or not np.all(np.isfinite(r)):
-            return states, mu, False
-        try:
-            d = np.linalg.solve(J, -r)
-        except np.linalg.LinAlgError:
-            d = np.linalg.lstsq(J, -r, rcond=None)[0]
-        big = max((float(np.max(np.abs(d[o:o + len(st.free)]), initial=0.0)) for st, (_S, _A, o, _r, _c) in zip(states, blocks)),
-                  default=0.0)
-        if big > MAX_STEP:                  # a far start: shorter steps keep composition sets apart
-            d *= MAX_STEP / big
-        mu = mu + d[m0:]
-        gone = []
-        for k, (st, (S, _A, o, _r, _c)) in enumerate(zip(states, blocks)):
-            nf, ns = len(st.free), S.shape[0]
-            y = st.y.copy()
-            y[st.free] = positive_step(st.y[st.free], d[o:o + nf])
-            st.y = _normalise(y, st.model, st.free)
-            st.amount = st.amount + float(d[o + nf + ns])
-            if st.amount < 0.0:
-                gone.append(k)
-        if gone:
-            worst = min(gone, key=lambda k: states[k].amount * states[k].atoms)
-            states.pop(worst)
-            extra_step = False
-            blocks, size = _layout(states, elements)
-            if not states:
+    lay = _Layout(states, elements)
+    with np.errstate(all="ignore"):
+        for _ in range(max_iterations):
+            m0 = lay.m0
+            J = lay.J0.copy()
+            r = np.empty(lay.size)
+            scale = 1.0
+            balance = -np.asarray(z, dtype=float)
+            for st, (S, A, o, nf, ns, fr, fc) in zip(states, lay.blocks):
+                y = st.y
+                G = float(st.model.gibbs(y))
+                g = st.model.gradient(y)[st.free]
+                H = st.model.hessian(y)[fr, fc]
+                yf = y[st.free]
+                Amu = A @ mu
+                lam = S @ (yf * (g - Amu)) / (S @ yf)
+                n_el = yf @ A
+                r[o:o + nf] = g - Amu - lam @ S
+                r[o + nf:o + nf + ns] = S @ yf - 1.0
+                r[o + nf + ns] = G - n_el @ mu
+                J[o:o + nf, o:o + nf] = H
+                J[o + nf + ns, o:o + nf] = g - Amu
+                J[o + nf + ns, m0:] = -n_el
+                J[m0:, o:o + nf] = st.amount * A.T
+                J[m0:, o + nf + ns] = n_el
+                balance += st.amount * n_el
+                scale = max(scale, abs(G), float(np.abs(g).max()))
+            r[m0:] = balance
+            if (np.abs(r[lay.energy_rows]).max() <= ENERGY_TOLERANCE * scale
+                    and np.abs(r[lay.balance_rows]).max() <= BALANCE_TOLERANCE):
+                if extra_step:
+                    return states, mu, True
+                extra_step = True
+            if not (np.isfinite(J).all() and np.isfinite(r).all()):
                 return states, mu, False
+            try:
+                d = np.linalg.solve(J, -r)
+            except np.linalg.LinAlgError:
+                d = np.linalg.lstsq(J, -r, rcond=None)[0]
+            big = float(np.abs(d[lay.y_rows]).max()) if len(lay.y_rows) else 0.0
+            if big > MAX_STEP:              # a far start: shorter steps keep composition sets apart
+                d *= MAX_STEP / big
+            mu = mu + d[m0:]
+            gone = []
+            for k, (st, (_S, _A, o, nf, ns, _r, _c)) in enumerate(zip(states, lay.blocks)):
+                y = st.y.copy()
+                y[st.free] = positive_step(st.y[st.free], d[o:o + nf])
+                st.y = _normalise(y, st.model, st.free)
+                st.amount = st.amount + float(d[o + nf + ns])
+                if st.amount < 0.0:
+                    gone.append(k)
+            if gone:
+                states.pop(min(gone, key=lambda k: states[k].amount * states[k].atoms))
+                extra_step = False
+                if not states:
+                    return states, mu, False
+                lay = _Layout(states, elements)
     return states, mu, False
 
 

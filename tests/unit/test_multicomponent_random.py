@@ -176,3 +176,24 @@ def test_leaving_a_phase_out_changes_only_where_it_was_stable():
             else:
                 assert sorted(b.phase_names) == sorted(a.phase_names)
                 assert b.gibbs_J_per_mol == pytest.approx(a.gibbs_J_per_mol, abs=1e-7)
+
+
+def test_an_absent_element_is_the_limit_of_a_trace_of_it():
+    """z with an element exactly 0 (its constituents fixed at 0, its mu undefined) against the
+    same alloy with 1e-10 of it: the same phases, G to 1e-4 J/mol (RT times 1e-10 times a log)."""
+    rng = np.random.default_rng(41)
+    els, phases = random_system(rng, 3, sublattice_phase=True)
+    system = system_of(els, phases)
+    for _ in range(12):
+        T = float(rng.uniform(600.0, 1400.0))
+        z = np.zeros(3)
+        keep = rng.choice(3, size=2, replace=False)
+        z[keep] = rng.dirichlet(np.ones(2))
+        trace = np.where(z == 0.0, 1e-10, z * (1.0 - 1e-10))
+        a = general_equilibrium(system, T, z)
+        b = general_equilibrium(system, T, trace)
+        assert a.converged and b.converged
+        assert sorted(a.phase_names) == sorted(b.phase_names)
+        assert a.gibbs_J_per_mol == pytest.approx(b.gibbs_J_per_mol, abs=1e-4)
+        assert np.isnan(a.chemical_potentials[z == 0.0]).all()
+        assert np.isfinite(a.chemical_potentials[z > 0.0]).all() or len(a.phases) == 1
