@@ -51,10 +51,9 @@ class SystemPicker(ModalScreen[str | None]):
     def _fill(self, query: str) -> None:
         options = self.query_one(OptionList)
         options.clear_options()
-        for choice in self.choices:
-            if choice.matches(query):
-                options.add_option(Option(self._describe(choice), id=choice.name,
-                                          disabled=bool(choice.problem)))
+        options.add_options([Option(self._describe(choice), id=choice.name,   # one refresh
+                                    disabled=bool(choice.problem))
+                             for choice in self.choices if choice.matches(query)])
         if options.option_count:
             options.highlighted = 0
 
