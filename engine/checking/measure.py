@@ -57,13 +57,18 @@ class Comparison:
     @property
     def within(self) -> bool:
         """True where the model lies within the spread of the reference: the absolute spread,
-        and, where the fact gives a relative tolerance `factor` (dilute solubilities), within
-        reference / factor to reference x factor as well."""
+        and, where the fact gives a relative tolerance `factor` (dilute solubilities, at%), the
+        model's dilute amount within the reference's divided or multiplied by the factor. The
+        dilute amount is that of the minor element: the value itself below 50 at%, 100 minus it
+        above."""
         d = self.difference
         if d is None:
             return False
-        if self.factor is not None and not self.reference / self.factor <= self.model <= self.reference * self.factor:
-            return False
+        if self.factor is not None:
+            flip = self.reference > 50.0
+            ref, model = (100.0 - self.reference, 100.0 - self.model) if flip else (self.reference, self.model)
+            if not ref / self.factor <= model <= ref * self.factor:
+                return False
         return self.factor is not None if self.spread is None else abs(d) <= self.spread
 
 

@@ -22,7 +22,6 @@ from ..minimize.equilibrium import equilibrate, section_at
 from ..models.phases import CompoundPhase
 from ..models.pure import pure_transitions
 from ..minimize.section import TieLine
-from .mappable import require_mappable
 from .special import classify, compound_congruent, critical_point, solution_congruent, three_phase
 from ..minimize.newton import newton
 from ..minimize.tangent import common_tangent, fractions, logit, tangent_to_point
@@ -34,6 +33,9 @@ MIN_INTERVAL_K = 1e-4
 #: A traced boundary is refined until linear interpolation between its points is this good (x_B).
 CURVE_TOLERANCE = 1.5e-3
 _MAX_REFINE_DEPTH = 7
+#: A reaction or tie-line must reach this far (mole fraction) into the covered composition range
+#: to be kept: one that only touches its edge (a compound at the edge) lies outside it.
+_EDGE = 1e-6
 
 
 @dataclass(frozen=True)
@@ -98,7 +100,9 @@ def _level(system, T: float) -> _Level:
 
 class PhaseDiagram:
     """The mapped diagram of one system; query it with `field_at`. Its invariants and special
-    points are those that reach into the composition range the model covers."""
+    points are those that reach into the composition range the model covers, at temperatures it
+    covers. `fields` are whole (the computations need them); `covered_fields()` cuts them to the
+    covered ranges for exports and drawings."""
 
     def __init__(self, system, fields: list[TwoPhaseField], invariants: list[Invariant],
                  special_points: list[SpecialPoint], warnings: list[str]) -> None:
@@ -118,8 +122,29 @@ class PhaseDiagram:
         """Names of the stable phases at T (K) and x_B (mole fraction), from a point equilibrium."""
         return equilibrate(self.system, T, x_B).phase_names
 
+    def covers_tie_line(self, T: float, x_left: float, x_right: float) -> bool:
+        """Whether a tie-line at T (K) between x_left and x_right (mole fractions of B) reaches
+        into the compositions the model covers (one end inside, or spanning the range; touching
+        its edge is not enough) at a temperature it covers."""
+        lo, hi = self.system.covers
+        t_lo, t_hi = self.system.covers_K
+        return (min(x_left, x_right) < hi - _EDGE and max(x_left, x_right) > lo + _EDGE
+                and t_lo <= T <= t_hi)
+
+    def covered_fields(self) -> list[TwoPhaseField]:
+        """The two-phase fields with only the tie-lines that reach into the covered ranges
+        (`covers_tie_line`); a field left with no tie-line is left out. Tie-lines wholly outside
+        describe what the model is not meant for and are never exported or drawn."""
+        out = []
+        for f in self.fields:
+            T, x = np.asarray(f.T, dtype=float), np.asarray(f.x, dtype=float)
+            keep = np.array([self.covers_tie_line(t, a, b) for t, (a, b) in zip(T, x)], dtype=bool)
+            if keep.any():
+                out.append(TwoPhaseField(f.phases, T[keep], x[keep]))
+        return out
+
     def to_json(self) -> dict:
-        """The JSON object of `ladle diagram --json`."""
+        """The JSON object of `ladle diagram --json` (the fields cut to the covered ranges)."""
         els = self.system.elements
 
         def comp(x_b: float) -> dict:
@@ -137,16 +162,14 @@ class PhaseDiagram:
                                 "phases": list(s.phases)} for s in self.special_points],
             "two_phase_fields": [{"phases": list(f.phases),
                                   "tie_lines": [[float(t), float(a), float(b)] for t, (a, b) in zip(f.T, f.x)]}
-                                 for f in self.fields],
+                                 for f in self.covered_fields()],
             "melting_points": {el: t for el, t in self.melting_points.items()},
         }
 
 
 @lru_cache(maxsize=32)
 def map_diagram(system) -> PhaseDiagram:
-    """Trace the whole diagram of `system` over its temperature range (cached per system).
-    Raises ValueError for a system it cannot map (engine/diagrams/mappable.py)."""
-    require_mappable(system)
+    """Trace the whole diagram of `system` over its temperature range (cached per system)."""
     return _Tracer(system).run()
 
 
@@ -178,9 +201,11 @@ class _Tracer:
             x = 0.0 if t.element == self.system.elements[0] else 1.0
             self.special.append(SpecialPoint(kind, t.temperature_K, x, (t.below, t.above)))
         lo, hi = self.system.covers
+        t_lo, t_hi = self.system.covers_K
         covered = [i for i in self.invariants
-                   if min(x for _, x in i.phases) <= hi + 1e-9 and max(x for _, x in i.phases) >= lo - 1e-9]
-        special = [p for p in self.special if lo - 1e-9 <= p.x_B <= hi + 1e-9]
+                   if min(x for _, x in i.phases) < hi - _EDGE and max(x for _, x in i.phases) > lo + _EDGE
+                   and t_lo <= i.temperature_K <= t_hi]
+        special = [p for p in self.special if lo - 1e-9 <= p.x_B <= hi + 1e-9 and t_lo <= p.temperature_K <= t_hi]
         covered.sort(key=lambda i: -i.temperature_K)
         special.sort(key=lambda s: -s.temperature_K)
         return PhaseDiagram(self.system, fields, covered, special, self.warnings)

@@ -13,7 +13,9 @@ Tolerances must be able to fail (checked below, the project's standard):
   an absolute tolerance smaller than the value, or a factor of at most 2;
 - a stoichiometric compound's composition is exact (0.1 at%), or it is not a check;
 - an enthalpy of mixing: smaller than the value itself (the sign is tested) and at most 1 kJ/mol.
-Every independent check states the reason of its tolerance in its `note`.
+Every independent check states the reason of its tolerance in its `note`. Systems with fewer than
+four independent checks, and shipped fits not yet refitted to the fit rules (at least two degrees
+of freedom, every coefficient determined), are listed below with the reason.
 """
 
 from __future__ import annotations
@@ -31,8 +33,13 @@ SHIPPED = sorted(p.stem for p in shipped_folder().glob("*.toml") if p.name != "e
 
 # (system, check index) -> why the model misses it.
 KNOWN_FAILURES = {
-    ("pb-sn", 8): "ASTM B32 gives the Sn10 solder a 268 C solidus; the fitted fcc solidus lies 17 K higher, and "
-                  "B32's 308-312 C range for Sn5 cannot be met by the same smooth solidus",
+    ("ag-au", 5): "Jaenecke's cooling-curve solidus at 94 wt% Au lies 7 K below his liquidus, where the evaluation "
+                  "(Okamoto and Massalski 1983) puts the equilibrium gap at about 2 C: cored, non-equilibrium solid",
+    ("ag-au", 6): "Jaenecke's cooling-curve solidus at 32 wt% Au lies 11 K below his liquidus, where the evaluation "
+                  "(Okamoto and Massalski 1983) puts the equilibrium gap at about 2 C: cored, non-equilibrium solid",
+    ("ag-cu", 4): "ASM's coin-silver liquidus (890 C) lies only 3 K below its sterling liquidus (893 C, a fit target), "
+                  "where the liquidus falls about 7 K per wt% Cu; the model puts coin silver 16 K lower",
+    ("al-mg", 3): "the 520.0 casting alloy's datasheet liquidus (600 C) lies 10 K below the model at 10 wt% Mg",
     ("cu-ni", 3): "C70600 datasheet solidus (a commercial alloy with Fe and Mn, typically a non-equilibrium value) "
                   "lies 28 K below the published assessment used unchanged",
     ("cu-ni", 4): "C71500 datasheet liquidus lies 8 K below the published assessment used unchanged",
@@ -41,12 +48,42 @@ KNOWN_FAILURES = {
     ("cu-zn", 4): "brass datasheet solidus at 10 wt% Zn lies 10-17 K below the fitted model; fitting it too did not converge",
     ("cu-zn", 6): "brass datasheet solidus at 15 wt% Zn lies 10-17 K below the fitted model; fitting it too did not converge",
     ("cu-zn", 8): "brass datasheet solidus at 20 wt% Zn lies 10-17 K below the fitted model; fitting it too did not converge",
-    ("ag-au", 5): "Jaenecke's cooling-curve solidus at 94 wt% Au lies 7 K below his liquidus, where the evaluation "
-                  "(Okamoto and Massalski 1983) puts the equilibrium gap at about 2 C: cored, non-equilibrium solid",
-    ("ag-au", 6): "Jaenecke's cooling-curve solidus at 32 wt% Au lies 11 K below his liquidus, where the evaluation "
-                  "(Okamoto and Massalski 1983) puts the equilibrium gap at about 2 C: cored, non-equilibrium solid",
-    ("au-sn", 2): "the 521 C peritectic L + (Au) = zeta is not reproduced: zeta is modelled as the stoichiometric "
-                  "compound Au5Sn",
+    ("pb-sb", 2): "the regular liquid fitted to the eutectic mixes with -0.24 kJ/mol at 40 at% Sb where calorimetry "
+                  "(Hassam et al. 2009) finds -0.07 kJ/mol",
+    ("pb-sn", 8): "ASTM B32 gives the Sn10 solder a 268 C solidus; the fitted fcc solidus lies 17 K higher, and "
+                  "B32's 308-312 C range for Sn5 cannot be met by the same smooth solidus",
+    ("sn-ag", 2): "the refitted liquid mixes exothermically, as calorimetry says, but only -0.5 kJ/mol at 30 at% Ag "
+                  "against about -2 (recalled): Ag3Sn's energy is fixed by the author and the liquidus holds the liquid",
+}
+
+#: Systems with fewer than four independent checks -> why (strict: the count is checked, so adding
+#: checks means updating the entry, and reaching four means removing it).
+SHORT_OF_CHECKS = {
+    "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check"),
+    "au-si": (0, "no liquidus, solubility or calorimetric value from a source at hand; the eutectic is the fit target"),
+    "au-sn": (0, "every trusted fact (the zeta peritectic, the eutectic, AuSn's melting and calorimetry) is needed "
+                 "to fit the zeta phase at all"),
+    "bi-cd": (0, "the evaluation's summary gives the eutectic (fitted) and solubilities only as upper limits"),
+    "ge-si": (0, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not at hand"),
+    "pb-sb": (2, "no liquidus temperatures from a source at hand"),
+    "sn-ag": (1, "the commercial liquidus temperatures at hand are fit targets"),
+    "sn-bi": (1, "no further liquidus, solvus or calorimetric value from a source at hand"),
+    "sn-cu": (0, "the 97Sn-3Cu liquidus and the calorimetry of Cu6Sn5 are needed as fit targets"),
+    "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets"),
+}
+MIN_CHECKS = 4
+
+#: Shipped fits that are not (yet) refitted to the rules (at least two degrees of freedom, every
+#: coefficient determined) -> why; each file's own [fit_report] shows its figures.
+FITS_NOT_TO_RULE = {
+    "ag-cu": "four coefficients to four numbers (dof 0); its independent checks pass but one",
+    "al-mg": "the beta compound's a and b are not determined separately",
+    "al-si": "one degree of freedom",
+    "au-si": "two coefficients to two numbers (dof 0)",
+    "bi-cd": "two coefficients to two numbers (dof 0)",
+    "cu-zn": "a pair of coefficients correlated beyond 0.99",
+    "pb-sn": "a + b T of the liquid's L[0] correlated beyond 0.99",
+    "sn-bi": "four coefficients to four numbers (dof 0)",
 }
 
 MAX_K = {"liquidus": 5.0, "solidus": 5.0, "invariant": 3.0}
@@ -129,3 +166,32 @@ def test_tolerances_can_fail(name):
         if fact.kind == "mixing_enthalpy":
             tol = fact.spread.get("J", 0.0)
             assert tol < abs(fact.enthalpy_J_per_mol) and tol <= MAX_J, where
+
+
+@pytest.mark.parametrize("name", SHIPPED)
+def test_every_independent_check_states_its_tolerance_reason(name):
+    system = find_system(name)
+    for fact in independent_checks(system):
+        note = str(system.document["check"][fact.index].get("note", ""))
+        assert "tolerance" in note, f"{name} check[{fact.index}] gives no reason for its tolerance (note)"
+
+
+@pytest.mark.parametrize("name", SHIPPED)
+def test_four_independent_checks_or_a_stated_shortfall(name):
+    count = len(independent_checks(find_system(name)))
+    if name in SHORT_OF_CHECKS:
+        assert count == SHORT_OF_CHECKS[name][0] < MIN_CHECKS, name
+    else:
+        assert count >= MIN_CHECKS, f"{name} has {count} independent checks"
+
+
+@pytest.mark.parametrize("name", SHIPPED)
+def test_shipped_fits_follow_the_rules_or_say_why_not(name):
+    report = find_system(name).document.get("fit_report")
+    if report is None:
+        return
+    determined = all(p.get("determined", True) and p.get("uncertainty", 0.0) <= abs(p["value"])
+                     for p in report["parameters"].values())
+    degenerate = any(abs(r) > 0.99 for k, r in report["correlations"].items() if k != "threshold")
+    to_rule = report["acceptable"] and report["degrees_of_freedom"] >= 2 and determined and not degenerate
+    assert to_rule != (name in FITS_NOT_TO_RULE), name

@@ -52,8 +52,9 @@ def run(args: argparse.Namespace) -> int:
 
 
 def write_csv(system, diagram, stream, unit: str, every_K: float) -> None:
-    """One row per tie-line, at least one every `every_K` kelvin of each field: field, T in K
-    (and in `unit` unless that is K), x_B and wt% B of each phase."""
+    """One row per tie-line that reaches into the range the model covers, at least one every
+    `every_K` kelvin of each field: field, T in K (and in `unit` unless that is K), x_B and wt% B of
+    each phase."""
     import numpy as np
 
     from ladle.engine.diagrams.dense_fields import dense_tie_lines
@@ -66,6 +67,8 @@ def write_csv(system, diagram, stream, unit: str, every_K: float) -> None:
     for f in diagram.fields:
         name = "+".join(f.phases)
         for T, (xl, xr) in zip(*dense_tie_lines(system, f, every_K)):
+            if not diagram.covers_tie_line(T, xl, xr):
+                continue
             wl, wr = (float(mass_from_mole(np.array([1 - v, v]), system.molar_mass)[1]) for v in (xl, xr))
             in_unit = [] if unit == "K" else [f"{kelvin_to(T, unit):.4f}"]
             out.writerow([name, f"{T:.4f}", *in_unit, f"{xl:.8g}", f"{100 * wl:.6g}", f"{xr:.8g}", f"{100 * wr:.6g}"])
@@ -94,8 +97,6 @@ def reaction_lines(system, diagram, unit: str, basis: str) -> list[str]:
 
     from ladle.engine.units import mass_from_mole
 
-    from ..phase_names import phase_label
-
     b = system.elements[1]
 
     def comp(x_b: float) -> str:
@@ -104,7 +105,7 @@ def reaction_lines(system, diagram, unit: str, basis: str) -> list[str]:
 
     lines = ["reactions:" if diagram.invariants or diagram.special_points else "reactions: none in range"]
     for inv in diagram.invariants:
-        phases = ", ".join(f"{phase_label(system, n, x, inv.temperature_K, inv.phases)} {comp(x)}" for n, x in inv.phases)
+        phases = ", ".join(f"{n} {comp(x)}" for n, x in inv.phases)
         lines.append(f"  {inv.kind:<12} {quote.temperature(inv.temperature_K, unit):>12}  {phases}")
     for sp in diagram.special_points:
         lines.append(f"  {sp.kind:<12} {quote.temperature(sp.temperature_K, unit):>12}  {' / '.join(sp.phases)} at {comp(sp.x_B)}")
