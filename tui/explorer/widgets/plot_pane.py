@@ -1,8 +1,10 @@
 """A plotext plot that rebuilds its picture only when what it shows has changed.
 
 textual-plotext rebuilds the whole picture on every refresh; here the built text is kept and
-reused while the size, theme and the subclass's `picture_key()` stay the same, and the cursor
-is written over a copy of it (`crosshair.with_crosshair`), so a cursor move costs no rebuild.
+reused while the size, theme and the subclass's `picture_key()` stay the same. Its screen lines
+are made once per picture and the cursor is written into them (`crosshair.strips_with_crosshair`;
+`render()` gives the same picture as text, `crosshair.with_crosshair`), so a cursor move costs
+neither a rebuild nor a new conversion to screen lines.
 In ASCII mode the built text is translated character for character (the layout does not move).
 """
 
