@@ -22,6 +22,7 @@ from ..minimize.equilibrium import equilibrate, section_at
 from ..models.phases import CompoundPhase
 from ..models.pure import pure_transitions
 from ..minimize.section import TieLine
+from .mappable import require_mappable
 from .special import classify, compound_congruent, critical_point, solution_congruent, three_phase
 from ..minimize.newton import newton
 from ..minimize.tangent import common_tangent, fractions, logit, tangent_to_point
@@ -169,7 +170,9 @@ class PhaseDiagram:
 
 @lru_cache(maxsize=32)
 def map_diagram(system) -> PhaseDiagram:
-    """Trace the whole diagram of `system` over its temperature range (cached per system)."""
+    """Trace the whole diagram of `system` over its temperature range (cached per system).
+    Raises ValueError for a system it cannot map (engine/diagrams/mappable.py)."""
+    require_mappable(system)
     return _Tracer(system).run()
 
 

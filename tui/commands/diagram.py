@@ -97,6 +97,8 @@ def reaction_lines(system, diagram, unit: str, basis: str) -> list[str]:
 
     from ladle.engine.units import mass_from_mole
 
+    from ..phase_names import phase_label
+
     b = system.elements[1]
 
     def comp(x_b: float) -> str:
@@ -105,7 +107,7 @@ def reaction_lines(system, diagram, unit: str, basis: str) -> list[str]:
 
     lines = ["reactions:" if diagram.invariants or diagram.special_points else "reactions: none in range"]
     for inv in diagram.invariants:
-        phases = ", ".join(f"{n} {comp(x)}" for n, x in inv.phases)
+        phases = ", ".join(f"{phase_label(system, n, x, inv.temperature_K, inv.phases)} {comp(x)}" for n, x in inv.phases)
         lines.append(f"  {inv.kind:<12} {quote.temperature(inv.temperature_K, unit):>12}  {phases}")
     for sp in diagram.special_points:
         lines.append(f"  {sp.kind:<12} {quote.temperature(sp.temperature_K, unit):>12}  {' / '.join(sp.phases)} at {comp(sp.x_B)}")
