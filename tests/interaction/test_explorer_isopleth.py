@@ -100,3 +100,24 @@ async def test_help_shows_the_cautions_and_this_screens_keys(ternary_app):
         assert any(what.startswith("let the next element vary") for _, what in app.screen.rows)
         await pilot.press("escape")
         assert app.screen is app.screen_stack[0]
+
+
+@pilot_test
+async def test_the_isothermal_section_at_the_cursors_temperature(ternary_app, monkeypatch):
+    from ladle.engine.diagrams import isothermal
+
+    monkeypatch.setattr(isothermal, "equilibrate", it.equilibrate_for(it.eutectic_system()))
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        await pilot.press("i")
+        e = app.screen.exploration
+        for _ in range(200):
+            await pilot.pause(0.02)
+            if e.triangle is not None:
+                break
+        assert e.view == "triangle" and e.triangle.temperature_K == pytest.approx(700.0)
+        text = screen_text(app)
+        assert "alpha + liquid" in text and "mole fractions" in text
+        await pilot.press("i")
+        assert e.view == "isopleth"

@@ -17,6 +17,7 @@ import numpy as np
 
 from ladle.engine import equilibrate
 from ladle.engine.diagrams.isopleth import Isopleth, map_isopleth
+from ladle.engine.diagrams.isothermal import IsothermalSection, map_isothermal
 from ladle.engine.units import kelvin_to, mass_from_mole
 from ladle.tui.quote import percent
 
@@ -56,6 +57,8 @@ class SectionExploration:
         T = 0.5 * (self.T_low + self.T_high) if temperature_K is None else temperature_K
         self.cursor = SectionCursor(self._u_of(self.alloy[varying]), min(max(T, self.T_low), self.T_high))
         self.isopleth: Isopleth | None = None
+        self.view = "isopleth"            # or "triangle": a ternary's isothermal section at the cursor's temperature
+        self.triangle: IsothermalSection | None = None
 
     # -- the section ------------------------------------------------------------------------
     @property
@@ -89,6 +92,17 @@ class SectionExploration:
         """The isopleth of this section (slow: run it in a worker)."""
         start, end = self.ends()
         return map_isopleth(self.system, start, end, "at", self.element, (self.T_low, self.T_high))
+
+    def map_triangle(self) -> tuple[float, IsothermalSection]:
+        """(temperature K, the ternary's isothermal section there) at the cursor (slow: run it in
+        a worker)."""
+        T = self.cursor.temperature_K
+        return T, map_isothermal(self.system, T)
+
+    def next_view(self) -> None:
+        """Switch between the isopleth and, for a ternary, the isothermal section."""
+        if len(self.system.elements) == 3:
+            self.view = "triangle" if self.view == "isopleth" else "isopleth"
 
     def x_at_cursor(self) -> np.ndarray:
         """Mole fractions of every element at the cursor."""

@@ -26,10 +26,12 @@ from ..widgets.section_view import SectionView
 from ..widgets.status_pane import StatusPane
 from .help import HelpScreen
 
-KEYS = "arrows move  v vary next element  g go to  ? help, safety  q quit"
+KEYS = "arrows move  v vary  i isopleth/triangle  g go to  ? help  q quit"
 #: The help screen's rows for this screen: (keys, what they do).
 HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
              ("v", "let the next element vary (the balance, the first element, takes up the change)"),
+             ("i", "a ternary: switch between the isopleth and the isothermal section at the cursor's temperature "
+                   "(the cursor's alloy marked, its tie-line or tie-triangle drawn)"),
              ("g", "go to a typed alloy and temperature: Ag=3wt% Cu=0.5wt% 250C (every element but the balance)"),
              ("Esc", "close the entry line"),
              ("?", "this help"),
@@ -41,7 +43,7 @@ class SectionScreen(Screen[None]):
 
     BINDINGS = [Binding("left", "move(-1, 0)", show=False), Binding("right", "move(1, 0)", show=False),
                 Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
-                Binding("v", "vary", show=False), Binding("g", "go_to", show=False),
+                Binding("v", "vary", show=False), Binding("i", "view", show=False), Binding("g", "go_to", show=False),
                 Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
                 Binding("q", "app.quit", show=False)]
 
@@ -82,7 +84,10 @@ class SectionScreen(Screen[None]):
             self._mapped_key = e.section_key()
             key = e.section_key()
             self.run_worker(lambda: (key, e.map()), thread=True, group="isopleth", exclusive=True, exit_on_error=False)
+        if e.view == "triangle" and (e.triangle is None or e.triangle.temperature_K != e.cursor.temperature_K):
+            self.run_worker(e.map_triangle, thread=True, group="triangle", exclusive=True, exit_on_error=False)
         self._equilibrium = None
+        self.query_one(SectionView).equilibrium = None
         self._point_worker = self.run_worker(e.equilibrium, thread=True, group="point", exclusive=True,
                                              exit_on_error=False)
         self._show_status()
@@ -90,11 +95,12 @@ class SectionScreen(Screen[None]):
 
     def _show_status(self) -> None:
         lines = self.exploration.status_lines(self._equilibrium, "C", self.glyphs.temperature_unit("C"))
-        if self.exploration.isopleth is None:
-            lines.append(("note", " mapping the isopleth ..."))
+        e = self.exploration
+        if (e.triangle if e.view == "triangle" else e.isopleth) is None:
+            lines.append(("note", f" mapping the {'isothermal section' if e.view == 'triangle' else 'isopleth'} ..."))
         else:
             key = self.query_one(SectionView).key()
-            lines += [("heading", "FIELDS")] + [("note", f" {entry}") for entry in key] if key else []
+            lines += ([("heading", "FIELDS")] + [("note", f" {entry}") for entry in key]) if key else []
         self.query_one(StatusPane).show_lines(lines)
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
@@ -110,8 +116,16 @@ class SectionScreen(Screen[None]):
                 self.exploration.isopleth = isopleth
                 self.query_one(SectionView).refresh()
                 self.call_after_refresh(self._show_status)      # the key of numbered fields, once drawn
+        elif worker.group == "triangle":
+            T, section = worker.result
+            if T == self.exploration.cursor.temperature_K:      # still the cursor's temperature
+                self.exploration.triangle = section
+                self.query_one(SectionView).refresh()
+                self.call_after_refresh(self._show_status)
         elif worker is self._point_worker:
             self._equilibrium = worker.result
+            self.query_one(SectionView).equilibrium = worker.result
+            self.query_one(SectionView).refresh()
         self._show_status()
 
     # -- keys ----------------------------------------------------------------------------------
@@ -126,6 +140,10 @@ class SectionScreen(Screen[None]):
     def action_help(self) -> None:
         system = self.exploration.system
         self.app.push_screen(HelpScreen(self.glyphs, system.name, system.safety, self.exploration.element, HELP_ROWS))
+
+    def action_view(self) -> None:
+        self.exploration.next_view()
+        self._changed(remap=True)
 
     def action_go_to(self) -> None:
         self.query_one(PointEntry).open(self.exploration.element)
