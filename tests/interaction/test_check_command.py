@@ -205,3 +205,16 @@ def test_systems_list_shows_how_many_checks_pass(tmp_path, monkeypatch, capsys):
     assert main(["systems", "--json"]) == 0
     row = [r for r in json.loads(capsys.readouterr().out)["systems"] if r["name"] == "a-b"][0]
     assert (row["independent_checks_passed"], row["independent_checks"], row["fit_targets"]) == (1, 2, 0)
+
+
+def test_systems_list_wraps_to_the_terminal_and_json_keeps_every_text(tmp_path, monkeypatch, capsys):
+    monkeypatch.setenv("LADLE_SYSTEMS", str(tmp_path / "none"))
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
+    monkeypatch.setenv("COLUMNS", "60")
+    assert main(["systems"]) == 0
+    lines = capsys.readouterr().out.splitlines()
+    assert lines and max(len(line) for line in lines) <= 60
+    assert any(line.startswith("         independent checks passed: ") for line in lines)
+    assert main(["systems", "--json"]) == 0
+    rows = json.loads(capsys.readouterr().out)["systems"]
+    assert all(len(r["source"]) > 60 for r in rows if "source" in r)   # whole, not cut
