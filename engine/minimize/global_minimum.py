@@ -19,6 +19,8 @@ them are fixed at 0, their chemical potentials are undefined (NaN).
 
 from __future__ import annotations
 
+import threading
+from collections import OrderedDict
 from dataclasses import dataclass
 
 import numpy as np
@@ -103,6 +105,45 @@ def _prepare(models: dict[str, object], active: np.ndarray) -> list[_Phase]:
             continue
         out.append(_Phase(name, m, np.flatnonzero(ok_var), Y, np.ascontiguousarray(X[:, active]), G))
     return out
+
+
+@dataclass
+class _Prepared:
+    """The phases' clouds at one temperature and set of present elements, stacked for the linear
+    program, and the basis of the last answer (a start for the next nearby composition)."""
+
+    models: tuple
+    phases: list[_Phase]
+    XT: np.ndarray
+    G: np.ndarray
+    last_basis: np.ndarray | None = None
+
+
+_PREPARED: OrderedDict[tuple, _Prepared] = OrderedDict()
+_PREPARED_SIZE = 8
+_PREPARED_LOCK = threading.Lock()
+
+
+def _prepared(models: dict[str, object], active: np.ndarray) -> _Prepared:
+    """The stacked clouds of `models` for the present elements `active`, remembered for the last
+    few (models, elements) pairs: points of one section or one path at one temperature share
+    them. The entry holds the models, so their ids in the key stay unique while it lives."""
+    key = (tuple((name, id(m)) for name, m in models.items()), active.tobytes())
+    with _PREPARED_LOCK:
+        found = _PREPARED.get(key)
+        if found is not None:
+            _PREPARED.move_to_end(key)
+            return found
+    phases = _prepare(models, active)
+    if not phases:
+        raise ValueError("no phase can hold this composition")
+    found = _Prepared(tuple(models.values()), phases, np.ascontiguousarray(np.vstack([p.X for p in phases]).T),
+                      np.concatenate([p.G for p in phases]))
+    with _PREPARED_LOCK:
+        _PREPARED[key] = found
+        if len(_PREPARED) > _PREPARED_SIZE:
+            _PREPARED.popitem(last=False)
+    return found
 
 
 class _Cloud:
@@ -237,13 +278,13 @@ def global_minimum(models: dict[str, object], z: np.ndarray) -> GlobalMinimum:
     active = z > 0.0
     elements = np.flatnonzero(active)
     za = z[active] / z[active].sum()
-    phases = _prepare(models, active)
-    if not phases:
-        raise ValueError("no phase can hold this composition")
+    prepared = _prepared(models, active)
+    phases = prepared.phases
     cloud = _Cloud(phases)
-    lp = LowestCombination(np.vstack([p.X for p in phases]), np.concatenate([p.G for p in phases]), za)
+    lp = LowestCombination(prepared.XT, prepared.G, za, start=prepared.last_basis, transposed=True)
     if lp.uses_artificial:
         raise ValueError("no combination of the phases reaches this composition")
+    prepared.last_basis = lp.basis.copy() if np.all(lp.basis >= 0) else None
     n_active = len(elements)
     states, mu = _start_states(lp, cloud, active), lp.mu
     good = False                            # whether `states` and `mu` are a converged solve

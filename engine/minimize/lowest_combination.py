@@ -35,20 +35,35 @@ class LowestCombination:
     `weights` (N, moles of atoms), `mu` (N, J/mol), `gibbs` (J/mol) and `iterations`.
     """
 
-    def __init__(self, X: np.ndarray, G: np.ndarray, z: np.ndarray, max_iterations: int | None = None) -> None:
+    def __init__(self, X: np.ndarray, G: np.ndarray, z: np.ndarray, max_iterations: int | None = None,
+                 start: np.ndarray | None = None, transposed: bool = False) -> None:
+        """`X` is (k, N), or (N, k) C-contiguous with `transposed`; `start` (N point indices) is
+        a basis to try first (the last answer's at a nearby composition): used when feasible."""
         self.z = np.asarray(z, dtype=float)
         n = len(self.z)
-        self.XT = np.ascontiguousarray(np.asarray(X, dtype=float).T)    # (N, k): fast pricing
+        self.XT = X if transposed else np.ascontiguousarray(np.asarray(X, dtype=float).T)   # (N, k): fast pricing
         self.G = np.asarray(G, dtype=float)
         self.artificial_cost = float(np.max(self.G)) + _ARTIFICIAL_MARGIN if len(self.G) else _ARTIFICIAL_MARGIN
         self.basis = -1 - np.arange(n)
         self.iterations = 0
         self.max_iterations = max_iterations or 60 * n + 40
         self.converged = False
-        stride = len(self.G) // COARSE_POINTS
-        if stride > 1:                              # a coarse solve first, then every point
-            self._solve(stride)
+        if start is not None and self._feasible(np.asarray(start)):
+            self.basis = np.array(start)
+        else:
+            stride = len(self.G) // COARSE_POINTS
+            if stride > 1:                          # a coarse solve first, then every point
+                self._solve(stride)
         self._solve()
+
+    def _feasible(self, basis: np.ndarray) -> bool:
+        """Whether `basis` (N point indices) is a nonsingular basis with weights >= 0 at z."""
+        if len(basis) != len(self.z) or np.any(basis >= len(self.G)):
+            return False
+        cols, _cost = self._columns(basis)
+        if np.linalg.matrix_rank(cols) < len(self.z):
+            return False
+        return bool(np.all(np.linalg.solve(cols.T, self.z) >= -1e-12))
 
     # --- the basis ---------------------------------------------------------------------------
     def _columns(self, idx: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -112,10 +127,8 @@ class LowestCombination:
         amounts make z) when given and not singular."""
         self.XT = np.hstack([self.XT, np.asarray(X, dtype=float).T])
         self.G = np.concatenate([self.G, G])
-        if restart is not None:
-            cols, _cost = self._columns(np.asarray(restart))
-            if np.linalg.matrix_rank(cols) == len(self.z) and np.all(np.linalg.solve(cols.T, self.z) >= -1e-12):
-                self.basis = np.array(restart)
+        if restart is not None and self._feasible(np.asarray(restart)):
+            self.basis = np.array(restart)
         self.max_iterations = self.iterations + 60 * len(self.z) + 40
         self._solve()
 

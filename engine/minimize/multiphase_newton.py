@@ -90,6 +90,14 @@ def _normalise(y: np.ndarray, model, free: np.ndarray) -> np.ndarray:
     return out
 
 
+def _derivatives(model, y: np.ndarray) -> tuple:
+    """(G, gradient, Hessian) of a phase at y, in one pass where the model offers it."""
+    both = getattr(model, "derivatives", None)
+    if both is not None:
+        return both(y)
+    return model.gibbs(y), model.gradient(y), model.hessian(y)
+
+
 class _Layout:
     """Where each state's unknowns sit in the Newton system (its site fractions, sublattice
     multipliers and amount; the chemical potentials last), the constant blocks of the Jacobian,
@@ -140,9 +148,8 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
             balance = -np.asarray(z, dtype=float)
             for st, (S, A, o, nf, ns, fr, fc) in zip(states, lay.blocks):
                 y = st.y
-                G = float(st.model.gibbs(y))
-                g = st.model.gradient(y)[st.free]
-                H = st.model.hessian(y)[fr, fc]
+                G, g, H = _derivatives(st.model, y)
+                G, g, H = float(G), g[st.free], H[fr, fc]
                 yf = y[st.free]
                 Amu = A @ mu
                 lam = S @ (yf * (g - Amu)) / (S @ yf)
