@@ -26,6 +26,7 @@ from ladle.tui.explorer.widgets.point_entry import PointEntry  # noqa: E402
 @pytest.fixture
 def ternary_app(monkeypatch):
     system = it.eutectic_system()
+    system.phases = system.models          # as a loaded System has them (the transition scan asks)
     solve = it.equilibrate_for(system)
     monkeypatch.setattr(isopleth, "equilibrate", solve)
     monkeypatch.setattr(section_exploration, "equilibrate", solve)
@@ -121,3 +122,25 @@ async def test_the_isothermal_section_at_the_cursors_temperature(ternary_app, mo
         assert "alpha + liquid" in text and "mole fractions" in text
         await pilot.press("i")
         assert e.view == "isopleth"
+
+
+@pilot_test
+async def test_the_cooling_view_shows_both_paths_of_the_cursors_alloy(ternary_app, monkeypatch):
+    from ladle.engine.diagrams import alloy_transitions
+    from ladle.engine.solidify import alloy_equilibrium, alloy_scheil
+
+    solve = it.equilibrate_for(it.eutectic_system())
+    for module in (alloy_transitions, alloy_scheil, alloy_equilibrium):
+        monkeypatch.setattr(module, "equilibrate", solve)
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        await pilot.press("c")
+        for _ in range(300):
+            await pilot.pause(0.02)
+            if "computing" not in status_text(app):
+                break
+        text = status_text(app)
+        # 90 A, 5 B, 5 C (at%): alpha first, the ternary eutectic ends freezing (ideal_ternaries)
+        assert "FREEZING" in text and "primary alpha" in text and "(ternary eutectic)" in text
+        assert "solid, mass %" in screen_text(app)

@@ -57,8 +57,9 @@ class SectionExploration:
         T = 0.5 * (self.T_low + self.T_high) if temperature_K is None else temperature_K
         self.cursor = SectionCursor(self._u_of(self.alloy[varying]), min(max(T, self.T_low), self.T_high))
         self.isopleth: Isopleth | None = None
-        self.view = "isopleth"            # or "triangle": a ternary's isothermal section at the cursor's temperature
-        self.triangle: IsothermalSection | None = None
+        self.view = "isopleth"     # "triangle": a ternary's isothermal section at the cursor's temperature;
+        self.triangle: IsothermalSection | None = None   # "cooling": both freezing paths of the cursor's alloy
+        self.freezing: dict[tuple[float, ...], object] = {}   # the cursor's alloy -> its AlloySolidification
 
     # -- the section ------------------------------------------------------------------------
     @property
@@ -99,10 +100,46 @@ class SectionExploration:
         T = self.cursor.temperature_K
         return T, map_isothermal(self.system, T)
 
-    def next_view(self) -> None:
-        """Switch between the isopleth and, for a ternary, the isothermal section."""
-        if len(self.system.elements) == 3:
-            self.view = "triangle" if self.view == "isopleth" else "isopleth"
+    def switch_view(self, view: str) -> None:
+        """Show `view` ("triangle": ternaries only; "cooling"), or the isopleth again where it
+        shows already."""
+        if view == "triangle" and len(self.system.elements) != 3:
+            return
+        self.view = "isopleth" if self.view == view else view
+
+    def alloy_key(self) -> tuple[float, ...]:
+        """The cursor's alloy, as the key of its freezing paths."""
+        return tuple(float(v) for v in self.x_at_cursor())
+
+    def freeze(self) -> tuple[tuple[float, ...], object]:
+        """(the cursor's alloy, its equilibrium and Scheil paths) (slow: run it in a worker)."""
+        from ladle.engine.solidify.alloy_paths import solidify_alloy
+
+        key = self.alloy_key()
+        return key, solidify_alloy(self.system, np.array(key))
+
+    def freezing_lines(self, unit: str, unit_text: str) -> list[Line]:
+        """The cursor's alloy's liquidus, the end of freezing by both paths and the structure at
+        the end (mass %), or a note while they are computed."""
+        from ladle.tui.cooling_text import PATH_NAMES, structure_rows
+
+        result = self.freezing.get(self.alloy_key())
+        lines: list[Line] = [("heading", "FREEZING")]
+        if result is None:
+            return lines + [("note", " computing ...")]
+        if isinstance(result, str):
+            return lines + [("warning", f" {result}")]
+        lines.append(("value", f" liquidus {kelvin_to(result.equilibrium.liquidus_K, unit):.1f} {unit_text}"))
+        for model, name in PATH_NAMES.items():
+            path = result.path(model)
+            end = "liquid left" if path.end_K is None else f"{kelvin_to(path.end_K, unit):.1f} {unit_text}"
+            lines.append(("value", f" {name} end {end}"))
+            lines.append(("note", f"   ({path.end})"))
+        lines += [("heading", "STRUCTURE, mass %"), ("note", " equilibrium / Scheil")]
+        for name, fractions in structure_rows(result):
+            shown = " / ".join("-" if f is None else percent(f) for f in fractions)
+            lines.append(("note", f" {name}: {shown}"))
+        return lines
 
     def x_at_cursor(self) -> np.ndarray:
         """Mole fractions of every element at the cursor."""
@@ -150,10 +187,11 @@ class SectionExploration:
         """The point equilibrium at the cursor."""
         return equilibrate(self.system, self.cursor.temperature_K, self.x_at_cursor())
 
-    def status_lines(self, eq, unit: str, unit_text: str) -> list[Line]:
+    def status_lines(self, eq, unit: str, unit_text: str, phases: bool = True) -> list[Line]:
         """The cursor's temperature in `unit` ("C", "K" or "F", written `unit_text`), the alloy
         (every element, at% and wt%), and every phase of `eq` (the point equilibrium at the
-        cursor, None while it is computed) with its amount and the content of every element."""
+        cursor, None while it is computed) with its amount and the content of every element
+        (left out with `phases` False)."""
         els = self.system.elements
         x = self.x_at_cursor()
         w = mass_from_mole(x, self.system.molar_mass)
@@ -161,6 +199,8 @@ class SectionExploration:
         lines: list[Line] = [("heading", "POINT"),
                              ("value", f" {kelvin_to(T, unit):.1f} {unit_text}  ({T:.1f} K)")]
         lines += [("value", f" {el} {percent(x[i])} at% ({percent(w[i])} wt%)") for i, el in enumerate(els)]
+        if not phases:
+            return lines
         lines.append(("heading", "PHASES, mol % and at%"))
         if eq is None:
             lines.append(("note", " computing ..."))

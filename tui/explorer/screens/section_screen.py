@@ -26,12 +26,14 @@ from ..widgets.section_view import SectionView
 from ..widgets.status_pane import StatusPane
 from .help import HelpScreen
 
-KEYS = "arrows move  v vary  i isopleth/triangle  g go to  ? help  q quit"
+KEYS = "arrows move  v vary  i triangle  c cooling  g go to  ? help  q quit"
 #: The help screen's rows for this screen: (keys, what they do).
 HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
              ("v", "let the next element vary (the balance, the first element, takes up the change)"),
              ("i", "a ternary: switch between the isopleth and the isothermal section at the cursor's temperature "
                    "(the cursor's alloy marked, its tie-line or tie-triangle drawn)"),
+             ("c", "switch between the isopleth and both freezing paths of the cursor's alloy (equilibrium, "
+                   "Scheil), with its liquidus, the ends of freezing and the structure in the status pane"),
              ("g", "go to a typed alloy and temperature: Ag=3wt% Cu=0.5wt% 250C (every element but the balance)"),
              ("Esc", "close the entry line"),
              ("?", "this help"),
@@ -43,7 +45,8 @@ class SectionScreen(Screen[None]):
 
     BINDINGS = [Binding("left", "move(-1, 0)", show=False), Binding("right", "move(1, 0)", show=False),
                 Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
-                Binding("v", "vary", show=False), Binding("i", "view", show=False), Binding("g", "go_to", show=False),
+                Binding("v", "vary", show=False), Binding("i", "view('triangle')", show=False),
+                Binding("c", "view('cooling')", show=False), Binding("g", "go_to", show=False),
                 Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
                 Binding("q", "app.quit", show=False)]
 
@@ -86,6 +89,8 @@ class SectionScreen(Screen[None]):
             self.run_worker(lambda: (key, e.map()), thread=True, group="isopleth", exclusive=True, exit_on_error=False)
         if e.view == "triangle" and (e.triangle is None or e.triangle.temperature_K != e.cursor.temperature_K):
             self.run_worker(e.map_triangle, thread=True, group="triangle", exclusive=True, exit_on_error=False)
+        if e.view == "cooling" and e.alloy_key() not in e.freezing:
+            self.run_worker(e.freeze, thread=True, group="cooling", exclusive=True, exit_on_error=False)
         self._equilibrium = None
         self.query_one(SectionView).equilibrium = None
         self._point_worker = self.run_worker(e.equilibrium, thread=True, group="point", exclusive=True,
@@ -94,9 +99,11 @@ class SectionScreen(Screen[None]):
         self.query_one(SectionView).refresh()
 
     def _show_status(self) -> None:
-        lines = self.exploration.status_lines(self._equilibrium, "C", self.glyphs.temperature_unit("C"))
         e = self.exploration
-        if (e.triangle if e.view == "triangle" else e.isopleth) is None:
+        lines = e.status_lines(self._equilibrium, "C", self.glyphs.temperature_unit("C"), phases=e.view != "cooling")
+        if e.view == "cooling":
+            lines += e.freezing_lines("C", self.glyphs.temperature_unit("C"))
+        elif (e.triangle if e.view == "triangle" else e.isopleth) is None:
             lines.append(("note", f" mapping the {'isothermal section' if e.view == 'triangle' else 'isopleth'} ..."))
         else:
             key = self.query_one(SectionView).key()
@@ -105,6 +112,11 @@ class SectionScreen(Screen[None]):
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
         worker = event.worker
+        if event.state == WorkerState.ERROR and worker.group == "cooling":
+            self.exploration.freezing[self.exploration.alloy_key()] = str(worker.error)
+            self._show_status()
+            self.query_one(SectionView).refresh()
+            return
         if event.state == WorkerState.ERROR:
             self.query_one(StatusPane).show_lines([("warning", f" no answer here: {worker.error}")])
             return
@@ -116,6 +128,10 @@ class SectionScreen(Screen[None]):
                 self.exploration.isopleth = isopleth
                 self.query_one(SectionView).refresh()
                 self.call_after_refresh(self._show_status)      # the key of numbered fields, once drawn
+        elif worker.group == "cooling":
+            key, result = worker.result
+            self.exploration.freezing[key] = result
+            self.query_one(SectionView).refresh()
         elif worker.group == "triangle":
             T, section = worker.result
             if T == self.exploration.cursor.temperature_K:      # still the cursor's temperature
@@ -141,8 +157,8 @@ class SectionScreen(Screen[None]):
         system = self.exploration.system
         self.app.push_screen(HelpScreen(self.glyphs, system.name, system.safety, self.exploration.element, HELP_ROWS))
 
-    def action_view(self) -> None:
-        self.exploration.next_view()
+    def action_view(self, view: str) -> None:
+        self.exploration.switch_view(view)
         self._changed(remap=True)
 
     def action_go_to(self) -> None:

@@ -10,9 +10,11 @@ from textual_plotext.plot import Plot
 
 from ladle.engine.units import kelvin_to
 
+from ..cooling_drawing import cooling_scene, draw_cooling
 from ..crosshair import Crosshair
 from ..glyphs import Glyphs
 from ..section_drawing import SectionScene, draw_section, isopleth_scene, triangle_point, triangle_scene
+from ..scales import Scales
 from ..section_exploration import SectionExploration
 from .plot_pane import CachedPlot
 
@@ -37,6 +39,8 @@ class SectionView(CachedPlot):
             return None
         if e.view == "triangle":            # the cursor's alloy and tie-line are part of the picture
             return (e.view, id(e.triangle), tuple(e.x_at_cursor()), id(self.equilibrium))
+        if e.view == "cooling":
+            return (e.view, id(e.freezing.get(e.alloy_key())), self.unit)
         return (e.view, id(e.isopleth), self.unit)
 
     def crosshair(self) -> Crosshair | None:
@@ -50,6 +54,9 @@ class SectionView(CachedPlot):
         e = self.exploration
         if e is not None and e.view == "triangle":
             self._draw_triangle(plt, width, height)
+            return
+        if e is not None and e.view == "cooling":
+            self._draw_cooling(plt, width, height)
             return
         if e is None or e.isopleth is None:
             self._scene = None
@@ -78,3 +85,14 @@ class SectionView(CachedPlot):
             plt.plot(*triangle_point(corners), marker=self.glyphs.invariant_marker, color=CURSOR_COLOUR)
         x, y = triangle_point(e.x_at_cursor())
         plt.scatter([float(x)], [float(y)], marker=self.glyphs.cursor_marker, color=CURSOR_COLOUR)
+
+    def _draw_cooling(self, plt: Plot, width: int, height: int) -> None:
+        """Both freezing paths of the cursor's alloy (fraction solid against temperature)."""
+        e = self.exploration
+        result = e.freezing.get(e.alloy_key())
+        self._scene = None
+        if result is None or isinstance(result, str):
+            plt.title("computing the freezing paths ..." if result is None else result)
+            return
+        draw_cooling(plt, cooling_scene(result, Scales(e.system.molar_mass, self.unit), self.glyphs, width, height),
+                     self.glyphs)
