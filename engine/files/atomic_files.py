@@ -27,6 +27,8 @@ _CLEANUP_SIGNALS = tuple(getattr(signal, name) for name in ("SIGTERM", "SIGHUP")
 _TEMPORARY = re.compile(r"^\.(?P<name>.+)\.(?P<pid>\d+)\.[A-Za-z0-9_]{8}\.tmp$")
 #: Temporary files of writes in progress in this process (removed on SIGTERM/SIGHUP).
 _LIVE: set[str] = set()
+#: The handlers that were in place before a write installed its own (signal number -> handler).
+_PREVIOUS_HANDLERS: dict[int, object] = {}
 
 
 class NotARegularFile(OSError):
@@ -75,8 +77,6 @@ def _remove_live_temporaries(signum: int, frame: object) -> None:
         os.kill(os.getpid(), signum)
 
 
-_PREVIOUS_HANDLERS: dict[int, object] = {}
-
 
 @contextmanager
 def _cleanup_on_signals() -> Iterator[None]:
@@ -111,7 +111,7 @@ def remove_stale_temporaries(folder: Path, name: str) -> list[Path]:
     (left by a crash or a kill); returns those removed."""
     removed = []
     try:
-        candidates = list(folder.glob(f".{glob_escape(name)}.*.tmp"))
+        candidates = list(folder.glob(f".{_glob_escape(name)}.*.tmp"))
     except OSError:
         return removed
     for path in candidates:
@@ -127,7 +127,7 @@ def remove_stale_temporaries(folder: Path, name: str) -> list[Path]:
     return removed
 
 
-def glob_escape(text: str) -> str:
+def _glob_escape(text: str) -> str:
     """`text` with glob's special characters matched literally."""
     return re.sub(r"([*?\[])", r"[\1]", text)
 

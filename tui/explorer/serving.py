@@ -76,7 +76,7 @@ def _problem(args: argparse.Namespace) -> str | None:
 def _page_title(system: str | None) -> str:
     """'ladle: <the system's title>' for the browser tab; a system that cannot be opened raises
     SystemFileError or UnknownSystem (one line)."""
-    from ladle.engine import find_system
+    from ladle.engine import SystemFileError, UnknownSystem, find_system
 
     from .saved_state import load_state, state_path
 
@@ -87,7 +87,7 @@ def _page_title(system: str | None) -> str:
             return "ladle"
         try:
             loaded = find_system(system)
-        except Exception:     # the explorer itself will say why it cannot open the saved one
+        except (SystemFileError, UnknownSystem, OSError):   # the explorer will say why, in the tab
             return "ladle"
     else:
         loaded = find_system(system)

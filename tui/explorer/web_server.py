@@ -102,7 +102,7 @@ class GuardedServer(Server):
 
     # -- running -----------------------------------------------------------------------------
 
-    def serve_on(self, listening: socket.socket) -> None:  # type: ignore[override]
+    def serve_on(self, listening: socket.socket) -> None:
         """Serve on an already bound and listening socket until Ctrl+C or SIGTERM."""
         loop = asyncio.new_event_loop()
         asyncio.set_event_loop(loop)
