@@ -246,15 +246,16 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
         mine = [st.y for st in states if st.name == ph.name]
         lowest = int(np.argmin(d))
         starts = [lowest]
-        if mine and d[lowest] >= -tol:       # the lowest sample is at a composition set: look farther
-            far = np.ones(len(d), dtype=bool)
-            for y in mine:
-                far &= np.max(np.abs(ph.Y - y), axis=1) > GAP_DISTANCE
-            starts = [int(np.flatnonzero(far)[np.argmin(d[far])])] if far.any() else []
         freedom = len(ph.free) - len(ph.model.groups)
+        near = NEAR_PLANE * (len(d) ** (-1.0 / max(freedom, 1)) / NEAR_PLANE_SPACING) ** 2
+        if mine and d[lowest] >= -tol:       # the lowest sample is at a composition set: look farther
+            close = np.flatnonzero(d <= near)
+            far = np.ones(len(close), dtype=bool)
+            for y in mine:
+                far &= np.max(np.abs(ph.Y[close] - y), axis=1) > GAP_DISTANCE
+            starts = [int(close[far][np.argmin(d[close[far]])])] if far.any() else []
         if freedom == 0:                      # a compound: its one sample is exact
             starts = [k for k in starts if d[k] < -tol]
-        near = NEAR_PLANE * (len(d) ** (-1.0 / max(freedom, 1)) / NEAR_PLANE_SPACING) ** 2
         for k in starts:
             if d[k] > near:
                 continue

@@ -167,9 +167,7 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
             r[m0:] = balance
             if (np.abs(r[lay.energy_rows]).max() <= ENERGY_TOLERANCE * scale
                     and np.abs(r[lay.balance_rows]).max() <= BALANCE_TOLERANCE):
-                if extra_step:
-                    return states, mu, True
-                extra_step = True
+                extra_step = True           # converged: one more step polishes the last digits
             if not (np.isfinite(J).all() and np.isfinite(r).all()):
                 return states, mu, False
             try:
@@ -194,6 +192,8 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
                 if not states:
                     return states, mu, False
                 lay = _Layout(states, elements)
+            elif extra_step:
+                return states, mu, True
     return states, mu, False
 
 
