@@ -153,11 +153,11 @@ class DuplicateCheck:
 
 
 class Progress:
-    """One line on stderr, only when stderr is a terminal: heats done, heats per second and the
-    time left (from the share of the file's lines done)."""
+    """One line on stderr, only when stderr is a terminal (and the rows do not go to the same
+    screen): heats done, heats per second and the time left (from the share of lines done)."""
 
-    def __init__(self, total_lines: int, done_lines: int) -> None:
-        self.enabled = sys.stderr.isatty()
+    def __init__(self, total_lines: int, done_lines: int, rows_on_screen: bool = False) -> None:
+        self.enabled = sys.stderr.isatty() and not rows_on_screen
         self.total, self.start_lines, self.started = max(total_lines, 1), done_lines, time.monotonic()
         self.shown_at = 0.0
 
@@ -227,7 +227,8 @@ class Workers:
         self.job, self.pool, self.client = job, None, None
         if cluster is not None:
             self.client = _connect(cluster)
-            self.window = max(2, WINDOW_PER_WORKER * sum(self.client.nthreads().values()))
+            # twice the local window: a block's round trip over the network is longer
+            self.window = max(4, 2 * WINDOW_PER_WORKER * sum(self.client.nthreads().values()))
         elif workers > 1:
             import multiprocessing
             from concurrent.futures import ProcessPoolExecutor
@@ -328,19 +329,21 @@ def _run_to_stdout(plan: Plan, stop: _Stop) -> Totals:
     from ladle.engine.files.plain_text import without_controls
 
     terminal = sys.stdout.isatty()
+    binary = None if terminal else getattr(sys.stdout, "buffer", None)
     layout = plan.job.layout
 
     def write(text: bytes) -> None:
-        if terminal:        # nothing from the file reaches a terminal as a control character
-            sys.stdout.write(without_controls(text.decode(layout.encoding, errors="replace"), keep_newlines=True))
-        else:
-            sys.stdout.buffer.write(text)
+        if binary is not None:          # the bytes in the heat list's own encoding
+            binary.write(text)
+            return
+        text = text.decode(layout.encoding, errors="replace")
+        # nothing from the file reaches a terminal as a control character
+        sys.stdout.write(without_controls(text, keep_newlines=True) if terminal else text)
 
-    if not terminal:
-        sys.stdout.flush()
+    sys.stdout.flush()
     write(plan.job.header_text())
     totals, duplicates = Totals(), DuplicateCheck()
-    progress = Progress(plan.scan.lines, layout.data_line)
+    progress = Progress(plan.scan.lines, layout.data_line, rows_on_screen=terminal)
     workers = Workers(plan.job, plan.workers, plan.cluster)
     try:
         for _offset, line, result in in_order(workers, blocks(plan.source, layout.data_offset, layout.data_line,
