@@ -244,14 +244,39 @@ class Workers:
             # a lost worker's block is recomputed by the scheduler; `retries` also covers errors
             return self.client.submit(compute_block, self.job, first_line, data, pure=False, retries=2)
         if self.pool is not None:
-            return self.pool.submit(_compute_in_worker, first_line, data)
+            from concurrent.futures.process import BrokenProcessPool
+
+            try:
+                return self.pool.submit(_compute_in_worker, first_line, data)
+            except BrokenProcessPool:
+                raise _lost_worker() from None
         return _Done(compute_block(self.job, first_line, data))
+
+    def result(self, future) -> BlockResult:
+        """The block's result; one line of CommandError where the workers themselves failed (a
+        worker process killed, or a cluster that lost the block's workers too often)."""
+        from concurrent.futures.process import BrokenProcessPool
+
+        try:
+            return future.result()
+        except BrokenProcessPool:
+            raise _lost_worker() from None
+        except Exception as e:
+            if self.client is None or type(e).__name__ != "KilledWorker":
+                raise
+            raise CommandError(f"the cluster lost the workers of a block too often ({str(e)[:120]}); "
+                               f"with -o, the same command with --resume continues") from None
 
     def close(self) -> None:
         if self.pool is not None:
             self.pool.shutdown(wait=True, cancel_futures=True)
         if self.client is not None:
             self.client.close()
+
+
+def _lost_worker() -> CommandError:
+    return CommandError("a worker process ended unexpectedly (killed, or out of memory); with -o, the same "
+                        "command with --resume continues")
 
 
 def _connect(address: str):
@@ -284,10 +309,10 @@ def in_order(workers: Workers, items: Iterator[Block]) -> Iterator[tuple[int, in
         pending.append((block.end, block.next_line, workers.submit(block.first_line, block.data)))
         if len(pending) >= workers.window:
             end, after, future = pending.popleft()
-            yield end, after, future.result()
+            yield end, after, workers.result(future)
     while pending:
         end, after, future = pending.popleft()
-        yield end, after, future.result()
+        yield end, after, workers.result(future)
 
 
 # --- the run --------------------------------------------------------------------------------------

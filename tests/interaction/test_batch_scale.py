@@ -263,3 +263,25 @@ def test_a_worker_killed_mid_run_loses_nothing(tmp_path, small_blocks, cluster, 
     assert _run(["batch", "al-si", str(heats), "-o", str(clustered), "--cluster", cluster.scheduler_address]) == 1
     assert killed
     assert clustered.read_bytes() == one.read_bytes()
+
+
+def test_a_worker_process_killed_is_one_line_and_the_run_resumes(tmp_path, small_blocks, monkeypatch, capsys):
+    heats = _heat_list(tmp_path / "heats.csv", 4000)
+    whole, out = tmp_path / "whole.csv", tmp_path / "out.csv"
+    assert _run(["batch", "al-si", str(heats), "-o", str(whole), "--workers", "1"]) == 1
+    capsys.readouterr()
+    compute = runs.compute_block
+    main_pid = os.getpid()
+
+    def dies_some_blocks_in(job, first_line, data):
+        if os.getpid() != main_pid and first_line > 400:       # a worker process, some blocks in
+            os.kill(os.getpid(), signal.SIGKILL)
+        return compute(job, first_line, data)
+
+    monkeypatch.setattr(runs, "compute_block", dies_some_blocks_in)
+    assert _run(["batch", "al-si", str(heats), "-o", str(out), "--workers", "2"]) == 2
+    err = capsys.readouterr().err
+    assert "a worker process ended unexpectedly" in err and err.count("\n") == 1 and not out.exists()
+    monkeypatch.setattr(runs, "compute_block", compute)
+    assert _run(["batch", "al-si", str(heats), "-o", str(out), "--workers", "2", "--resume"]) == 1
+    assert out.read_bytes() == whole.read_bytes()
