@@ -154,10 +154,15 @@ def _binary_shortcut(system) -> bool:
                                              for p in system.phases.values())
 
 
-def equilibrate(system, temperature_K: float, composition, x_A: float | None = None) -> PointEquilibrium:
+def equilibrate(system, temperature_K: float, composition, x_A: float | None = None,
+                near: PointEquilibrium | None = None) -> PointEquilibrium:
     """Global-minimum equilibrium of `system` at temperature_K (K) and overall `composition`:
     a float (the mole fraction x_B of a binary; `x_A` may be given separately, default 1 - x_B,
     to keep digits near pure B) or the mole fractions of every element (summing to 1).
+
+    `near` may be the answer at a nearby composition and the same temperature (neighbouring
+    points of a section or a path): the general minimiser starts from it, which is several times
+    cheaper; the answer is checked the same way. The binary shortcut ignores it.
 
     Raises ValueError for a composition outside the composition simplex or a temperature at or
     below 0 K, and TemperatureOutOfRange outside the models.
@@ -167,7 +172,7 @@ def equilibrate(system, temperature_K: float, composition, x_A: float | None = N
     z, _ = _composition(system, composition, x_A)
     if _binary_shortcut(system):
         return _binary_equilibrium(system, float(temperature_K), z)
-    return general_equilibrium(system, temperature_K, z)
+    return general_equilibrium(system, temperature_K, z, near)
 
 
 def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
@@ -195,14 +200,19 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
                             gibbs_dT, float(state.gibbs) - T * gibbs_dT)
 
 
-def general_equilibrium(system, temperature_K: float, composition) -> PointEquilibrium:
+def general_equilibrium(system, temperature_K: float, composition,
+                        near: PointEquilibrium | None = None) -> PointEquilibrium:
     """The general minimiser on `system.models` (any number of elements, any phases), for any
     system: `equilibrate` calls it for everything but the binary shortcut; tests call it on
-    binaries to compare the two paths. `composition`: mole fractions of every element."""
+    binaries to compare the two paths. `composition`: mole fractions of every element; `near`:
+    see `equilibrate`."""
     T = float(temperature_K)
     z, _ = _composition(system, composition, None)
     models = {name: phase.at(T) for name, phase in system.models.items()}
-    found = global_minimum(models, z)
+    start = None
+    if near is not None and near.temperature_K == T:
+        start = ([(p.name, np.concatenate(p.site_fractions)) for p in near.phases], near.chemical_potentials)
+    found = global_minimum(models, z, start)
     M = system.molar_mass
     m_alloy = float(z @ M)
     shares = []

@@ -44,6 +44,8 @@ GAP_DISTANCE = 0.08
 #: Relative size of the neighbourhood added around refined points (see `_neighbourhood`).
 NEIGHBOURHOOD = 1e-2
 _ROUNDS = 8
+#: A phase with less than this (moles of atoms per mole of alloy) is not reported.
+VANISHING_AMOUNT = 1e-14
 _SMALLEST_START = 1e-12
 
 
@@ -272,9 +274,15 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
     return found
 
 
-def global_minimum(models: dict[str, object], z: np.ndarray) -> GlobalMinimum:
+def global_minimum(models: dict[str, object], z: np.ndarray,
+                   near: tuple[list[tuple[str, np.ndarray]], np.ndarray] | None = None) -> GlobalMinimum:
     """The global minimum of G over `models` (name -> SublatticeAtT at one temperature) at
-    overall composition z (mole fractions of every element, summing to 1)."""
+    overall composition z (mole fractions of every element, summing to 1).
+
+    `near` may give the answer at a nearby composition and the same temperature: its phases
+    (name, site fractions) and chemical potentials (J/mol). Newton starts from it; where that
+    converges and no phase lies below the result, the linear program is skipped (the answer
+    passes the same driving-force check either way)."""
     z = np.asarray(z, dtype=float)
     active = z > 0.0
     elements = np.flatnonzero(active)
@@ -282,6 +290,10 @@ def global_minimum(models: dict[str, object], z: np.ndarray) -> GlobalMinimum:
     prepared = _prepared(models, active)
     phases = prepared.phases
     cloud = _Cloud(phases)
+    if near is not None:
+        warm = _from_nearby(near, phases, cloud, z, active, elements)
+        if warm is not None:
+            return warm
     lp = LowestCombination(prepared.XT, prepared.G, za, start=prepared.last_basis, transposed=True)
     if lp.uses_artificial:
         raise ValueError("no combination of the phases reaches this composition")
@@ -326,6 +338,47 @@ def global_minimum(models: dict[str, object], z: np.ndarray) -> GlobalMinimum:
     return _result(states, mu, z, active, elements, converged)
 
 
+def _from_nearby(near, phases: list[_Phase], cloud: _Cloud, z: np.ndarray, active: np.ndarray,
+                 elements: np.ndarray) -> GlobalMinimum | None:
+    """The minimum refined from a nearby answer, or None where Newton fails from there or a
+    phase lies below its result."""
+    previous, mu0 = near
+    mu0 = np.asarray(mu0, dtype=float)
+    if len(mu0) != len(z) or not np.all(np.isfinite(mu0[active])):
+        return None
+    by_name = {ph.name: ph for ph in phases}
+    states, columns = [], []
+    for name, y in previous:
+        ph = by_name.get(name)
+        if ph is None or len(y) != ph.model.n_vars:
+            return None
+        y0 = np.zeros(len(y))
+        y0[ph.free] = np.maximum(np.asarray(y, dtype=float)[ph.free], _SMALLEST_START)
+        for g in ph.model.groups:
+            gi = g[np.isin(g, ph.free)]
+            y0[gi] /= y0[gi].sum()
+        x, _g = _per_atom(ph.model, y0, active)
+        states.append(PhaseState(name, ph.model, y0, 0.0, ph.free))
+        columns.append(x)
+    if not states:
+        return None
+    za = z[active] / z[active].sum()
+    w = np.clip(np.linalg.lstsq(np.array(columns).T, za, rcond=None)[0], 0.0, None)
+    if w.sum() <= 0.0:
+        return None
+    for st, wi in zip(states, w / w.sum()):
+        st.amount = float(wi) / st.atoms
+    refined, mu, ok = solve(states, za, mu0[active], elements)
+    if not ok:
+        return None
+    refined = _merge_duplicates(refined)
+    gibbs = float(mu @ za)
+    tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * (abs(gibbs) + 1.0))
+    if _candidates(cloud, refined, mu, elements, tol):
+        return None
+    return _result(refined, mu, z, active, elements, True)
+
+
 def _phase_index(phases: list[_Phase], name: str) -> int:
     return next(i for i, ph in enumerate(phases) if ph.name == name)
 
@@ -334,6 +387,7 @@ def _result(states: list[PhaseState], mu_active: np.ndarray, z: np.ndarray, acti
             elements: np.ndarray, converged: bool) -> GlobalMinimum:
     out = []
     gibbs = gibbs_dT = 0.0
+    states = [st for st in states if st.amount * st.atoms > VANISHING_AMOUNT] or states
     for st in states:
         with np.errstate(all="ignore"):
             n = st.y @ st.model.element_matrix

@@ -197,3 +197,21 @@ def test_an_absent_element_is_the_limit_of_a_trace_of_it():
         assert a.gibbs_J_per_mol == pytest.approx(b.gibbs_J_per_mol, abs=1e-4)
         assert np.isnan(a.chemical_potentials[z == 0.0]).all()
         assert np.isfinite(a.chemical_potentials[z > 0.0]).all() or len(a.phases) == 1
+
+
+def test_a_start_from_a_nearby_answer_gives_the_same_answer():
+    """equilibrate(..., near=previous) along a line of compositions at one temperature: the same
+    phases and G as the cold start (the warm start passes the same driving-force check)."""
+    rng = np.random.default_rng(51)
+    els, phases = random_system(rng, 3)
+    system = system_of(els, phases)
+    T = 1000.0
+    previous = None
+    for t in np.linspace(0.02, 0.98, 40):
+        z = np.array([t, (1.0 - t) * 0.6, (1.0 - t) * 0.4])
+        warm = general_equilibrium(system, T, z, near=previous)
+        cold = general_equilibrium(system, T, z)
+        assert warm.converged
+        assert sorted(warm.phase_names) == sorted(cold.phase_names)
+        assert warm.gibbs_J_per_mol == pytest.approx(cold.gibbs_J_per_mol, abs=1e-7)
+        previous = warm
