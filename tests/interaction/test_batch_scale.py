@@ -161,8 +161,8 @@ sys.exit(status)
 
 def _ladle(args: list[str], block: int = SMALL_BLOCKS, **kwargs) -> subprocess.Popen:
     code = textwrap.dedent(_SUBPROCESS_RUN.format(block=block))
-    return subprocess.Popen([sys.executable, "-c", code, *args], stdout=subprocess.PIPE, stderr=subprocess.PIPE,
-                            text=True, **kwargs)
+    kwargs = {"stdout": subprocess.PIPE, "stderr": subprocess.PIPE, "text": True, **kwargs}
+    return subprocess.Popen([sys.executable, "-c", code, *args], **kwargs)
 
 
 def test_sigterm_to_a_real_process_then_resume(tmp_path, small_blocks):
@@ -181,6 +181,30 @@ def test_sigterm_to_a_real_process_then_resume(tmp_path, small_blocks):
     assert "stopped by SIGTERM" in err and not out.exists()
     assert _run(["batch", "al-si", str(heats), "-o", str(out), "--workers", "2", "--resume"]) == 1
     assert out.read_bytes() == whole.read_bytes()
+
+
+def test_a_terminal_gets_a_progress_line_with_speed_and_time_left(tmp_path):
+    import pty
+
+    heats = _heat_list(tmp_path / "heats.csv", 20000)
+    leader, follower = pty.openpty()
+    process = _ladle(["batch", "al-si", str(heats), "-o", str(tmp_path / "out.csv"), "--workers", "1"], block=16384,
+                     stdout=subprocess.DEVNULL, stderr=follower, text=False)
+    os.close(follower)
+    screen = b""
+    while True:
+        try:
+            chunk = os.read(leader, 4096)
+        except OSError:                  # the terminal's other end closed: the run is over
+            break
+        if not chunk:
+            break
+        screen += chunk
+    os.close(leader)
+    assert process.wait(60) == 1
+    text = screen.decode()
+    assert "\rladle batch: " in text and " heats/s" in text and " left" in text
+    assert "19998 of 20000 heats computed" in text
 
 
 def test_memory_does_not_grow_with_the_number_of_heats(tmp_path):
