@@ -89,18 +89,17 @@ class LowestCombination:
         while self.iterations < self.max_iterations:
             mu = cost @ inv                          # B^T mu = c_B
             d = G - mu @ XT
-            k = int(np.argmin(d)) if len(d) else -1
+            k = int(d.argmin()) if len(d) else -1
             if k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k])):
                 converged = True
                 break
             u = inv @ XT[:, k]
-            pos = u > 1e-12
-            if not pos.any():                        # unbounded cannot happen on a simplex
+            r, step = -1, np.inf                     # the ratio test, in Python floats (N is small)
+            for i, (ui, wi) in enumerate(zip(u.tolist(), w.tolist())):
+                if ui > 1e-12 and max(wi, 0.0) / ui < step:
+                    r, step = i, max(wi, 0.0) / ui
+            if r < 0:                                # unbounded cannot happen on a simplex
                 break
-            ratio = np.full(len(u), np.inf)
-            ratio[pos] = np.maximum(w[pos], 0.0) / u[pos]
-            r = int(np.argmin(ratio))
-            step = ratio[r]
             w = w - step * u
             w[r] = step
             self.basis[r] = k * stride
