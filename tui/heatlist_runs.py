@@ -400,6 +400,7 @@ def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals
                 if state_file.exists():
                     note(f"an interrupted run's partial results for {quoted_path(output)} were discarded "
                          f"(--resume would have continued it)")
+                    state_file.unlink()
                 out.truncate(0)
                 out.write(plan.job.header_text())
                 totals, duplicates, offset, line = Totals(), DuplicateCheck(), layout.data_offset, layout.data_line
