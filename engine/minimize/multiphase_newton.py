@@ -198,43 +198,49 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
 
 
 def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.ndarray, free: np.ndarray,
-                         steps: int = 8) -> tuple[np.ndarray, float]:
+                         steps: int = 8, margin: float = 0.0) -> tuple[np.ndarray, float]:
     """A few Newton steps toward the minimum of G(y) - y A mu (J per mole of formula units) over
     the phase's site fractions from y0; returns (y, driving force per mole of atoms, J/mol).
-    Negative means the phase lies below the tangent plane mu."""
+    Negative means the phase lies below the tangent plane mu. The steps stop early where the
+    local quadratic model puts the minimum above `margin` (J/mol) with room to spare."""
     S = sublattice_rows(model, free)
     A = model.element_matrix[np.ix_(free, elements)]
+    E = model.element_matrix[:, elements]
     y = np.array(y0, dtype=float)
     nf, ns = len(free), S.shape[0]
     K = np.zeros((nf + ns, nf + ns))
     K[:nf, nf:] = -S.T
     K[nf:, :nf] = S
     Amu = A @ mu
-    for _ in range(steps):
-        with np.errstate(all="ignore"):
-            g = model.gradient(y)[free]
-            H = model.hessian(y)[np.ix_(free, free)]
-        yf = y[free]
-        lam = S @ (yf * (g - Amu)) / (S @ yf)
-        r = np.concatenate([g - Amu - S.T @ lam, S @ yf - 1.0])
-        K[:nf, :nf] = H
-        if not np.all(np.isfinite(K)):
-            break
-        try:
-            d = np.linalg.solve(K, -r)
-        except np.linalg.LinAlgError:
-            break
-        # a non-convex region: Newton may head for a maximum; keep only descent-like steps bounded
-        dy = d[:nf]
-        big = np.max(np.abs(dy))
-        if big > 0.2:
-            dy = dy * (0.2 / big)
-        y_new = y.copy()
-        y_new[free] = positive_step(yf, dy)
-        y = _normalise(y_new, model, free)
-        if big < 1e-10:
-            break
+    fr, fc = free[:, None], free[None, :]
     with np.errstate(all="ignore"):
+        for _ in range(steps):
+            G, g, H = _derivatives(model, y)
+            g, H = g[free], H[fr, fc]
+            yf = y[free]
+            lam = S @ (yf * (g - Amu)) / (S @ yf)
+            r = np.concatenate([g - Amu - lam @ S, S @ yf - 1.0])
+            K[:nf, :nf] = H
+            if not np.isfinite(K).all():
+                break
+            try:
+                d = np.linalg.solve(K, -r)
+            except np.linalg.LinAlgError:
+                break
+            dy = d[:nf]
+            predicted = 0.5 * float((g - Amu - lam @ S) @ dy)      # the quadratic model's change
+            atoms = float((y @ E).sum()) if len(elements) else 1.0
+            df_now = (float(G) - float((y @ E) @ mu)) / atoms
+            if predicted <= 0.0 and df_now + 2.0 * predicted / atoms > margin + 10.0 * abs(predicted) / atoms:
+                break                                               # its minimum is well above the plane
+            big = float(np.abs(dy).max())
+            if big > 0.2:                                           # a non-convex region: bounded steps
+                dy = dy * (0.2 / big)
+            y_new = y.copy()
+            y_new[free] = positive_step(yf, dy)
+            y = _normalise(y_new, model, free)
+            if big < 1e-10:
+                break
         n = y @ model.element_matrix
         atoms = float(n.sum())
         df = (float(model.gibbs(y)) - float(n[elements] @ mu)) / atoms
