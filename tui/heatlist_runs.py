@@ -223,8 +223,10 @@ class Workers:
     """Computes blocks in this process (one worker), in local worker processes or on a Dask
     cluster; `submit` returns something whose `result()` is the BlockResult."""
 
-    def __init__(self, job: BlockJob, workers: int, cluster: str | None) -> None:
+    def __init__(self, job: BlockJob, workers: int, cluster: str | None, data_bytes: int) -> None:
+        """`workers` processes at most, and no more than there are blocks in `data_bytes`."""
         self.job, self.pool, self.client = job, None, None
+        workers = min(workers, -(-data_bytes // _block_bytes(job)))
         if cluster is not None:
             self.client = _connect(cluster)
             # twice the local window: a block's round trip over the network is longer
@@ -369,7 +371,7 @@ def _run_to_stdout(plan: Plan, stop: _Stop) -> Totals:
     write(plan.job.header_text())
     totals, duplicates = Totals(), DuplicateCheck()
     progress = Progress(plan.scan.lines, layout.data_line, rows_on_screen=terminal)
-    workers = Workers(plan.job, plan.workers, plan.cluster)
+    workers = Workers(plan.job, plan.workers, plan.cluster, plan.scan.size - layout.data_offset)
     try:
         for _offset, line, result in in_order(workers, blocks(plan.source, layout.data_offset, layout.data_line,
                                                               plan.scan.size, _block_bytes(plan.job))):
@@ -406,7 +408,7 @@ def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals
                 totals, duplicates, offset, line = Totals(), DuplicateCheck(), layout.data_offset, layout.data_line
             progress = Progress(plan.scan.lines, line)
             saved_at = time.monotonic()
-            workers = Workers(plan.job, plan.workers, plan.cluster)
+            workers = Workers(plan.job, plan.workers, plan.cluster, plan.scan.size - offset)
             try:
                 for after, after_line, result in in_order(workers, blocks(plan.source, offset, line, plan.scan.size,
                                                                           _block_bytes(plan.job))):

@@ -303,7 +303,10 @@ def _ternary_eutectic_K() -> float:
     return brentq(lambda T: it.saturation(T).sum() - 1.0, 300.0, 1000.0, xtol=1e-10)
 
 
-def test_a_ternary_heat_list_names_all_but_the_balance(ideal_ternary, tmp_path, capsys):
+def test_a_ternary_heat_list_names_all_but_the_balance(ideal_ternary, tmp_path, capsys, monkeypatch):
+    import ladle.tui.heatlist_runs as runs
+
+    monkeypatch.setattr(runs, "ALLOY_BLOCK_BYTES", 16)           # a block per heat: both workers busy
     path = tmp_path / "heats.csv"
     path.write_text("heat,Sn at%,Bi at%\nT1,20,10\nT2,30,30\nT3,abc,5\nT4,60,50\n")
     outputs = []
