@@ -215,3 +215,25 @@ def test_a_start_from_a_nearby_answer_gives_the_same_answer():
         assert sorted(warm.phase_names) == sorted(cold.phase_names)
         assert warm.gibbs_J_per_mol == pytest.approx(cold.gibbs_J_per_mol, abs=1e-7)
         previous = warm
+
+
+def test_temperature_derivative_and_enthalpy_of_the_alloy():
+    """dG/dT of the equilibrium at fixed overall composition against a central difference of the
+    equilibrium's G (h = 1e-3 K; at a minimum the phases' own changes do not contribute to first
+    order, so the difference of the minima is the derivative), and H against the Gibbs-Helmholtz
+    relation H = -T^2 d(G/T)/dT by the same difference."""
+    rng = np.random.default_rng(61)
+    els, phases = random_system(rng, 3, sublattice_phase=True)
+    system = system_of(els, phases)
+    h = 1e-3
+    for _ in range(8):
+        T = float(rng.uniform(700.0, 1300.0))
+        z = rng.dirichlet(np.ones(3))
+        eq = general_equilibrium(system, T, z)
+        above = general_equilibrium(system, T + h, z).gibbs_J_per_mol
+        below = general_equilibrium(system, T - h, z).gibbs_J_per_mol
+        if sorted(general_equilibrium(system, T + h, z).phase_names) != sorted(eq.phase_names):
+            continue                                   # a phase boundary within h: no derivative
+        assert eq.gibbs_dT_J_per_mol_K == pytest.approx((above - below) / (2 * h), abs=1e-4)
+        gibbs_helmholtz = -T * T * (above / (T + h) - below / (T - h)) / (2 * h)   # H = -T^2 d(G/T)/dT
+        assert eq.enthalpy_J_per_mol == pytest.approx(gibbs_helmholtz, abs=0.2)
