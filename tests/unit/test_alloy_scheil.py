@@ -101,3 +101,26 @@ def test_a_ternary_alloy_without_its_third_element_freezes_as_the_binary(monkeyp
 def test_bad_compositions_are_refused():
     with pytest.raises(ValueError, match="3 non-negative mole fractions summing to 1"):
         alloy_scheil.alloy_scheil(it.eutectic_system(), [0.5, 0.6, -0.1])
+
+
+def test_through_the_engine_the_ternary_eutectic_path_is_the_closed_form(tmp_path):
+    """The same invented system as a system file, through the general minimiser."""
+    from ladle.engine import load_system
+
+    system = load_system(it.write_system_files(tmp_path)["ideal-eutectic"])
+    path = alloy_scheil.alloy_scheil(system, Z)
+    a = it.saturation
+    T_liquidus = brentq(lambda T: a(T)[0] - Z[0], 600.0, 1300.0, xtol=1e-12)
+    T_eutectic = brentq(lambda T: a(T).sum() - 1.0, 400.0, 1000.0, xtol=1e-12)
+
+    def f_primary(T):
+        return (1.0 - Z[0]) / (1.0 - a(T)[0])
+
+    T_valley = brentq(lambda T: Z[1] / f_primary(T) - a(T)[1], 560.0, T_liquidus - 1e-6, xtol=1e-12)
+    assert path.liquidus_K == pytest.approx(T_liquidus, abs=1e-6)
+    assert path.arrests[1].temperature_K == pytest.approx(T_valley, abs=1e-6)
+    assert path.end == "ternary eutectic" and path.end_K == pytest.approx(T_eutectic, abs=1e-6)
+    f_eutectic = Z[2] / a(T_eutectic)[2]
+    assert [c.fraction_mol for c in path.constituents] == pytest.approx(
+        [1.0 - f_primary(T_valley), f_primary(T_valley) - f_eutectic, f_eutectic], abs=1e-6)
+    assert path.notes == ()
