@@ -35,13 +35,19 @@ def ternary_app(monkeypatch):
     return app
 
 
-async def _settled(app, pilot) -> None:
-    """Wait until the workers have answered (the isopleth is mapped, the point computed)."""
-    for _ in range(200):
+async def _until(pilot, answered, what: str) -> None:
+    """Wait (at most 6 s) until `answered()` is true: the workers have given what the test needs."""
+    for _ in range(300):
         await pilot.pause(0.02)
-        if app.screen.exploration.isopleth is not None and "computing" not in status_text(app):
+        if answered():
             return
-    raise AssertionError("the workers did not answer")
+    raise AssertionError(f"the workers did not answer: {what}")
+
+
+async def _settled(app, pilot) -> None:
+    """Wait until the isopleth is mapped and the point at the cursor computed."""
+    await _until(pilot, lambda: app.screen.exploration.isopleth is not None and "computing" not in status_text(app),
+                 "the isopleth and the point")
 
 
 @pilot_test
@@ -113,10 +119,7 @@ async def test_the_isothermal_section_at_the_cursors_temperature(ternary_app, mo
         await _settled(app, pilot)
         await pilot.press("i")
         e = app.screen.exploration
-        for _ in range(200):
-            await pilot.pause(0.02)
-            if e.triangle is not None:
-                break
+        await _until(pilot, lambda: e.triangle is not None, "the isothermal section")
         assert e.view == "triangle" and e.triangle.temperature_K == pytest.approx(700.0)
         text = screen_text(app)
         assert "alpha + liquid" in text and "mole fractions" in text
@@ -136,10 +139,7 @@ async def test_the_cooling_view_shows_both_paths_of_the_cursors_alloy(ternary_ap
     async with app.run_test(size=SIZE) as pilot:
         await _settled(app, pilot)
         await pilot.press("c")
-        for _ in range(300):
-            await pilot.pause(0.02)
-            if "computing" not in status_text(app):
-                break
+        await _until(pilot, lambda: "computing" not in status_text(app), "the freezing paths")
         text = status_text(app)
         # 90 A, 5 B, 5 C (at%): alpha first, the ternary eutectic ends freezing (ideal_ternaries)
         assert "FREEZING" in text and "primary alpha" in text and "(ternary eutectic)" in text
