@@ -180,11 +180,14 @@ class _Mapper:
                     above, below = self.eq_at(*at(t - 0.4 * EDGE_TOLERANCE)), self.eq_at(*at(t + 0.4 * EDGE_TOLERANCE))
                     if phase_set(above) == ka and phase_set(below) == kb:
                         return [(at(t), ka, kb)]
-        mid = self.eq_at(*at(0.5))
-        km = phase_set(mid)
-        if km not in (ka, kb) and depth < _MAX_SPLITS:
-            return self.changes(a, at(0.5), ea, mid, depth + 1) + self.changes(at(0.5), b, mid, eb, depth + 1)
-        near, far, near_eq, far_eq = (0.0, 0.5, ea, mid) if km != ka else (0.5, 1.0, mid, eb)
+        if len(_changed(ka, kb)) == 1:             # one phase appears: one zero-phase-fraction line, as a rule
+            near, far, near_eq, far_eq = 0.0, 1.0, ea, eb
+        else:
+            mid = self.eq_at(*at(0.5))
+            km = phase_set(mid)
+            if km not in (ka, kb) and depth < _MAX_SPLITS:
+                return self.changes(a, at(0.5), ea, mid, depth + 1) + self.changes(at(0.5), b, mid, eb, depth + 1)
+            near, far, near_eq, far_eq = (0.0, 0.5, ea, mid) if km != ka else (0.5, 1.0, mid, eb)
         near, far, _, far_eq = narrow_change(lambda t: self.eq_at(*at(t)), near, far, phase_set(near_eq), near_eq,
                                              far_eq, EDGE_TOLERANCE)
         point = at(0.5 * (near + far))
