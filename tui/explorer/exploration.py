@@ -187,6 +187,24 @@ class Exploration:
                     temperature_K=crossing.temperature_K)))
         return min(candidates, key=lambda pair: pair[0])[1] if candidates else None
 
+    def warm_neighbours(self) -> None:
+        """Compute ahead what one more step in any direction (coarse or fine) will ask for: the
+        melt range of each neighbouring composition and the section at each neighbouring
+        temperature (both cached), so that the next key press finds them ready. Meant for a
+        worker thread while the person reads the screen."""
+        cursor = self.cursor
+        for fine in (False, True):
+            for d_temperature, d_composition in ((1, 0), (-1, 0), (0, 1), (0, -1)):
+                near = cursor.moved(d_temperature, d_composition, self.steps(fine), self.scales,
+                                    self.limits)
+                if d_composition:
+                    try:
+                        self._melt(near.x_B)
+                    except ValueError:
+                        pass
+                else:
+                    section_at(self.system, near.temperature_K).tie_lines
+
     # -- what the keys do -----------------------------------------------------------------
 
     def steps(self, fine: bool = False) -> Steps:

@@ -69,6 +69,7 @@ class ExploreScreen(Screen[None]):
         self.glyphs = glyphs
         self.view = "diagram"
         self._save_timer = None
+        self._warming = None   # the worker computing ahead for the next step
 
     # -- layout ----------------------------------------------------------------------------
 
@@ -125,6 +126,14 @@ class ExploreScreen(Screen[None]):
         elif self.view == "cooling":
             self.query_one(CoolingView).follow(self.exploration)
         self._schedule_save()
+        self._warm_neighbours()
+
+    def _warm_neighbours(self) -> None:
+        """In a thread, compute what the next step will need (one at a time: a move made while
+        one runs is warmed by the next)."""
+        if self._warming is None or self._warming.is_finished:
+            self._warming = self.run_worker(self.exploration.warm_neighbours, thread=True,
+                                            group="warm", exit_on_error=False)
 
     def _show_title(self) -> None:
         system = self.exploration.system
