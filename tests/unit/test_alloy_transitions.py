@@ -81,3 +81,47 @@ def test_bad_compositions_are_refused() -> None:
         alloy_transitions(system, [0.2, 0.2, 0.6])
     with pytest.raises(ValueError):
         alloy_transitions(system, 0.2, step_K=0.0)
+
+
+def test_a_ternary_of_two_ideal_solutions_melts_where_the_closed_form_says() -> None:
+    """Any number of elements: an ideal liquid and an ideal solid in A-B-C (invented melting points
+    and enthalpies of fusion, G(liquid) - G(solid) = dH (1 - T/Tm) per element). With
+    k_i = x_i(solid) / x_i(liquid) = exp(dG_i / RT) from equal chemical potentials, the liquidus
+    of alloy z is where sum_i z_i k_i = 1 and the solidus where sum_i z_i / k_i = 1 (the
+    two-phase split of H.H. Rachford and J.D. Rice, J. Pet. Technol. 4 (1952) 19, at its ends),
+    solved with scipy's brentq."""
+    import sys
+    from pathlib import Path
+
+    from scipy.optimize import brentq
+
+    from ladle.engine.models.polynomials import TemperatureFunction
+    from ladle.engine.models.sublattice import SublatticePhase
+    from ladle.engine.units import GAS_CONSTANT as R
+
+    sys.path.insert(0, str(Path(__file__).parent))
+    from multicomponent_models import system_of
+
+    els = ("A", "B", "C")
+    Tm, dH = np.array([1000.0, 1200.0, 1400.0]), np.array([10000.0, 12000.0, 14000.0])
+
+    def solution(name: str, coefficients: list[dict]) -> SublatticePhase:
+        ends = {(el,): TemperatureFunction.constant_terms(c) for el, c in zip(els, coefficients)}
+        return SublatticePhase(name=name, elements=els, site_ratios=(1.0,), constituents=(els,), end_members=ends)
+
+    system = system_of(els, [solution("liquid", [{"a": h, "b": -h / t} for h, t in zip(dH, Tm)]),
+                             solution("solid", [{"a": 0.0}] * 3)])
+    system.model_range_K, system.covers_K, system.temperature_range_K = (1.0, 6000.0), (0.0, np.inf), (900.0, 1500.0)
+    z = np.array([0.3, 0.3, 0.4])
+
+    def k(T: float) -> np.ndarray:
+        return np.exp(dH * (1.0 - T / Tm) / (R * T))
+
+    liquidus = brentq(lambda T: np.sum(z * k(T)) - 1.0, 900.0, 1500.0, xtol=1e-12)
+    solidus = brentq(lambda T: np.sum(z / k(T)) - 1.0, 900.0, 1500.0, xtol=1e-12)
+    result = alloy_transitions(system, z, highest_K=1400.0, lowest_K=1000.0)
+    assert [(set(t.above), set(t.below)) for t in result.transitions] == [
+        ({"liquid"}, {"liquid", "solid"}), ({"liquid", "solid"}, {"solid"})]
+    assert result.transitions[0].temperature_K == pytest.approx(liquidus, abs=1e-5)
+    assert result.transitions[1].temperature_K == pytest.approx(solidus, abs=1e-5)
+    assert (result.liquidus_K, result.solidus_K) == (result.transitions[0].temperature_K, result.transitions[1].temperature_K)
