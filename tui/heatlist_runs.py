@@ -39,13 +39,16 @@ BLOCK_BYTES = 1 << 18
 ALLOY_BLOCK_BYTES = 256
 #: Blocks in flight per worker (enough to keep every worker busy while this process writes).
 WINDOW_PER_WORKER = 2
-#: Heats whose identifiers are checked for repeats (16 bytes each, twice that while two runs
-#: are merged: 64 MB at most).
-DUPLICATE_CHECK_LIMIT = 2_000_000
+#: Heats whose identifiers are checked for repeats (16 bytes each, up to 40 while they are
+#: sorted at the end: 60 MB at most).
+DUPLICATE_CHECK_LIMIT = 1_500_000
 #: Seconds to wait for a Dask scheduler to answer.
 CLUSTER_TIMEOUT_S = 3.0
-#: Seconds between two saves of the state file (and two updates of the progress line).
-CHECKPOINT_S = 0.5
+#: Seconds between two saves of the state file (a stop by a signal saves it at once; these
+#: are for a machine that goes down).
+CHECKPOINT_S = 2.0
+#: Seconds between two updates of the progress line.
+PROGRESS_S = 0.5
 _STATE_VERSION = 1
 
 
@@ -86,9 +89,9 @@ class _Stop:
 @dataclass
 class Totals:
     """What the blocks written so far held: heats, rows not computed (count and the first
-    LISTED as (line, reason)), heats without an identifier (count, first lines) and heats whose
-    identifier repeats an earlier one (count, first (line, earlier line)); whether the duplicate
-    check stopped at DUPLICATE_CHECK_LIMIT."""
+    LISTED as (line, reason)), heats without an identifier (count, first lines); at the end,
+    the heats whose identifier repeats an earlier one (count, first (line, earlier line)) and
+    whether that check stopped at DUPLICATE_CHECK_LIMIT."""
 
     heats: int = 0
     problems: int = 0
@@ -108,48 +111,43 @@ class Totals:
 
 
 class DuplicateCheck:
-    """Identifier hashes seen so far with the line of their first heat, as sorted runs merged
-    when a run is no longer than the one after it (each hash is merged about log2(n) times)."""
+    """The identifier hashes of the heats written, with their lines, checked for repeats once at
+    the end (one stable sort: 16 bytes a heat, three times that while sorting)."""
 
     def __init__(self) -> None:
-        self.runs: list[tuple[np.ndarray, np.ndarray]] = []
+        self.hashes: list[np.ndarray] = []
+        self.lines: list[np.ndarray] = []
         self.size = 0
+        self.full = False
 
-    def _seen(self, h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """(whether each hash was seen, the line of its first heat where it was)."""
-        seen, first = np.zeros(h.size, dtype=bool), np.zeros(h.size, dtype=np.int64)
-        for hashes, lines in self.runs:
-            at = np.minimum(np.searchsorted(hashes, h), hashes.size - 1)
-            found = (hashes[at] == h) & ~seen
-            seen |= found
-            first[found] = lines[at[found]]
-        return seen, first
-
-    def add(self, hashes: np.ndarray, lines: np.ndarray, totals: Totals) -> None:
-        """Record a block's identifiers (in row order); count and list the repeats in `totals`."""
-        if totals.duplicate_check_full or not hashes.size:
+    def add(self, hashes: np.ndarray, lines: np.ndarray) -> None:
+        """Record a block's identifiers (in row order), up to DUPLICATE_CHECK_LIMIT heats."""
+        if self.full:
             return
-        order = np.argsort(hashes, kind="stable")
-        h, n = hashes[order], lines[order]
-        first_in_block = np.concatenate([[True], h[1:] != h[:-1]])
-        first_of_run = np.maximum.accumulate(np.where(first_in_block, np.arange(h.size), 0))
-        seen, seen_line = self._seen(h)
-        repeat = seen | ~first_in_block
-        if repeat.any():
-            earlier = np.where(seen, seen_line, n[first_of_run])
-            pairs = sorted(zip(n[repeat].tolist(), earlier[repeat].tolist()))
-            totals.duplicates += len(pairs)
-            totals.duplicate_listed += pairs[:LISTED - len(totals.duplicate_listed)]
-        new = first_in_block & ~seen
-        self.runs.append((h[new], n[new]))
-        self.size += int(new.sum())
-        while len(self.runs) > 1 and self.runs[-2][0].size <= 2 * self.runs[-1][0].size:
-            (h1, n1), (h2, n2) = self.runs.pop(), self.runs.pop()
-            at = np.searchsorted(h2, h1)          # the runs share no hash: a plain merge
-            self.runs.append((np.insert(h2, at, h1), np.insert(n2, at, n1)))
-        if self.size >= DUPLICATE_CHECK_LIMIT:
-            totals.duplicate_check_full = True
-            self.runs, self.size = [], 0
+        self.hashes.append(hashes)
+        self.lines.append(lines)
+        self.size += hashes.size
+        if self.size > DUPLICATE_CHECK_LIMIT:
+            self.full, self.hashes, self.lines = True, [], []
+
+    def report(self, totals: Totals) -> None:
+        """Count and list in `totals` the heats whose identifier repeats an earlier one's."""
+        totals.duplicate_check_full = self.full
+        if self.full or not self.size:
+            return
+        hashes = np.concatenate(self.hashes)
+        self.hashes = []
+        order = np.argsort(hashes, kind="stable")       # equal hashes keep the file's order
+        h = hashes[order]
+        del hashes
+        lines = np.concatenate(self.lines)
+        self.lines = []
+        n = lines[order]
+        del lines, order
+        first = np.concatenate([[True], h[1:] != h[:-1]])
+        earliest = n[np.maximum.accumulate(np.where(first, np.arange(h.size), 0))]
+        pairs = sorted(zip(n[~first].tolist(), earliest[~first].tolist()))
+        totals.duplicates, totals.duplicate_listed = len(pairs), pairs[:LISTED]
 
 
 class Progress:
@@ -161,9 +159,9 @@ class Progress:
         self.total, self.start_lines, self.started = max(total_lines, 1), done_lines, time.monotonic()
         self.shown_at = 0.0
 
-    def show(self, heats: int, lines: int, force: bool = False) -> None:
+    def show(self, heats: int, lines: int) -> None:
         now = time.monotonic()
-        if not self.enabled or (now - self.shown_at < CHECKPOINT_S and not force):
+        if not self.enabled or now - self.shown_at < PROGRESS_S:
             return
         self.shown_at = now
         elapsed = max(now - self.started, 1e-9)
@@ -382,12 +380,13 @@ def _run_to_stdout(plan: Plan, stop: _Stop) -> Totals:
     finally:
         progress.close()
         workers.close()
+    duplicates.report(totals)
     return totals
 
 
 def _count(totals: Totals, duplicates: DuplicateCheck, result: BlockResult) -> None:
     totals.add(result)
-    duplicates.add(result.id_hashes, result.id_lines, totals)
+    duplicates.add(result.id_hashes, result.id_lines)
 
 
 def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals:
@@ -432,6 +431,7 @@ def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals
         state_file.unlink()
     except FileNotFoundError:
         pass
+    duplicates.report(totals)
     return totals
 
 
@@ -486,13 +486,10 @@ def _resumed(plan: Plan, out, state_file: Path, note: Callable[[str], None]):
                            f"run without --resume")
     out.truncate(written)
     out.seek(written)
-    duplicates = DuplicateCheck()
-    if not totals.duplicate_check_full:          # the identifiers already written, read again
-        rebuilt = Totals()
-        layout = plan.job.layout
-        for block in blocks(plan.source, layout.data_offset, layout.data_line, offset, _block_bytes(plan.job)):
-            duplicates.add(*identifiers(plan.job, block.first_line, block.data), rebuilt)
-        totals.duplicate_check_full = rebuilt.duplicate_check_full
+    duplicates = DuplicateCheck()                # the identifiers already written, read again
+    layout = plan.job.layout
+    for block in blocks(plan.source, layout.data_offset, layout.data_line, offset, _block_bytes(plan.job)):
+        duplicates.add(*identifiers(plan.job, block.first_line, block.data))
     note(f"resuming at line {line}: {totals.heats:,} heats were written before")
     return totals, duplicates, offset, line
 
