@@ -17,6 +17,7 @@ import numpy as np
 
 from ..errors import SystemFileError
 from . import bounds as limits
+from .alloys import read_alloys
 from .facts import parse_facts, reject_repeated_facts
 from .trade_names import read_trade_names
 from .variants import is_variant, load_variant
@@ -28,7 +29,7 @@ from .plain_text import has_controls, without_controls
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
 _TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
              "temperature_range_K", "phase", "check", "measured", "fit", "fit_report", "builds_on",
-             "trade_names", "trade_line", "trade_line_note", "heat_treatment"}
+             "trade_names", "trade_line", "trade_line_note", "heat_treatment", "alloy"}
 _LOWEST_K = 1.0
 
 
@@ -273,6 +274,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     system.checks = parse_facts(doc.get("check", []), "check", system, r.fail)
     system.measured = parse_facts(doc.get("measured", []), "measured", system, r.fail)
     read_trade_names(doc, phases, r.fail)
+    system.alloys = read_alloys(doc.get("alloy", []), elements, r.fail)
     reject_repeated_facts(system.checks, system.measured, r.fail)
     if "fit" in doc:
         fit = r.table(doc["fit"], "fit")

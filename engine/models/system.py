@@ -66,6 +66,7 @@ class System:
     checks: list[Fact] = field(default_factory=list)
     measured: list[Fact] = field(default_factory=list)
     fit_free: list[str] = field(default_factory=list)
+    alloys: tuple = ()
     document: dict = field(default_factory=dict, repr=False)
 
     @property

@@ -21,10 +21,41 @@ def add_system_argument(p: argparse.ArgumentParser) -> None:
                    help="leave this phase out (repeatable), for a metastable equilibrium such as iron-cementite: --without graphite")
 
 
-def add_composition_argument(p: argparse.ArgumentParser) -> None:
-    p.add_argument("--comp", required=True, action="append", metavar="SPEC",
-                   help="alloy composition, e.g. Ni=40wt%% or Ni=40at%%; for three or more elements name all but "
-                        "the balance, e.g. Ag=3wt%%,Cu=0.5wt%% (or repeat --comp)")
+class AlloyName(str):
+    """An --alloy value: the name of one of the system's alloy shorthands (its [[alloy]] list),
+    kept where the --comp values go and turned into its composition by `read_alloy`."""
+
+
+class _StoreAlloyName(argparse.Action):
+    def __call__(self, parser, namespace, value, option_string=None):
+        setattr(namespace, self.dest, [AlloyName(value)])
+
+
+def add_composition_argument(p: argparse.ArgumentParser, required: bool = True) -> None:
+    """--comp SPEC (repeatable) or --alloy NAME, one of them `required`; both land in args.comp."""
+    group = p.add_mutually_exclusive_group(required=required)
+    group.add_argument("--comp", action="append", metavar="SPEC",
+                       help="alloy composition, e.g. Ni=40wt%% or Ni=40at%%; for three or more elements name all but "
+                            "the balance, e.g. Ag=3wt%%,Cu=0.5wt%% (or repeat --comp)")
+    group.add_argument("--alloy", dest="comp", action=_StoreAlloyName, metavar="NAME",
+                       help="a common alloy by its designation, as the system file lists them ([[alloy]]; "
+                            "an unknown name lists them), e.g. Sn96.5Ag3Cu0.5")
+
+
+def composition_specs(system, specs: str | list[str]) -> str | list[str]:
+    """The --comp values, with an --alloy name replaced by its composition; an unknown name is a
+    CommandError of one line listing the system's alloys."""
+    from ladle.engine.files.alloys import find_alloy
+
+    if not (isinstance(specs, list) and len(specs) == 1 and isinstance(specs[0], AlloyName)):
+        return specs
+    name = specs[0]
+    found = find_alloy(system.alloys, name)
+    if found is not None:
+        return [found.spec]
+    known = ", ".join(a.name for a in system.alloys)
+    raise CommandError(f"unknown alloy {quote.one_line(name)!r} for {system.name}; "
+                       + (f"its alloys: {known}" if known else "its file lists no alloys: give --comp"))
 
 
 def open_system(name: str, without: list[str] | tuple[str, ...] = ()):
@@ -43,7 +74,7 @@ def open_system(name: str, without: list[str] | tuple[str, ...] = ()):
 def read_alloy(system, specs: str | list[str]):
     """(mole fractions of every element as a numpy array in the system's order, the resolved
     Alloy) for the --comp value(s); a binary alloy is refused outside the range the model covers."""
-    spec = parse_alloy(specs)
+    spec = parse_alloy(composition_specs(system, specs))
     alloy = resolve_alloy(spec, tuple(system.elements))
     x = alloy.mole_fractions(system.molar_mass)
     if len(system.elements) == 2:

@@ -8,14 +8,13 @@ import argparse
 
 from .. import quote
 from ..errors import CommandError
-from .common import ascii_text, closing_lines, print_json, system_title, terminal_plot, temperature_kelvin
+from .common import (add_composition_argument, ascii_text, closing_lines, composition_specs, print_json,
+                     system_title, terminal_plot, temperature_kelvin)
 
 
 def add_section_arguments(p: argparse.ArgumentParser) -> None:
     """The options of a section: --comp, --vary and --temp."""
-    p.add_argument("--comp", action="append", metavar="SPEC",
-                   help="with --vary, an isopleth through this alloy, e.g. Ag=3wt%%,Cu=0.5wt%% (the element not named "
-                        "is the balance)")
+    add_composition_argument(p, required=False)
     p.add_argument("--vary", metavar="EL=A..B", help="the element that varies along the isopleth and its range, "
                                                      "e.g. Cu=0..2wt%% (the balance takes up the change)")
     p.add_argument("--temp", metavar="T", help="a ternary's isothermal section at this temperature, e.g. 250C")
@@ -47,7 +46,7 @@ def _isopleth(system, args: argparse.Namespace) -> int:
 
     from ..parsing import parse_alloy, parse_range, section_ends
 
-    spec, vary = parse_alloy(args.comp), parse_range(args.vary)
+    spec, vary = parse_alloy(composition_specs(system, args.comp)), parse_range(args.vary)
     low, high = section_ends(spec, vary, tuple(system.elements))
     iso = map_isopleth(system, low.fractions, high.fractions, low.basis, vary.element)
     if args.json:

@@ -1,0 +1,90 @@
+"""Alloy shorthands of a system file: the `[[alloy]]` list (systems/FORMAT.md).
+
+Each entry names a common alloy by a published standard's designation and gives its nominal
+composition in wt% or at% of every element but the balance. Commands take the name where they
+take a composition (`--alloy NAME`); the composition is then read as if typed after `--comp`.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Any, Callable
+
+from .plain_text import has_controls, without_controls
+
+_KEYS = {"name", "wt_percent", "at_percent", "source", "note"}
+_MAX_NAME = 40
+
+
+@dataclass(frozen=True)
+class NamedAlloy:
+    """A shorthand: `name`, the nominal content of each named element (`parts`, percent in
+    `basis`, "wt" or "at"; the element left out is the balance), and where the name comes from."""
+
+    name: str
+    basis: str
+    parts: tuple[tuple[str, float], ...]
+    source: str
+    note: str = ""
+
+    @property
+    def spec(self) -> str:
+        """The composition as a --comp value: 'Ag=3wt%,Cu=0.5wt%'."""
+        return ",".join(f"{el}={pct:g}{self.basis}%" for el, pct in self.parts)
+
+
+def read_alloys(items: Any, elements: tuple[str, ...], fail: Callable[[str, str], Exception]) -> tuple[NamedAlloy, ...]:
+    """Validate the `[[alloy]]` list of a document: one table per alloy, names unique (without
+    regard to case), every element but one (the balance) given in wt% or at%, the sum below 100."""
+    if not isinstance(items, list):
+        raise fail("alloy", "expected a list of tables ([[alloy]])")
+    out: list[NamedAlloy] = []
+    seen: set[str] = set()
+    for i, item in enumerate(items):
+        key = f"alloy[{i}]"
+        if not isinstance(item, dict):
+            raise fail(key, "expected a table")
+        for k in item:
+            if k not in _KEYS:
+                raise fail(f"{key}.{k}", f"unknown key; expected one of {', '.join(sorted(_KEYS))}")
+        name = item.get("name")
+        if (not isinstance(name, str) or not name.strip() or len(name) > _MAX_NAME or has_controls(name)
+                or "," in name):
+            raise fail(f"{key}.name", f"expected a designation of at most {_MAX_NAME} characters, "
+                                      "without commas or control characters")
+        if name.strip().lower() in seen:
+            raise fail(f"{key}.name", f"{name.strip()!r} is named twice")
+        seen.add(name.strip().lower())
+        source = item.get("source")
+        if not isinstance(source, str) or not source.strip():
+            raise fail(f"{key}.source", "missing: name the standard (and edition) that gives this designation")
+        bases = [b for b in ("wt_percent", "at_percent") if b in item]
+        if len(bases) != 1:
+            raise fail(key, "give the composition once, as wt_percent or at_percent (a table by element)")
+        table = item[bases[0]]
+        if not isinstance(table, dict) or not table:
+            raise fail(f"{key}.{bases[0]}", "expected a table such as { Ag = 3.0, Cu = 0.5 }")
+        parts = []
+        for el, v in table.items():
+            if el not in elements:
+                raise fail(f"{key}.{bases[0]}.{el}", f"expected an element of this system ({', '.join(elements)})")
+            if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or not 0 <= v < 100:
+                raise fail(f"{key}.{bases[0]}.{el}", f"expected a percentage from 0 to below 100, found {v!r}")
+            parts.append((el, float(v)))
+        if len(parts) != len(elements) - 1:
+            raise fail(f"{key}.{bases[0]}", "give every element but one, the balance")
+        if sum(p for _, p in parts) >= 100:
+            raise fail(f"{key}.{bases[0]}", "the named elements add up to 100 % or more; the balance needs a share")
+        note = item.get("note", "")
+        if not isinstance(note, str):
+            raise fail(f"{key}.note", "expected a text")
+        out.append(NamedAlloy(name=name.strip(), basis=bases[0][:2], parts=tuple(parts),
+                              source=without_controls(source), note=without_controls(note)))
+    return tuple(out)
+
+
+def find_alloy(alloys: tuple[NamedAlloy, ...], name: str) -> NamedAlloy | None:
+    """The shorthand called `name` (case and surrounding spaces ignored), or None."""
+    wanted = name.strip().lower()
+    return next((a for a in alloys if a.name.lower() == wanted), None)
