@@ -190,14 +190,19 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
             gibbs_dT += amount * float(sec.solutions[k].gibbs_dT(pa, pb))
             sites = (px,)
         else:
-            gibbs_dT += amount * sec.compounds[k - sec.n_sol].gibbs_dT(T)
-            model = system.models.get(name) if hasattr(system, "models") else None
-            sites = tuple(np.ones(len(g)) for g in model.groups) if model is not None else (np.ones(1),)
-        shares.append(PhaseShare(name, px, mass_from_mole(px, M), float(amount),
-                                 float(amount * (px @ M) / m_alloy), sites))
+            gibbs_dT += amount * sec.compound_gibbs_dT[k - sec.n_sol]
+            sites = _compound_sites(system, name)
+        m_sum = float(px @ M)              # the same dot product as m_alloy: a single phase's share is exactly 1
+        shares.append(PhaseShare(name, px, px * M / m_sum, float(amount), float(amount * m_sum / m_alloy), sites))
     mu = np.array([np.nan if v is None else v for v in state.mu])
-    return PointEquilibrium(T, z, mass_from_mole(z, M), tuple(shares), float(state.gibbs), mu, state.converged,
+    return PointEquilibrium(T, z, z * M / m_alloy, tuple(shares), float(state.gibbs), mu, state.converged,
                             gibbs_dT, float(state.gibbs) - T * gibbs_dT)
+
+
+def _compound_sites(system, name: str) -> tuple[np.ndarray, ...]:
+    """A stoichiometric compound's site fractions: 1 on each sublattice of its general form."""
+    model = getattr(system, "models", {}).get(name)
+    return tuple(np.ones(len(g)) for g in model.groups) if model is not None else (np.ones(1),)
 
 
 def general_equilibrium(system, temperature_K: float, composition,

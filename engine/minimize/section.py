@@ -78,6 +78,10 @@ class Section:
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
         self._points = self._hull_points([])
         self._ties: dict[tuple[int, int], TieLine | None] = {}
+        #: Tie-lines ((phase, x_B) pairs and mu) whose driving-force check passed: it depends on
+        #: nothing else, so it is not repeated for the next composition on the same tie-line.
+        self._verified: set = set()
+        self._index = {n: i for i, n in enumerate(self.names)}
 
     # --- hull --------------------------------------------------------------------------------
     def _hull_points(self, extra: list[tuple[int, float, float, float]]):
@@ -150,6 +154,11 @@ class Section:
         if key is not None:
             self._ties[key] = tie
         return tie
+
+    @cached_property
+    def compound_gibbs_dT(self) -> list[float]:
+        """dG/dT (J/(mol K)) of each compound at this temperature."""
+        return [c.gibbs_dT(self.T) for c in self.compounds]
 
     # --- driving forces -------------------------------------------------------------------------
     def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
@@ -333,9 +342,12 @@ class Section:
             return self._pure_state(0 if xb0 <= 0.0 else 1)
         state = self._fast_state(xa0, xb0)
         if state is not None and state.mu[0] is not None:
-            index = {n: i for i, n in enumerate(self.names)}
-            touching = tuple((index[name], x[1]) for name, x, _amount in state.phases)
+            touching = tuple((self._index[name], x[1]) for name, x, _amount in state.phases)
+            if len(touching) == 2 and (touching, state.mu) in self._verified:
+                return state                    # this tie-line passed the check before
             if not self.violations(state.mu, touching):
+                if len(touching) == 2:
+                    self._verified.add((touching, state.mu))
                 return state
         return self._state_from_ties(self.tie_lines, xa0, xb0)
 
