@@ -24,8 +24,9 @@ def where(condition, a, b):
     return a if condition else b
 
 
-def hillert_jarl(tau, p: float):
-    """f(tau) and its first and second derivatives in tau (arrays, or floats for a float).
+def hillert_jarl(tau, p: float, order: int = 2):
+    """f(tau) and its first and second derivatives in tau (arrays, or floats for a float); with
+    `order` 0 or 1 the derivatives beyond it are not computed (None).
 
     `p` is the share of the magnetic enthalpy absorbed above the Curie temperature
     (0.40 for bcc, 0.28 for other structures). `tau` must be positive.
@@ -42,15 +43,21 @@ def hillert_jarl(tau, p: float):
     t8 = t7 * t
     t13 = t6 * t7
     t14 = t13 * t
-    f_lo = 1.0 - (a / t + k * (t3 / 6.0 + t8 * t / 135.0 + t14 * t / 600.0)) / D
-    d1_lo = -(-a / t2 + k * (t2 / 2.0 + t8 / 15.0 + t14 / 40.0)) / D
-    d2_lo = -(2.0 * a / t3 + k * (t + 8.0 * t7 / 15.0 + 14.0 * t13 / 40.0)) / D
     v = 1.0 / where(below, 1.0, tau)   # 1 / tau above the Curie temperature
     v5 = v * v * v * v * v
     v10 = v5 * v5
     v15 = v10 * v5
     v25 = v15 * v10
+    f_lo = 1.0 - (a / t + k * (t3 / 6.0 + t8 * t / 135.0 + t14 * t / 600.0)) / D
     f_hi = -(v5 / 10.0 + v15 / 315.0 + v25 / 1500.0) / D
+    f = where(below, f_lo, f_hi)
+    if order == 0:
+        return f, None, None
+    d1_lo = -(-a / t2 + k * (t2 / 2.0 + t8 / 15.0 + t14 / 40.0)) / D
     d1_hi = (v5 * v / 2.0 + v15 * v / 21.0 + v25 * v / 60.0) / D
+    d1 = where(below, d1_lo, d1_hi)
+    if order == 1:
+        return f, d1, None
+    d2_lo = -(2.0 * a / t3 + k * (t + 8.0 * t7 / 15.0 + 14.0 * t13 / 40.0)) / D
     d2_hi = -(3.0 * v5 * v * v + 16.0 * v15 * v * v / 21.0 + 26.0 * v25 * v * v / 60.0) / D
-    return where(below, f_lo, f_hi), where(below, d1_lo, d1_hi), where(below, d2_lo, d2_hi)
+    return f, d1, where(below, d2_lo, d2_hi)

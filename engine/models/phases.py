@@ -146,9 +146,9 @@ class SolutionAtT:
         return (da, db), [f.derivative(self.T) for f in ph.interactions.get(BINARY_PAIR, ())]
 
     # --- magnetic part -------------------------------------------------------------------
-    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, ...]:
-        """(G, dG/dx, d2G/dx2, dG/dT) of the magnetic term along x_B (arrays, or floats); with
-        order 0 the composition derivatives are returned as zeros."""
+    def _curie_and_moment(self, xa: np.ndarray, xb: np.ndarray, order: int):
+        """Tc and beta with their derivatives along x_B (order 2, else zeros), antiferromagnetic
+        values divided by the factor, and where the term is active, the safe Tc and tau = T/Tc."""
         mag = self.phase.magnetic
         tc, tc1, tc2 = self._linear_plus_excess(mag.curie_K, self.curie_L, xa, xb, order)
         be, be1, be2 = self._linear_plus_excess(mag.moment, self.moment_L, xa, xb, order)
@@ -159,7 +159,19 @@ class SolutionAtT:
         active = tc > 1e-9
         tc_safe = where(active, tc, 1.0)
         tau = where(active, self.T / tc_safe, 1e9)
-        f, f1, f2 = hillert_jarl(tau, mag.above_curie_fraction)
+        return (tc1, tc2), (be, be1, be2), active, tc_safe, tau
+
+    def _magnetic_gibbs(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """G of the magnetic term alone (J/mol): the value-only path of `gibbs`."""
+        _tc, (be, _b1, _b2), active, _safe, tau = self._curie_and_moment(xa, xb, 0)
+        g = self.RT * _log(1.0 + be) * hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 0)[0]
+        return where(active, g, 0.0 * g)
+
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, ...]:
+        """(G, dG/dx, d2G/dx2, dG/dT) of the magnetic term along x_B (arrays, or floats); with
+        order 0 the composition derivatives are returned as zeros."""
+        (tc1, tc2), (be, be1, be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, order)
+        f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
         u = _log(1.0 + be)
         u1 = be1 / (1.0 + be)
         u2 = be2 / (1.0 + be) - u1 * u1
@@ -191,7 +203,7 @@ class SolutionAtT:
             mixing = _xlogx(xa) + _xlogx(xb)
         g = xa * self.g0a + xb * self.g0b + self.RT * mixing + g_ex
         if self.phase.magnetic is not None:
-            g = g + self._magnetic(xa, xb, 0)[0]
+            g = g + self._magnetic_gibbs(xa, xb)
         return g
 
     def potentials(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

@@ -488,7 +488,7 @@ class SublatticeAtT:
         active = tc > 1e-9
         tc_safe = np.where(active, tc, 1.0)
         tau = np.where(active, self.T / tc_safe, 1e9)
-        f, f1, f2 = hillert_jarl(tau, mag.above_curie_fraction)
+        f, f1, f2 = hillert_jarl(tau, mag.above_curie_fraction, order)
         u = np.log1p(be)
         g = np.where(active, self.RT * u * f, 0.0)
         if order == 0:
@@ -527,7 +527,7 @@ class SublatticeAtT:
         active = tc > 1e-9
         tc_safe = np.where(active, tc, 1.0)
         tau = np.where(active, self.T / tc_safe, 1e9)
-        f, f1, _f2 = hillert_jarl(tau, mag.above_curie_fraction)
+        f, f1, _f2 = hillert_jarl(tau, mag.above_curie_fraction, 1)
         u = np.log1p(be)
         tau_T = tau * (1.0 / self.T - tc_T / tc_safe)
         d = R * u * f + self.RT * (be_T / (1.0 + be) * f + u * f1 * tau_T)
