@@ -64,6 +64,10 @@ SHORT_OF_CHECKS = {
     "au-sn": (0, "every trusted fact (the zeta peritectic, the eutectic, AuSn's melting and calorimetry) is needed "
                  "to fit the zeta phase at all"),
     "bi-cd": (0, "the evaluation's summary gives the eutectic (fitted) and solubilities only as upper limits"),
+    "fe-c": (0, "a published assessment used unchanged; its independent checks (pure iron, the invariants and "
+                "solubilities of both diagrams) are in tests/unit/test_fe_c.py, because ladle check evaluates "
+                "invariants on a mapped diagram, which systems with sublattice phases do not have yet"),
+    "fe-fe3c": (0, "the variant of fe-c without graphite: its checks are in tests/unit/test_fe_c.py (see fe-c)"),
     "ge-si": (0, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not at hand"),
     "pb-sb": (2, "no liquidus temperatures from a source at hand"),
     "sn-ag": (1, "the commercial liquidus temperatures at hand are fit targets"),

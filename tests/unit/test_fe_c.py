@@ -1,0 +1,199 @@
+"""Iron-carbon (systems/fe-c.toml and its metastable variant fe-fe3c.toml) against the outside world.
+
+The file's numbers are P. Gustafson's assessment (Scand. J. Metall. 14 (1985) 259); nothing in it
+was fitted here, so every value below is an independent check of the file (and of the engine):
+- pure iron: the alpha-gamma (912 C) and gamma-delta (1394 C) transitions and the Curie
+  temperature of alpha iron (770 C, 1043 K) as in ASM Handbook Vol. 3, Alloy Phase Diagrams
+  (1992), Fe-C diagram; the melting point 1538 C from the CRC Handbook of Chemistry and Physics,
+  97th ed. (2016); recalled from memory;
+- the invariant reactions of both diagrams and the largest carbon solubilities in austenite and
+  ferrite from H. Okamoto's evaluation, J. Phase Equilib. 13 (1992) 543, as drawn in the ASM
+  Handbook Vol. 3 (1992); recalled from memory. Compositions in wt% C.
+The magnetic function used to rebuild pure iron is the closed form of M. Hillert and M. Jarl,
+Calphad 2 (1978) 227, written out here independently of the engine's.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from scipy.optimize import brentq
+
+from ladle.engine import equilibrate, find_system
+from ladle.engine.diagrams.alloy_transitions import alloy_transitions
+from ladle.engine.files.loader import shipped_library
+from ladle.engine.files.trade_names import trade_names
+from ladle.engine.units import mole_from_mass
+from ladle.tui.explorer.system_choices import not_explorable
+
+R = 8.314462618          # J/(mol K), CODATA 2018 (exact: the Avogadro constant times the Boltzmann constant)
+C_TO_K = 273.15
+
+
+@pytest.fixture(scope="module")
+def stable():
+    return find_system("fe-c")
+
+
+@pytest.fixture(scope="module")
+def metastable():
+    return find_system("fe-fe3c")
+
+
+def _iron_y(phase) -> np.ndarray:
+    """Site fractions of pure iron in `phase`: iron and vacancies full, carbon empty."""
+    return np.array([0.0 if c == "C" else 1.0 for lattice in phase.constituents for c in lattice])
+
+
+def _pure_iron_G(system, name: str, T: float) -> float:
+    """G of pure iron (J per mole of Fe) in phase `name` of the model at T (K)."""
+    phase = system.models[name]
+    return float(phase.at(T).gibbs(_iron_y(phase)))
+
+
+def _hillert_jarl(T: float, Tc: float, beta: float, p: float) -> float:
+    """G_mag = R T ln(beta + 1) f(T / Tc), Hillert and Jarl (1978), J/mol."""
+    tau = T / Tc
+    A = 518.0 / 1125.0 + 11692.0 / 15975.0 * (1.0 / p - 1.0)
+    if tau <= 1.0:
+        f = 1.0 - (79.0 / (140.0 * p * tau) + 474.0 / 497.0 * (1.0 / p - 1.0)
+                   * (tau**3 / 6.0 + tau**9 / 135.0 + tau**15 / 600.0)) / A
+    else:
+        f = -(tau**-5 / 10.0 + tau**-15 / 315.0 + tau**-25 / 1500.0) / A
+    return R * T * math.log(beta + 1.0) * f
+
+
+@pytest.mark.parametrize("T", [300.0, 800.0, 1043.0, 1184.0, 1500.0, 1811.0, 2200.0])
+def test_the_interstitial_model_without_carbon_is_pure_iron(stable, T: float) -> None:
+    """No carbon: each interstitial phase is exactly the element library's iron in that structure
+    plus its magnetic term (bcc: Tc 1043 K, 2.22 Bohr magnetons, p = 0.40; fcc: the
+    antiferromagnetic Tc -201 K and moment -2.1 divided by -3, p = 0.28)."""
+    library = shipped_library()
+
+    def lib(structure: str) -> float:
+        return library.function("Fe", structure, "test", None).value(T)
+
+    assert _pure_iron_G(stable, "bcc", T) == pytest.approx(lib("bcc") + _hillert_jarl(T, 1043.0, 2.22, 0.40), abs=1e-8)
+    assert _pure_iron_G(stable, "fcc", T) == pytest.approx(lib("fcc") + _hillert_jarl(T, 67.0, 0.7, 0.28), abs=1e-8)
+    assert _pure_iron_G(stable, "liquid", T) == pytest.approx(lib("liquid"), abs=1e-8)
+
+
+def _ghserfe(T: float) -> float:
+    """bcc iron, A.T. Dinsdale, Calphad 15 (1991) 317 (J/mol; recalled from memory)."""
+    if T < 1811.0:
+        return 1225.7 + 124.134 * T - 23.5143 * T * math.log(T) - 0.00439752 * T**2 - 5.8927e-8 * T**3 + 77359.0 / T
+    return -25383.581 + 299.31255 * T - 46.0 * T * math.log(T) + 2.29603e31 * T**-9
+
+
+def _ghsercc(T: float) -> float:
+    """Graphite, A.T. Dinsdale, Calphad 15 (1991) 317 (J/mol; recalled from memory)."""
+    return (-17368.441 + 170.73 * T - 24.3 * T * math.log(T) - 4.723e-4 * T**2 + 2562600.0 / T
+            - 2.643e8 / T**2 + 1.2e10 / T**3)
+
+
+@pytest.mark.parametrize("T", np.geomspace(298.15, 6000.0, 41))
+def test_cementite_is_the_published_function(stable, T: float) -> None:
+    """The file re-expresses cementite relative to its references on pieces (its notes say why):
+    it must equal P. Gustafson's -10745 + 706.04 T - 120.6 T ln T per mole of Fe3C (Scand. J.
+    Metall. 14 (1985) 259; recalled from memory) less 3 GHSERFE and GHSERCC, within 0.01 J."""
+    published = -10745.0 + 706.04 * T - 120.6 * T * math.log(T) - 3.0 * _ghserfe(T) - _ghsercc(T)
+    assert float(stable.models["Fe3C"].at(T).gibbs(np.array([1.0, 1.0]))) == pytest.approx(published, abs=0.01)
+
+
+@pytest.mark.parametrize("pair, bracket_K, handbook_C", [
+    (("bcc", "fcc"), (1100.0, 1300.0), 912.0),     # alpha -> gamma (A3 of pure iron), ASM Handbook Vol. 3
+    (("fcc", "bcc"), (1500.0, 1750.0), 1394.0),    # gamma -> delta (A4), ASM Handbook Vol. 3
+    (("bcc", "liquid"), (1750.0, 1850.0), 1538.0),  # melting, CRC Handbook 97th ed.
+])
+def test_pure_iron_transitions(stable, pair, bracket_K, handbook_C) -> None:
+    a, b = pair
+    T = brentq(lambda t: _pure_iron_G(stable, a, t) - _pure_iron_G(stable, b, t), *bracket_K, xtol=1e-9)
+    assert T - C_TO_K == pytest.approx(handbook_C, abs=1.0)
+
+
+def test_curie_temperature_of_ferrite(stable) -> None:
+    """The heat capacity of pure bcc iron peaks at the Curie temperature: 770 C (1043 K), ASM
+    Handbook Vol. 3 (1992)."""
+    Ts = np.arange(1000.0, 1090.0, 0.5)
+    h = 1e-2
+    cp = [-t * (_pure_iron_G(stable, "bcc", t + h) - 2 * _pure_iron_G(stable, "bcc", t)
+                + _pure_iron_G(stable, "bcc", t - h)) / h**2 for t in Ts]
+    assert Ts[int(np.argmax(cp))] - C_TO_K == pytest.approx(770.0, abs=1.0)
+
+
+def _x_C(system, wt: float) -> float:
+    """Mole fraction of carbon of an alloy with `wt` wt% C."""
+    return float(mole_from_mass(np.array([1.0 - wt / 100.0, wt / 100.0]), system.molar_mass)[1])
+
+
+def _wt_C(share) -> float:
+    return 100.0 * float(share.w[1])
+
+
+def _change(result, above: set, below: set):
+    return next(t for t in result.transitions if set(t.above) == above and set(t.below) == below)
+
+
+def _phases_at(system, T: float, x: float) -> dict:
+    return {p.name: _wt_C(p) for p in equilibrate(system, T, x).phases}
+
+
+# (system fixture, alloy wt% C, phases above, phases below, temperature C, {phase: (wt% C, side)}, tolerances)
+INVARIANTS = [
+    ("metastable", 0.4, {"bcc", "fcc"}, {"bcc", "Fe3C"}, 727.0, {"fcc": (0.77, "above"), "bcc": (0.022, "below")},
+     2.0, {"fcc": 0.05, "bcc": 0.006}),                                       # eutectoid (pearlite)
+    ("metastable", 3.0, {"fcc", "liquid"}, {"fcc", "Fe3C"}, 1148.0, {"liquid": (4.30, "above"), "fcc": (2.11, "above")},
+     3.0, {"liquid": 0.15, "fcc": 0.1}),                                      # eutectic (ledeburite)
+    ("stable", 0.4, {"bcc", "fcc"}, {"bcc", "graphite"}, 738.0, {"fcc": (0.68, "above")}, 2.0, {"fcc": 0.05}),
+    ("stable", 3.0, {"fcc", "liquid"}, {"fcc", "graphite"}, 1154.0, {"liquid": (4.26, "above"), "fcc": (2.08, "above")},
+     2.0, {"liquid": 0.15, "fcc": 0.1}),
+    ("stable", 0.3, {"bcc", "liquid"}, {"fcc", "liquid"}, 1495.0,
+     {"liquid": (0.53, "above"), "bcc": (0.09, "above"), "fcc": (0.17, "below")}, 2.0,
+     {"liquid": 0.05, "bcc": 0.02, "fcc": 0.03}),                             # peritectic
+]
+
+
+@pytest.mark.parametrize("which, wt, above, below, T_C, comps, tol_K, tol_wt", INVARIANTS)
+def test_invariants_and_solubilities(request, which, wt, above, below, T_C, comps, tol_K, tol_wt) -> None:
+    system = request.getfixturevalue(which)
+    x = _x_C(system, wt)
+    result = alloy_transitions(system, x, highest_K=T_C + C_TO_K + 15.0, lowest_K=T_C + C_TO_K - 15.0)
+    t = _change(result, above, below)
+    assert t.temperature_K - C_TO_K == pytest.approx(T_C, abs=tol_K)
+    sides = {"above": _phases_at(system, t.temperature_K + 1e-4, x), "below": _phases_at(system, t.temperature_K - 1e-4, x)}
+    for phase, (value, side) in comps.items():
+        assert sides[side][phase] == pytest.approx(value, abs=tol_wt[phase]), phase
+
+
+def test_steel_lines_are_labelled(metastable) -> None:
+    """A hypoeutectoid steel crosses A3 then A1; a hypereutectoid one Acm then A1 (the names of
+    the trade, e.g. ASM Handbook Vol. 4, Heat Treating (1991), glossary)."""
+    names = trade_names(metastable)
+    for wt, expected in ((0.4, ["A3", "A1"]), (1.0, ["Acm", "A1"])):
+        result = alloy_transitions(metastable, _x_C(metastable, wt), highest_K=1100.0, lowest_K=980.0, step_K=2.0)
+        labels = [ln.name for t in result.transitions if (ln := names.line(t.above, t.below))]
+        assert labels == expected
+    assert names.phase_name("bcc", 1000.0) == "ferrite" and names.phase_name("bcc", 1700.0) == "delta ferrite"
+    assert names.phase_name("fcc", 1000.0) == "austenite" and names.phase_name("Fe3C", 1000.0) == "cementite"
+
+
+def test_leaving_graphite_out_changes_only_where_graphite_was_stable(stable, metastable) -> None:
+    x = _x_C(stable, 3.0)
+    for T in (1500.0, 1450.0):        # liquid, and liquid + austenite above both eutectics
+        a, b = equilibrate(stable, T, x), equilibrate(metastable, T, x)
+        assert a.phase_names == b.phase_names and b.gibbs_J_per_mol == pytest.approx(a.gibbs_J_per_mol, abs=1e-6)
+    for T in (1300.0, 900.0):         # graphite stable
+        a, b = equilibrate(stable, T, x), equilibrate(metastable, T, x)
+        assert "graphite" in a.phase_names and b.gibbs_J_per_mol > a.gibbs_J_per_mol
+
+
+def test_whole_diagrams_are_refused_in_one_line(stable) -> None:
+    """The diagram tracer cannot evaluate sublattice phases: it refuses instead of drawing a
+    diagram without austenite and ferrite, and the explorer says so before opening."""
+    from ladle.engine.diagrams.diagram import map_diagram
+
+    with pytest.raises(ValueError, match="sublattice phases fcc, bcc, Fe3C"):
+        map_diagram(stable)
+    assert "sublattice phases" in not_explorable(stable)
