@@ -203,6 +203,25 @@ def _constituent_list(r: "_Reader", value: Any, key: str) -> list[str]:
     return list(value)
 
 
+def _entries(r: "_Reader", value: Any, key: str, allowed: set[str], required: tuple[str, ...],
+             missing: str) -> list[tuple[str, dict]]:
+    """The tables of the list under `key` (a TOML array of tables) with their keys for messages,
+    each holding only `allowed` keys and every `required` one (`missing` says what they give)."""
+    if not isinstance(value, list):
+        raise r.fail(key, "expected a list of tables")
+    bounds.check_count(len(value), bounds.MAX_INTERACTIONS, key, "entries", r.fail)
+    out = []
+    for i, entry in enumerate(value):
+        k = f"{key}[{i}]"
+        entry = r.table(entry, k)
+        r.known_keys(entry, allowed, k)
+        for req in required:
+            if req not in entry:
+                raise r.fail(f"{k}.{req}", f"missing ({missing})")
+        out.append((k, entry))
+    return out
+
+
 def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table: dict, elements: tuple[str, ...],
                       solutions: dict[str, SublatticePhase]) -> PhaseDraft:
     key = f"phase.{name}"
@@ -216,13 +235,8 @@ def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table:
         raise r.fail(f"{key}.sublattices", "expected a list of tables such as [ { sites = 1, holds = [\"Fe\"] } ]")
     bounds.check_count(len(lattices), bounds.MAX_SUBLATTICES, f"{key}.sublattices", "sublattices", r.fail)
     ratios, held = [], []
-    for s, entry in enumerate(lattices):
-        k = f"{key}.sublattices[{s}]"
-        entry = r.table(entry, k)
-        r.known_keys(entry, _SUBLATTICE_ENTRY_KEYS, k)
-        for req in ("sites", "holds"):
-            if req not in entry:
-                raise r.fail(f"{k}.{req}", "missing (each sublattice gives its sites per formula unit and what it holds)")
+    for k, entry in _entries(r, lattices, f"{key}.sublattices", _SUBLATTICE_ENTRY_KEYS, ("sites", "holds"),
+                             "each sublattice gives its sites per formula unit and what it holds"):
         sites = r.number(entry["sites"], f"{k}.sites")
         if not 0 < sites <= bounds.MAX_SITES:
             raise r.fail(f"{k}.sites", f"expected a positive number of sites per formula unit, at most {bounds.MAX_SITES:g}")
@@ -252,16 +266,8 @@ def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table:
             out.append(tuple(names))
         return tuple(out)
 
-    entries = table.get("end_member", [])
-    if not isinstance(entries, list):
-        raise r.fail(f"{key}.end_member", "expected a list of tables ([[phase.NAME.end_member]])")
-    for i, entry in enumerate(entries):
-        k = f"{key}.end_member[{i}]"
-        entry = r.table(entry, k)
-        r.known_keys(entry, _END_MEMBER_KEYS, k)
-        for req in ("constituents", "G"):
-            if req not in entry:
-                raise r.fail(f"{k}.{req}", "missing (each end member names its constituents and gives its G)")
+    for k, entry in _entries(r, table.get("end_member", []), f"{key}.end_member", _END_MEMBER_KEYS,
+                             ("constituents", "G"), "each end member names its constituents and gives its G"):
         combo = tuple(c[0] for c in constituents_of(entry["constituents"], f"{k}.constituents", True))
         if combo in draft.end_members:
             raise r.fail(f"{k}.constituents", "this end member is given twice")
@@ -272,16 +278,8 @@ def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table:
                 magnetic_values = True
                 store[tuple((c,) for c in combo)] = ((_constant(_magnetic_number(r, entry[which], f"{k}.{which}", which)),),
                                                      f"{where}: {k}.{which}")
-    entries = table.get("interaction", [])
-    if not isinstance(entries, list):
-        raise r.fail(f"{key}.interaction", "expected a list of tables ([[phase.NAME.interaction]])")
-    bounds.check_count(len(entries), bounds.MAX_INTERACTIONS, f"{key}.interaction", "interaction parameters", r.fail)
-    for i, entry in enumerate(entries):
-        k = f"{key}.interaction[{i}]"
-        entry = r.table(entry, k)
-        r.known_keys(entry, _INTERACTION_KEYS, k)
-        if "constituents" not in entry:
-            raise r.fail(f"{k}.constituents", "missing: the constituents on each sublattice, such as [[\"Fe\", \"Cr\"], [\"Va\"]]")
+    for k, entry in _entries(r, table.get("interaction", []), f"{key}.interaction", _INTERACTION_KEYS,
+                             ("constituents",), "the constituents on each sublattice, such as [[\"Fe\", \"Cr\"], \"Va\"]"):
         consts = constituents_of(entry["constituents"], f"{k}.constituents", False)
         mixed = [c for c in consts if len(c) > 1]
         if not mixed:
