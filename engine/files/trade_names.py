@@ -92,6 +92,22 @@ def read_trade_names(doc: dict, phases: Collection[str] | None, fail: Callable[[
     return TradeNames(names, tuple(lines), treatment, without_controls(note, keep_newlines=True))
 
 
+def _table(item: Any, key: str, allowed: set[str], fail: Callable[[str, str], Exception], what: str) -> dict:
+    """`item` as a table holding only `allowed` keys (`what` describes it in the message)."""
+    if not isinstance(item, dict):
+        raise fail(key, f"expected {what}")
+    for extra in set(item) - allowed:
+        raise fail(f"{key}.{extra}", f"unknown key; expected one of {', '.join(sorted(allowed))}")
+    return item
+
+
+def _text(value: Any, key: str, fail: Callable[[str, str], Exception], example: str = "") -> str:
+    """A non-empty text without control characters."""
+    if not isinstance(value, str) or not without_controls(value).strip():
+        raise fail(key, "expected a non-empty text" + (f" such as {example}" if example else ""))
+    return without_controls(value)
+
+
 def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) -> tuple[PhaseName, ...]:
     if isinstance(value, str) and without_controls(value).strip():
         return (PhaseName(without_controls(value)),)
@@ -100,14 +116,8 @@ def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) ->
     out = []
     for i, item in enumerate(value):
         k = f"{key}[{i}]"
-        if not isinstance(item, dict):
-            raise fail(k, "expected a table { name = .., from_K = .., upto_K = .. }")
-        for extra in set(item) - _NAME_KEYS:
-            raise fail(f"{k}.{extra}", f"unknown key; expected one of {', '.join(sorted(_NAME_KEYS))}")
-        name = item.get("name")
-        if not isinstance(name, str) or not without_controls(name).strip():
-            raise fail(f"{k}.name", "expected a non-empty text")
-        name = without_controls(name)
+        item = _table(item, k, _NAME_KEYS, fail, "a table { name = .., from_K = .., upto_K = .. }")
+        name = _text(item.get("name"), f"{k}.name", fail)
         bounds = []
         for bound, default in (("from_K", 0.0), ("upto_K", math.inf)):
             v = item.get(bound, default)
@@ -121,13 +131,8 @@ def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) ->
 
 
 def _line(entry: Any, key: str, phases: Collection[str] | None, fail: Callable[[str, str], Exception]) -> TradeLine:
-    if not isinstance(entry, dict):
-        raise fail(key, "expected a table with name, above and below")
-    for extra in set(entry) - _LINE_KEYS:
-        raise fail(f"{key}.{extra}", f"unknown key; expected one of {', '.join(sorted(_LINE_KEYS))}")
-    name = entry.get("name")
-    if not isinstance(name, str) or not without_controls(name).strip():
-        raise fail(f"{key}.name", "expected a non-empty text such as \"A3\"")
+    entry = _table(entry, key, _LINE_KEYS, fail, "a table with name, above and below")
+    name = _text(entry.get("name"), f"{key}.name", fail, '"A3"')
     sides = []
     for side in ("above", "below"):
         value = entry.get(side)
@@ -140,7 +145,7 @@ def _line(entry: Any, key: str, phases: Collection[str] | None, fail: Callable[[
     note = entry.get("note", "")
     if not isinstance(note, str):
         raise fail(f"{key}.note", "expected a text")
-    return TradeLine(without_controls(name), sides[0], sides[1], without_controls(note, keep_newlines=True))
+    return TradeLine(name, sides[0], sides[1], without_controls(note, keep_newlines=True))
 
 
 @lru_cache(maxsize=64)
