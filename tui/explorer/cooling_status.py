@@ -8,7 +8,7 @@ import textwrap
 
 from ladle.engine.solidify.coring import Coring
 from ladle.tui.cooling_text import PATH_NAMES, structure_rows
-from ladle.tui.phase_names import with_trade_names
+from ladle.tui.phase_names import short_label, with_trade_names
 from ladle.tui.quote import percent
 
 from .glyphs import Glyphs
@@ -54,6 +54,8 @@ def cooling_lines(result, coring: Coring | None, system, scales: Scales,
         core, rim = (percent(scales.shown_fraction(x)) for x in (coring.x_core, coring.x_rim))
         name = primary if primary and primary.startswith(coring.phase) else coring.phase
         heading = f"CORING (Scheil) {name}"
-        lines.append(("heading", heading if len(heading) <= WIDTH else "CORING (Scheil)"))
+        if len(heading) > WIDTH:                # the trade's short name: 'rhombohedral (Sb)' -> '(Sb)'
+            heading = f"CORING (Scheil) {short_label(system, coring.phase, coring.x_core, coring.rim_K)}"
+        lines.append(("heading", heading[:WIDTH]))
         lines.append(("value", f" core {core}  rim {rim} {system.elements[1]} {comp}%"[:WIDTH]))
     return lines
