@@ -57,18 +57,23 @@ def system_choices() -> list[SystemChoice]:
             choices.append(SystemChoice(entry.name, system.title, system.source, system.safety, problem=problem))
             continue
         choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
-                                    checks_text(None, len(independent_checks(system)))))
+                                    checks_text(None, len(independent_checks(system)), len(system.measured))))
     return choices
 
 
-def checks_text(passed: int | None, total: int) -> str:
+def checks_text(passed: int | None, total: int, fit_targets: int = 0) -> str:
     """'12 independent checks', or 'independent checks passed: 11 of 12' once they are evaluated
-    (checks the model was not fitted to; fit targets and melting points are not counted)."""
+    (checks the model was not fitted to; melting points are not counted), then how many fit
+    targets the file holds, which are not counted: '; 4 fit targets not counted'."""
     if not total:
-        return "no independent checks"
-    if passed is None:
-        return f"{total} independent check{'s' if total != 1 else ''}"
-    return f"independent checks passed: {passed} of {total}"
+        text = "no independent checks"
+    elif passed is None:
+        text = f"{total} independent check{'s' if total != 1 else ''}"
+    else:
+        text = f"independent checks passed: {passed} of {total}"
+    if fit_targets:
+        text += f"; {fit_targets} fit target{'s' if fit_targets != 1 else ''} not counted"
+    return text
 
 
 def with_check_results(choices: list[SystemChoice]) -> list[SystemChoice]:
@@ -81,6 +86,7 @@ def with_check_results(choices: list[SystemChoice]) -> list[SystemChoice]:
         if choice.problem:
             out.append(choice)
             continue
-        passed, total = check_counts(find_system(choice.name))
-        out.append(replace(choice, checks=checks_text(passed, total)))
+        system = find_system(choice.name)
+        passed, total = check_counts(system)
+        out.append(replace(choice, checks=checks_text(passed, total, len(system.measured))))
     return out
