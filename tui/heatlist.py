@@ -21,6 +21,7 @@ import io
 import math
 import os
 import re
+import stat
 from collections.abc import Iterator
 from dataclasses import dataclass, replace
 from pathlib import Path
@@ -47,11 +48,10 @@ _HASHED_WIDTH = 64
 
 @dataclass(frozen=True)
 class FileScan:
-    """What the first pass over a heat list found: size (bytes), modification time (ns),
-    SHA-256 of the contents, the encoding to read it with and the number of lines."""
+    """What the first pass over a heat list found: size (bytes), SHA-256 of the contents, the
+    encoding to read it with and the number of lines."""
 
     size: int
-    mtime_ns: int
     sha256: str
     encoding: str
     lines: int
@@ -117,33 +117,33 @@ def scan_heat_list(path: Path, encoding: str | None) -> FileScan:
             raise CommandError(f"--encoding {encoding}: not readable here; ladle batch reads encodings that write "
                                f"ASCII characters as single bytes (utf-8, cp1252, latin-1, ...)")
     digest = hashlib.sha256()
-    utf8 = codecs.getincrementaldecoder(encoding or "utf-8")()
-    utf8_ok, cp1252_ok, lines, offset = True, True, 0, 0
+    decoder = codecs.getincrementaldecoder(encoding or "utf-8")()
+    decodes, cp1252_ok, lines, offset = True, True, 0, 0
     try:
         with open(path, "rb") as f:
             st = os.fstat(f.fileno())
-            if not _is_regular(st.st_mode):
+            if not stat.S_ISREG(st.st_mode):
                 raise CommandError(f"{quoted_path(path)}: not a regular file (ladle batch reads the heat list twice)")
             while block := f.read(_SCAN_BYTES):
                 digest.update(block)
                 if b"\0" in block:
                     raise CommandError(f"{path.name}: not a text file (a NUL byte near byte {offset + block.index(0)})")
                 lines += line_count(block)
-                if utf8_ok:
+                if decodes:
                     try:
-                        utf8.decode(block)
+                        decoder.decode(block)
                     except UnicodeDecodeError as e:
-                        utf8_ok, bad = False, offset + e.start
+                        decodes, bad = False, offset + e.start
                 cp1252_ok = cp1252_ok and len(block.translate(None, _NOT_CP1252)) == len(block)
                 offset += len(block)
-            if utf8_ok:
+            if decodes:
                 try:
-                    utf8.decode(b"", final=True)
+                    decoder.decode(b"", final=True)
                 except UnicodeDecodeError:
-                    utf8_ok, bad = False, offset
+                    decodes, bad = False, offset
     except OSError as e:
         raise _open_error(path, e) from None
-    if utf8_ok:
+    if decodes:
         chosen = encoding or "utf-8"
     elif encoding is not None:
         raise CommandError(f"{path.name}: not {encoding} text (byte {bad}); name the file's encoding with --encoding")
@@ -152,13 +152,7 @@ def scan_heat_list(path: Path, encoding: str | None) -> FileScan:
     else:
         raise CommandError(f"{path.name}: neither UTF-8 nor Windows-1252 text (byte {bad}); name the file's "
                            f"encoding with --encoding, e.g. --encoding latin-1")
-    return FileScan(offset, st.st_mtime_ns, digest.hexdigest(), chosen, lines)
-
-
-def _is_regular(mode: int) -> bool:
-    import stat
-
-    return stat.S_ISREG(mode)
+    return FileScan(offset, digest.hexdigest(), chosen, lines)
 
 
 _LINE = re.compile(rb"([^\r\n]*)(\r\n|\r|\n|$)")
