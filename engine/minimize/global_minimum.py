@@ -8,10 +8,12 @@ approximate compositions and amounts, and the chemical potentials; samples of on
 separated by a region above the hull's plane (a miscibility gap) start separate composition sets;
 (2) Newton's method on the full equilibrium conditions (`multiphase_newton`); (3) the driving
 force of every phase against the refined chemical potentials on its samples, and a few Newton
-steps from the lowest sample of each phase: a point below the plane joins the linear program as a
-new column, which re-solves from its last basis, and Newton refines again. The linear program's
-basis has at most N points, so Gibbs' phase rule (at most N phases at fixed T and P) holds in
-every answer. Units: J per mole of atoms, mole fractions, K.
+steps from the lowest sample of each phase where sampling could hide a minimum: a point below the
+plane joins the refined phases at zero amount while the phase rule leaves room, else it joins the
+linear program as a new column (with small neighbourhoods of the refined points), which restarts
+from the refined phases' basis; Newton refines again. The linear program's basis has at most N
+points and Newton only removes phases or adds one below N, so Gibbs' phase rule (at most N phases
+at fixed T and P) holds in every answer. Units: J per mole of atoms, mole fractions, K.
 
 Elements absent from the alloy (mole fraction exactly 0) are left out: constituents containing
 them are fixed at 0, their chemical potentials are undefined (NaN).
@@ -29,8 +31,8 @@ from .lowest_combination import LowestCombination
 from .multiphase_newton import PhaseState, lowest_driving_force, solve
 from .site_sampling import site_fraction_cloud
 
-#: A phase lying more than this below the equilibrium's tangent plane (J/mol, relative to RT
-#: where known, else absolute) is missing from the answer.
+#: A phase lying more than this below the equilibrium's tangent plane is missing from the answer
+#: (J/mol; scaled up by 1e-4 |G| where |G| exceeds 1e4 J/mol, the digits G carries).
 DRIVING_FORCE_TOLERANCE = 1e-6
 #: Phases whose lowest sample is within `NEAR_PLANE (h / NEAR_PLANE_SPACING)^2` J/mol of the
 #: plane get Newton steps between samples, h = k^(-1/f) being the typical spacing of k samples
@@ -39,7 +41,8 @@ DRIVING_FORCE_TOLERANCE = 1e-6
 #: and the margin grows as the cloud thins out in more dimensions.
 NEAR_PLANE = 25.0
 NEAR_PLANE_SPACING = 1.0 / 60.0
-#: Samples of a phase this far (site fractions, max norm) from its composition sets seed a search for a gap.
+#: Samples of a phase this far (site fractions, max norm) from its composition sets seed a
+#: search for a gap.
 GAP_DISTANCE = 0.08
 #: Relative size of the neighbourhood added around refined points (see `_neighbourhood`).
 NEIGHBOURHOOD = 1e-2
@@ -74,6 +77,9 @@ class GlobalMinimum:
 
 @dataclass
 class _Phase:
+    """A phase as the minimiser uses it: its model at T, the indices of its free site fractions
+    (constituents of absent elements are fixed at 0) and its sample cloud."""
+
     name: str
     model: object
     free: np.ndarray
@@ -83,6 +89,8 @@ class _Phase:
 
 
 def _prepare(models: dict[str, object], active: np.ndarray) -> list[_Phase]:
+    """The phases that can exist with the present elements `active`, with their sample clouds
+    (the model's own, or the minimiser's over the free site fractions where an element is absent)."""
     out = []
     inactive = ~active
     for name, m in models.items():
@@ -171,6 +179,7 @@ class _Cloud:
 
 
 def _per_atom(model, y: np.ndarray, active: np.ndarray) -> tuple[np.ndarray, float]:
+    """(mole fractions of the present elements, G in J per mole of atoms) at site fractions y."""
     with np.errstate(all="ignore"):
         n = y @ model.element_matrix
         atoms = float(n.sum())
@@ -213,6 +222,7 @@ def _start_states(lp: LowestCombination, cloud: _Cloud, active: np.ndarray) -> l
 
 
 def _merge_duplicates(states: list[PhaseState]) -> list[PhaseState]:
+    """Composition sets of one phase that Newton brought to the same site fractions, merged."""
     out: list[PhaseState] = []
     for st in states:
         for o in out:
@@ -380,11 +390,14 @@ def _from_nearby(near, phases: list[_Phase], cloud: _Cloud, z: np.ndarray, activ
 
 
 def _phase_index(phases: list[_Phase], name: str) -> int:
+    """The index of the phase called `name`."""
     return next(i for i, ph in enumerate(phases) if ph.name == name)
 
 
 def _result(states: list[PhaseState], mu_active: np.ndarray, z: np.ndarray, active: np.ndarray,
             elements: np.ndarray, converged: bool) -> GlobalMinimum:
+    """The answer: per phase its site fractions, amount (moles of atoms) and composition; mu of
+    every element (NaN where absent or undetermined); G and dG/dT per mole of atoms."""
     out = []
     gibbs = gibbs_dT = 0.0
     states = [st for st in states if st.amount * st.atoms > VANISHING_AMOUNT] or states
