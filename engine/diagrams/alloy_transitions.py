@@ -42,8 +42,9 @@ class Transition:
     """On cooling through `temperature_K` (K) the stable phases change from `above` to `below`.
 
     `temperature_K` is the middle of a bracket no wider than `uncertainty_K` (K) that holds the
-    change; `below_equilibrium` is the point equilibrium at the bracket's lower end (within
-    `uncertainty_K` of the change), whose phases give the amounts just below it.
+    change; `below_equilibrium` and `above_equilibrium` are the point equilibria at the bracket's
+    lower and upper ends (within `uncertainty_K` of the change, except that the upper one is the
+    scan level above where no probe fell on that side).
     """
 
     temperature_K: float
@@ -51,6 +52,7 @@ class Transition:
     below: tuple[str, ...]
     uncertainty_K: float
     below_equilibrium: PointEquilibrium
+    above_equilibrium: PointEquilibrium
 
     @property
     def amounts_below(self) -> tuple[PhaseShare, ...]:
@@ -177,8 +179,8 @@ class _Scan:
         if phase_set(e_hi) == phase_set(e_lo):
             return []
         near, far, near_eq, far_eq = narrow_change(self.at, t_hi, t_lo, phase_set(e_hi), e_hi, e_lo, self.tolerance_K)
-        above = (near_eq or e_hi).phase_names
-        change = Transition(0.5 * (near + far), above, far_eq.phase_names, abs(near - far), far_eq)
+        near_eq = near_eq or e_hi
+        change = Transition(0.5 * (near + far), near_eq.phase_names, far_eq.phase_names, abs(near - far), far_eq, near_eq)
         return [change] + self.changes((far, far_eq), lo)
 
 

@@ -8,17 +8,27 @@
   lower of the equilibrium solidus and the end of Scheil-Gulliver freezing (above that end the
   last liquid of a cast structure can melt: incipient melting).
 
-These are equilibrium temperatures of the model, not a process specification. Temperatures in K.
+- Constituents of a plain carbon steel after slow cooling, by the lever rule at A1: the
+  austenite just above A1 becomes pearlite (the eutectoid constituent, ferrite + cementite); the
+  ferrite or cementite already there is the proeutectoid constituent.
+
+These are equilibrium results of the model, not a process specification: real heating and cooling
+rates shift the temperatures and change the constituents. Temperatures in K, amounts as mass
+fractions of the alloy.
 """
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from .alloy_transitions import AlloyTransitions, Transition
 
 A1, A3, ACM = "A1", "A3", "Acm"
+#: The trade's name of the eutectoid constituent of steels.
+PEARLITE = "pearlite"
 _LIQUID = "liquid"
+_AUSTENITE = "fcc"
 
 
 @dataclass(frozen=True)
@@ -84,3 +94,26 @@ def solution_window(result: AlloyTransitions, scheil_end_K: float | None) -> Hea
         window = HeatTreatmentWindow("solution", window.low_K, scheil_end_K, "solvus", "Scheil end", window.phases)
     return HeatTreatmentWindow(window.kind, window.low_K, window.high_K, window.low_is, window.high_is,
                                window.phases, tuple(notes))
+
+
+@dataclass(frozen=True)
+class Constituent:
+    """A constituent of the slowly cooled alloy: its name and mass fraction of the alloy."""
+
+    name: str
+    mass_fraction: float
+
+
+def slow_cooled_constituents(result: AlloyTransitions, labels: dict[int, str],
+                             trade_name: Callable[[str, float], str | None]) -> tuple[Constituent, ...]:
+    """Proeutectoid constituent and pearlite of a steel that cools slowly through A1 (the lever
+    rule just above A1): the austenite there becomes pearlite; each other phase there is named
+    'proeutectoid' + its trade name (`trade_name(phase, T)`, T in K). Empty where A1 is not crossed."""
+    a1 = next((result.transitions[i] for i, label in labels.items() if label == A1), None)
+    if a1 is None:
+        return ()
+    T = a1.above_equilibrium.temperature_K
+    out = [Constituent(f"proeutectoid {trade_name(p.name, T) or p.name}", p.amount_mass)
+           for p in a1.above_equilibrium.phases if p.name != _AUSTENITE]
+    pearlite = sum(p.amount_mass for p in a1.above_equilibrium.phases if p.name == _AUSTENITE)
+    return tuple(out + [Constituent(PEARLITE, pearlite)])

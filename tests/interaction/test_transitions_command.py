@@ -41,7 +41,7 @@ def test_json_lists_the_changes_from_hot_to_cold(ladle) -> None:
         assert t["label"] is None
         assert sum(p["phase_fraction_mol"] for p in t["phases_below"]) == pytest.approx(1.0)
     assert doc["transitions"][0]["above"] == ["liquid"]
-    assert doc["heat_treatment_window"] is None
+    assert doc["heat_treatment_window"] is None and doc["slow_cooled_constituents"] is None
 
 
 def test_solution_window_of_an_aluminium_copper_alloy(ladle) -> None:

@@ -23,6 +23,7 @@ from scipy.optimize import brentq
 
 from ladle.engine import equilibrate, find_system
 from ladle.engine.diagrams.alloy_transitions import alloy_transitions
+from ladle.engine.diagrams.heat_treatment import austenitizing_window, slow_cooled_constituents
 from ladle.engine.files.loader import shipped_library
 from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import mole_from_mass
@@ -167,16 +168,47 @@ def test_invariants_and_solubilities(request, which, wt, above, below, T_C, comp
         assert sides[side][phase] == pytest.approx(value, abs=tol_wt[phase]), phase
 
 
-def test_steel_lines_are_labelled(metastable) -> None:
+@pytest.fixture(scope="module")
+def steels(metastable):
+    """A hypoeutectoid (0.4 wt% C) and a hypereutectoid (1.2 wt% C) steel between 980 and 1180 K."""
+    return {wt: alloy_transitions(metastable, _x_C(metastable, wt), highest_K=1180.0, lowest_K=980.0, step_K=2.0)
+            for wt in (0.4, 1.2)}
+
+
+def _labels(system, result) -> dict[int, str]:
+    names = trade_names(system)
+    return {i: ln.name for i, t in enumerate(result.transitions) if (ln := names.line(t.above, t.below))}
+
+
+def test_steel_lines_are_labelled(metastable, steels) -> None:
     """A hypoeutectoid steel crosses A3 then A1; a hypereutectoid one Acm then A1 (the names of
     the trade, e.g. ASM Handbook Vol. 4, Heat Treating (1991), glossary)."""
+    assert list(_labels(metastable, steels[0.4]).values()) == ["A3", "A1"]
+    assert list(_labels(metastable, steels[1.2]).values()) == ["Acm", "A1"]
     names = trade_names(metastable)
-    for wt, expected in ((0.4, ["A3", "A1"]), (1.0, ["Acm", "A1"])):
-        result = alloy_transitions(metastable, _x_C(metastable, wt), highest_K=1100.0, lowest_K=980.0, step_K=2.0)
-        labels = [ln.name for t in result.transitions if (ln := names.line(t.above, t.below))]
-        assert labels == expected
     assert names.phase_name("bcc", 1000.0) == "ferrite" and names.phase_name("bcc", 1700.0) == "delta ferrite"
     assert names.phase_name("fcc", 1000.0) == "austenite" and names.phase_name("Fe3C", 1000.0) == "cementite"
+
+
+def test_windows_and_slow_cooled_constituents(metastable, steels) -> None:
+    """Austenitizing: fully austenitic above A3 (hypoeutectoid), austenite + cementite between A1
+    and Acm (hypereutectoid). Constituents by the lever rule at the eutectoid (W.D. Callister,
+    Materials Science and Engineering: An Introduction, 7th ed., Wiley (2007), the iron-carbon
+    system): pearlite = (C0 - C_ferrite) / (C_austenite - C_ferrite) and proeutectoid cementite =
+    (C0 - C_austenite) / (C_cementite - C_austenite), with the compositions of Okamoto's evaluation
+    (ferrite 0.022, austenite 0.77 wt% C) and cementite's 6.69 wt% C (Fe3C with IUPAC atomic
+    weights)."""
+    hypo, hyper = steels[0.4], steels[1.2]
+    window = austenitizing_window(hypo, _labels(metastable, hypo))
+    assert (window.low_is, window.phases) == ("A3", ("fcc",))
+    window = austenitizing_window(hyper, _labels(metastable, hyper))
+    assert (window.low_is, window.high_is, set(window.phases)) == ("A1", "Acm", {"fcc", "Fe3C"})
+    names = trade_names(metastable)
+    hypo_c = {c.name: c.mass_fraction for c in slow_cooled_constituents(hypo, _labels(metastable, hypo), names.phase_name)}
+    assert hypo_c["pearlite"] == pytest.approx((0.4 - 0.022) / (0.77 - 0.022), abs=0.02)
+    assert hypo_c["proeutectoid ferrite"] + hypo_c["pearlite"] == pytest.approx(1.0, abs=1e-9)
+    hyper_c = {c.name: c.mass_fraction for c in slow_cooled_constituents(hyper, _labels(metastable, hyper), names.phase_name)}
+    assert hyper_c["proeutectoid cementite"] == pytest.approx((1.2 - 0.77) / (6.69 - 0.77), abs=0.005)
 
 
 def test_leaving_graphite_out_changes_only_where_graphite_was_stable(stable, metastable) -> None:

@@ -15,6 +15,8 @@ HELP = "every temperature where one alloy's stable phases change, hot to cold, w
 
 SPECIFICATION_NOTE = ("Heat-treatment temperatures here are equilibrium estimates from the model: the alloy's "
                       "specification and the user's qualified procedure govern.")
+COOLING_NOTE = ("Real cooling rates change these constituents (faster cooling gives finer pearlite, bainite or "
+                "martensite); they are no prediction of a part's structure or hardness.")
 
 
 def add_arguments(p: argparse.ArgumentParser) -> None:
@@ -40,11 +42,16 @@ def run(args: argparse.Namespace) -> int:
     labels = {i: line.name for i, t in enumerate(result.transitions)
               if (line := names.line(t.above, t.below)) is not None}
     window = _window(system, result, labels, names.heat_treatment)
+    constituents = ()
+    if names.heat_treatment == "austenitizing":
+        from ladle.engine.diagrams.heat_treatment import slow_cooled_constituents
+
+        constituents = slow_cooled_constituents(result, labels, names.phase_name)
     w = mass_from_mole(x, system.molar_mass)
     if args.json:
-        print_json(_json(system, result, labels, window, x, w))
+        print_json(_json(system, result, labels, window, constituents, x, w))
         return 0
-    print("\n".join(_render(system, result, labels, names, window, alloy, x, w, args.unit)))
+    print("\n".join(_render(system, result, labels, names, window, constituents, alloy, x, w, args.unit)))
     return 0
 
 
@@ -68,7 +75,7 @@ def _window(system, result, labels: dict[int, str], treatment: str | None):
     return None
 
 
-def _json(system, result, labels: dict[int, str], window, x, w) -> dict:
+def _json(system, result, labels: dict[int, str], window, constituents, x, w) -> dict:
     els = system.elements
     return {
         "system": system.name,
@@ -87,6 +94,7 @@ def _json(system, result, labels: dict[int, str], window, x, w) -> dict:
         "heat_treatment_window": None if window is None else {
             "kind": window.kind, "low_K": window.low_K, "high_K": window.high_K, "low_is": window.low_is,
             "high_is": window.high_is, "phases": list(window.phases), "notes": list(window.notes)},
+        "slow_cooled_constituents": [{"name": c.name, "mass_fraction": c.mass_fraction} for c in constituents] or None,
         "warnings": list(result.warnings),
     }
 
@@ -113,7 +121,7 @@ def _phases(names, phases, T: float) -> str:
     return " + ".join(out)
 
 
-def _render(system, result, labels, names, window, alloy, x, w, unit: str) -> list[str]:
+def _render(system, result, labels, names, window, constituents, alloy, x, w, unit: str) -> list[str]:
     lines = [f"{system_title(system)}, alloy {_alloy_line(system, alloy, x, w)}",
              f"equilibrium phase changes on cooling from {temperature_both(result.highest_K, unit)} "
              f"to {temperature_both(result.lowest_K, unit)} (each within {result.tolerance_K:g} K):"]
@@ -139,6 +147,9 @@ def _render(system, result, labels, names, window, alloy, x, w, unit: str) -> li
         lines.append("")
         lines += _window_lines(window, names, unit)
         lines.append(SPECIFICATION_NOTE)
+    if constituents:
+        parts = ", ".join(f"{c.name} {quote.percent(c.mass_fraction)} wt%" for c in constituents)
+        lines += ["", f"after slow cooling through A1 (lever rule, equilibrium): {parts}", COOLING_NOTE]
     for warning in result.warnings:
         lines.append(f"warning: {warning}")
     return lines + closing_lines(system)
