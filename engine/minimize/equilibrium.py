@@ -126,9 +126,8 @@ def section_at(system, T: float) -> Section:
     return _sections.get(system, T)
 
 
-def _composition(system, composition, x_A: float | None) -> tuple[np.ndarray, bool]:
-    """The overall mole fractions as an array, and whether they were given as a binary's x_B.
-    Raises ValueError with one line for a composition of the wrong length, a negative or
+def _composition(system, composition, x_A: float | None) -> np.ndarray:
+    """The overall mole fractions as an array (a float is a binary's x_B). Raises ValueError with one line for a composition of the wrong length, a negative or
     non-finite fraction, or fractions that do not sum to 1."""
     n = len(system.elements)
     if np.ndim(composition) == 0:
@@ -137,7 +136,7 @@ def _composition(system, composition, x_A: float | None) -> tuple[np.ndarray, bo
             raise ValueError(f"{system.name} has {n} elements; give a mole fraction for each of {', '.join(system.elements)}")
         if not 0.0 <= x_B <= 1.0:
             raise ValueError(f"mole fraction {composition!r} is outside 0-1")
-        return np.array([1.0 - x_B if x_A is None else float(x_A), x_B]), True
+        return np.array([1.0 - x_B if x_A is None else float(x_A), x_B])
     z = np.asarray(composition, dtype=float)
     if z.shape != (n,):
         raise ValueError(f"expected {n} mole fractions ({', '.join(system.elements)}), got {np.size(z)}")
@@ -145,7 +144,7 @@ def _composition(system, composition, x_A: float | None) -> tuple[np.ndarray, bo
         raise ValueError("mole fractions must be finite and not negative")
     if abs(float(z.sum()) - 1.0) > 1e-9:
         raise ValueError(f"mole fractions sum to {float(z.sum()):.12g}, expected 1")
-    return z, False
+    return z
 
 
 def _binary_shortcut(system) -> bool:
@@ -169,7 +168,7 @@ def equilibrate(system, temperature_K: float, composition, x_A: float | None = N
     """
     if not temperature_K > 0:
         raise ValueError("temperature must be above 0 K")
-    z, _ = _composition(system, composition, x_A)
+    z = _composition(system, composition, x_A)
     if _binary_shortcut(system):
         return _binary_equilibrium(system, float(temperature_K), z)
     return general_equilibrium(system, temperature_K, z, near)
@@ -212,7 +211,7 @@ def general_equilibrium(system, temperature_K: float, composition,
     binaries to compare the two paths. `composition`: mole fractions of every element; `near`:
     see `equilibrate`."""
     T = float(temperature_K)
-    z, _ = _composition(system, composition, None)
+    z = _composition(system, composition, None)
     models = {name: phase.at(T) for name, phase in system.models.items()}
     start = None
     if near is not None and near.temperature_K == T:
