@@ -40,6 +40,7 @@ import numpy as np
 from ladle.engine import equilibrate, load_system
 from ladle.engine.files.catalog import list_systems
 from ladle.engine.diagrams.diagram import map_diagram
+from ladle.engine.diagrams.mappable import unmapped_phases
 from ladle.engine.minimize.equilibrium import SectionCache
 from ladle.engine.minimize import equilibrium as equilibrium_module
 from ladle.engine.models.polynomials import TemperatureFunction
@@ -273,6 +274,7 @@ def largest_shipped():
             systems.append(find_system(str(e.path)))
         except Exception:   # an unreadable file is reported by `ladle systems`, not here
             continue
+    systems = [s for s in systems if len(s.elements) == 2 and not unmapped_phases(s)]
     return max(systems, key=lambda s: (len(s.phases), len(s.compounds))) if systems else None
 
 
@@ -348,6 +350,8 @@ def main() -> int:
         fresh_sections()
         map_diagram.cache_clear()
         s = load_system(e.path, name=e.name)
+        if unmapped_phases(s) or len(s.elements) != 2:    # whole diagrams are binaries of solutions and compounds
+            continue
         t0 = time.perf_counter()
         map_diagram(s)
         ms = 1e3 * (time.perf_counter() - t0)
