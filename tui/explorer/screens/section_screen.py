@@ -127,7 +127,6 @@ class SectionScreen(Screen[None]):
             if key == self.exploration.section_key():       # still the section on screen
                 self.exploration.isopleth = isopleth
                 self.query_one(SectionView).refresh()
-                self.call_after_refresh(self._show_status)      # the key of numbered fields, once drawn
         elif worker.group == "cooling":
             key, result = worker.result
             self.exploration.freezing[key] = result
@@ -137,11 +136,14 @@ class SectionScreen(Screen[None]):
             if T == self.exploration.cursor.temperature_K:      # still the cursor's temperature
                 self.exploration.triangle = section
                 self.query_one(SectionView).refresh()
-                self.call_after_refresh(self._show_status)
         elif worker is self._point_worker:
             self._equilibrium = worker.result
             self.query_one(SectionView).equilibrium = worker.result
             self.query_one(SectionView).refresh()
+        self._show_status()
+
+    def on_section_view_drawn(self, event: SectionView.Drawn) -> None:
+        """A new picture: its key of numbered fields goes into the status pane."""
         self._show_status()
 
     # -- keys ----------------------------------------------------------------------------------

@@ -6,6 +6,7 @@ from __future__ import annotations
 from collections.abc import Hashable
 
 import numpy as np
+from textual.message import Message
 from textual_plotext.plot import Plot
 
 from ladle.engine.units import kelvin_to
@@ -25,6 +26,9 @@ CURSOR_COLOUR = "red"
 
 class SectionView(CachedPlot):
     """Draws the exploration's isopleth; the picture is kept per section, unit and size."""
+
+    class Drawn(Message):
+        """A new picture was drawn (its key of numbered fields may have changed)."""
 
     def __init__(self, glyphs: Glyphs, *, id: str | None = None) -> None:
         super().__init__(glyphs, id=id)
@@ -64,6 +68,7 @@ class SectionView(CachedPlot):
             return
         self._scene = isopleth_scene(e.isopleth, self.unit, self.glyphs, width, height)
         draw_section(plt, self._scene, self.glyphs)
+        self.post_message(self.Drawn())
 
     def key(self) -> list[str]:
         """What the numbered field labels of the picture stand for ('1: alpha + gamma')."""
@@ -79,6 +84,7 @@ class SectionView(CachedPlot):
             return
         self._scene = triangle_scene(e.triangle, self.glyphs, width, height)
         draw_section(plt, self._scene, self.glyphs)
+        self.post_message(self.Drawn())
         eq = self.equilibrium
         if eq is not None and len(eq.phases) > 1:
             corners = np.array([p.x for p in eq.phases] + [eq.phases[0].x])
