@@ -102,7 +102,7 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
         for name, v in zip(names, (r.liquidus_K, r.solidus_K, r.eutectic_equilibrium, r.scheil_end_K,
                                    r.eutectic_scheil)):
             values[name][ok] = v
-    _note_missing(reason, reason == "", values, job.scheil)
+    notes = _notes(reason, values, job.scheil)
 
     offset, scale = kelvin_to(0.0, job.unit), kelvin_to(1.0, job.unit) - kelvin_to(0.0, job.unit)
     comma, encoding = layout.decimal_comma, layout.encoding
@@ -120,8 +120,8 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
         superheat = int(np.rint(job.superheat_K * scale * 10.0))
         columns.append(number_bytes(liquidus + superheat, liquidus_ok, 1, comma))
     bad = np.flatnonzero(reason != "")
-    notes = reason.copy()
-    notes[bad] = neutralised(reason[bad], True, layout.delimiter)
+    noted = np.flatnonzero(notes != "")
+    notes[noted] = neutralised(notes[noted], True, layout.delimiter)
     columns.append(notes)
     text = rows_bytes(columns, layout.delimiter, encoding)
 
@@ -173,11 +173,17 @@ def _input_cells(layout: Layout, rows: Rows) -> np.ndarray:
     return joined
 
 
-def _note_missing(reason: np.ndarray, ok: np.ndarray, values: dict, scheil: bool) -> None:
-    """Give computed rows that lack an answer the reason (they count as rows not computed)."""
-    missing = [(np.isnan(values["liquidus"]), "not fully liquid at the top of the mapped window"),
-               (np.isnan(values["solidus"]), "not fully solid at the bottom of the mapped window")]
+def _notes(reason: np.ndarray, values: dict, scheil: bool) -> np.ndarray:
+    """The note column: the reason a row was not computed; a computed row without a liquidus or
+    solidus inside the mapped window gets that as its reason (it counts as not computed); one
+    whose Scheil liquid is still there at the bottom of the window keeps its melt range and says
+    so (the Scheil path leaves the model's range)."""
+    ok = reason == ""
+    melt = [(np.isnan(values["liquidus"]), "not fully liquid at the top of the mapped window"),
+            (np.isnan(values["solidus"]), "not fully solid at the bottom of the mapped window")]
+    for k in np.flatnonzero(ok & (melt[0][0] | melt[1][0])):
+        reason[k] = "; ".join(text for m, text in melt if m[k])
+    notes = reason.copy()
     if scheil:
-        missing.append((np.isnan(values["end"]), "Scheil: liquid left at the bottom of the mapped window"))
-    for k in np.flatnonzero(ok & np.logical_or.reduce([m for m, _ in missing])):
-        reason[k] = "; ".join(text for m, text in missing if m[k])
+        notes[(reason == "") & np.isnan(values["end"])] = "Scheil: liquid left at the bottom of the mapped window"
+    return notes

@@ -261,6 +261,16 @@ def test_the_shipped_demo_heat_list(capsys):
     assert all(abs(float(r["scheil_end_C"]) - 577.0) < 3.0 for r in rows if not r["note"])
 
 
+def test_a_scheil_path_that_leaves_the_model_keeps_the_melt_range(tmp_path, capsys):
+    # the Cu-Zn model covers 0-45 at% Zn; the Scheil liquid of a brass grows richer in Zn than that
+    path = tmp_path / "brass.csv"
+    path.write_text("heat,Zn at%\nC1,30\n")
+    assert main(["batch", "cu-zn", str(path)]) == 0
+    (row,) = _rows(capsys.readouterr().out)
+    assert row["note"] == "Scheil: liquid left at the bottom of the mapped window"
+    assert row["scheil_end_C"] == "" and float(row["liquidus_C"]) > float(row["solidus_C"]) > 800.0
+
+
 def test_outputs_that_are_not_regular_files_are_refused(tmp_path, capsys):
     (tmp_path / "h.csv").write_text(HEATS)
     with pytest.raises(SystemExit) as e:
