@@ -108,9 +108,12 @@ def slow_cooled_constituents(result: AlloyTransitions, labels: dict[int, str],
                              trade_name: Callable[[str, float], str | None]) -> tuple[Constituent, ...]:
     """Proeutectoid constituent and pearlite of a steel that cools slowly through A1 (the lever
     rule just above A1): the austenite there becomes pearlite; each other phase there is named
-    'proeutectoid' + its trade name (`trade_name(phase, T)`, T in K). Empty where A1 is not crossed."""
+    'proeutectoid' + its trade name (`trade_name(phase, T)`, T in K). Empty where A1 is not
+    crossed, or where the alloy is never all austenite (a cast iron: its cementite above A1 is
+    partly eutectic, not proeutectoid)."""
     a1 = next((result.transitions[i] for i, label in labels.items() if label == A1), None)
-    if a1 is None:
+    all_austenite = any((_AUSTENITE,) in (t.above, t.below) for t in result.transitions)
+    if a1 is None or not all_austenite:
         return ()
     T = a1.above_equilibrium.temperature_K
     out = [Constituent(f"proeutectoid {trade_name(p.name, T) or p.name}", p.amount_mass)
