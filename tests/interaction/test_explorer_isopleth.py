@@ -144,3 +144,15 @@ async def test_the_cooling_view_shows_both_paths_of_the_cursors_alloy(ternary_ap
         # 90 A, 5 B, 5 C (at%): alpha first, the ternary eutectic ends freezing (ideal_ternaries)
         assert "FREEZING" in text and "primary alpha" in text and "(ternary eutectic)" in text
         assert "solid, mass %" in screen_text(app)
+
+
+@pilot_test
+async def test_t_switches_the_temperature_unit_everywhere(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        assert "426.9 °C  (700.0 K)" in status_text(app)      # 700 K - 273.15 (NIST SP 811)
+        await pilot.press("t")
+        assert " 700.0 K" in status_text(app) and "T K" in screen_text(app)
+        await pilot.press("t")
+        assert "800.3 °F" in status_text(app)                  # (700 - 273.15) 9/5 + 32 (NIST SP 811)

@@ -197,7 +197,7 @@ class SectionExploration:
         w = mass_from_mole(x, self.system.molar_mass)
         T = self.cursor.temperature_K
         lines: list[Line] = [("heading", "POINT"),
-                             ("value", f" {kelvin_to(T, unit):.1f} {unit_text}  ({T:.1f} K)")]
+                             ("value", f" {kelvin_to(T, unit):.1f} {unit_text}" + ("" if unit == "K" else f"  ({T:.1f} K)"))]
         lines += [("value", f" {el} {percent(x[i])} at% ({percent(w[i])} wt%)") for i, el in enumerate(els)]
         if not phases:
             return lines

@@ -16,6 +16,7 @@ from textual.screen import Screen
 from textual.widgets import Input, Static
 from textual.worker import Worker, WorkerState
 
+from ladle.engine.units import TEMPERATURE_UNITS
 from ladle.tui.quote import percent
 
 from ..entry import EntryError, parse_point
@@ -26,7 +27,7 @@ from ..widgets.section_view import SectionView
 from ..widgets.status_pane import StatusPane
 from .help import HelpScreen
 
-KEYS = "arrows move  v vary  i triangle  c cooling  g go to  ? help  q quit"
+KEYS = "arrows move  v vary  i triangle  c cooling  t C/K/F  g go to  ? help  q quit"
 #: The help screen's rows for this screen: (keys, what they do).
 HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
              ("v", "let the next element vary (the balance, the first element, takes up the change)"),
@@ -35,6 +36,7 @@ HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in 
              ("c", "switch between the isopleth and both freezing paths of the cursor's alloy (equilibrium, "
                    "Scheil), with its liquidus, the ends of freezing and the structure in the status pane"),
              ("g", "go to a typed alloy and temperature: Ag=3wt% Cu=0.5wt% 250C (every element but the balance)"),
+             ("t", "temperatures in C, K or F, everywhere"),
              ("Esc", "close the entry line"),
              ("?", "this help"),
              ("q", "quit")]
@@ -46,7 +48,8 @@ class SectionScreen(Screen[None]):
     BINDINGS = [Binding("left", "move(-1, 0)", show=False), Binding("right", "move(1, 0)", show=False),
                 Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
                 Binding("v", "vary", show=False), Binding("i", "view('triangle')", show=False),
-                Binding("c", "view('cooling')", show=False), Binding("g", "go_to", show=False),
+                Binding("c", "view('cooling')", show=False), Binding("t", "temperature_unit", show=False),
+                Binding("g", "go_to", show=False),
                 Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
                 Binding("q", "app.quit", show=False)]
 
@@ -100,9 +103,10 @@ class SectionScreen(Screen[None]):
 
     def _show_status(self) -> None:
         e = self.exploration
-        lines = e.status_lines(self._equilibrium, "C", self.glyphs.temperature_unit("C"), phases=e.view != "cooling")
+        unit = self.query_one(SectionView).unit
+        lines = e.status_lines(self._equilibrium, unit, self.glyphs.temperature_unit(unit), phases=e.view != "cooling")
         if e.view == "cooling":
-            lines += e.freezing_lines("C", self.glyphs.temperature_unit("C"))
+            lines += e.freezing_lines(unit, self.glyphs.temperature_unit(unit))
         elif (e.triangle if e.view == "triangle" else e.isopleth) is None:
             lines.append(("note", f" mapping the {'isothermal section' if e.view == 'triangle' else 'isopleth'} ..."))
         else:
@@ -162,6 +166,12 @@ class SectionScreen(Screen[None]):
     def action_view(self, view: str) -> None:
         self.exploration.switch_view(view)
         self._changed(remap=True)
+
+    def action_temperature_unit(self) -> None:
+        view = self.query_one(SectionView)
+        view.unit = TEMPERATURE_UNITS[(TEMPERATURE_UNITS.index(view.unit) + 1) % len(TEMPERATURE_UNITS)]
+        view.refresh()
+        self._show_status()
 
     def action_go_to(self) -> None:
         self.query_one(PointEntry).open(self.exploration.element)
