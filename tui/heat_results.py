@@ -86,7 +86,7 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
     rows = parse_block(layout, first_line, data)
     percent, reason = percentages(layout, rows)
     x = _mole_fractions(layout, system, percent)
-    if job.table is not None:
+    if len(system.elements) == 2:
         _note_outside_coverage(layout, system, rows, x[:, 1], reason)
     ok = reason == ""
     names = ("liquidus", "solidus", "eutectic", "end", "eutectic_scheil")

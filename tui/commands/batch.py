@@ -76,9 +76,11 @@ def run(args: argparse.Namespace) -> int:
     scan = scan_heat_list(source, args.encoding)
     layout = read_layout(source, scan, system.elements)
 
+    from ladle.engine.diagrams.mappable import unmapped_phases
     from ladle.engine.solidify.table import composition_table
 
-    table = composition_table(system) if len(system.elements) == 2 else None
+    # the table needs the whole diagram; other systems' heats are computed one by one
+    table = composition_table(system) if len(system.elements) == 2 and not unmapped_phases(system) else None
     job = BlockJob(layout, system, table, unit, superheat[0] if superheat else None, not args.melt_only)
     options = {"system": system.name, "without": sorted(args.without), "unit": unit,
                "superheat_K": job.superheat_K, "scheil": job.scheil, "encoding": layout.encoding}
