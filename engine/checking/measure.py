@@ -94,7 +94,12 @@ def describe(fact: Fact, system) -> str:
     if fact.kind == "melting":
         return f"melting of {fact.element}"
     if fact.kind == "invariant":
-        return f"{fact.reaction} of {' + '.join(name for name, _x in fact.phase_x_B) or 'any phases'}"
+        names = [name for name, _x in (fact.phase_x or fact.phase_x_B)]
+        return f"{fact.reaction} of {' + '.join(names) or 'any phases'}"
+    if fact.x is not None:
+        where = ", ".join(f"{el} {100 * v:.4g}" for el, v in zip(system.elements[1:], fact.x[1:]))
+        what = f"enthalpy of mixing of {fact.phase}" if fact.kind == "mixing_enthalpy" else fact.kind
+        return f"{what} at {where} at%" + (f", {fact.temperature_K:.2f} K" if fact.kind == "mixing_enthalpy" else "")
     if fact.kind in ("liquidus", "solidus"):
         b = system.elements[1]
         w = float(mass_from_mole(np.array([1.0 - fact.x_B, fact.x_B]), system.molar_mass)[1])
@@ -271,6 +276,10 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
     try:
         if fact.kind == "melting":
             return _melting(system, fact)
+        if len(system.elements) > 2:
+            from .multicomponent import evaluate_multicomponent
+
+            return evaluate_multicomponent(system, fact)
         if fact.kind in ("liquidus", "solidus"):
             return _boundary_T(system, fact)
         if fact.kind == "boundary":
@@ -290,7 +299,7 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
 def evaluate_all(system, facts: list[Fact]) -> list[FactOutcome]:
     """The model against every fact of a list (the diagram is mapped once, if any fact needs it)."""
     diagram = None
-    if any(f.kind == "invariant" for f in facts):
+    if len(system.elements) == 2 and any(f.kind == "invariant" for f in facts):
         from ..diagrams.diagram import map_diagram
 
         diagram = map_diagram(system)

@@ -1,4 +1,5 @@
-"""Alloy shorthands of a system file: the `[[alloy]]` list (systems/FORMAT.md).
+"""Alloy shorthands of a system file, the `[[alloy]]` list (systems/FORMAT.md), and the
+composition tables by element that they and the facts of systems of three or more elements use.
 
 Each entry names a common alloy by a published standard's designation and gives its nominal
 composition in wt% or at% of every element but the balance. Commands take the name where they
@@ -62,26 +63,51 @@ def read_alloys(items: Any, elements: tuple[str, ...], fail: Callable[[str, str]
         bases = [b for b in ("wt_percent", "at_percent") if b in item]
         if len(bases) != 1:
             raise fail(key, "give the composition once, as wt_percent or at_percent (a table by element)")
-        table = item[bases[0]]
-        if not isinstance(table, dict) or not table:
-            raise fail(f"{key}.{bases[0]}", "expected a table such as { Ag = 3.0, Cu = 0.5 }")
-        parts = []
-        for el, v in table.items():
-            if el not in elements:
-                raise fail(f"{key}.{bases[0]}.{el}", f"expected an element of this system ({', '.join(elements)})")
-            if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or not 0 <= v < 100:
-                raise fail(f"{key}.{bases[0]}.{el}", f"expected a percentage from 0 to below 100, found {v!r}")
-            parts.append((el, float(v)))
-        if len(parts) != len(elements) - 1:
-            raise fail(f"{key}.{bases[0]}", "give every element but one, the balance")
-        if sum(p for _, p in parts) >= 100:
-            raise fail(f"{key}.{bases[0]}", "the named elements add up to 100 % or more; the balance needs a share")
+        parts = percent_table(item[bases[0]], elements, f"{key}.{bases[0]}", fail)
         note = item.get("note", "")
         if not isinstance(note, str):
             raise fail(f"{key}.note", "expected a text")
         out.append(NamedAlloy(name=name.strip(), basis=bases[0][:2], parts=tuple(parts),
                               source=without_controls(source), note=without_controls(note)))
     return tuple(out)
+
+
+def percent_table(table: Any, elements: tuple[str, ...], key: str,
+                  fail: Callable[[str, str], Exception]) -> tuple[tuple[str, float], ...]:
+    """A composition table of a file, `{ Ag = 3.0, Cu = 0.5 }`: (element, percent) of every
+    element but one (the balance), each from 0 to below 100, together below 100."""
+    if not isinstance(table, dict) or not table:
+        raise fail(key, "expected a table such as { Ag = 3.0, Cu = 0.5 }")
+    parts = []
+    for el, v in table.items():
+        if el not in elements:
+            raise fail(f"{key}.{el}", f"expected an element of this system ({', '.join(elements)})")
+        if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or not 0 <= v < 100:
+            raise fail(f"{key}.{el}", f"expected a percentage from 0 to below 100, found {v!r}")
+        parts.append((el, float(v)))
+    if len(parts) != len(elements) - 1:
+        raise fail(key, "give every element but one, the balance")
+    if sum(p for _, p in parts) >= 100:
+        raise fail(key, "the named elements add up to 100 % or more; the balance needs a share")
+    return tuple(parts)
+
+
+def mole_fractions(parts: tuple[tuple[str, float], ...], basis: str, elements: tuple[str, ...],
+                   molar_mass) -> tuple[float, ...]:
+    """Mole fractions of every element (the system's order) of a composition given as (element,
+    percent) of all but the balance, in `basis` "wt" or "at"; molar masses in g/mol."""
+    import numpy as np
+
+    from ..units import mole_from_mass
+
+    shares = np.zeros(len(elements))
+    named = dict(parts)
+    for i, el in enumerate(elements):
+        shares[i] = named.get(el, 0.0) / 100.0
+    balance = next(i for i, el in enumerate(elements) if el not in named)
+    shares[balance] = 1.0 - shares.sum()
+    x = mole_from_mass(shares, np.asarray(molar_mass, dtype=float)) if basis == "wt" else shares
+    return tuple(float(v) for v in x)
 
 
 def find_alloy(alloys: tuple[NamedAlloy, ...], name: str) -> NamedAlloy | None:

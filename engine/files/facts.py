@@ -116,7 +116,9 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             if el not in system.elements:
                 raise fail(f"{key}.element", f"expected one of {', '.join(system.elements)}, found {el!r}")
             fields["element"] = el
-        if kind in ("liquidus", "solidus", "boundary", "mixing_enthalpy"):
+        if len(system.elements) > 2:
+            _read_multicomponent(item, key, kind, system, fields, fail)
+        elif kind in ("liquidus", "solidus", "boundary", "mixing_enthalpy"):
             comps = [k for k in ("at_percent", "wt_percent") if k in item]
             if kind != "boundary" and len(comps) != 1:
                 raise fail(key, f"give the composition once, as at_percent or wt_percent of {system.elements[1]}")
@@ -138,8 +140,8 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         if kind in ("mixing_enthalpy", "formation_enthalpy"):
             model = "solution" if kind == "mixing_enthalpy" else "compound"
             ph = item.get("phase")
-            if ph not in system.phases or system.phases[ph].kind != model:
-                names = [n for n, p in system.phases.items() if p.kind == model]
+            if ph not in system.phases or not _is_model(system, ph, model):
+                names = [n for n in system.phases if _is_model(system, n, model)]
                 raise fail(f"{key}.phase", f"expected a {model} phase of this system ({', '.join(names) or 'none'}), found {ph!r}")
             fields["phase"] = ph
             h = item.get("enthalpy_J_per_mol")
@@ -151,6 +153,7 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             if reaction not in REACTIONS:
                 raise fail(f"{key}.reaction", f"expected one of {', '.join(REACTIONS)}, found {reaction!r}")
             fields["reaction"] = reaction
+        if kind == "invariant" and len(system.elements) == 2:
             ph = item.get("phases", {})
             if not isinstance(ph, dict):
                 raise fail(f"{key}.phases", "expected a table of phase = at% of " + system.elements[1])
@@ -167,6 +170,52 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             fields["phase_x_B"] = tuple(comp)
         facts.append(Fact(**fields))
     return facts
+
+
+def _is_model(system, name: str, model: str) -> bool:
+    """Whether phase `name` is a `model` ("solution" or "compound") phase; in a system of three or
+    more elements a solution is a substitutional phase of the general model."""
+    if len(system.elements) > 2 and model == "solution":
+        return bool(system.models[name].is_substitutional)
+    return system.phases[name].kind == model
+
+
+#: The kinds read in systems of three or more elements so far.
+MULTICOMPONENT_KINDS = ("melting", "invariant", "liquidus", "solidus", "mixing_enthalpy")
+
+
+def _read_multicomponent(item: dict, key: str, kind: str, system, fields: dict,
+                         fail: Callable[[str, str], Exception]) -> None:
+    """The compositions of a fact of a system of three or more elements into `fields`: `x` (a
+    liquidus, solidus or mixing enthalpy: `at_percent` or `wt_percent` as a table by element, all
+    but the balance) or `phase_x` (an invariant: each phase's at% by element, `{}` where unknown)."""
+    from .alloys import mole_fractions, percent_table
+
+    if kind not in MULTICOMPONENT_KINDS:
+        raise fail(f"{key}.kind", f"a {kind} fact is read for two-element systems only so far "
+                                  f"(here: {', '.join(MULTICOMPONENT_KINDS)})")
+    if kind in ("liquidus", "solidus", "mixing_enthalpy"):
+        comps = [k for k in ("at_percent", "wt_percent") if k in item]
+        if len(comps) != 1:
+            raise fail(key, "give the composition once, as at_percent or wt_percent: a table by element, "
+                            "every element but the balance, e.g. { Ag = 3.5, Cu = 0.9 }")
+        parts = percent_table(item[comps[0]], system.elements, f"{key}.{comps[0]}", fail)
+        fields["x"] = mole_fractions(parts, comps[0][:2], system.elements, system.molar_mass)
+    if kind == "invariant":
+        ph = item.get("phases")
+        if not isinstance(ph, dict) or not ph:
+            raise fail(f"{key}.phases", "expected a table of every phase taking part = its at% by element "
+                                        "(all but the balance), or {} where not known")
+        phase_x = []
+        for name, v in ph.items():
+            if name not in system.phases:
+                raise fail(f"{key}.phases.{name}", f"not a phase of this system ({', '.join(system.phases)})")
+            if v == {}:
+                phase_x.append((name, None))
+                continue
+            parts = percent_table(v, system.elements, f"{key}.phases.{name}", fail)
+            phase_x.append((name, mole_fractions(parts, "at", system.elements, system.molar_mass)))
+        fields["phase_x"] = tuple(phase_x)
 
 
 def _same_fact(a, b) -> bool:

@@ -268,7 +268,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         document=doc,
     )
     if len(elements) > 2:
-        for key in ("check", "measured", "fit"):
+        for key in ("measured", "fit"):
             if key in doc:
                 raise r.fail(key, "is read for two-element systems only so far")
     system.checks = parse_facts(doc.get("check", []), "check", system, r.fail)

@@ -22,6 +22,9 @@ class Fact:
     `enthalpy_J_per_mol` is the measured enthalpy of the calorimetric kinds (J per mole of atoms);
     `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K", "J"
     (J/mol) and "at" (at%), or per-phase at% under "at:<phase>".
+    In a system of three or more elements `x` holds the fact's composition (mole fractions of
+    every element) instead of `x_B`, and `phase_x` an invariant's phases with their mole
+    fractions (None where the fact gives none) instead of `phase_x_B`.
     """
 
     kind: str
@@ -36,6 +39,8 @@ class Fact:
     enthalpy_J_per_mol: float | None = None
     spread: dict[str, float] = field(default_factory=dict)
     index: int = 0
+    x: tuple[float, ...] | None = None
+    phase_x: tuple[tuple[str, tuple[float, ...] | None], ...] = ()
 
 
 @dataclass(eq=False)
