@@ -40,6 +40,8 @@ KNOWN_FAILURES = {
     ("ag-cu", 4): "ASM's coin-silver liquidus (890 C) lies only 3 K below its sterling liquidus (893 C, a fit target), "
                   "where the liquidus falls about 7 K per wt% Cu; the model puts coin silver 16 K lower",
     ("al-mg", 3): "the 520.0 casting alloy's datasheet liquidus (600 C) lies 10 K below the model at 10 wt% Mg",
+    ("au-sn", 2): "zeta's gold-rich limit at 275 C comes out near 6.8 at% Sn, not 11.1: beta (Au10Sn) is not modelled "
+                  "and the lumped zeta reaches toward (Au) in its place",
     ("cu-ni", 3): "C70600 datasheet solidus (a commercial alloy with Fe and Mn, typically a non-equilibrium value) "
                   "lies 28 K below the published assessment used unchanged",
     ("cu-ni", 4): "C71500 datasheet liquidus lies 8 K below the published assessment used unchanged",
@@ -61,8 +63,8 @@ KNOWN_FAILURES = {
 SHORT_OF_CHECKS = {
     "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check"),
     "au-si": (0, "no liquidus, solubility or calorimetric value from a source at hand; the eutectic is the fit target"),
-    "au-sn": (0, "every trusted fact (the zeta peritectic, the eutectic, AuSn's melting and calorimetry) is needed "
-                 "to fit the zeta phase at all"),
+    "au-sn": (2, "the zeta peritectic, the eutectic and AuSn's melting and calorimetry are needed to fit the model; "
+                 "no liquidus, solvus or calorimetry of the liquid from a source at hand"),
     "bi-cd": (0, "the evaluation's summary gives the eutectic (fitted) and solubilities only as upper limits"),
     "fe-c": (0, "a published assessment used unchanged; its independent checks (pure iron, the invariants and "
                 "solubilities of both diagrams) are in tests/unit/test_fe_c.py, because ladle check evaluates "
