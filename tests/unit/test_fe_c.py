@@ -229,3 +229,17 @@ def test_whole_diagrams_are_refused_in_one_line(stable) -> None:
     with pytest.raises(ValueError, match="sublattice phases fcc, bcc, Fe3C"):
         map_diagram(stable)
     assert "sublattice phases" in not_explorable(stable)
+
+
+def test_melt_of_a_steel_takes_the_point_equilibrium_path(metastable, capsys) -> None:
+    """`ladle melt` of a binary with sublattice phases follows point equilibria (no mapped
+    diagram): its liquidus and solidus are those of the transitions scan."""
+    import json
+
+    from ladle.tui.cli import main
+
+    assert main(["melt", "fe-fe3c", "--comp", "C=0.4wt%", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    scan = alloy_transitions(metastable, _x_C(metastable, 0.4), highest_K=1800.0, lowest_K=1700.0)
+    assert doc["liquidus_K"] == pytest.approx(scan.liquidus_K, abs=1e-3)
+    assert doc["solidus_K"] == pytest.approx(scan.solidus_K, abs=1e-3)

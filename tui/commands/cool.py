@@ -35,8 +35,12 @@ def run(args: argparse.Namespace) -> int:
 
     system = open_system(args.system, args.without)
     x, comp = read_alloy(system, args.comp)
+    from ladle.engine.diagrams.mappable import unmapped_phases
+
     binary = len(system.elements) == 2
-    result = solidify(system, float(x[1])) if binary else solidify_alloy(system, x)
+    # A binary with sublattice phases (Fe-C) has no mapped diagram: the general paths follow it.
+    mapped = binary and not unmapped_phases(system)
+    result = solidify(system, float(x[1])) if mapped else solidify_alloy(system, x)
     model = "scheil" if args.scheil else "equilibrium"
     if args.json:
         print_json(result.to_json(model))

@@ -71,7 +71,9 @@ def run(args: argparse.Namespace) -> int:
     from ..heatlist import parse_temperature_difference
 
     system = open_system(args.system, args.without)
-    if len(system.elements) != 2:
+    from ladle.engine.diagrams.mappable import unmapped_phases
+
+    if len(system.elements) != 2 or unmapped_phases(system):     # no mapped diagram: point equilibria
         from .alloy_melt import run_alloy
 
         return run_alloy(system, args)
