@@ -51,9 +51,9 @@ def read_alloys(items: Any, elements: tuple[str, ...], fail: Callable[[str, str]
                 raise fail(f"{key}.{k}", f"unknown key; expected one of {', '.join(sorted(_KEYS))}")
         name = item.get("name")
         if (not isinstance(name, str) or not name.strip() or len(name) > _MAX_NAME or has_controls(name)
-                or "," in name):
+                or any(c in name.strip() for c in ",; ")):
             raise fail(f"{key}.name", f"expected a designation of at most {_MAX_NAME} characters, "
-                                      "without commas or control characters")
+                                      "without spaces, commas, semicolons or control characters")
         if name.strip().lower() in seen:
             raise fail(f"{key}.name", f"{name.strip()!r} is named twice")
         seen.add(name.strip().lower())

@@ -107,3 +107,16 @@ def test_a_name_given_twice_is_refused(tmp_path):
                     encoding="utf-8")
     with pytest.raises(SystemFileError, match="'SN63PB37' is named twice"):
         load_system(path)
+
+
+def test_the_explorer_go_to_takes_an_alloy_name(pb_sn):
+    from ladle.tui.explorer.entry import EntryError, parse_point
+
+    system = load_system(Path(pb_sn))
+    by_name = parse_point("sn63pb37 200C", system.elements, system.molar_mass, system.alloys)
+    by_comp = parse_point("Sn=63wt% 200C", system.elements, system.molar_mass, system.alloys)
+    assert by_name == by_comp and by_name.temperature_K == pytest.approx(473.15)
+    with pytest.raises(EntryError, match="element Sn is given twice"):
+        parse_point("Sn63Pb37 Sn=60wt%", system.elements, system.molar_mass, system.alloys)
+    with pytest.raises(EntryError):
+        parse_point("SAC305 200C", system.elements, system.molar_mass, system.alloys)

@@ -95,7 +95,7 @@ def _liquid_model() -> _Model:
 def _system(name: str, models: dict) -> SimpleNamespace:
     return SimpleNamespace(name=name, elements=ELEMENTS, molar_mass=MOLAR_MASS, models=models, title="",
                            safety="", temperature_range_K=(400.0, 1400.0), model_range_K=(1.0, 6000.0),
-                           covers_K=(0.0, float("inf")), kind=name)
+                           covers_K=(0.0, float("inf")), kind=name, alloys=())
 
 
 def eutectic_system() -> SimpleNamespace:

@@ -1,5 +1,6 @@
 """Reading a typed point: "650C 12wt%", "923K 20at%", "Sn=12wt%", "1200F", and for three or
-more elements "Ag=3wt% Cu=0.5wt% 250C" (every element but the balance named).
+more elements "Ag=3wt% Cu=0.5wt% 250C" (every element but the balance named), or an alloy by the
+name its system file lists, "Sn96.5Ag3Cu0.5 250C".
 
 The words are read by the same parser as the line-mode commands (`ladle.tui.parsing`): a
 temperature is a number with an optional unit C, K or F (no unit: degrees Celsius), a
@@ -49,16 +50,22 @@ def _is_composition(word: str) -> bool:
             or word.endswith("%") or "=" in word)
 
 
-def parse_point(text: str, elements: tuple[str, ...], molar_mass) -> TypedPoint:
-    """Read a typed point for a system of `elements` with molar masses (g/mol)."""
+def parse_point(text: str, elements: tuple[str, ...], molar_mass, alloys: tuple = ()) -> TypedPoint:
+    """Read a typed point for a system of `elements` with molar masses (g/mol); a word naming one
+    of the system's alloy shorthands (`alloys`, ladle.engine.files.alloys) stands for its
+    composition."""
+    from ladle.engine.files.alloys import find_alloy
+
     words = _words(text)
     if not words:
         raise EntryError("type a temperature and/or a composition, for example 650C 12wt%")
     temperature_K: float | None = None
     contents = [word for word in words if _is_composition(word)]
+    named = [word for word in words if word not in contents and find_alloy(alloys, word) is not None]
+    contents += [part for word in named for part in find_alloy(alloys, word).spec.split(",")]
     try:
         for word in words:
-            if word in contents:
+            if word in contents or word in named:
                 continue
             if temperature_K is not None:
                 raise EntryError(f"{word}: a second temperature; give one")

@@ -226,7 +226,7 @@ class ExploreScreen(Screen[None]):
         e = self.exploration
         entry = self.query_one(PointEntry)
         try:
-            point = parse_point(event.value, e.system.elements, e.system.molar_mass)
+            point = parse_point(event.value, e.system.elements, e.system.molar_mass, e.system.alloys)
             check_inside(point, e.limits, e.scales, self.glyphs)
         except EntryError as error:
             entry.show_problem(str(error))

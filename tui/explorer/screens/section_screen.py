@@ -187,7 +187,7 @@ class SectionScreen(Screen[None]):
         e = self.exploration
         entry = self.query_one(PointEntry)
         try:
-            e.jump(parse_point(event.value, e.system.elements, e.system.molar_mass))
+            e.jump(parse_point(event.value, e.system.elements, e.system.molar_mass, e.system.alloys))
         except (EntryError, ValueError) as error:
             entry.show_problem(str(error))
             return
