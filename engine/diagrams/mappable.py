@@ -22,4 +22,5 @@ def require_mappable(system) -> None:
         return
     what = f"the sublattice phases {', '.join(unmapped)}" if unmapped else f"{len(system.elements)} elements"
     raise ValueError(f"{system.name}: whole diagrams of systems with {what} are not mapped yet; "
-                     "ladle point and ladle transitions answer for one alloy")
+                     "ladle point, melt, cool and transitions answer for one alloy, and "
+                     "ladle diagram --comp SPEC --vary EL=A..B draws an isopleth")
