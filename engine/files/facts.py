@@ -227,7 +227,14 @@ def _same_fact(a, b) -> bool:
         return False
     if (a.x_B is None) != (b.x_B is None) or (a.x_B is not None and abs(a.x_B - b.x_B) > 5e-4):
         return False
-    return a.kind != "invariant" or {n for n, _x in a.phase_x_B} & {n for n, _x in b.phase_x_B} != set()
+    if (a.x is None) != (b.x is None) or (a.x is not None and max(abs(p - q) for p, q in zip(a.x, b.x)) > 5e-4):
+        return False
+    return a.kind != "invariant" or _phase_names(a) & _phase_names(b) != set()
+
+
+def _phase_names(fact) -> set[str]:
+    """The phases an invariant fact names (binary or of three or more elements)."""
+    return {n for n, _x in fact.phase_x_B} | {n for n, _x in fact.phase_x}
 
 
 def reject_repeated_facts(checks: list, measured: list, fail: Callable[[str, str], Exception]) -> None:

@@ -267,10 +267,6 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         declared_temperature_range_K=t_range,
         document=doc,
     )
-    if len(elements) > 2:
-        for key in ("measured", "fit"):
-            if key in doc:
-                raise r.fail(key, "is read for two-element systems only so far")
     system.checks = parse_facts(doc.get("check", []), "check", system, r.fail)
     system.measured = parse_facts(doc.get("measured", []), "measured", system, r.fail)
     read_trade_names(doc, phases, r.fail)

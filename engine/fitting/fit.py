@@ -176,9 +176,10 @@ def _prepare(system) -> tuple[list[ParameterPath], list[Target]]:
         reason = outside_coverage(system, f)
         if reason is not None:
             raise FitInputError(f"{name}: measured[{f.index}]: {reason}")
-    diagram = map_diagram(system) if any(f.kind == "invariant" for f in system.measured) else None
+    binary = len(system.elements) == 2
+    diagram = map_diagram(system) if binary and any(f.kind == "invariant" for f in system.measured) else None
     try:
-        targets = [make_target(f, diagram) for f in system.measured]
+        targets = [make_target(f, diagram, tuple(system.elements)) for f in system.measured]
     except TargetInputError as e:
         raise FitInputError(f"{name}: {e}") from None
     m = sum(len(t.quantities) for t in targets)

@@ -14,7 +14,7 @@ measurement file.
 from __future__ import annotations
 
 from abc import ABC, abstractmethod
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from ..checking.measure import (composition_spread, enthalpy_spread, match_reaction, model_enthalpy, reaction_candidates,
                       reaction_name, temperature_spread)
@@ -193,11 +193,45 @@ class EnthalpyTarget(Target):
         return [model_enthalpy(system, self.fact)]
 
 
-def make_target(fact: Fact, diagram) -> Target:
+class MulticomponentTarget(Target):
+    """A fact of a system of three or more elements (liquidus, solidus, mixing enthalpy, or a
+    eutectic's temperature and liquid composition), measured as `ladle check` measures it
+    (engine/checking/multicomponent.py)."""
+
+    def __init__(self, fact: Fact, elements: tuple[str, ...]) -> None:
+        super().__init__(fact)
+        if fact.kind == "mixing_enthalpy":
+            self.quantities = (_enthalpy_quantity(fact),)
+        elif fact.kind == "invariant":
+            liquid = [x for name, x in fact.phase_x if name == "liquid"]
+            if fact.reaction != "eutectic" or not liquid or liquid[0] is None:
+                raise TargetInputError(f"{_key(fact)}: a reaction of three or more elements is fitted as a eutectic "
+                                       "with its liquid's composition")
+            self.quantities = (_temperature_quantity(fact),) + tuple(
+                replace(_composition_quantity(fact, "liquid", x), name=f"x(liquid) {el}")
+                for el, x in zip(elements[1:], liquid[0][1:]))
+        else:
+            self.quantities = (_temperature_quantity(fact),)
+
+    def _values(self, system) -> list[float]:
+        from ..checking.multicomponent import evaluate_multicomponent
+
+        outcome = evaluate_multicomponent(system, self.fact)
+        if outcome.problem is not None:
+            raise TargetLost(outcome.problem)
+        values = [c.model for c in outcome.comparisons]
+        if any(v is None for v in values):
+            raise TargetLost("the model has no value for it")
+        return values
+
+
+def make_target(fact: Fact, diagram, elements: tuple[str, ...] = ()) -> Target:
     """The fit target of one measured fact; `diagram` is the starting model's mapped diagram
-    (used to find its reactions)."""
+    (used to find its reactions); `elements` the system's (for facts of three or more)."""
     if fact.kind == "melting":
         return MeltingTarget(fact)
+    if fact.x is not None or fact.phase_x:
+        return MulticomponentTarget(fact, elements)
     if fact.kind in ("liquidus", "solidus"):
         return BoundaryTemperatureTarget(fact)
     if fact.kind == "boundary":

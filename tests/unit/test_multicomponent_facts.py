@@ -142,7 +142,71 @@ def test_bad_ternary_facts_are_one_line(tmp_path, body, expected):
     assert expected in str(e.value) and "\n" not in str(e.value)
 
 
-def test_fit_targets_stay_binary_only(tmp_path):
-    body = '[[measured]]\nkind = "liquidus"\ntemperature_K = 900\nat_percent = { Sn = 10, Bi = 10 }\nuncertainty_K = 1\nsource = "s"\n'
-    with pytest.raises(SystemFileError, match="measured: is read for two-element systems only so far"):
-        load_system(with_checks(tmp_path, it.EUTECTIC_FILE, body))
+# --- a ternary liquid term: the eutectic from the chemical potentials, and a fit of the term ---------
+# With G_ex = L xA xB xC (a ternary term that does not depend on composition), the excess chemical
+# potential of A is L xB xC (1 - 2 xA) (differentiate n G_ex by n_A), so at the ternary eutectic
+# ln x_i + L x_j x_k (1 - 2 x_i) / RT = -dG_fus,i(T) / RT for each i, with sum x_i = 1.
+L_TRUE = -6000.0      # J/mol, invented
+
+
+def regular_eutectic(L: float) -> tuple[float, np.ndarray]:
+    from scipy.optimize import fsolve
+
+    def equations(v):
+        x, T = v[:3], v[3]
+        others = np.array([x[1] * x[2], x[0] * x[2], x[0] * x[1]])
+        return list(np.log(x) + L * others * (1 - 2 * x) / (it.R * T) + it.fusion_gibbs(T) / (it.R * T)) + [x.sum() - 1]
+
+    T0 = eutectic_K()
+    v = fsolve(equations, list(it.saturation(T0)) + [T0], xtol=1e-13)
+    assert np.max(np.abs(equations(v))) < 1e-10
+    return float(v[3]), v[:3]
+
+
+def with_ternary_term(L: float) -> str:
+    return it.EUTECTIC_FILE.replace('G.Bi = [ { upto = 6000, a = 9000.0, b = -9.0 } ]',
+                                    'G.Bi = [ { upto = 6000, a = 9000.0, b = -9.0 } ]\n'
+                                    f'L.Pb-Sn-Bi = [ {{ a = {L} }} ]')
+
+
+def test_a_ternary_term_moves_the_eutectic_as_the_chemical_potentials_say(tmp_path):
+    T_E, x_E = regular_eutectic(L_TRUE)
+    assert abs(T_E - eutectic_K()) > 5.0          # the term matters
+    checks = f'''
+[[check]]
+kind = "invariant"
+reaction = "eutectic"
+temperature_K = {T_E:.10f}
+phases = {{ liquid = {at_table(x_E)}, alpha = {{}}, beta = {{}}, gamma = {{}} }}
+tolerance_K = 0.01
+tolerance_at = 0.001
+source = "closed form of the invented ternary with a ternary term"
+'''
+    system = load_system(with_checks(tmp_path, with_ternary_term(L_TRUE), checks))
+    (outcome,) = evaluate_all(system, system.checks)
+    assert outcome.passed, outcome
+
+
+def test_ladle_fit_finds_a_ternary_term_from_the_eutectic(tmp_path):
+    from ladle.engine.fitting.fit import fit
+
+    T_E, x_E = regular_eutectic(L_TRUE)
+    measured = f'''
+[fit]
+free = ["liquid.L.Pb-Sn-Bi.0.a"]
+
+[[measured]]
+kind = "invariant"
+reaction = "eutectic"
+temperature_K = {T_E:.10f}
+phases = {{ liquid = {at_table(x_E)}, alpha = {{}}, beta = {{}}, gamma = {{}} }}
+uncertainty_K = 0.2
+uncertainty_at = 0.05
+source = "closed form of the invented ternary with a ternary term of -6000 J/mol"
+'''
+    system = load_system(with_checks(tmp_path, with_ternary_term(0.0), measured))
+    result = fit(system)
+    (param,) = result.parameters
+    assert result.acceptable, result.problems
+    assert abs(param.value - L_TRUE) < 30.0 and param.uncertainty is not None and param.uncertainty < 500.0
+    assert result.chi_square < 1e-2
