@@ -271,6 +271,18 @@ def test_a_scheil_path_that_leaves_the_model_keeps_the_melt_range(tmp_path, caps
     assert row["scheil_end_C"] == "" and float(row["liquidus_C"]) > float(row["solidus_C"]) > 800.0
 
 
+def test_a_binary_without_a_mapped_diagram_is_computed_heat_by_heat(tmp_path, capsys):
+    # fe-c has sublattice phases: no whole diagram, so no table; its heats go one by one (a bad
+    # row here keeps the test fast: nothing is computed)
+    path = tmp_path / "steel.csv"
+    path.write_text("heat,C wt%\nS1,x\n")
+    assert main(["batch", "fe-c", str(path)]) == 1
+    captured = capsys.readouterr()
+    assert captured.out.splitlines()[0] == ("heat,C wt%,liquidus_C,solidus_C,freezing_range_C,scheil_end_C,"
+                                             "eutectic_scheil_mass%_of_alloy,note")
+    assert "line 2: C wt% 'x' is not a number" in captured.err
+
+
 def test_outputs_that_are_not_regular_files_are_refused(tmp_path, capsys):
     (tmp_path / "h.csv").write_text(HEATS)
     with pytest.raises(SystemExit) as e:
