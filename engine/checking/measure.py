@@ -13,10 +13,13 @@ Used by `ladle check` (the `[[check]]` list, with tolerances) and at the end of 
 - boundary: the composition (at%) of `phase` on its stable tie-line to `partner` at the stated
   temperature, solved by Newton's method in the isothermal section;
 - mixing_enthalpy, formation_enthalpy: the enthalpy of mixing of a solution phase, or of
-  formation of a compound, at the stated temperature (engine/measure_enthalpy.py).
+  formation of a compound, at the stated temperature (engine/measure_enthalpy.py);
+- distribution_coefficient: the equilibrium distribution coefficient k0 of a dilute solute between
+  the solid `phase` and the liquid at the other element's melting point (the solute's mole fraction
+  in the solid over that in the liquid, on the model's tie-line 0.5 K from that melting point).
 
 Temperatures in K, compositions in at% of the system's second element (100 x mole fraction),
-enthalpies in J per mole of atoms.
+enthalpies in J per mole of atoms, distribution coefficients as plain ratios (unit "ratio").
 """
 
 from __future__ import annotations
@@ -60,12 +63,12 @@ class Comparison:
         and, where the fact gives a relative tolerance `factor` (dilute solubilities, at%), the
         model's dilute amount within the reference's divided or multiplied by the factor. The
         dilute amount is that of the minor element: the value itself below 50 at%, 100 minus it
-        above."""
+        above. A ratio (unit "ratio") is compared as it is."""
         d = self.difference
         if d is None:
             return False
         if self.factor is not None:
-            flip = self.reference > 50.0
+            flip = self.unit == "at%" and self.reference > 50.0
             ref, model = (100.0 - self.reference, 100.0 - self.model) if flip else (self.reference, self.model)
             if not ref / self.factor <= model <= ref * self.factor:
                 return False
@@ -108,6 +111,9 @@ def describe(fact: Fact, system) -> str:
         return f"enthalpy of mixing of {fact.phase} at {100 * fact.x_B:.4g} at% {system.elements[1]}, {fact.temperature_K:.2f} K"
     if fact.kind == "formation_enthalpy":
         return f"enthalpy of formation of {fact.phase} at {fact.temperature_K:.2f} K"
+    if fact.kind == "distribution_coefficient":
+        host = next(el for el in system.elements if el != fact.element)
+        return f"distribution coefficient of {fact.element} in {host} ({fact.phase} / liquid)"
     return f"{fact.phase} next to {fact.partner} at {fact.temperature_K:.2f} K"
 
 
@@ -218,6 +224,34 @@ def _tie_line(system, fact: Fact) -> FactOutcome:
     return FactOutcome(fact, (_composition(fact, None, quantity, 100 * fact.x_B, 100 * x),))
 
 
+#: Distance (K) from the host's melting point of the tie-line a distribution coefficient is read on:
+#: close enough for the dilute limit (the solute's amount is then of order 0.1-1 at%), far
+#: enough for the section to resolve the two-phase field.
+_DILUTE_K = 0.5
+
+
+def _distribution(system, fact: Fact) -> FactOutcome:
+    """k0 = x(solute in the solid) / x(solute in the liquid) on the liquid + solid tie-line next to
+    the pure host, just below or above the host's melting point (whichever side has it)."""
+    host = next(el for el in system.elements if el != fact.element)
+    host_x_B = 0.0 if host == system.elements[0] else 1.0
+    ref = Comparison("k", "ratio", fact.ratio, None, None, composition_factor(fact))
+    melting = system.melting_points.get(host)
+    if melting is None:
+        return FactOutcome(fact, (ref,), f"pure {host} does not melt in this model's range")
+    for T in (melting - _DILUTE_K, melting + _DILUTE_K):
+        tie = tie_line_between(system, T, fact.phase, "liquid", host_x_B)
+        if tie is None:
+            continue
+        solid, liquid = phase_end(tie, fact.phase, host_x_B), phase_end(tie, "liquid", host_x_B)
+        if max(abs(solid - host_x_B), abs(liquid - host_x_B)) > 0.1:
+            continue    # a tie-line of another part of the diagram, not the dilute end
+        k = abs(solid - host_x_B) / abs(liquid - host_x_B)
+        return FactOutcome(fact, (Comparison("k", "ratio", fact.ratio, float(k), None, ref.factor),))
+    return FactOutcome(fact, (ref,), f"the model has no {fact.phase} + liquid tie-line next to pure {host} "
+                                     f"within {_DILUTE_K:g} K of its melting point")
+
+
 def reaction_candidates(diagram, reaction: str) -> list[tuple[str, float, tuple[tuple[str, float], ...]]]:
     """(kind, T in K, ((phase, x_B), ...)) of every reaction of the mapped diagram that a fact of
     `reaction` may be compared with: the congruent points for "congruent", else the invariants."""
@@ -284,6 +318,8 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
             return _boundary_T(system, fact)
         if fact.kind == "boundary":
             return _tie_line(system, fact)
+        if fact.kind == "distribution_coefficient":
+            return _distribution(system, fact)
         if fact.kind in ("mixing_enthalpy", "formation_enthalpy"):
             return FactOutcome(fact, (Comparison("enthalpy", "J/mol", fact.enthalpy_J_per_mol, model_enthalpy(system, fact),
                                                  enthalpy_spread(fact)),))

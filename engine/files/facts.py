@@ -15,7 +15,8 @@ import numpy as np
 from ..units import kelvin_from, mole_from_mass
 from .plain_text import without_controls
 
-KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy")
+KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy",
+         "distribution_coefficient")
 REACTIONS = ("eutectic", "peritectic", "monotectic", "eutectoid", "peritectoid", "syntectic", "metatectic", "congruent")
 _COMMON = {"kind", "source", "note"}
 _KIND_KEYS = {
@@ -26,6 +27,7 @@ _KIND_KEYS = {
     "boundary": {"phase", "partner", "at_percent", "wt_percent", "temperature_C", "temperature_K"},
     "mixing_enthalpy": {"phase", "at_percent", "wt_percent", "temperature_C", "temperature_K", "enthalpy_J_per_mol"},
     "formation_enthalpy": {"phase", "temperature_C", "temperature_K", "enthalpy_J_per_mol"},
+    "distribution_coefficient": {"element", "phase", "k", "temperature_C", "temperature_K"},
 }
 _SPREAD_KEYS = {"check": ("tolerance_K", "tolerance_at", "tolerance_J"),
                 "measured": ("uncertainty_K", "uncertainty_at", "uncertainty_J")}
@@ -68,8 +70,11 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         if kind not in KINDS:
             raise fail(f"{key}.kind", f"expected one of {', '.join(KINDS)}, found {kind!r}")
         allowed = _COMMON | _KIND_KEYS[kind] | {k_key, at_key, j_key}
-        if list_name == "check" and kind in ("invariant", "boundary"):
+        if list_name == "check" and kind in ("invariant", "boundary", "distribution_coefficient"):
             allowed = allowed | {FACTOR_KEY}
+        if kind == "distribution_coefficient" and (list_name != "check" or len(system.elements) != 2):
+            raise fail(f"{key}.kind", "a distribution coefficient is an independent check ([[check]]) of a "
+                       "system of two elements only")
         for k in item:
             if k not in allowed:
                 raise fail(f"{key}.{k}", f"unknown key for a {kind} fact; expected one of {', '.join(sorted(allowed))}")
@@ -111,7 +116,7 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             _read_factor(item[FACTOR_KEY], f"{key}.{FACTOR_KEY}", spread, fail)
         fields["spread"] = spread
 
-        if kind == "melting":
+        if kind in ("melting", "distribution_coefficient"):
             el = item.get("element")
             if el not in system.elements:
                 raise fail(f"{key}.element", f"expected one of {', '.join(system.elements)}, found {el!r}")
@@ -148,6 +153,16 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             if not _num(h):
                 raise fail(f"{key}.enthalpy_J_per_mol", f"expected the measured enthalpy in J per mole of atoms, found {h!r}")
             fields["enthalpy_J_per_mol"] = float(h)
+        if kind == "distribution_coefficient":
+            ph = item.get("phase")
+            if ph not in system.phases or ph == "liquid" or not _is_model(system, ph, "solution"):
+                names = [n for n in system.phases if n != "liquid" and _is_model(system, n, "solution")]
+                raise fail(f"{key}.phase", f"expected the solid solution the element dissolves in "
+                           f"({', '.join(names) or 'none'}), found {ph!r}")
+            k = item.get("k")
+            if not _num(k) or k <= 0:
+                raise fail(f"{key}.k", f"expected the distribution coefficient, a positive number, found {k!r}")
+            fields["phase"], fields["ratio"] = ph, float(k)
         if kind == "invariant":
             reaction = item.get("reaction")
             if reaction not in REACTIONS:

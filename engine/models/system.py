@@ -20,6 +20,8 @@ class Fact:
     `temperature_K` and `x_B` (mole fraction of B) are None where the kind does not use them;
     `phase_x_B` holds (phase, x_B) pairs of an invariant, in the file's order (a phase may occur twice);
     `enthalpy_J_per_mol` is the measured enthalpy of the calorimetric kinds (J per mole of atoms);
+    `ratio` is the measured equilibrium distribution coefficient k (dimensionless) of the
+    distribution_coefficient kind, whose `element` is the dilute solute and `phase` the solid;
     `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K", "J"
     (J/mol) and "at" (at%), or per-phase at% under "at:<phase>".
     In a system of three or more elements `x` holds the fact's composition (mole fractions of
@@ -37,6 +39,7 @@ class Fact:
     partner: str | None = None
     phase_x_B: tuple[tuple[str, float], ...] = ()
     enthalpy_J_per_mol: float | None = None
+    ratio: float | None = None
     spread: dict[str, float] = field(default_factory=dict)
     index: int = 0
     x: tuple[float, ...] | None = None

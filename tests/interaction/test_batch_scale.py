@@ -75,6 +75,7 @@ def test_stdout_and_file_are_the_same_and_piped_output_has_no_progress_line(tmp_
     (["--workers", "-2"], "--workers: expected 1 or more worker processes, not -2"),
     (["--resume"], "--resume continues a run that writes a file"),
     (["--resume", "-o", "OUT"], "--resume: no interrupted run writing"),
+    (["--workers", "2", "--cluster", "tcp://127.0.0.1:1"], "--workers and --cluster exclude each other"),
 ])
 def test_bad_options_are_one_line_and_status_2(tmp_path, capsys, argv, message):
     heats = _heat_list(tmp_path / "heats.csv", 20)

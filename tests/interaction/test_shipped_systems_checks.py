@@ -12,7 +12,8 @@ Tolerances must be able to fail (checked below, the project's standard):
 - a solid's composition: 1.5 at% at most, and for a dilute end (below 10 at% of either element)
   an absolute tolerance smaller than the value, or a factor of at most 2;
 - a stoichiometric compound's composition is exact (0.1 at%), or it is not a check;
-- an enthalpy of mixing: smaller than the value itself (the sign is tested) and at most 1 kJ/mol.
+- an enthalpy of mixing: smaller than the value itself (the sign is tested) and at most 1 kJ/mol;
+- a distribution coefficient: within a factor of 2 at most.
 Every independent check states the reason of its tolerance in its `note`. Systems with fewer than
 four independent checks, and shipped fits not yet refitted to the fit rules (at least two degrees
 of freedom, every coefficient determined), are listed below with the reason.
@@ -40,6 +41,10 @@ KNOWN_FAILURES = {
     ("ag-cu", 4): "ASM's coin-silver liquidus (890 C) lies only 3 K below its sterling liquidus (893 C, a fit target), "
                   "where the liquidus falls about 7 K per wt% Cu; the model puts coin silver 16 K lower",
     ("al-mg", 3): "the 520.0 casting alloy's datasheet liquidus (600 C) lies 10 K below the model at 10 wt% Mg",
+    ("al-si", 6): "the model's (Si) takes up Al four times as readily as Trumbore's k0 says: its interaction "
+                  "was fitted to the eutectic's (Si) composition alone",
+    ("au-si", 2): "the (Si) solubility of Au is set by hand (fcc Au + 30 kJ/mol, L 30 kJ/mol), not measured: k0 comes "
+                  "out 80 times Trumbore's 2.5e-5",
     ("au-sn", 2): "zeta's gold-rich limit at 275 C comes out near 6.8 at% Sn, not 11.1: beta (Au10Sn) is not modelled "
                   "and the lumped zeta reaches toward (Au) in its place",
     ("cu-ni", 3): "C70600 datasheet solidus (a commercial alloy with Fe and Mn, typically a non-equilibrium value) "
@@ -62,7 +67,7 @@ KNOWN_FAILURES = {
 #: checks means updating the entry, and reaching four means removing it).
 SHORT_OF_CHECKS = {
     "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check"),
-    "au-si": (0, "no liquidus, solubility or calorimetric value from a source at hand; the eutectic is the fit target"),
+    "au-si": (1, "no liquidus or calorimetric value from a source at hand; the eutectic is the fit target"),
     "au-sn": (2, "the zeta peritectic, the eutectic and AuSn's melting and calorimetry are needed to fit the model; "
                  "no liquidus, solvus or calorimetry of the liquid from a source at hand"),
     "bi-cd": (0, "the evaluation's summary gives the eutectic (fitted) and solubilities only as upper limits"),
@@ -70,7 +75,8 @@ SHORT_OF_CHECKS = {
                 "solubilities of both diagrams) are in tests/unit/test_fe_c.py, because ladle check evaluates "
                 "invariants on a mapped diagram, which systems with sublattice phases do not have yet"),
     "fe-fe3c": (0, "the variant of fe-c without graphite: its checks are in tests/unit/test_fe_c.py (see fe-c)"),
-    "ge-si": (0, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not at hand"),
+    "ge-si": (2, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not "
+                 "at hand (the two distribution coefficients check the ends)"),
     "pb-sb": (2, "no liquidus temperatures from a source at hand"),
     "sn-ag": (1, "the commercial liquidus temperatures at hand are fit targets"),
     "sn-bi": (1, "no further liquidus, solvus or calorimetric value from a source at hand"),
@@ -169,6 +175,8 @@ def test_tolerances_can_fail(name):
         if fact.kind == "boundary":
             why = _composition_tolerance_can_fail(system, fact, None, 100 * fact.x_B)
             assert why is None, f"{where}: {why}"
+        if fact.kind == "distribution_coefficient":
+            assert 1.0 < fact.spread.get("factor", float("inf")) <= MAX_FACTOR, where
         if fact.kind == "mixing_enthalpy":
             tol = fact.spread.get("J", 0.0)
             assert tol < abs(fact.enthalpy_J_per_mol) and tol <= MAX_J, where

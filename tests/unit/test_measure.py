@@ -112,3 +112,39 @@ def test_invariant_outside_the_mapped_window(tmp_path):
     system = load_system(write(tmp_path, eutectic_text(extra=extra)))
     out = evaluate(system, system.checks[0])
     assert out.problem == "450.00 K lies outside the window the diagram is mapped over (500.0-1400.0 K; see temperature_range_K)"
+
+
+def _ideal_distribution_coefficient(solute_fusion_J: float, solute_melting_K: float, host_melting_K: float) -> float:
+    """k0 of a dilute solute between ideal solid and ideal liquid solutions at the host's melting
+    point: x_solid / x_liquid = exp((G_liquid - G_solid of the solute) / RT) with G_liquid - G_solid =
+    dH_f (1 - T / T_m) (D.R. Gaskell, Introduction to the Thermodynamics of Materials, 5th ed. (2008),
+    the ideal lens: k_i = exp(-dG_i / RT) there is the inverse ratio)."""
+    T = host_melting_K
+    return math.exp(solute_fusion_J * (1.0 - T / solute_melting_K) / (R * T))
+
+
+def test_distribution_coefficient_against_the_ideal_lens(tmp_path):
+    k_B_in_A = _ideal_distribution_coefficient(FUSION_B, MELT_B_K, MELT_A_K)     # about 1.2: B raises A's melting point
+    k_A_in_B = _ideal_distribution_coefficient(FUSION_A, MELT_A_K, MELT_B_K)     # about 0.82
+    extra = (_check("distribution_coefficient", f'element = "B"\nphase = "fcc"\nk = {k_B_in_A!r}\n'
+                                                f"temperature_K = {MELT_A_K}\ntolerance_factor = 1.01")
+             + _check("distribution_coefficient", f'element = "A"\nphase = "fcc"\nk = {k_A_in_B!r}\n'
+                                                  f"temperature_K = {MELT_B_K}\ntolerance_factor = 1.01")
+             + _check("distribution_coefficient", f'element = "A"\nphase = "fcc"\nk = {1.05 * k_A_in_B!r}\n'
+                                                  f"temperature_K = {MELT_B_K}\ntolerance_factor = 1.01"))
+    system = load_system(write(tmp_path, ideal_text(extra)))
+    b_in_a, a_in_b, off = evaluate_all(system, system.checks)
+    # the tie-line lies 0.5 K from the melting point, where the solute is about 0.1 at%: the dilute
+    # limit holds to a few parts in a thousand there
+    assert b_in_a.passed and b_in_a.comparisons[0].model == pytest.approx(k_B_in_A, rel=5e-3)
+    assert a_in_b.passed and a_in_b.comparisons[0].model == pytest.approx(k_A_in_B, rel=5e-3)
+    assert not off.passed and off.problem is None
+
+
+def test_distribution_coefficient_is_a_check_only(tmp_path):
+    from ladle.engine.errors import SystemFileError
+
+    fact = ('\n[[measured]]\nkind = "distribution_coefficient"\nsource = "invented for the test"\n'
+            'element = "B"\nphase = "fcc"\nk = 1.2\ntemperature_K = 1000\n')
+    with pytest.raises(SystemFileError, match="distribution coefficient is an independent check"):
+        load_system(write(tmp_path, ideal_text(fact)))

@@ -12,12 +12,17 @@ def _value(value: float | None, unit: str) -> str:
         return quote.temperature(value, "C", 2)
     if unit == "J/mol":
         return f"{value:.0f} J/mol"
+    if unit == "ratio":
+        return f"{value:.3g}"
     return f"{value:.2f} at%"
 
 
-def _signed(value: float | None, unit: str) -> str:
+def _signed(value: float | None, unit: str, reference: float | None = None) -> str:
+    """The difference model - reference; for a ratio, the model's value as a multiple of the reference."""
     if value is None:
         return "-"
+    if unit == "ratio" and reference:
+        return f"x{(value + reference) / reference:.3g}"
     text = f"{value:+.0f} {unit}" if unit == "J/mol" else f"{value:+.2f} {unit}"
     return text[1:] if float(text.split()[0]) == 0.0 else text   # never "-0.00"
 
@@ -40,7 +45,7 @@ def comparison_rows(outcome, spread_name: str, weighted: bool) -> list[str]:
         else:
             mark = "ok" if c.within else ("no" if c.model is not None else "")
         rows.append((c.quantity, _value(c.model, c.unit), _value(c.reference, c.unit),
-                     _signed(c.difference, c.unit), _spread(c.spread, c.unit, c.factor), mark))
+                     _signed(c.difference, c.unit, c.reference), _spread(c.spread, c.unit, c.factor), mark))
     widths = [max(len(r[i]) for r in rows) for i in range(6)]
     return ["  ".join(f"{cell:<{w}}" if i == 0 else f"{cell:>{w}}" for i, (cell, w) in enumerate(zip(r, widths))).rstrip()
             for r in rows]
