@@ -2,7 +2,8 @@
 that take --comp, and one line with exit status 2 for an unknown name or a bad list.
 
 The designations and compositions in these files are test data: the two tin-lead ones follow the
-composition-designation style of ISO 9453 (recalled from memory); 'Test-Alloy-1' is invented."""
+naming rule of IPC J-STD-006C (2013), 1.2.1 (chemical symbols with nominal mass percentages);
+'Test-Alloy-1' is invented."""
 
 from __future__ import annotations
 
@@ -23,7 +24,7 @@ ALLOYS = '''
 [[alloy]]
 name = "Sn63Pb37"
 wt_percent = { Sn = 63.0 }
-source = "ISO 9453 designation style (recalled from memory): test data"
+source = "IPC J-STD-006C naming rule: test data"
 
 [[alloy]]
 name = "Test-Alloy-1"

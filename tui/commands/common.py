@@ -39,7 +39,7 @@ def add_composition_argument(p: argparse.ArgumentParser, required: bool = True) 
                             "the balance, e.g. Ag=3wt%%,Cu=0.5wt%% (or repeat --comp)")
     group.add_argument("--alloy", dest="comp", action=_StoreAlloyName, metavar="NAME",
                        help="a common alloy by its designation, as the system file lists them ([[alloy]]; "
-                            "an unknown name lists them), e.g. Sn96.5Ag3Cu0.5")
+                            "an unknown name lists them), e.g. Sn96.5Ag3.0Cu0.5")
 
 
 def composition_specs(system, specs: str | list[str]) -> str | list[str]:

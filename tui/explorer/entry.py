@@ -1,6 +1,6 @@
 """Reading a typed point: "650C 12wt%", "923K 20at%", "Sn=12wt%", "1200F", and for three or
 more elements "Ag=3wt% Cu=0.5wt% 250C" (every element but the balance named), or an alloy by the
-name its system file lists, "Sn96.5Ag3Cu0.5 250C".
+name its system file lists, "Sn96.5Ag3.0Cu0.5 250C".
 
 The words are read by the same parser as the line-mode commands (`ladle.tui.parsing`): a
 temperature is a number with an optional unit C, K or F (no unit: degrees Celsius), a
