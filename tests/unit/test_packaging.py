@@ -17,8 +17,8 @@ LAYERS = {
     "minimize": {"models"},
     "diagrams": {"models", "minimize"},
     "solidify": {"models", "minimize", "diagrams"},
-    "checking": {"models", "files", "minimize", "diagrams"},
-    "fitting": {"models", "files", "minimize", "diagrams", "checking"},
+    "checking": {"models", "files", "minimize", "diagrams", "solidify"},
+    "fitting": {"models", "files", "minimize", "diagrams", "solidify", "checking"},
 }
 
 
