@@ -113,7 +113,7 @@ def _prepare(models: dict[str, object], active: np.ndarray) -> list[_Phase]:
             Y, X, G = Y[keep], X[keep], G[keep]
         if len(G) == 0:
             continue
-        out.append(_Phase(name, m, np.flatnonzero(ok_var), Y, np.ascontiguousarray(X[:, active]), G))
+        out.append(_Phase(name, m, np.flatnonzero(ok_var), Y, X if not inactive.any() else X[:, active], G))
     return out
 
 
