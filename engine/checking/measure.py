@@ -51,6 +51,7 @@ class Comparison:
     model: float | None
     spread: float | None
     factor: float | None = None
+    at_most: bool = False
 
     @property
     def difference(self) -> float | None:
@@ -63,10 +64,14 @@ class Comparison:
         and, where the fact gives a relative tolerance `factor` (dilute solubilities, at%), the
         model's dilute amount within the reference's divided or multiplied by the factor. The
         dilute amount is that of the minor element: the value itself below 50 at%, 100 minus it
-        above. A ratio (unit "ratio") is compared as it is."""
+        above. A ratio (unit "ratio") is compared as it is. An upper limit (`at_most`) holds where
+        the model's dilute amount does not exceed the reference's."""
         d = self.difference
         if d is None:
             return False
+        if self.at_most:
+            flip = self.reference > 50.0
+            return (100.0 - self.model <= 100.0 - self.reference) if flip else self.model <= self.reference
         if self.factor is not None:
             flip = self.unit == "at%" and self.reference > 50.0
             ref, model = (100.0 - self.reference, 100.0 - self.model) if flip else (self.reference, self.model)
@@ -180,7 +185,8 @@ def composition_factor(fact: Fact, phase: str | None = None) -> float | None:
 
 
 def _composition(fact: Fact, phase: str | None, quantity: str, reference: float, model: float | None) -> Comparison:
-    return Comparison(quantity, "at%", reference, model, composition_spread(fact, phase), composition_factor(fact, phase))
+    return Comparison(quantity, "at%", reference, model, composition_spread(fact, phase), composition_factor(fact, phase),
+                      "at_most" in fact.spread)
 
 
 def enthalpy_spread(fact: Fact) -> float | None:

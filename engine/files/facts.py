@@ -34,6 +34,9 @@ _SPREAD_KEYS = {"check": ("tolerance_K", "tolerance_at", "tolerance_J"),
 #: A relative tolerance on compositions (dilute solubilities): the model within a factor of the
 #: reference value (checks only).
 FACTOR_KEY = "tolerance_factor"
+#: An upper limit (boundary checks only): the reference is a bound that the model's amount of the
+#: minor element may not exceed, as where a source gives a solubility as "below 0.03 at%".
+AT_MOST_KEY = "at_most"
 
 
 def _num(v: Any) -> bool:
@@ -72,6 +75,8 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         allowed = _COMMON | _KIND_KEYS[kind] | {k_key, at_key, j_key}
         if list_name == "check" and kind in ("invariant", "boundary", "distribution_coefficient"):
             allowed = allowed | {FACTOR_KEY}
+        if list_name == "check" and kind == "boundary":
+            allowed = allowed | {AT_MOST_KEY}
         if kind == "distribution_coefficient" and (list_name != "check" or len(system.elements) != 2):
             raise fail(f"{key}.kind", "a distribution coefficient is an independent check ([[check]]) of a "
                        "system of two elements only")
@@ -114,6 +119,11 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
                 raise fail(f"{key}.{at_key}", "expected a positive number of at% (or a table per phase)")
         if FACTOR_KEY in item:
             _read_factor(item[FACTOR_KEY], f"{key}.{FACTOR_KEY}", spread, fail)
+        if AT_MOST_KEY in item:
+            if item[AT_MOST_KEY] is not True or at_key in item or FACTOR_KEY in item:
+                raise fail(f"{key}.{AT_MOST_KEY}", "expected true (the composition is an upper limit of the minor "
+                           f"element's amount), and no {at_key} or {FACTOR_KEY} beside it")
+            spread[AT_MOST_KEY] = 1.0
         fields["spread"] = spread
 
         if kind in ("melting", "distribution_coefficient"):

@@ -23,7 +23,8 @@ class Fact:
     `ratio` is the measured equilibrium distribution coefficient k (dimensionless) of the
     distribution_coefficient kind, whose `element` is the dilute solute and `phase` the solid;
     `spread` is the tolerance (checks) or standard uncertainty (measurements): keys "K", "J"
-    (J/mol) and "at" (at%), or per-phase at% under "at:<phase>".
+    (J/mol) and "at" (at%), or per-phase at% under "at:<phase>"; "factor" (or "factor:<phase>") a
+    relative composition tolerance, and "at_most" (1.0) where the composition is an upper limit.
     In a system of three or more elements `x` holds the fact's composition (mole fractions of
     every element) instead of `x_B`, and `phase_x` an invariant's phases with their mole
     fractions (None where the fact gives none) instead of `phase_x_B`.

@@ -12,6 +12,7 @@ Tolerances must be able to fail (checked below, the project's standard):
 - a solid's composition: 1.5 at% at most, and for a dilute end (below 10 at% of either element)
   an absolute tolerance smaller than the value, or a factor of at most 2;
 - a stoichiometric compound's composition is exact (0.1 at%), or it is not a check;
+- a solubility the source gives only as a bound ("below 0.03 at%") is an upper limit (at_most);
 - an enthalpy of mixing: smaller than the value itself (the sign is tested) and at most 1 kJ/mol;
 - a distribution coefficient: within a factor of 2 at most.
 Every independent check states the reason of its tolerance in its `note`. Systems with fewer than
@@ -45,6 +46,10 @@ KNOWN_FAILURES = {
                   "was fitted to the eutectic's (Si) composition alone",
     ("au-si", 2): "the (Si) solubility of Au is set by hand (fcc Au + 30 kJ/mol, L 30 kJ/mol), not measured: k0 comes "
                   "out 80 times Trumbore's 2.5e-5",
+    ("au-si", 3): "the model's (Au) holds 0.22 at% Si at 360 C, above the evaluation's bound of 0.1 at%: its fcc "
+                  "interaction is set by hand",
+    ("bi-cd", 2): "the model's (Cd) holds 0.07 at% Bi at 140 C, above the bound of 0.03 at%: its hcp interaction is "
+                  "set by hand",
     ("au-sn", 2): "zeta's gold-rich limit at 275 C comes out near 6.8 at% Sn, not 11.1: beta (Au10Sn) is not modelled "
                   "and the lumped zeta reaches toward (Au) in its place",
     ("cu-ni", 3): "C70600 datasheet solidus (a commercial alloy with Fe and Mn, typically a non-equilibrium value) "
@@ -67,10 +72,11 @@ KNOWN_FAILURES = {
 #: checks means updating the entry, and reaching four means removing it).
 SHORT_OF_CHECKS = {
     "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check"),
-    "au-si": (1, "no liquidus or calorimetric value from a source at hand; the eutectic is the fit target"),
+    "au-si": (2, "no liquidus or calorimetric value from a source at hand; the eutectic is the fit target"),
     "au-sn": (2, "the zeta peritectic, the eutectic and AuSn's melting and calorimetry are needed to fit the model; "
                  "no liquidus, solvus or calorimetry of the liquid from a source at hand"),
-    "bi-cd": (0, "the evaluation's summary gives the eutectic (fitted) and solubilities only as upper limits"),
+    "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
+                 "(one of them checked); no liquidus or calorimetric value from a source at hand"),
     "fe-c": (0, "a published assessment used unchanged; its independent checks (pure iron, the invariants and "
                 "solubilities of both diagrams) are in tests/unit/test_fe_c.py, because ladle check evaluates "
                 "invariants on a mapped diagram, which systems with sublattice phases do not have yet"),
@@ -144,6 +150,8 @@ def test_shipped_check_passes(name, index, capsys):
 def _composition_tolerance_can_fail(system, fact, phase: str | None, reference_at: float) -> str | None:
     """Why the composition tolerance of `phase` (None: the fact's own) could not fail, or None."""
     spread = fact.spread
+    if "at_most" in spread:
+        return None     # an upper limit fails wherever the model exceeds it
     absolute = spread.get(f"at:{phase}", spread.get("at"))
     factor = spread.get(f"factor:{phase}", spread.get("factor"))
     if phase is not None and system.phases[phase].kind == "compound":

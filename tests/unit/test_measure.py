@@ -148,3 +148,27 @@ def test_distribution_coefficient_is_a_check_only(tmp_path):
             'element = "B"\nphase = "fcc"\nk = 1.2\ntemperature_K = 1000\n')
     with pytest.raises(SystemFileError, match="distribution coefficient is an independent check"):
         load_system(write(tmp_path, ideal_text(fact)))
+
+
+def test_an_upper_limit_passes_at_or_below_it_and_fails_above(eutectic_case):
+    folder, inv = eutectic_case
+    T = inv.temperature_K - 50.0
+    probe = _check("boundary", f'phase = "fcc"\npartner = "bcc"\ntemperature_K = {T!r}\nat_percent = 10\ntolerance_at = 5')
+    probed = load_system(write(folder, eutectic_text(extra=probe), "c.toml"))
+    model = evaluate(probed, probed.checks[0]).comparisons[0].model
+    limits = "".join(_check("boundary", f'phase = "fcc"\npartner = "bcc"\ntemperature_K = {T!r}\n'
+                                        f"at_percent = {bound!r}\nat_most = true")
+                     for bound in (1.01 * model, 0.99 * model))
+    system = load_system(write(folder, eutectic_text(extra=limits), "d.toml"))
+    above, below = evaluate_all(system, system.checks)
+    assert above.passed and not below.passed and below.problem is None
+
+
+def test_an_upper_limit_takes_no_other_tolerance(eutectic_case):
+    from ladle.engine.errors import SystemFileError
+
+    folder, _inv = eutectic_case
+    bad = _check("boundary", 'phase = "fcc"\npartner = "bcc"\ntemperature_K = 800\nat_percent = 1\nat_most = true\n'
+                             "tolerance_factor = 2")
+    with pytest.raises(SystemFileError, match="at_most: expected true"):
+        load_system(write(folder, eutectic_text(extra=bad), "e.toml"))

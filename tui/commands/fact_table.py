@@ -27,7 +27,9 @@ def _signed(value: float | None, unit: str, reference: float | None = None) -> s
     return text[1:] if float(text.split()[0]) == 0.0 else text   # never "-0.00"
 
 
-def _spread(value: float | None, unit: str, factor: float | None = None) -> str:
+def _spread(value: float | None, unit: str, factor: float | None = None, at_most: bool = False) -> str:
+    if at_most:
+        return "at most"
     relative = f"x{factor:g}" if factor is not None else ""
     if value is None:
         return relative or "none given"
@@ -45,7 +47,7 @@ def comparison_rows(outcome, spread_name: str, weighted: bool) -> list[str]:
         else:
             mark = "ok" if c.within else ("no" if c.model is not None else "")
         rows.append((c.quantity, _value(c.model, c.unit), _value(c.reference, c.unit),
-                     _signed(c.difference, c.unit, c.reference), _spread(c.spread, c.unit, c.factor), mark))
+                     _signed(c.difference, c.unit, c.reference), _spread(c.spread, c.unit, c.factor, c.at_most), mark))
     widths = [max(len(r[i]) for r in rows) for i in range(6)]
     return ["  ".join(f"{cell:<{w}}" if i == 0 else f"{cell:>{w}}" for i, (cell, w) in enumerate(zip(r, widths))).rstrip()
             for r in rows]
@@ -76,7 +78,8 @@ def fact_blocks(system, outcomes, list_name: str, spread_name: str, weighted: bo
 
 
 UNITS_NOTE = ("Temperatures in C; differences, tolerances and uncertainties in K (1 K = 1 C of difference), "
-              "at% or J per mole of atoms.")
+              "at% or J per mole of atoms; a distribution coefficient's difference is the model's value "
+              "as a multiple of the reference.")
 
 
 def outcome_json(system, outcome, spread_name: str, list_name: str | None = None) -> dict:
@@ -101,6 +104,7 @@ def outcome_json(system, outcome, spread_name: str, list_name: str | None = None
         "problem": outcome.problem, "model_reaction": outcome.model_reaction, "source": f.source,
         "comparisons": [{"quantity": c.quantity, "unit": c.unit, "model": c.model, "reference": c.reference,
                          "difference": c.difference, spread_name: c.spread,
-                         **({"tolerance_factor": c.factor} if c.factor is not None else {}), **judged(c)}
+                         **({"tolerance_factor": c.factor} if c.factor is not None else {}),
+                         **({"at_most": True} if c.at_most else {}), **judged(c)}
                         for c in outcome.comparisons],
     }
