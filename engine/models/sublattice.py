@@ -401,14 +401,16 @@ class SublatticePhase:
 
 
 def _axis_levels(n_log: int, n_mid: int) -> np.ndarray:
-    """Values in [0, 1]: 0, log-spaced from SAMPLE_SMALLEST to 0.05, even to 0.95, mirrored to 1."""
+    """Values in [0, 1]: n_mid + 1 evenly spaced, and n_log log-spaced from SAMPLE_SMALLEST to 0.05
+    near both ends."""
     low = np.logspace(math.log10(SAMPLE_SMALLEST), math.log10(0.05), n_log) if n_log else np.zeros(0)
-    mid = np.linspace(0.05, 0.95, n_mid) if n_mid > 1 else np.array([0.5])
+    mid = np.linspace(0.0, 1.0, n_mid + 1) if n_mid > 1 else np.array([0.5])
     return np.unique(np.concatenate([[0.0, 1.0], low, mid, 1.0 - low]))
 
 
 #: Level sets tried, finest first, until a simplex's points fit its budget.
-_LEVEL_CHOICES = ((12, 60), (10, 40), (8, 30), (7, 20), (6, 14), (5, 10), (4, 7), (3, 5), (2, 3), (1, 1), (0, 1))
+_LEVEL_CHOICES = ((40, 300), (24, 120), (12, 60), (10, 40), (8, 30), (7, 20), (6, 14), (5, 10), (4, 7), (3, 5), (2, 3),
+                  (1, 1), (0, 1))
 
 
 def _simplex_points(n: int, budget: float) -> np.ndarray:
