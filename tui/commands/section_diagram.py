@@ -1,6 +1,7 @@
 """`ladle diagram` for systems of three or more elements: the isopleth through an alloy
 (--comp SPEC --vary El=A..B) and, for a ternary, the isothermal section on the composition
-triangle (--temp T); plotted in the terminal with every field labelled, or --json."""
+triangle (--temp T) or, without options, the liquidus projection (valleys and four-phase
+invariant reactions); plotted in the terminal with every field labelled, or --json."""
 
 from __future__ import annotations
 
@@ -33,9 +34,11 @@ def run_section(system, args: argparse.Namespace) -> int:
         raise CommandError("give either --comp with --vary (an isopleth) or --temp (an isothermal section), not both")
     if args.temp:
         return _isothermal(system, args)
+    if not (args.comp or args.vary) and len(system.elements) == 3:
+        return _projection(system, args)
     if not (args.comp or args.vary):
         raise CommandError(f"{system.name} has {len(system.elements)} elements: give --comp SPEC --vary EL=A..B for an "
-                           f"isopleth{' or --temp T for an isothermal section' if len(system.elements) == 3 else ''}")
+                           f"isopleth")
     if not (args.comp and args.vary):
         raise CommandError("an isopleth needs both --comp SPEC and --vary EL=A..B, e.g. --comp Ag=3wt% --vary Cu=0..2wt%")
     return _isopleth(system, args)
@@ -76,6 +79,24 @@ def _isopleth(system, args: argparse.Namespace) -> int:
     return 0
 
 
+def _plot(title: str, ascii_only: bool, scene_for) -> list[str]:
+    """Print the picture of a section under `title`: `scene_for(glyphs, width, height)` gives its
+    scene for the terminal's size. Returns the scene's key of numbered fields."""
+    from ..explorer.glyphs import glyphs_for
+    from ..explorer.section_drawing import draw_section
+
+    glyphs = glyphs_for(ascii_only)
+    key: list[str] = []
+
+    def draw(plt, width: int, height: int) -> None:
+        scene = scene_for(glyphs, width, height)
+        key.extend(scene.key)
+        draw_section(plt, scene, glyphs)
+
+    print(terminal_plot(title, glyphs, 24, draw))
+    return key
+
+
 def _isothermal(system, args: argparse.Namespace) -> int:
     from ladle.engine.diagrams.isothermal import map_isothermal
 
@@ -87,20 +108,39 @@ def _isothermal(system, args: argparse.Namespace) -> int:
     if args.json:
         print_json(section.to_json())
         return 0
-    from ..explorer.glyphs import glyphs_for
-    from ..explorer.section_drawing import draw_section, triangle_scene
-
-    glyphs = glyphs_for(args.ascii)
-    key: list[str] = []
-
-    def draw(plt, width: int, height: int) -> None:
-        scene = triangle_scene(section, glyphs, width, height)
-        key.extend(scene.key)
-        draw_section(plt, scene, glyphs)
+    from ..explorer.section_drawing import triangle_scene
 
     title = f"{system_title(system)} at {quote.temperature(t.kelvin, t.unit)}"
-    print(terminal_plot(title, glyphs, 24, draw))
+    key = _plot(title, args.ascii, lambda glyphs, width, height: triangle_scene(section, glyphs, width, height))
     lines = [f"fields: {'; '.join(key)}"] if key else []
     lines += [f"note: {w}" for w in section.warnings]
+    print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
+    return 0
+
+
+def _projection(system, args: argparse.Namespace) -> int:
+    """A ternary's liquidus projection: the valleys and invariant points drawn on the triangle
+    with the primary fields labelled, the four-phase reactions listed (hottest first); or --json."""
+    from ladle.engine.diagrams.liquidus_projection import map_liquidus_projection
+
+    try:
+        projection = map_liquidus_projection(system)
+    except ValueError as e:
+        raise CommandError(f"{system.name}: {e}") from None
+    if args.json:
+        print_json(projection.to_json())
+        return 0
+    from ..explorer.section_drawing import projection_scene
+
+    key = _plot(f"{system_title(system)}: liquidus projection", args.ascii,
+                lambda glyphs, width, height: projection_scene(projection, glyphs, width, height))
+    lines = [f"primary fields: {'; '.join(key)}"] if key else []
+    lines.append("invariant reactions (liquid composition at%):" if projection.invariants
+                 else "invariant reactions of four phases: none found")
+    for k, r in enumerate(projection.invariants):
+        liquid = ", ".join(f"{el} {quote.percent(v)}" for el, v in zip(system.elements, r.phases[0][1]))
+        lines.append(f"  {k + 1}  {r.kind:<16} {quote.temperature(r.temperature_K, args.unit):>12}  {r.equation()}"
+                     f"  (liquid {liquid})")
+    lines += [f"note: {w}" for w in projection.warnings]
     print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
     return 0

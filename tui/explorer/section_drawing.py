@@ -1,10 +1,11 @@
 """Pictures of sections of systems of three or more elements: the isopleth (temperature against
 one element's content) and the ternary isothermal section on a composition triangle.
 
-Plot calls only (plotext's figure API) and the plain-numpy scenes they draw; the numbers come
-from the engine's mapped sections (ladle.engine.diagrams.isopleth, isothermal). Every field is
-labelled: by its phases where the text fits, else by a number that the key under the picture
-explains.
+The ternary liquidus projection (valleys and invariant points on the triangle) is drawn the same
+way. Plot calls only (plotext's figure API) and the plain-numpy scenes they draw; the numbers come
+from the engine's mapped sections (ladle.engine.diagrams.isopleth, isothermal,
+liquidus_projection). Every field is labelled: by its phases where the text fits, else by a
+number that the key under the picture explains.
 """
 
 from __future__ import annotations
@@ -95,12 +96,25 @@ def triangle_point(x: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return x[..., 1] + 0.5 * x[..., 2], _SQRT3_2 * x[..., 2]
 
 
+def _triangle_frame(elements, width: int, height: int) -> tuple[Frame, tuple[list[float], list[float]], list[Label]]:
+    """The composition triangle's frame for this size, its sides as one series and the labels
+    of its corners (the elements)."""
+    columns, rows = plot_area(width, height)
+    frame = Frame(-0.05, 1.05, -0.05, _SQRT3_2 + 0.05, columns, rows)
+    sides = joined([triangle_point(np.array([[1.0, 0, 0], [0, 1.0, 0], [0, 0, 1.0], [1.0, 0, 0]]))])
+    corners = [Label(elements[0], 0.0, -0.04), Label(elements[1], 1.0, -0.04), Label(elements[2], 0.5, _SQRT3_2 + 0.03)]
+    return frame, sides, corners
+
+
+def _triangle_title(elements) -> str:
+    return f"mole fractions ({elements[1]} to the right, {elements[2]} up)"
+
+
 def triangle_scene(section, glyphs: Glyphs, width: int, height: int) -> SectionScene:
     """The ternary isothermal section on its triangle: the triangle's sides, the single-phase
     fields' edges, tie-lines, three-phase triangles and every field labelled."""
-    columns, rows = plot_area(width, height)
-    frame = Frame(-0.05, 1.05, -0.05, _SQRT3_2 + 0.05, columns, rows)
-    sides = [triangle_point(np.array([[1.0, 0, 0], [0, 1.0, 0], [0, 0, 1.0], [1.0, 0, 0]]))]
+    els = section.system.elements
+    frame, sides, corners = _triangle_frame(els, width, height)
     ties = [triangle_point(np.array(t.ends)) for f in section.fields for t in f.tie_lines]
     triangles = [triangle_point(np.array(list(t) + [t[0]])) for f in section.fields for t in f.triangles]
     wanted = []
@@ -108,10 +122,23 @@ def triangle_scene(section, glyphs: Glyphs, width: int, height: int) -> SectionS
         x, y = triangle_point(np.array(f.middle))
         wanted.append((field_name(f.phases), float(x), float(y)))
     labels, key = labelled_fields(wanted, frame)
-    els = section.system.elements
-    corner = [Label(els[0], 0.0, -0.04), Label(els[1], 1.0, -0.04), Label(els[2], 0.5, _SQRT3_2 + 0.03)]
-    return SectionScene(frame, joined(sides), joined(triangles), joined(ties), corner + labels, key,
-                        f"mole fractions ({els[1]} to the right, {els[2]} up)", None)
+    return SectionScene(frame, sides, joined(triangles), joined(ties), corners + labels, key, _triangle_title(els), None)
+
+
+def projection_scene(projection, glyphs: Glyphs, width: int, height: int) -> SectionScene:
+    """A ternary's liquidus projection on its triangle: the valleys (the liquid along liquid +
+    two solids) as boundaries, each invariant point marked by its number (1 hottest), and each
+    primary-phase field labelled by its solid."""
+    els = projection.system.elements
+    frame, sides, corners = _triangle_frame(els, width, height)
+    valleys = [thin_polyline(*triangle_point(np.array([x for _T, x in v.points])), frame) for v in projection.valleys]
+    wanted = [(f.phase, *(float(v) for v in triangle_point(np.array(f.middle)))) for f in projection.fields]
+    labels, key = labelled_fields(wanted, frame)
+    points = [triangle_point(np.array(r.phases[0][1])) for r in projection.invariants]
+    numbers = [Label(str(k + 1), float(x), float(y) + 0.04) for k, (x, y) in enumerate(points)]
+    shown = place_labels(corners + labels + numbers, frame)
+    dots = [(np.array([x]), np.array([y])) for x, y in points]
+    return SectionScene(frame, joined([sides, *valleys]), joined(dots), ([], []), shown, key, _triangle_title(els), None)
 
 
 def draw_section(plt, scene: SectionScene, glyphs: Glyphs) -> None:
