@@ -119,3 +119,18 @@ async def test_choosing_another_system_keeps_the_units_and_redraws():
         assert exploration.system.name == "cu-ni"
         assert exploration.scales.temperature_unit == "K"
         assert "cu-ni" in screen_text(app) and "Ni " in status_text(app)
+
+
+@pytest.mark.parametrize("system, T_K, x_B, zooms", [
+    ("al-cu", 999.0, 0.3, 0),       # the only tie-line (liquid + theta) lies beyond the covered range
+    ("pb-sn", 423.15, 0.02, 4),     # zoomed in on the lead-rich solid, far from fcc + bct's tangent
+])
+@pilot_test
+async def test_energy_view_draws_where_no_tangent_reaches_the_window(system, T_K, x_B, zooms):
+    app = make_app(system, T_K=T_K, x_B=x_B)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("2", *["plus"] * zooms)
+        await pilot.pause()
+        screen = screen_text(app)
+        assert app.is_running and "lowest G (equilibrium)" in screen
+        assert "common tangent" not in screen     # its legend only where it is drawn

@@ -48,3 +48,10 @@ def test_ascii_frames_are_found_too():
     assert (area.top, area.left, area.rows, area.columns) == (1, 3, 2, 5)
     drawn = with_crosshair(Text("+---+\n|   |\n+---+"), Crosshair(Frame(0, 1, 0, 1, 3, 1), x=0.5), ASCII)
     assert drawn.plain.split("\n")[1] == "| . |"
+
+
+def test_the_crosshair_leaves_the_spaces_between_a_labels_words():
+    picture = Text("┌──────────┐\n│ lowest G │\n│          │\n└──────────┘")
+    drawn = with_crosshair(picture, Crosshair(Frame(0.0, 9.0, 0.0, 1.0, 10, 2), x=6.0), UNICODE)
+    lines = drawn.plain.split("\n")
+    assert lines[1] == "│ lowest G │" and lines[2] == "│      ·   │"

@@ -2,10 +2,11 @@
 
 The picture (plotext's text, styled) is built once per window, units and size, without the
 cursor; each move writes the crosshair into a copy of it. The crosshair takes only blank cells
-of the plot area, so boundaries, invariant lines and labels stay visible under it; the cursor's
-own mark goes on top. Cells are found as plotext places data: a value v between the axis
-limits lo and hi lands in cell floor(0.5 + (n - 1) (v - lo) / (hi - lo)) of the n cells across
-(or up) the plot area inside the frame.
+of the plot area (not the spaces between a label's words), so boundaries, invariant lines and
+labels stay visible under it; the cursor's own mark goes on top. Cells are found as plotext
+places data: a value v between the axis limits lo and hi lands in cell
+floor(0.5 + (n - 1) (v - lo) / (hi - lo)) of the n cells across (or up) the plot area inside
+the frame.
 """
 
 from __future__ import annotations
@@ -73,6 +74,16 @@ def _cell(value: float, low: float, high: float, cells: int) -> int | None:
     return math.floor(round(0.5 + (cells - 1) * (value - low) / (high - low), 8))
 
 
+def _free(line: str, column: int, area: PlotArea) -> bool:
+    """Whether the crosshair may take this cell of a picture's line: a blank one, but not the
+    space between two words of a label or legend (non-blank cells on both sides within the
+    plot area)."""
+    if line[column] not in _BLANK:
+        return False
+    inside = area.left < column < area.left + area.columns - 1
+    return not (inside and line[column - 1] not in _BLANK and line[column + 1] not in _BLANK)
+
+
 def crosshair_cells(lines: list[str], crosshair: Crosshair,
                     glyphs: Glyphs) -> dict[tuple[int, int], str]:
     """The characters to write over the picture (its lines): (line, column) -> character. The
@@ -91,7 +102,7 @@ def crosshair_cells(lines: list[str], crosshair: Crosshair,
     if column is not None:
         wanted += [(r, column) for r in range(area.rows)]
     cells = {(area.top + r, area.left + c): glyphs.crosshair_marker for r, c in wanted
-             if lines[area.top + r][area.left + c] in _BLANK}
+             if _free(lines[area.top + r], area.left + c, area)}
     if row is not None and column is not None:
         cells[(area.top + row, area.left + column)] = glyphs.cursor_marker
     return cells

@@ -75,8 +75,8 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
                 labels.append(Label(name, float(shown_x[0]), float(y[0]) + span * 0.12))
             continue
         keep = inside(x) & (y <= frame.y_high + span)
-        if not keep.any():
-            continue
+        if not (keep & (y >= frame.y_low) & (y <= frame.y_high)).any():
+            continue   # nothing of it on the plot (a labelled series must show somewhere)
         xs, ys = thin_polyline(shown_x[keep], y[keep], frame)
         curves.append((name, xs.tolist(), ys.tolist()))
         lowest = int(np.argmin(ys))
@@ -84,6 +84,8 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
     tangents = []
     for tie in section.tie_lines:
         ends = np.array(tie.x_B)
+        if ends.max() < window.x_low or ends.min() > window.x_high:
+            continue   # a tangent wholly outside the window (zoomed in, or a partial model)
         g_ends = np.array([tie.mu[0] * (1 - xb) + tie.mu[1] * xb for xb in ends])
         tangents.append((scales.shown_composition(ends), relative(ends, g_ends)))
     element_B = exploration.system.elements[1]
