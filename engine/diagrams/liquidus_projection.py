@@ -63,6 +63,8 @@ _SAME_POINT = 1e-7          # mole fraction: valley points closer than this are 
 #: third element (mole fraction), by temperature steps halved where Newton's method fails.
 SIDE_REACHED = 1e-5
 _SIDE_HALVINGS = 12
+#: Points of a valley between two invariants that the grid does not see.
+VALLEY_STEPS = 8
 
 
 @dataclass(frozen=True)
@@ -437,6 +439,38 @@ def _to_side(system, pair: tuple[str, str], points: list, chain: list) -> tuple 
     return (T, x) if x.min() < end[1].min() else None
 
 
+def _between_invariants(system, invariants: list[FourPhaseReaction], found: dict) -> dict:
+    """Valleys too short for the grid to see: a pair of solids that two invariants share with the
+    liquid but no grid edge found, followed from the hotter invariant to the colder one by
+    fixed-temperature solves at VALLEY_STEPS temperatures between them."""
+    out: dict = {}
+    for k, hot in enumerate(invariants):
+        for cold in invariants[k + 1:]:
+            shared = {n for n, _x, _c in hot.phases} & {n for n, _x, _c in cold.phases} - {LIQUID}
+            if len(shared) != 2 or tuple(sorted(shared)) in found or tuple(sorted(shared)) in out:
+                continue
+            pair = tuple(sorted(shared))
+            site = {m.name: m for m in (_member_of(system, hot, name) for name in pair)}
+            x, ys, points = np.array(hot.phases[0][1]), [site[n].y for n in pair], []
+            for T in np.linspace(hot.temperature_K, cold.temperature_K, VALLEY_STEPS + 2)[1:-1]:
+                point = _three_phase(system, pair, float(T), x, ys)
+                if point is None:
+                    break
+                points.append(point)
+                x, ys = point[1], point[3]
+            if points:
+                out[pair] = points
+    return out
+
+
+def _member_of(system, reaction: FourPhaseReaction, name: str) -> _Member:
+    """A member of a Newton solve started at a solid's composition in an invariant: the sample
+    of that solid nearest to it (a compound's only one)."""
+    x = next(np.array(xs) for n, xs, _c in reaction.phases if n == name)
+    Y, X, _G = system.models[name].at(reaction.temperature_K).samples()
+    return _Member(name, system.models[name], Y[int(np.argmin(np.abs(X - x).sum(axis=1)))])
+
+
 def _ordered(points: list[tuple[float, np.ndarray]]) -> list[tuple[float, np.ndarray]]:
     """Valley points in order along the valley: from the point farthest along the first principal
     axis of their compositions, each next point the nearest of those left."""
@@ -498,6 +532,8 @@ def map_liquidus_projection(system, divisions: int = DEFAULT_DIVISIONS) -> Liqui
             continue
         invariants.append(r)
     invariants.sort(key=lambda r: -r.temperature_K)
+    for pair, points in _between_invariants(system, invariants, found).items():
+        found[pair] = points
     valleys = []
     for pair, points in sorted(found.items()):
         ends = [(r.temperature_K, np.array(r.phases[0][1])) for r in invariants

@@ -93,6 +93,81 @@ def test_json_keys(projection):
     assert set(js["valleys"][0]["liquid"][0]) == {"temperature_K", "mole_fraction"}
 
 
+# --- with a compound: a quasi-peritectic and a eutectic --------------------------------------------
+#: Invented: the eutectic system with a compound delta = AB (Pb and Sn of the file), formed from
+#: pure alpha and beta with -600 J per mole of atoms; it melts incongruently on the A-B side.
+DELTA_FORMATION = -600.0
+COMPOUND_FILE = it.EUTECTIC_FILE + f"""
+[phase.delta]
+model = "compound"
+formula = "PbSn"
+reference = {{ Pb = "fcc", Sn = "bct" }}
+formation = {{ a = {DELTA_FORMATION} }}
+"""
+
+
+def _with_delta(saturated: tuple[int, int]) -> tuple[float, np.ndarray]:
+    """The invariant where the liquid is saturated with the pure solids `saturated` and with
+    delta: x_i = a_i(T) for those two, the third element the rest, and delta's saturation
+    0.5 (dG_A + RT ln x_A) + 0.5 (dG_B + RT ln x_B) = G_f (mu_i of the ideal liquid against the
+    pure solids, Gaskell and Laughlin ch. 10); one root in T by brentq."""
+    def liquid(T: float) -> np.ndarray:
+        a = it.saturation(T)
+        x = np.zeros(3)
+        x[list(saturated)] = a[list(saturated)]
+        x[3 - sum(saturated)] = 1.0 - a[list(saturated)].sum()
+        return x
+
+    def excess(T: float) -> float:
+        x, d = liquid(T), it.fusion_gibbs(T)
+        return 0.5 * (d[0] + it.R * T * np.log(x[0])) + 0.5 * (d[1] + it.R * T * np.log(x[1])) - DELTA_FORMATION
+
+    T = brentq(excess, 540.0, 620.0, xtol=1e-12, rtol=1e-15)
+    return T, liquid(T)
+
+
+def _crossing(p, q, r, s) -> bool:
+    """Whether the segments p-q and r-s cross (compositions; B and C as plane coordinates)."""
+    def side(a, b, c) -> float:
+        return (b[1] - a[1]) * (c[2] - a[2]) - (b[2] - a[2]) * (c[1] - a[1])
+    return side(p, q, r) * side(p, q, s) < 0.0 and side(r, s, p) * side(r, s, q) < 0.0
+
+
+@pytest.fixture(scope="module")
+def with_compound(tmp_path_factory):
+    path = tmp_path_factory.mktemp("compound") / "with-delta.toml"
+    path.write_text(COMPOUND_FILE)
+    return map_liquidus_projection(load_system(path), divisions=12)
+
+
+def test_quasi_peritectic_and_eutectic_with_a_compound(with_compound):
+    """liquid + alpha -> delta + gamma (the liquid saturated with alpha, gamma and delta) above
+    liquid -> delta + beta + gamma, each to 1e-6 K and its liquid to 1e-6 against the closed form."""
+    assert [r.kind for r in with_compound.invariants] == ["quasi-peritectic", "eutectic"]
+    for reaction, saturated in zip(with_compound.invariants, ((0, 2), (1, 2))):
+        T, x = _with_delta(saturated)
+        assert abs(reaction.temperature_K - T) < 1e-6
+        assert np.abs(np.array(reaction.phases[0][1]) - x).max() < 1e-6
+    upper = with_compound.invariants[0]
+    assert upper.equation() == "liquid + alpha -> delta + gamma"
+    x = {n: np.array(xs) for n, xs, _c in upper.phases}
+    assert _crossing(x["liquid"], x["alpha"], x["delta"], x["gamma"])     # the tie-lines that swap cross
+    c = np.array([k for _n, _x, k in upper.phases])
+    assert np.abs(c @ np.array([xs for _n, xs, _k in upper.phases])).max() < 1e-12
+
+
+def test_a_short_valley_between_two_invariants(with_compound):
+    """liquid + delta + gamma runs from the quasi-peritectic down to the eutectic; on it the liquid
+    holds x_C = a_C(T) (saturated with pure gamma)."""
+    valley = next(v for v in with_compound.valleys if v.solids == ("delta", "gamma"))
+    temperatures = [T for T, _x in valley.points]
+    assert len(temperatures) >= 4
+    assert max(temperatures) == pytest.approx(with_compound.invariants[0].temperature_K, abs=1e-9)
+    assert min(temperatures) == pytest.approx(with_compound.invariants[1].temperature_K, abs=1e-9)
+    for T, x in valley.points:
+        assert abs(x[2] - it.saturation(T)[2]) < 1e-6
+
+
 # --- kinds, from the mass balance of four compositions and the sign of the reaction's heat ----------
 # The geometry (which phase lies inside the triangle or quadrilateral of the others) is the
 # classical one of four-phase reactions in ternaries: F.N. Rhines, Phase Diagrams in Metallurgy,
