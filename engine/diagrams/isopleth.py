@@ -350,3 +350,21 @@ def _invariants(edges: dict, n_elements: int) -> list[SectionInvariant]:
         else:
             groups.append([[T], phases, [u]])
     return [SectionInvariant(float(np.median(Ts)), phases, (float(min(u)), float(max(u)))) for Ts, phases, u in groups]
+
+
+def trade_labels(iso: Isopleth, names) -> list[str | None]:
+    """The trade's name of each line of `iso` (None where none fits): `names` is the system's
+    TradeNames (engine/files/trade_names.py), whose lines name a change on cooling from the set
+    `above` to the set `below`. A line whose two phase sets a name fits in either order is checked
+    by one equilibrium 3 K above its middle point, which must hold the name's `above` set."""
+    labels: list[str | None] = []
+    for line in iso.lines:
+        found = [(ln, hot) for hot, cold in ((line.with_phase, line.without_phase), (line.without_phase, line.with_phase))
+                 if (ln := names.line(hot, cold)) is not None]
+        label = None
+        if found:
+            u, T = line.points[len(line.points) // 2]
+            above = phase_set(equilibrate(iso.system, T + 3.0, iso.mole_fractions(u)))
+            label = next((ln.name for ln, hot in found if tuple(sorted(hot)) == above), None)
+        labels.append(label)
+    return labels

@@ -1,7 +1,8 @@
 """Which systems the whole-diagram tracer (engine/diagrams/diagram.py) can map: binaries whose
 phases are substitutional solutions and stoichiometric compounds. Sublattice phases (interstitial
 solutions such as austenite, carbides on sublattices) are evaluated by point equilibria only so
-far; a diagram traced without them would be wrong, so it is refused instead.
+far; a diagram traced without them would be wrong, so it is refused instead (`ladle diagram`
+draws such a binary as an isopleth over the range its file covers: engine/diagrams/isopleth.py).
 """
 
 from __future__ import annotations
@@ -21,6 +22,6 @@ def require_mappable(system) -> None:
     if len(system.elements) == 2 and not unmapped:
         return
     what = f"the sublattice phases {', '.join(unmapped)}" if unmapped else f"{len(system.elements)} elements"
-    raise ValueError(f"{system.name}: whole diagrams of systems with {what} are not mapped yet; "
-                     "ladle point, melt, cool and transitions answer for one alloy, and "
-                     "ladle diagram --comp SPEC --vary EL=A..B draws an isopleth")
+    raise ValueError(f"{system.name}: whole diagrams of systems with {what} are not traced as tie-lines; "
+                     "ladle point, melt, cool and transitions answer for one alloy, and ladle diagram draws "
+                     "an isopleth (of a binary: over the range its file covers)")

@@ -222,13 +222,55 @@ def test_leaving_graphite_out_changes_only_where_graphite_was_stable(stable, met
 
 
 def test_whole_diagrams_are_refused_in_one_line(stable) -> None:
-    """The diagram tracer cannot evaluate sublattice phases: it refuses instead of drawing a
+    """The tie-line tracer cannot evaluate sublattice phases: it refuses instead of drawing a
     diagram without austenite and ferrite, and the explorer says so before opening."""
     from ladle.engine.diagrams.diagram import map_diagram
 
     with pytest.raises(ValueError, match="sublattice phases fcc, bcc, Fe3C"):
         map_diagram(stable)
     assert "sublattice phases" in not_explorable(stable)
+
+
+def test_isopleth_lines_carry_the_trade_names(metastable) -> None:
+    """Steels of 0.2-1.2 wt% C between 950 and 1200 K: the lines of the section are named as the
+    trade names them (ASM Handbook Vol. 4, Heat Treating (1991), glossary): A1 flat at the
+    eutectoid, A3 falling with carbon below 0.77 wt% C, Acm rising with carbon above it; the
+    change from austenite to austenite + cementite is never called A3, nor the reverse order Acm."""
+    from ladle.engine.diagrams.isopleth import map_isopleth, trade_labels
+
+    iso = map_isopleth(metastable, (0.998, 0.002), (0.988, 0.012), "wt", "C", (950.0, 1200.0), columns=6, rows=6)
+    labels = trade_labels(iso, trade_names(metastable))
+    named = {}
+    for line, label in zip(iso.lines, labels):
+        named.setdefault(label, []).append(line)
+    assert set(named) >= {"A1", "A3", "Acm"}
+    (eutectoid,) = [inv.temperature_K for inv in iso.invariants]
+    assert all(T == pytest.approx(eutectoid, abs=0.5) for ln in named["A1"] for _u, T in ln.points[1:-1])
+    for name, slope in (("A3", -1.0), ("Acm", 1.0)):
+        (line,) = named[name]
+        (u0, T0), (u1, T1) = min(line.points), max(line.points)
+        assert slope * (T1 - T0) > 50.0 and set(line.with_phase) - set(line.without_phase) == \
+            ({"bcc"} if name == "A3" else {"Fe3C"})
+
+
+def test_whole_diagram_is_drawn_as_an_isopleth(monkeypatch, capsys) -> None:
+    """`ladle diagram fe-fe3c --json` is the isopleth over the file's range (0-25 at% C, 0-6.69
+    wt%), each line with its trade label or null (three columns keep the test fast)."""
+    import json
+
+    from ladle.tui.cli import main
+    from ladle.tui.commands import section_diagram
+
+    monkeypatch.setattr(section_diagram, "WHOLE_BINARY_COLUMNS", 3)
+    assert main(["diagram", "fe-fe3c", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert (doc["element"], doc["basis"], doc["start"]["C"]) == ("C", "wt", 0.0)
+    assert doc["end"]["C"] == pytest.approx(0.0669, abs=5e-4)
+    assert {ln["label"] for ln in doc["lines"]} >= {None, "A1", "eutectic (ledeburite)"}
+    with pytest.raises(SystemExit) as refused:
+        main(["diagram", "fe-fe3c", "--csv"])
+    assert refused.value.code == 2
+    assert "use --json" in capsys.readouterr().err
 
 
 def test_melt_of_a_steel_takes_the_point_equilibrium_path(metastable, capsys) -> None:

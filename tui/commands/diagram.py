@@ -10,7 +10,7 @@ from .. import quote
 from ..errors import CommandError
 from .common import (add_system_argument, ascii_text, closing_lines, coverage_note, open_system, print_json, system_title,
                      terminal_plot)
-from .section_diagram import add_section_arguments, run_section, wants_section
+from .section_diagram import add_section_arguments, run_section, wants_section, whole_binary
 
 HELP = "the phase diagram: an ASCII plot with the reactions listed, or --json / --csv"
 
@@ -31,10 +31,13 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ladle.engine.diagrams.diagram import map_diagram
+    from ladle.engine.diagrams.mappable import unmapped_phases
 
     system = open_system(args.system, args.without)
     if wants_section(args) or len(system.elements) != 2:
         return run_section(system, args)
+    if unmapped_phases(system):
+        return whole_binary(system, args)
     diagram = map_diagram(system)
     if args.json:
         print_json(diagram.to_json())

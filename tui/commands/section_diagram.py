@@ -1,7 +1,9 @@
 """`ladle diagram` for systems of three or more elements: the isopleth through an alloy
 (--comp SPEC --vary El=A..B) and, for a ternary, the isothermal section on the composition
 triangle (--temp T) or, without options, the liquidus projection (valleys and four-phase
-invariant reactions); plotted in the terminal with every field labelled, or --json."""
+invariant reactions); and the whole diagram of a binary with sublattice phases (Fe-C) as its
+isopleth over the range its file covers, with the lines the file names (A1, A3, Acm) listed;
+plotted in the terminal with every field labelled, or --json."""
 
 from __future__ import annotations
 
@@ -11,6 +13,10 @@ from .. import quote
 from ..errors import CommandError
 from .common import (add_composition_argument, ascii_text, closing_lines, composition_specs, print_json,
                      system_title, terminal_plot, temperature_kelvin)
+
+#: Columns of composition of a binary's whole diagram drawn as an isopleth (the engine's default
+#: is meant for a narrow section; a whole diagram spans the file's range).
+WHOLE_BINARY_COLUMNS = 33
 
 
 def add_section_arguments(p: argparse.ArgumentParser) -> None:
@@ -52,12 +58,49 @@ def _isopleth(system, args: argparse.Namespace) -> int:
     spec, vary = parse_alloy(composition_specs(system, args.comp)), parse_range(args.vary)
     low, high = section_ends(spec, vary, tuple(system.elements))
     iso = map_isopleth(system, low.fractions, high.fractions, low.basis, vary.element)
+    held = "".join(f", {el} {quote.percent(f)} {low.basis}%" for el, f in zip(system.elements, low.fractions)
+                   if el not in (vary.element, low.balance))
+    title = f"{system_title(system)}: {vary.element} {vary.low:g}-{vary.high:g} {low.basis}%{held}, {low.balance} balance"
+    return show_isopleth(system, iso, title, args)
+
+
+def whole_binary(system, args: argparse.Namespace) -> int:
+    """The whole diagram of a binary the tracer does not map (sublattice phases, as in Fe-C):
+    its isopleth with the second element varying over the range the file covers."""
+    import numpy as np
+
+    from ladle.engine.diagrams.isopleth import map_isopleth
+    from ladle.engine.units import mass_from_mole
+
+    if args.csv:
+        raise CommandError(f"{system.name}: --csv gives the tie-lines of a mapped diagram; this one is drawn as an "
+                           f"isopleth: use --json")
+    basis = "at" if args.at else "wt"
+    ends = [np.array([1.0 - x, x]) for x in system.covers]
+    if basis == "wt":
+        ends = [mass_from_mole(x, system.molar_mass) for x in ends]
+    element = system.elements[1]
+    iso = map_isopleth(system, ends[0], ends[1], basis, element, columns=WHOLE_BINARY_COLUMNS)
+    title = (f"{system_title(system)}: {element} {100 * ends[0][1]:.3g}-{100 * ends[1][1]:.3g} {basis}%, "
+             f"{system.elements[0]} balance")
+    return show_isopleth(system, iso, title, args)
+
+
+def show_isopleth(system, iso, title: str, args: argparse.Namespace) -> int:
+    """Print a mapped isopleth under `title`: plotted with its fields numbered, the invariant
+    reactions it crosses and the lines the system's file names (A1, A3, ...); or --json (each
+    line with its trade `label`, or null)."""
+    from ladle.engine.diagrams.isopleth import trade_labels
+    from ladle.engine.files.trade_names import trade_names
+
+    names = trade_names(system)
+    labels = trade_labels(iso, names)
     if args.json:
-        print_json(iso.to_json())
+        data = iso.to_json()
+        for line, label in zip(data["lines"], labels):
+            line["label"] = label
+        print_json(data)
         return 0
-    held = ", ".join(f"{el} {quote.percent(f)} {low.basis}%" for el, f in zip(system.elements, low.fractions)
-                     if el not in (vary.element, low.balance))
-    title = f"{system_title(system)}: {vary.element} {vary.low:g}-{vary.high:g} {low.basis}%, {held}, {low.balance} balance"
     from ..explorer.glyphs import glyphs_for
     from ..explorer.section_drawing import draw_section, isopleth_scene
 
@@ -74,9 +117,34 @@ def _isopleth(system, args: argparse.Namespace) -> int:
     lines.append("invariant reactions crossed:" if iso.invariants else "invariant reactions crossed: none")
     for inv in iso.invariants:
         lines.append(f"  {quote.temperature(inv.temperature_K, args.unit):>12}  {' + '.join(inv.phases)}")
+    lines += _named_lines(iso, labels, args.unit)
+    if any(labels) and names.lines_note:
+        lines.append(f"note: {names.lines_note}")
     lines += [f"note: {w}" for w in iso.warnings]
     print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
     return 0
+
+
+def _named_lines(iso, labels: list[str | None], unit: str) -> list[str]:
+    """One row per trade name on the isopleth: the range of temperature and of the varying
+    element's content its lines span."""
+    spans: dict[str, list[tuple[float, float]]] = {}
+    for line, label in zip(iso.lines, labels):
+        if label is not None:
+            spans.setdefault(label, []).extend((float(iso.content(u)), T) for u, T in line.points)
+    rows = ["lines the trade names:"] if spans else []
+    for label, points in spans.items():
+        T_mid = sorted(p[1] for p in points)[len(points) // 2]
+        flat = next((inv.temperature_K for inv in iso.invariants if abs(inv.temperature_K - T_mid) < 0.5), None)
+        if flat is not None:   # an invariant reaction: its temperature and the compositions along it
+            c = [p[0] for p in points if abs(p[1] - flat) < 0.5]
+            where = f"at {quote.temperature(flat, unit)}"
+        else:
+            c = [p[0] for p in points]
+            where = f"{quote.temperature(max(p[1] for p in points), unit)} to " \
+                    f"{quote.temperature(min(p[1] for p in points), unit)}"
+        rows.append(f"  {label:<24} {where}, {iso.element} {quote.percent(min(c))}-{quote.percent(max(c))} {iso.basis}%")
+    return rows
 
 
 def _plot(title: str, ascii_only: bool, scene_for) -> list[str]:
