@@ -161,12 +161,14 @@ def _liquid_potentials(model, x: np.ndarray) -> np.ndarray:
     return G[..., None] + g - np.sum(x * g, axis=-1)[..., None]
 
 
-def _solve(members: list[_Member], T: float, mu: np.ndarray, free_T: bool) -> tuple[float, np.ndarray, bool]:
+def _solve(members: list[_Member], T: float, mu: np.ndarray, free_T: bool,
+           plane: tuple[np.ndarray, float] | None = None) -> tuple[float, np.ndarray, bool]:
     """Newton's method on the equilibrium of `members` with equal chemical potentials mu (J/mol):
     for each phase dG/dy - A mu - S^T lambda = 0, S y = 1 and G - y A mu = 0 (J per mole of
     formula units; Lukas, Fries and Sundman 2007). With `free_T` the temperature is an unknown
-    (four phases in three elements), else it stays T (three phases). Updates the members' site
-    fractions; returns (T, mu, converged)."""
+    (four phases in three elements, or three phases with a `plane` (d, c): the first member's
+    composition per formula unit n holds d . n = c), else it stays T (three phases). Updates the
+    members' site fractions; returns (T, mu, converged)."""
     mu = np.array(mu, dtype=float)
     layout, rows, cols = [], 0, 0
     for m in members:
@@ -176,6 +178,8 @@ def _solve(members: list[_Member], T: float, mu: np.ndarray, free_T: bool) -> tu
         cols += m.phase.n_vars + S.shape[0]
     c_mu = cols
     n_unknowns = cols + 3 + (1 if free_T else 0)
+    if plane is not None:
+        rows += 1
     if rows != n_unknowns:
         raise ValueError(f"{len(members)} phases with the temperature {'free' if free_T else 'fixed'}: not a square system")
     y_cols = np.concatenate([np.arange(c, c + nf) for _S, _r, c, nf, _ns in layout])
@@ -215,6 +219,10 @@ def _solve(members: list[_Member], T: float, mu: np.ndarray, free_T: bool) -> tu
                     J[o:o + nf, c_mu + 3] = g_T
                     J[o + nf + ns, c_mu + 3] = G_T
                 scale = max(scale, abs(float(G)), float(np.abs(g).max()))
+            if plane is not None:
+                E = np.asarray(members[0].phase.element_matrix, dtype=float)
+                r[-1] = float(plane[0] @ (members[0].y @ E)) - plane[1]
+                J[-1, layout[0][2]:layout[0][2] + layout[0][3]] = E @ plane[0]
             if not (np.isfinite(J).all() and np.isfinite(r).all()):
                 return T, mu, False
             if np.abs(r).max() <= 1e-10 * scale:
@@ -441,24 +449,27 @@ def _to_side(system, pair: tuple[str, str], points: list, chain: list) -> tuple 
 
 def _between_invariants(system, invariants: list[FourPhaseReaction], found: dict) -> dict:
     """Valleys too short for the grid to see: a pair of solids that two invariants share with the
-    liquid but no grid edge found, followed from the hotter invariant to the colder one by
-    fixed-temperature solves at VALLEY_STEPS temperatures between them."""
+    liquid but no grid edge found, followed from one invariant's liquid to the other's by
+    solves with the temperature free and the liquid on a plane across the chord between them
+    (VALLEY_STEPS planes): the valley may rise between them (a saddle) or fall."""
     out: dict = {}
     for k, hot in enumerate(invariants):
         for cold in invariants[k + 1:]:
             shared = {n for n, _x, _c in hot.phases} & {n for n, _x, _c in cold.phases} - {LIQUID}
-            if len(shared) != 2 or tuple(sorted(shared)) in found or tuple(sorted(shared)) in out:
-                continue
             pair = tuple(sorted(shared))
-            site = {m.name: m for m in (_member_of(system, hot, name) for name in pair)}
-            x, ys, points = np.array(hot.phases[0][1]), [site[n].y for n in pair], []
-            for T in np.linspace(hot.temperature_K, cold.temperature_K, VALLEY_STEPS + 2)[1:-1]:
-                point = _three_phase(system, pair, float(T), x, ys)
-                if point is None:
+            if len(pair) != 2 or pair in found or pair in out:
+                continue
+            x_hot, x_cold = np.array(hot.phases[0][1]), np.array(cold.phases[0][1])
+            d = x_cold - x_hot
+            members = [_Member(LIQUID, system.models[LIQUID], x_hot @ _liquid_rows(system.models[LIQUID]))]
+            members += [_member_of(system, hot, name) for name in pair]
+            T, mu, points = hot.temperature_K, _liquid_potentials(system.models[LIQUID].at(hot.temperature_K), x_hot), []
+            for t in np.linspace(0.0, 1.0, VALLEY_STEPS + 2)[1:-1]:
+                T, mu, ok = _solve(members, T, mu, free_T=True, plane=(d, float(d @ (x_hot + t * d))))
+                if not ok or not _stable(system, T, mu, {LIQUID, *pair}):
                     break
-                points.append(point)
-                x, ys = point[1], point[3]
-            if points:
+                points.append((T, _atoms_composition(members[0].phase, members[0].y), mu, [m.y for m in members[1:]]))
+            if len(points) == VALLEY_STEPS:
                 out[pair] = points
     return out
 

@@ -168,6 +168,38 @@ def test_a_short_valley_between_two_invariants(with_compound):
         assert abs(x[2] - it.saturation(T)[2]) < 1e-6
 
 
+TERNARY_COMPOUND_FILE = it.EUTECTIC_FILE + """
+[phase.delta]
+model = "compound"
+formula = "PbSnBi"
+reference = { Pb = "fcc", Sn = "bct", Bi = "rhombohedral" }
+formation = { a = -400.0 }
+"""
+
+
+def test_a_valley_with_a_saddle_between_two_quasi_peritectics(tmp_path):
+    """Invented: a ternary compound delta = ABC (-400 J per mole of atoms from the pure solids).
+    Liquid + alpha + delta rises from both liquid + alpha -> beta + delta and liquid + alpha ->
+    delta + gamma to a maximum between them; along it (Gaskell and Laughlin, ch. 10) the liquid
+    holds x_A = a_A(T) and delta's saturation mu_A + mu_B + mu_C = 3 G_f with mu_A = 0, i.e.
+    dG_B + dG_C + RT ln(x_B x_C) = 3 G_f, at every point to 1e-6 (J/mol: 1e-6 RT)."""
+    path = tmp_path / "ternary-compound.toml"
+    path.write_text(TERNARY_COMPOUND_FILE)
+    projection = map_liquidus_projection(load_system(path), divisions=12)
+    assert [r.equation() for r in projection.invariants] == [
+        "liquid + alpha -> beta + delta", "liquid + alpha -> delta + gamma", "liquid -> delta + beta + gamma"]
+    valley = next(v for v in projection.valleys if v.solids == ("alpha", "delta"))
+    temperatures = [T for T, _x in valley.points]
+    assert len(temperatures) >= 6
+    top = int(np.argmax(temperatures))
+    assert 0 < top < len(temperatures) - 1                               # a maximum inside the valley
+    assert max(temperatures) > projection.invariants[0].temperature_K + 0.01  # measured 0.067 K above
+    for T, x in valley.points:
+        d = it.fusion_gibbs(T)
+        assert abs(x[0] - it.saturation(T)[0]) < 1e-6
+        assert abs((d[1] + d[2] + it.R * T * np.log(x[1] * x[2]) - 3 * -400.0) / (it.R * T)) < 1e-6
+
+
 # --- kinds, from the mass balance of four compositions and the sign of the reaction's heat ----------
 # The geometry (which phase lies inside the triangle or quadrilateral of the others) is the
 # classical one of four-phase reactions in ternaries: F.N. Rhines, Phase Diagrams in Metallurgy,
