@@ -134,11 +134,17 @@ def phase_enthalpy(system, share, T: float) -> float:
     return float(at.gibbs(y) - T * at.gibbs_dT(y)) / atoms
 
 
-def assemblage_enthalpy(system, shares, T: float) -> float:
-    """Enthalpy (J per mole of atoms of the shares together) of several phases, each weighted by
-    its `amount_mol`, at T (K)."""
-    total = sum(p.amount_mol for p in shares)
-    return sum(p.amount_mol * phase_enthalpy(system, p, T) for p in shares) / total
+def solid_enthalpy(system, shares, x_solid, T: float) -> float:
+    """Enthalpy (J per mole of atoms) at T (K) of the solid of composition `x_solid` (mole
+    fractions) made of the phases `shares` (each at its own composition): the phases are weighted
+    so that together they have the solid's composition (least squares where they cannot match it
+    exactly), not by their amounts in a point equilibrium, which are those of the whole assemblage
+    and not of what forms in one step."""
+    X = np.array([np.asarray(p.x, dtype=float) for p in shares]).T
+    A = np.vstack([X, np.ones(len(shares))])
+    b = np.concatenate([np.asarray(x_solid, dtype=float), [1.0]])
+    weights = np.linalg.lstsq(A, b, rcond=None)[0]
+    return float(sum(w * phase_enthalpy(system, p, T) for w, p in zip(weights, shares)))
 
 
 def molar_mass(system, x) -> float:

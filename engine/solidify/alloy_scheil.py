@@ -34,8 +34,8 @@ import numpy as np
 
 from ..diagrams.phase_change import narrow_change, phase_set
 from ..minimize.equilibrium import equilibrate
-from .alloy_records import (LIQUID, AlloyConstituent, AlloyPath, AlloyStep, assemblage_enthalpy, forming_together,
-                            labelled, molar_mass, phase_enthalpy)
+from .alloy_records import (LIQUID, AlloyConstituent, AlloyPath, AlloyStep, forming_together, labelled, molar_mass,
+                            phase_enthalpy, solid_enthalpy)
 from .records import Arrest, PathError
 
 #: Phase changes are bracketed to this width (K).
@@ -241,7 +241,8 @@ class AlloyScheil:
         self.current.add(d, x_solid, mass)
         T_mid = old.T - 0.5 * h
         start = old.forming if old.forming else new.forming
-        h_solid = 0.5 * (assemblage_enthalpy(system, start, T_mid) + assemblage_enthalpy(system, new.forming, T_mid))
+        h_solid = 0.5 * (solid_enthalpy(system, start, x_solid, T_mid)
+                         + solid_enthalpy(system, new.forming, x_solid, T_mid))
         self.heat += (old.f_L * old.liquid_enthalpy(system, T_mid) - new.f_L * new.liquid_enthalpy(system, T_mid)
                       - d * h_solid)
         self._record(new)
@@ -299,7 +300,7 @@ class AlloyScheil:
         system = self.system
         T = state.T
         f_L = state.f_L
-        plateau = f_L * (state.liquid_enthalpy(system, T) - assemblage_enthalpy(system, solids, T))
+        plateau = f_L * (state.liquid_enthalpy(system, T) - solid_enthalpy(system, solids, state.x_L, T))
         self.heat += plateau
         mass = f_L * molar_mass(system, state.x_L)
         if len(solids) > 1:
