@@ -362,9 +362,12 @@ def _three_phase(system, solids: tuple[str, str], T: float, x_liquid: np.ndarray
     """The valley point liquid + solids at T (K) from a start, or None: (T, x_liquid, mu, the
     solids' site fractions)."""
     liquid = system.models[LIQUID]
-    members = [_Member(LIQUID, liquid, x_liquid @ _liquid_rows(liquid.at(T)))]
+    try:
+        mu0 = _liquid_potentials(liquid.at(T), x_liquid)
+    except TemperatureOutOfRange:
+        return None
+    members = [_Member(LIQUID, liquid, x_liquid @ _liquid_rows(liquid))]
     members += [_Member(s, system.models[s], np.maximum(np.asarray(y, dtype=float), 1e-12)) for s, y in zip(solids, y_solids)]
-    mu0 = _liquid_potentials(liquid.at(T), x_liquid)
     _T, mu, ok = _solve(members, T, mu0, free_T=False)
     if not ok or not _stable(system, T, mu, {LIQUID, *solids}):
         return None
@@ -528,13 +531,10 @@ def map_liquidus_projection(system, divisions: int = DEFAULT_DIVISIONS) -> Liqui
         starts.append((tuple(names), float(np.mean(grid.liquidus[[i, j, k]])), grid.x[[i, j, k]].mean(axis=0),
                        [grid.y[n] for n in (i, j, k)]))
     for pair, points in found.items():
-        for T, x, _mu, _ys in (max(points, key=lambda p: p[0]), min(points, key=lambda p: p[0])):
-            mu = _liquid_potentials(system.models[LIQUID].at(T), x)
+        for T, x, mu, ys in (max(points, key=lambda p: p[0]), min(points, key=lambda p: p[0])):
             for s in solids:
-                if s in pair:
-                    continue
-                ys = [_lowest_sample(system.models[n].at(T), mu)[0] for n in (*pair, s)]
-                starts.append(((*pair, s), T, x, ys))
+                if s not in pair:
+                    starts.append(((*pair, s), T, x, [*ys, _lowest_sample(system.models[s].at(T), mu)[0]]))
     invariants: list[FourPhaseReaction] = []
     for names, T, x, ys in starts:
         r = _four_phase(system, names, T, x, ys)
