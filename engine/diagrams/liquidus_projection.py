@@ -59,6 +59,7 @@ _MAX_Y_STEP = 0.05
 _MAX_T_STEP = 20.0
 _T_DIFFERENCE = 1e-2        # K, the central difference of the gradient in T
 _SAME_POINT = 1e-7          # mole fraction: valley points closer than this are one
+_REFINE_BELOW = 10.0        # J/mol of atoms: a sample this close to the plane is refined by Newton steps
 #: A valley is followed to the triangle's side until the liquid holds less than this of the
 #: third element (mole fraction), by temperature steps halved where Newton's method fails.
 SIDE_REACHED = 1e-5
@@ -272,7 +273,7 @@ def _stable(system, T: float, mu: np.ndarray, present: set[str]) -> bool:
         except TemperatureOutOfRange:
             continue
         y, df = _lowest_sample(model, mu)
-        if df < 10.0:
+        if df < _REFINE_BELOW:
             df = min(df, lowest_driving_force(model, y, mu, elements, np.arange(model.n_vars))[1])
         if df < -STABILITY_TOLERANCE:
             return False

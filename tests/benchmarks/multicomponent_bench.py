@@ -8,6 +8,8 @@ eutectic, and the shipped lead-tin binary with bismuth added ideally):
   equilibria it took (target 0.2 s);
 - isopleth_s: one ternary isopleth mapped (engine/diagrams/isopleth.py, default grid; target 2 s);
 - isothermal_s: one ternary isothermal section (engine/diagrams/isothermal.py; target 0.5 s);
+- projection_s: one ternary liquidus projection (engine/diagrams/liquidus_projection.py, default
+  grid: valleys and four-phase invariants; no target in the issue);
 - point_binary_s / point_ternary_s: `ladle point` in a fresh process for a binary alloy and for a
   ternary one (target: the ternary within 0.1 s of the binary).
 Times are medians of --repeats runs (wall clock, time.perf_counter).
@@ -33,6 +35,7 @@ import ideal_ternaries  # noqa: E402
 from ladle.engine import load_system  # noqa: E402
 from ladle.engine.diagrams.isopleth import map_isopleth  # noqa: E402
 from ladle.engine.diagrams.isothermal import map_isothermal  # noqa: E402
+from ladle.engine.diagrams.liquidus_projection import map_liquidus_projection  # noqa: E402
 from ladle.engine.solidify.alloy_scheil import AlloyScheil  # noqa: E402
 
 
@@ -68,9 +71,11 @@ def main() -> None:
             iso_s, iso = _median_time(lambda: map_isopleth(system, *section), max(1, args.repeats // 2))
             section_T = 0.5 * sum(system.temperature_range_K)
             iso_T_s, _ = _median_time(lambda: map_isothermal(system, section_T), max(1, args.repeats // 2))
+            projection_s, projection = _median_time(lambda: map_liquidus_projection(system), max(1, args.repeats // 2))
             report[name] = {"scheil_s": scheil_s, "scheil_point_equilibria": scheil[0], "scheil_end": scheil[1],
                             "isopleth_s": iso_s, "isopleth_lines": len(iso.lines), "isothermal_s": iso_T_s,
-                            "isothermal_K": section_T}
+                            "isothermal_K": section_T, "projection_s": projection_s,
+                            "projection_invariants": len(projection.invariants)}
         report["point_binary_s"] = _command_time(["point", "pb-sn", "--temp", "250C", "--comp", "Sn=30wt%"],
                                                  args.repeats)
         report["point_ternary_s"] = _command_time(["point", str(paths["pb-sn-bi"]), "--temp", "250C", "--comp",
@@ -84,7 +89,8 @@ def main() -> None:
         r = report[name]
         print(f"  {name:15s} Scheil path {r['scheil_s']:.3f} s ({r['scheil_point_equilibria']} point equilibria, "
               f"ends: {r['scheil_end']}); isopleth {r['isopleth_s']:.2f} s ({r['isopleth_lines']} lines); "
-              f"isothermal section at {r['isothermal_K']:.0f} K {r['isothermal_s']:.2f} s")
+              f"isothermal section at {r['isothermal_K']:.0f} K {r['isothermal_s']:.2f} s; liquidus projection "
+              f"{r['projection_s']:.2f} s ({r['projection_invariants']} invariants)")
     print(f"  ladle point: binary {report['point_binary_s']:.3f} s, ternary {report['point_ternary_s']:.3f} s "
           f"(difference {report['point_ternary_s'] - report['point_binary_s']:+.3f} s)")
 
