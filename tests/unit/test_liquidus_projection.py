@@ -106,11 +106,15 @@ formation = {{ a = {DELTA_FORMATION} }}
 """
 
 
-def _with_delta(saturated: tuple[int, int]) -> tuple[float, np.ndarray]:
-    """The invariant where the liquid is saturated with the pure solids `saturated` and with
-    delta: x_i = a_i(T) for those two, the third element the rest, and delta's saturation
-    0.5 (dG_A + RT ln x_A) + 0.5 (dG_B + RT ln x_B) = G_f (mu_i of the ideal liquid against the
-    pure solids, Gaskell and Laughlin ch. 10); one root in T by brentq."""
+def _with_delta(saturated: tuple[int, int], delta: tuple[float, float, float], formation: float,
+                bracket: tuple[float, float] = (540.0, 620.0)) -> tuple[float, np.ndarray]:
+    """The invariant where the liquid is saturated with the pure solids `saturated` and with a
+    compound delta of mole fractions `delta` formed from the pure solids with `formation` (J per
+    mole of atoms): x_i = a_i(T) for the two, the third element the rest, and delta's saturation
+    sum_m delta_m (dG_m + RT ln x_m) = formation (mu_m of the ideal liquid against pure solid m,
+    Gaskell and Laughlin ch. 10); one root in T by brentq."""
+    n = np.array(delta)
+
     def liquid(T: float) -> np.ndarray:
         a = it.saturation(T)
         x = np.zeros(3)
@@ -119,10 +123,10 @@ def _with_delta(saturated: tuple[int, int]) -> tuple[float, np.ndarray]:
         return x
 
     def excess(T: float) -> float:
-        x, d = liquid(T), it.fusion_gibbs(T)
-        return 0.5 * (d[0] + it.R * T * np.log(x[0])) + 0.5 * (d[1] + it.R * T * np.log(x[1])) - DELTA_FORMATION
+        x = liquid(T)
+        return float(n @ (it.fusion_gibbs(T) + it.R * T * np.log(x))) - formation
 
-    T = brentq(excess, 540.0, 620.0, xtol=1e-12, rtol=1e-15)
+    T = brentq(excess, *bracket, xtol=1e-12, rtol=1e-15)
     return T, liquid(T)
 
 
@@ -145,7 +149,7 @@ def test_quasi_peritectic_and_eutectic_with_a_compound(with_compound):
     liquid -> delta + beta + gamma, each to 1e-6 K and its liquid to 1e-6 against the closed form."""
     assert [r.kind for r in with_compound.invariants] == ["quasi-peritectic", "eutectic"]
     for reaction, saturated in zip(with_compound.invariants, ((0, 2), (1, 2))):
-        T, x = _with_delta(saturated)
+        T, x = _with_delta(saturated, (0.5, 0.5, 0.0), DELTA_FORMATION)
         assert abs(reaction.temperature_K - T) < 1e-6
         assert np.abs(np.array(reaction.phases[0][1]) - x).max() < 1e-6
     upper = with_compound.invariants[0]
@@ -198,6 +202,22 @@ def test_a_valley_with_a_saddle_between_two_quasi_peritectics(tmp_path):
         d = it.fusion_gibbs(T)
         assert abs(x[0] - it.saturation(T)[0]) < 1e-6
         assert abs((d[1] + d[2] + it.R * T * np.log(x[1] * x[2]) - 3 * -400.0) / (it.R * T)) < 1e-6
+
+
+def test_a_peritectic_forming_a_ternary_compound(tmp_path):
+    """Invented: delta = A2B2C (-300 J per mole of atoms from the pure solids) forms by liquid +
+    alpha + beta -> delta, then liquid + alpha -> delta + gamma and liquid -> delta + beta + gamma;
+    each invariant to 1e-6 K and its liquid to 1e-6 against the closed form."""
+    path = tmp_path / "a2b2c.toml"
+    path.write_text(TERNARY_COMPOUND_FILE.replace('"PbSnBi"', '"Pb2Sn2Bi"').replace("-400.0", "-300.0"))
+    projection = map_liquidus_projection(load_system(path), divisions=12)
+    assert [(r.kind, r.equation()) for r in projection.invariants] == [
+        ("peritectic", "liquid + alpha + beta -> delta"), ("quasi-peritectic", "liquid + alpha -> delta + gamma"),
+        ("eutectic", "liquid -> delta + beta + gamma")]
+    for reaction, saturated in zip(projection.invariants, ((0, 1), (0, 2), (1, 2))):
+        T, x = _with_delta(saturated, (0.4, 0.4, 0.2), -300.0)
+        assert abs(reaction.temperature_K - T) < 1e-6
+        assert np.abs(np.array(reaction.phases[0][1]) - x).max() < 1e-6
 
 
 # --- kinds, from the mass balance of four compositions and the sign of the reaction's heat ----------
