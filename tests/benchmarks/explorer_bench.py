@@ -7,9 +7,10 @@ Measures, on an 80x24 pseudo-terminal:
   status pane's last heading and the key bar have arrived, then the output stays quiet);
 - key_to_screen_ms (median and 90th percentile) in each view (diagram, energy, reactions,
   cooling): per key press, the time from writing the key to the last byte of the updated screen.
-  The cursor keeps moving to new points (fine steps right and up in turn; in the cooling view up
-  only, since a new composition starts a computation measured apart); the reactions view moves
-  down its table;
+  The cursor keeps moving to new points (fine steps right and up in turn; in the cooling view
+  coarse steps up and down, since a new composition starts a computation measured apart and a
+  fine step there may change nothing on screen, which is then not redrawn); the reactions view
+  moves down its table;
 - cooling_new_alloy_ms: in the cooling view, a step in composition to the last byte of the
   recomputed paths (median);
 - picker_open_ms: from `s` to the last byte of the system picker (median of five);
@@ -41,7 +42,7 @@ RIGHT, LEFT, UP, DOWN = "\x1b[C", "\x1b[D", "\x1b[A", "\x1b[B"
 VIEWS = {"diagram": "1", "energy": "2", "reactions": "3", "cooling": "4"}
 #: Keys per view that keep moving the cursor to new points.
 WALKS = {"diagram": (FINE_RIGHT, FINE_UP), "energy": (FINE_RIGHT, FINE_UP), "reactions": (DOWN, UP),
-         "cooling": (FINE_UP,)}
+         "cooling": (UP, DOWN)}
 FIRST_SCREEN_MARKS = (b"NEAREST", b"quit")
 
 

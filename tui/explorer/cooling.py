@@ -64,7 +64,7 @@ class CoolingView(CachedPlot):
             worker = self.run_worker(lambda: _freeze(system, x_B), thread=True, exclusive=True,
                                      group="cooling", exit_on_error=False)
             self._pending[worker] = key
-        self.refresh()
+        self.redraw()
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
         worker = event.worker

@@ -35,6 +35,7 @@ from ..system_choices import system_choices
 from ..widgets.diagram_view import DiagramView
 from ..widgets.energy_view import EnergyView
 from ..widgets.key_bar import KeyBar
+from ..widgets.plot_pane import CachedPlot
 from ..widgets.point_entry import PointEntry
 from ..widgets.reactions_view import ReactionsView
 from ..widgets.status_pane import StatusPane
@@ -122,7 +123,7 @@ class ExploreScreen(Screen[None]):
         self.query_one(StatusPane).show_lines(self._status_lines())
         self._show_caution()
         if self.view in ("diagram", "energy"):
-            self.query_one(f"#{self.view}").refresh()
+            self.query_one(f"#{self.view}", CachedPlot).redraw()
         elif self.view == "cooling":
             self.query_one(CoolingView).follow(self.exploration)
         self._schedule_save()

@@ -4,16 +4,19 @@ textual-plotext rebuilds the whole picture on every refresh; here the built text
 reused while the size, theme and the subclass's `picture_key()` stay the same. Its screen lines
 are made once per picture and the cursor is written into them (`crosshair.strips_with_crosshair`;
 `render()` gives the same picture as text, `crosshair.with_crosshair`), so a cursor move costs
-neither a rebuild nor a new conversion to screen lines.
+neither a rebuild nor a new conversion to screen lines; `redraw()` repaints only the lines that
+changed.
 In ASCII mode the built text is translated character for character (the layout does not move).
 """
 
 from __future__ import annotations
 
 from collections.abc import Hashable
+from typing import Self
 
 from rich.text import Text
 from textual.app import RenderResult
+from textual.geometry import Region
 from textual.strip import Strip
 from textual.visual import Visual, visualize
 from textual_plotext import PlotextPlot
@@ -37,6 +40,7 @@ class CachedPlot(PlotextPlot):
         self._picture_lines: list[str] = []
         self._lines_key: Hashable | None = None
         self._lines: list[Strip] = []
+        self._stale = True    # the lines must be made again before the next line is drawn
 
     def picture_key(self) -> Hashable:
         """A value that changes whenever the picture without the cursor would change (size and
@@ -72,9 +76,9 @@ class CachedPlot(PlotextPlot):
         crosshair = self.crosshair()
         return picture if crosshair is None else with_crosshair(picture, crosshair, self.glyphs)
 
-    def render_line(self, y: int) -> Strip:
-        """One screen line: the picture's lines are turned into strips once per picture (the
-        costly part of drawing), and the cursor is written over them on each move."""
+    def _screen_lines(self) -> list[Strip]:
+        """The screen lines now: the picture's lines (converted once per picture) with the
+        cursor written over them (once per cursor position)."""
         picture = self._picture()
         width, height = self.size
         base_key = (id(picture), width, height, self.visual_style)
@@ -90,5 +94,34 @@ class CachedPlot(PlotextPlot):
         if key != self._lines_key:
             self._lines = strips_with_crosshair(self._strips, cells, self.visual_style.rich_style)
             self._lines_key = key
-        return self._lines[y] if 0 <= y < len(self._lines) else Strip.blank(
-            width, self.visual_style.rich_style)
+        return self._lines
+
+    def refresh(self, *regions: Region, **options) -> Self:
+        if not regions:
+            self._stale = True    # a whole repaint: the lines are made again on the next frame
+        return super().refresh(*regions, **options)
+
+    def redraw(self) -> None:
+        """After the cursor or what is shown changed: repaint only the screen lines that
+        differ from those on screen (a move in temperature changes two lines of the diagram)."""
+        if not self.is_mounted or not self.display or self._stale:
+            self.refresh()
+            return
+        before = self._lines
+        after = self._screen_lines()
+        if len(before) != len(after):
+            self.refresh()
+            return
+        width = self.size.width
+        for y, (old, new) in enumerate(zip(before, after)):
+            if old is not new:
+                super().refresh(Region(0, y, width, 1))
+
+    def render_line(self, y: int) -> Strip:
+        """One screen line, from the lines made once per frame."""
+        if self._stale:
+            self._screen_lines()
+            self._stale = False
+        lines = self._lines
+        return lines[y] if 0 <= y < len(lines) else Strip.blank(
+            self.size.width, self.visual_style.rich_style)
