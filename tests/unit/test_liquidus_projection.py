@@ -265,3 +265,21 @@ def test_only_ternaries_have_a_projection():
     system.elements = ("A", "B")
     with pytest.raises(ValueError, match="three elements"):
         map_liquidus_projection(system)
+
+
+def test_agrees_with_the_general_minimiser_with_solid_solutions(tmp_path):
+    """A consistency check against another part of ladle (not an outside value): on the shipped
+    lead-tin binary with bismuth added ideally (solid solutions fcc and bct), an alloy of an
+    invariant's or a valley's liquid composition is all liquid 0.05 K above that temperature and,
+    0.05 K below, holds the solids of the reaction (the global minimiser, `equilibrate`)."""
+    from ladle.engine.minimize.equilibrium import equilibrate
+
+    system = load_system(it.write_system_files(tmp_path)["pb-sn-bi"])
+    projection = map_liquidus_projection(system, divisions=12)
+    assert [r.equation() for r in projection.invariants] == ["liquid -> fcc + bct + rhombohedral"]
+    checks = [(r.temperature_K, r.phases[0][1], {n for n, _x, _c in r.phases} - {"liquid"}) for r in projection.invariants]
+    checks += [(*v.points[len(v.points) // 2], {"liquid", *v.solids}) for v in projection.valleys]
+    assert len(checks) == 4
+    for T, x, below in checks:
+        assert equilibrate(system, T + 0.05, np.array(x)).phase_names == ("liquid",)
+        assert set(equilibrate(system, T - 0.05, np.array(x)).phase_names) == below
