@@ -1,6 +1,6 @@
 """How many of a system's independent checks pass, remembered between runs (for `ladle systems`
 and the explorer's system picker). Only independent checks count (engine/checking/measure.py:
-not the fit targets, not the pure-element melting points).
+not the fit targets, not the pure-element data).
 
 Evaluating every check of every system maps each diagram; the counts are therefore kept in the
 user's cache folder ($XDG_CACHE_HOME/ladle/checks, default ~/.cache/ladle/checks), one small

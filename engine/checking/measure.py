@@ -3,12 +3,15 @@
 Used by `ladle check` (the `[[check]]` list, with tolerances) and at the end of `ladle fit` (the
 `[[measured]]` list, with uncertainties). Every value is the model's stable equilibrium:
 
-- melting: the pure element's melting temperature in this system (K);
+- melting: the pure element's melting temperature in this system (K); transformation (a pure
+  element's change between two solid phases) and curie (its Curie temperature in a phase): see
+  engine/checking/pure_element.py, which also melts a pure element where the diagram is not mapped;
 - invariant: the model's three-phase reaction of the same kind, with the named phases, nearest
   in temperature (from the mapped diagram); its temperature (K) and each named phase's
   composition (at%). A "congruent" fact is matched to the diagram's congruent points. A reaction
   the model does not have is reported as missing (the diagram's topology is wrong), never as a
-  large difference;
+  large difference. A binary whose diagram is not mapped (sublattice phases) has its invariants
+  measured on one alloy's transition scan instead (engine/checking/scanned_invariants.py);
 - liquidus, solidus: solved directly at the stated composition (engine/measure_boundaries.py);
 - boundary: the composition (at%) of `phase` on its stable tie-line to `partner` at the stated
   temperature, solved by Newton's method in the isothermal section;
@@ -30,6 +33,8 @@ import numpy as np
 
 from .boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
 from .enthalpy import formation_enthalpy, mixing_enthalpy
+from ..diagrams.mappable import unmapped_phases
+from ..files.facts import PURE_ELEMENT_KINDS
 from ..models.polynomials import TemperatureOutOfRange
 from ..models.system import Fact
 from ..units import mass_from_mole
@@ -101,6 +106,10 @@ def describe(fact: Fact, system) -> str:
     at% Sn (5 wt%)', 'fcc next to liquid at 500.00 K'."""
     if fact.kind == "melting":
         return f"melting of {fact.element}"
+    if fact.kind == "transformation":
+        return f"{fact.element}: {fact.phase} to {fact.partner} on cooling"
+    if fact.kind == "curie":
+        return f"Curie temperature of {fact.element} in {fact.phase}"
     if fact.kind == "invariant":
         names = [name for name, _x in (fact.phase_x or fact.phase_x_B)]
         return f"{fact.reaction} of {' + '.join(names) or 'any phases'}"
@@ -124,22 +133,23 @@ def describe(fact: Fact, system) -> str:
 
 #: The roles of a fact: an independent check (a [[check]] the model was not fitted to), a fit
 #: target (a [[measured]] fact the parameters were fitted to: agreement proves nothing), and a
-#: pure-element melting point (built into the element data, exact by construction: neither).
+#: pure element's melting point, solid-state change or Curie temperature (built into the element
+#: data: neither).
 INDEPENDENT = "independent check"
 FIT_TARGET = "fit target"
-PURE_ELEMENT = "pure-element melting point"
+PURE_ELEMENT = "pure-element data"
 
 
 def fact_role(fact: Fact, list_name: str) -> str:
     """The role of a fact of the `[[check]]` or `[[measured]]` list (`list_name` "check" or
     "measured"): INDEPENDENT, FIT_TARGET or PURE_ELEMENT."""
-    if fact.kind == "melting":
+    if fact.kind in PURE_ELEMENT_KINDS:
         return PURE_ELEMENT
     return INDEPENDENT if list_name == "check" else FIT_TARGET
 
 
 def independent_checks(system) -> list[Fact]:
-    """The system's independent checks: its [[check]] facts other than pure-element melting points."""
+    """The system's independent checks: its [[check]] facts other than pure-element data (melting points, solid-state changes, Curie temperatures)."""
     return [f for f in system.checks if fact_role(f, "check") == INDEPENDENT]
 
 
@@ -165,7 +175,7 @@ def outside_coverage(system, fact: Fact) -> str | None:
             return (f"{100 * x:.4g} at% {b} lies outside the range this model covers "
                     f"({100 * lo:g}-{100 * hi:g} at% {b})")
     t_lo, t_hi = system.model_range_K
-    if fact.kind != "melting" and not t_lo <= fact.temperature_K <= t_hi:
+    if fact.kind not in PURE_ELEMENT_KINDS and not t_lo <= fact.temperature_K <= t_hi:
         return f"{fact.temperature_K:.2f} K lies outside the range of this system's models ({t_lo:g}-{t_hi:g} K)"
     c_lo, c_hi = system.covers_K
     if not c_lo <= fact.temperature_K <= c_hi:
@@ -314,6 +324,12 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
     if reason is not None:
         return FactOutcome(fact, (), reason)
     try:
+        if fact.kind in PURE_ELEMENT_KINDS[1:] or (fact.kind == "melting" and unmapped_phases(system)):
+            from .pure_element import curie_temperature, pure_element_change
+
+            if fact.kind == "curie":
+                return curie_temperature(system, fact)
+            return pure_element_change(system, fact, *((fact.phase, fact.partner) if fact.partner else ("liquid", None)))
         if fact.kind == "melting":
             return _melting(system, fact)
         if len(system.elements) > 2:
@@ -329,6 +345,10 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
         if fact.kind in ("mixing_enthalpy", "formation_enthalpy"):
             return FactOutcome(fact, (Comparison("enthalpy", "J/mol", fact.enthalpy_J_per_mol, model_enthalpy(system, fact),
                                                  enthalpy_spread(fact)),))
+        if diagram is None and unmapped_phases(system):
+            from .scanned_invariants import scanned_invariant
+
+            return scanned_invariant(system, fact)
         if diagram is None:
             from ..diagrams.diagram import map_diagram
 
@@ -341,7 +361,7 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
 def evaluate_all(system, facts: list[Fact]) -> list[FactOutcome]:
     """The model against every fact of a list (the diagram is mapped once, if any fact needs it)."""
     diagram = None
-    if len(system.elements) == 2 and any(f.kind == "invariant" for f in facts):
+    if len(system.elements) == 2 and not unmapped_phases(system) and any(f.kind == "invariant" for f in facts):
         from ..diagrams.diagram import map_diagram
 
         diagram = map_diagram(system)

@@ -16,7 +16,11 @@ from ..units import kelvin_from, mole_from_mass
 from .plain_text import without_controls
 
 KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy",
-         "distribution_coefficient")
+         "distribution_coefficient", "transformation", "curie")
+#: Facts of a pure element (its melting point, its changes between solid phases, its Curie
+#: temperature): the element data build them in, so they are neither fit targets nor independent
+#: checks; all but the melting point are read as [[check]] facts only.
+PURE_ELEMENT_KINDS = ("melting", "transformation", "curie")
 REACTIONS = ("eutectic", "peritectic", "monotectic", "eutectoid", "peritectoid", "syntectic", "metatectic", "congruent")
 _COMMON = {"kind", "source", "note"}
 _KIND_KEYS = {
@@ -28,6 +32,8 @@ _KIND_KEYS = {
     "mixing_enthalpy": {"phase", "at_percent", "wt_percent", "temperature_C", "temperature_K", "enthalpy_J_per_mol"},
     "formation_enthalpy": {"phase", "temperature_C", "temperature_K", "enthalpy_J_per_mol"},
     "distribution_coefficient": {"element", "phase", "k", "temperature_C", "temperature_K"},
+    "transformation": {"element", "above", "below", "temperature_C", "temperature_K"},
+    "curie": {"element", "phase", "temperature_C", "temperature_K"},
 }
 _SPREAD_KEYS = {"check": ("tolerance_K", "tolerance_at", "tolerance_J"),
                 "measured": ("uncertainty_K", "uncertainty_at", "uncertainty_J")}
@@ -80,6 +86,8 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         if kind == "distribution_coefficient" and (list_name != "check" or len(system.elements) != 2):
             raise fail(f"{key}.kind", "a distribution coefficient is an independent check ([[check]]) of a "
                        "system of two elements only")
+        if kind in PURE_ELEMENT_KINDS[1:] and list_name != "check":
+            raise fail(f"{key}.kind", f"a {kind} fact of a pure element is shown with the checks ([[check]]) only")
         for k in item:
             if k not in allowed:
                 raise fail(f"{key}.{k}", f"unknown key for a {kind} fact; expected one of {', '.join(sorted(allowed))}")
@@ -126,11 +134,17 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             spread[AT_MOST_KEY] = 1.0
         fields["spread"] = spread
 
-        if kind in ("melting", "distribution_coefficient"):
+        if kind in ("melting", "distribution_coefficient", "transformation", "curie"):
             el = item.get("element")
             if el not in system.elements:
                 raise fail(f"{key}.element", f"expected one of {', '.join(system.elements)}, found {el!r}")
             fields["element"] = el
+        for k, field_name in (("above", "phase"), ("below", "partner"), ("phase", "phase")):
+            if kind in ("transformation", "curie") and k in _KIND_KEYS[kind]:
+                if item.get(k) not in system.phases:
+                    raise fail(f"{key}.{k}", f"expected a phase of this system ({', '.join(system.phases)}), "
+                                             f"found {item.get(k)!r}")
+                fields[field_name] = item[k]
         if len(system.elements) > 2:
             _read_multicomponent(item, key, kind, system, fields, fail)
         elif kind in ("liquidus", "solidus", "boundary", "mixing_enthalpy"):
@@ -206,7 +220,7 @@ def _is_model(system, name: str, model: str) -> bool:
 
 
 #: The kinds read in systems of three or more elements so far.
-MULTICOMPONENT_KINDS = ("melting", "invariant", "liquidus", "solidus", "mixing_enthalpy")
+MULTICOMPONENT_KINDS = ("melting", "invariant", "liquidus", "solidus", "mixing_enthalpy", "transformation", "curie")
 
 
 def _read_multicomponent(item: dict, key: str, kind: str, system, fields: dict,
@@ -262,12 +276,17 @@ def _phase_names(fact) -> set[str]:
     return {n for n, _x in fact.phase_x_B} | {n for n, _x in fact.phase_x}
 
 
+def named_phases(fact) -> set[str]:
+    """Every phase a fact names (an invariant's phases, a boundary's phase and partner, ...)."""
+    return _phase_names(fact) | {n for n in (fact.phase, fact.partner) if n is not None}
+
+
 def reject_repeated_facts(checks: list, measured: list, fail: Callable[[str, str], Exception]) -> None:
     """Refuse a `[[check]]` that repeats a `[[measured]]` fact: a fact the model was fitted to
     proves nothing about it, so it cannot also be an independent check. Pure-element melting
     points are exempt (they are neither: the element data build them in)."""
     for c in checks:
-        if c.kind == "melting":
+        if c.kind in PURE_ELEMENT_KINDS:
             continue
         for m in measured:
             if _same_fact(c, m):

@@ -15,7 +15,7 @@ from .plain_text import without_controls
 
 #: The key that makes a file a variant, and every key a variant file may hold.
 VARIANT_KEY = "variant_of"
-VARIANT_KEYS = {VARIANT_KEY, "without", "title", "notes"}
+VARIANT_KEYS = {VARIANT_KEY, "without", "title", "notes", "check"}
 
 
 def is_variant(doc: dict) -> bool:
@@ -27,8 +27,12 @@ def load_variant(path: Path, doc: dict, name: str | None, read: Callable[[Path],
                  load: Callable[..., object]):
     """The System of the variant file `path` (parsed as `doc`): the system of the file it names,
     less the phases it names in `without`, under the variant's name (`name`, default the file's
-    stem) and title. `read(path)` parses a TOML file; `load(path, name=...)` loads a system file.
-    Raises SystemFileError naming the variant file and the key."""
+    stem) and title. Its independent checks are the file's that name no phase left out, then
+    the variant's own `[[check]]` list (facts of the metastable diagram only), numbered after the
+    file's as in its `document` (the file's, with the variant's checks appended). `read(path)` parses
+    a TOML file; `load(path, name=...)` loads a system file. Raises SystemFileError naming the
+    variant file and the key."""
+    from .facts import named_phases, parse_facts
 
     def fail(key: str, what: str) -> SystemFileError:
         return SystemFileError(f"{path.name}: {key}: {what}")
@@ -59,4 +63,8 @@ def load_variant(path: Path, doc: dict, name: str | None, read: Callable[[Path],
         variant = system.without(tuple(without))
     except ValueError as e:
         raise fail("without", str(e)) from None
-    return replace(variant, **texts) if texts else variant
+    kept = [f for f in variant.checks if not named_phases(f) & set(without)]
+    own = [replace(f, index=f.index + len(system.checks))   # numbered after the file's own checks
+           for f in parse_facts(doc.get("check", []), "check", variant, fail)]
+    document = {**system.document, "check": list(system.document.get("check", [])) + list(doc.get("check", []))}
+    return replace(variant, checks=kept + own, document=document, **texts)

@@ -90,10 +90,10 @@ def test_checks_that_pass(system_file, capsys):
     assert main(["check", str(system_file)]) == 0
     out = capsys.readouterr().out
     assert out.startswith("Invented A-B: 1 of 1 independent checks passed\n"
-                          "(0 fit targets and 2 pure-element melting points shown apart, not counted)\n")
+                          "(0 fit targets and 2 pure-element values shown apart, not counted)\n")
     assert "PASS  check[2]: fcc next to fcc at" in out
     # the melting points come last, under their own heading
-    assert out.index("PASS  check[2]") < out.index("PURE-ELEMENT MELTING POINTS") < out.index("PASS  check[0]")
+    assert out.index("PASS  check[2]") < out.index("PURE-ELEMENT DATA") < out.index("PASS  check[0]")
     assert "source: closed form: regular-solution binodal" in out
     assert "FAIL" not in out
 
@@ -116,8 +116,8 @@ def test_json_report(system_file, capsys):
     assert (report["independent_passed"], report["independent_total"], report["fit_targets"]) == (1, 2, 0)
     facts = report["facts"]
     assert [(f["index"], f["independent"], f["role"]) for f in facts] == [
-        (0, False, "pure-element melting point"), (1, False, "pure-element melting point"), (2, True, "independent check"),
-        (3, False, "pure-element melting point"), (4, True, "independent check")]
+        (0, False, "pure-element data"), (1, False, "pure-element data"), (2, True, "independent check"),
+        (3, False, "pure-element data"), (4, True, "independent check")]
     gap = facts[2]
     assert gap["passed"] and gap["comparisons"][0]["unit"] == "at%" and gap["comparisons"][0]["tolerance"] == 0.01
     assert gap["comparisons"][0]["model"] == pytest.approx(100 * (1 - S) / 2, abs=1e-6)

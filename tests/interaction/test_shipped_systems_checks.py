@@ -77,10 +77,11 @@ SHORT_OF_CHECKS = {
                  "no liquidus, solvus or calorimetry of the liquid from a source at hand"),
     "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
                  "(one of them checked); no liquidus or calorimetric value from a source at hand"),
-    "fe-c": (0, "a published assessment used unchanged; its independent checks (pure iron, the invariants and "
-                "solubilities of both diagrams) are in tests/unit/test_fe_c.py, because ladle check evaluates "
-                "invariants on a mapped diagram, which systems with sublattice phases do not have yet"),
-    "fe-fe3c": (0, "the variant of fe-c without graphite: its checks are in tests/unit/test_fe_c.py (see fe-c)"),
+    "fe-c": (3, "a published assessment used unchanged; the evaluation's three invariants of the stable diagram "
+                "with their compositions are the checks (pure iron's values are element data, not counted); no "
+                "liquidus or calorimetric value from a source at hand"),
+    "fe-fe3c": (3, "the variant of fe-c without graphite: its cementite eutectoid and eutectic and the shared "
+                   "peritectic (see fe-c)"),
     "ge-si": (2, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not "
                  "at hand (the two distribution coefficients check the ends)"),
     "pb-sb": (2, "no liquidus temperatures from a source at hand"),

@@ -8,7 +8,9 @@ was fitted here, so every value below is an independent check of the file (and o
   97th ed. (2016); recalled from memory;
 - the invariant reactions of both diagrams and the largest carbon solubilities in austenite and
   ferrite from H. Okamoto's evaluation, J. Phase Equilib. 13 (1992) 543, as drawn in the ASM
-  Handbook Vol. 3 (1992); recalled from memory. Compositions in wt% C.
+  Handbook Vol. 3 (1992); recalled from memory.
+Those values, each with its source and tolerance, are the [[check]] facts of systems/fe-c.toml
+and fe-fe3c.toml (what `ladle check` judges); the tests here read them from the files.
 The magnetic function used to rebuild pure iron is the closed form of M. Hillert and M. Jarl,
 Calphad 2 (1978) 227, written out here independently of the engine's.
 """
@@ -30,7 +32,6 @@ from ladle.engine.units import mole_from_mass
 from ladle.tui.explorer.system_choices import not_explorable
 
 R = 8.314462618          # J/(mol K), CODATA 2018 (exact: the Avogadro constant times the Boltzmann constant)
-C_TO_K = 273.15
 
 
 @pytest.fixture(scope="module")
@@ -103,25 +104,33 @@ def test_cementite_is_the_published_function(stable, T: float) -> None:
     assert float(stable.models["Fe3C"].at(T).gibbs(np.array([1.0, 1.0]))) == pytest.approx(published, abs=0.01)
 
 
-@pytest.mark.parametrize("pair, bracket_K, handbook_C", [
-    (("bcc", "fcc"), (1100.0, 1300.0), 912.0),     # alpha -> gamma (A3 of pure iron), ASM Handbook Vol. 3
-    (("fcc", "bcc"), (1500.0, 1750.0), 1394.0),    # gamma -> delta (A4), ASM Handbook Vol. 3
-    (("bcc", "liquid"), (1750.0, 1850.0), 1538.0),  # melting, CRC Handbook 97th ed.
-])
-def test_pure_iron_transitions(stable, pair, bracket_K, handbook_C) -> None:
-    a, b = pair
-    T = brentq(lambda t: _pure_iron_G(stable, a, t) - _pure_iron_G(stable, b, t), *bracket_K, xtol=1e-9)
-    assert T - C_TO_K == pytest.approx(handbook_C, abs=1.0)
+def _pure_iron_facts(system, kind: str) -> list:
+    return [f for f in system.checks if f.kind == kind and f.element == "Fe"]
+
+
+def test_pure_iron_transitions(stable) -> None:
+    """Where the Gibbs energies of pure iron in two phases cross (scipy brentq, outside the
+    engine's minimiser), against the file's handbook values (ASM Handbook Vol. 3 for 912 and 1394 C,
+    CRC Handbook 97th ed. for melting: the source beside each [[check]] in systems/fe-c.toml)."""
+    facts = [(f, f.phase, f.partner) for f in _pure_iron_facts(stable, "transformation")]
+    facts += [(f, "bcc", "liquid") for f in _pure_iron_facts(stable, "melting")]
+    assert len(facts) == 3
+    for fact, a, b in facts:
+        T_ref = fact.temperature_K
+        T = brentq(lambda t: _pure_iron_G(stable, a, t) - _pure_iron_G(stable, b, t), T_ref - 50.0, T_ref + 50.0,
+                   xtol=1e-9)
+        assert T == pytest.approx(T_ref, abs=fact.spread["K"]), (a, b)
 
 
 def test_curie_temperature_of_ferrite(stable) -> None:
-    """The heat capacity of pure bcc iron peaks at the Curie temperature: 770 C (1043 K), ASM
-    Handbook Vol. 3 (1992)."""
+    """The heat capacity of pure bcc iron peaks at the Curie temperature of the file's check
+    (770 C, 1043 K, ASM Handbook Vol. 3 (1992)), computed here on a 0.5 K grid."""
+    (fact,) = _pure_iron_facts(stable, "curie")
     Ts = np.arange(1000.0, 1090.0, 0.5)
     h = 1e-2
     cp = [-t * (_pure_iron_G(stable, "bcc", t + h) - 2 * _pure_iron_G(stable, "bcc", t)
                 + _pure_iron_G(stable, "bcc", t - h)) / h**2 for t in Ts]
-    assert Ts[int(np.argmax(cp))] - C_TO_K == pytest.approx(770.0, abs=1.0)
+    assert Ts[int(np.argmax(cp))] == pytest.approx(fact.temperature_K, abs=fact.spread["K"])
 
 
 def _x_C(system, wt: float) -> float:
@@ -129,43 +138,44 @@ def _x_C(system, wt: float) -> float:
     return float(mole_from_mass(np.array([1.0 - wt / 100.0, wt / 100.0]), system.molar_mass)[1])
 
 
-def _wt_C(share) -> float:
-    return 100.0 * float(share.w[1])
+@pytest.mark.parametrize("which, independent", [("stable", 3), ("metastable", 3)])
+def test_the_files_checks_pass(request, which, independent) -> None:
+    """`ladle check` of both diagrams: the invariants and carbon solubilities of H. Okamoto's
+    evaluation (J. Phase Equilib. 13 (1992) 543, as drawn in ASM Handbook Vol. 3 (1992)) and pure
+    iron's handbook values, each [[check]] with its source and tolerance in systems/fe-c.toml
+    (stable: peritectic, graphite eutectic and eutectoid) and fe-fe3c.toml (metastable: eutectoid
+    with the carbon solubility in ferrite, eutectic with that in austenite; the peritectic
+    inherited). The eutectoid of fe-fe3c is checked with its ferrite, the eutectic with its
+    austenite."""
+    from ladle.engine.checking.measure import INDEPENDENT, evaluate_all, fact_role
 
-
-def _change(result, above: set, below: set):
-    return next(t for t in result.transitions if set(t.above) == above and set(t.below) == below)
-
-
-def _phases_at(system, T: float, x: float) -> dict:
-    return {p.name: _wt_C(p) for p in equilibrate(system, T, x).phases}
-
-
-# (system fixture, alloy wt% C, phases above, phases below, temperature C, {phase: (wt% C, side)}, tolerances)
-INVARIANTS = [
-    ("metastable", 0.4, {"bcc", "fcc"}, {"bcc", "Fe3C"}, 727.0, {"fcc": (0.77, "above"), "bcc": (0.022, "below")},
-     2.0, {"fcc": 0.05, "bcc": 0.006}),                                       # eutectoid (pearlite)
-    ("metastable", 3.0, {"fcc", "liquid"}, {"fcc", "Fe3C"}, 1148.0, {"liquid": (4.30, "above"), "fcc": (2.11, "above")},
-     3.0, {"liquid": 0.15, "fcc": 0.1}),                                      # eutectic (ledeburite)
-    ("stable", 0.4, {"bcc", "fcc"}, {"bcc", "graphite"}, 738.0, {"fcc": (0.68, "above")}, 2.0, {"fcc": 0.05}),
-    ("stable", 3.0, {"fcc", "liquid"}, {"fcc", "graphite"}, 1154.0, {"liquid": (4.26, "above"), "fcc": (2.08, "above")},
-     2.0, {"liquid": 0.15, "fcc": 0.1}),
-    ("stable", 0.3, {"bcc", "liquid"}, {"fcc", "liquid"}, 1495.0,
-     {"liquid": (0.53, "above"), "bcc": (0.09, "above"), "fcc": (0.17, "below")}, 2.0,
-     {"liquid": 0.05, "bcc": 0.02, "fcc": 0.03}),                             # peritectic
-]
-
-
-@pytest.mark.parametrize("which, wt, above, below, T_C, comps, tol_K, tol_wt", INVARIANTS)
-def test_invariants_and_solubilities(request, which, wt, above, below, T_C, comps, tol_K, tol_wt) -> None:
     system = request.getfixturevalue(which)
-    x = _x_C(system, wt)
-    result = alloy_transitions(system, x, highest_K=T_C + C_TO_K + 15.0, lowest_K=T_C + C_TO_K - 15.0)
-    t = _change(result, above, below)
-    assert t.temperature_K - C_TO_K == pytest.approx(T_C, abs=tol_K)
-    sides = {"above": _phases_at(system, t.temperature_K + 1e-4, x), "below": _phases_at(system, t.temperature_K - 1e-4, x)}
-    for phase, (value, side) in comps.items():
-        assert sides[side][phase] == pytest.approx(value, abs=tol_wt[phase]), phase
+    outcomes = evaluate_all(system, system.checks)
+    failed = [(o.fact.index, o.problem, [(c.quantity, c.model, c.reference) for c in o.comparisons if not c.within])
+              for o in outcomes if not o.passed]
+    assert not failed
+    assert sum(fact_role(o.fact, "check") == INDEPENDENT for o in outcomes) == independent
+    assert {o.model_reaction for o in outcomes if o.fact.kind == "invariant"} == (
+        {"peritectic", "eutectic", "eutectoid"})
+    assert ("graphite" in str([o.fact.phase_x_B for o in outcomes])) == (which == "stable")
+
+
+def test_the_checks_can_fail(metastable) -> None:
+    """A reference moved by twice its tolerance fails: the eutectoid's temperature and its
+    ferrite's carbon, the Curie temperature; a reaction of the wrong kind is named as such."""
+    from dataclasses import replace
+
+    from ladle.engine.checking.measure import evaluate
+
+    eutectoid = next(f for f in metastable.checks if f.reaction == "eutectoid")
+    moved = replace(eutectoid, temperature_K=eutectoid.temperature_K + 2 * eutectoid.spread["K"])
+    assert not evaluate(metastable, moved).passed
+    ferrite = tuple((n, x + 2 * eutectoid.spread["at:bcc"] / 100 if n == "bcc" else x) for n, x in eutectoid.phase_x_B)
+    assert not evaluate(metastable, replace(eutectoid, phase_x_B=ferrite)).passed
+    outcome = evaluate(metastable, replace(eutectoid, reaction="peritectoid"))
+    assert not outcome.passed and "is a eutectoid, not a peritectoid" in outcome.problem
+    (curie,) = _pure_iron_facts(metastable, "curie")
+    assert not evaluate(metastable, replace(curie, temperature_K=curie.temperature_K + 2 * curie.spread["K"])).passed
 
 
 @pytest.fixture(scope="module")

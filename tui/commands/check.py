@@ -4,7 +4,7 @@
   how many of them pass;
 - fit targets: the `[[measured]]` facts the parameters were fitted to, shown with their weighted
   residuals; agreement with them is not validation and is not counted;
-- pure-element melting points: built into the element data (exact by construction), neither.
+- pure-element data (melting points, solid-state changes, Curie temperatures): built into the element data, neither.
 
 A report: the exit status is 0 whether the checks pass or not, 2 on bad input.
 """
@@ -17,7 +17,7 @@ from .common import ESTIMATE_NOTE, add_system_argument, open_system, print_json,
 from .fact_table import UNITS_NOTE, fact_blocks, outcome_json
 
 HELP = ("compare a system's model with the facts in its file: independent checks (passed or failed), "
-        "fit targets and pure-element melting points shown apart")
+        "fit targets and pure-element data shown apart")
 
 
 def add_arguments(p: argparse.ArgumentParser) -> None:
@@ -55,8 +55,8 @@ def render(system, checks, targets) -> list[str]:
         head = f"{title}: {sum(o.passed for o in independent)} of {len(independent)} independent checks passed"
     else:
         head = f"{title}: the file holds no independent checks (no [[check]] fact the model was not fitted to)"
-    lines = [head, f"({len(targets)} fit target{'s' if len(targets) != 1 else ''} and {len(pure)} pure-element "
-                   f"melting point{'s' if len(pure) != 1 else ''} shown apart, not counted)", ""]
+    lines = [head, f"({len(targets)} fit target{'s' if len(targets) != 1 else ''} and {len(pure)} "
+                   f"pure-element value{'s' if len(pure) != 1 else ''} shown apart, not counted)", ""]
     if independent:
         lines += ["INDEPENDENT CHECKS: facts the model was not fitted to", ""]
         lines += fact_blocks(system, independent, "check", "tolerance", weighted=False)
@@ -64,7 +64,8 @@ def render(system, checks, targets) -> list[str]:
         lines += ["FIT TARGETS: facts the parameters were fitted to (agreement here is not validation)", ""]
         lines += fact_blocks(system, targets, "measured", "uncertainty", weighted=True)
     if pure:
-        lines += ["PURE-ELEMENT MELTING POINTS: built into the element data, exact by construction (neither kind)", ""]
+        lines += ["PURE-ELEMENT DATA: melting points, solid-state changes, Curie temperatures; built into the "
+                  "element data (neither kind)", ""]
         lines += fact_blocks(system, pure, "check", "tolerance", weighted=False)
     lines.append(UNITS_NOTE)
     lines.append(ESTIMATE_NOTE)

@@ -87,7 +87,7 @@ def outcome_json(system, outcome, spread_name: str, list_name: str | None = None
     `spread_name` names the spread: "tolerance" (checks, judged within or not) or "uncertainty"
     (measurements, with the weighted residual difference / uncertainty). With `list_name`
     ("check" or "measured") the fact also says which list it is from, its role (independent
-    check, fit target, pure-element melting point) and `independent`: true or false."""
+    check, fit target, pure-element data) and `independent`: true or false."""
     from ladle.engine.checking.measure import INDEPENDENT, describe, fact_role
 
     f = outcome.fact
