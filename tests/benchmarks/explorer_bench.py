@@ -8,9 +8,9 @@ Measures, on an 80x24 pseudo-terminal:
 - key_to_screen_ms (median and 90th percentile) in each view (diagram, energy, reactions,
   cooling): per key press, the time from writing the key to the last byte of the updated screen.
   The cursor keeps moving to new points (fine steps right and up in turn; in the cooling view
-  coarse steps up and down, since a new composition starts a computation measured apart and a
-  fine step there may change nothing on screen, which is then not redrawn); the reactions view
-  moves down its table;
+  coarse steps up and down from 200 C, inside the plotted freezing range, since a new
+  composition starts a computation measured apart and a step that changes nothing on screen
+  sends nothing); the reactions view moves down its table;
 - cooling_new_alloy_ms: in the cooling view, a step in composition to the last byte of the
   recomputed paths (median);
 - picker_open_ms: from `s` to the last byte of the system picker (median of five);
@@ -124,6 +124,8 @@ def _views(fd: int, presses: int) -> dict:
         _press(fd, key, 0.5 if view == "cooling" else QUIET_S)
         if view == "cooling":
             _read_until_quiet(fd, 0.5, 10.0)   # the first alloy's paths
+            _press(fd, "g")                    # the cursor into the plotted freezing range
+            _press(fd, "200C\r", 0.5)
         walk = WALKS[view]
         times = [_press(fd, walk[i % len(walk)]) for i in range(presses)]
         out[view] = _summary([t for t in times if t is not None])

@@ -121,6 +121,24 @@ async def test_choosing_another_system_keeps_the_units_and_redraws():
         assert "cu-ni" in screen_text(app) and "Ni " in status_text(app)
 
 
+@pilot_test
+async def test_the_picker_opens_again_with_an_empty_filter_and_the_open_system_marked():
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("s", *"no-such-alloy", "escape")
+        await pilot.press("s", *"cu-ni", "enter")
+        assert _main(app).exploration.system.name == "cu-ni"
+        await pilot.press("s")
+        picker = app.screen
+        assert isinstance(picker, SystemPicker) and picker.query_one("Input").value == ""
+        options = picker.query_one(OptionList)
+        assert options.option_count >= 2
+        assert str(options.get_option("cu-ni").prompt).startswith("* cu-ni")
+        assert str(options.get_option("pb-sn").prompt).startswith("  pb-sn")
+        await pilot.press("escape")
+        assert _main(app).exploration.system.name == "cu-ni"
+
+
 @pytest.mark.parametrize("system, T_K, x_B, zooms", [
     ("al-cu", 999.0, 0.3, 0),       # the only tie-line (liquid + theta) lies beyond the covered range
     ("pb-sn", 423.15, 0.02, 4),     # zoomed in on the lead-rich solid, far from fcc + bct's tangent

@@ -49,6 +49,7 @@ PREWARM_DELAY_S = 1.0   # the systems are loaded for the picker this long after 
 NOTICE_WAITS = 20   # frames to wait at most for notices to leave before a screenshot
 FRAME_S = 0.02
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
+PICKER = "systems"   # the name under which the system picker is kept
 
 
 def safety_headline(safety: str) -> str:
@@ -71,6 +72,7 @@ class ExploreScreen(Screen[None]):
         self.view = "diagram"
         self._save_timer = None
         self._warming = None   # the worker computing ahead for the next step
+        self._picker: SystemPicker | None = None
 
     # -- layout ----------------------------------------------------------------------------
 
@@ -246,8 +248,13 @@ class ExploreScreen(Screen[None]):
         self.action_view("diagram")
 
     def action_systems(self) -> None:
-        self.app.push_screen(SystemPicker(system_choices(), self.exploration.system.name),
-                             self._open_system)
+        current = self.exploration.system.name
+        if self._picker is None:     # built once, then kept (installed) and shown again
+            self._picker = SystemPicker(system_choices(), current)
+            self.app.install_screen(self._picker, name=PICKER)
+        else:
+            self._picker.reopen(current)
+        self.app.push_screen(PICKER, self._open_system)
 
     def _open_system(self, name: str | None) -> None:
         if not name or name == self.exploration.system.name:

@@ -39,6 +39,15 @@ class SystemPicker(ModalScreen[str | None]):
         field.focus()
         self.run_worker(self._count_checks, thread=True, exclusive=True)
 
+    def reopen(self, current: str) -> None:
+        """Ready the kept picker to be shown again: the open system marked, the filter empty
+        (the explorer keeps one picker, so that it opens without being built anew)."""
+        self.current = current
+        field = self.query_one(Input)
+        field.value = ""
+        self._fill("")
+        field.focus()
+
     def _count_checks(self) -> None:
         """In a thread: how many independent checks each system passes, then show them."""
         counted = with_check_results(self.choices)
