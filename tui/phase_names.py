@@ -52,3 +52,21 @@ def short_label(system, phase: str, x_B: float, temperature_K: float,
     if gap_side != phase:
         return f"({gap_side.split('(')[1].removesuffix('-rich)')})"
     return _trade_name(system, phase, temperature_K) or phase
+
+
+def constituent_label(system, name: str, temperature_K: float) -> str:
+    """A constituent of a freezing path ('eutectic fcc + Fe3C') with the trade's names beside its
+    phases and, where the file names what the reaction forms, beside it: 'eutectic fcc (austenite)
+    + Fe3C (cementite): ledeburite'."""
+    label = with_trade_names(system, name, temperature_K)
+    trade = constituent_trade_name(system, name)
+    return f"{label}: {trade}" if trade else label
+
+
+def constituent_trade_name(system, name: str) -> str | None:
+    """The trade's name of a constituent of a freezing path ('ledeburite' for 'eutectic fcc +
+    Fe3C') where a [[trade_line]] of the file names what its reaction forms; else None."""
+    kind, _, phases = name.partition(" ")
+    if kind not in ("eutectic", "peritectic", "monotectic") or not phases:
+        return None
+    return trade_names(system).constituent_name(phases.split(" + "), from_liquid=True)

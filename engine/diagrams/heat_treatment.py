@@ -104,6 +104,12 @@ class Constituent:
     mass_fraction: float
 
 
+def line_labels(result: AlloyTransitions, named_line: Callable) -> dict[int, str]:
+    """Index -> the trade's name of each transition of `result` that a named line fits;
+    `named_line(above, below)` gives that line (with its `name`) or None (TradeNames.line)."""
+    return {i: line.name for i, t in enumerate(result.transitions) if (line := named_line(t.above, t.below)) is not None}
+
+
 def slow_cooled_constituents(result: AlloyTransitions, labels: dict[int, str],
                              trade_name: Callable[[str, float], str | None]) -> tuple[Constituent, ...]:
     """Proeutectoid constituent and pearlite of a steel that cools slowly through A1 (the lever

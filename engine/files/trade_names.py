@@ -19,19 +19,21 @@ from .plain_text import without_controls
 #: The heat treatments a file may name (`heat_treatment`): solution treatment of age-hardening
 #: alloys, and austenitizing (hardening) of steels.
 HEAT_TREATMENTS = ("solution", "austenitizing")
-_LINE_KEYS = {"name", "above", "below", "note"}
+_LINE_KEYS = {"name", "above", "below", "note", "constituent"}
 _NAME_KEYS = {"name", "from_K", "upto_K"}
 
 
 @dataclass(frozen=True)
 class TradeLine:
     """A named line: on cooling, the stable phases change from the set `above` to the set
-    `below`; `note` (may be empty) says what the name means."""
+    `below`; `note` (may be empty) says what the name means; `constituent` (may be empty) is the
+    trade's name of what the reaction there forms (ledeburite, pearlite)."""
 
     name: str
     above: frozenset[str]
     below: frozenset[str]
     note: str = ""
+    constituent: str = ""
 
 
 @dataclass(frozen=True)
@@ -57,6 +59,13 @@ class TradeNames:
     def phase_name(self, phase: str, temperature_K: float) -> str | None:
         """The trade's name of `phase` at temperature_K (K), or None."""
         return next((n.name for n in self.phases.get(phase, ()) if n.from_K <= temperature_K < n.upto_K), None)
+
+    def constituent_name(self, phases: Iterable[str], from_liquid: bool) -> str | None:
+        """The trade's name of a constituent of `phases` formed together by a reaction of the
+        liquid (`from_liquid`) or of solids, where a line names it; else None."""
+        formed = frozenset(phases)
+        return next((ln.constituent for ln in self.lines if ln.constituent and ln.below == formed
+                     and ("liquid" in ln.above) == from_liquid), None)
 
     def line(self, above: Iterable[str], below: Iterable[str]) -> TradeLine | None:
         """The named line for a change from the phases `above` to those `below`, or None."""
@@ -145,7 +154,8 @@ def _line(entry: Any, key: str, phases: Collection[str] | None, fail: Callable[[
     note = entry.get("note", "")
     if not isinstance(note, str):
         raise fail(f"{key}.note", "expected a text")
-    return TradeLine(name, sides[0], sides[1], without_controls(note, keep_newlines=True))
+    constituent = _text(entry["constituent"], f"{key}.constituent", fail, '"pearlite"') if "constituent" in entry else ""
+    return TradeLine(name, sides[0], sides[1], without_controls(note, keep_newlines=True), constituent)
 
 
 @lru_cache(maxsize=64)

@@ -52,7 +52,7 @@ def test_table_shows_both_fractions_and_the_chosen_paths_liquid(capsys):
     assert first[2:5] == ["0.0", "0.0", "10.0"] and first[-1] == "liquid"
     # Eutectic L = (Pb) + (Sn) at 183 C: T.B. Massalski (ed.), Binary Alloy Phase Diagrams, 2nd ed. (1990).
     assert "freezing ends, Scheil: 183.0 °C (eutectic)" in out or "freezing ends, Scheil: 183.0 C (eutectic)" in out
-    assert "eutectic fcc + bct" in out
+    assert "eutectic fcc (Pb) + bct (Sn)" in out      # the trade's names beside the structure names
     assert "latent heat released: equilibrium" in out
     assert out.rstrip().endswith("Computed estimate: defer to the alloy's specification and certified data.")
     assert "safety: Lead is toxic" in out

@@ -97,6 +97,8 @@ def test_trade_lines_label_matching_changes_and_give_the_window() -> None:
     ({"trade_names": {"gamma": "austenite"}}, "trade_names.gamma"),
     ({"trade_names": {"fcc": [{"name": "x", "from_K": 900, "upto_K": 800}]}}, "trade_names.fcc[0]"),
     ({"heat_treatment": "quench"}, "heat_treatment"),
+    ({"trade_line": [{"name": "E", "above": ["liquid"], "below": ["fcc", "bct"], "constituent": 3}]},
+     "trade_line[0].constituent"),
 ])
 def test_bad_trade_names_name_the_key(doc: dict, key: str) -> None:
     def fail(k: str, what: str) -> Exception:

@@ -295,3 +295,35 @@ def test_melt_of_a_steel_takes_the_point_equilibrium_path(metastable, capsys) ->
     scan = alloy_transitions(metastable, _x_C(metastable, 0.4), highest_K=1800.0, lowest_K=1700.0)
     assert doc["liquidus_K"] == pytest.approx(scan.liquidus_K, abs=1e-3)
     assert doc["solidus_K"] == pytest.approx(scan.solidus_K, abs=1e-3)
+
+
+def test_constituents_carry_the_trade_names(metastable, stable) -> None:
+    """Ledeburite is the eutectic constituent of white iron (austenite + cementite) and pearlite
+    the eutectoid one (ferrite + cementite) (ASM Handbook Vol. 9, Metallography and
+    Microstructures (2004), glossary); the graphite eutectic of grey iron has no such name here."""
+    from ladle.tui.phase_names import constituent_label, constituent_trade_name
+
+    names = trade_names(metastable)
+    assert names.constituent_name(["fcc", "Fe3C"], from_liquid=True) == "ledeburite"
+    assert names.constituent_name(["bcc", "Fe3C"], from_liquid=False) == "pearlite"
+    assert names.constituent_name(["bcc", "Fe3C"], from_liquid=True) is None
+    assert constituent_trade_name(stable, "eutectic fcc + graphite") is None
+    assert constituent_trade_name(metastable, "primary fcc") is None
+    assert constituent_label(metastable, "eutectic fcc + Fe3C", 1421.0) == \
+        "eutectic fcc (austenite) + Fe3C (cementite): ledeburite"
+
+
+def test_cool_of_a_white_iron_names_ledeburite(capsys) -> None:
+    """`ladle cool fe-fe3c --json` of a white iron (3 wt% C): its eutectic constituent is
+    ledeburite on both paths, and no slow-cooled steel constituents (a cast iron's cementite
+    above A1 is partly eutectic)."""
+    import json
+
+    from ladle.tui.cli import main
+
+    assert main(["cool", "fe-fe3c", "--comp", "C=3wt%", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    for part in (doc["equilibrium"], doc["scheil"]):
+        assert {c["name"]: c["trade_name"] for c in part["constituents"]} == {
+            "primary fcc": None, "eutectic fcc + Fe3C": "ledeburite"}
+    assert doc["slow_cooled_constituents"] is None

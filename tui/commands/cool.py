@@ -42,8 +42,9 @@ def run(args: argparse.Namespace) -> int:
     mapped = binary and not unmapped_phases(system)
     result = solidify(system, float(x[1])) if mapped else solidify_alloy(system, x)
     model = "scheil" if args.scheil else "equilibrium"
+    constituents = _slow_cooled(system, x, result)
     if args.json:
-        print_json(result.to_json(model))
+        print_json(_json(system, result, model, constituents))
         return 0
     element = comp.shown_element
     alloy = composition_both(system, float(x[1]), element, comp.basis) if binary else alloy_both(system, x, comp.basis)
@@ -53,9 +54,41 @@ def run(args: argparse.Namespace) -> int:
     else:
         shown = [element] if binary else [e for e in system.elements if e != comp.balance]
         lines += table(system, result, model, args.unit, shown, comp.basis)
-    lines += summary(system, result, args.unit)
+    lines += summary(system, result, args.unit, constituents)
     print("\n".join(ascii_text(lines, args.ascii)))
     return 0
+
+
+def _slow_cooled(system, x, result) -> tuple:
+    """A steel's constituents after slow cooling through A1 (proeutectoid ferrite or cementite,
+    pearlite), from the transition scan between the end of equilibrium freezing and the bottom of
+    the file's diagram window, where the file names austenitizing as its heat treatment; else ()
+    (also for a cast iron, whose equilibrium freezing ends in a eutectic)."""
+    from ladle.engine.files.trade_names import trade_names
+
+    names = trade_names(system)
+    end = result.equilibrium.end_K
+    if (names.heat_treatment != "austenitizing" or end is None
+            or any("eutectic" in c.name for c in result.equilibrium.constituents)):
+        return ()
+    from ladle.engine.diagrams.alloy_transitions import alloy_transitions
+    from ladle.engine.diagrams.heat_treatment import line_labels, slow_cooled_constituents
+
+    scan = alloy_transitions(system, x, highest_K=end + 2.0, lowest_K=system.temperature_range_K[0])
+    return slow_cooled_constituents(scan, line_labels(scan, names.line), names.phase_name)
+
+
+def _json(system, result, model: str, constituents) -> dict:
+    """The result's JSON with each constituent's trade name (`trade_name`, or null) and a steel's
+    slow-cooled constituents (`slow_cooled_constituents`, or null)."""
+    from ..phase_names import constituent_trade_name
+
+    data = result.to_json(model)
+    for part in (data, data["equilibrium"], data["scheil"]):
+        for c in part["constituents"]:
+            c["trade_name"] = constituent_trade_name(system, c["name"])
+    data["slow_cooled_constituents"] = [{"name": c.name, "mass_fraction": c.mass_fraction} for c in constituents] or None
+    return data
 
 
 # --- text --------------------------------------------------------------------------------------
@@ -135,15 +168,20 @@ def table(system, result, model: str, unit: str, elements: list[str], basis: str
     return out
 
 
-def summary(system, result, unit: str) -> list[str]:
-    """Ends of freezing, the structure at the end, latent heat and arrests of both paths."""
+def summary(system, result, unit: str, constituents=()) -> list[str]:
+    """Ends of freezing, the structure at the end (with the trade's names), latent heat and arrests
+    of both paths, and a steel's `constituents` after slow cooling (see _slow_cooled)."""
+    from ..phase_names import constituent_label
+    from .transitions import slow_cooled_lines
+
     paths = [result.path(model) for model in PATH_NAMES]
     out = [""]
     for p in paths:
         end = "liquid remains in the mapped window" if p.end_K is None else \
             f"{quote.temperature(p.end_K, unit)} ({p.end})"
         out.append(f"freezing ends, {PATH_NAMES[p.model]}: {end}")
-    structure = structure_rows(result)
+    named_at = result.equilibrium.end_K or result.equilibrium.liquidus_K
+    structure = [(constituent_label(system, name, named_at), f) for name, f in structure_rows(result)]
     width = max([34] + [len(name) + 2 for name, _ in structure])
     out += ["", f"{'structure at the end, mass %':<{width + 2}}{'equilibrium':>12}{'Scheil':>10}"]
     for name, fractions in structure:
@@ -158,6 +196,7 @@ def summary(system, result, unit: str) -> list[str]:
             out.append(f"  {quote.temperature(a.temperature_K, unit):>12}  {a.description}{heat}")
         out += [f"  note: {n}" for n in p.notes]
     out.append("Scheil takes no diffusion in the solid and a fully mixed liquid; a real casting lies between the paths.")
+    out += slow_cooled_lines(constituents)
     out += closing_lines(system)
     return out
 

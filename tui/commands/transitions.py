@@ -30,6 +30,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ladle.engine.diagrams.alloy_transitions import alloy_transitions
+    from ladle.engine.diagrams.heat_treatment import line_labels
     from ladle.engine.files.trade_names import trade_names
     from ladle.engine.units import mass_from_mole
 
@@ -39,8 +40,7 @@ def run(args: argparse.Namespace) -> int:
         raise CommandError(f"--step {args.step:g}: expected a scan step between 0.01 and 100 K")
     result = alloy_transitions(system, x, **({} if args.step is None else {"step_K": args.step}))
     names = trade_names(system)
-    labels = {i: line.name for i, t in enumerate(result.transitions)
-              if (line := names.line(t.above, t.below)) is not None}
+    labels = line_labels(result, names.line)
     window = _window(system, result, labels, names.heat_treatment)
     constituents = ()
     if names.heat_treatment == "austenitizing":
@@ -147,12 +147,19 @@ def _render(system, result, labels, names, window, constituents, alloy, x, w, un
         lines.append("")
         lines += _window_lines(window, names, unit)
         lines.append(SPECIFICATION_NOTE)
-    if constituents:
-        parts = ", ".join(f"{c.name} {quote.percent(c.mass_fraction)} wt%" for c in constituents)
-        lines += ["", f"after slow cooling through A1 (lever rule, equilibrium): {parts}", COOLING_NOTE]
+    lines += slow_cooled_lines(constituents)
     for warning in result.warnings:
         lines.append(f"warning: {warning}")
     return lines + closing_lines(system)
+
+
+def slow_cooled_lines(constituents) -> list[str]:
+    """A steel's constituents after slow cooling through A1 (mass fractions) with the caution that
+    real cooling rates change them; nothing where there are none."""
+    if not constituents:
+        return []
+    parts = ", ".join(f"{c.name} {quote.percent(c.mass_fraction)} wt%" for c in constituents)
+    return ["", f"after slow cooling through A1 (lever rule, equilibrium): {parts}", COOLING_NOTE]
 
 
 def _window_lines(window, names, unit: str) -> list[str]:
