@@ -18,7 +18,7 @@ from .glyphs import Glyphs
 from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
 from .diagram_drawing import plot_area
 
-ENVELOPE_POINTS = 120        # envelope samples across the window
+ENVELOPE_POINTS = 120        # envelope samples across the window (drawn: one per cell)
 CURVE_COLOURS = ("cyan", "magenta", "green", "blue", "yellow", "white")
 TANGENT_COLOUR = "yellow"
 ENVELOPE_COLOUR = "white"
@@ -77,7 +77,7 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
         keep = inside(x) & (y <= frame.y_high + span)
         if not (keep & (y >= frame.y_low) & (y <= frame.y_high)).any():
             continue   # nothing of it on the plot (a labelled series must show somewhere)
-        xs, ys = thin_polyline(shown_x[keep], y[keep], frame)
+        xs, ys = thin_polyline(shown_x[keep], y[keep], frame, per_cell=(1, 1))
         curves.append((name, xs.tolist(), ys.tolist()))
         lowest = int(np.argmin(ys))
         labels.append(Label(name, float(xs[lowest]), float(ys[lowest]) - span * 0.08))
@@ -89,8 +89,8 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
         g_ends = np.array([tie.mu[0] * (1 - xb) + tie.mu[1] * xb for xb in ends])
         tangents.append((scales.shown_composition(ends), relative(ends, g_ends)))
     element_B = exploration.system.elements[1]
-    return EnergyScene(frame, curves, points, (scales.shown_composition(x_env).tolist(),
-                                               env_rel.tolist()),
+    envelope = thin_polyline(scales.shown_composition(x_env), env_rel, frame, per_cell=(1, 1))
+    return EnergyScene(frame, curves, points, (envelope[0].tolist(), envelope[1].tolist()),
                        joined(tangents), place_labels(labels, frame),
                        f"{element_B} {scales.composition_unit}%   G kJ/mol, relative (see right)")
 
