@@ -88,6 +88,8 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
     x = _mole_fractions(layout, system, percent)
     if len(system.elements) == 2:
         _note_outside_coverage(layout, system, rows, x[:, 1], reason)
+    else:
+        _note_outside_element_ranges(layout, system, rows, x, reason)
     ok = reason == ""
     names = ("liquidus", "solidus", "eutectic", "end", "eutectic_scheil")
     values = {name: np.full(rows.count, np.nan) for name in names}
@@ -158,6 +160,15 @@ def _note_outside_coverage(layout: Layout, system, rows: Rows, x_b: np.ndarray, 
         problem = coverage_problem(system, float(x_b[k]), f"{layout.labels[0]} {rows.raws[0][k]}")
         if problem:
             reason[k] = problem
+
+
+def _note_outside_element_ranges(layout: Layout, system, rows: Rows, x: np.ndarray, reason: np.ndarray) -> None:
+    """Give the alloys of three or more elements outside the range the model covers their reason."""
+    from .commands.common import alloy_coverage_problem
+
+    for k in np.flatnonzero(~system.covered(x) & (reason == "")):
+        what = ", ".join(f"{label} {raw[k]}" for label, raw in zip(layout.labels, rows.raws))
+        reason[k] = alloy_coverage_problem(system, x[k], what)
 
 
 def _input_cells(layout: Layout, rows: Rows) -> np.ndarray:

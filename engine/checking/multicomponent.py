@@ -19,7 +19,15 @@ from .measure import Comparison, FactOutcome, composition_factor, composition_sp
 
 
 def evaluate_multicomponent(system, fact: Fact) -> FactOutcome:
-    """The model against one fact of a system of three or more elements."""
+    """The model against one fact of a system of three or more elements; a fact whose
+    composition lies outside the range the model covers is not measured (its problem says so)."""
+    stated = [fact.x] if fact.x is not None else []
+    stated += [x for n, x in fact.phase_x if n == "liquid" and x is not None]
+    for x in stated:
+        if not system.covered(x):
+            at = ", ".join(f"{el} {100 * v:.4g}" for el, v in zip(system.elements[1:], x[1:]))
+            return FactOutcome(fact, (), f"{at} at% lies outside the range this model covers "
+                                         f"({system.covered_range_text()})")
     if fact.kind in ("liquidus", "solidus"):
         from ..diagrams.alloy_transitions import alloy_transitions
 

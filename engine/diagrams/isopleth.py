@@ -208,6 +208,7 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
     if min(start + end) < 0.0 or abs(sum(start) - 1.0) > 1e-9 or abs(sum(end) - 1.0) > 1e-9:
         raise ValueError("a section's ends must hold non-negative fractions summing to 1")
     T_lo, T_hi = temperature_range_K or system.temperature_range_K
+    start, end, clipped = covered_part(system, start, end, basis)
     mapper = _Mapper(system, start, end, basis)
     us = np.linspace(0.0, 1.0, columns)
     Ts = np.linspace(T_hi, T_lo, rows)
@@ -228,7 +229,45 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
     fields = _fields(keys, us, Ts)
     invariants = _invariants(edges, len(system.elements))
     return Isopleth(system, start, end, basis, element, (float(T_lo), float(T_hi)), tuple(lines), tuple(fields),
-                    tuple(invariants), tuple(dict.fromkeys(mapper.warnings)))
+                    tuple(invariants), tuple(dict.fromkeys(clipped + mapper.warnings)))
+
+
+def covered_part(system, start: tuple[float, ...], end: tuple[float, ...],
+                 basis: str) -> tuple[tuple[float, ...], tuple[float, ...], list[str]]:
+    """(start, end, warnings): the part of the section from `start` to `end` (fractions in
+    `basis`) that lies in the range the model covers (System.element_ranges), with a warning
+    where that cut it short. Each element's mole fraction is a ratio of two linear functions of
+    the section's parameter, so each bound is one linear inequality in it. Raises ValueError with
+    one line where no part of the section is covered."""
+    a, b = np.asarray(start), np.asarray(end) - np.asarray(start)
+    per_mole = 1.0 / np.asarray(system.molar_mass) if basis == "wt" else np.ones(len(a))
+    na, nb = a * per_mole, b * per_mole            # amounts (per unit of the basis) at u: na + u nb
+    u_lo, u_hi = 0.0, 1.0
+    for (x_lo, x_hi), ca, cb in zip(system.element_ranges, na, nb):
+        # x_lo * total(u) <= amount(u) <= x_hi * total(u), each as c0 + c1 u >= 0
+        for c0, c1 in ((ca - x_lo * na.sum(), cb - x_lo * nb.sum()), (x_hi * na.sum() - ca, x_hi * nb.sum() - cb)):
+            c0 += 1e-12 * na.sum()
+            if abs(c1) < 1e-15:
+                if c0 < 0.0:
+                    u_lo, u_hi = 1.0, 0.0
+            elif c1 > 0.0:
+                u_lo = max(u_lo, -c0 / c1)
+            else:
+                u_hi = min(u_hi, -c0 / c1)
+    if u_hi - u_lo <= 1e-9:
+        raise ValueError(f"the section lies outside the range this model covers ({_range_text(system)})")
+    if u_lo <= 1e-12 and u_hi >= 1.0 - 1e-12:
+        return start, end, []
+    ends = tuple(tuple(float(v) for v in a + u * b) for u in (u_lo, u_hi))
+    return ends[0], ends[1], [f"drawn only over the range this model covers ({_range_text(system)})"]
+
+
+def _range_text(system) -> str:
+    """The covered range in words (at%)."""
+    if len(system.elements) == 2:
+        lo, hi = system.covers
+        return f"{100 * lo:g}-{100 * hi:g} at% {system.elements[1]}"
+    return system.covered_range_text()
 
 
 def _sides(phase: str, ka, kb) -> tuple[tuple[str, ...], tuple[str, ...]]:

@@ -91,13 +91,35 @@ def _spread(points: np.ndarray, count: int) -> list[int]:
     return chosen
 
 
+def covered_nodes(system, divisions: int) -> np.ndarray:
+    """The grid nodes (mole fractions, shape (k, 3)) of the part of the triangle the model
+    covers: the whole triangle's `divisions` steps per side, or a finer grid, about as many nodes,
+    over a smaller covered range (System.element_ranges; a triangle of n steps holds n^2 / 2 nodes, a
+    box of widths w1, w2 about w1 w2 n^2)."""
+    ranges = system.element_ranges
+    widths = np.sort(ranges[:, 1] - ranges[:, 0])
+    steps = max(divisions, int(np.ceil(divisions / np.sqrt(2.0 * widths[0] * widths[1]))))
+    nodes = triangle_nodes(divisions) if steps == divisions else _nodes_within(ranges, steps)
+    return nodes[system.covered(nodes)]
+
+
+def _nodes_within(ranges: np.ndarray, steps: int) -> np.ndarray:
+    """The nodes of a grid of `steps` steps per side whose second and third mole fractions lie
+    in their `ranges` ((3, 2) mole fractions)."""
+    j, k = (np.arange(int(np.ceil(lo * steps - 1e-9)), int(np.floor(hi * steps + 1e-9)) + 1) for lo, hi in ranges[1:])
+    jj, kk = np.meshgrid(j, k, indexing="ij")
+    jj, kk = jj.ravel(), kk.ravel()
+    keep = jj + kk <= steps
+    return np.column_stack([steps - jj[keep] - kk[keep], jj[keep], kk[keep]]).astype(float) / steps
+
+
 def map_isothermal(system, temperature_K: float, divisions: int = DEFAULT_DIVISIONS) -> IsothermalSection:
     """The isothermal section of the ternary `system` at temperature_K (K) on a grid of
     `divisions` steps per side. Raises ValueError for a system of other than three elements."""
     if len(system.elements) != 3:
         raise ValueError(f"an isothermal section on a triangle needs a ternary system; {system.name} has "
                          f"{len(system.elements)} elements")
-    nodes = triangle_nodes(divisions)
+    nodes = covered_nodes(system, divisions)
     groups: dict[tuple[str, ...], list] = {}
     warnings = []
     for x in nodes:
@@ -123,4 +145,6 @@ def map_isothermal(system, temperature_K: float, divisions: int = DEFAULT_DIVISI
                     triangles.append(corners)
         fields.append(SectionRegion(phases, len(members), tuple(float(v) for v in middle), tuple(ties),
                                      tuple(triangles)))
+    if system.covers_elements:
+        warnings.append(f"mapped only over the range this model covers ({system.covered_range_text()})")
     return IsothermalSection(system, float(temperature_K), tuple(fields), tuple(dict.fromkeys(warnings)))

@@ -18,6 +18,7 @@ import numpy as np
 from ..errors import SystemFileError
 from . import bounds as limits
 from .alloys import read_alloys
+from .coverage import read_element_ranges
 from .facts import parse_facts, reject_repeated_facts
 from .trade_names import read_trade_names
 from .variants import is_variant, load_variant
@@ -211,11 +212,11 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         masses.append(m)
     r.known_keys(mm, set(elements), "molar_mass")
     source = r.text(doc["source"], "source")
-    covers = (0.0, 1.0)
-    if "covers_at_percent" in doc:
+    covers, covers_elements = (0.0, 1.0), {}
+    if "covers_at_percent" in doc and len(elements) > 2:
+        covers_elements = read_element_ranges(doc["covers_at_percent"], elements, r.fail)
+    elif "covers_at_percent" in doc:
         c = doc["covers_at_percent"]
-        if len(elements) != 2:
-            raise r.fail("covers_at_percent", "is read for two-element systems only (at% of the second element)")
         if not isinstance(c, list) or len(c) != 2:
             raise r.fail("covers_at_percent", "expected [from, to] in at% of " + elements[1])
         lo, hi = (r.number(v, "covers_at_percent") for v in c)
@@ -264,6 +265,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         notes=r.text(doc["notes"], "notes") if "notes" in doc else "",
         covers=covers,
         covers_K=covers_K,
+        covers_elements=covers_elements,
         declared_temperature_range_K=t_range,
         document=doc,
     )

@@ -56,7 +56,8 @@ class System:
     general SublatticePhase otherwise; `models` holds every phase in the general form, built
     from the same parsed parameters.
     `covers` is the range of x_B (mole fraction; binaries) and `covers_K` the range of
-    temperature (K) the model is meant for.
+    temperature (K) the model is meant for; `covers_elements` the range of mole fraction of each
+    element it names (systems of three or more elements; an element not named may take any).
     """
 
     name: str
@@ -71,6 +72,7 @@ class System:
     notes: str = ""
     covers: tuple[float, float] = (0.0, 1.0)
     covers_K: tuple[float, float] = (0.0, float("inf"))
+    covers_elements: dict[str, tuple[float, float]] = field(default_factory=dict)
     declared_temperature_range_K: tuple[float, float] | None = None
     checks: list[Fact] = field(default_factory=list)
     measured: list[Fact] = field(default_factory=list)
@@ -97,6 +99,28 @@ class System:
         if not kept:
             raise ValueError(f"{self.name}: leaving out {', '.join(names)} leaves no phase")
         return replace(self, phases={n: self.phases[n] for n in kept}, models={n: self.models[n] for n in kept})
+
+    @property
+    def element_ranges(self) -> np.ndarray:
+        """(N, 2): the lowest and highest mole fraction of each element (the system's order)
+        that the model covers; a binary's from `covers`."""
+        if len(self.elements) == 2:
+            lo, hi = self.covers
+            return np.array([[1.0 - hi, 1.0 - lo], [lo, hi]])
+        return np.array([self.covers_elements.get(el, (0.0, 1.0)) for el in self.elements])
+
+    def covered(self, x) -> np.ndarray | bool:
+        """Whether the model covers each composition of `x` (mole fractions in the system's
+        order: shape (N,) gives a bool, (k, N) an array of k)."""
+        x = np.asarray(x, dtype=float)
+        r = self.element_ranges
+        inside = (x >= r[:, 0] - 1e-12) & (x <= r[:, 1] + 1e-12)
+        return bool(inside.all()) if x.ndim == 1 else inside.all(axis=-1)
+
+    def covered_range_text(self) -> str:
+        """'Ag 0-5.5 at%, Cu 0-3.7 at%': the ranges of a system of three or more elements that
+        names them (at%), else ''."""
+        return ", ".join(f"{el} {100 * lo:g}-{100 * hi:g} at%" for el, (lo, hi) in self.covers_elements.items())
 
     @cached_property
     def model_range_K(self) -> tuple[float, float]:

@@ -24,9 +24,11 @@ bismuth added ideally, for tests and benchmarks through the engine itself.
 from __future__ import annotations
 
 from itertools import combinations
-from types import SimpleNamespace
+from types import MethodType, SimpleNamespace
 
 import numpy as np
+
+from ladle.engine.models.system import System
 
 R = 8.314462618            # J/(mol K), CODATA 2018
 ELEMENTS = ("A", "B", "C")
@@ -93,9 +95,14 @@ def _liquid_model() -> _Model:
 
 
 def _system(name: str, models: dict) -> SimpleNamespace:
-    return SimpleNamespace(name=name, elements=ELEMENTS, molar_mass=MOLAR_MASS, models=models, title="",
-                           safety="", temperature_range_K=(400.0, 1400.0), model_range_K=(1.0, 6000.0),
-                           covers_K=(0.0, float("inf")), kind=name, alloys=())
+    """A stand-in System covering every composition (its coverage tests are System's own)."""
+    system = SimpleNamespace(name=name, elements=ELEMENTS, molar_mass=MOLAR_MASS, models=models, title="",
+                             safety="", temperature_range_K=(400.0, 1400.0), model_range_K=(1.0, 6000.0),
+                             covers_K=(0.0, float("inf")), kind=name, alloys=(), covers_elements={},
+                             element_ranges=np.array([[0.0, 1.0]] * len(ELEMENTS)))
+    system.covered = MethodType(System.covered, system)
+    system.covered_range_text = MethodType(System.covered_range_text, system)
+    return system
 
 
 def eutectic_system() -> SimpleNamespace:
@@ -248,3 +255,19 @@ def write_system_files(folder) -> dict[str, object]:
     paths["ideal-eutectic"].write_text(EUTECTIC_FILE)
     paths["pb-sn-bi"].write_text(LEAD_TIN_BISMUTH_FILE)
     return paths
+
+
+#: An invented covered range for the ideal eutectic (Pb the balance).
+COVERS = "covers_at_percent = { Sn = [0, 30], Bi = [5, 20] }"
+
+
+def write_covered_file(folder, covers: str = COVERS):
+    """The invented ideal ternary eutectic with the covered range `covers` (a covers_at_percent
+    line), written as ideal-covered.toml into `folder`; returns its path."""
+    from pathlib import Path
+
+    text = EUTECTIC_FILE.replace("temperature_range_K = [400, 1400]\n",
+                                 f"temperature_range_K = [400, 1400]\n{covers}\n")
+    path = Path(folder) / "ideal-covered.toml"
+    path.write_text(text)
+    return path

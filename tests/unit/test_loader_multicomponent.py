@@ -284,7 +284,8 @@ CASES = [
      '[[check]]\nkind = "boundary"\nsource = "s"\ntemperature_K = 900\n[phase.liquid]', "check[0].kind",
      "two-element systems only"),
     ("covered range in a three-element file", 'source = "Invented test data."',
-     'source = "Invented test data."\ncovers_at_percent = [0, 50]', "covers_at_percent", "two-element systems only"),
+     'source = "Invented test data."\ncovers_at_percent = [0, 50]', "covers_at_percent",
+     "expected a table of [from, to] at% per element"),
     ("too many elements", 'elements = ["A", "B", "C"]', "elements = [" + ", ".join(f'"{a}{b}"' for a in "ABCD" for b in "abcd") + "]",
      "elements", "at most 12"),
 ]

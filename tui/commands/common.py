@@ -77,10 +77,10 @@ def read_alloy(system, specs: str | list[str]):
     spec = parse_alloy(composition_specs(system, specs))
     alloy = resolve_alloy(spec, tuple(system.elements))
     x = alloy.mole_fractions(system.molar_mass)
-    if len(system.elements) == 2:
-        problem = coverage_problem(system, float(x[1]), spec.text)
-        if problem:
-            raise CommandError(f"{problem}; no answer is given there")
+    problem = (coverage_problem(system, float(x[1]), spec.text) if len(system.elements) == 2
+               else alloy_coverage_problem(system, x, spec.text))
+    if problem:
+        raise CommandError(f"{problem}; no answer is given there")
     return x, alloy
 
 
@@ -103,6 +103,14 @@ def coverage_problem(system, x_b: float, what: str) -> str | None:
     return f"{what} lies outside the range this model covers ({100 * lo:g}-{100 * hi:g} at% {system.elements[1]})"
 
 
+def alloy_coverage_problem(system, x, what: str) -> str | None:
+    """Why `what` (an alloy of mole fractions x of every element, three or more) gets no answer,
+    or None if the model covers it."""
+    if system.covered(x):
+        return None
+    return f"{what} lies outside the range this model covers ({system.covered_range_text()})"
+
+
 def temperature_kelvin(system, text: str):
     """Parsed --temp, refused outside the temperatures the models are defined for."""
     t = parse_temperature(text)
@@ -123,6 +131,8 @@ def system_title(system) -> str:
 
 def coverage_note(system) -> str:
     """ "(model covers 0-45 at% Ag only)" for a model of part of the composition range, else ""."""
+    if len(system.elements) > 2:
+        return f"(model covers {system.covered_range_text()} only)" if system.covers_elements else ""
     lo, hi = system.covers
     if (lo, hi) == (0.0, 1.0):
         return ""

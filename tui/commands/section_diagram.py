@@ -191,6 +191,10 @@ def _projection(system, args: argparse.Namespace) -> int:
     with the primary fields labelled, the four-phase reactions listed (hottest first); or --json."""
     from ladle.engine.diagrams.liquidus_projection import map_liquidus_projection
 
+    if system.covers_elements:
+        raise CommandError(f"{system.name} covers only part of the triangle ({system.covered_range_text()}): its "
+                           f"liquidus projection is not drawn; give --comp with --vary (an isopleth) or --temp "
+                           f"(an isothermal section), which stop at the edge of that range")
     try:
         projection = map_liquidus_projection(system)
     except ValueError as e:

@@ -36,7 +36,7 @@ def run(args: argparse.Namespace) -> int:
             continue
         passed, total = check_counts(s)
         rows.append({"name": e.name, "origin": e.origin, "path": str(e.path), "title": s.title,
-                     "elements": list(s.elements), "covers_at_percent": [100 * s.covers[0], 100 * s.covers[1]],
+                     "elements": list(s.elements), "covers_at_percent": _covers_at_percent(s),
                      "source": s.source, "safety": s.safety,
                      "independent_checks": total, "independent_checks_passed": passed,
                      "fit_targets": len(s.measured)})
@@ -50,6 +50,14 @@ def run(args: argparse.Namespace) -> int:
     return 0
 
 
+def _covers_at_percent(system) -> list[float] | dict[str, list[float]]:
+    """The covered range as the file writes it (at%): [from, to] of a binary's second element, or
+    {element: [from, to]} of a system of three or more elements ({} where it covers all)."""
+    if len(system.elements) == 2:
+        return [100 * system.covers[0], 100 * system.covers[1]]
+    return {el: [round(100 * lo, 9), round(100 * hi, 9)] for el, (lo, hi) in system.covers_elements.items()}
+
+
 def render_row(row: dict, width: int) -> list[str]:
     """One system's lines, wrapped to `width` columns: name and title, independent checks
     passed (and the fit targets, not counted), source."""
@@ -60,8 +68,13 @@ def render_row(row: dict, width: int) -> list[str]:
 
     if "error" in row:
         return wrapped(f"{row['name']:<{_NAME - 1}} ", f"(unreadable) {row['error']}")
-    lo, hi = row["covers_at_percent"]
-    span = "" if (lo, hi) == (0, 100) else f" [covers {lo:g}-{hi:g} at% {row['elements'][1]}]"
+    covers = row["covers_at_percent"]
+    if isinstance(covers, dict):
+        text = ", ".join(f"{el} {lo:g}-{hi:g} at%" for el, (lo, hi) in covers.items())
+        span = f" [covers {text}]" if text else ""
+    else:
+        lo, hi = covers
+        span = "" if (lo, hi) == (0, 100) else f" [covers {lo:g}-{hi:g} at% {row['elements'][1]}]"
     mark = " (yours)" if row["origin"] == "user" else ""
     lines = wrapped(f"{row['name']:<{_NAME - 1}} ", f"{row['title'] or '-'.join(row['elements'])}{span}{mark}")
     total, passed = row["independent_checks"], row["independent_checks_passed"]

@@ -3,7 +3,8 @@ the element that varies along it, and the cursor on it.
 
 Plain Python (no screen code). The alloy is held as fractions of every element in mole fractions
 (the at% basis); the balance is the system's first element; one other element varies along the
-section, from 0 to SECTION_SHARE (or less, where the other elements leave less room). The
+section, from 0 to SECTION_SHARE (or less, where the other elements, or the range the model
+covers, leave less room). The
 cursor is a position u along the section (0 at its start, 1 at its end) and a temperature (K).
 Every thermodynamic answer comes from the engine: the isopleth (ladle.engine.diagrams.isopleth)
 and the point equilibrium at the cursor.
@@ -48,9 +49,11 @@ class SectionExploration:
                  temperature_K: float | None = None) -> None:
         self.system = system
         n = len(system.elements)
-        if alloy is None:
-            alloy = np.full(n, OPENING_SHARE)
-            alloy[0] = 1.0 - OPENING_SHARE * (n - 1)
+        if alloy is None:   # OPENING_SHARE of each, or the middle of its range where the model covers less
+            ranges = system.element_ranges
+            alloy = np.where((ranges[:, 0] <= OPENING_SHARE) & (OPENING_SHARE <= ranges[:, 1]),
+                             OPENING_SHARE, ranges.mean(axis=1))
+            alloy[0] = 1.0 - alloy[1:].sum()
         self.alloy = np.asarray(alloy, dtype=float)
         self.varying = varying
         self.T_low, self.T_high = system.temperature_range_K
@@ -67,20 +70,28 @@ class SectionExploration:
         """The element that varies along the section."""
         return self.system.elements[self.varying]
 
-    def _top(self, alloy: np.ndarray | None = None) -> float:
-        """The varying element's largest mole fraction on the section through `alloy` (default:
-        the current one)."""
+    def _span(self, alloy: np.ndarray | None = None) -> tuple[float, float]:
+        """The varying element's smallest and largest mole fraction on the section through
+        `alloy` (default: the current one): from 0 to SECTION_SHARE, less where the other
+        elements leave less room, and within the range the model covers (the balance's too)."""
         alloy = self.alloy if alloy is None else alloy
         others = sum(v for i, v in enumerate(alloy) if i not in (0, self.varying))
-        return min(SECTION_SHARE, 1.0 - others)
+        (lo, hi), (balance_lo, balance_hi) = self.system.element_ranges[[self.varying, 0]]
+        return (max(0.0, lo, 1.0 - others - balance_hi),
+                min(SECTION_SHARE, 1.0 - others, hi, 1.0 - others - balance_lo))
+
+    def _top(self, alloy: np.ndarray | None = None) -> float:
+        """The varying element's largest mole fraction on the section through `alloy`."""
+        return self._span(alloy)[1]
 
     def _u_of(self, fraction: float) -> float:
-        return min(max(fraction / self._top(), 0.0), 1.0)
+        bottom, top = self._span()
+        return min(max((fraction - bottom) / (top - bottom), 0.0), 1.0)
 
     def ends(self) -> tuple[tuple[float, ...], tuple[float, ...]]:
         """Mole fractions of every element at the start (u = 0) and end (u = 1) of the section."""
         start, end = self.alloy.copy(), self.alloy.copy()
-        start[self.varying], end[self.varying] = 0.0, self._top()
+        start[self.varying], end[self.varying] = self._span()
         start[0] = end[0] = 0.0
         start[0], end[0] = 1.0 - start.sum(), 1.0 - end.sum()
         return tuple(float(v) for v in start), tuple(float(v) for v in end)
@@ -168,6 +179,9 @@ class SectionExploration:
         """Go to a typed alloy and/or temperature (K)."""
         if point.mole_fractions is not None:
             x = np.asarray(point.mole_fractions, dtype=float)
+            if not self.system.covered(x):
+                raise ValueError(f"that alloy lies outside the range this model covers "
+                                 f"({self.system.covered_range_text()})")
             if x[self.varying] > self._top(x):
                 raise ValueError(f"{self.element} {percent(x[self.varying])} at% lies beyond this section's "
                                  f"{percent(self._top(x))} at%")
