@@ -94,12 +94,19 @@ def _liquid_model() -> _Model:
     return _Model(lambda T: _IdealAtT(fusion_gibbs(T), -FUSION_J / MELTING_K, T))
 
 
+class _StandIn(SimpleNamespace):
+    """Hashable by identity, as System is (the trade's names are cached per system)."""
+
+    __hash__ = object.__hash__
+
+
 def _system(name: str, models: dict) -> SimpleNamespace:
-    """A stand-in System covering every composition (its coverage tests are System's own)."""
-    system = SimpleNamespace(name=name, elements=ELEMENTS, molar_mass=MOLAR_MASS, models=models, title="",
-                             safety="", temperature_range_K=(400.0, 1400.0), model_range_K=(1.0, 6000.0),
-                             covers_K=(0.0, float("inf")), kind=name, alloys=(), covers_elements={},
-                             element_ranges=np.array([[0.0, 1.0]] * len(ELEMENTS)))
+    """A stand-in System covering every composition (its coverage tests are System's own), with an
+    empty file document (no trade names)."""
+    system = _StandIn(name=name, elements=ELEMENTS, molar_mass=MOLAR_MASS, models=models, title="",
+                      safety="", temperature_range_K=(400.0, 1400.0), model_range_K=(1.0, 6000.0),
+                      covers_K=(0.0, float("inf")), kind=name, alloys=(), covers_elements={},
+                      element_ranges=np.array([[0.0, 1.0]] * len(ELEMENTS)), document={})
     system.covered = MethodType(System.covered, system)
     system.covered_range_text = MethodType(System.covered_range_text, system)
     return system
