@@ -16,6 +16,7 @@ from ladle.engine.files.catalog import list_systems
 from ladle.tui.explorer.screens.explore import safety_headline
 from ladle.tui.explorer.system_choices import not_explorable
 from ladle.tui.explorer.widgets.point_entry import PointEntry
+from ladle.tui.explorer.widgets.status_pane import StatusPane
 
 
 def _lines(app) -> list[str]:
@@ -140,3 +141,24 @@ async def test_narrow_melt_range_to_a_tenth():
     async with app.run_test(size=SIZE):
         status = status_text(app)
         assert re.search(r"liquidus +\d+\.\d °C", status) and re.search(r"freezing range +\d\.\d °C", status)
+
+
+@pytest.mark.parametrize("system, T_K, x_B, keys", [
+    ("al-si", 850.0, 0.05, ("plus",) * 3),   # a three-line caution; two phases; zoomed: long steps
+    ("ag-cu", 742.0, 0.02, ("4",)),          # the cooling view's longest pane (three constituents,
+                                             # latent heat and coring) under a one-line caution
+    ("al-cu", 561.15, 0.02, ()),             # a two-line title and a three-line caution: the
+])                                           # field's name goes (the phase rows name its phases)
+@pilot_test
+async def test_no_line_of_the_status_pane_is_cut_at_80x24(system, T_K, x_B, keys):
+    app = make_app(system, T_K=T_K, x_B=x_B)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press(*keys)
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        pane = app.screen_stack[0].query_one(StatusPane)
+        assert pane.rows_needed() <= pane.content_region.height
+        side = [line[46:] for line in _lines(app)]
+        for text in status_text(app).split("\n"):
+            assert any(text.strip() in row for row in side), text     # every line on screen
+        assert re.search(r"╰─+ step [\d.]+ °C, [\d.]+ wt%.* ─╯", side[-3])  # the keys' step too

@@ -16,6 +16,8 @@ from .readout import format_temperature_value
 from .scales import Scales
 from .status_lines import WIDTH, Line
 
+NAME_ROOM = 17   # a constituent's name this short shares its line with the amounts
+
 
 def cooling_lines(result, coring: Coring | None, system, scales: Scales,
                   glyphs: Glyphs) -> list[Line]:
@@ -43,9 +45,11 @@ def cooling_lines(result, coring: Coring | None, system, scales: Scales,
         named = with_trade_names(system, constituent, T_end)
         if primary is None and constituent.startswith("primary "):
             primary = named.removeprefix("primary ")
-        lines += [("value", line) for line in textwrap.wrap(named, WIDTH - 1, initial_indent=" ",
-                                                            subsequent_indent="   ")]
-        lines.append(("value", f"{'':<17}{amounts[0]:>6}{amounts[1]:>7}"))
+        rows = textwrap.wrap(named, WIDTH - 1, initial_indent=" ", subsequent_indent="   ")
+        if len(rows[-1]) > NAME_ROOM:           # the amounts on a line of their own
+            rows.append("")
+        rows[-1] = f"{rows[-1]:<{NAME_ROOM}}{amounts[0]:>6}{amounts[1]:>7}"
+        lines += [("value", row) for row in rows]
     heats = [f"{result.path(model).latent_heat_J_per_g:.0f}" for model in PATH_NAMES]
     lines.append(("value", f" {'latent heat J/g':<16}{heats[0]:>6}{heats[1]:>7}"))
     if coring is not None and abs(scales.shown_composition(coring.x_rim)

@@ -137,3 +137,10 @@ def status_lines(reading: Reading, system, scales: Scales, glyphs: Glyphs) -> li
             + phase_lines(reading, system, scales)
             + melt_lines(reading, scales, glyphs)
             + boundary_lines(reading, element_B, scales, glyphs))
+
+
+def without_field(lines: list[Line]) -> list[Line]:
+    """The lines without the FIELD heading and the line under it (the phase rows name the same
+    phases), for a status pane short of room."""
+    at = next((i for i, line in enumerate(lines) if line == ("heading", "FIELD")), None)
+    return lines if at is None else lines[:at] + lines[at + 2:]

@@ -29,8 +29,8 @@ from ..keymap import MAIN_KEYS
 from ..reaction_rows import reaction_rows
 from ..readout import format_step, format_temperature_value
 from ..screen_text import screen_text
-from ..status_lines import (WIDTH, Line, alloy_line, energy_lines, melt_lines, phase_lines,
-                            point_lines, status_lines)
+from ..status_lines import (Line, alloy_line, energy_lines, melt_lines, phase_lines,
+                            point_lines, status_lines, without_field)
 from ..system_choices import system_choices
 from ..widgets.diagram_view import DiagramView
 from ..widgets.energy_view import EnergyView
@@ -50,6 +50,7 @@ NOTICE_WAITS = 20   # frames to wait at most for notices to leave before a scree
 FRAME_S = 0.02
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
 PICKER = "systems"   # the name under which the system picker is kept
+STEP_ROOM = 28       # characters the step may use in the status pane's lower border
 
 
 def safety_headline(safety: str) -> str:
@@ -122,7 +123,8 @@ class ExploreScreen(Screen[None]):
     def update_all(self) -> None:
         """Redraw the status pane, the title and the visible plot for the current state."""
         self._show_title()
-        self.query_one(StatusPane).show_lines(self._status_lines())
+        self._show_status()
+        self._show_step()
         self._show_caution()
         if self.view in ("diagram", "energy"):
             self.query_one(f"#{self.view}", CachedPlot).redraw()
@@ -143,6 +145,11 @@ class ExploreScreen(Screen[None]):
         self.query_one(TitleBar).show(system.name, system.title, coverage_note(system), self.view,
                                       self.size.width)
 
+    def _show_status(self) -> None:
+        """The status pane's lines (without the field's name where they would not fit)."""
+        lines = self._status_lines()
+        self.query_one(StatusPane).show_lines(lines, without_field(lines))
+
     def _status_lines(self) -> list[Line]:
         e = self.exploration
         try:
@@ -160,12 +167,23 @@ class ExploreScreen(Screen[None]):
                      + phase_lines(reading, e.system, e.scales) + energy_lines(reading))
         else:
             lines = status_lines(reading, e.system, e.scales, self.glyphs)
+        return lines
+
+    def _show_step(self) -> None:
+        """The step of the arrow keys, in the status pane's lower border (it never takes one of
+        the pane's lines)."""
+        e = self.exploration
         steps = e.steps()
         unit = self.glyphs.temperature_unit(e.scales.temperature_unit)
-        step = (f" step {format_step(steps.temperature)} {unit}, "
+        step = (f"step {format_step(steps.temperature)} {unit}, "
                 f"{format_step(steps.composition)} {e.scales.composition_unit}%")
-        lines.append(("note", step + (" (shift /10)" if len(step) + 11 <= WIDTH else "")))
-        return lines
+        side = self.query_one("#side")
+        width = side.outer_size.width
+        room = width - 6 if width else STEP_ROOM   # corners, rules and spaces
+        text = next(step + hint for hint in (" (shift /10)", ", shift /10", "")
+                    if len(step) + len(hint) <= room)
+        if side.border_subtitle != text:
+            side.border_subtitle = text
 
     def _show_caution(self) -> None:
         """The system's caution, whole, under the status pane (its full text: ? help)."""
@@ -241,7 +259,7 @@ class ExploreScreen(Screen[None]):
 
     def on_cooling_view_ready(self, event: CoolingView.Ready) -> None:
         if self.view == "cooling":
-            self.query_one(StatusPane).show_lines(self._status_lines())
+            self._show_status()
 
     def on_reactions_view_chosen(self, event: ReactionsView.Chosen) -> None:
         self.exploration.jump(TypedPoint(event.row.temperature_K, event.row.x_B))

@@ -23,14 +23,16 @@ class StatusPane(Widget):
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
-        self._lines: list[Line] = []
+        self._wanted: tuple[list[Line], list[Line] | None] = ([], None)   # lines, shorter
+        self._lines: list[Line] = []            # those shown
         self._rows: list[Strip] = []            # the screen lines shown, top to bottom
         self._made: dict[tuple[Line, int], list[Strip]] = {}   # one line's screen lines, by width
         self._stale = True     # styles or size changed: every screen line is made again
 
-    def show_lines(self, lines: list[Line]) -> None:
-        """Replace the pane's text with these lines."""
-        self._lines = list(lines)
+    def show_lines(self, lines: list[Line], shorter: list[Line] | None = None) -> None:
+        """Replace the pane's text with these lines, or with `shorter` (the same facts in fewer
+        lines) where these would not fit the pane's height: no line is ever cut off."""
+        self._wanted = (list(lines), shorter)
         width = self.size.width
         if self._stale or not width:
             self.refresh()
@@ -45,9 +47,19 @@ class StatusPane(Widget):
         width = self.size.width
         if not width:
             return []
-        made = {}
+        made: dict[tuple[Line, int], list[Strip]] = {}
+        lines, shorter = self._wanted
+        rows = self._rows_of(lines, width, made)
+        if shorter is not None and len(rows) > self.size.height:
+            lines, rows = shorter, self._rows_of(shorter, width, made)
+        self._lines = lines
+        self._made = made    # keeps the lines shown now, drops those of earlier positions
+        return rows
+
+    def _rows_of(self, lines: list[Line], width: int,
+                 made: dict[tuple[Line, int], list[Strip]]) -> list[Strip]:
         rows: list[Strip] = []
-        for line in self._lines:
+        for line in lines:
             key = (line, width)
             strips = self._made.get(key)
             if strips is None:
@@ -58,7 +70,6 @@ class StatusPane(Widget):
                                           self.visual_style)
             made[key] = strips
             rows += strips
-        self._made = made    # keeps the lines shown now, drops those of earlier positions
         return rows
 
     def refresh(self, *regions: Region, **options) -> Self:
@@ -81,4 +92,5 @@ class StatusPane(Widget):
 
     def plain_text(self) -> str:
         """The pane's text without styles (what a reader sees)."""
-        return "\n".join(text for _, text in self._lines)
+        lines = self._lines if self.size.width else self._wanted[0]
+        return "\n".join(text for _, text in lines)
