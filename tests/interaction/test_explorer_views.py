@@ -8,6 +8,7 @@ from ladle.tui.explorer.cautions import GENERAL_CAUTIONS
 from ladle.tui.explorer.keymap import MAIN_KEYS
 from ladle.tui.explorer.screens.help import HelpScreen
 from ladle.tui.explorer.screens.systems import SystemPicker
+from ladle.tui.explorer.widgets.energy_view import EnergyView
 from ladle.tui.explorer.widgets.reactions_view import ReactionsView
 
 
@@ -152,3 +153,19 @@ async def test_energy_view_draws_where_no_tangent_reaches_the_window(system, T_K
         screen = screen_text(app)
         assert app.is_running and "lowest G (equilibrium)" in screen
         assert "common tangent" not in screen     # its legend only where it is drawn
+
+
+@pilot_test
+async def test_the_energy_picture_built_ahead_is_the_one_built_on_the_spot():
+    app = make_app(T_K=458.15, x_B=0.5386)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("2", "shift+right")
+        await app.workers.wait_for_complete()        # the pictures one step up and down
+        energy = _main(app).query_one(EnergyView)
+        assert len(energy._ahead) == 4
+        await pilot.press("shift+up")
+        ahead = energy._picture().plain
+        assert any(text.plain == ahead for text, _ in energy._ahead.values())
+        energy._ahead.clear()
+        energy._built_key = None                     # build it again, here and now
+        assert energy._picture().plain == ahead

@@ -187,6 +187,12 @@ class Exploration:
                     temperature_K=crossing.temperature_K)))
         return min(candidates, key=lambda pair: pair[0])[1] if candidates else None
 
+    def neighbour_temperatures(self) -> list[float]:
+        """The cursor's temperatures after one step up or down, coarse and fine (K)."""
+        return [self.cursor.moved(d_temperature, 0, self.steps(fine), self.scales,
+                                  self.limits).temperature_K
+                for fine in (False, True) for d_temperature in (1, -1)]
+
     def warm_neighbours(self) -> None:
         """Compute ahead what one more step in any direction (coarse or fine) will ask for: the
         melt range of each neighbouring composition and the section at each neighbouring

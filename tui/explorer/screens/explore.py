@@ -137,8 +137,15 @@ class ExploreScreen(Screen[None]):
         """In a thread, compute what the next step will need (one at a time: a move made while
         one runs is warmed by the next)."""
         if self._warming is None or self._warming.is_finished:
-            self._warming = self.run_worker(self.exploration.warm_neighbours, thread=True,
-                                            group="warm", exit_on_error=False)
+            exploration, energy = self.exploration, self.query_one(EnergyView)
+            in_energy = self.view == "energy"
+
+            def warm() -> None:
+                exploration.warm_neighbours()
+                if in_energy:
+                    energy.build_ahead(exploration)
+
+            self._warming = self.run_worker(warm, thread=True, group="warm", exit_on_error=False)
 
     def _show_title(self) -> None:
         system = self.exploration.system

@@ -11,7 +11,7 @@ In ASCII mode the built text is translated character for character (the layout d
 
 from __future__ import annotations
 
-from collections.abc import Hashable
+from collections.abc import Callable, Hashable
 from typing import Self
 
 from rich.text import Text
@@ -60,16 +60,22 @@ class CachedPlot(PlotextPlot):
         width, height = self.size.width, self.size.height
         key = (width, height, self.app.theme, self.picture_key())
         if key != self._built_key or self._built is None:
-            plt = self.plt
-            plt.clear_figure()
-            plt.plotsize(width, height)
-            plt._set_size(width, height)  # the same belt-and-braces call as PlotextPlot.render
-            plt.theme(self._get_plotext_theme_name(self.app.theme))
-            if width > 8 and height > 4:
-                self.draw(plt, width, height)
-            self._built = styled_plot_text(self.glyphs.plot_text(plt.build()))
+            self._built = self.build_text(self.plt, width, height, self.app.theme,
+                                          lambda plt: self.draw(plt, width, height))
             self._built_key = key
         return self._built
+
+    def build_text(self, plt: Plot, width: int, height: int, theme: str,
+                   draw: Callable[[Plot], None]) -> Text:
+        """A picture of width x height cells built with `plt` (the widget's own, or another in
+        a worker thread): `draw` issues the plot calls."""
+        plt.clear_figure()
+        plt.plotsize(width, height)
+        plt._set_size(width, height)  # the same belt-and-braces call as PlotextPlot.render
+        plt.theme(self._get_plotext_theme_name(theme))
+        if width > 8 and height > 4:
+            draw(plt)
+        return styled_plot_text(self.glyphs.plot_text(plt.build()))
 
     def render(self) -> RenderResult:
         picture = self._picture()
