@@ -30,6 +30,10 @@ def scanned_invariant(system, fact: Fact) -> FactOutcome:
 
     named = {name for name, _x in fact.phase_x_B}
     names = " + ".join(name for name, _x in fact.phase_x_B)
+    missing = sorted(named - set(system.phases))
+    if missing:
+        return FactOutcome(fact, reaction_comparisons(fact, None, ()),
+                           f"{', '.join(missing)} left out of this system: the reaction cannot occur")
     x_mid = _scanned_alloy(fact)
     if x_mid is None:
         return FactOutcome(fact, reaction_comparisons(fact, None, ()),

@@ -174,6 +174,8 @@ def test_the_checks_can_fail(metastable) -> None:
     assert not evaluate(metastable, replace(eutectoid, phase_x_B=ferrite)).passed
     outcome = evaluate(metastable, replace(eutectoid, reaction="peritectoid"))
     assert not outcome.passed and "is a eutectoid, not a peritectoid" in outcome.problem
+    graphite_eutectic = next(f for f in find_system("fe-c").checks if f.reaction == "eutectic")
+    assert "graphite left out" in evaluate(metastable, graphite_eutectic).problem
     (curie,) = _pure_iron_facts(metastable, "curie")
     assert not evaluate(metastable, replace(curie, temperature_K=curie.temperature_K + 2 * curie.spread["K"])).passed
 
