@@ -101,11 +101,16 @@ def _field_labels(exploration: Exploration, frame: Frame) -> list[Label]:
 def draw_diagram(plt, scene: DiagramScene, glyphs: Glyphs) -> None:
     """Issue the plot calls: boundaries, invariant lines, labels (the explorer writes the
     cursor over the built picture)."""
-    frame = scene.frame
-    draw_frame(plt, frame, scene.x_title, scene.y_title)
-    if scene.boundaries[0]:
-        plt.plot(*scene.boundaries, marker=glyphs.boundary_marker, color=BOUNDARY_COLOUR)
-    if scene.invariants[0]:
-        plt.plot(*scene.invariants, marker=glyphs.invariant_marker, color=INVARIANT_COLOUR)
-    for label in scene.labels:
+    draw_frame(plt, scene.frame, scene.x_title, scene.y_title)
+    draw_lines_and_labels(plt, scene.boundaries, scene.invariants, scene.labels, glyphs)
+
+
+def draw_lines_and_labels(plt, boundaries, invariants, labels, glyphs: Glyphs) -> None:
+    """Issue the plot calls of a drawing's boundaries and invariant lines ((x, y) arrays with NaN
+    gaps; empty where there are none) and its placed labels."""
+    if len(boundaries[0]):
+        plt.plot(*boundaries, marker=glyphs.boundary_marker, color=BOUNDARY_COLOUR)
+    if len(invariants[0]):
+        plt.plot(*invariants, marker=glyphs.invariant_marker, color=INVARIANT_COLOUR)
+    for label in labels:
         plt.text(label.text, label.x, label.y, alignment="center")

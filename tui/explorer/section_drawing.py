@@ -16,7 +16,7 @@ import numpy as np
 
 from ladle.engine.units import kelvin_to
 
-from .diagram_drawing import BOUNDARY_COLOUR, INVARIANT_COLOUR, plot_area
+from .diagram_drawing import draw_lines_and_labels, plot_area
 from .glyphs import Glyphs
 from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
 
@@ -155,9 +155,4 @@ def draw_section(plt, scene: SectionScene, glyphs: Glyphs) -> None:
         draw_frame(plt, frame, scene.x_title, scene.y_title)
     if scene.thin[0]:
         plt.plot(*scene.thin, marker=glyphs.crosshair_marker, color=TIE_LINE_COLOUR)
-    if scene.boundaries[0]:
-        plt.plot(*scene.boundaries, marker=glyphs.boundary_marker, color=BOUNDARY_COLOUR)
-    if scene.invariants[0]:
-        plt.plot(*scene.invariants, marker=glyphs.invariant_marker, color=INVARIANT_COLOUR)
-    for label in scene.labels:
-        plt.text(label.text, label.x, label.y, alignment="center")
+    draw_lines_and_labels(plt, scene.boundaries, scene.invariants, scene.labels, glyphs)
