@@ -148,7 +148,9 @@ async def test_narrow_melt_range_to_a_tenth():
     ("ag-cu", 742.0, 0.02, ("4",)),          # the cooling view's longest pane (three constituents,
                                              # latent heat and coring) under a one-line caution
     ("al-cu", 561.15, 0.02, ()),             # a two-line title and a three-line caution: the
-])                                           # field's name goes (the phase rows name its phases)
+                                             # field's name goes (the phase rows name its phases)
+    ("cu-zn", 1373.15, 0.02, ("4",)),        # the same in the cooling view: the melt range on one
+])                                           # line, the composition without its heading
 @pilot_test
 async def test_no_line_of_the_status_pane_is_cut_at_80x24(system, T_K, x_B, keys):
     app = make_app(system, T_K=T_K, x_B=x_B)

@@ -73,8 +73,10 @@ def phase_lines(reading: Reading, system, scales: Scales) -> list[Line]:
     return lines
 
 
-def melt_lines(reading: Reading, scales: Scales, glyphs: Glyphs) -> list[Line]:
-    """The alloy's liquidus, solidus and freezing range at the cursor's composition."""
+def melt_lines(reading: Reading, scales: Scales, glyphs: Glyphs,
+               compact: bool = False) -> list[Line]:
+    """The alloy's liquidus, solidus and freezing range at the cursor's composition (compact:
+    all three on one line, where the pane is short of room)."""
     lines: list[Line] = [("heading", "MELT RANGE of this alloy")]
     melt = reading.melt
     if melt is None:
@@ -85,6 +87,11 @@ def melt_lines(reading: Reading, scales: Scales, glyphs: Glyphs) -> list[Line]:
             ("freezing range", melt.freezing_range_K, scales.shown_temperature_difference))
     narrow = melt.freezing_range_K is not None and melt.freezing_range_K < NARROW_RANGE_K
     decimals = 1 if narrow else 0
+    if compact and all(value is not None for _, value, _ in rows):
+        liquidus, solidus, span = (format_temperature_value(convert(value), decimals)
+                                   for _, value, convert in rows)
+        return [("heading", "MELT RANGE liquidus, solidus"),
+                ("value", f" {liquidus}, {solidus} {unit}; range {span}")]
     return lines + [("value", f" {label:<15}"
                               f"{format_temperature_value(convert(value), decimals):>7} {unit}")
                     if value is not None else ("note", f" {label:<15}{'not in range':>12}")
@@ -130,17 +137,20 @@ def energy_lines(reading: Reading) -> list[Line]:
                                              for line in textwrap.wrap(text, WIDTH - 1)]
 
 
-def status_lines(reading: Reading, system, scales: Scales, glyphs: Glyphs) -> list[Line]:
-    """Every line of the status pane, top to bottom."""
+def status_lines(reading: Reading, system, scales: Scales, glyphs: Glyphs,
+                 compact: bool = False) -> list[Line]:
+    """Every line of the diagram view's status pane, top to bottom (compact: the melt range on
+    one line)."""
     element_B = system.elements[1]
     return (point_lines(reading, element_B, scales, glyphs)
             + phase_lines(reading, system, scales)
-            + melt_lines(reading, scales, glyphs)
+            + melt_lines(reading, scales, glyphs, compact)
             + boundary_lines(reading, element_B, scales, glyphs))
 
 
-def without_field(lines: list[Line]) -> list[Line]:
-    """The lines without the FIELD heading and the line under it (the phase rows name the same
-    phases), for a status pane short of room."""
-    at = next((i for i, line in enumerate(lines) if line == ("heading", "FIELD")), None)
-    return lines if at is None else lines[:at] + lines[at + 2:]
+def without_heading(lines: list[Line], heading: str, covered: int = 0) -> list[Line]:
+    """The lines without the heading `heading` and the `covered` lines under it, for a status
+    pane short of room: FIELD with its line (the phase rows name the same phases), or ALLOY
+    alone (its composition line says what it is)."""
+    at = next((i for i, line in enumerate(lines) if line == ("heading", heading)), None)
+    return lines if at is None else lines[:at] + lines[at + 1 + covered:]

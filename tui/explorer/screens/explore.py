@@ -22,7 +22,7 @@ from ladle.tui.quote import percent
 from ..cooling import CoolingView
 from ..cooling_status import cooling_lines
 from ..entry import EntryError, TypedPoint, check_inside, parse_point
-from ..exploration import Exploration
+from ..exploration import Exploration, Reading
 from ..exports import safe_stem
 from ..glyphs import Glyphs
 from ..keymap import MAIN_KEYS
@@ -30,7 +30,7 @@ from ..reaction_rows import reaction_rows
 from ..readout import format_step, format_temperature_value
 from ..screen_text import screen_text
 from ..status_lines import (Line, alloy_line, energy_lines, melt_lines, phase_lines,
-                            point_lines, status_lines, without_field)
+                            point_lines, status_lines, without_heading)
 from ..system_choices import system_choices
 from ..widgets.diagram_view import DiagramView
 from ..widgets.energy_view import EnergyView
@@ -153,28 +153,33 @@ class ExploreScreen(Screen[None]):
                                       self.size.width)
 
     def _show_status(self) -> None:
-        """The status pane's lines (without the field's name where they would not fit)."""
-        lines = self._status_lines()
-        self.query_one(StatusPane).show_lines(lines, without_field(lines))
-
-    def _status_lines(self) -> list[Line]:
+        """The status pane's lines, and the same facts in fewer lines for a pane too short for
+        them: without the field's name, then also without the ALLOY heading and with the melt
+        range on one line."""
         e = self.exploration
         try:
             reading = e.reading()
         except (ValueError, ArithmeticError) as error:
-            return [("heading", "POINT"), ("warning", f" no answer here: {error}")]
+            self.query_one(StatusPane).show_lines(
+                [("heading", "POINT"), ("warning", f" no answer here: {error}")])
+            return
+        lines = self._status_lines(reading)
+        compact = without_heading(without_heading(self._status_lines(reading, compact=True),
+                                                  "FIELD", 1), "ALLOY")
+        self.query_one(StatusPane).show_lines(lines, without_heading(lines, "FIELD", 1), compact)
+
+    def _status_lines(self, reading: Reading, compact: bool = False) -> list[Line]:
+        e = self.exploration
         if self.view == "cooling":
             cooling = self.query_one(CoolingView)
-            lines = ([("heading", "ALLOY"), alloy_line(e.cursor.x_B, e.system.elements[1], e.scales)]
-                     + melt_lines(reading, e.scales, self.glyphs)
-                     + cooling_lines(cooling.answer(), cooling.coring(), e.system, e.scales,
-                                     self.glyphs))
-        elif self.view == "energy":
-            lines = (point_lines(reading, e.system.elements[1], e.scales, self.glyphs)
-                     + phase_lines(reading, e.system, e.scales) + energy_lines(reading))
-        else:
-            lines = status_lines(reading, e.system, e.scales, self.glyphs)
-        return lines
+            return ([("heading", "ALLOY"), alloy_line(e.cursor.x_B, e.system.elements[1], e.scales)]
+                    + melt_lines(reading, e.scales, self.glyphs, compact)
+                    + cooling_lines(cooling.answer(), cooling.coring(), e.system, e.scales,
+                                    self.glyphs))
+        if self.view == "energy":
+            return (point_lines(reading, e.system.elements[1], e.scales, self.glyphs)
+                    + phase_lines(reading, e.system, e.scales) + energy_lines(reading))
+        return status_lines(reading, e.system, e.scales, self.glyphs, compact)
 
     def _show_step(self) -> None:
         """The step of the arrow keys, in the status pane's lower border (it never takes one of

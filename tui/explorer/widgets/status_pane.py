@@ -23,16 +23,17 @@ class StatusPane(Widget):
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
-        self._wanted: tuple[list[Line], list[Line] | None] = ([], None)   # lines, shorter
+        self._wanted: list[list[Line]] = [[]]   # the lines, then shorter ones
         self._lines: list[Line] = []            # those shown
         self._rows: list[Strip] = []            # the screen lines shown, top to bottom
         self._made: dict[tuple[Line, int], list[Strip]] = {}   # one line's screen lines, by width
         self._stale = True     # styles or size changed: every screen line is made again
 
-    def show_lines(self, lines: list[Line], shorter: list[Line] | None = None) -> None:
-        """Replace the pane's text with these lines, or with `shorter` (the same facts in fewer
-        lines) where these would not fit the pane's height: no line is ever cut off."""
-        self._wanted = (list(lines), shorter)
+    def show_lines(self, lines: list[Line], *shorter: list[Line]) -> None:
+        """Replace the pane's text with these lines, or, where they would not fit the pane's
+        height, with the first of `shorter` (the same facts in fewer lines, in order of
+        preference) that fits: no line is ever cut off."""
+        self._wanted = [list(lines), *shorter]
         width = self.size.width
         if self._stale or not width:
             self.refresh()
@@ -48,10 +49,10 @@ class StatusPane(Widget):
         if not width:
             return []
         made: dict[tuple[Line, int], list[Strip]] = {}
-        lines, shorter = self._wanted
-        rows = self._rows_of(lines, width, made)
-        if shorter is not None and len(rows) > self.size.height:
-            lines, rows = shorter, self._rows_of(shorter, width, made)
+        for lines in self._wanted:
+            rows = self._rows_of(lines, width, made)
+            if len(rows) <= self.size.height:
+                break
         self._lines = lines
         self._made = made    # keeps the lines shown now, drops those of earlier positions
         return rows
