@@ -124,3 +124,23 @@ def test_through_the_engine_the_ternary_eutectic_path_is_the_closed_form(tmp_pat
     assert [c.fraction_mol for c in path.constituents] == pytest.approx(
         [1.0 - f_primary(T_valley), f_primary(T_valley) - f_eutectic, f_eutectic], abs=1e-6)
     assert path.notes == ()
+
+
+def test_heat_of_a_scheil_path_is_the_heat_of_the_same_constituents_at_equilibrium():
+    """Sn-4.0Ag-0.5Cu (wt%) in the shipped Sn-Ag-Cu system: both paths start as the same liquid at
+    the same liquidus and end in the same constituents (primary Ag3Sn, eutectic, ternary eutectic:
+    the solids are compounds or nearly pure tin) at the same ternary eutectic, so by the first law
+    they release the same heat, to within the little the paths differ in the tin's solubility.
+    The Scheil path once weighted each step's solids by their amounts in the liquid's point
+    equilibrium instead of by the step's own solid composition and released 11 % too much."""
+    from ladle.engine.files.catalog import find_system
+    from ladle.engine.solidify.alloy_paths import solidify_alloy
+    from ladle.engine.units import mole_from_mass
+
+    system = find_system("ag-cu-sn")
+    mass = {"Sn": 0.955, "Ag": 0.040, "Cu": 0.005}
+    x = mole_from_mass(np.array([mass[e] for e in system.elements]), system.molar_mass)
+    paths = solidify_alloy(system, x)
+    eq, sch = paths.equilibrium, paths.scheil
+    assert [c.name for c in eq.constituents] == [c.name for c in sch.constituents]
+    assert sch.latent_heat_J_per_g == pytest.approx(eq.latent_heat_J_per_g, rel=0.01)
