@@ -221,10 +221,13 @@ def compound(name: str, n_elements: int, counts: dict[int, float], g_per_atom: t
 
 def system_of(elements: tuple[str, ...], phases: list, molar_mass: np.ndarray | None = None):
     """A minimal system object for the general minimiser: elements, molar masses (g/mol) and
-    `models` (name -> phase)."""
+    `models` (name -> phase), covering every composition (`element_ranges`, `covered`, `covers_elements`: the
+    section mappers ask for them)."""
     mm = np.full(len(elements), 50.0) if molar_mass is None else np.asarray(molar_mass, dtype=float)
+    ranges = np.tile([0.0, 1.0], (len(elements), 1))
     return SimpleNamespace(name="test", elements=tuple(elements), molar_mass=mm,
-                           models={p.name: p for p in phases}, phases={})
+                           models={p.name: p for p in phases}, phases={}, element_ranges=ranges, covers_elements={},
+                           covered=lambda x: True if np.ndim(x) == 1 else np.ones(len(x), dtype=bool))
 
 
 def random_system(rng: np.random.Generator, n_elements: int, n_solutions: int = 3, n_compounds: int = 2,
