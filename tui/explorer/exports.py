@@ -1,5 +1,5 @@
 """Names for the files the explorer writes on request (a point's result as JSON, snapshots of
-the screen). They go to the working folder through ladle.engine.atomic_files.write_new_file,
+the screen). They go to the working folder through ladle.engine.files.atomic_files.write_new_file,
 which never replaces an existing file (the name gets -2, -3, ... instead)."""
 
 from __future__ import annotations
