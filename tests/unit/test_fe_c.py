@@ -82,14 +82,14 @@ def test_the_interstitial_model_without_carbon_is_pure_iron(stable, T: float) ->
     assert _pure_iron_G(stable, "liquid", T) == pytest.approx(lib("liquid"), abs=1e-8)
 
 
-def _ghserfe(T: float) -> float:
+def _bcc_iron_function(T: float) -> float:
     """bcc iron, A.T. Dinsdale, Calphad 15 (1991) 317 (J/mol; recalled from memory)."""
     if T < 1811.0:
         return 1225.7 + 124.134 * T - 23.5143 * T * math.log(T) - 0.00439752 * T**2 - 5.8927e-8 * T**3 + 77359.0 / T
     return -25383.581 + 299.31255 * T - 46.0 * T * math.log(T) + 2.29603e31 * T**-9
 
 
-def _ghsercc(T: float) -> float:
+def _graphite_function(T: float) -> float:
     """Graphite, A.T. Dinsdale, Calphad 15 (1991) 317 (J/mol; recalled from memory)."""
     return (-17368.441 + 170.73 * T - 24.3 * T * math.log(T) - 4.723e-4 * T**2 + 2562600.0 / T
             - 2.643e8 / T**2 + 1.2e10 / T**3)
@@ -99,8 +99,9 @@ def _ghsercc(T: float) -> float:
 def test_cementite_is_the_published_function(stable, T: float) -> None:
     """The file re-expresses cementite relative to its references on pieces (its notes say why):
     it must equal P. Gustafson's -10745 + 706.04 T - 120.6 T ln T per mole of Fe3C (Scand. J.
-    Metall. 14 (1985) 259; recalled from memory) less 3 GHSERFE and GHSERCC, within 0.01 J."""
-    published = -10745.0 + 706.04 * T - 120.6 * T * math.log(T) - 3.0 * _ghserfe(T) - _ghsercc(T)
+    Metall. 14 (1985) 259; recalled from memory) less three times bcc iron's and once graphite's
+    function (Dinsdale 1991), within 0.01 J."""
+    published = -10745.0 + 706.04 * T - 120.6 * T * math.log(T) - 3.0 * _bcc_iron_function(T) - _graphite_function(T)
     assert float(stable.models["Fe3C"].at(T).gibbs(np.array([1.0, 1.0]))) == pytest.approx(published, abs=0.01)
 
 
