@@ -13,7 +13,7 @@ from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_tex
 
 from ladle.engine import find_system
 from ladle.engine.files.catalog import list_systems
-from ladle.tui.explorer.screens.explore import safety_headline
+from ladle.tui.explorer.cautions import caution_line
 from ladle.tui.explorer.system_choices import not_explorable
 from ladle.tui.explorer.widgets.point_entry import PointEntry
 from ladle.tui.explorer.widgets.status_pane import StatusPane
@@ -34,7 +34,7 @@ async def test_every_systems_caution_is_shown_whole_at_80x24(name):
         side = " ".join(line[46:].strip(" │|") for line in screen.split("\n"))
         words = " ".join(side.split())
         if system.safety:
-            assert f"! {safety_headline(system.safety)} (? more)" in words
+            assert caution_line(system.safety) in words
         assert all(len(line) <= 80 for line in screen.split("\n"))
 
 

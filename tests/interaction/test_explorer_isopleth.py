@@ -156,3 +156,14 @@ async def test_t_switches_the_temperature_unit_everywhere(ternary_app):
         assert " 700.0 K" in status_text(app) and "T K" in screen_text(app)
         await pilot.press("t")
         assert "800.3 °F" in status_text(app)                  # (700 - 273.15) 9/5 + 32 (NIST SP 811)
+
+
+@pilot_test
+async def test_the_systems_caution_stands_under_the_status_pane(ternary_app):
+    """As on a binary's screen: the first clause of the system's safety note, whole, with where
+    its full text is (the note here is invented for the test)."""
+    app = ternary_app
+    app._first_exploration.system.safety = "Lead is toxic: wash hands. Invented note for the test."
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        assert "! Lead is toxic (? more)" in screen_text(app)

@@ -1,4 +1,5 @@
-"""The safety cautions the help screen shows (the README carries the same ones)."""
+"""The safety cautions the help screen shows (the README carries the same ones), and the line
+under the status pane that gives the open system's own caution."""
 
 GENERAL_CAUTIONS: tuple[str, ...] = (
     "Molten metal burns, and it explodes on contact with water: preheat and dry every tool, "
@@ -11,3 +12,13 @@ GENERAL_CAUTIONS: tuple[str, ...] = (
     "Every number here is an estimate computed from a model. Defer to the alloy's "
     "specification, certified data, local codes and licensed practice.",
 )
+
+
+def caution_line(safety: str) -> str:
+    """The line under the status pane for a system's safety note: its first clause ("Lead is
+    toxic") and where the full text is; empty where the system has none."""
+    if not safety:
+        return ""
+    for stop in (":", ";", "."):
+        safety = safety.split(stop)[0]
+    return f"! {safety.strip()} (? more)"

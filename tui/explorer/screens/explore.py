@@ -19,6 +19,7 @@ from ladle.tui.errors import os_error_text
 from ladle.tui.commands.common import coverage_note
 from ladle.tui.quote import percent
 
+from ..cautions import caution_line
 from ..cooling import CoolingView
 from ..cooling_status import cooling_lines
 from ..entry import EntryError, TypedPoint, check_inside, parse_point
@@ -51,13 +52,6 @@ FRAME_S = 0.02
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
 PICKER = "systems"   # the name under which the system picker is kept
 STEP_ROOM = 28       # characters the step may use in the status pane's lower border
-
-
-def safety_headline(safety: str) -> str:
-    """The first clause of a system's safety note ("Lead is toxic"), for the status pane."""
-    for stop in (":", ";", "."):
-        safety = safety.split(stop)[0]
-    return safety.strip()
 
 
 class ExploreScreen(Screen[None]):
@@ -201,7 +195,7 @@ class ExploreScreen(Screen[None]):
         """The system's caution, whole, under the status pane (its full text: ? help)."""
         safety = self.exploration.system.safety
         caution = self.query_one("#caution", Static)
-        text = f"! {safety_headline(safety)} (? more)" if safety else ""
+        text = caution_line(safety)
         if str(caution.render()) != text or caution.display != bool(safety):
             caution.display = bool(safety)
             caution.update(text)

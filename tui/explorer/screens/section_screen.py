@@ -19,6 +19,7 @@ from textual.worker import Worker, WorkerState
 from ladle.engine.units import TEMPERATURE_UNITS
 from ladle.tui.quote import percent
 
+from ..cautions import caution_line
 from ..entry import EntryError, parse_point
 from ..glyphs import Glyphs
 from ..section_exploration import SectionExploration
@@ -67,11 +68,15 @@ class SectionScreen(Screen[None]):
             yield SectionView(self.glyphs, id="diagram")
             with Vertical(id="side"):
                 yield StatusPane(id="status")
+                yield Static("", id="caution")   # under the pane, never pushed off it
         yield PointEntry(id="entry")
         yield Static(KEYS, id="keys")
 
     def on_mount(self) -> None:
         self.query_one(PointEntry).display = False
+        caution = self.query_one("#caution", Static)
+        caution.update(caution_line(self.exploration.system.safety))
+        caution.display = bool(self.exploration.system.safety)
         self.query_one(SectionView).exploration = self.exploration
         self._changed(remap=True)
 
