@@ -49,18 +49,19 @@ def _num(v: Any) -> bool:
     return not isinstance(v, bool) and isinstance(v, (int, float)) and math.isfinite(v)
 
 
-def _read_factor(v: Any, key: str, spread: dict[str, float], fail: Callable[[str, str], Exception]) -> None:
-    """A relative composition tolerance (a number above 1, or a table per phase) into `spread`
-    under "factor" or "factor:<phase>"."""
+def _read_spread(v: Any, key: str, spread: dict[str, float], name: str, low: float, expected: str,
+                 fail: Callable[[str, str], Exception]) -> None:
+    """A composition spread above `low` (a number, or a table per phase) into `spread` under
+    `name` or "<name>:<phase>"; `expected` says what is wanted."""
     if isinstance(v, dict):
-        for ph, f in v.items():
-            if not _num(f) or f <= 1:
-                raise fail(f"{key}.{ph}", "expected a factor above 1 (2 means within half to twice the value)")
-            spread[f"factor:{ph}"] = float(f)
-    elif _num(v) and v > 1:
-        spread["factor"] = float(v)
+        for ph, s in v.items():
+            if not _num(s) or s <= low:
+                raise fail(f"{key}.{ph}", f"expected {expected}")
+            spread[f"{name}:{ph}"] = float(s)
+    elif _num(v) and v > low:
+        spread[name] = float(v)
     else:
-        raise fail(key, "expected a factor above 1 (2 means within half to twice the value), or a table per phase")
+        raise fail(key, f"expected {expected}, or a table per phase")
 
 
 def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], Exception]) -> list:
@@ -115,18 +116,10 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
                 raise fail(f"{key}.{j_key}", "expected a positive number of J/mol")
             spread["J"] = float(item[j_key])
         if at_key in item:
-            v = item[at_key]
-            if isinstance(v, dict):
-                for ph, s in v.items():
-                    if not _num(s) or s <= 0:
-                        raise fail(f"{key}.{at_key}.{ph}", "expected a positive number of at%")
-                    spread[f"at:{ph}"] = float(s)
-            elif _num(v) and v > 0:
-                spread["at"] = float(v)
-            else:
-                raise fail(f"{key}.{at_key}", "expected a positive number of at% (or a table per phase)")
+            _read_spread(item[at_key], f"{key}.{at_key}", spread, "at", 0.0, "a positive number of at%", fail)
         if FACTOR_KEY in item:
-            _read_factor(item[FACTOR_KEY], f"{key}.{FACTOR_KEY}", spread, fail)
+            _read_spread(item[FACTOR_KEY], f"{key}.{FACTOR_KEY}", spread, "factor", 1.0,
+                         "a factor above 1 (2 means within half to twice the value)", fail)
         if AT_MOST_KEY in item:
             if item[AT_MOST_KEY] is not True or at_key in item or FACTOR_KEY in item:
                 raise fail(f"{key}.{AT_MOST_KEY}", "expected true (the composition is an upper limit of the minor "
