@@ -194,7 +194,7 @@ def composition_factor(fact: Fact, phase: str | None = None) -> float | None:
     return fact.spread.get("factor")
 
 
-def _composition(fact: Fact, phase: str | None, quantity: str, reference: float, model: float | None) -> Comparison:
+def composition_comparison(fact: Fact, phase: str | None, quantity: str, reference: float, model: float | None) -> Comparison:
     return Comparison(quantity, "at%", reference, model, composition_spread(fact, phase), composition_factor(fact, phase),
                       "at_most" in fact.spread)
 
@@ -211,33 +211,33 @@ def model_enthalpy(system, fact: Fact) -> float:
     return formation_enthalpy(system, phase, fact.temperature_K)
 
 
-def _temperature(fact: Fact, model: float | None) -> Comparison:
+def temperature_comparison(fact: Fact, model: float | None) -> Comparison:
     return Comparison("temperature", "K", fact.temperature_K, model, temperature_spread(fact))
 
 
 def _melting(system, fact: Fact) -> FactOutcome:
     T = system.melting_points.get(fact.element)
     if T is None:
-        return FactOutcome(fact, (_temperature(fact, None),), f"pure {fact.element} does not melt in this model's range")
-    return FactOutcome(fact, (_temperature(fact, float(T)),))
+        return FactOutcome(fact, (temperature_comparison(fact, None),), f"pure {fact.element} does not melt in this model's range")
+    return FactOutcome(fact, (temperature_comparison(fact, float(T)),))
 
 
 def _boundary_T(system, fact: Fact) -> FactOutcome:
     try:
         found = boundary_temperature(system, fact.x_B, fact.kind)
     except BoundaryNotFound as e:
-        return FactOutcome(fact, (_temperature(fact, None),), str(e))
-    return FactOutcome(fact, (_temperature(fact, found.temperature_K),))
+        return FactOutcome(fact, (temperature_comparison(fact, None),), str(e))
+    return FactOutcome(fact, (temperature_comparison(fact, found.temperature_K),))
 
 
 def _tie_line(system, fact: Fact) -> FactOutcome:
     tie = tie_line_between(system, fact.temperature_K, fact.phase, fact.partner, fact.x_B)
     quantity = f"x({fact.phase})"
     if tie is None:
-        return FactOutcome(fact, (_composition(fact, None, quantity, 100 * fact.x_B, None),),
+        return FactOutcome(fact, (composition_comparison(fact, None, quantity, 100 * fact.x_B, None),),
                            f"the model has no {fact.phase} + {fact.partner} tie-line at {fact.temperature_K:.2f} K")
     x = phase_end(tie, fact.phase, fact.x_B)
-    return FactOutcome(fact, (_composition(fact, None, quantity, 100 * fact.x_B, 100 * x),))
+    return FactOutcome(fact, (composition_comparison(fact, None, quantity, 100 * fact.x_B, 100 * x),))
 
 
 #: Distance (K) from the host's melting point of the tie-line a distribution coefficient is read on:
@@ -291,11 +291,11 @@ def match_reaction(candidates, fact: Fact):
 
 def reaction_comparisons(fact: Fact, T: float | None, phases) -> tuple[Comparison, ...]:
     """Temperature and each named phase's composition against the model's (T, ((phase, x_B), ...))."""
-    out = [_temperature(fact, T)]
+    out = [temperature_comparison(fact, T)]
     for name, x_ref in fact.phase_x_B:
         xs = [x for n, x in phases if n == name]
         model = 100 * min(xs, key=lambda x: abs(x - x_ref)) if xs else None
-        out.append(_composition(fact, name, f"x({name})", 100 * x_ref, model))
+        out.append(composition_comparison(fact, name, f"x({name})", 100 * x_ref, model))
     return tuple(out)
 
 
@@ -336,6 +336,10 @@ def evaluate(system, fact: Fact, diagram=None) -> FactOutcome:
             from .multicomponent import evaluate_multicomponent
 
             return evaluate_multicomponent(system, fact)
+        if fact.kind in ("liquidus", "solidus", "boundary") and unmapped_phases(system):
+            from .point_boundaries import point_boundary
+
+            return point_boundary(system, fact)
         if fact.kind in ("liquidus", "solidus"):
             return _boundary_T(system, fact)
         if fact.kind == "boundary":

@@ -15,7 +15,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..models.system import Fact
-from .measure import Comparison, FactOutcome, composition_factor, composition_spread, enthalpy_spread, temperature_spread
+from .measure import (Comparison, FactOutcome, composition_factor, composition_spread, enthalpy_spread,
+                      temperature_comparison)
 
 
 def evaluate_multicomponent(system, fact: Fact) -> FactOutcome:
@@ -34,7 +35,7 @@ def evaluate_multicomponent(system, fact: Fact) -> FactOutcome:
         scan = alloy_transitions(system, np.asarray(fact.x))
         T = scan.liquidus_K if fact.kind == "liquidus" else scan.solidus_K
         problem = None if T is not None else f"the model has no {fact.kind} of this alloy in its range"
-        return FactOutcome(fact, (_temperature(fact, T),), problem)
+        return FactOutcome(fact, (temperature_comparison(fact, T),), problem)
     if fact.kind == "mixing_enthalpy":
         model = mixing_enthalpy(system.models[fact.phase], fact.temperature_K, np.asarray(fact.x), system.elements)
         return FactOutcome(fact, (Comparison("enthalpy", "J/mol", fact.enthalpy_J_per_mol, model, enthalpy_spread(fact)),))
@@ -63,10 +64,6 @@ def mixing_enthalpy(phase, T: float, x: np.ndarray, elements: tuple[str, ...]) -
     return enthalpy(np.asarray(x, dtype=float)) - pure
 
 
-def _temperature(fact: Fact, model: float | None) -> Comparison:
-    return Comparison("temperature", "K", fact.temperature_K, model, temperature_spread(fact))
-
-
 def _eutectic(system, fact: Fact) -> FactOutcome:
     from ..solidify.alloy_records import forming_together
     from ..solidify.alloy_scheil import alloy_scheil
@@ -84,7 +81,7 @@ def _eutectic(system, fact: Fact) -> FactOutcome:
         return FactOutcome(fact, (), f"no freezing path of the stated liquid: {e}")
     last = [s for s in path.steps if s.liquid_x is not None]
     frozen = {name for name, _T in path.forms}
-    comparisons = [_temperature(fact, path.end_K)]
+    comparisons = [temperature_comparison(fact, path.end_K)]
     x_model = np.asarray(last[-1].liquid_x) if last and path.end_K is not None else None
     for i, el in enumerate(system.elements[1:], start=1):
         model = None if x_model is None else 100.0 * float(x_model[i])

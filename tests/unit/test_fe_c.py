@@ -139,12 +139,13 @@ def _x_C(system, wt: float) -> float:
     return float(mole_from_mass(np.array([1.0 - wt / 100.0, wt / 100.0]), system.molar_mass)[1])
 
 
-@pytest.mark.parametrize("which, independent", [("stable", 3), ("metastable", 3)])
+@pytest.mark.parametrize("which, independent", [("stable", 5), ("metastable", 3)])
 def test_the_files_checks_pass(request, which, independent) -> None:
     """`ladle check` of both diagrams: the invariants and carbon solubilities of H. Okamoto's
     evaluation (J. Phase Equilib. 13 (1992) 543, as drawn in ASM Handbook Vol. 3 (1992)) and pure
     iron's handbook values, each [[check]] with its source and tolerance in systems/fe-c.toml
-    (stable: peritectic, graphite eutectic and eutectoid) and fe-fe3c.toml (metastable: eutectoid
+    (stable: peritectic, graphite eutectic and eutectoid; austenite's graphite solubility at 957 and
+    1110 C, R.W. Gurry, Trans. AIME (1942)) and fe-fe3c.toml (metastable: eutectoid
     with the carbon solubility in ferrite, eutectic with that in austenite; the peritectic
     inherited). The eutectoid of fe-fe3c is checked with its ferrite, the eutectic with its
     austenite."""
@@ -179,6 +180,19 @@ def test_the_checks_can_fail(metastable) -> None:
     assert "graphite left out" in evaluate(metastable, graphite_eutectic).problem
     (curie,) = _pure_iron_facts(metastable, "curie")
     assert not evaluate(metastable, replace(curie, temperature_K=curie.temperature_K + 2 * curie.spread["K"])).passed
+
+
+def test_a_solubility_check_can_fail(stable) -> None:
+    """Gurry's graphite solubility in austenite (1.39 wt% C at 957 C), moved by twice its
+    tolerance, fails; unmoved it passes (measured from point equilibria: the tracer cannot map
+    sublattice phases)."""
+    from dataclasses import replace
+
+    from ladle.engine.checking.measure import evaluate
+
+    fact = next(f for f in stable.checks if f.kind == "boundary" and f.temperature_K == pytest.approx(1230.15))
+    assert evaluate(stable, fact).passed
+    assert not evaluate(stable, replace(fact, x_B=fact.x_B + 2 * fact.spread["at"] / 100)).passed
 
 
 @pytest.fixture(scope="module")

@@ -12,6 +12,7 @@ from scipy.optimize import brentq
 from ladle.engine import load_system
 from ladle.engine.diagrams.diagram import map_diagram
 from ladle.engine.checking.boundaries import BoundaryNotFound, boundary_temperature, phase_end, tie_line_between
+from ladle.engine.checking.point_boundaries import tie_line_end
 from ladle.engine.diagrams.melt import melt_range
 from ladle.engine.units import GAS_CONSTANT as R
 from synthetic import expression_value, fusion, ideal_two_phase
@@ -110,3 +111,13 @@ def test_no_liquidus_inside_the_window_is_reported(tmp_path):
     with pytest.raises(BoundaryNotFound, match="no liquidus at 50 at% B between 1250.0 and 1400.0 K"):
         boundary_temperature(system, 0.5, "liquidus")
     assert np.isfinite(boundary_temperature(system, 1.0, "liquidus").temperature_K)
+
+
+@pytest.mark.parametrize("T", [1010.0, 1190.0])
+def test_tie_line_ends_from_point_equilibria_match_the_closed_form(ideal, T):
+    # the scan of point equilibria that measures tie-line facts of binaries the tracer cannot map
+    # (sublattice phases); the closed form as above is the reference
+    xs, xl = ideal_ends(T)
+    assert tie_line_end(ideal, T, "fcc", "liquid", near_x=0.5) == pytest.approx(xs, abs=1e-7)
+    assert tie_line_end(ideal, T, "liquid", "fcc", near_x=0.5) == pytest.approx(xl, abs=1e-7)
+    assert tie_line_end(ideal, T, "fcc", "bcc", near_x=0.5) is None    # no such phase pair: no answer
