@@ -50,16 +50,19 @@ KNOWN_FAILURES = {
                   "interaction is set by hand",
     ("bi-cd", 2): "the model's (Cd) holds 0.07 at% Bi at 140 C, above the bound of 0.03 at%: its hcp interaction is "
                   "set by hand",
+    ("au-sn", 4): "the model's zeta liquidus lies 15 K below the solder maker's 350 C for Au-18Sn (wt%): the three-term "
+                  "liquid fitted to the eutectic and AuSn's melting falls too slowly on the gold side of the eutectic",
+    ("au-sn", 5): "the model's zeta liquidus lies 9 K below the solder maker's 400 C for Au-16Sn (wt%), as for Au-18Sn",
     ("au-sn", 2): "zeta's gold-rich limit at 275 C comes out near 6.8 at% Sn, not 11.1: beta (Au10Sn) is not modelled "
                   "and the lumped zeta reaches toward (Au) in its place",
     ("cu-ni", 3): "C70600 datasheet solidus (a commercial alloy with Fe and Mn, typically a non-equilibrium value) "
                   "lies 28 K below the published assessment used unchanged",
     ("cu-ni", 4): "C71500 datasheet liquidus lies 8 K below the published assessment used unchanged",
     ("cu-ni", 5): "C71500 datasheet solidus lies 31 K below the published assessment used unchanged",
-    ("cu-zn", 3): "brass datasheet solidus at 5 wt% Zn lies 10-17 K below the fitted model; fitting it too did not converge",
-    ("cu-zn", 4): "brass datasheet solidus at 10 wt% Zn lies 10-17 K below the fitted model; fitting it too did not converge",
-    ("cu-zn", 6): "brass datasheet solidus at 15 wt% Zn lies 10-17 K below the fitted model; fitting it too did not converge",
-    ("cu-zn", 8): "brass datasheet solidus at 20 wt% Zn lies 10-17 K below the fitted model; fitting it too did not converge",
+    ("cu-zn", 3): "brass datasheet solidus at 5 wt% Zn lies 10-18 K below the fitted model; fitting it too did not converge",
+    ("cu-zn", 4): "brass datasheet solidus at 10 wt% Zn lies 10-18 K below the fitted model; fitting it too did not converge",
+    ("cu-zn", 6): "brass datasheet solidus at 15 wt% Zn lies 10-18 K below the fitted model; fitting it too did not converge",
+    ("cu-zn", 8): "brass datasheet solidus at 20 wt% Zn lies 10-18 K below the fitted model; fitting it too did not converge",
     ("pb-sb", 2): "the regular liquid fitted to the eutectic mixes with -0.24 kJ/mol at 40 at% Sb where calorimetry "
                   "(Hassam et al. 2009) finds -0.07 kJ/mol",
     ("pb-sn", 8): "ASTM B32 gives the Sn10 solder a 268 C solidus; the fitted fcc solidus lies 17 K higher, and "
@@ -71,12 +74,10 @@ KNOWN_FAILURES = {
 #: Systems with fewer than four independent checks -> why (strict: the count is checked, so adding
 #: checks means updating the entry, and reaching four means removing it).
 SHORT_OF_CHECKS = {
-    "ag-cu-sn": (2, "published ternary liquidus points and Flandorfer's ternary mixing enthalpies of the liquid were "
-                    "not at hand; the ternary eutectic and one solidus are the checks"),
+    "ag-cu-sn": (3, "published ternary liquidus points and Flandorfer's ternary mixing enthalpies of the liquid were "
+                    "not at hand; the ternary eutectic, one solidus and SAC305's datasheet liquidus are the checks"),
     "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check"),
     "au-si": (2, "no liquidus or calorimetric value from a source at hand; the eutectic is the fit target"),
-    "au-sn": (2, "the zeta peritectic, the eutectic and AuSn's melting and calorimetry are needed to fit the model; "
-                 "no liquidus, solvus or calorimetry of the liquid from a source at hand"),
     "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
                  "(one of them checked); no liquidus or calorimetric value from a source at hand"),
     "fe-fe3c": (3, "the variant of fe-c without graphite: its cementite eutectoid and eutectic and the shared "
@@ -84,7 +85,8 @@ SHORT_OF_CHECKS = {
     "ge-si": (2, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not "
                  "at hand (the two distribution coefficients check the ends)"),
     "pb-sb": (2, "no liquidus temperatures from a source at hand"),
-    "sn-ag": (1, "the commercial liquidus temperatures at hand are fit targets"),
+    "sn-ag": (2, "the other commercial liquidus temperatures at hand are fit targets; no liquidus, solvus or "
+                 "calorimetry of the melt from a source at hand beyond the (recalled) mixing enthalpy"),
     "sn-bi": (1, "no further liquidus, solvus or calorimetric value from a source at hand"),
     "sn-cu": (0, "the 97Sn-3Cu liquidus and the calorimetry of Cu6Sn5 are needed as fit targets"),
     "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets"),
@@ -98,7 +100,6 @@ FITS_NOT_TO_RULE = {
     "al-si": "one degree of freedom",
     "au-si": "two coefficients to two numbers (dof 0)",
     "bi-cd": "two coefficients to two numbers (dof 0)",
-    "cu-zn": "a pair of coefficients correlated beyond 0.99",
     "pb-sn": "a + b T of the liquid's L[0] correlated beyond 0.99",
     "sn-bi": "four coefficients to four numbers (dof 0)",
 }
