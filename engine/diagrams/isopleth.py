@@ -160,11 +160,14 @@ class _Mapper:
 
     def changes(self, a: tuple[float, float], b: tuple[float, float], ea, eb, depth: int = 0) -> list:
         """Every change between points a and b ((u, T) each; point equilibria ea, eb):
-        [(point, set on a's side, set on b's side)]. The middle is looked at once; where it
-        holds a third phase set both halves are searched, else the one change is narrowed to
-        EDGE_TOLERANCE of the edge (phase_change.narrow_change). A change on a column where
-        N + 1 phases meet (an invariant reaction, flat in temperature) is first tried at the
-        temperatures of invariants found on other columns (two point equilibria)."""
+        [(point, set on a's side, set on b's side)], in order from a to b. The middle is looked
+        at once where more than one phase differs; where it holds a third phase set both halves
+        are searched, else one change is narrowed to EDGE_TOLERANCE of the edge
+        (phase_change.narrow_change). Where that change does not lead from ea's set to eb's (a
+        further phase set lies between, such as a thin three-phase field above an invariant),
+        the rest of the edge on either side of it is searched the same way. A change on a
+        column where N + 1 phases meet (an invariant reaction, flat in temperature) is first
+        tried at the temperatures of invariants found on other columns (two point equilibria)."""
         ka, kb = phase_set(ea), phase_set(eb)
         if ka == kb:
             return []
@@ -180,20 +183,26 @@ class _Mapper:
                     above, below = self.eq_at(*at(t - 0.4 * EDGE_TOLERANCE)), self.eq_at(*at(t + 0.4 * EDGE_TOLERANCE))
                     if phase_set(above) == ka and phase_set(below) == kb:
                         return [(at(t), ka, kb)]
-        if len(_changed(ka, kb)) == 1:             # one phase appears: one zero-phase-fraction line, as a rule
-            near, far, near_eq, far_eq = 0.0, 1.0, ea, eb
-        else:
+        lo, hi, lo_eq, hi_eq = 0.0, 1.0, ea, eb
+        if len(_changed(ka, kb)) > 1:              # (one phase appears: one zero-phase-fraction line, as a rule)
             mid = self.eq_at(*at(0.5))
             km = phase_set(mid)
             if km not in (ka, kb) and depth < _MAX_SPLITS:
                 return self.changes(a, at(0.5), ea, mid, depth + 1) + self.changes(at(0.5), b, mid, eb, depth + 1)
-            near, far, near_eq, far_eq = (0.0, 0.5, ea, mid) if km != ka else (0.5, 1.0, mid, eb)
-        near, far, _, far_eq = narrow_change(lambda t: self.eq_at(*at(t)), near, far, phase_set(near_eq), near_eq,
-                                             far_eq, EDGE_TOLERANCE)
+            lo, hi, lo_eq, hi_eq = (0.0, 0.5, ea, mid) if km != ka else (0.5, 1.0, mid, eb)
+        near, far, near_eq, far_eq = narrow_change(lambda t: self.eq_at(*at(t)), lo, hi, phase_set(lo_eq), lo_eq,
+                                                   hi_eq, EDGE_TOLERANCE)
         point = at(0.5 * (near + far))
-        if invariant and phase_set(near_eq) == ka and phase_set(far_eq) == kb:
+        k_near, k_far = phase_set(near_eq), phase_set(far_eq)
+        if invariant and k_near == ka and k_far == kb:
             self.invariant_K.append(point[1])
-        return [(point, phase_set(near_eq), phase_set(far_eq))]
+        found = [(point, k_near, k_far)]
+        if depth < _MAX_SPLITS:
+            if k_near != phase_set(lo_eq):
+                found = self.changes(at(lo), at(near), lo_eq, near_eq, depth + 1) + found
+            if k_far != phase_set(hi_eq):
+                found += self.changes(at(far), at(hi), far_eq, hi_eq, depth + 1)
+        return found
 
 
 def map_isopleth(system, start, end, basis: str, element: str, temperature_range_K: tuple[float, float] | None = None,

@@ -18,42 +18,69 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
     (near, far, near_eq, far_eq) at the end, near_eq None where no probe fell on that side.
 
     Where a phase is present on one side only (the far side, the two sides swapped where need
-    be), its amount there is nearly linear in the parameter close to the change and falls to
-    zero at it (regula falsi: its zero is tried, a little to either side by turns); bisection
-    where that is not so, and whenever a try does not halve the bracket. A change with several phase sets inside the bracket is narrowed to
-    one of them."""
+    be), its amount there is a smooth function of the parameter that falls to zero at the
+    change: its zero is estimated from the points found on that side (a straight line through
+    the two nearest, a parabola through the three nearest; regula falsi and inverse
+    interpolation), and the next point is tried just beyond the estimate, by the estimate's own
+    uncertainty (the two estimates' difference, at least 0.4 `tolerance`; ten times more after
+    each try that fell short), and then just before it, so that both sides close in on the
+    change together. The bracket is bisected where no estimate lies inside it and after two
+    tries in a row that did not halve it. A change with several phase sets inside the bracket
+    is narrowed to one of them."""
     far_key = phase_set(far_eq)
     if near_eq is not None and not any(far_key.count(n) > near_key.count(n) for n in set(far_key)):
         near, far, near_eq, far_eq = narrow_change(probe, far, near, far_key, far_eq, near_eq, tolerance)
         return far, near, far_eq, near_eq                 # the phase that goes to zero is on the near side
     far_points: list[tuple[float, float, tuple[str, ...]]] = []
-    side = 1.0
     direction = 1.0 if far > near else -1.0
+    beyond = True            # the next estimated try goes just beyond the zero (on the far side)
+    short = 0                # tries beyond the estimate in a row that still fell on the near side
+    slow = 0                 # tries in a row that did not halve the bracket
     while abs(far - near) > tolerance:
         far_key = phase_set(far_eq)
         gained = sorted(n for n in set(far_key) if far_key.count(n) > near_key.count(n))
         if gained and (not far_points or far_points[-1][0] != far):
             far_points.append((far, sum(p.amount_mol for p in far_eq.phases if p.name == gained[0]), far_key))
-        same = [(t, a) for t, a, k in far_points if k == far_key]
         width = abs(far - near)
-        trial = 0.5 * (near + far)
-        guessed = False
-        if len(same) >= 2:
-            (t1, a1), (t2, a2) = sorted(same[-2:], key=lambda p: abs(p[0] - near))
-            if a1 < a2:
-                guess = t1 - a1 * (t2 - t1) / (a2 - a1) + side * 0.4 * tolerance * direction
-                if min(near, far) < guess < max(near, far):
-                    trial, guessed = guess, True
+        trial, guessed = 0.5 * (near + far), False
+        estimate = _zero_estimate([(t, a) for t, a, k in far_points if k == far_key], near) if slow < 2 else None
+        if estimate is not None:
+            zero, spread = estimate
+            margin = max(0.4 * tolerance, spread) * 10.0 ** short if beyond else 0.4 * tolerance
+            guess = zero + (margin if beyond else -margin) * direction
+            if min(near, far) < guess < max(near, far):
+                trial, guessed = guess, True
         eq = probe(trial)
         if phase_set(eq) == near_key:
-            near, near_eq, side = trial, eq, 1.0
+            near, near_eq = trial, eq
+            short = short + 1 if guessed and beyond else 0
+            beyond = True
         else:
-            far, far_eq, side = trial, eq, -1.0
-        if guessed and abs(far - near) > 0.5 * width:
-            mid = 0.5 * (near + far)                     # a slow step: bisect once more
-            eq = probe(mid)
-            if phase_set(eq) == near_key:
-                near, near_eq = mid, eq
-            else:
-                far, far_eq = mid, eq
+            far, far_eq = trial, eq
+            short, beyond = 0, False
+        slow = slow + 1 if abs(far - near) > 0.5 * width else 0
     return near, far, near_eq, far_eq
+
+
+def _zero_estimate(points: list[tuple[float, float]], near: float) -> tuple[float, float] | None:
+    """(where the amount falls to zero, how uncertain that is) from points (parameter, amount)
+    on the side holding the phase: the line through the two points nearest `near` (regula
+    falsi), improved by the parabola in amount through the three nearest (inverse quadratic
+    interpolation), the two estimates' difference being the uncertainty; None where the amount
+    does not fall toward `near`."""
+    points = sorted(points, key=lambda p: abs(p[0] - near))[:3]
+    if len(points) < 2:
+        return None
+    (t1, a1), (t2, a2) = points[:2]
+    if not 0.0 <= a1 < a2:
+        return None
+    line = t1 - a1 * (t2 - t1) / (a2 - a1)
+    if len(points) < 3 or not a2 < points[2][1]:
+        return line, 0.0
+    t3, a3 = points[2]
+    # t as a parabola in the amount a through the three points, evaluated at a = 0 (Lagrange form)
+    parabola = (t1 * a2 * a3 / ((a1 - a2) * (a1 - a3)) + t2 * a1 * a3 / ((a2 - a1) * (a2 - a3))
+                + t3 * a1 * a2 / ((a3 - a1) * (a3 - a2)))
+    if not min(line, t1) - abs(t1 - line) <= parabola <= max(line, t1) + abs(t1 - line):
+        return line, abs(t1 - line)
+    return parabola, abs(parabola - line)

@@ -159,3 +159,18 @@ def test_point_for_a_ternary_alloy_lists_every_phase_and_element(run, lead_tin_b
 def test_a_ternary_needs_every_element_but_one(run, lead_tin_bismuth):
     _one_line_error(*run("point", lead_tin_bismuth, "--temp", "200C", "--comp", "Sn=30wt%"), "point",
                     "leaves Pb and Bi unnamed: name all but one (the balance)")
+
+
+def test_tin_silver_copper_isopleth_crosses_the_ternary_eutectic(run):
+    """Sn-3Ag with 0-2 wt% Cu (shipped ag-cu-sn): every alloy with copper ends freezing in the
+    ternary eutectic liquid -> bct + Ag3Sn + Cu6Sn5, measured at 217.2 +- 0.2 C by K.-W. Moon and
+    W.J. Boettinger, JOM 56(4) (2004) 22 (the file's check; the model gives 217.31 C); the
+    section crosses it below the thin liquid + bct + Ag3Sn field (once reported as none)."""
+    code, js, err = run("diagram", "ag-cu-sn", "--comp", "Ag=3wt%,Cu=0.5wt%", "--vary", "Cu=0..2wt%", "--json")
+    assert code == 0 and err == ""
+    [reaction] = json.loads(js)["invariants"]
+    assert reaction["phases"] == ["Ag3Sn", "Cu6Sn5", "bct", "liquid"]
+    assert reaction["temperature_K"] - 273.15 == pytest.approx(217.2, abs=0.5)
+    assert reaction["from"] < 0.002 and reaction["to"] == pytest.approx(0.02)
+    code, out, _ = run("diagram", "ag-cu-sn", "--comp", "Ag=3wt%,Cu=0.5wt%", "--vary", "Cu=0..2wt%", "--ascii")
+    assert code == 0 and "invariant reactions crossed: none" not in out

@@ -93,3 +93,25 @@ def test_through_the_engine_both_sides_of_every_line_agree(tmp_path):
     iso = isopleth.map_isopleth(system, START, END, "at", "Sn", WINDOW_K, columns=7, rows=9)
     assert _both_sides_checked(system, iso, equilibrate) > 20
     assert [inv.phases for inv in iso.invariants] == [("alpha", "beta", "gamma", "liquid")]
+
+
+@pytest.mark.parametrize("rows", [3, 4, 6])
+def test_every_column_through_the_ternary_eutectic_crosses_it_on_a_coarse_grid(monkeypatch, rows):
+    """Every alloy holding all three elements ends freezing in the ternary eutectic of the
+    invented eutectic system (three pure solids). On a grid whose rows are far apart, an edge of
+    a column runs from the liquid's fields through the thin liquid + alpha + beta field to
+    alpha + beta + gamma: each change on it is found, so the invariant is crossed on every inner
+    column (u = 1/8 .. 7/8) at the closed-form temperature (sum_i a_i(T) = 1, brentq), and the
+    liquid's line below the three-phase field is there."""
+    system = it.eutectic_system()
+    monkeypatch.setattr(isopleth, "equilibrate", it.equilibrate_for(system))
+    iso = isopleth.map_isopleth(system, START, END, "at", "B", WINDOW_K, columns=9, rows=rows)
+    T_eutectic = brentq(lambda T: it.saturation(T).sum() - 1.0, 400.0, 1000.0)
+    spacing = (WINDOW_K[1] - WINDOW_K[0]) / (rows - 1)
+    [inv] = iso.invariants
+    assert inv.phases == ("alpha", "beta", "gamma", "liquid")
+    assert inv.u_range == (0.125, 0.875)
+    assert inv.temperature_K == pytest.approx(T_eutectic, abs=isopleth.EDGE_TOLERANCE * spacing)
+    on_liquid_line = {float(u) for ln in iso.lines if ln.phase == "liquid" and ln.without_phase == ("alpha", "beta", "gamma")
+                      for u, T in ln.points if abs(T - T_eutectic) <= isopleth.EDGE_TOLERANCE * spacing}
+    assert {k / 8 for k in range(1, 8)} <= on_liquid_line
