@@ -11,6 +11,13 @@
 - Constituents of a plain carbon steel after slow cooling, by the lever rule at A1: the
   austenite just above A1 becomes pearlite (the eutectoid constituent, ferrite + cementite); the
   ferrite or cementite already there is the proeutectoid constituent.
+- Constituents of a white cast iron after slow cooling (the iron-cementite diagram): the liquid
+  left at the eutectic freezes as the eutectic constituent (ledeburite, austenite + cementite),
+  whose austenite later becomes pearlite at A1 (transformed ledeburite); primary austenite rejects
+  secondary cementite between the eutectic and A1 (the lever rule on its carbon, from its content
+  at the eutectic to that at A1) and becomes pearlite; primary cementite stays. (W.D. Callister,
+  D.G. Rethwisch, Materials Science and Engineering: An Introduction, Wiley, ch. 9, the
+  iron-carbon system, for the constituents and the lever rule.)
 
 These are equilibrium results of the model, not a process specification: real heating and cooling
 rates shift the temperatures and change the constituents. Temperatures in K, amounts as mass
@@ -110,19 +117,56 @@ def line_labels(result: AlloyTransitions, named_line: Callable) -> dict[int, str
     return {i: line.name for i, t in enumerate(result.transitions) if (line := named_line(t.above, t.below)) is not None}
 
 
-def slow_cooled_constituents(result: AlloyTransitions, labels: dict[int, str],
+def slow_cooled_constituents(result: AlloyTransitions, named_line: Callable,
                              trade_name: Callable[[str, float], str | None]) -> tuple[Constituent, ...]:
-    """Proeutectoid constituent and pearlite of a steel that cools slowly through A1 (the lever
-    rule just above A1): the austenite there becomes pearlite; each other phase there is named
-    'proeutectoid' + its trade name (`trade_name(phase, T)`, T in K). Empty where A1 is not
-    crossed, or where the alloy is never all austenite (a cast iron: its cementite above A1 is
-    partly eutectic, not proeutectoid)."""
-    a1 = next((result.transitions[i] for i, label in labels.items() if label == A1), None)
-    all_austenite = any((_AUSTENITE,) in (t.above, t.below) for t in result.transitions)
-    if a1 is None or not all_austenite:
+    """The constituents of a steel or a white cast iron that cools slowly through A1 (mass
+    fractions of the alloy, by the lever rule; see the module's docstring). `named_line(above,
+    below)` gives the trade's line of a change (with its `name` and `constituent`) or None
+    (TradeNames.line); `trade_name(phase, T)` (T in K) a phase's trade name. Empty where A1 is not
+    crossed, or where the alloy is neither all austenite at some temperature (a steel) nor freezes
+    through a eutectic that names its constituent (a cast iron)."""
+    lines = {i: line for i, t in enumerate(result.transitions) if (line := named_line(t.above, t.below)) is not None}
+    a1_at = next((i for i, line in lines.items() if line.name == A1), None)
+    if a1_at is None:
+        return ()
+    a1, pearlite_name = result.transitions[a1_at], lines[a1_at].constituent or PEARLITE
+    eutectic_at = next((i for i, line in lines.items()
+                        if line.constituent and _LIQUID in result.transitions[i].above
+                        and _LIQUID not in result.transitions[i].below), None)
+    if eutectic_at is not None:
+        return _cast_iron(result.transitions[eutectic_at], lines[eutectic_at].constituent, a1, pearlite_name, trade_name)
+    if not any((_AUSTENITE,) in (t.above, t.below) for t in result.transitions):
         return ()
     T = a1.above_equilibrium.temperature_K
     out = [Constituent(f"proeutectoid {trade_name(p.name, T) or p.name}", p.amount_mass)
            for p in a1.above_equilibrium.phases if p.name != _AUSTENITE]
     pearlite = sum(p.amount_mass for p in a1.above_equilibrium.phases if p.name == _AUSTENITE)
-    return tuple(out + [Constituent(PEARLITE, pearlite)])
+    return tuple(out + [Constituent(pearlite_name, pearlite)])
+
+
+def _cast_iron(eutectic: Transition, eutectic_name: str, a1: Transition, pearlite_name: str,
+               trade_name: Callable[[str, float], str | None]) -> tuple[Constituent, ...]:
+    """A white cast iron's constituents after slow cooling: primary phases as they stand just above
+    the eutectic, primary austenite split into secondary carbide and pearlite by the lever rule on
+    the second element's mass fraction (austenite's at the eutectic and at A1, the carbide's),
+    and the eutectic constituent transformed at A1."""
+    T_e = eutectic.above_equilibrium.temperature_K
+    austenite_e = next(p for p in eutectic.below_equilibrium.phases if p.name == _AUSTENITE)
+    austenite_a1 = next((p for p in a1.above_equilibrium.phases if p.name == _AUSTENITE), None)
+    carbide = next((p for p in a1.above_equilibrium.phases if p.name != _AUSTENITE), None)
+    if austenite_a1 is None or carbide is None:
+        return ()
+    w_e, w_a1, w_carbide = float(austenite_e.w[1]), float(austenite_a1.w[1]), float(carbide.w[1])
+    out = []
+    for p in eutectic.above_equilibrium.phases:
+        if p.name == _LIQUID:
+            continue
+        if p.name == _AUSTENITE:
+            secondary = p.amount_mass * (w_e - w_a1) / (w_carbide - w_a1)
+            T_a1 = a1.above_equilibrium.temperature_K
+            out += [Constituent(f"secondary {trade_name(carbide.name, T_a1) or carbide.name}", secondary),
+                    Constituent(pearlite_name, p.amount_mass - secondary)]
+        else:
+            out.append(Constituent(f"primary {trade_name(p.name, T_e) or p.name}", p.amount_mass))
+    liquid = sum(p.amount_mass for p in eutectic.above_equilibrium.phases if p.name == _LIQUID)
+    return tuple(out + [Constituent(f"transformed {eutectic_name}", liquid)])

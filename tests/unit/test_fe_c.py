@@ -231,11 +231,39 @@ def test_windows_and_slow_cooled_constituents(metastable, steels) -> None:
     window = austenitizing_window(hyper, _labels(metastable, hyper))
     assert (window.low_is, window.high_is, set(window.phases)) == ("A1", "Acm", {"fcc", "Fe3C"})
     names = trade_names(metastable)
-    hypo_c = {c.name: c.mass_fraction for c in slow_cooled_constituents(hypo, _labels(metastable, hypo), names.phase_name)}
+    hypo_c = {c.name: c.mass_fraction for c in slow_cooled_constituents(hypo, names.line, names.phase_name)}
     assert hypo_c["pearlite"] == pytest.approx((0.4 - 0.022) / (0.77 - 0.022), abs=0.02)
     assert hypo_c["proeutectoid ferrite"] + hypo_c["pearlite"] == pytest.approx(1.0, abs=1e-9)
-    hyper_c = {c.name: c.mass_fraction for c in slow_cooled_constituents(hyper, _labels(metastable, hyper), names.phase_name)}
+    hyper_c = {c.name: c.mass_fraction for c in slow_cooled_constituents(hyper, names.line, names.phase_name)}
     assert hyper_c["proeutectoid cementite"] == pytest.approx((1.2 - 0.77) / (6.69 - 0.77), abs=0.005)
+
+
+@pytest.mark.parametrize("wt", [3.5, 5.0])
+def test_white_cast_iron_constituents(metastable, wt) -> None:
+    """A hypoeutectic (3.5 wt% C) and a hypereutectic (5.0 wt% C) white iron cooled slowly:
+    primary austenite (or primary cementite), secondary cementite and pearlite from the primary
+    austenite, and transformed ledeburite (W.D. Callister, Materials Science and Engineering: An
+    Introduction, 7th ed., Wiley (2007), the iron-carbon system; the trade's constituent names).
+    Reference: the lever rule on Okamoto's compositions (J. Phase Equilib. 13 (1992) 543, as drawn
+    in ASM Handbook Vol. 3: eutectic liquid 4.30, austenite 2.11 at the eutectic and 0.77 wt% C at
+    A1) and cementite's 6.69 wt% C; tolerance 5 wt% of the alloy, because the model's eutectic
+    liquid (4.38 wt% C, within its check's 0.15 wt%) moves the primary fraction by about 0.3 per
+    wt% C of that difference, times the alloy's distance from the eutectic."""
+    scan = alloy_transitions(metastable, _x_C(metastable, wt), highest_K=1440.0, lowest_K=900.0, step_K=4.0)
+    names = trade_names(metastable)
+    found = {c.name: c.mass_fraction for c in slow_cooled_constituents(scan, names.line, names.phase_name)}
+    assert sum(found.values()) == pytest.approx(1.0, abs=1e-9)
+    if wt < 4.3:
+        primary = (4.30 - wt) / (4.30 - 2.11)
+        secondary = primary * (2.11 - 0.77) / (6.69 - 0.77)
+        assert set(found) == {"secondary cementite", "pearlite", "transformed ledeburite"}
+        assert found["secondary cementite"] == pytest.approx(secondary, abs=0.05 * secondary / primary + 0.005)
+        assert found["pearlite"] == pytest.approx(primary - secondary, abs=0.05)
+        assert found["transformed ledeburite"] == pytest.approx(1.0 - primary, abs=0.05)
+    else:
+        primary = (wt - 4.30) / (6.69 - 4.30)
+        assert set(found) == {"primary cementite", "transformed ledeburite"}
+        assert found["primary cementite"] == pytest.approx(primary, abs=0.05)
 
 
 def test_leaving_graphite_out_changes_only_where_graphite_was_stable(stable, metastable) -> None:
@@ -332,8 +360,8 @@ def test_constituents_carry_the_trade_names(metastable, stable) -> None:
 
 def test_cool_of_a_white_iron_names_ledeburite(capsys) -> None:
     """`ladle cool fe-fe3c --json` of a white iron (3 wt% C): its eutectic constituent is
-    ledeburite on both paths, and no slow-cooled steel constituents (a cast iron's cementite
-    above A1 is partly eutectic)."""
+    ledeburite on both paths; after slow cooling its primary austenite is pearlite and secondary
+    cementite and its ledeburite transformed ledeburite (their amounts: test_white_cast_iron_constituents)."""
     import json
 
     from ladle.tui.cli import main
@@ -343,4 +371,5 @@ def test_cool_of_a_white_iron_names_ledeburite(capsys) -> None:
     for part in (doc["equilibrium"], doc["scheil"]):
         assert {c["name"]: c["trade_name"] for c in part["constituents"]} == {
             "primary fcc": None, "eutectic fcc + Fe3C": "ledeburite"}
-    assert doc["slow_cooled_constituents"] is None
+    assert [c["name"] for c in doc["slow_cooled_constituents"]] == [
+        "secondary cementite", "pearlite", "transformed ledeburite"]

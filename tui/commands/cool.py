@@ -60,22 +60,22 @@ def run(args: argparse.Namespace) -> int:
 
 
 def _slow_cooled(system, x, result) -> tuple:
-    """A steel's constituents after slow cooling through A1 (proeutectoid ferrite or cementite,
-    pearlite), from the transition scan between the end of equilibrium freezing and the bottom of
-    the file's diagram window, where the file names austenitizing as its heat treatment; else ()
-    (also for a cast iron, whose equilibrium freezing ends in a eutectic)."""
+    """A steel's or white cast iron's constituents after slow cooling through A1 (proeutectoid
+    ferrite or cementite and pearlite; primary or secondary cementite, pearlite and transformed
+    ledeburite), from the transition scan between just above the end of equilibrium freezing and
+    the bottom of the file's diagram window, where the file names austenitizing as its heat
+    treatment; else ()."""
     from ladle.engine.files.trade_names import trade_names
 
     names = trade_names(system)
     end = result.equilibrium.end_K
-    if (names.heat_treatment != "austenitizing" or end is None
-            or any("eutectic" in c.name for c in result.equilibrium.constituents)):
+    if names.heat_treatment != "austenitizing" or end is None:
         return ()
     from ladle.engine.diagrams.alloy_transitions import alloy_transitions
-    from ladle.engine.diagrams.heat_treatment import line_labels, slow_cooled_constituents
+    from ladle.engine.diagrams.heat_treatment import slow_cooled_constituents
 
     scan = alloy_transitions(system, x, highest_K=end + 2.0, lowest_K=system.temperature_range_K[0])
-    return slow_cooled_constituents(scan, line_labels(scan, names.line), names.phase_name)
+    return slow_cooled_constituents(scan, names.line, names.phase_name)
 
 
 def _json(system, result, model: str, constituents) -> dict:

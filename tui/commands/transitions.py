@@ -46,7 +46,7 @@ def run(args: argparse.Namespace) -> int:
     if names.heat_treatment == "austenitizing":
         from ladle.engine.diagrams.heat_treatment import slow_cooled_constituents
 
-        constituents = slow_cooled_constituents(result, labels, names.phase_name)
+        constituents = slow_cooled_constituents(result, names.line, names.phase_name)
     w = mass_from_mole(x, system.molar_mass)
     if args.json:
         print_json(_json(system, result, labels, window, constituents, x, w))
