@@ -76,7 +76,8 @@ KNOWN_FAILURES = {
 SHORT_OF_CHECKS = {
     "ag-cu-sn": (3, "published ternary liquidus points and Flandorfer's ternary mixing enthalpies of the liquid were "
                     "not at hand; the ternary eutectic, one solidus and SAC305's datasheet liquidus are the checks"),
-    "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check"),
+    "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check; Murray's "
+                 "summary at hand gives no further Al-side point, and no calorimetry of the melt was at hand"),
     "au-si": (2, "no liquidus or calorimetric value from a source at hand; the eutectic is the fit target"),
     "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
                  "(one of them checked); no liquidus or calorimetric value from a source at hand"),
@@ -84,12 +85,13 @@ SHORT_OF_CHECKS = {
                    "peritectic; no measured austenite + cementite solvus or liquidus from a source at hand"),
     "ge-si": (2, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not "
                  "at hand (the two distribution coefficients check the ends)"),
-    "pb-sb": (2, "no liquidus temperatures from a source at hand"),
+    "pb-sb": (2, "no liquidus temperatures from a source at hand; the evaluation's other solubilities are fit targets"),
     "sn-ag": (2, "the other commercial liquidus temperatures at hand are fit targets; no liquidus, solvus or "
                  "calorimetry of the melt from a source at hand beyond the (recalled) mixing enthalpy"),
     "sn-bi": (1, "no further liquidus, solvus or calorimetric value from a source at hand"),
     "sn-cu": (0, "the 97Sn-3Cu liquidus and the calorimetry of Cu6Sn5 are needed as fit targets"),
-    "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets"),
+    "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets, and the evaluation's "
+                 "summary gives only the eutectic and the two solubilities it fixes"),
 }
 MIN_CHECKS = 4
 
