@@ -175,27 +175,31 @@ def equilibrate(system, temperature_K: float, composition, x_A: float | None = N
 
 
 def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
-    """The binary shortcut: the cached isothermal section of the binary engine."""
+    """The binary shortcut: the cached isothermal section of the binary engine. Mass fractions
+    are computed in Python floats (two elements: cheaper than numpy on two-element arrays)."""
     sec = section_at(system, T)
-    state = sec.state_at(float(z[0]), float(z[1]))
-    M = system.molar_mass
-    m_alloy = float(z @ M)
+    za, zb = float(z[0]), float(z[1])
+    state = sec.state_at(za, zb)
+    ma, mb = system.molar_mass.tolist()
+    m_alloy = za * ma + zb * mb
     shares = []
     gibbs_dT = 0.0
     for name, (pa, pb), amount in state.phases:
-        px = np.array([pa, pb])
         k = sec.names.index(name)
         if k < sec.n_sol:
             gibbs_dT += amount * float(sec.solutions[k].gibbs_dT(pa, pb))
+            px = np.array([pa, pb])
             sites = (px,)
         else:
-            gibbs_dT += amount * sec.compound_gibbs_dT[k - sec.n_sol]
+            gibbs_dT += amount * sec.compound_gibbs_dT(k - sec.n_sol)
+            px = np.array([pa, pb])
             sites = _compound_sites(system, name)
-        m_sum = float(px @ M)              # the same dot product as m_alloy: a single phase's share is exactly 1
-        shares.append(PhaseShare(name, px, px * M / m_sum, float(amount), float(amount * m_sum / m_alloy), sites))
+        m_sum = pa * ma + pb * mb            # the same sum as m_alloy: a single phase's share is exactly 1
+        shares.append(PhaseShare(name, px, np.array([pa * ma / m_sum, pb * mb / m_sum]), float(amount),
+                                 float(amount * m_sum / m_alloy), sites))
     mu = np.array([np.nan if v is None else v for v in state.mu])
-    return PointEquilibrium(T, z, z * M / m_alloy, tuple(shares), float(state.gibbs), mu, state.converged,
-                            gibbs_dT, float(state.gibbs) - T * gibbs_dT)
+    return PointEquilibrium(T, z, np.array([za * ma / m_alloy, zb * mb / m_alloy]), tuple(shares), float(state.gibbs), mu,
+                            state.converged, gibbs_dT, float(state.gibbs) - T * gibbs_dT)
 
 
 def _compound_sites(system, name: str) -> tuple[np.ndarray, ...]:

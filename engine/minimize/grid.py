@@ -2,6 +2,10 @@
 
 x_B = sin^2(pi u / 2) for u evenly spaced on [0, 1]; x_A = cos^2(pi u / 2) is computed on its own
 so that neither fraction loses digits near its pure element. Both ends are exact.
+
+At a new temperature every solution phase's G on the grid is one matrix product: the phase's
+coefficients at T (`SolutionAtT.grid_coefficients`) times the grid's composition basis
+(`gibbs_basis`); a magnetic term is added on its own.
 """
 
 from __future__ import annotations
@@ -33,3 +37,28 @@ def ideal_mixing_on_grid(n: int = DEFAULT_POINTS) -> np.ndarray:
     out[1:-1] = xa[1:-1] * np.log(xa[1:-1]) + xb[1:-1] * np.log(xb[1:-1])
     out.setflags(write=False)
     return out
+
+
+@lru_cache(maxsize=8)
+def gibbs_basis(n: int, order: int) -> np.ndarray:
+    """(3 + order, n): the composition functions whose combination is a solution's G on the n-point
+    grid: x_A, x_B, x_A ln x_A + x_B ln x_B, then x_A x_B (x_A - x_B)^k for k < order (the
+    Redlich-Kister terms)."""
+    xa, xb = composition_grid(n)
+    d = xa - xb
+    rows = [xa, xb, ideal_mixing_on_grid(n)] + [xa * xb * d**k for k in range(order)]
+    out = np.array(rows)
+    out.setflags(write=False)
+    return out
+
+
+def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.ndarray:
+    """(len(solutions), n): G (J/mol) of each solution phase at one temperature (`SolutionAtT`)
+    on the n-point grid."""
+    order = max(len(s.L) for s in solutions)
+    G = np.array([s.grid_coefficients(order) for s in solutions]) @ gibbs_basis(n, order)
+    for k, s in enumerate(solutions):
+        if s.phase.magnetic is not None:
+            xa, xb = composition_grid(n)
+            G[k] += s.magnetic_gibbs(xa, xb)
+    return G

@@ -18,7 +18,7 @@ from functools import cached_property
 
 import numpy as np
 
-from .grid import DEFAULT_POINTS, composition_grid, ideal_mixing_on_grid
+from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid
 from .hull import lower_hull
 from ..models.phases import CompoundPhase, SolutionAtT
 from .tangent import common_tangent, lowest_against_line, tangent_to_point
@@ -67,32 +67,38 @@ class Section:
         self.system = system
         self.T = float(T)
         self.xa, self.xb = composition_grid(points)
-        self.names: list[str] = list(system.solutions) + list(system.compounds)
-        self.n_sol = len(system.solutions)
-        self.solutions: list[SolutionAtT] = [p.at(self.T) for p in system.solutions.values()]
-        self.compounds: list[CompoundPhase] = list(system.compounds.values())
-        mixing = ideal_mixing_on_grid(points)
-        self.G = np.vstack([s.gibbs(self.xa, self.xb, mixing) for s in self.solutions])
+        solutions, compounds = system.solutions, system.compounds
+        self.names: list[str] = list(solutions) + list(compounds)
+        self.n_sol = len(solutions)
+        self.solutions: list[SolutionAtT] = [p.at(self.T) for p in solutions.values()]
+        self.compounds: list[CompoundPhase] = list(compounds.values())
+        self.G = gibbs_on_grid(self.solutions, points)
         self.comp_x = [(float(c.x[0]), float(c.x[1])) for c in self.compounds]
         self.comp_g = [c.gibbs(self.T) for c in self.compounds]
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
-        self._points = self._hull_points([])
-        self._ties: dict[tuple[int, int], TieLine | None] = {}
+        coarse = self.G[:, ::HULL_STRIDE]
+        which = np.argmin(coarse, axis=0)
+        #: The coarse envelope (x_B, x_A, G, phase) the hull is taken over, compounds not included.
+        self._coarse = (self.xb[::HULL_STRIDE], self.xa[::HULL_STRIDE], coarse[which, np.arange(coarse.shape[1])], which)
+        #: Refined tie-lines by the seed points they started from, (phase, grid index or -1) each.
+        self._ties: dict[tuple[int, int, int, int], TieLine | None] = {}
         #: Tie-lines ((phase, x_B) pairs and mu) whose driving-force check passed: it depends on
         #: nothing else, so it is not repeated for the next composition on the same tie-line.
         self._verified: set = set()
         self._index = {n: i for i, n in enumerate(self.names)}
+        self._compound_dT: dict[int, float] = {}
 
     # --- hull --------------------------------------------------------------------------------
+    @cached_property
+    def _points(self):
+        """The hull's candidate points and vertices without repairs (see `_hull_points`)."""
+        return self._hull_points([])
+
     def _hull_points(self, extra: list[tuple[int, float, float, float]]):
         """Candidate points sorted by x_B: the coarse grid envelope, compounds and `extra`
         (phase, xA, xB, G). Returns Python lists (xb, xa, g, phase index, grid index or -1)
         and the hull vertex indices."""
-        coarse = self.G[:, ::HULL_STRIDE]
-        which = np.argmin(coarse, axis=0)
-        g = coarse[which, np.arange(coarse.shape[1])].tolist()
-        xb, xa = self.xb[::HULL_STRIDE].tolist(), self.xa[::HULL_STRIDE].tolist()
-        phase = which.tolist()
+        xb, xa, g, phase = (a.tolist() for a in self._coarse)
         grid = list(range(len(xb)))
         add = [(self.n_sol + k, cx[0], cx[1], cg) for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g))] + extra
         for ph, pa, pb, pg in add:
@@ -108,9 +114,49 @@ class Section:
             grid.insert(i, -1)
         return xb, xa, g, phase, grid, lower_hull(xb, g)
 
-    def _is_single_phase_edge(self, pts, i: int, j: int) -> bool:
-        _xb, _xa, _g, phase, grid, _h = pts
-        return phase[i] == phase[j] and phase[i] < self.n_sol and grid[i] >= 0 and grid[j] == grid[i] + 1
+    def _seed(self, k: int) -> tuple[int, int, float, float, float]:
+        """Candidate k of the point queries: (phase, grid index or -1, x_A, x_B, G), the coarse
+        grid points first, then the compounds."""
+        cxb, cxa, cg, which = self._coarse
+        n = len(cxb)
+        if k < n:
+            return int(which[k]), k, float(cxa[k]), float(cxb[k]), float(cg[k])
+        c = k - n
+        return self.n_sol + c, -1, self.comp_x[c][0], self.comp_x[c][1], self.comp_g[c]
+
+    def _bridge(self, xb0: float) -> tuple[int, int]:
+        """The lower hull's edge over x_B = xb0 (0 < xb0 < 1) among the hull's candidates, as
+        indices (i, j) of `_seed` with x_B(i) < xb0 <= x_B(j): from the coarse grid points on
+        either side, the candidate lying lowest below the line through the pair replaces the
+        pair's end on its side until none lies below (the line's value at xb0 falls each step)."""
+        xb, _xa, g, _which = self._coarse
+        n = len(xb)
+        j = int(xb.searchsorted(xb0))
+        i = j - 1
+        xi, gi, xj, gj = float(xb[i]), float(g[i]), float(xb[j]), float(g[j])
+        for _ in range(n + len(self.comp_g)):
+            slope = (gj - gi) / (xj - xi)
+            level = gi - slope * xi
+            d = g - slope * xb
+            k = int(d.argmin())
+            lowest = float(d[k])
+            for c, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g)):
+                dc = cg - slope * cx[1]
+                if dc < lowest:
+                    k, lowest = n + c, dc
+            if lowest >= level - 1e-9 * (1.0 + abs(level)):
+                break
+            _p, _grid, _xa, xk, gk = self._seed(k)
+            if xk < xb0:
+                i, xi, gi = k, xk, gk
+            else:
+                j, xj, gj = k, xk, gk
+        return i, j
+
+    def _is_single_phase_edge(self, p: int, grid_p: int, q: int, grid_q: int) -> bool:
+        """Whether two candidates (phase, grid index or -1) are neighbouring coarse grid points
+        of one solution."""
+        return p == q and p < self.n_sol and grid_p >= 0 and grid_q == grid_p + 1
 
     # --- tie-lines ----------------------------------------------------------------------------
     def _line_through(self, p1: tuple[float, float], g1: float, p2: tuple[float, float], g2: float) -> tuple[float, float]:
@@ -144,21 +190,25 @@ class Section:
             return TieLine(names, (xp, xq), self._line_through(xp, gp, xq, gq), False)
         return TieLine(names, (xp, xq), self._line_through(xp, gp, xq, gq), True)
 
-    def _edge_tie(self, pts, i: int, j: int) -> TieLine | None:
-        key = (i, j) if pts is self._points else None
-        if key is not None and key in self._ties:
+    def _edge_tie(self, a: tuple[int, int, float, float, float], b: tuple[int, int, float, float, float],
+                  remember: bool = True) -> TieLine | None:
+        """The refined tie-line of the hull edge between candidates a and b, each (phase, grid
+        index or -1, x_A, x_B, G); remembered by its seed points (`remember`: where they are
+        grid points or compounds)."""
+        key = (a[0], a[1], b[0], b[1])
+        if remember and key in self._ties:
             return self._ties[key]
-        xb, xa, g, phase, _grid, _h = pts
-        tie = self.refine(int(phase[i]), int(phase[j]), (float(xa[i]), float(xb[i])), (float(xa[j]), float(xb[j])),
-                          float(g[i]), float(g[j]))
-        if key is not None:
+        tie = self.refine(a[0], b[0], (a[2], a[3]), (b[2], b[3]), a[4], b[4])
+        if remember:
             self._ties[key] = tie
         return tie
 
-    @cached_property
-    def compound_gibbs_dT(self) -> list[float]:
-        """dG/dT (J/(mol K)) of each compound at this temperature."""
-        return [c.gibbs_dT(self.T) for c in self.compounds]
+    def compound_gibbs_dT(self, k: int) -> float:
+        """dG/dT (J/(mol K)) of compound k at this temperature, computed once."""
+        found = self._compound_dT.get(k)
+        if found is None:
+            found = self._compound_dT[k] = self.compounds[k].gibbs_dT(self.T)
+        return found
 
     # --- driving forces -------------------------------------------------------------------------
     def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
@@ -272,12 +322,12 @@ class Section:
         extra: list[tuple[int, float, float, float]] = []
         ties: list[TieLine] = []
         for _round in range(_MAX_REPAIRS):
-            pts = self._points if not extra else self._hull_points(extra)
-            hull = pts[5]
+            xb, xa, g, phase, grid, hull = self._points if not extra else self._hull_points(extra)
             ties = []
             for i, j in zip(hull[:-1], hull[1:]):
-                if not self._is_single_phase_edge(pts, i, j):
-                    tie = self._edge_tie(pts, int(i), int(j))
+                if not self._is_single_phase_edge(phase[i], grid[i], phase[j], grid[j]):
+                    tie = self._edge_tie((phase[i], grid[i], xa[i], xb[i], g[i]), (phase[j], grid[j], xa[j], xb[j], g[j]),
+                                         remember=not extra)
                     if tie is not None:
                         ties.append(tie)
             ties = self._merge_crossings(ties)
@@ -380,27 +430,25 @@ class Section:
         return LocalState(shares, tie.mu, g, tie.converged)
 
     def _fast_state(self, xa0: float, xb0: float) -> LocalState | None:
-        pts = self._points
-        xb, _xa, _g, phase, _grid, hull = pts
-        k = bisect_left([xb[h] for h in hull], xb0)
-        k = min(max(k, 1), len(hull) - 1)
-        i, j = hull[k - 1], hull[k]
-        if xb0 == xb[j] and phase[j] >= self.n_sol:
+        i, j = self._bridge(xb0)
+        a, b = self._seed(i), self._seed(j)
+        p, q = a[0], b[0]
+        if xb0 == b[3] and q >= self.n_sol:
             return None
-        if self._is_single_phase_edge(pts, i, j):
-            if self.spinodal(int(phase[i]), float(xb[i]), float(xb[j])) is not None:
+        if self._is_single_phase_edge(p, a[1], q, b[1]):
+            if self.spinodal(p, a[3], b[3]) is not None:
                 return None
-            return self._single(int(phase[i]), xa0, xb0)
-        tie = self._edge_tie(pts, i, j)
+            return self._single(p, xa0, xb0)
+        tie = self._edge_tie(a, b)
         if tie is None:
-            return self._single(int(phase[i]), xa0, xb0)
+            return self._single(p, xa0, xb0)
         if not tie.converged:
             return None
         lo, hi = tie.x_B
         if lo <= xb0 <= hi:
             return self._two(tie, xa0, xb0)
-        side = int(phase[i]) if xb0 < lo else int(phase[j])
-        if side >= self.n_sol or self.spinodal(side, min(xb0, lo, float(xb[i])), max(xb0, hi, float(xb[j]))) is not None:
+        side = p if xb0 < lo else q
+        if side >= self.n_sol or self.spinodal(side, min(xb0, lo, a[3]), max(xb0, hi, b[3])) is not None:
             return None
         return self._single(side, xa0, xb0)
 

@@ -161,7 +161,7 @@ class SolutionAtT:
         tau = where(active, self.T / tc_safe, 1e9)
         return (tc1, tc2), (be, be1, be2), active, tc_safe, tau
 
-    def _magnetic_gibbs(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+    def magnetic_gibbs(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """G of the magnetic term alone (J/mol): the value-only path of `gibbs`."""
         _tc, (be, _b1, _b2), active, _safe, tau = self._curie_and_moment(xa, xb, 0)
         g = self.RT * _log(1.0 + be) * hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 0)[0]
@@ -203,8 +203,13 @@ class SolutionAtT:
             mixing = _xlogx(xa) + _xlogx(xb)
         g = xa * self.g0a + xb * self.g0b + self.RT * mixing + g_ex
         if self.phase.magnetic is not None:
-            g = g + self._magnetic_gibbs(xa, xb)
+            g = g + self.magnetic_gibbs(xa, xb)
         return g
+
+    def grid_coefficients(self, order: int) -> list[float]:
+        """G without its magnetic term as coefficients of x_A, x_B, x_A ln x_A + x_B ln x_B and
+        x_A x_B (x_A - x_B)^k for k < order (J/mol; `order` at least len(L))."""
+        return [self.g0a, self.g0b, self.RT] + self.L + [0.0] * (order - len(self.L))
 
     def potentials(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Chemical potentials (mu_A, mu_B), J/mol, computed term by term."""

@@ -83,13 +83,13 @@ class TemperatureFunction:
         return tuple(tuple(float(c) for c in row) for row in self.coefficients)
 
     def _row(self, T: float) -> tuple[float, ...]:
+        rows = self._rows
+        if len(rows) == 1 and self.bounds[0] <= T <= self.bounds[1] and T > 0.0:
+            return rows[0]
         if not (self.bounds[0] <= T <= self.bounds[-1]) or T <= 0.0:
             raise TemperatureOutOfRange(
                 f"temperature {T:.2f} K is outside the model's range {self.bounds[0]:g}-{self.bounds[-1]:g} K"
             )
-        rows = self._rows
-        if len(rows) == 1:
-            return rows[0]
         i = bisect_left(self.bounds, T, 1) - 1
         return rows[min(max(i, 0), len(rows) - 1)]
 
