@@ -39,11 +39,16 @@ KNOWN_FAILURES = {
                   "(Okamoto and Massalski 1983) puts the equilibrium gap at about 2 C: cored, non-equilibrium solid",
     ("ag-au", 6): "Jaenecke's cooling-curve solidus at 32 wt% Au lies 11 K below his liquidus, where the evaluation "
                   "(Okamoto and Massalski 1983) puts the equilibrium gap at about 2 C: cored, non-equilibrium solid",
+    ("ag-cu-sn", 0): "the ternary eutectic's liquid holds 1.43 at% Cu against 1.77 +- 0.3: since sn-cu's liquid was "
+                     "refitted over the whole Cu-Sn range (for cu-sn), the binary eutectic sits at 1.7 at% Cu, inside "
+                     "its source's 1.3-1.7, and the ternary without a ternary term no longer lands on Moon's liquid",
     ("ag-cu", 5): "ASM's coin-silver liquidus (890 C) lies only 3 K below its sterling liquidus (893 C, a fit target), "
                   "where the liquidus falls about 7 K per wt% Cu; the model puts coin silver 16 K lower",
     ("al-mg", 3): "the 520.0 casting alloy's datasheet liquidus (600 C) lies 10 K below the model at 10 wt% Mg",
     ("al-si", 6): "the model's (Si) takes up Al four times as readily as Trumbore's k0 says: its interaction "
                   "was fitted to the eutectic's (Si) composition alone",
+    ("au-cu", 2): "the liquid's enthalpy of mixing comes out -6.6 kJ/mol against about -5.3 (recalled): the model's disordered "
+                  "solid has no excess entropy (short-range order), so the liquid's interaction alone sets the 910 C minimum",
     ("au-si", 2): "the (Si) solubility of Au is set by hand (fcc Au + 30 kJ/mol, L 30 kJ/mol), not measured: k0 comes "
                   "out 80 times Trumbore's 2.5e-5",
     ("au-si", 3): "the model's (Au) holds 0.22 at% Si at 360 C, above the evaluation's bound of 0.1 at%: its fcc "
@@ -76,8 +81,12 @@ KNOWN_FAILURES = {
 SHORT_OF_CHECKS = {
     "ag-cu-sn": (3, "published ternary liquidus points and Flandorfer's ternary mixing enthalpies of the liquid were "
                     "not at hand; the ternary eutectic, one solidus and SAC305's datasheet liquidus are the checks"),
+    "ag-au-cu": (0, "built on ag-au, ag-cu and au-cu with no ternary term: no published ternary liquidus, solidus or solvus "
+                    "value was at hand in a readable form, so there is no ternary fit and no ternary check"),
     "al-cu": (3, "the calorimetric enthalpy of formation of theta is now part of the model, not a check; Murray's "
                  "summary at hand gives no further Al-side point, and no calorimetry of the melt was at hand"),
+    "au-cu": (1, "the congruent minimum and the old minimum melting point are the fit targets; no liquidus or solidus table "
+                 "of the evaluation (its data of 62Ben) and no solid calorimetry were at hand, only the liquid's (recalled)"),
     "au-si": (2, "no liquidus or calorimetric value from a source at hand; the eutectic is the fit target"),
     "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
                  "(one of them checked); no liquidus or calorimetric value from a source at hand"),
@@ -89,7 +98,9 @@ SHORT_OF_CHECKS = {
     "sn-ag": (2, "the other commercial liquidus temperatures at hand are fit targets; no liquidus, solvus or "
                  "calorimetry of the melt from a source at hand beyond the (recalled) mixing enthalpy"),
     "sn-bi": (1, "no further liquidus, solvus or calorimetric value from a source at hand"),
-    "sn-cu": (0, "the 97Sn-3Cu liquidus and the calorimetry of Cu6Sn5 are needed as fit targets"),
+    "sn-cu": (1, "its liquid and (Cu) are shared with cu-sn and fitted to facts of both sides; within 0-6 at% Cu "
+                 "the 97Sn-3Cu liquidus, the eutectic and Cu6Sn5's calorimetry are fit targets, and no further "
+                 "tin-rich liquidus or solvus value was at hand (the bound on Cu in (Sn) is the check)"),
     "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets, and the evaluation's "
                  "summary gives only the eutectic and the two solubilities it fixes"),
 }
