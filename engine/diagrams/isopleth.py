@@ -264,15 +264,15 @@ def covered_part(system, start: tuple[float, ...], end: tuple[float, ...],
             else:
                 u_hi = min(u_hi, -c0 / c1)
     if u_hi - u_lo <= 1e-9:
-        raise ValueError(f"the section lies outside the range this model covers ({_range_text(system)})")
+        raise ValueError(f"the section lies outside the range this model covers ({covered_range_words(system)})")
     if u_lo <= 1e-12 and u_hi >= 1.0 - 1e-12:
         return start, end, []
     ends = tuple(tuple(float(v) for v in a + u * b) for u in (u_lo, u_hi))
-    return ends[0], ends[1], [f"drawn only over the range this model covers ({_range_text(system)})"]
+    return ends[0], ends[1], [f"drawn only over the range this model covers ({covered_range_words(system)})"]
 
 
-def _range_text(system) -> str:
-    """The covered range in words (at%)."""
+def covered_range_words(system) -> str:
+    """The range of compositions the model covers, in words (at%): 'Ag 0-5.5 at%, Cu 0-3.7 at%'."""
     if len(system.elements) == 2:
         lo, hi = system.covers
         return f"{100 * lo:g}-{100 * hi:g} at% {system.elements[1]}"

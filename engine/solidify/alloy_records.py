@@ -60,8 +60,8 @@ class AlloyPath:
 
     `model` is "equilibrium" or "scheil"; `end_K` is where freezing ends (None where liquid is
     left at the bottom of the window) and `end` says how: "solidus", "eutectic", "ternary
-    eutectic", ..., "last liquid" or "window". `forms` lists each solid as it starts to form,
-    (phase, temperature K)."""
+    eutectic", ..., "last liquid", "window" or (Scheil) "outside covered range". `forms` lists
+    each solid as it starts to form, (phase, temperature K)."""
 
     model: str
     system: object = field(repr=False)

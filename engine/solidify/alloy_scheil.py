@@ -19,8 +19,10 @@ Where the stable phases of the liquid's equilibrium change (a new solid starts t
 stops, or no liquid is left), the change is narrowed to EVENT_TOLERANCE_K
 (engine/diagrams/phase_change.py). Freezing ends where
 the liquid freezes at once into several solids (an invariant reaction: `eutectic` with two,
-`ternary eutectic` with three, ...), where it freezes into one solid (`last liquid`), or at the
-bottom of the window. Constituents are named by what forms together.
+`ternary eutectic` with three, ...), where it freezes into one solid (`last liquid`), at the
+bottom of the window, or where the remaining liquid leaves the range of compositions the model
+covers (System.covered; end `outside covered range`): the path is not followed outside it, and
+a note says where and how much liquid was left. Constituents are named by what forms together.
 
 Temperatures in K, compositions in mole fractions of every element, amounts as fractions of
 the alloy, heats in J per gram of alloy (H = G - T dG/dT of each phase from its model).
@@ -32,6 +34,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..diagrams.isopleth import covered_range_words
 from ..diagrams.phase_change import narrow_change, phase_set
 from ..minimize.equilibrium import equilibrate
 from .alloy_records import (LIQUID, AlloyConstituent, AlloyPath, AlloyStep, forming_together, labelled, molar_mass,
@@ -46,7 +49,11 @@ _FIRST_STEP_K = 2.0
 _MAX_STEP_K = 10.0
 _MIN_STEP_K = 1e-5
 _LIQUID_SEARCH_STEP_K = 50.0
+#: Where the liquid leaves the covered range, the last step inside ends within this many K of it.
+RANGE_STEP_K = 0.05
 _MAX_STEPS = 5000
+#: The path's `end` where the remaining liquid leaves the range of compositions the model covers.
+OUTSIDE_RANGE = "outside covered range"
 #: Freezing ends when less than this share of the alloy's atoms is liquid.
 LAST_LIQUID = 1e-6
 
@@ -129,6 +136,7 @@ class AlloyScheil:
         self.heat = 0.0                       # J per mole of alloy
         self.end_K: float | None = None
         self.end = "window"
+        self.left_range = False               # whether the liquid left the covered range at the path's end
         self.calls = 0
         self.unconverged: list[float] = []     # temperatures (K) of point equilibria that did not converge
 
@@ -149,7 +157,7 @@ class AlloyScheil:
         self._change(state, below)
         h = _FIRST_STEP_K
         for _ in range(_MAX_STEPS):
-            if state.f_L <= LAST_LIQUID or self.end_K is not None:
+            if state.f_L <= LAST_LIQUID or self.end_K is not None or self.left_range:
                 break
             if state.T - h < lo:
                 h = state.T - lo
@@ -163,6 +171,12 @@ class AlloyScheil:
             new, error = step
             if error > 4.0 * STEP_TOLERANCE and h > _MIN_STEP_K:
                 h *= 0.3
+                continue
+            if not self.system.covered(new.x_L):
+                if h > RANGE_STEP_K:
+                    h = max(0.3 * h, 0.5 * RANGE_STEP_K)
+                else:
+                    self.left_range = True
                 continue
             self._accept(state, new, h)
             state = new
@@ -256,6 +270,9 @@ class AlloyScheil:
         lo, _hi, _above, below = narrow_change(probe, 0.0, h, state.key, None, probe(h), EVENT_TOLERANCE_K)
         if lo > 0.0:
             step = self._step(state, lo)
+            if step is not None and not self.system.covered(step[0].x_L):
+                self.left_range = True           # the main loop narrows where the liquid leaves the range
+                return state
             if step is not None:
                 self._accept(state, step[0], lo)
                 state = step[0]
@@ -347,9 +364,16 @@ class AlloyScheil:
                         for s in self.stages if s.mol > 0.0]
         if self.end_K is None:
             f_mass = state.f_L * molar_mass(self.system, state.x_L) / self.M
-            constituents.append(AlloyConstituent("liquid left at the bottom of the window", f_mass, state.f_L,
+            where = "where it leaves the covered range" if self.left_range else "at the bottom of the window"
+            constituents.append(AlloyConstituent(f"liquid left {where}", f_mass, state.f_L,
                                                  tuple(float(v) for v in state.x_L)))
-            notes.append("liquid is left at the bottom of the window")
+            if self.left_range:
+                self.end = OUTSIDE_RANGE
+                notes.append(f"the remaining liquid ({100 * f_mass:.3g} mass % of the alloy) leaves the range this model "
+                             f"covers ({covered_range_words(self.system)}) at the path's last temperature: the Scheil "
+                             "path is not followed further")
+            else:
+                notes.append("liquid is left at the bottom of the window")
         return AlloyPath("scheil", self.system, tuple(float(v) for v in self.x), self.liquidus_K, self.end_K,
                          self.end, tuple(self.steps), tuple(self.forms), tuple(constituents), self.heat / self.M,
                          tuple(self.arrests), tuple(notes))

@@ -77,7 +77,9 @@ def test_batch_notes_the_rows_outside(system, tmp_path, capsys, monkeypatch):
     out = tmp_path / "out.csv"
     assert main(["batch", system, str(heats), "-o", str(out)]) == 1
     rows = list(csv.DictReader(io.StringIO(out.read_text())))
-    assert rows[0]["note"] == "" and rows[0]["liquidus_C"] != ""
+    # T1 lies inside; its Scheil liquid leaves the range before freezing ends (every liquid of
+    # this system ends at the ternary eutectic, 42.5 at% Bi), which the batch may note
+    assert "lies outside" not in rows[0]["note"] and rows[0]["liquidus_C"] != ""
     assert rows[1]["note"] == "Sn at% 40, Bi at% 10 lies outside the range this model covers (Sn 0-30 at%, Bi 5-20 at%)"
     assert rows[2]["note"] == "Sn at% 20, Bi at% 2 lies outside the range this model covers (Sn 0-30 at%, Bi 5-20 at%)"
     assert rows[1]["liquidus_C"] == rows[2]["liquidus_C"] == ""
@@ -122,3 +124,21 @@ def test_the_systems_list_shows_a_ternarys_covered_range(capsys):
     assert row["covers_at_percent"] == {"Ag": [0.0, 5.5], "Cu": [0.0, 3.7]}
     assert main(["systems"]) == 0
     assert "[covers Ag 0-5.5 at%, Cu 0-3.7 at%]" in " ".join(capsys.readouterr().out.split())
+
+
+def test_cool_says_where_the_scheil_liquid_leaves_the_covered_range(system, capsys):
+    """Sn 5, Bi 15 at%: inside the range, but its Scheil liquid (pure Pb forming first) gains Bi
+    past 20 at% before freezing ends (tests/unit/test_alloy_scheil.py has the closed form): the
+    text and the JSON say so, and the path is not followed outside the range."""
+    assert main(["cool", system, "--comp", "Sn=5at%,Bi=15at%", "--scheil"]) == 0
+    text = capsys.readouterr().out
+    assert "freezing ends, Scheil: not followed below" in text
+    assert "where the remaining liquid leaves the range this model covers" in text
+    assert "note: the remaining liquid (73.3 mass % of the alloy) leaves the range this model covers " \
+           "(Sn 0-30 at%, Bi 5-20 at%)" in text
+    assert main(["cool", system, "--comp", "Sn=5at%,Bi=15at%", "--json"]) == 0
+    scheil = json.loads(capsys.readouterr().out)["scheil"]
+    assert scheil["end"] == "outside covered range" and scheil["end_K"] is None
+    assert any("leaves the range this model covers" in n for n in scheil["notes"])
+    assert all(step["liquid_mole_fraction"]["Bi"] <= 0.2 + 1e-12 for step in scheil["path"]
+               if step["liquid_mole_fraction"] is not None)

@@ -144,3 +144,29 @@ def test_heat_of_a_scheil_path_is_the_heat_of_the_same_constituents_at_equilibri
     eq, sch = paths.equilibrium, paths.scheil
     assert [c.name for c in eq.constituents] == [c.name for c in sch.constituents]
     assert sch.latent_heat_J_per_g == pytest.approx(eq.latent_heat_J_per_g, rel=0.01)
+
+
+def test_the_path_stops_where_the_liquid_leaves_the_covered_range(tmp_path):
+    """The invented ideal eutectic covering Bi (C) 5-20 at% only (ideal_ternaries.COVERS):
+    alloy 80 A, 5 B, 15 C at% forms pure alpha first, so its liquid keeps x_B / x_C = 1/3 and
+    reaches x_C = 0.20 at x_A = 1 - 0.20 * 4/3, where a_A(T) = x_A (the ideal freezing-point
+    equation, ideal_ternaries), before any valley. The path ends there, within RANGE_STEP_K above,
+    with no step outside the range, the rest named as liquid left there and a note saying so;
+    mass balance holds."""
+    from ladle.engine import load_system
+
+    system = load_system(it.write_covered_file(tmp_path))
+    z = np.array([0.80, 0.05, 0.15])
+    path = alloy_scheil.alloy_scheil(system, z)
+    x_A = 1.0 - 0.20 * (z[1] + z[2]) / z[2]
+    T_leaves = brentq(lambda T: it.saturation(T)[0] - x_A, 600.0, 1300.0, xtol=1e-12)
+    assert path.end == alloy_scheil.OUTSIDE_RANGE and path.end_K is None
+    last = path.steps[-1]
+    assert T_leaves <= last.temperature_K <= T_leaves + alloy_scheil.RANGE_STEP_K
+    assert all(system.covered(np.array(s.liquid_x)) for s in path.steps if s.liquid_x is not None)
+    assert [c.name for c in path.constituents] == ["primary alpha", "liquid left where it leaves the covered range"]
+    assert path.constituents[1].fraction_mol == pytest.approx(z[2] / 0.20, abs=1e-3)   # C stays in the liquid
+    assert len(path.notes) == 1 and "leaves the range this model covers (Sn 0-30 at%, Bi 5-20 at%)" in path.notes[0]
+    moles = sum(c.fraction_mol * np.array(c.x) for c in path.constituents)
+    assert np.abs(moles - z).max() < 1e-6
+    assert sum(c.mass_fraction for c in path.constituents) == pytest.approx(1.0, abs=1e-9)

@@ -171,14 +171,18 @@ def table(system, result, model: str, unit: str, elements: list[str], basis: str
 def summary(system, result, unit: str, constituents=()) -> list[str]:
     """Ends of freezing, the structure at the end (with the trade's names), latent heat and arrests
     of both paths, and a steel's `constituents` after slow cooling (see _slow_cooled)."""
+    from ladle.engine.solidify.alloy_scheil import OUTSIDE_RANGE
+
     from ..phase_names import constituent_label
     from .transitions import slow_cooled_lines
 
     paths = [result.path(model) for model in PATH_NAMES]
     out = [""]
     for p in paths:
-        end = "liquid remains in the mapped window" if p.end_K is None else \
-            f"{quote.temperature(p.end_K, unit)} ({p.end})"
+        end = f"{quote.temperature(p.end_K, unit)} ({p.end})" if p.end_K is not None else \
+            (f"not followed below {quote.temperature(p.steps[-1].temperature_K, unit)}, where the remaining liquid "
+             "leaves the range this model covers (see the note)") if p.end == OUTSIDE_RANGE else \
+            "liquid remains in the mapped window"
         out.append(f"freezing ends, {PATH_NAMES[p.model]}: {end}")
     named_at = result.equilibrium.end_K or result.equilibrium.liquidus_K
     structure = [(constituent_label(system, name, named_at), f) for name, f in structure_rows(result)]
