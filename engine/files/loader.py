@@ -276,15 +276,34 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     reject_repeated_facts(system.checks, system.measured, r.fail)
     if "fit" in doc:
         fit = r.table(doc["fit"], "fit")
-        r.known_keys(fit, {"free"}, "fit")
+        r.known_keys(fit, {"free", "facts_at_percent"}, "fit")
         free = fit.get("free", [])
         if not isinstance(free, list) or not all(isinstance(f, str) for f in free):
             raise r.fail("fit.free", "expected a list of parameter paths such as [\"liquid.L.0.a\"]")
         system.fit_free = list(free)
+        if "facts_at_percent" in fit:
+            system.fit_covers = _fit_range(r, fit["facts_at_percent"], system)
     lo, hi = system.model_range_K
     if lo >= hi:
         raise r.fail("phase", f"the phases share no temperature range (they overlap from {lo:g} K to {hi:g} K)")
     return system
+
+
+def _fit_range(r: _Reader, value, system: System) -> tuple[float, float]:
+    """The compositions (mole fraction of B) a binary's fit draws its [[measured]] facts from:
+    `[fit] facts_at_percent`, a range of at% B holding the covered range (a file that others
+    build on is fitted to facts of their ranges too)."""
+    key = "fit.facts_at_percent"
+    if len(system.elements) != 2:
+        raise r.fail(key, "only for a system of two elements")
+    if not isinstance(value, list) or len(value) != 2:
+        raise r.fail(key, f"expected [from, to] in at% of {system.elements[1]}")
+    lo, hi = (r.number(v, key) / 100.0 for v in value)
+    c_lo, c_hi = system.covers
+    if not 0 <= lo <= c_lo < c_hi <= hi <= 1:
+        raise r.fail(key, f"expected 0 <= from < to <= 100 (at%), holding covers_at_percent "
+                          f"({100 * c_lo:g}-{100 * c_hi:g})")
+    return (lo, hi)
 
 
 def _bases(r: _Reader, library: ElementLibrary, doc: dict, elements: tuple[str, ...], path: Path,

@@ -26,7 +26,7 @@ from __future__ import annotations
 
 import copy
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Callable
 
 import numpy as np
@@ -133,7 +133,7 @@ class _Objective:
         return self.doc
 
     def build(self, p: np.ndarray):
-        return load_system(self.system.path, name=self.system.name, document=self.document(p))
+        return fitting_view(load_system(self.system.path, name=self.system.name, document=self.document(p)))
 
     def __call__(self, p: np.ndarray) -> np.ndarray:
         self.evaluations += 1
@@ -159,6 +159,13 @@ class _Objective:
         if self.progress is not None:
             self.progress(self.evaluations, float(r @ r))
         return r
+
+
+def fitting_view(system):
+    """The system as its fit sees it: covering the compositions of `[fit] facts_at_percent` where
+    the file gives them (a file that others build on, fitted to facts of their ranges too), so that
+    facts there are measured and its diagram is mapped over them."""
+    return system if system.fit_covers is None else replace(system, covers=system.fit_covers)
 
 
 def _prepare(system) -> tuple[list[ParameterPath], list[Target]]:
@@ -213,6 +220,7 @@ def fit(system, progress: Progress | None = None, max_steps: int | None = None) 
     from scipy.optimize import least_squares
 
     started = time.perf_counter()
+    system = fitting_view(system)
     paths, targets = _prepare(system)
     T_ref = 0.5 * sum(system.temperature_range_K)
     scales = np.array([p.scale(T_ref) for p in paths])
@@ -229,7 +237,7 @@ def fit(system, progress: Progress | None = None, max_steps: int | None = None) 
     r = objective(result.x)
     lost = list(objective.lost)
     document = copy.deepcopy(objective.document(result.x))
-    fitted = load_system(system.path, name=system.name, document=document)
+    fitted = fitting_view(load_system(system.path, name=system.name, document=document))
     outcomes = tuple(evaluate_all(fitted, fitted.measured))
 
     chi2 = float(r @ r)

@@ -58,6 +58,8 @@ class System:
     `covers` is the range of x_B (mole fraction; binaries) and `covers_K` the range of
     temperature (K) the model is meant for; `covers_elements` the range of mole fraction of each
     element it names (systems of three or more elements; an element not named may take any).
+    `fit_covers` is the range of x_B a binary's fit draws its measured facts from, where the file
+    gives `[fit] facts_at_percent` (None: the covered range).
     """
 
     name: str
@@ -77,6 +79,7 @@ class System:
     checks: list[Fact] = field(default_factory=list)
     measured: list[Fact] = field(default_factory=list)
     fit_free: list[str] = field(default_factory=list)
+    fit_covers: tuple[float, float] | None = None
     alloys: tuple = ()
     document: dict = field(default_factory=dict, repr=False)
 

@@ -27,10 +27,11 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ladle.engine.checking.measure import INDEPENDENT, evaluate_all, fact_role
+    from ladle.engine.fitting.fit import fitting_view
 
     system = open_system(args.system, args.without)
     checks = evaluate_all(system, system.checks)
-    targets = evaluate_all(system, system.measured)
+    targets = evaluate_all(fitting_view(system), system.measured)
     if args.json:
         independent = [o for o in checks if fact_role(o.fact, "check") == INDEPENDENT]
         print_json({"system": system.name,
