@@ -14,7 +14,7 @@ from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_tex
 from ladle.engine import find_system
 from ladle.engine.files.catalog import list_systems
 from ladle.tui.explorer.cautions import caution_line
-from ladle.tui.explorer.system_choices import not_explorable
+from ladle.tui.explorer.system_choices import opens_as_section
 from ladle.tui.explorer.widgets.point_entry import PointEntry
 from ladle.tui.explorer.widgets.status_pane import StatusPane
 
@@ -23,7 +23,7 @@ def _lines(app) -> list[str]:
     return screen_text(app).split("\n")
 
 
-@pytest.mark.parametrize("name", [e.name for e in list_systems() if not_explorable(find_system(e.name)) is None])
+@pytest.mark.parametrize("name", [e.name for e in list_systems() if not opens_as_section(find_system(e.name))])
 @pilot_test
 async def test_every_systems_caution_is_shown_whole_at_80x24(name):
     system = find_system(name)

@@ -29,7 +29,7 @@ from ladle.engine.diagrams.heat_treatment import austenitizing_window, slow_cool
 from ladle.engine.files.loader import shipped_library
 from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import mole_from_mass
-from ladle.tui.explorer.system_choices import not_explorable
+from ladle.tui.explorer.system_choices import opens_as_section
 
 R = 8.314462618          # J/(mol K), CODATA 2018 (exact: the Avogadro constant times the Boltzmann constant)
 
@@ -278,12 +278,12 @@ def test_leaving_graphite_out_changes_only_where_graphite_was_stable(stable, met
 
 def test_whole_diagrams_are_refused_in_one_line(stable) -> None:
     """The tie-line tracer cannot evaluate sublattice phases: it refuses instead of drawing a
-    diagram without austenite and ferrite, and the explorer says so before opening."""
+    diagram without austenite and ferrite, and the explorer draws the system as its isopleth."""
     from ladle.engine.diagrams.diagram import map_diagram
 
     with pytest.raises(ValueError, match="sublattice phases fcc, bcc, Fe3C"):
         map_diagram(stable)
-    assert "sublattice phases" in not_explorable(stable)
+    assert opens_as_section(stable)
 
 
 def test_isopleth_lines_carry_the_trade_names(metastable) -> None:

@@ -1,4 +1,5 @@
-"""The explorer application: one main screen, its stylesheet, and remembering the point."""
+"""The explorer application: one main screen (a binary's diagram, or an isopleth), the system
+picker that switches between them, its stylesheet, and remembering the point."""
 
 from __future__ import annotations
 
@@ -7,12 +8,20 @@ from pathlib import Path
 
 from textual.app import App
 
+from ladle.engine import SystemFileError, UnknownSystem, find_system
+
 from .exploration import Exploration
 from .glyphs import Glyphs
+from .launch import exploration_for
 from .saved_state import save_state
 from .screens.explore import ExploreScreen
 from .screens.section_screen import SectionScreen
+from .screens.systems import SystemPicker
 from .section_exploration import SectionExploration
+from .system_choices import opens_as_section, system_choices
+
+PREWARM_DELAY_S = 1.0   # the systems are loaded for the picker this long after the start
+PICKER = "systems"      # the name under which the system picker is kept
 
 
 class ExplorerApp(App[None]):
@@ -32,18 +41,58 @@ class ExplorerApp(App[None]):
         self.state_file = state_file
         self._first_exploration = exploration
         self._save_problem_shown = False
+        self._picker: SystemPicker | None = None
         if glyphs.ascii_only:
             self.add_class("-ascii")
 
     def get_default_screen(self) -> ExploreScreen | SectionScreen:
-        if isinstance(self._first_exploration, SectionExploration):
-            return SectionScreen(self._first_exploration, self.glyphs)
-        return ExploreScreen(self._first_exploration, self.glyphs)
+        return self._screen_for(self._first_exploration)
+
+    def _screen_for(self, exploration: Exploration | SectionExploration) -> ExploreScreen | SectionScreen:
+        if isinstance(exploration, SectionExploration):
+            return SectionScreen(exploration, self.glyphs)
+        return ExploreScreen(exploration, self.glyphs)
 
     @property
-    def explore_screen(self) -> ExploreScreen:
+    def explore_screen(self) -> ExploreScreen | SectionScreen:
         """The main screen (under any dialog)."""
         return self.screen_stack[0]  # type: ignore[return-value]
+
+    def on_mount(self) -> None:
+        self.set_timer(PREWARM_DELAY_S, self._prewarm_picker)
+
+    def _prewarm_picker(self) -> None:
+        """Load every system once in a thread, after the first screen, so that the picker opens
+        at once (the engine keeps loaded systems)."""
+        self.run_worker(system_choices, thread=True, group="prewarm", exit_on_error=False)
+
+    def action_systems(self) -> None:
+        """Show the system picker (built once, then kept installed and shown again)."""
+        current = self.explore_screen.exploration.system.name
+        if self._picker is None:
+            self._picker = SystemPicker(system_choices(), current)
+            self.install_screen(self._picker, name=PICKER)
+        else:
+            self._picker.reopen(current)
+        self.push_screen(PICKER, self.open_system)
+
+    def open_system(self, name: str | None) -> None:
+        """Open the system `name` (None or the open one: nothing changes): a binary diagram
+        after a binary keeps the screen, the units and where it fits the cursor; otherwise the
+        main screen is replaced by the one that draws the system (an isopleth for three or more
+        elements or a binary with sublattice phases, such as Fe-C)."""
+        screen = self.explore_screen
+        if not name or name == screen.exploration.system.name:
+            return
+        try:
+            system = find_system(name)
+        except (SystemFileError, UnknownSystem, OSError) as error:
+            self.notify(str(error), severity="error")
+            return
+        if isinstance(screen, ExploreScreen) and not opens_as_section(system):
+            screen.show_system(system)
+            return
+        self.switch_screen(self._screen_for(exploration_for(system)))
 
     def remember(self) -> None:
         """Write the system, cursor and units to the state file (atomically)."""

@@ -1,6 +1,11 @@
 """The safety cautions the help screen shows (the README carries the same ones), and the line
 under the status pane that gives the open system's own caution."""
 
+import re
+
+#: Characters the line under the status pane may take (two of its lines at 80x24).
+CAUTION_ROOM = 60
+
 GENERAL_CAUTIONS: tuple[str, ...] = (
     "Molten metal burns, and it explodes on contact with water: preheat and dry every tool, "
     "mould and charge that touches the melt; wear a face shield, leather and flame-resistant "
@@ -16,9 +21,18 @@ GENERAL_CAUTIONS: tuple[str, ...] = (
 
 def caution_line(safety: str) -> str:
     """The line under the status pane for a system's safety note: its first clause ("Lead is
-    toxic") and where the full text is; empty where the system has none."""
+    toxic") and where the full text is; empty where the system has none. A clause longer than
+    CAUTION_ROOM loses its remarks in brackets, then what follows its first comma where that
+    keeps at least half its words (its main statement: "Molten iron and steel explode on contact
+    with water", not "Magnesium melts")."""
     if not safety:
         return ""
     for stop in (":", ";", "."):
         safety = safety.split(stop)[0]
-    return f"! {safety.strip()} (? more)"
+    clause = safety.strip()
+    if len(f"! {clause} (? more)") > CAUTION_ROOM:
+        clause = re.sub(r"\s*\([^)]*\)", "", clause).strip()
+    head = clause.split(",")[0]
+    if len(f"! {clause} (? more)") > CAUTION_ROOM and 2 * len(head.split()) >= len(clause.split()):
+        clause = head.strip()
+    return f"! {clause} (? more)"

@@ -42,7 +42,7 @@ MAIN_KEYS: tuple[KeyUse, ...] = (
     KeyUse("3", "view('reactions')", "3", "reactions view (Enter on a row moves the cursor)"),
     KeyUse("4", "view('cooling')", "4",
            "cooling view: how the cursor's alloy freezes, at equilibrium and by Scheil"),
-    KeyUse("s", "systems", "s", "choose another system", "s system"),
+    KeyUse("s", "app.systems", "s", "choose another system", "s system"),
     KeyUse("u", "composition_unit", "u", "compositions in wt% or at%", "u t unit"),
     KeyUse("t", "temperature_unit", "t", "temperatures in C, K or F"),
     KeyUse("plus,equals_sign", "zoom(True)", "+", "zoom in about the cursor", "+-0 zoom"),

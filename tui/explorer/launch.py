@@ -14,25 +14,31 @@ from .options import OptionsError, parse_options
 from .saved_state import SavedState, read_state, state_path
 from .scales import Scales
 from .section_exploration import SectionExploration
-from .system_choices import not_explorable
+from .system_choices import opens_as_section
 
 
 def _open(name: str):
     """The system, or a one-line reason it cannot be opened."""
     try:
-        system = find_system(name)
+        return find_system(name), None
     except (SystemFileError, UnknownSystem, OSError) as error:
         return None, str(error)
-    if len(system.elements) > 2:
-        return system, None              # shown as its isopleth
-    problem = not_explorable(system)
-    return (None, problem) if problem else (system, None)
+
+
+def exploration_for(system, scales: Scales | None = None, cursor: Cursor | None = None
+                    ) -> Exploration | SectionExploration:
+    """The exploration that draws `system`: its isopleth (SectionExploration) for three or more
+    elements or a binary with sublattice phases, else its traced diagram with the units
+    `scales` and the `cursor` (where given)."""
+    if opens_as_section(system):
+        return SectionExploration(system)
+    return Exploration(system, scales, cursor)
 
 
 def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration | SectionExploration:
     """The exploration to open: the system asked for, else the last one used, else the first
-    shipped; with the saved cursor and units where the system is the saved one; for a system of
-    three or more elements, its isopleth (SectionExploration).
+    shipped; with the saved cursor and units where the system is the saved one; for a system
+    drawn as an isopleth, its SectionExploration.
     Raises ValueError (one line) when the asked-for system cannot be opened."""
     if asked is not None:
         system, problem = _open(asked)
@@ -47,13 +53,11 @@ def first_exploration(asked: str | None, saved: SavedState | None) -> Exploratio
             system, problem = _open(entries[0].name)
             if system is None:
                 raise ValueError(problem)
-    if len(system.elements) > 2:
-        return SectionExploration(system)
     if saved is None:
-        return Exploration(system)
+        return exploration_for(system)
     scales = Scales(system.molar_mass, saved.temperature_unit, saved.composition_unit)
     cursor = Cursor(saved.temperature_K, saved.x_B) if saved.system == system.name else None
-    return Exploration(system, scales, cursor)
+    return exploration_for(system, scales, cursor)
 
 
 def served_to_a_browser() -> bool:

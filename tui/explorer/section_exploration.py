@@ -1,27 +1,35 @@
-"""The explorer's model for a system of three or more elements: the isopleth through one alloy,
-the element that varies along it, and the cursor on it.
+"""The explorer's model for a system drawn as an isopleth: a system of three or more elements
+(the isopleth through one alloy, the element that varies along it) or a binary with sublattice
+phases (Fe-C: its whole diagram, an isopleth with nothing held), and the cursor on it.
 
-Plain Python (no screen code). The alloy is held as fractions of every element in mole fractions
-(the at% basis); the balance is the system's first element; one other element varies along the
-section, from 0 to SECTION_SHARE (or less, where the other elements, or the range the model
-covers, leave less room). The
-cursor is a position u along the section (0 at its start, 1 at its end) and a temperature (K).
-Every thermodynamic answer comes from the engine: the isopleth (ladle.engine.diagrams.isopleth)
-and the point equilibrium at the cursor.
+Plain Python (no screen code). The alloy is held as fractions of every element in mole fractions;
+the balance is the system's first element; one other element varies along the section, from 0 to
+SECTION_SHARE (or less, where the other elements, or the range the model covers, leave less
+room). The section is straight in its basis: at% for three or more elements, wt% for a binary
+(as the trade reads Fe-C). The cursor is a position u along the section (0 at its start, 1 at
+its end) and a temperature (K). Every thermodynamic answer comes from the engine: the isopleth
+(ladle.engine.diagrams.isopleth) with the trade's names of its lines, the point equilibrium at
+the cursor and, where the system's file names lines or a heat treatment, the cursor's alloy's
+transitions (alloy_changes.py). Mapped isopleths are kept for the session (`MAPPED_KEPT`), so a
+system opened again finds its picture ready.
 """
 
 from __future__ import annotations
 
+from collections import OrderedDict
 from dataclasses import dataclass
 
 import numpy as np
 
 from ladle.engine import equilibrate
-from ladle.engine.diagrams.isopleth import Isopleth, map_isopleth
+from ladle.engine.diagrams.isopleth import Isopleth, map_isopleth, section_mole_fractions, trade_labels
 from ladle.engine.diagrams.isothermal import IsothermalSection, map_isothermal
+from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import kelvin_to, mass_from_mole
+from ladle.tui.phase_names import phase_label
 from ladle.tui.quote import percent
 
+from .alloy_changes import AlloyChanges, alloy_changes, shows_changes
 from .entry import TypedPoint
 
 #: The varying element runs from 0 to this mole fraction (less where the others leave less).
@@ -30,6 +38,14 @@ SECTION_SHARE = 0.5
 OPENING_SHARE = 0.05
 #: Arrow keys move the cursor by this share of the section and of the temperature window.
 STEP_SHARE = 1.0 / 50.0
+#: Columns of composition of a binary's whole diagram (as `ladle diagram` maps it: a whole
+#: diagram spans the file's range, wider than a section through one alloy).
+WHOLE_BINARY_COLUMNS = 33
+#: Mapped isopleths kept for the session (section key -> the isopleth and its lines' trade names).
+MAPPED_KEPT = 8
+#: Alloys whose transitions are kept.
+CHANGES_KEPT = 64
+_MAPPED: OrderedDict[tuple, tuple[Isopleth, tuple[str | None, ...]]] = OrderedDict()
 
 Line = tuple[str, str]
 
@@ -43,7 +59,7 @@ class SectionCursor:
 
 
 class SectionExploration:
-    """One system of three or more elements, the alloy, the varying element and the cursor."""
+    """One system drawn as an isopleth, the alloy, the varying element and the cursor."""
 
     def __init__(self, system, alloy: np.ndarray | None = None, varying: int = 1,
                  temperature_K: float | None = None) -> None:
@@ -56,19 +72,28 @@ class SectionExploration:
             alloy[0] = 1.0 - alloy[1:].sum()
         self.alloy = np.asarray(alloy, dtype=float)
         self.varying = varying
+        self.basis = "wt" if n == 2 else "at"      # the section is straight in this basis
         self.T_low, self.T_high = system.temperature_range_K
         T = 0.5 * (self.T_low + self.T_high) if temperature_K is None else temperature_K
-        self.cursor = SectionCursor(self._u_of(self.alloy[varying]), min(max(T, self.T_low), self.T_high))
+        self.cursor = SectionCursor(self._u_of(self.alloy), min(max(T, self.T_low), self.T_high))
         self.isopleth: Isopleth | None = None
+        self.line_labels: tuple[str | None, ...] = ()   # the trade's name of each of its lines, or None
         self.view = "isopleth"     # "triangle": a ternary's isothermal section at the cursor's temperature;
         self.triangle: IsothermalSection | None = None   # "cooling": both freezing paths of the cursor's alloy
         self.freezing: dict[tuple[float, ...], object] = {}   # the cursor's alloy -> its AlloySolidification
+        self.lists_changes = shows_changes(system)   # the status pane lists the alloy's transitions
+        self.changes: OrderedDict[tuple[float, ...], AlloyChanges | str] = OrderedDict()   # alloy -> them, or why none
 
     # -- the section ------------------------------------------------------------------------
     @property
     def element(self) -> str:
         """The element that varies along the section."""
         return self.system.elements[self.varying]
+
+    @property
+    def is_binary(self) -> bool:
+        """A binary's whole diagram (nothing held, one element to vary, no triangle)."""
+        return len(self.system.elements) == 2
 
     def _span(self, alloy: np.ndarray | None = None) -> tuple[float, float]:
         """The varying element's smallest and largest mole fraction on the section through
@@ -84,9 +109,16 @@ class SectionExploration:
         """The varying element's largest mole fraction on the section through `alloy`."""
         return self._span(alloy)[1]
 
-    def _u_of(self, fraction: float) -> float:
-        bottom, top = self._span()
-        return min(max((fraction - bottom) / (top - bottom), 0.0), 1.0)
+    def _u_of(self, alloy: np.ndarray) -> float:
+        """Where `alloy` (mole fractions) lies along the section: its varying element's content
+        in the section's basis, as a share of the section (0-1)."""
+        content = self._in_basis(alloy)[self.varying]
+        bottom, top = (self._in_basis(np.array(end))[self.varying] for end in self.ends())
+        return min(max((content - bottom) / (top - bottom), 0.0), 1.0)
+
+    def _in_basis(self, x: np.ndarray) -> np.ndarray:
+        """Mole fractions `x` as fractions in the section's basis."""
+        return mass_from_mole(x, self.system.molar_mass) if self.basis == "wt" else np.asarray(x, dtype=float)
 
     def ends(self) -> tuple[tuple[float, ...], tuple[float, ...]]:
         """Mole fractions of every element at the start (u = 0) and end (u = 1) of the section."""
@@ -98,12 +130,33 @@ class SectionExploration:
 
     def section_key(self) -> tuple:
         """What the mapped isopleth depends on."""
-        return (id(self.system), self.ends(), self.element)
+        return (id(self.system), self.ends(), self.element, self.basis)
 
-    def map(self) -> Isopleth:
-        """The isopleth of this section (slow: run it in a worker)."""
-        start, end = self.ends()
-        return map_isopleth(self.system, start, end, "at", self.element, (self.T_low, self.T_high))
+    def map(self) -> tuple[Isopleth, tuple[str | None, ...]]:
+        """The isopleth of this section and the trade's name of each of its lines (None where
+        the file names none) (slow: run it in a worker, then `keep` the answer)."""
+        start, end = (tuple(float(v) for v in self._in_basis(np.array(x))) for x in self.ends())
+        columns = {"columns": WHOLE_BINARY_COLUMNS} if self.is_binary else {}
+        iso = map_isopleth(self.system, start, end, self.basis, self.element, (self.T_low, self.T_high), **columns)
+        return iso, tuple(trade_labels(iso, trade_names(self.system)))
+
+    def keep(self, key: tuple, mapped: tuple[Isopleth, tuple[str | None, ...]]) -> None:
+        """Remember a mapped isopleth for the session (the newest MAPPED_KEPT) and show it where
+        `key` is still this section's."""
+        _MAPPED[key] = mapped
+        _MAPPED.move_to_end(key)
+        while len(_MAPPED) > MAPPED_KEPT:
+            _MAPPED.popitem(last=False)
+        if key == self.section_key():
+            self.isopleth, self.line_labels = mapped
+
+    def recall(self) -> bool:
+        """Show this section's isopleth where it was mapped before in this session; whether it
+        was."""
+        mapped = _MAPPED.get(self.section_key())
+        if mapped is not None:
+            self.isopleth, self.line_labels = mapped
+        return mapped is not None
 
     def map_triangle(self) -> tuple[float, IsothermalSection]:
         """(temperature K, the ternary's isothermal section there) at the cursor (slow: run it in
@@ -119,8 +172,24 @@ class SectionExploration:
         self.view = "isopleth" if self.view == view else view
 
     def alloy_key(self) -> tuple[float, ...]:
-        """The cursor's alloy, as the key of its freezing paths."""
-        return tuple(float(v) for v in self.x_at_cursor())
+        """The cursor's alloy, as the key of its freezing paths and transitions (rounded, so that
+        steps there and back give the same key)."""
+        return tuple(round(float(v), 12) for v in self.x_at_cursor())
+
+    def scan_changes(self) -> tuple[tuple[float, ...], AlloyChanges | str]:
+        """(the cursor's alloy, its transitions and heat-treatment window, or why there are
+        none, in one line) (slow: run it in a worker, then `keep_changes` the answer)."""
+        key = self.alloy_key()
+        try:
+            return key, alloy_changes(self.system, np.array(key))
+        except (ValueError, ArithmeticError) as error:
+            return key, f"no transitions: {error}"
+
+    def keep_changes(self, key: tuple[float, ...], changes: AlloyChanges | str) -> None:
+        """Remember an alloy's transitions (the newest CHANGES_KEPT alloys)."""
+        self.changes[key] = changes
+        while len(self.changes) > CHANGES_KEPT:
+            self.changes.popitem(last=False)
 
     def freeze(self) -> tuple[tuple[float, ...], object]:
         """(the cursor's alloy, its equilibrium and Scheil paths) (slow: run it in a worker)."""
@@ -154,8 +223,8 @@ class SectionExploration:
 
     def x_at_cursor(self) -> np.ndarray:
         """Mole fractions of every element at the cursor."""
-        start, end = (np.array(v) for v in self.ends())
-        return start + self.cursor.u * (end - start)
+        start, end = (self._in_basis(np.array(x)) for x in self.ends())
+        return section_mole_fractions(self.system, start, end, self.basis, np.array([self.cursor.u]))[0]
 
     # -- moves ------------------------------------------------------------------------------
     def move(self, columns: int, rows: int) -> None:
@@ -172,7 +241,7 @@ class SectionExploration:
         self.alloy = self.x_at_cursor()
         n = len(self.system.elements)
         self.varying = self.varying % (n - 1) + 1
-        self.cursor = SectionCursor(self._u_of(self.alloy[self.varying]), self.cursor.temperature_K)
+        self.cursor = SectionCursor(self._u_of(self.alloy), self.cursor.temperature_K)
         self.isopleth = None
 
     def jump(self, point: TypedPoint) -> None:
@@ -190,7 +259,7 @@ class SectionExploration:
         T = self.cursor.temperature_K if point.temperature_K is None else point.temperature_K
         if not self.T_low <= T <= self.T_high:
             raise ValueError(f"{T:.1f} K is outside this system's window, {self.T_low:.0f}-{self.T_high:.0f} K")
-        self.cursor = SectionCursor(self._u_of(self.alloy[self.varying]), T)
+        self.cursor = SectionCursor(self._u_of(self.alloy), T)
 
     def saved(self) -> None:
         """Nothing is remembered of a section between runs (the remembered point is a binary's)."""
@@ -203,25 +272,33 @@ class SectionExploration:
 
     def status_lines(self, eq, unit: str, unit_text: str, phases: bool = True) -> list[Line]:
         """The cursor's temperature in `unit` ("C", "K" or "F", written `unit_text`), the alloy
-        (every element, at% and wt%), and every phase of `eq` (the point equilibrium at the
-        cursor, None while it is computed) with its amount and the content of every element
-        (left out with `phases` False)."""
+        (every element, or a binary's second one, in the section's basis and the other), and
+        every phase of `eq` (the point equilibrium at the cursor, None while it is computed) with
+        the trade's name beside it, its amount and its content of every element (left out with
+        `phases` False). In the wt% basis amounts are mass fractions, else mole fractions."""
         els = self.system.elements
         x = self.x_at_cursor()
         w = mass_from_mole(x, self.system.molar_mass)
         T = self.cursor.temperature_K
+        by_mass = self.basis == "wt"
+        first, second, other = (w, x, "at") if by_mass else (x, w, "wt")
+        shown = range(1, len(els)) if self.is_binary else range(len(els))   # a binary: the balance is the rest
         lines: list[Line] = [("heading", "POINT"),
                              ("value", f" {kelvin_to(T, unit):.1f} {unit_text}" + ("" if unit == "K" else f"  ({T:.1f} K)"))]
-        lines += [("value", f" {el} {percent(x[i])} at% ({percent(w[i])} wt%)") for i, el in enumerate(els)]
+        lines += [("value", f" {els[i]} {percent(first[i])} {self.basis}% ({percent(second[i])} {other}%)")
+                  for i in shown]
         if not phases:
             return lines
-        lines.append(("heading", "PHASES, mol % and at%"))
+        lines.append(("heading", f"PHASES, {'mass' if by_mass else 'mol'} % and {self.basis}%"))
         if eq is None:
             lines.append(("note", " computing ..."))
             return lines
+        among = [(p.name, float(p.x[1])) for p in eq.phases]
         for p in eq.phases:
-            lines.append(("value", f" {p.name} {percent(p.amount_mol)} mol%"))
-            lines.append(("note", "   " + " ".join(f"{el} {percent(p.x[i])}" for i, el in enumerate(els))))
+            name = phase_label(self.system, p.name, float(p.x[1]), T, among)
+            amount, content = (p.amount_mass, p.w) if by_mass else (p.amount_mol, p.x)
+            lines.append(("value", f" {name} {percent(amount)} {'wt' if by_mass else 'mol'}%"))
+            lines.append(("note", "   " + " ".join(f"{els[i]} {percent(content[i])}" for i in shown)))
         if not eq.converged:
             lines.append(("warning", " did not converge: treat with suspicion"))
         return lines

@@ -1,5 +1,5 @@
 """The systems the picker offers: each with its title, source and checks, or why it cannot be
-opened."""
+opened; and which screen draws a system (its traced diagram, or an isopleth)."""
 
 from __future__ import annotations
 
@@ -18,6 +18,7 @@ class SystemChoice:
     safety: str = ""
     checks: str = ""
     problem: str = ""
+    drawn_as: str = ""
 
     def matches(self, query: str) -> bool:
         """Whether every word of the query occurs in the name, title or source (any case)."""
@@ -25,20 +26,20 @@ class SystemChoice:
         return all(word in haystack for word in query.lower().split())
 
 
-def not_explorable(system) -> str | None:
-    """Why the picker cannot switch to `system` (three or more elements: the explorer opens
-    their isopleth when started on them), or the explorer cannot draw it (sublattice phases),
-    in one line, or None."""
-    n = len(system.elements)
-    if n != 2:
-        return f"{system.name}: {n} elements; open its isopleth with: ladle {system.name}"
+def opens_as_section(system) -> bool:
+    """Whether the explorer draws `system` as an isopleth (three or more elements, or a binary
+    with sublattice phases, such as Fe-C, which the tie-line tracer does not map) rather than as
+    its traced binary diagram."""
     from ladle.engine.diagrams.mappable import unmapped_phases
 
-    unmapped = unmapped_phases(system)
-    if unmapped:
-        return (f"{system.name}: sublattice phases ({', '.join(unmapped)}); the explorer draws diagrams of solutions "
-                "and compounds only so far (see ladle transitions, ladle point)")
-    return None
+    return len(system.elements) != 2 or bool(unmapped_phases(system))
+
+
+def drawn_as(system) -> str:
+    """How the picker says the explorer draws `system`: '' for a traced binary diagram."""
+    if len(system.elements) != 2:
+        return f"{len(system.elements)} elements: isopleth" + (" and triangle" if len(system.elements) == 3 else "")
+    return "drawn as an isopleth (sublattice phases)" if opens_as_section(system) else ""
 
 
 def system_choices() -> list[SystemChoice]:
@@ -52,12 +53,9 @@ def system_choices() -> list[SystemChoice]:
         except (SystemFileError, UnknownSystem, OSError) as error:
             choices.append(SystemChoice(entry.name, problem=str(error)))
             continue
-        problem = not_explorable(system)
-        if problem:
-            choices.append(SystemChoice(entry.name, system.title, system.source, system.safety, problem=problem))
-            continue
         choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
-                                    checks_text(None, len(independent_checks(system)), len(system.measured))))
+                                    checks_text(None, len(independent_checks(system)), len(system.measured)),
+                                    drawn_as=drawn_as(system)))
     return choices
 
 

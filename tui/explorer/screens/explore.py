@@ -13,7 +13,6 @@ from textual.events import Resize
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Input, Static
 
-from ladle.engine import SystemFileError, UnknownSystem, find_system
 from ladle.engine.files.atomic_files import write_new_files
 from ladle.tui.errors import os_error_text
 from ladle.tui.commands.common import coverage_note
@@ -22,7 +21,7 @@ from ladle.tui.quote import percent
 from ..cautions import caution_line
 from ..cooling import CoolingView
 from ..cooling_status import cooling_lines
-from ..entry import EntryError, TypedPoint, check_inside, parse_point
+from ..entry import TypedPoint, check_inside
 from ..exploration import Exploration, Reading
 from ..exports import safe_stem
 from ..glyphs import Glyphs
@@ -32,7 +31,6 @@ from ..readout import format_step, format_temperature_value
 from ..screen_text import screen_text
 from ..status_lines import (Line, alloy_line, energy_lines, melt_lines, phase_lines,
                             point_lines, status_lines, without_heading)
-from ..system_choices import system_choices
 from ..widgets.diagram_view import DiagramView
 from ..widgets.energy_view import EnergyView
 from ..widgets.key_bar import KeyBar
@@ -42,15 +40,12 @@ from ..widgets.reactions_view import ReactionsView
 from ..widgets.status_pane import StatusPane
 from ..widgets.title_bar import TitleBar
 from .help import HelpScreen
-from .systems import SystemPicker
 
 MIN_WIDTH, MIN_HEIGHT = 80, 24
 NOTICE_S = 3.0   # a "wrote ..." notice leaves the status pane after this long
-PREWARM_DELAY_S = 1.0   # the systems are loaded for the picker this long after the start
 NOTICE_WAITS = 20   # frames to wait at most for notices to leave before a screenshot
 FRAME_S = 0.02
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
-PICKER = "systems"   # the name under which the system picker is kept
 STEP_ROOM = 28       # characters the step may use in the status pane's lower border
 
 
@@ -67,7 +62,6 @@ class ExploreScreen(Screen[None]):
         self.view = "diagram"
         self._save_timer = None
         self._warming = None   # the worker computing ahead for the next step
-        self._picker: SystemPicker | None = None
 
     # -- layout ----------------------------------------------------------------------------
 
@@ -89,12 +83,6 @@ class ExploreScreen(Screen[None]):
     def on_mount(self) -> None:
         self.query_one(PointEntry).display = False
         self._show_exploration()
-        self.set_timer(PREWARM_DELAY_S, self._prewarm_picker)
-
-    def _prewarm_picker(self) -> None:
-        """Load every system once in a thread, after the first screen, so that the picker opens
-        at once (the engine keeps loaded systems)."""
-        self.run_worker(system_choices, thread=True, group="prewarm", exit_on_error=False)
 
     def on_resize(self, event: Resize) -> None:
         width, height = event.size
@@ -243,25 +231,18 @@ class ExploreScreen(Screen[None]):
         self.query_one(PointEntry).open(self.exploration.system.elements[1])
 
     def action_back(self) -> None:
-        entry = self.query_one(PointEntry)
-        if entry.display:
-            entry.close()
-            self.set_focus(None)
+        self.query_one(PointEntry).close()
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         event.stop()
+        if self.query_one(PointEntry).submit(event.value, self.exploration.system, self._go_to):
+            self.update_all()
+
+    def _go_to(self, point: TypedPoint) -> None:
+        """Move the cursor to a typed point inside the system's range (EntryError: outside)."""
         e = self.exploration
-        entry = self.query_one(PointEntry)
-        try:
-            point = parse_point(event.value, e.system.elements, e.system.molar_mass, e.system.alloys)
-            check_inside(point, e.limits, e.scales, self.glyphs)
-        except EntryError as error:
-            entry.show_problem(str(error))
-            return
-        entry.close()
-        self.set_focus(None)
+        check_inside(point, e.limits, e.scales, self.glyphs)
         e.jump(point)
-        self.update_all()
 
     def on_cooling_view_ready(self, event: CoolingView.Ready) -> None:
         if self.view == "cooling":
@@ -271,23 +252,9 @@ class ExploreScreen(Screen[None]):
         self.exploration.jump(TypedPoint(event.row.temperature_K, event.row.x_B))
         self.action_view("diagram")
 
-    def action_systems(self) -> None:
-        current = self.exploration.system.name
-        if self._picker is None:     # built once, then kept (installed) and shown again
-            self._picker = SystemPicker(system_choices(), current)
-            self.app.install_screen(self._picker, name=PICKER)
-        else:
-            self._picker.reopen(current)
-        self.app.push_screen(PICKER, self._open_system)
-
-    def _open_system(self, name: str | None) -> None:
-        if not name or name == self.exploration.system.name:
-            return
-        try:
-            system = find_system(name)
-        except (SystemFileError, UnknownSystem, OSError) as error:
-            self.app.notify(str(error), severity="error")
-            return
+    def show_system(self, system) -> None:
+        """Explore another binary diagram here, keeping the units and (where it fits) the
+        cursor."""
         self.exploration = self.exploration.with_system(system)
         self._show_exploration()
 

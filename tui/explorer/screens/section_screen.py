@@ -1,10 +1,14 @@
-"""The explorer's screen for a system of three or more elements: the isopleth through the
-cursor's alloy beside the status pane (every phase with its amount and the content of every
-element). The arrows move the cursor along the section and in temperature, `v` lets the next
-element vary, `g` goes to a typed alloy and temperature ("Ag=3wt% Cu=0.5wt% 250C").
+"""The explorer's screen for a system drawn as an isopleth (three or more elements, or a binary
+with sublattice phases such as Fe-C): the isopleth through the cursor's alloy, the trade's lines
+named on it, beside the status pane (every phase with its amount and the content of every
+element; where the file names lines or a heat treatment, the alloy's changes on cooling and its
+heat-treatment window). The arrows move the cursor along the section and in temperature, `v` lets
+the next element vary, `g` goes to a typed alloy and temperature ("Ag=3wt% Cu=0.5wt% 250C"), `s`
+opens another system.
 
-The isopleth and the point equilibrium are computed in worker threads: keys are answered while
-they run, and a newer request replaces an older one.
+The isopleth, the point equilibrium and the alloy's transitions are computed in worker threads:
+keys are answered while they run ("mapping the isopleth ..." shows meanwhile); a newer request
+for the point replaces an older one, and the transitions are scanned once the cursor rests.
 """
 
 from __future__ import annotations
@@ -19,8 +23,8 @@ from textual.worker import Worker, WorkerState
 from ladle.engine.units import TEMPERATURE_UNITS
 from ladle.tui.quote import percent
 
+from ..alloy_changes import change_lines
 from ..cautions import caution_line
-from ..entry import EntryError, parse_point
 from ..glyphs import Glyphs
 from ..section_exploration import SectionExploration
 from ..widgets.point_entry import PointEntry
@@ -28,7 +32,10 @@ from ..widgets.section_view import SectionView
 from ..widgets.status_pane import StatusPane
 from .help import HelpScreen
 
-KEYS = "arrows move  v vary  i triangle  c cooling  t C/K/F  g go to  ? help  q quit"
+#: The key bar of a ternary's isopleth: each key and its word (a binary drawn as an isopleth, and
+#: a system of four or more elements, leave off what they lack).
+KEY_BAR = (("arrows", ""), ("v", "vary"), ("i", "triangle"), ("c", "cool"), ("t", "C/K/F"), ("g", "go to"),
+           ("s", "system"), ("?", "help"), ("q", "quit"))
 #: The help screen's rows for this screen: (keys, what they do).
 HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
              ("v", "let the next element vary (the balance, the first element, takes up the change)"),
@@ -38,9 +45,36 @@ HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in 
                    "Scheil), with its liquidus, the ends of freezing and the structure in the status pane"),
              ("g", "go to a typed alloy and temperature: Ag=3wt% Cu=0.5wt% 250C (every element but the balance)"),
              ("t", "temperatures in C, K or F, everywhere"),
+             ("s", "choose another system"),
              ("Esc", "close the entry line"),
              ("?", "this help"),
              ("q", "quit")]
+#: The cursor's alloy's transitions are scanned once it has rested this long (s).
+SCAN_DELAY_S = 0.4
+
+
+def _keys_here(exploration: SectionExploration) -> set[str]:
+    """The keys of KEY_BAR and HELP_ROWS this system leaves off: `v` with one element to vary,
+    `i` without a triangle."""
+    n = len(exploration.system.elements)
+    return ({"v"} if n == 2 else set()) | ({"i"} if n != 3 else set())
+
+
+def key_bar(exploration: SectionExploration) -> str:
+    """The key bar for this system."""
+    off = _keys_here(exploration)
+    return "  ".join(f"{key} {what}".strip() for key, what in KEY_BAR if key not in off)
+
+
+def help_rows(exploration: SectionExploration) -> list[tuple[str, str]]:
+    """The help screen's rows for this system; a binary's typed-point example names its element."""
+    off = _keys_here(exploration)
+    rows = [(key, what) for key, what in HELP_ROWS if key not in off]
+    if exploration.is_binary:
+        el = exploration.element
+        rows = [(key, f"go to a typed alloy and temperature: {el}=0.8wt% 760C, or 0.8wt% 760C" if key == "g" else what)
+                for key, what in rows]
+    return rows
 
 
 class SectionScreen(Screen[None]):
@@ -50,7 +84,7 @@ class SectionScreen(Screen[None]):
                 Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
                 Binding("v", "vary", show=False), Binding("i", "view('triangle')", show=False),
                 Binding("c", "view('cooling')", show=False), Binding("t", "temperature_unit", show=False),
-                Binding("g", "go_to", show=False),
+                Binding("g", "go_to", show=False), Binding("s", "app.systems", show=False),
                 Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
                 Binding("q", "app.quit", show=False)]
 
@@ -60,7 +94,9 @@ class SectionScreen(Screen[None]):
         self.glyphs = glyphs
         self._equilibrium = None
         self._point_worker: Worker | None = None
-        self._mapped_key = None
+        self._mapping: tuple | None = None      # the section whose isopleth a worker maps
+        self._scan_timer = None
+        self._scanning: Worker | None = None
 
     def compose(self) -> ComposeResult:
         yield Static("", id="title")
@@ -70,7 +106,7 @@ class SectionScreen(Screen[None]):
                 yield StatusPane(id="status")
                 yield Static("", id="caution")   # under the pane, never pushed off it
         yield PointEntry(id="entry")
-        yield Static(KEYS, id="keys")
+        yield Static(key_bar(self.exploration), id="keys")
 
     def on_mount(self) -> None:
         self.query_one(PointEntry).display = False
@@ -78,77 +114,113 @@ class SectionScreen(Screen[None]):
         caution.update(caution_line(self.exploration.system.safety))
         caution.display = bool(self.exploration.system.safety)
         self.query_one(SectionView).exploration = self.exploration
-        self._changed(remap=True)
+        self._changed()
 
     # -- drawing and workers ------------------------------------------------------------------
     def _title(self) -> str:
         e = self.exploration
+        if e.is_binary:
+            return f" {e.system.name}  {e.system.title}"
         held = ", ".join(f"{el} {percent(e.alloy[i])}" for i, el in enumerate(e.system.elements)
                          if i not in (0, e.varying))
         return f" {e.system.name}  isopleth: {e.element} varies; {held} at%; {e.system.elements[0]} balance"
 
-    def _changed(self, remap: bool = False) -> None:
-        """The cursor or the section moved: redraw, and ask the workers for what changed."""
+    def _changed(self) -> None:
+        """The cursor or the section moved: redraw, and ask the workers for what changed (the
+        isopleth only where it was not mapped before in this session)."""
         e = self.exploration
         self.query_one("#title", Static).update(self._title())
-        if remap and e.section_key() != self._mapped_key:
-            self._mapped_key = e.section_key()
-            key = e.section_key()
-            self.run_worker(lambda: (key, e.map()), thread=True, group="isopleth", exclusive=True, exit_on_error=False)
+        if e.isopleth is None and not e.recall() and e.section_key() != self._mapping:
+            self._mapping = key = e.section_key()
+            self.run_worker(lambda: (key, e.map()), thread=True, group="isopleth", exit_on_error=False)
         if e.view == "triangle" and (e.triangle is None or e.triangle.temperature_K != e.cursor.temperature_K):
             self.run_worker(e.map_triangle, thread=True, group="triangle", exclusive=True, exit_on_error=False)
         if e.view == "cooling" and e.alloy_key() not in e.freezing:
             self.run_worker(e.freeze, thread=True, group="cooling", exclusive=True, exit_on_error=False)
-        self._equilibrium = None
-        self.query_one(SectionView).equilibrium = None
+        self._ask_changes()
+        view = self.query_one(SectionView)
+        self._equilibrium = view.equilibrium = None
         self._point_worker = self.run_worker(e.equilibrium, thread=True, group="point", exclusive=True,
                                              exit_on_error=False)
         self._show_status()
-        self.query_one(SectionView).refresh()
+        view.redraw()
+
+    def _ask_changes(self) -> None:
+        """Scan the cursor's alloy's transitions once the cursor has rested (SCAN_DELAY_S), where
+        the status pane lists them and they are not known yet."""
+        e = self.exploration
+        if not e.lists_changes or e.view != "isopleth" or e.alloy_key() in e.changes:
+            return
+        if self._scan_timer is not None:
+            self._scan_timer.stop()
+        self._scan_timer = self.set_timer(SCAN_DELAY_S, self._scan)
+
+    def _scan(self) -> None:
+        """One scan at a time, after the isopleth is mapped (each asks again when it ends)."""
+        e = self.exploration
+        busy = self._scanning is not None and not self._scanning.is_finished
+        if busy or self._mapping is not None or e.alloy_key() in e.changes:
+            return
+        self._scanning = self.run_worker(e.scan_changes, thread=True, group="changes", exit_on_error=False)
 
     def _show_status(self) -> None:
+        """The status pane: the point and its phases, then the view's own lines (the freezing
+        paths; the alloy's transitions and the key of numbered fields); where they do not fit,
+        the key in fewer lines, then without it."""
         e = self.exploration
         unit = self.query_one(SectionView).unit
-        lines = e.status_lines(self._equilibrium, unit, self.glyphs.temperature_unit(unit), phases=e.view != "cooling")
+        unit_text = self.glyphs.temperature_unit(unit)
+        lines = e.status_lines(self._equilibrium, unit, unit_text, phases=e.view != "cooling")
         if e.view == "cooling":
-            lines += e.freezing_lines(unit, self.glyphs.temperature_unit(unit))
-        elif (e.triangle if e.view == "triangle" else e.isopleth) is None:
-            lines.append(("note", f" mapping the {'isothermal section' if e.view == 'triangle' else 'isopleth'} ..."))
-        else:
-            key = self.query_one(SectionView).key()
-            lines += ([("heading", "FIELDS")] + [("note", f" {entry}") for entry in key]) if key else []
-        self.query_one(StatusPane).show_lines(lines)
+            self.query_one(StatusPane).show_lines(lines + e.freezing_lines(unit, unit_text))
+            return
+        if e.view == "isopleth" and e.lists_changes:
+            lines += change_lines(e.system, e.changes.get(e.alloy_key()), unit, unit_text)
+        if (e.triangle if e.view == "triangle" else e.isopleth) is None:
+            what = "isothermal section" if e.view == "triangle" else "isopleth"
+            self.query_one(StatusPane).show_lines(lines + [("note", f" mapping the {what} ...")])
+            return
+        key = self.query_one(SectionView).key()
+        if not key:
+            self.query_one(StatusPane).show_lines(lines)
+            return
+        self.query_one(StatusPane).show_lines(lines + [("heading", "FIELDS")] + [("note", f" {k}") for k in key],
+                                              lines + [("note", "FIELDS " + "; ".join(key))], lines)
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
-        worker = event.worker
+        worker, e = event.worker, self.exploration
+        view = self.query_one(SectionView)
         if event.state == WorkerState.ERROR and worker.group == "cooling":
-            self.exploration.freezing[self.exploration.alloy_key()] = str(worker.error)
-            self._show_status()
-            self.query_one(SectionView).refresh()
-            return
-        if event.state == WorkerState.ERROR:
+            e.freezing[e.alloy_key()] = str(worker.error)
+        elif event.state == WorkerState.ERROR:
+            if worker.group == "isopleth":
+                self._mapping = None
             self.query_one(StatusPane).show_lines([("warning", f" no answer here: {worker.error}")])
             return
-        if event.state != WorkerState.SUCCESS:
+        elif event.state != WorkerState.SUCCESS:
             return
-        if worker.group == "isopleth":
-            key, isopleth = worker.result
-            if key == self.exploration.section_key():       # still the section on screen
-                self.exploration.isopleth = isopleth
-                self.query_one(SectionView).refresh()
+        elif worker.group == "isopleth":
+            key, mapped = worker.result
+            if key == self._mapping:
+                self._mapping = None
+            e.keep(key, mapped)
+            self._ask_changes()
+        elif worker.group == "changes":
+            key, changes = worker.result
+            e.keep_changes(key, changes)
+            self._ask_changes()
         elif worker.group == "cooling":
             key, result = worker.result
-            self.exploration.freezing[key] = result
-            self.query_one(SectionView).refresh()
+            e.freezing[key] = result
         elif worker.group == "triangle":
             T, section = worker.result
-            if T == self.exploration.cursor.temperature_K:      # still the cursor's temperature
-                self.exploration.triangle = section
-                self.query_one(SectionView).refresh()
+            if T == e.cursor.temperature_K:      # still the cursor's temperature
+                e.triangle = section
         elif worker is self._point_worker:
-            self._equilibrium = worker.result
-            self.query_one(SectionView).equilibrium = worker.result
-            self.query_one(SectionView).refresh()
+            self._equilibrium = view.equilibrium = worker.result
+        else:
+            return
+        view.redraw()
         self._show_status()
 
     def on_section_view_drawn(self, event: SectionView.Drawn) -> None:
@@ -158,44 +230,34 @@ class SectionScreen(Screen[None]):
     # -- keys ----------------------------------------------------------------------------------
     def action_move(self, columns: int, rows: int) -> None:
         self.exploration.move(columns, rows)
-        self._changed(remap=True)
+        self._changed()
 
     def action_vary(self) -> None:
-        self.exploration.vary_next()
-        self._changed(remap=True)
+        if not self.exploration.is_binary:
+            self.exploration.vary_next()
+            self._changed()
 
     def action_help(self) -> None:
-        system = self.exploration.system
-        self.app.push_screen(HelpScreen(self.glyphs, system.name, system.safety, self.exploration.element, HELP_ROWS))
+        e = self.exploration
+        self.app.push_screen(HelpScreen(self.glyphs, e.system.name, e.system.safety, e.element, help_rows(e)))
 
     def action_view(self, view: str) -> None:
         self.exploration.switch_view(view)
-        self._changed(remap=True)
+        self._changed()
 
     def action_temperature_unit(self) -> None:
         view = self.query_one(SectionView)
         view.unit = TEMPERATURE_UNITS[(TEMPERATURE_UNITS.index(view.unit) + 1) % len(TEMPERATURE_UNITS)]
-        view.refresh()
+        view.redraw()
         self._show_status()
 
     def action_go_to(self) -> None:
         self.query_one(PointEntry).open(self.exploration.element)
 
     def action_back(self) -> None:
-        entry = self.query_one(PointEntry)
-        if entry.display:
-            entry.close()
-            self.set_focus(None)
+        self.query_one(PointEntry).close()
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         event.stop()
-        e = self.exploration
-        entry = self.query_one(PointEntry)
-        try:
-            e.jump(parse_point(event.value, e.system.elements, e.system.molar_mass, e.system.alloys))
-        except (EntryError, ValueError) as error:
-            entry.show_problem(str(error))
-            return
-        entry.close()
-        self.set_focus(None)
-        self._changed(remap=True)
+        if self.query_one(PointEntry).submit(event.value, self.exploration.system, self.exploration.jump):
+            self._changed()

@@ -74,7 +74,7 @@ class SystemPicker(ModalScreen[str | None]):
             text.append(f"\n    cannot open: {choice.problem}"[:width])
             return text
         text.append(f"  {choice.title}")
-        text.append(f"\n    {choice.checks}")
+        text.append(f"\n    {choice.checks}" + (f"; {choice.drawn_as}" if choice.drawn_as else ""))
         source = choice.source.replace("\n", " ")
         text.append(f"\n    {source if len(source) <= width - 4 else source[:width - 5] + '~'}")
         return text

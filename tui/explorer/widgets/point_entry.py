@@ -2,9 +2,13 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 from textual.app import ComposeResult
 from textual.containers import Vertical
 from textual.widgets import Input, Static
+
+from ..entry import EntryError, TypedPoint, parse_point
 
 
 class PointEntry(Vertical):
@@ -27,9 +31,23 @@ class PointEntry(Vertical):
         field.focus()
 
     def close(self) -> None:
-        """Hide the entry."""
-        self.clear_problem()
-        self.display = False
+        """Hide the entry (where it is open) and give the keys back to the screen."""
+        if self.display:
+            self.clear_problem()
+            self.display = False
+            self.screen.set_focus(None)
+
+    def submit(self, text: str, system, go: Callable[[TypedPoint], None]) -> bool:
+        """Read the typed `text` as a point of `system` and `go` there (go may refuse it with
+        EntryError or ValueError, one line); close the entry and say True, or show why not and
+        keep the text for correcting."""
+        try:
+            go(parse_point(text, system.elements, system.molar_mass, system.alloys))
+        except (EntryError, ValueError) as error:
+            self.show_problem(str(error))
+            return False
+        self.close()
+        return True
 
     def show_problem(self, reason: str) -> None:
         """Mark the entry as bad, with the reason; the text stays for correcting."""

@@ -66,7 +66,7 @@ class SectionView(CachedPlot):
             self._scene = None
             plt.title("mapping the isopleth ...")
             return
-        self._scene = isopleth_scene(e.isopleth, self.unit, self.glyphs, width, height)
+        self._scene = isopleth_scene(e.isopleth, self.unit, self.glyphs, width, height, e.line_labels)
         draw_section(plt, self._scene, self.glyphs)
         self.post_message(self.Drawn())
 
