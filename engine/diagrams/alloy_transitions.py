@@ -178,7 +178,8 @@ class _Scan:
         (t_hi, e_hi), (t_lo, e_lo) = hi, lo
         if phase_set(e_hi) == phase_set(e_lo):
             return []
-        near, far, near_eq, far_eq = narrow_change(self.at, t_hi, t_lo, phase_set(e_hi), e_hi, e_lo, self.tolerance_K)
+        near, far, near_eq, far_eq = narrow_change(self.at, t_hi, t_lo, phase_set(e_hi), e_hi, e_lo, self.tolerance_K,
+                                                   self.system)
         near_eq = near_eq or e_hi
         change = Transition(0.5 * (near + far), near_eq.phase_names, far_eq.phase_names, abs(near - far), far_eq, near_eq)
         return [change] + self.changes((far, far_eq), lo)

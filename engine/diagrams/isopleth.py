@@ -150,10 +150,17 @@ class _Mapper:
         self.warnings: list[str] = []
         self.invariant_K: list[float] = []    # temperatures (K) of invariant reactions found so far
 
-    def eq_at(self, u: float, T: float):
+    def eq_at(self, u: float, T: float, near=None):
+        """The point equilibrium at u and T (K); `near`, one at the same T and a nearby u, starts
+        the minimiser there (neighbours on a row of the grid, probes on a horizontal edge)."""
         x = section_mole_fractions(self.system, self.start, self.end, self.basis, np.array([u]))[0]
         self.calls += 1
-        eq = equilibrate(self.system, T, float(x[1]) if self.n == 2 else x)
+        if self.n == 2:
+            eq = equilibrate(self.system, T, float(x[1]))
+        elif near is not None and near.temperature_K == T:
+            eq = equilibrate(self.system, T, x, near=near)
+        else:
+            eq = equilibrate(self.system, T, x)
         if not eq.converged:
             self.warnings.append(f"the equilibrium at {T:.2f} K, u = {u:.4f} did not converge")
         return eq
@@ -175,6 +182,12 @@ class _Mapper:
         def at(t: float) -> tuple[float, float]:
             return a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])
 
+        start = ea if len(ea.phases) >= len(eb.phases) else eb
+
+        def probe(t: float):
+            # on a row, the end with more phases starts the minimiser (Newton drops a phase that vanishes)
+            return self.eq_at(*at(t), near=start)
+
         invariant = a[0] == b[0] and len(set(ka) | set(kb)) > self.n
         if invariant:                      # an invariant reaction found on another column: try its temperature
             for T in self.invariant_K:
@@ -185,13 +198,13 @@ class _Mapper:
                         return [(at(t), ka, kb)]
         lo, hi, lo_eq, hi_eq = 0.0, 1.0, ea, eb
         if len(_changed(ka, kb)) > 1:              # (one phase appears: one zero-phase-fraction line, as a rule)
-            mid = self.eq_at(*at(0.5))
+            mid = probe(0.5)
             km = phase_set(mid)
             if km not in (ka, kb) and depth < _MAX_SPLITS:
                 return self.changes(a, at(0.5), ea, mid, depth + 1) + self.changes(at(0.5), b, mid, eb, depth + 1)
             lo, hi, lo_eq, hi_eq = (0.0, 0.5, ea, mid) if km != ka else (0.5, 1.0, mid, eb)
-        near, far, near_eq, far_eq = narrow_change(lambda t: self.eq_at(*at(t)), lo, hi, phase_set(lo_eq), lo_eq,
-                                                   hi_eq, EDGE_TOLERANCE)
+        near, far, near_eq, far_eq = narrow_change(probe, lo, hi, phase_set(lo_eq), lo_eq,
+                                                   hi_eq, EDGE_TOLERANCE, self.system)
         point = at(0.5 * (near + far))
         k_near, k_far = phase_set(near_eq), phase_set(far_eq)
         if invariant and k_near == ka and k_far == kb:
@@ -221,7 +234,12 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
     mapper = _Mapper(system, start, end, basis)
     us = np.linspace(0.0, 1.0, columns)
     Ts = np.linspace(T_hi, T_lo, rows)
-    eqs = [[mapper.eq_at(float(u), float(T)) for u in us] for T in Ts]
+    eqs = []
+    for T in Ts:
+        row = [mapper.eq_at(float(us[0]), float(T))]
+        for u in us[1:]:
+            row.append(mapper.eq_at(float(u), float(T), near=row[-1]))
+        eqs.append(row)
     keys = [[phase_set(eq) for eq in row] for row in eqs]
 
     # edge points: per grid edge, the changes found on it

@@ -5,13 +5,18 @@ the Scheil path of alloys of any number of elements.
 
 from __future__ import annotations
 
+import numpy as np
+
+from ..minimize.multiphase_newton import lowest_driving_force
+
 
 def phase_set(eq) -> tuple[str, ...]:
     """The stable phases of a point equilibrium, sorted (a phase twice where it splits)."""
     return tuple(sorted(p.name for p in eq.phases))
 
 
-def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], near_eq, far_eq, tolerance: float):
+def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], near_eq, far_eq, tolerance: float,
+                  system=None):
     """Narrow a change of the stable phases between parameters `near` (phase set `near_key`,
     point equilibrium `near_eq` or None) and `far` (point equilibrium `far_eq`, another set) to
     `tolerance`; `probe(t)` gives the point equilibrium at parameter t. Returns
@@ -26,12 +31,18 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
     each try that fell short), and then just before it, so that both sides close in on the
     change together. The bracket is bisected where no estimate lies inside it and after two
     tries in a row that did not halve it. A change with several phase sets inside the bracket
-    is narrowed to one of them."""
+    is narrowed to one of them.
+
+    Where the amount gives no estimate (a jump: at an invariant reaction a phase appears with a
+    finite amount) and `system` is given, the driving force of the phases that appear is taken
+    on the near side instead (`driving_force`: it falls to zero at the change) and its zero
+    estimated the same way."""
     far_key = phase_set(far_eq)
     if near_eq is not None and not any(far_key.count(n) > near_key.count(n) for n in set(far_key)):
-        near, far, near_eq, far_eq = narrow_change(probe, far, near, far_key, far_eq, near_eq, tolerance)
+        near, far, near_eq, far_eq = narrow_change(probe, far, near, far_key, far_eq, near_eq, tolerance, system)
         return far, near, far_eq, near_eq                 # the phase that goes to zero is on the near side
     far_points: list[tuple[float, float, tuple[str, ...]]] = []
+    near_points: list[tuple[float, float]] = []      # (parameter, driving force) on the near side
     direction = 1.0 if far > near else -1.0
     beyond = True            # the next estimated try goes just beyond the zero (on the far side)
     short = 0                # tries beyond the estimate in a row that still fell on the near side
@@ -43,8 +54,17 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
             far_points.append((far, sum(p.amount_mol for p in far_eq.phases if p.name == gained[0]), far_key))
         width = abs(far - near)
         trial, guessed = 0.5 * (near + far), False
+
+        def inside(estimate) -> bool:
+            return estimate is not None and min(near, far) < estimate[0] < max(near, far)
+
         estimate = _zero_estimate([(t, a) for t, a, k in far_points if k == far_key], near) if slow < 2 else None
-        if estimate is not None:
+        if not inside(estimate) and system is not None and near_eq is not None and gained and slow < 2:
+            if not near_points or near_points[-1][0] != near:
+                force = driving_force(system, near_eq, gained)
+                near_points.append((near, force if force is not None else np.nan))
+            estimate = _zero_estimate([(t, f) for t, f in near_points if np.isfinite(f) and f >= 0.0], far)
+        if inside(estimate):
             zero, spread = estimate
             margin = max(0.4 * tolerance, spread) * 10.0 ** short if beyond else 0.4 * tolerance
             guess = zero + (margin if beyond else -margin) * direction
@@ -84,3 +104,36 @@ def _zero_estimate(points: list[tuple[float, float]], near: float) -> tuple[floa
     if not min(line, t1) - abs(t1 - line) <= parabola <= max(line, t1) + abs(t1 - line):
         return line, abs(t1 - line)
     return parabola, abs(parabola - line)
+
+
+def driving_force(system, eq, names) -> float | None:
+    """The least driving force (J per mole of atoms) of the phases `names` against the chemical
+    potentials of the point equilibrium `eq`: min over each phase's compositions of
+    G - sum_i mu_i x_i, from its lowest sample refined by Newton steps
+    (minimize.multiphase_newton.lowest_driving_force). Positive where the phases are less
+    stable than the equilibrium, zero where one of them joins it. None where the equilibrium
+    gives no chemical potentials or a phase has no sampled model."""
+    mu = np.asarray(getattr(eq, "chemical_potentials", ()), dtype=float)
+    models = getattr(system, "models", None)
+    if mu.size == 0 or models is None:
+        return None
+    active = np.isfinite(mu)
+    elements = np.flatnonzero(active)
+    best = None
+    for name in set(names):
+        phase = models.get(name)
+        if phase is None or not hasattr(phase, "at"):
+            return None
+        model = phase.at(eq.temperature_K)
+        Y, X, G = model.samples()
+        E = np.asarray(model.element_matrix)
+        free = np.flatnonzero(~np.any(E[:, ~active] != 0.0, axis=1))
+        inside = ~np.any(X[:, ~active] > 0.0, axis=1)
+        if not inside.any() or len(free) == 0:
+            return None
+        d = np.where(inside, G - np.nan_to_num(X[:, active] @ mu[active]), np.inf)
+        k = int(np.argmin(d))
+        _y, refined = lowest_driving_force(model, Y[k], mu[active], elements, free, margin=np.inf)
+        force = min(float(d[k]), refined) if np.isfinite(refined) else float(d[k])
+        best = force if best is None else min(best, force)
+    return best

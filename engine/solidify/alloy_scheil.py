@@ -46,7 +46,7 @@ EVENT_TOLERANCE_K = 1e-7
 #: Target of the first-order step's local deviation from the trapezoid step (mole fraction).
 STEP_TOLERANCE = 2e-4
 _FIRST_STEP_K = 2.0
-_MAX_STEP_K = 10.0
+_MAX_STEP_K = 20.0
 _MIN_STEP_K = 1e-5
 _LIQUID_SEARCH_STEP_K = 50.0
 #: Where the liquid leaves the covered range, the last step inside ends within this many K of it.
@@ -58,9 +58,12 @@ OUTSIDE_RANGE = "outside covered range"
 LAST_LIQUID = 1e-6
 
 
-def _equilibrium(system, T: float, x: np.ndarray):
-    """Point equilibrium at T (K) of mole fractions x (every element)."""
-    return equilibrate(system, T, float(x[1]) if len(x) == 2 else x)
+def _equilibrium(system, T: float, x: np.ndarray, near=None):
+    """Point equilibrium at T (K) of mole fractions x (every element); `near`, an equilibrium at
+    the same T and a nearby composition, starts the minimiser there."""
+    if len(x) == 2:
+        return equilibrate(system, T, float(x[1]))
+    return equilibrate(system, T, x, near=near) if near is not None else equilibrate(system, T, x)
 
 
 def _split(eq):
@@ -141,9 +144,9 @@ class AlloyScheil:
         self.unconverged: list[float] = []     # temperatures (K) of point equilibria that did not converge
 
     # --- point equilibria --------------------------------------------------------------------
-    def _eq(self, T: float, x: np.ndarray):
+    def _eq(self, T: float, x: np.ndarray, near=None):
         self.calls += 1
-        eq = _equilibrium(self.system, T, x)
+        eq = _equilibrium(self.system, T, x, near)
         if not eq.converged:
             self.unconverged.append(T)
         return eq
@@ -203,7 +206,7 @@ class AlloyScheil:
         if phase_set(below) == (LIQUID,):
             raise PathError(f"no liquidus for this alloy inside the window ({lo:.0f}-{top:.0f} K)")
         near, _far, hot, below = narrow_change(lambda h: self._eq(T - h, self.x), 0.0, T - lo, (LIQUID,), eq, below,
-                                               EVENT_TOLERANCE_K)
+                                               EVENT_TOLERANCE_K, self.system)
         T_hot = T - near
         return _State(T_hot, 1.0, ((1.0, _split(hot)[0]),), None, (LIQUID,)), below
 
@@ -224,7 +227,7 @@ class AlloyScheil:
             z = (f_L * x_L - 0.5 * d * x_start) / m
             if np.any(z < 0.0):
                 return None
-            eq = self._eq(T1, z / z.sum())
+            eq = self._eq(T1, z / z.sum(), near=first)
             return (eq, m) if phase_set(eq) == state.key else None
 
         first_liquid, first_solids = _split(first)
@@ -267,7 +270,8 @@ class AlloyScheil:
         def probe(offset: float):
             return self._eq(state.T - offset, state.x_L)
 
-        lo, _hi, _above, below = narrow_change(probe, 0.0, h, state.key, None, probe(h), EVENT_TOLERANCE_K)
+        lo, _hi, _above, below = narrow_change(probe, 0.0, h, state.key, None, probe(h), EVENT_TOLERANCE_K,
+                                                 self.system)
         if lo > 0.0:
             step = self._step(state, lo)
             if step is not None and not self.system.covered(step[0].x_L):

@@ -187,8 +187,8 @@ def equilibrate_for(system):
     """A stand-in for ladle.engine.equilibrate answering for `system` (one of the two above)."""
     solve = eutectic_equilibrium if system.name == "ideal-eutectic" else lens_equilibrium
 
-    def equilibrate(_system, T: float, x) -> SimpleNamespace:
-        return solve(float(T), np.asarray(x, dtype=float))
+    def equilibrate(_system, T: float, x, near=None) -> SimpleNamespace:
+        return solve(float(T), np.asarray(x, dtype=float))     # `near` (a start) changes nothing here
 
     return equilibrate
 
