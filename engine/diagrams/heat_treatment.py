@@ -82,12 +82,14 @@ def austenitizing_window(result: AlloyTransitions, labels: dict[int, str]) -> He
 
 
 def solution_window(result: AlloyTransitions, scheil_end_K: float | None) -> HeatTreatmentWindow | None:
-    """The solution-treatment window: from the highest solvus (a single solid phase above, that
-    phase and a precipitate below) up to the lower of the next change above (the equilibrium
-    solidus) and `scheil_end_K` (K, the end of Scheil-Gulliver freezing; None where unknown).
-    None where the alloy never has a single solid phase above a solvus."""
+    """The solution-treatment window: from the highest solvus (solid phases above, the same
+    phases and a precipitate below: one phase, or more where a phase stays undissolved, such
+    as the (Si) of an Al-Si-Mg casting alloy above its Mg2Si solvus) up to the lower of the
+    next change above (the equilibrium solidus) and `scheil_end_K` (K, the end of
+    Scheil-Gulliver freezing; None where unknown). None where no precipitate dissolves in the
+    solid state."""
     solvus = next((t for t in result.transitions
-                   if len(t.above) == 1 and _LIQUID not in t.above and set(t.above) < set(t.below)), None)
+                   if _LIQUID not in t.above and set(t.above) < set(t.below)), None)
     if solvus is None:
         return None
     window = _bounded_above(result, solvus, "solution", "solvus")

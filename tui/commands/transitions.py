@@ -63,12 +63,18 @@ def _window(system, result, labels: dict[int, str], treatment: str | None):
         return austenitizing_window(result, labels)
     if treatment == "solution":
         scheil_end = None
-        if len(system.elements) == 2 and "liquid" in system.phases:
+        if "liquid" in system.phases:
             from ladle.engine.solidify.records import PathError
-            from ladle.engine.solidify.scheil import ScheilCooling
 
             try:
-                scheil_end = ScheilCooling(system, float(result.composition[1])).end_K
+                if len(system.elements) == 2:
+                    from ladle.engine.solidify.scheil import ScheilCooling
+
+                    scheil_end = ScheilCooling(system, float(result.composition[1])).end_K
+                else:
+                    from ladle.engine.solidify.alloy_scheil import alloy_scheil
+
+                    scheil_end = alloy_scheil(system, result.composition).end_K
             except PathError:
                 scheil_end = None
         return solution_window(result, scheil_end)
