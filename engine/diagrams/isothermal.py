@@ -3,10 +3,15 @@ at one temperature, with tie-lines in the two-phase fields and the tie-triangles
 three-phase fields.
 
 Method: point equilibria (`equilibrate`) at the nodes of a triangular grid (each mole fraction a
-multiple of 1/divisions); nodes are grouped by their phase set; a two-phase node gives the
-tie-line through it (the compositions of its two phases), a three-phase node the tie-triangle
-(its three phases' compositions, the same for every node of the field up to the solver's
-tolerance). Temperatures in K, compositions in mole fractions of the three elements.
+multiple of 1/divisions), first on every other node (the grid of twice the spacing), each
+started from its neighbour's answer; every other node is the middle of an edge of that coarse
+grid and is solved only where the two coarse triangles beside the edge do not hold one phase
+set at all their corners (there it takes that set: a field smaller than the coarse spacing
+between equal corners is not seen, as one smaller than the fine spacing is not). Nodes are
+grouped by their phase set; a two-phase node gives the tie-line through it (the compositions of
+its two phases), a three-phase node the tie-triangle (its three phases' compositions, the same
+for every node of the field up to the solver's tolerance). Temperatures in K, compositions in
+mole fractions of the three elements.
 """
 
 from __future__ import annotations
@@ -96,11 +101,52 @@ def covered_nodes(system, divisions: int) -> np.ndarray:
     covers: the whole triangle's `divisions` steps per side, or a finer grid, about as many nodes,
     over a smaller covered range (System.element_ranges; a triangle of n steps holds n^2 / 2 nodes, a
     box of widths w1, w2 about w1 w2 n^2)."""
+    return covered_grid(system, divisions)[1]
+
+
+def covered_grid(system, divisions: int) -> tuple[int, np.ndarray]:
+    """(steps per side, the nodes of `covered_nodes`)."""
     ranges = system.element_ranges
     widths = np.sort(ranges[:, 1] - ranges[:, 0])
     steps = max(divisions, int(np.ceil(divisions / np.sqrt(2.0 * widths[0] * widths[1]))))
     nodes = triangle_nodes(divisions) if steps == divisions else _nodes_within(ranges, steps)
-    return nodes[system.covered(nodes)]
+    return steps, nodes[system.covered(nodes)]
+
+
+def _coarse_then_fine(system, temperature_K: float, steps: int, nodes: np.ndarray) -> list:
+    """The point equilibrium of every node (None where a node takes the phase set of the coarse
+    corners around it) and each node's phase set: see the module's docstring."""
+    jk = [tuple(v) for v in np.rint(nodes[:, 1:] * steps).astype(int)]
+    index = {v: i for i, v in enumerate(jk)}
+    eqs: list = [None] * len(nodes)
+    keys: list = [None] * len(nodes)
+    last = None
+
+    def solve(i: int) -> None:
+        nonlocal last
+        x = nodes[i]
+        last = equilibrate(system, temperature_K, x) if last is None else \
+            equilibrate(system, temperature_K, x, near=last)
+        eqs[i], keys[i] = last, tuple(sorted(last.phase_names))
+
+    for i, (j, k) in enumerate(jk):
+        if j % 2 == 0 and k % 2 == 0:
+            solve(i)
+    for i, (j, k) in enumerate(jk):
+        if keys[i] is not None:
+            continue
+        if k % 2 == 0:          # the middle of an edge along j; the coarse triangles' third corners
+            ends, thirds = ((j - 1, k), (j + 1, k)), ((j - 1, k + 2), (j + 1, k - 2))
+        elif j % 2 == 0:        # along k
+            ends, thirds = ((j, k - 1), (j, k + 1)), ((j + 2, k - 1), (j - 2, k + 1))
+        else:                   # along the third direction (first mole fraction constant)
+            ends, thirds = ((j - 1, k + 1), (j + 1, k - 1)), ((j - 1, k - 1), (j + 1, k + 1))
+        around = {keys[index[v]] for v in ends + thirds if v in index}
+        if all(v in index for v in ends) and len(around) == 1:
+            keys[i] = around.pop()
+        else:
+            solve(i)
+    return list(zip(eqs, keys))
 
 
 def _nodes_within(ranges: np.ndarray, steps: int) -> np.ndarray:
@@ -119,26 +165,26 @@ def map_isothermal(system, temperature_K: float, divisions: int = DEFAULT_DIVISI
     if len(system.elements) != 3:
         raise ValueError(f"an isothermal section on a triangle needs a ternary system; {system.name} has "
                          f"{len(system.elements)} elements")
-    nodes = covered_nodes(system, divisions)
+    steps, nodes = covered_grid(system, divisions)
     groups: dict[tuple[str, ...], list] = {}
     warnings = []
-    for x in nodes:
-        eq = equilibrate(system, temperature_K, x)
-        if not eq.converged:
+    for x, (eq, key) in zip(nodes, _coarse_then_fine(system, temperature_K, steps, nodes)):
+        if eq is not None and not eq.converged:
             warnings.append(f"the equilibrium at {', '.join(f'{v:.3f}' for v in x)} did not converge")
-        groups.setdefault(tuple(sorted(eq.phase_names)), []).append((x, eq))
+        groups.setdefault(key, []).append((x, eq))
     fields = []
     for phases, members in sorted(groups.items(), key=lambda item: -len(item[1])):
         xs = np.array([x for x, _ in members])
         middle = xs[int(np.argmin(np.linalg.norm(xs - xs.mean(axis=0), axis=1)))]
         ties, triangles = [], []
+        solved = [(x, eq) for x, eq in members if eq is not None]
         if len(phases) == 2:
-            for k in _spread(xs, TIE_LINES_PER_FIELD):
-                eq = members[k][1]
+            for k in _spread(np.array([x for x, _ in solved]), TIE_LINES_PER_FIELD):
+                eq = solved[k][1]
                 a, b = eq.phases
                 ties.append(TieLine((a.name, b.name), (tuple(float(v) for v in a.x), tuple(float(v) for v in b.x))))
         elif len(phases) == 3:
-            for _x, eq in members:
+            for _x, eq in solved:
                 corners = tuple(tuple(float(v) for v in p.x) for p in sorted(eq.phases, key=lambda p: p.name))
                 if not any(max(np.max(np.abs(np.array(c) - np.array(d))) for c, d in zip(corners, t)) < _SAME_CORNER
                            for t in triangles):

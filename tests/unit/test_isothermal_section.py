@@ -53,3 +53,29 @@ def test_only_ternaries_have_a_triangle():
     system.elements = ("A", "B")
     with pytest.raises(ValueError, match="needs a ternary system"):
         isothermal.map_isothermal(system, T)
+
+
+@pytest.mark.parametrize("maker", [it.eutectic_system, it.lens_system])
+def test_solving_the_fine_nodes_only_near_changes_finds_every_nodes_phases(monkeypatch, maker):
+    """The coarse grid first, the fine nodes only beside a change: every field holds the same
+    nodes as when every node is solved (point equilibria at all of them, closed forms of
+    ideal_ternaries), at temperatures every 50 K over the window, with fewer point equilibria."""
+    system = maker()
+    solve = it.equilibrate_for(system)
+    calls = []
+
+    def counted(*args, **kwargs):
+        calls.append(1)
+        return solve(*args, **kwargs)
+
+    monkeypatch.setattr(isothermal, "equilibrate", counted)
+    nodes = isothermal.triangle_nodes(16)
+    for T_K in np.arange(450.0, 1350.0, 50.0):
+        calls.clear()
+        section = isothermal.map_isothermal(system, T_K, divisions=16)
+        every = {}
+        for x in nodes:
+            key = tuple(sorted(solve(system, T_K, x).phase_names))
+            every[key] = every.get(key, 0) + 1
+        assert {f.phases: f.nodes for f in section.fields} == every
+        assert len(calls) < len(nodes)
