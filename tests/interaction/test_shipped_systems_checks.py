@@ -48,6 +48,9 @@ KNOWN_FAILURES = {
     ("ag-cu-sn", 3): "SAC387's makers' liquidus (217 C, sold as eutectic) lies 8 K below the model: the model's "
                      "eutectic trough sits at 3.46 wt% Ag (Moon and Boettinger 3.58) and its Ag3Sn liquidus rises "
                      "about 20 K per wt% Ag beyond it, so SAC387 comes out hypereutectic with primary Ag3Sn",
+    ("ag-cu-sn", 7): "SAC405's listed liquidus (220 C) lies 8 K below the model, for the same reason as SAC387: on the "
+                     "Ag3Sn side of the trough the model's liquidus is too high, while the three alloys on the (Sn) "
+                     "side (SAC0307, SAC105, SAC263) agree within 1.2 K",
     ("ag-cu", 5): "ASM's coin-silver liquidus (890 C) lies only 3 K below its sterling liquidus (893 C, a fit target), "
                   "where the liquidus falls about 7 K per wt% Cu; the model puts coin silver 16 K lower",
     ("al-mg", 4): "the 520.0 casting alloy's datasheet liquidus (600 C) lies 10 K below the model at 10 wt% Mg",
