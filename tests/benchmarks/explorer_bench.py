@@ -18,6 +18,15 @@ Measures, on an 80x24 pseudo-terminal:
 - idle_bytes_per_s: bytes the explorer sends while nothing changes (target 0).
 Targets (issue 10): key median 15 ms in every view, picker 100 ms; (issue 4) first screen under
 1.0 s, memory under 150 MB.
+
+    python tests/benchmarks/explorer_bench.py --isopleth [--json] [--system fe-fe3c] [--presses 30]
+
+A system drawn as an isopleth (three or more elements, or Fe-C): start_to_mapped_s (process
+start to the mapped isopleth and the cursor's alloy's transitions on screen, then quiet),
+key_to_screen_ms for moves in temperature (up and down in turn) and in composition (right and
+left in turn; each then waits for the transitions scanned once the cursor rests), each to the
+last byte of the updated screen (the point equilibrium answered in a worker included), and
+idle_bytes_per_s. Target (issue 14): a cursor move on a mapped isopleth in 50 ms or less.
 """
 
 from __future__ import annotations
@@ -44,6 +53,7 @@ VIEWS = {"diagram": "1", "energy": "2", "reactions": "3", "cooling": "4"}
 WALKS = {"diagram": (FINE_RIGHT, FINE_UP), "energy": (FINE_RIGHT, FINE_UP), "reactions": (DOWN, UP),
          "cooling": (UP, DOWN)}
 FIRST_SCREEN_MARKS = (b"NEAREST", b"quit")
+MAPPED_MARKS = (b"FIELDS", b"governs")    # an isopleth's key of fields, the heat-treatment caution
 
 
 def _read_until_quiet(fd: int, quiet_s: float, limit_s: float) -> tuple[bytes, float]:
@@ -197,14 +207,61 @@ def measure(system: str, presses: int, use_s: float) -> dict:
     }
 
 
+def _mapped(fd: int, started: float, limit_s: float = 300.0) -> float:
+    """Wait for the mapped isopleth (its key of fields, or the transitions' caution, on screen)
+    and then quiet; the time of the last byte."""
+    seen = bytearray()
+    last = started
+    while time.perf_counter() - started < limit_s:
+        data, at = _read_until_quiet(fd, 2.0, limit_s)
+        if data:
+            seen += data
+            last = at
+        if any(mark in seen for mark in MAPPED_MARKS) and not data:
+            break
+    return last
+
+
+def measure_isopleth(system: str, presses: int) -> dict:
+    """Key-to-screen times on a mapped isopleth (see the module's docstring)."""
+    with tempfile.TemporaryDirectory() as state_dir:
+        process, fd, started = _start(system, state_dir)
+        try:
+            mapped = _mapped(fd, started)
+            temperature = [_press(fd, (UP, DOWN)[i % 2]) for i in range(presses)]
+            composition = []
+            for i in range(presses):
+                composition.append(_press(fd, (RIGHT, LEFT)[i % 2]))
+                _read_until_quiet(fd, 1.0, 60.0)            # the transitions of the new alloy
+            idle, _ = _read_until_quiet(fd, 3.0, 3.0)
+            os.write(fd, b"q")
+            process.wait(timeout=10)
+        finally:
+            if process.poll() is None:
+                process.kill()
+            os.close(fd)
+    return {
+        "system": system,
+        "start_to_mapped_s": round(mapped - started, 2),
+        "key_to_screen_ms": {"temperature": _summary([t for t in temperature if t is not None]),
+                             "composition": _summary([t for t in composition if t is not None])},
+        "idle_bytes_per_s": round(len(idle) / 3.0, 1),
+        "targets": {"key_to_screen_ms_median": 50, "idle_bytes_per_s": 0},
+    }
+
+
 def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--json", action="store_true", help="print one JSON object")
     parser.add_argument("--system", default="pb-sn")
     parser.add_argument("--presses", type=int, default=30, help="key presses per view")
     parser.add_argument("--use-s", type=float, default=60.0, help="seconds of use before the memory is read")
+    parser.add_argument("--isopleth", action="store_true", help="a system drawn as an isopleth (default fe-fe3c)")
     args = parser.parse_args()
-    result = measure(args.system, args.presses, args.use_s)
+    if args.isopleth:
+        result = measure_isopleth(args.system if args.system != "pb-sn" else "fe-fe3c", args.presses)
+    else:
+        result = measure(args.system, args.presses, args.use_s)
     if args.json:
         print(json.dumps(result))
     else:

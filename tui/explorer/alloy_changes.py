@@ -70,7 +70,7 @@ def change_lines(system, changes: AlloyChanges | str | None, unit: str, unit_tex
     `unit_text`, with the trade's name of the line, else liquidus, solidus or solvus), then the
     heat-treatment window with its caution; a note while they are computed (`changes` None) or
     why there is no answer (a string)."""
-    lines: list[Line] = [("heading", "CHANGES ON COOLING")]
+    lines: list[Line] = [("heading", "EQUILIBRIUM CHANGES ON COOLING")]
     if changes is None:
         return lines + [("note", " computing ...")]
     if isinstance(changes, str):
@@ -85,16 +85,17 @@ def change_lines(system, changes: AlloyChanges | str | None, unit: str, unit_tex
 
 
 def window_lines(system, window: HeatTreatmentWindow, unit: str, unit_text: str) -> list[Line]:
-    """The heat-treatment window: its temperatures and what bounds them, the phases it aims at,
-    any note, and the caution that the specification governs."""
+    """The heat-treatment window: what bounds it, its temperatures, the phases it aims at, any
+    note, and the caution that the specification governs."""
     names = trade_names(system)
     phases = " + ".join(names.phase_name(p, window.low_K + 1e-3) or p for p in window.phases)
     low = f"{kelvin_to(window.low_K, unit):.1f}"
     if window.high_K is None:
-        span = f" above {low} {unit_text} ({window.low_is})"
+        span, bounds = f" above {low} {unit_text}", window.low_is
     elif window.high_K <= window.low_K:
-        span = f" none: {window.high_is} at or below {window.low_is}"
+        span, bounds = f" none: {window.high_is} at or below {window.low_is}", window.low_is
     else:
-        span = f" {low}-{kelvin_to(window.high_K, unit):.1f} {unit_text} ({window.low_is} to {window.high_is})"
-    return ([("heading", f"{_WINDOW_NAMES[window.kind]} (equilibrium)"), ("value", span), ("note", f" {phases}")]
+        span = f" {low}-{kelvin_to(window.high_K, unit):.1f} {unit_text}"
+        bounds = f"{window.low_is} to {window.high_is}"
+    return ([("heading", f"{_WINDOW_NAMES[window.kind]}, {bounds}"), ("value", span), ("note", f" {phases}")]
             + [("note", f" {n}") for n in window.notes] + [("warning", f" {SPECIFICATION_GOVERNS}")])

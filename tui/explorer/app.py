@@ -55,8 +55,9 @@ class ExplorerApp(App[None]):
 
     @property
     def explore_screen(self) -> ExploreScreen | SectionScreen:
-        """The main screen (under any dialog)."""
-        return self.screen_stack[0]  # type: ignore[return-value]
+        """The main screen (under any dialog): the first screen, or the one shown over it for
+        another kind of system."""
+        return next(s for s in reversed(self.screen_stack) if isinstance(s, (ExploreScreen, SectionScreen)))
 
     def on_mount(self) -> None:
         self.set_timer(PREWARM_DELAY_S, self._prewarm_picker)
@@ -77,22 +78,29 @@ class ExplorerApp(App[None]):
         self.push_screen(PICKER, self.open_system)
 
     def open_system(self, name: str | None) -> None:
-        """Open the system `name` (None or the open one: nothing changes): a binary diagram
-        after a binary keeps the screen, the units and where it fits the cursor; otherwise the
-        main screen is replaced by the one that draws the system (an isopleth for three or more
-        elements or a binary with sublattice phases, such as Fe-C)."""
-        screen = self.explore_screen
-        if not name or name == screen.exploration.system.name:
+        """Open the system `name` (None or the open one: nothing changes). A traced binary
+        diagram is shown on the first screen where that draws binaries (keeping the units and,
+        where it fits, the cursor); any other system on a screen shown over the first one (an
+        isopleth for three or more elements or a binary with sublattice phases, such as Fe-C),
+        which replaces the one shown there before."""
+        if not name or name == self.explore_screen.exploration.system.name:
             return
         try:
             system = find_system(name)
         except (SystemFileError, UnknownSystem, OSError) as error:
             self.notify(str(error), severity="error")
             return
-        if isinstance(screen, ExploreScreen) and not opens_as_section(system):
-            screen.show_system(system)
+        first = self.screen_stack[0]
+        if isinstance(first, ExploreScreen) and not opens_as_section(system):
+            while len(self.screen_stack) > 1:
+                self.pop_screen()
+            first.show_system(system)
             return
-        self.switch_screen(self._screen_for(exploration_for(system)))
+        screen = self._screen_for(exploration_for(system))
+        if len(self.screen_stack) > 1:
+            self.switch_screen(screen)
+        else:
+            self.push_screen(screen)
 
     def remember(self) -> None:
         """Write the system, cursor and units to the state file (atomically)."""

@@ -78,16 +78,22 @@ def labelled_fields(wanted: list[tuple[str, float, float]], frame: Frame,
 
 
 def isopleth_scene(iso, unit: str, glyphs: Glyphs, width: int, height: int,
-                   line_labels: Sequence[str | None] = ()) -> SectionScene:
+                   line_labels: Sequence[str | None] = (),
+                   window: tuple[float, float, float, float] | None = None) -> SectionScene:
     """The isopleth's zero-phase-fraction lines, its invariant lines and every field labelled,
     for this size; compositions as percent of the varying element in the section's basis,
     temperatures in `unit` ("C", "K" or "F"). `line_labels` holds the trade's name of each line
     of `iso` (None where the file names none; engine.diagrams.isopleth.trade_labels): each name
-    is written once, just above the middle of its longest line, before the fields' labels."""
+    is written once, just above the middle of its longest line, before the fields' labels.
+    `window` (u_low, u_high along the section, T_low, T_high in K; None: all of it) is the part
+    shown; a field is then labelled at its grid node inside the window nearest the middle of
+    those, and a field with none there is left out of the key."""
     columns, rows = plot_area(width, height)
     low, high = 100.0 * iso.content(0.0), 100.0 * iso.content(1.0)
-    T_lo, T_hi = (kelvin_to(T, unit) for T in iso.temperature_range_K)
-    frame = Frame(min(low, high), max(low, high), min(T_lo, T_hi), max(T_lo, T_hi), columns, rows)
+    u_low, u_high, T_low, T_high = window or (0.0, 1.0, *iso.temperature_range_K)
+    x_lo, x_hi = low + u_low * (high - low), low + u_high * (high - low)
+    T_lo, T_hi = kelvin_to(T_low, unit), kelvin_to(T_high, unit)
+    frame = Frame(min(x_lo, x_hi), max(x_lo, x_hi), min(T_lo, T_hi), max(T_lo, T_hi), columns, rows)
 
     def shown(points) -> tuple[np.ndarray, np.ndarray]:
         pts = np.asarray(points, dtype=float)
@@ -98,13 +104,29 @@ def isopleth_scene(iso, unit: str, glyphs: Glyphs, width: int, height: int,
     for inv in iso.invariants:
         T = kelvin_to(inv.temperature_K, unit)
         flats.append(([low + inv.u_range[0] * (high - low), low + inv.u_range[1] * (high - low)], [T, T]))
-    by_size = sorted(iso.fields, key=lambda f: -len(f.nodes))
-    wanted = [(field_name(iso.system, f.phases, f.middle[1]), *(float(v[0]) for v in shown([f.middle])))
-              for f in by_size]
+    wanted = []
+    for f in sorted(iso.fields, key=lambda f: -len(f.nodes)):
+        middle = f.middle if window is None else _middle_inside(f.nodes, (u_low, u_high, T_low, T_high))
+        if middle is not None:
+            wanted.append((field_name(iso.system, f.phases, middle[1]), *(float(v[0]) for v in shown([middle]))))
     named = _named_line_labels([shown(line.points) for line in iso.lines], line_labels, frame)
     labels, key = labelled_fields(wanted, frame, named)
     return SectionScene(frame, joined(curves), joined(flats), ([], []), labels, key,
                         f"{iso.element} {iso.basis}%", f"T {glyphs.temperature_unit(unit)}")
+
+
+def _middle_inside(nodes, window: tuple[float, float, float, float]) -> tuple[float, float] | None:
+    """The node (u, T in K) inside `window` (u_low, u_high, T_low, T_high) nearest the middle of
+    those inside, in shares of the window; None where none is inside."""
+    u_low, u_high, T_low, T_high = window
+    pts = np.array(nodes, dtype=float)
+    inside = pts[(pts[:, 0] >= u_low) & (pts[:, 0] <= u_high) & (pts[:, 1] >= T_low) & (pts[:, 1] <= T_high)]
+    if not len(inside):
+        return None
+    scale = np.array([max(u_high - u_low, 1e-12), max(T_high - T_low, 1e-9)])
+    centre = inside.mean(axis=0)
+    u, T = inside[int(np.argmin(np.sum(((inside - centre) / scale) ** 2, axis=1)))]
+    return float(u), float(T)
 
 
 def _named_line_labels(lines: list[tuple[np.ndarray, np.ndarray]], names: Sequence[str | None],

@@ -36,8 +36,11 @@ from .entry import TypedPoint
 SECTION_SHARE = 0.5
 #: Each element but the balance starts at this mole fraction.
 OPENING_SHARE = 0.05
-#: Arrow keys move the cursor by this share of the section and of the temperature window.
+#: Arrow keys move the cursor by this share of the window shown (along the section and in
+#: temperature).
 STEP_SHARE = 1.0 / 50.0
+#: Each zoom step halves (or doubles) the window shown about the cursor.
+ZOOM_FACTOR = 2.0
 #: Columns of composition of a binary's whole diagram (as `ladle diagram` maps it: a whole
 #: diagram spans the file's range, wider than a section through one alloy).
 WHOLE_BINARY_COLUMNS = 33
@@ -58,6 +61,23 @@ class SectionCursor:
     temperature_K: float
 
 
+@dataclass(frozen=True)
+class SectionWindow:
+    """The part of the isopleth shown: u from `u_low` to `u_high` (0-1 along the section) and
+    temperatures from `T_low` to `T_high` (K)."""
+
+    u_low: float
+    u_high: float
+    T_low: float
+    T_high: float
+
+    def following(self, cursor: SectionCursor) -> "SectionWindow":
+        """The same window, moved the least that keeps `cursor` inside it."""
+        du = min(0.0, cursor.u - self.u_low) + max(0.0, cursor.u - self.u_high)
+        dT = min(0.0, cursor.temperature_K - self.T_low) + max(0.0, cursor.temperature_K - self.T_high)
+        return SectionWindow(self.u_low + du, self.u_high + du, self.T_low + dT, self.T_high + dT)
+
+
 class SectionExploration:
     """One system drawn as an isopleth, the alloy, the varying element and the cursor."""
 
@@ -76,6 +96,8 @@ class SectionExploration:
         self.T_low, self.T_high = system.temperature_range_K
         T = 0.5 * (self.T_low + self.T_high) if temperature_K is None else temperature_K
         self.cursor = SectionCursor(self._u_of(self.alloy), min(max(T, self.T_low), self.T_high))
+        self.whole = SectionWindow(0.0, 1.0, self.T_low, self.T_high)
+        self.window = self.whole           # the part of the isopleth shown (`+`, `-`, `0`)
         self.isopleth: Isopleth | None = None
         self.line_labels: tuple[str | None, ...] = ()   # the trade's name of each of its lines, or None
         self.view = "isopleth"     # "triangle": a ternary's isothermal section at the cursor's temperature;
@@ -228,12 +250,34 @@ class SectionExploration:
 
     # -- moves ------------------------------------------------------------------------------
     def move(self, columns: int, rows: int) -> None:
-        """Move the cursor by whole steps along the section (columns) and in temperature (rows,
-        positive up), within the section and the window."""
-        u = min(max(self.cursor.u + columns * STEP_SHARE, 0.0), 1.0)
-        T = self.cursor.temperature_K + rows * STEP_SHARE * (self.T_high - self.T_low)
+        """Move the cursor by whole steps (STEP_SHARE of the window shown) along the section
+        (columns) and in temperature (rows, positive up), within the section and the system's
+        window; the window shown follows it."""
+        w = self.window
+        u = min(max(self.cursor.u + columns * STEP_SHARE * (w.u_high - w.u_low), 0.0), 1.0)
+        T = self.cursor.temperature_K + rows * STEP_SHARE * (w.T_high - w.T_low)
         self.cursor = SectionCursor(u, min(max(T, self.T_low), self.T_high))
         self.alloy = self.x_at_cursor()
+        self.window = w.following(self.cursor)
+
+    def zoom(self, zoom_in: bool) -> None:
+        """Halve (zoom_in) or double the window shown about the cursor, within the whole
+        section and the system's temperatures."""
+        factor = 1.0 / ZOOM_FACTOR if zoom_in else ZOOM_FACTOR
+        w, c = self.window, self.cursor
+
+        def scaled(low: float, high: float, at: float, bottom: float, top: float) -> tuple[float, float]:
+            span = min((high - low) * factor, top - bottom)
+            low = min(max(at - (at - low) * factor, bottom), top - span)
+            return low, low + span
+
+        u_low, u_high = scaled(w.u_low, w.u_high, c.u, 0.0, 1.0)
+        T_low, T_high = scaled(w.T_low, w.T_high, c.temperature_K, self.T_low, self.T_high)
+        self.window = SectionWindow(u_low, u_high, T_low, T_high)
+
+    def reset_zoom(self) -> None:
+        """Show the whole section again."""
+        self.window = self.whole
 
     def vary_next(self) -> None:
         """Let the next element (after the balance, in the system's order) vary; the cursor
@@ -243,6 +287,7 @@ class SectionExploration:
         self.varying = self.varying % (n - 1) + 1
         self.cursor = SectionCursor(self._u_of(self.alloy), self.cursor.temperature_K)
         self.isopleth = None
+        self.window = self.whole
 
     def jump(self, point: TypedPoint) -> None:
         """Go to a typed alloy and/or temperature (K)."""
@@ -260,6 +305,7 @@ class SectionExploration:
         if not self.T_low <= T <= self.T_high:
             raise ValueError(f"{T:.1f} K is outside this system's window, {self.T_low:.0f}-{self.T_high:.0f} K")
         self.cursor = SectionCursor(self._u_of(self.alloy), T)
+        self.window = self.window.following(self.cursor)
 
     def saved(self) -> None:
         """Nothing is remembered of a section between runs (the remembered point is a binary's)."""
@@ -270,12 +316,14 @@ class SectionExploration:
         """The point equilibrium at the cursor."""
         return equilibrate(self.system, self.cursor.temperature_K, self.x_at_cursor())
 
-    def status_lines(self, eq, unit: str, unit_text: str, phases: bool = True) -> list[Line]:
+    def status_lines(self, eq, unit: str, unit_text: str, phases: bool = True, compact: bool = False) -> list[Line]:
         """The cursor's temperature in `unit` ("C", "K" or "F", written `unit_text`), the alloy
         (every element, or a binary's second one, in the section's basis and the other), and
         every phase of `eq` (the point equilibrium at the cursor, None while it is computed) with
         the trade's name beside it, its amount and its content of every element (left out with
-        `phases` False). In the wt% basis amounts are mass fractions, else mole fractions."""
+        `phases` False). In the wt% basis amounts are mass fractions, else mole fractions.
+        `compact`: without the POINT heading, and a binary's phases one line each, by the
+        trade's name where there is one."""
         els = self.system.elements
         x = self.x_at_cursor()
         w = mass_from_mole(x, self.system.molar_mass)
@@ -283,8 +331,8 @@ class SectionExploration:
         by_mass = self.basis == "wt"
         first, second, other = (w, x, "at") if by_mass else (x, w, "wt")
         shown = range(1, len(els)) if self.is_binary else range(len(els))   # a binary: the balance is the rest
-        lines: list[Line] = [("heading", "POINT"),
-                             ("value", f" {kelvin_to(T, unit):.1f} {unit_text}" + ("" if unit == "K" else f"  ({T:.1f} K)"))]
+        lines: list[Line] = [] if compact else [("heading", "POINT")]
+        lines.append(("value", f" {kelvin_to(T, unit):.1f} {unit_text}" + ("" if unit == "K" else f"  ({T:.1f} K)")))
         lines += [("value", f" {els[i]} {percent(first[i])} {self.basis}% ({percent(second[i])} {other}%)")
                   for i in shown]
         if not phases:
@@ -297,8 +345,13 @@ class SectionExploration:
         for p in eq.phases:
             name = phase_label(self.system, p.name, float(p.x[1]), T, among)
             amount, content = (p.amount_mass, p.w) if by_mass else (p.amount_mol, p.x)
+            contents = " ".join(f"{els[i]} {percent(content[i])}" for i in shown)
+            if compact and self.is_binary:
+                short = trade_names(self.system).phase_name(p.name, T) if name.count("(") == 1 else None
+                lines.append(("value", f" {short or name} {percent(amount)}%, {contents}"))
+                continue
             lines.append(("value", f" {name} {percent(amount)} {'wt' if by_mass else 'mol'}%"))
-            lines.append(("note", "   " + " ".join(f"{els[i]} {percent(content[i])}" for i in shown)))
+            lines.append(("note", f"   {contents}"))
         if not eq.converged:
             lines.append(("warning", " did not converge: treat with suspicion"))
         return lines

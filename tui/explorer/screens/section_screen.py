@@ -13,6 +13,8 @@ for the point replaces an older one, and the transitions are scanned once the cu
 
 from __future__ import annotations
 
+import time
+
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
@@ -20,7 +22,7 @@ from textual.screen import Screen
 from textual.widgets import Input, Static
 from textual.worker import Worker, WorkerState
 
-from ladle.engine.units import TEMPERATURE_UNITS
+from ladle.engine.units import TEMPERATURE_UNITS, kelvin_to
 from ladle.tui.quote import percent
 
 from ..alloy_changes import change_lines
@@ -33,9 +35,9 @@ from ..widgets.status_pane import StatusPane
 from .help import HelpScreen
 
 #: The key bar of a ternary's isopleth: each key and its word (a binary drawn as an isopleth, and
-#: a system of four or more elements, leave off what they lack).
-KEY_BAR = (("arrows", ""), ("v", "vary"), ("i", "triangle"), ("c", "cool"), ("t", "C/K/F"), ("g", "go to"),
-           ("s", "system"), ("?", "help"), ("q", "quit"))
+#: a system of four or more elements, leave off what they lack; the arrows are in the help).
+KEY_BAR = (("v", "vary"), ("i", "triangle"), ("c", "cool"), ("t", "C/K/F"), ("g", "go"),
+           ("+-0", "zoom"), ("s", "system"), ("?", "help"), ("q", "quit"))
 #: The help screen's rows for this screen: (keys, what they do).
 HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
              ("v", "let the next element vary (the balance, the first element, takes up the change)"),
@@ -45,12 +47,16 @@ HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in 
                    "Scheil), with its liquidus, the ends of freezing and the structure in the status pane"),
              ("g", "go to a typed alloy and temperature: Ag=3wt% Cu=0.5wt% 250C (every element but the balance)"),
              ("t", "temperatures in C, K or F, everywhere"),
+             ("+ - 0", "zoom the isopleth in, out, or show all of it again (the arrows' steps follow the zoom)"),
              ("s", "choose another system"),
              ("Esc", "close the entry line"),
              ("?", "this help"),
              ("q", "quit")]
 #: The cursor's alloy's transitions are scanned once it has rested this long (s).
 SCAN_DELAY_S = 0.4
+#: The point equilibrium is computed at once, without a worker, while the last one took less
+#: than this (s): a key then updates the screen once.
+INLINE_POINT_S = 0.02
 
 
 def _keys_here(exploration: SectionExploration) -> set[str]:
@@ -63,7 +69,7 @@ def _keys_here(exploration: SectionExploration) -> set[str]:
 def key_bar(exploration: SectionExploration) -> str:
     """The key bar for this system."""
     off = _keys_here(exploration)
-    return "  ".join(f"{key} {what}".strip() for key, what in KEY_BAR if key not in off)
+    return "  ".join(f"{key} {what}" for key, what in KEY_BAR if key not in off)
 
 
 def help_rows(exploration: SectionExploration) -> list[tuple[str, str]]:
@@ -85,6 +91,8 @@ class SectionScreen(Screen[None]):
                 Binding("v", "vary", show=False), Binding("i", "view('triangle')", show=False),
                 Binding("c", "view('cooling')", show=False), Binding("t", "temperature_unit", show=False),
                 Binding("g", "go_to", show=False), Binding("s", "app.systems", show=False),
+                Binding("plus,equals_sign", "zoom(True)", show=False), Binding("minus", "zoom(False)", show=False),
+                Binding("0", "whole", show=False),
                 Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
                 Binding("q", "app.quit", show=False)]
 
@@ -94,6 +102,7 @@ class SectionScreen(Screen[None]):
         self.glyphs = glyphs
         self._equilibrium = None
         self._point_worker: Worker | None = None
+        self._point_s = 0.0          # how long the last point equilibrium took (s)
         self._mapping: tuple | None = None      # the section whose isopleth a worker maps
         self._scan_timer = None
         self._scanning: Worker | None = None
@@ -119,6 +128,10 @@ class SectionScreen(Screen[None]):
     # -- drawing and workers ------------------------------------------------------------------
     def _title(self) -> str:
         e = self.exploration
+        if e.view == "triangle":
+            unit = self.query_one(SectionView).unit
+            T = kelvin_to(e.cursor.temperature_K, unit)
+            return f" {e.system.name}  isothermal section at {T:.1f} {self.glyphs.temperature_unit(unit)}"
         if e.is_binary:
             return f" {e.system.name}  {e.system.title}"
         held = ", ".join(f"{el} {percent(e.alloy[i])}" for i, el in enumerate(e.system.elements)
@@ -139,11 +152,31 @@ class SectionScreen(Screen[None]):
             self.run_worker(e.freeze, thread=True, group="cooling", exclusive=True, exit_on_error=False)
         self._ask_changes()
         view = self.query_one(SectionView)
-        self._equilibrium = view.equilibrium = None
-        self._point_worker = self.run_worker(e.equilibrium, thread=True, group="point", exclusive=True,
-                                             exit_on_error=False)
+        self._ask_point()
         self._show_status()
         view.redraw()
+
+    def _ask_point(self) -> None:
+        """The point equilibrium at the cursor: at once where the last one took less than
+        INLINE_POINT_S (one screen update instead of two), else in a worker (keys answered
+        meanwhile; "computing ..." shows)."""
+        e, view = self.exploration, self.query_one(SectionView)
+        self._equilibrium = view.equilibrium = None
+        if self._point_s < INLINE_POINT_S:
+            started = time.perf_counter()
+            try:
+                self._equilibrium = view.equilibrium = e.equilibrium()
+            except (ValueError, ArithmeticError) as error:
+                self.query_one(StatusPane).show_lines([("warning", f" no answer here: {error}")])
+            self._point_s = time.perf_counter() - started
+            return
+
+        def timed():
+            started = time.perf_counter()
+            result = e.equilibrium()
+            return result, time.perf_counter() - started
+
+        self._point_worker = self.run_worker(timed, thread=True, group="point", exclusive=True, exit_on_error=False)
 
     def _ask_changes(self) -> None:
         """Scan the cursor's alloy's transitions once the cursor has rested (SCAN_DELAY_S), where
@@ -166,26 +199,27 @@ class SectionScreen(Screen[None]):
     def _show_status(self) -> None:
         """The status pane: the point and its phases, then the view's own lines (the freezing
         paths; the alloy's transitions and the key of numbered fields); where they do not fit,
-        the key in fewer lines, then without it."""
+        the key in fewer lines, then a binary's phases one line each, then without the key."""
         e = self.exploration
         unit = self.query_one(SectionView).unit
         unit_text = self.glyphs.temperature_unit(unit)
-        lines = e.status_lines(self._equilibrium, unit, unit_text, phases=e.view != "cooling")
         if e.view == "cooling":
-            self.query_one(StatusPane).show_lines(lines + e.freezing_lines(unit, unit_text))
+            self.query_one(StatusPane).show_lines(e.status_lines(self._equilibrium, unit, unit_text, phases=False)
+                                                  + e.freezing_lines(unit, unit_text))
             return
+        tail = []
         if e.view == "isopleth" and e.lists_changes:
-            lines += change_lines(e.system, e.changes.get(e.alloy_key()), unit, unit_text)
+            tail = change_lines(e.system, e.changes.get(e.alloy_key()), unit, unit_text)
+        full, compact = (e.status_lines(self._equilibrium, unit, unit_text, compact=c) + tail for c in (False, True))
         if (e.triangle if e.view == "triangle" else e.isopleth) is None:
             what = "isothermal section" if e.view == "triangle" else "isopleth"
-            self.query_one(StatusPane).show_lines(lines + [("note", f" mapping the {what} ...")])
+            mapping = [("note", f" mapping the {what} ...")]
+            self.query_one(StatusPane).show_lines(full + mapping, compact + mapping)
             return
         key = self.query_one(SectionView).key()
-        if not key:
-            self.query_one(StatusPane).show_lines(lines)
-            return
-        self.query_one(StatusPane).show_lines(lines + [("heading", "FIELDS")] + [("note", f" {k}") for k in key],
-                                              lines + [("note", "FIELDS " + "; ".join(key))], lines)
+        listed = [("heading", "FIELDS")] + [("note", f" {k}") for k in key] if key else []
+        joined = [("note", "FIELDS " + "; ".join(k.replace(":", "", 1) for k in key))] if key else []
+        self.query_one(StatusPane).show_lines(full + listed, full + joined, compact + joined, compact)
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
         worker, e = event.worker, self.exploration
@@ -217,7 +251,8 @@ class SectionScreen(Screen[None]):
             if T == e.cursor.temperature_K:      # still the cursor's temperature
                 e.triangle = section
         elif worker is self._point_worker:
-            self._equilibrium = view.equilibrium = worker.result
+            self._equilibrium, self._point_s = worker.result
+            view.equilibrium = self._equilibrium
         else:
             return
         view.redraw()
@@ -230,6 +265,14 @@ class SectionScreen(Screen[None]):
     # -- keys ----------------------------------------------------------------------------------
     def action_move(self, columns: int, rows: int) -> None:
         self.exploration.move(columns, rows)
+        self._changed()
+
+    def action_zoom(self, zoom_in: bool) -> None:
+        self.exploration.zoom(zoom_in)
+        self._changed()
+
+    def action_whole(self) -> None:
+        self.exploration.reset_zoom()
         self._changed()
 
     def action_vary(self) -> None:
@@ -249,6 +292,7 @@ class SectionScreen(Screen[None]):
         view = self.query_one(SectionView)
         view.unit = TEMPERATURE_UNITS[(TEMPERATURE_UNITS.index(view.unit) + 1) % len(TEMPERATURE_UNITS)]
         view.redraw()
+        self.query_one("#title", Static).update(self._title())
         self._show_status()
 
     def action_go_to(self) -> None:

@@ -45,7 +45,7 @@ class SectionView(CachedPlot):
             return (e.view, id(e.triangle), tuple(e.x_at_cursor()), id(self.equilibrium))
         if e.view == "cooling":
             return (e.view, id(e.freezing.get(e.alloy_key())), self.unit)
-        return (e.view, id(e.isopleth), self.unit)
+        return (e.view, id(e.isopleth), self.unit, e.window)
 
     def crosshair(self) -> Crosshair | None:
         e = self.exploration
@@ -66,7 +66,9 @@ class SectionView(CachedPlot):
             self._scene = None
             plt.title("mapping the isopleth ...")
             return
-        self._scene = isopleth_scene(e.isopleth, self.unit, self.glyphs, width, height, e.line_labels)
+        w = e.window
+        zoomed = None if w == e.whole else (w.u_low, w.u_high, w.T_low, w.T_high)
+        self._scene = isopleth_scene(e.isopleth, self.unit, self.glyphs, width, height, e.line_labels, zoomed)
         draw_section(plt, self._scene, self.glyphs)
         self.post_message(self.Drawn())
 
