@@ -24,6 +24,7 @@ from __future__ import annotations
 import threading
 from collections import OrderedDict
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -86,6 +87,13 @@ class _Phase:
     Y: np.ndarray
     X: np.ndarray           # active elements only, per mole of atoms
     G: np.ndarray           # J per mole of atoms
+
+    @cached_property
+    def free_groups(self) -> list[np.ndarray]:
+        """Per sublattice, the indices of its free site fractions."""
+        mask = np.zeros(self.model.n_vars, dtype=bool)
+        mask[self.free] = True
+        return [g[mask[g]] for g in self.model.groups]
 
 
 def _prepare(models: dict[str, object], active: np.ndarray) -> list[_Phase]:
@@ -211,14 +219,20 @@ def _start_states(lp: LowestCombination, cloud: _Cloud, active: np.ndarray) -> l
     states = []
     for owner, y, w in merged:
         ph = cloud.phases[owner]
-        y0 = np.zeros_like(y)
-        y0[ph.free] = np.maximum(y[ph.free], _SMALLEST_START)
-        for g in ph.model.groups:
-            gi = g[np.isin(g, ph.free)]
-            y0[gi] /= y0[gi].sum()
+        y0 = _start_fractions(ph, y)
         atoms = float((y0 @ ph.model.element_matrix).sum())
         states.append(PhaseState(ph.name, ph.model, y0, w / atoms, ph.free))
     return states
+
+
+def _start_fractions(ph: _Phase, y: np.ndarray) -> np.ndarray:
+    """Site fractions y made a start for Newton: free ones at least _SMALLEST_START, the others
+    0, each sublattice's free fractions summing to 1."""
+    y0 = np.zeros(len(y))
+    y0[ph.free] = np.maximum(y[ph.free], _SMALLEST_START)
+    for gi in ph.free_groups:
+        y0[gi] /= y0[gi].sum()
+    return y0
 
 
 def _merge_duplicates(states: list[PhaseState]) -> list[PhaseState]:
@@ -362,11 +376,7 @@ def _from_nearby(near, phases: list[_Phase], cloud: _Cloud, z: np.ndarray, activ
         ph = by_name.get(name)
         if ph is None or len(y) != ph.model.n_vars:
             return None
-        y0 = np.zeros(len(y))
-        y0[ph.free] = np.maximum(np.asarray(y, dtype=float)[ph.free], _SMALLEST_START)
-        for g in ph.model.groups:
-            gi = g[np.isin(g, ph.free)]
-            y0[gi] /= y0[gi].sum()
+        y0 = _start_fractions(ph, np.asarray(y, dtype=float))
         x, _g = _per_atom(ph.model, y0, active)
         states.append(PhaseState(name, ph.model, y0, 0.0, ph.free))
         columns.append(x)

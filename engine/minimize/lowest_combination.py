@@ -23,6 +23,11 @@ import numpy as np
 ENTER_TOLERANCE = 1e-9
 #: Points priced in the first, coarse solve (every k-th point of a larger cloud).
 COARSE_POINTS = 400
+#: Clouds larger than this are priced in full only to choose a shortlist (the points whose
+#: driving force is at least SHORTLIST_SHARE of the most negative one) and to confirm optimality;
+#: the iterations between price the shortlist alone (partial pricing).
+SHORTLIST_FROM = 2000
+SHORTLIST_SHARE = 0.05
 #: Energy (J/mol) above every point given to the artificial start columns (pure elements).
 _ARTIFICIAL_MARGIN = 1e7
 
@@ -86,13 +91,25 @@ class LowestCombination:
         w = inv @ self.z
         converged = False
         since_refactor = 0
+        short = None                                 # the shortlist being priced, or None: every point
         while self.iterations < self.max_iterations:
             mu = cost @ inv                          # B^T mu = c_B
-            d = G - mu @ XT
-            k = int(d.argmin()) if len(d) else -1
-            if k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k])):
-                converged = True
-                break
+            if short is not None:
+                d = short_G - mu @ short_XT
+                k = int(d.argmin())
+                if d[k] > -ENTER_TOLERANCE * (1.0 + abs(short_G[k])):
+                    short = None                     # optimal on the shortlist: price every point
+                    continue
+                k = int(short[k])
+            else:
+                d = G - mu @ XT
+                k = int(d.argmin()) if len(d) else -1
+                if k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k])):
+                    converged = True
+                    break
+                if len(d) > SHORTLIST_FROM:          # the most promising points, priced alone until
+                    short = np.flatnonzero(d < SHORTLIST_SHARE * d[k])     # none of them enters
+                    short_XT, short_G = XT[:, short], G[short]
             u = inv @ XT[:, k]
             r, step = -1, np.inf                     # the ratio test, in Python floats (N is small)
             for i, (ui, wi) in enumerate(zip(u.tolist(), w.tolist())):

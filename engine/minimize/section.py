@@ -222,8 +222,8 @@ class Section:
         df = self.G - (mu_a * self.xa + mu_b * self.xb)
         inner = df[:, 1:-1]
         dips = (inner <= df[:, :-2]) & (inner <= df[:, 2:]) & (inner < 2e-3 * self.RT)
-        near = {(ph, int(np.searchsorted(self.xb, xt))) for ph, xt in touching}
-        for s, i in zip(*(a.tolist() for a in np.nonzero(dips))):
+        near = {(ph, int(self.xb.searchsorted(xt))) for ph, xt in touching}
+        for s, i in zip(*(a.tolist() for a in dips.nonzero())):
             i += 1
             if (s, i) in near or (s, i - 1) in near or (s, i + 1) in near:
                 continue
@@ -244,9 +244,11 @@ class Section:
                 xa_, xb_, g, d = xa_i, xb_i, float(self.G[s, i]), d_grid
             if d < -skip_tol:
                 found.append((s, xa_, xb_, g))
-        for end in (0, df.shape[1] - 1):
-            for s in np.flatnonzero(df[:, end] < -skip_tol).tolist():
-                found.append((s, float(self.xa[end]), float(self.xb[end]), float(self.G[s, end])))
+        last = df.shape[1] - 1
+        if float(df[:, ::last].min()) < -skip_tol:      # a pure element below the line
+            for end in (0, last):
+                for s in np.flatnonzero(df[:, end] < -skip_tol).tolist():
+                    found.append((s, float(self.xa[end]), float(self.xb[end]), float(self.G[s, end])))
         for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g)):
             if cg - (mu_a * cx[0] + mu_b * cx[1]) < -skip_tol:
                 found.append((self.n_sol + k, cx[0], cx[1], cg))
@@ -259,8 +261,8 @@ class Section:
         spinodal narrower than a grid cell is found."""
         sol = self.solutions[s]
         n = len(self.xb)
-        i0 = max(int(np.searchsorted(self.xb, lo)) - 1, 1)
-        i1 = min(int(np.searchsorted(self.xb, hi, side="right")) + 1, n - 1)
+        i0 = max(int(self.xb.searchsorted(lo)) - 1, 1)
+        i1 = min(int(self.xb.searchsorted(hi, side="right")) + 1, n - 1)
         if i1 - i0 < 1:
             return None
         inside = np.arange(i0, i1)

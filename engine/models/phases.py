@@ -131,7 +131,8 @@ class SolutionAtT:
         self.phase = phase
         self.T = T
         self.RT = R * T
-        self.g0a, self.g0b = (f.value(T) for f in phase.endmembers)
+        end_a, end_b = phase.endmembers
+        self.g0a, self.g0b = end_a.value(T), end_b.value(T)
         self.L = [f.value(T) for f in phase.interactions.get(BINARY_PAIR, ())]
         mag = phase.magnetic
         if mag is not None:
@@ -141,9 +142,9 @@ class SolutionAtT:
     @cached_property
     def _temperature_derivatives(self) -> tuple[tuple[float, float], list[float]]:
         """(dG_A/dT, dG_B/dT) of the pure elements and dL[k]/dT, J/(mol K)."""
-        ph = self.phase
-        da, db = (f.derivative(self.T) for f in ph.endmembers)
-        return (da, db), [f.derivative(self.T) for f in ph.interactions.get(BINARY_PAIR, ())]
+        T = self.T
+        end_a, end_b = self.phase.endmembers
+        return (end_a.derivative(T), end_b.derivative(T)), [f.derivative(T) for f in self.phase.interactions.get(BINARY_PAIR, ())]
 
     # --- magnetic part -------------------------------------------------------------------
     def _curie_and_moment(self, xa: np.ndarray, xb: np.ndarray, order: int):
@@ -262,13 +263,23 @@ class CompoundPhase:
     formation: TemperatureFunction
     kind: str = field(default="compound", init=False)
 
+    @cached_property
+    def _weighted_references(self) -> tuple[tuple[float, TemperatureFunction], ...]:
+        return tuple(zip(np.asarray(self.x, dtype=float).tolist(), self.references))
+
     def gibbs(self, T: float) -> float:
         """Molar Gibbs energy (J per mole of atoms) at T (K)."""
-        return float(sum(xi * f.value(T) for xi, f in zip(self.x, self.references)) + self.formation.value(T))
+        g = self.formation.value(T)
+        for xi, f in self._weighted_references:
+            g += xi * f.value(T)
+        return g
 
     def gibbs_dT(self, T: float) -> float:
         """dG/dT (J/(mol K)) at T (K)."""
-        return float(sum(xi * f.derivative(T) for xi, f in zip(self.x, self.references)) + self.formation.derivative(T))
+        d = self.formation.derivative(T)
+        for xi, f in self._weighted_references:
+            d += xi * f.derivative(T)
+        return d
 
     def valid_range_K(self) -> tuple[float, float]:
         funcs = self.references + (self.formation,)

@@ -133,6 +133,59 @@ class _Expansion:
                                  for q in range(width)] for p in range(width)], dtype=np.intp).reshape(width, width, max(width - 2, 0))
         self.off_diagonal = 1.0 - np.eye(width)
         self.linear = bool(np.any(self.slopes))
+        self._terms = terms
+
+    @cached_property
+    def monomials(self) -> tuple[np.ndarray, np.ndarray]:
+        """The sum expanded into monomials: (E, Q) with E (monomials, n_vars) the exponents and Q
+        (monomials, n_terms * order) the map from the coefficients C.ravel() to the monomials'
+        coefficients. The point form of `evaluate_at` uses it."""
+        found: dict[tuple[int, ...], int] = {}
+        entries: list[tuple[int, int, float]] = []
+        n = self.n_vars
+        for t, (members, slope, offset, _funcs) in enumerate(self._terms):
+            base = [0] * n
+            for v in members:
+                base[v] += 1
+            linear = [(v, float(a)) for v, a in enumerate(slope) if a != 0.0]
+            power: dict[tuple[int, ...], float] = {tuple(base): 1.0}     # the prefactor times s^k
+            for k in range(self.order):
+                for e, q in power.items():
+                    if q != 0.0:
+                        entries.append((found.setdefault(e, len(found)), t * self.order + k, q))
+                grown: dict[tuple[int, ...], float] = {}
+                for e, q in power.items():
+                    if offset != 0.0:
+                        grown[e] = grown.get(e, 0.0) + q * offset
+                    for v, a in linear:
+                        e2 = e[:v] + (e[v] + 1,) + e[v + 1:]
+                        grown[e2] = grown.get(e2, 0.0) + q * a
+                power = grown
+        E = np.zeros((len(found), n))
+        for e, i in found.items():
+            E[i] = e
+        Q = np.zeros((len(found), self.n_terms * self.order))
+        for i, col, q in entries:
+            Q[i, col] += q
+        return E, Q
+
+    @staticmethod
+    def evaluate_at(y: np.ndarray, E: np.ndarray, c: np.ndarray, order: int):
+        """(value, gradient, Hessian) at one point y (n_vars,) with every y > 0, from the monomial
+        form (exponents E, coefficients c = Q @ C.ravel()): G = sum_p c_p prod_v y_v^E_pv,
+        dG/dy_v = sum_p c_p E_pv m_p / y_v, d2G/dy_u dy_v = sum_p c_p E_pu (E_pv - [u = v]) m_p / (y_u y_v).
+        Derivatives only up to `order` (None beyond)."""
+        w = c * np.prod(y ** E, axis=1)
+        value = w.sum()
+        if order == 0:
+            return value, None, None
+        wE = w @ E
+        grad = wE / y
+        if order == 1:
+            return value, grad, None
+        hess = (E.T * w) @ E
+        hess.flat[::len(y) + 1] -= wE
+        return value, grad, hess / np.outer(y, y)
 
     def coefficients(self, T: float, derivative: bool = False) -> np.ndarray:
         """C (n_terms, order) at T (K), or dC/dT."""
@@ -514,6 +567,12 @@ class SublatticeAtT:
                           + (u * f1)[..., None, None] * d2tau)
         return g, grad, np.where(active[..., None, None], hess, 0.0)
 
+    @cached_property
+    def _magnetic_C_dT(self) -> tuple[np.ndarray, np.ndarray]:
+        """dC/dT of the Curie temperature's and the moment's coefficients at this temperature."""
+        return (self.phase._curie.coefficients(self.T, derivative=True),
+                self.phase._moment.coefficients(self.T, derivative=True))
+
     def _magnetic_dT(self, y: np.ndarray) -> np.ndarray:
         """d G_mag / dT (J/(mol f.u. K)) at fixed y, including the temperature dependence of the
         Tc and beta coefficients."""
@@ -521,8 +580,8 @@ class SublatticeAtT:
         ph = self.phase
         tc = ph._curie.evaluate(y, self._C_curie)[0]
         be = ph._moment.evaluate(y, self._C_moment)[0]
-        tc_T = ph._curie.evaluate(y, ph._curie.coefficients(self.T, derivative=True))[0]
-        be_T = ph._moment.evaluate(y, ph._moment.coefficients(self.T, derivative=True))[0]
+        tc_T = ph._curie.evaluate(y, self._magnetic_C_dT[0])[0]
+        be_T = ph._moment.evaluate(y, self._magnetic_C_dT[1])[0]
         k_tc = np.where(tc < 0.0, 1.0 / mag.antiferro_factor, 1.0)
         k_be = np.where(be < 0.0, 1.0 / mag.antiferro_factor, 1.0)
         tc, tc_T, be, be_T = tc * k_tc, tc_T * k_tc, be * k_be, be_T * k_be
@@ -552,15 +611,32 @@ class SublatticeAtT:
         """(G, gradient, Hessian) in one pass (cheaper than the three calls in a Newton step)."""
         return self._up_to(y, 2)
 
+    @cached_property
+    def _energy_monomials(self) -> tuple[np.ndarray, np.ndarray]:
+        """(E, c): the energy's monomial exponents and their coefficients at this temperature."""
+        E, Q = self.phase._energy.monomials
+        return E, Q @ self._C.ravel()
+
     def _up_to(self, y: np.ndarray, order: int):
-        """G and its derivatives in y up to `order` (None beyond)."""
+        """G and its derivatives in y up to `order` (None beyond). One point with every site
+        fraction positive (Newton's iterates) takes the monomial form."""
         y = np.asarray(y, dtype=float)
-        g, grad, hess = self.phase._energy.evaluate(y, self._C, order)
-        g = g + self.RT * (_xlogx(y) @ self._weights)
-        if order >= 1:
-            grad = grad + self.RT * self._weights * (np.log(y) + 1.0)
-        if order >= 2:
-            hess = hess + (self.RT * self._weights / y)[..., :, None] * self._eye
+        if y.ndim == 1 and order > 0 and y.min() > 0.0:
+            E, c = self._energy_monomials
+            g, grad, hess = _Expansion.evaluate_at(y, E, c, order)
+            log_y = np.log(y)
+            rt_w = self.RT * self._weights
+            g = g + rt_w @ (y * log_y)
+            grad = grad + rt_w * (log_y + 1.0)
+            if order >= 2:
+                hess.flat[::len(y) + 1] += rt_w / y
+        else:
+            g, grad, hess = self.phase._energy.evaluate(y, self._C, order)
+            g = g + self.RT * (_xlogx(y) @ self._weights)
+            if order >= 1:
+                grad = grad + self.RT * self._weights * (np.log(y) + 1.0)
+            if order >= 2:
+                hess = hess + (self.RT * self._weights / y)[..., :, None] * self._eye
         if self.phase.magnetic is not None:
             mg, mgrad, mhess = self._magnetic(y, order)
             g = g + mg
@@ -568,11 +644,15 @@ class SublatticeAtT:
             hess = hess + mhess if order >= 2 else hess
         return g, grad, hess
 
+    @cached_property
+    def _C_dT(self) -> np.ndarray:
+        """dC/dT of the energy's coefficients at this temperature (J/(mol f.u. K))."""
+        return self.phase._energy.coefficients(self.T, derivative=True)
+
     def gibbs_dT(self, y: np.ndarray) -> np.ndarray:
         """dG/dT at fixed y (J/(mol f.u. K)); the enthalpy is H = G - T dG/dT."""
         y = np.asarray(y, dtype=float)
-        dC = self.phase._energy.coefficients(self.T, derivative=True)
-        d = self.phase._energy.evaluate(y, dC)[0] + R * (_xlogx(y) @ self._weights)
+        d = self.phase._energy.evaluate(y, self._C_dT)[0] + R * (_xlogx(y) @ self._weights)
         if self.phase.magnetic is not None:
             d = d + self._magnetic_dT(y)
         return d
