@@ -19,11 +19,13 @@ Reference values:
 from __future__ import annotations
 
 import json
+import re
 
 import numpy as np
 import pytest
 
 from ladle.engine import find_system
+from ladle.engine.files.loader import load_system, shipped_folder
 from ladle.engine.minimize.equilibrium import equilibrate
 from ladle.tui.cli import main
 
@@ -87,3 +89,41 @@ def test_no_second_al_phase_anywhere_in_the_covered_corner():
             for si in np.linspace(0.001, 0.16, 6):
                 names = equilibrate(system, float(T), np.array([1.0 - mg - si, mg, si])).phase_names
                 assert len(set(names)) == len(names), (T, mg, si, names)
+
+
+# A binary shared by two shipped systems is one file: a change to al-si.toml or mg-si.toml changes
+# al-mg-si too. Check value: the equilibrium Gibbs energy is the minimum over states of functions
+# linear in a coefficient c, so raising c by d changes G by between d times its derivative at the
+# state before and d times that after (the envelope theorem; M. Hillert, Phase Equilibria, Phase
+# Diagrams and Phase Transformations, 2nd ed. (2008), ch. 2: G as a minimum at fixed T and
+# composition). The derivative is the compound's amount (moles of atoms per mole of alloy) for its
+# formation energy, and sum over (Al) of amount x_Al x_Si for (Al)'s Al-Si L[0].
+CHANGE_J = -1500.0
+
+
+def _compound(eq, name: str) -> float:
+    return sum(p.amount_mol for p in eq.phases if p.name == name)
+
+
+def _al_si_pairs(eq) -> float:
+    return sum(p.amount_mol * p.x[0] * p.x[2] for p in eq.phases if p.name == "fcc")
+
+
+@pytest.mark.parametrize("binary, anchor, derivative", [
+    ("mg-si", r"formation = \{ a = (-?[0-9.]+)", lambda eq: _compound(eq, "Mg2Si")),
+    ("al-si", r"(?m)^L = \[ \{ a = (-3201\.[0-9]+)", _al_si_pairs),
+])
+def test_a_change_to_a_shared_binary_changes_al_mg_si(tmp_path, binary, anchor, derivative):
+    shipped = shipped_folder()
+    text = (shipped / f"{binary}.toml").read_text(encoding="utf-8")
+    changed, count = re.subn(anchor, lambda m: m.group(0).replace(m.group(1), repr(float(m.group(1)) + CHANGE_J)), text)
+    assert count == 1
+    (tmp_path / f"{binary}.toml").write_text(changed, encoding="utf-8")
+    (tmp_path / "al-mg-si.toml").write_text((shipped / "al-mg-si.toml").read_text(encoding="utf-8"), encoding="utf-8")
+    x, T = np.array([0.925, 0.005, 0.07]), 700.0       # Al-0.5 at% Mg-7 at% Si: (Al) + (Si) + Mg2Si
+    before = equilibrate(load_system(shipped / "al-mg-si.toml"), T, x)
+    after = equilibrate(load_system(tmp_path / "al-mg-si.toml"), T, x)
+    assert before.converged and after.converged and derivative(before) > 1e-4
+    drop = after.gibbs_J_per_mol - before.gibbs_J_per_mol
+    bounds = sorted((CHANGE_J * derivative(before), CHANGE_J * derivative(after)))
+    assert bounds[0] - 1e-6 <= drop <= bounds[1] + 1e-6 and drop < 0.0
