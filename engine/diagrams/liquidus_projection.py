@@ -36,7 +36,7 @@ J/mol. The liquid must be a substitutional solution of the three elements.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -106,17 +106,25 @@ class PrimaryField:
 
 @dataclass(frozen=True)
 class LiquidusProjection:
-    """The liquidus projection of a ternary `system`."""
+    """The liquidus projection of a ternary `system`: `invariants` are the liquid's four-phase
+    reactions; `solid_invariants`, those of four solids where they were looked for
+    (engine/diagrams/solid_invariants.py, added by `with_solid_invariants`)."""
 
     system: object = field(repr=False)
     fields: tuple[PrimaryField, ...]
     valleys: tuple[Valley, ...]
     invariants: tuple[FourPhaseReaction, ...]
     warnings: tuple[str, ...] = ()
+    solid_invariants: tuple[FourPhaseReaction, ...] = ()
+
+    def with_solid_invariants(self, reactions) -> "LiquidusProjection":
+        """The same projection with the four-solid reactions `reactions`."""
+        return replace(self, solid_invariants=tuple(reactions))
 
     def to_json(self) -> dict:
-        """Plain JSON: the invariant reactions (kind, temperature_K, phases with compositions and
-        reaction coefficients), the valleys and the primary fields."""
+        """Plain JSON: the invariant reactions of four phases, the liquid's and the solids',
+        hottest first (kind, temperature_K, phases with compositions and reaction coefficients),
+        the valleys and the primary fields."""
         els = self.system.elements
 
         def comp(x) -> dict:
@@ -127,7 +135,8 @@ class LiquidusProjection:
             "elements": list(els),
             "invariants": [{"kind": r.kind, "temperature_K": r.temperature_K, "reaction": r.equation(),
                             "phases": [{"name": n, "mole_fraction": comp(x), "reaction_coefficient": c}
-                                       for n, x, c in r.phases]} for r in self.invariants],
+                                       for n, x, c in r.phases]}
+                           for r in sorted(self.invariants + self.solid_invariants, key=lambda r: -r.temperature_K)],
             "valleys": [{"phases": [LIQUID, *v.solids],
                          "liquid": [{"temperature_K": T, "mole_fraction": comp(x)} for T, x in v.points]}
                         for v in self.valleys],

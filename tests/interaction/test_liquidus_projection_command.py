@@ -41,3 +41,17 @@ def test_projection_json(run, ternary_file):
     assert [r["kind"] for r in js["invariants"]] == ["eutectic"]
     assert js["invariants"][0]["temperature_K"] == pytest.approx(558.39088, abs=1e-4)
     assert len(js["valleys"]) == 3
+
+
+def test_four_solid_invariants_are_listed_and_in_the_json(run, tmp_path):
+    """ideal_ternaries.FOUR_SOLIDS_FILE: its exchange reaction at 500 K (closed form there) is in
+    the listing and among the JSON's invariants with its kind and phases."""
+    path = str(it.write_four_solids_file(tmp_path))
+    code, out, err = run("diagram", path, "--ascii", "--unit", "K")
+    assert code == 0 and err == ""
+    assert "invariant reactions of four solids:" in out and "quasi-peritectoid" in out
+    assert "500.0 K  PbBi + beta -> PbSn + gamma" in out
+    code, out, err = run("diagram", path, "--json")
+    [reaction] = json.loads(out)["invariants"]
+    assert reaction["kind"] == "quasi-peritectoid" and reaction["temperature_K"] == pytest.approx(500.0, abs=1e-5)
+    assert {p["name"] for p in reaction["phases"]} == {"PbBi", "PbSn", "beta", "gamma"}

@@ -253,6 +253,35 @@ formation = { a = 0.0 }
 """
 
 
+#: The invented ideal eutectic with two compounds added, PbSn and PbBi (A0.5B0.5 and A0.5C0.5),
+#: between 400 and 540 K (the liquid is nowhere stable there). In moles of atoms the four solids
+#: PbSn, Bi, PbBi and Sn react as 2 PbBi + Sn = 2 PbSn + Bi, whose Gibbs energy of reaction is
+#: 2 (G_f(PbBi) - G_f(PbSn)) = 2 (2000 - 4 T) J (the pure elements' energies cancel): a
+#: four-solid invariant at exactly 500 K, PbBi + Sn -> PbSn + Bi on cooling (it gives off 4000 J).
+FOUR_SOLIDS_FILE = EUTECTIC_FILE.replace("temperature_range_K = [400, 1400]", "temperature_range_K = [400, 540]") + """
+[phase.PbSn]
+model = "compound"
+formula = "PbSn"
+reference = { Pb = "fcc", Sn = "bct" }
+formation = { a = -8000.0 }
+
+[phase.PbBi]
+model = "compound"
+formula = "PbBi"
+reference = { Pb = "fcc", Bi = "rhombohedral" }
+formation = { a = -6000.0, b = -4.0 }
+"""
+
+
+def write_four_solids_file(folder):
+    """FOUR_SOLIDS_FILE written as four-solids.toml into `folder`; returns its path."""
+    from pathlib import Path
+
+    path = Path(folder) / "four-solids.toml"
+    path.write_text(FOUR_SOLIDS_FILE)
+    return path
+
+
 def write_system_files(folder) -> dict[str, object]:
     """Write the two system files into `folder`: {"ideal-eutectic": path, "pb-sn-bi": path}."""
     from pathlib import Path

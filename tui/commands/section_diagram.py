@@ -195,8 +195,11 @@ def _projection(system, args: argparse.Namespace) -> int:
         raise CommandError(f"{system.name} covers only part of the triangle ({system.covered_range_text()}): its "
                            f"liquidus projection is not drawn; give --comp with --vary (an isopleth) or --temp "
                            f"(an isothermal section), which stop at the edge of that range")
+    from ladle.engine.diagrams.solid_invariants import solid_invariants
+
     try:
         projection = map_liquidus_projection(system)
+        projection = projection.with_solid_invariants(solid_invariants(system))
     except ValueError as e:
         raise CommandError(f"{system.name}: {e}") from None
     if args.json:
@@ -208,11 +211,16 @@ def _projection(system, args: argparse.Namespace) -> int:
                 lambda glyphs, width, height: projection_scene(projection, glyphs, width, height))
     lines = [f"primary fields: {'; '.join(key)}"] if key else []
     lines.append("invariant reactions (liquid composition at%):" if projection.invariants
-                 else "invariant reactions of four phases: none found")
+                 else "invariant reactions of four phases: none found" if not projection.solid_invariants
+                 else "invariant reactions with the liquid: none found")
     for k, r in enumerate(projection.invariants):
         liquid = ", ".join(f"{el} {quote.percent(v)}" for el, v in zip(system.elements, r.phases[0][1]))
         lines.append(f"  {k + 1}  {r.kind:<16} {quote.temperature(r.temperature_K, args.unit):>12}  {r.equation()}"
                      f"  (liquid {liquid})")
+    if projection.solid_invariants:
+        lines.append("invariant reactions of four solids:")
+    for r in projection.solid_invariants:
+        lines.append(f"     {r.kind:<17} {quote.temperature(r.temperature_K, args.unit):>12}  {r.equation()}")
     lines += [f"note: {w}" for w in projection.warnings]
     print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
     return 0
