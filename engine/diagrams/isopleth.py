@@ -218,6 +218,58 @@ class _Mapper:
         return found
 
 
+    def grid(self, us: np.ndarray, Ts: np.ndarray) -> tuple[list[list], list[list[tuple[str, ...]]]]:
+        """Point equilibria and phase sets of the grid's nodes (rows of temperature `Ts`,
+        columns of parameter `us`): every other row and column first (the coarse grid); a node
+        between coarse nodes is solved only where the coarse nodes around it (the two coarse
+        cells beside its coarse edge, or its coarse cell with its edges' middles) do not all hold
+        one phase set, else it takes that set; then every node whose set differs from a
+        neighbour's is solved, until none is left unsolved beside a change (a field smaller than
+        the coarse spacing between equal nodes is not seen, as one smaller than the grid's is
+        not). Each node starts from a solved node of its row (the same temperature)."""
+        rows, columns = len(Ts), len(us)
+        eqs: list[list] = [[None] * columns for _ in range(rows)]
+        keys: list[list] = [[None] * columns for _ in range(rows)]
+
+        def solve(r: int, c: int) -> None:
+            row = [(abs(c - j), j) for j in range(columns) if eqs[r][j] is not None]
+            near = eqs[r][min(row)[1]] if row else None
+            eqs[r][c] = self.eq_at(float(us[c]), float(Ts[r]), near=near)
+            keys[r][c] = phase_set(eqs[r][c])
+
+        def settle(r: int, c: int, around: list[tuple[int, int]]) -> None:
+            found = {keys[i][j] for i, j in around if 0 <= i < rows and 0 <= j < columns}
+            if len(found) == 1 and None not in found:
+                keys[r][c] = found.pop()
+            else:
+                solve(r, c)
+
+        for r in range(0, rows, 2):
+            for c in range(0, columns, 2):
+                solve(r, c)
+        for r in range(rows):
+            for c in range(columns):
+                if r % 2 == 0 and c % 2 == 1:        # the middle of a coarse row edge
+                    settle(r, c, [(r + i, c + j) for i in (-2, 0, 2) for j in (-1, 1)])
+                elif r % 2 == 1 and c % 2 == 0:      # the middle of a coarse column edge
+                    settle(r, c, [(r + i, c + j) for i in (-1, 1) for j in (-2, 0, 2)])
+        for r in range(1, rows, 2):
+            for c in range(1, columns, 2):          # the middle of a coarse cell
+                settle(r, c, [(r + i, c + j) for i in (-1, 0, 1) for j in (-1, 0, 1) if (i, j) != (0, 0)])
+        changed = True
+        while changed:
+            changed = False
+            for r in range(rows):
+                for c in range(columns):
+                    for i, j in ((r, c + 1), (r + 1, c)):
+                        if i < rows and j < columns and keys[r][c] != keys[i][j]:
+                            for a, b in ((r, c), (i, j)):
+                                if eqs[a][b] is None:
+                                    solve(a, b)
+                                    changed = True
+        return eqs, keys
+
+
 def map_isopleth(system, start, end, basis: str, element: str, temperature_range_K: tuple[float, float] | None = None,
                  columns: int = DEFAULT_COLUMNS, rows: int = DEFAULT_ROWS) -> Isopleth:
     """The isopleth of `system` from `start` to `end` (fractions of every element in `basis`,
@@ -234,13 +286,7 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
     mapper = _Mapper(system, start, end, basis)
     us = np.linspace(0.0, 1.0, columns)
     Ts = np.linspace(T_hi, T_lo, rows)
-    eqs = []
-    for T in Ts:
-        row = [mapper.eq_at(float(us[0]), float(T))]
-        for u in us[1:]:
-            row.append(mapper.eq_at(float(u), float(T), near=row[-1]))
-        eqs.append(row)
-    keys = [[phase_set(eq) for eq in row] for row in eqs]
+    eqs, keys = mapper.grid(us, Ts)
 
     # edge points: per grid edge, the changes found on it
     edges: dict[tuple, list] = {}
@@ -248,9 +294,11 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
         for c in range(columns):
             here = (float(us[c]), float(Ts[r]))
             if c + 1 < columns:
-                edges[("h", r, c)] = mapper.changes(here, (float(us[c + 1]), float(Ts[r])), eqs[r][c], eqs[r][c + 1])
+                edges[("h", r, c)] = [] if keys[r][c] == keys[r][c + 1] else \
+                    mapper.changes(here, (float(us[c + 1]), float(Ts[r])), eqs[r][c], eqs[r][c + 1])
             if r + 1 < rows:
-                edges[("v", r, c)] = mapper.changes(here, (float(us[c]), float(Ts[r + 1])), eqs[r][c], eqs[r + 1][c])
+                edges[("v", r, c)] = [] if keys[r][c] == keys[r + 1][c] else \
+                    mapper.changes(here, (float(us[c]), float(Ts[r + 1])), eqs[r][c], eqs[r + 1][c])
 
     lines = _lines(edges, rows, columns)
     fields = _fields(keys, us, Ts)
