@@ -96,10 +96,53 @@ class _Phase:
         return [g[mask[g]] for g in self.model.groups]
 
 
-def _prepare(models: dict[str, object], active: np.ndarray) -> list[_Phase]:
-    """The phases that can exist with the present elements `active`, with their sample clouds
-    (the model's own, or the minimiser's over the free site fractions where an element is absent)."""
-    out = []
+@dataclass
+class _Prepared:
+    """The phases' clouds at one temperature and set of present elements, stacked for the linear
+    program (`owner`: each sample's phase, `start`: each phase's first sample), and the basis of
+    the last answer (a start for the next nearby composition)."""
+
+    models: tuple
+    phases: list[_Phase]
+    XT: np.ndarray
+    G: np.ndarray
+    owner: np.ndarray
+    start: np.ndarray
+    last_basis: np.ndarray | None = None
+
+
+_PREPARED: OrderedDict[tuple, _Prepared] = OrderedDict()
+_PREPARED_LOCK = threading.Lock()
+
+
+@dataclass(frozen=True)
+class _Shape:
+    """What the clouds of some phases are at any temperature, for one set of present elements:
+    per phase (name, free site fractions, sample site fractions Y, mole fractions X of the present
+    elements, atoms per formula unit), the stacked X (N, k) of the linear program, and each
+    sample's phase and each phase's first sample. `anchors` holds the objects whose ids make the
+    cache's key, so that they stay unique while the entry lives."""
+
+    anchors: tuple
+    parts: tuple[tuple[str, np.ndarray, np.ndarray, np.ndarray, np.ndarray], ...]
+    XT: np.ndarray
+    owner: np.ndarray
+    start: np.ndarray
+
+
+def _stacked(X: list[np.ndarray]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(XT, owner, start): the clouds' mole fractions side by side (N, k), the phase of each
+    sample and the index of each phase's first sample."""
+    XT = np.ascontiguousarray(np.vstack(X).T)
+    owner = np.repeat(np.arange(len(X)), [len(x) for x in X])
+    return XT, owner, np.cumsum([0] + [len(x) for x in X])
+
+
+def _shape_of(models: dict[str, object], active: np.ndarray, anchors: tuple) -> _Shape:
+    """The temperature-independent part of the clouds of `models` for the present elements
+    `active`: the model's own samples, or the minimiser's over the free site fractions where an
+    element is absent; phases that cannot exist without the absent elements are left out."""
+    parts = []
     inactive = ~active
     for name, m in models.items():
         E = np.asarray(m.element_matrix)
@@ -113,33 +156,67 @@ def _prepare(models: dict[str, object], active: np.ndarray) -> list[_Phase]:
                 atoms = n.sum(-1)
                 keep = atoms > 1e-12
                 Y, n, atoms = Y[keep], n[keep], atoms[keep]
-                X, G = n / atoms[:, None], m.gibbs(Y) / atoms
+                X = (n / atoms[:, None])[:, active]
         else:
-            Y, X, G = m.samples()
+            Y, X, _G = m.samples()
+            atoms = None
+        parts.append((name, np.flatnonzero(ok_var), Y, X, atoms))
+    return _Shape(anchors, tuple(parts), *_stacked([part[3] for part in parts]))
+
+
+_SHAPES: OrderedDict[tuple, _Shape] = OrderedDict()
+
+
+def _remembered(cache: OrderedDict, key: tuple, build, size: int = 8):
+    """cache[key], built by build() where missing; the cache keeps the `size` latest entries.
+    Entries are built outside the lock (threads may build one twice; either is kept)."""
+    with _PREPARED_LOCK:
+        found = cache.get(key)
+        if found is not None:
+            cache.move_to_end(key)
+            return found
+    found = build()
+    with _PREPARED_LOCK:
+        cache[key] = found
+        if len(cache) > size:
+            cache.popitem(last=False)
+    return found
+
+
+def _shape(models: dict[str, object], active: np.ndarray) -> _Shape:
+    """`_shape_of`, remembered for the last few (phases, present elements). A model at another
+    temperature of the same phase shares its element matrix, groups and sample site fractions
+    (the engine's models do); models that do not get a shape of their own."""
+    anchors = tuple((m.element_matrix, m.groups, m.samples()[0] if active.all() else None) for m in models.values())
+    key = (tuple(models), tuple(id(a) for anchor in anchors for a in anchor), active.tobytes())
+    return _remembered(_SHAPES, key, lambda: _shape_of(models, active, anchors))
+
+
+def _prepare(models: dict[str, object], active: np.ndarray) -> _Prepared:
+    """The phases that can exist with the present elements `active`, with their clouds' G at the
+    models' temperature (J per mole of atoms), stacked for the linear program. Samples where a
+    phase's G is not finite are left out."""
+    shape = _shape(models, active)
+    phases = []
+    finite = True
+    for name, free, Y, X, atoms in shape.parts:
+        m = models[name]
+        if active.all():
+            G = m.samples()[2]
+        else:
+            with np.errstate(all="ignore"):
+                G = m.gibbs(Y) / atoms
         keep = np.isfinite(G)
         if not keep.all():
+            finite = False
             Y, X, G = Y[keep], X[keep], G[keep]
-        if len(G) == 0:
-            continue
-        out.append(_Phase(name, m, np.flatnonzero(ok_var), Y, X if not inactive.any() else X[:, active], G))
-    return out
-
-
-@dataclass
-class _Prepared:
-    """The phases' clouds at one temperature and set of present elements, stacked for the linear
-    program, and the basis of the last answer (a start for the next nearby composition)."""
-
-    models: tuple
-    phases: list[_Phase]
-    XT: np.ndarray
-    G: np.ndarray
-    last_basis: np.ndarray | None = None
-
-
-_PREPARED: OrderedDict[tuple, _Prepared] = OrderedDict()
-_PREPARED_SIZE = 8
-_PREPARED_LOCK = threading.Lock()
+            if len(G) == 0:
+                continue
+        phases.append(_Phase(name, m, free, Y, X, G))
+    if not phases:
+        raise ValueError("no phase can hold this composition")
+    XT, owner, start = (shape.XT, shape.owner, shape.start) if finite else _stacked([p.X for p in phases])
+    return _Prepared(tuple(models.values()), phases, XT, np.concatenate([p.G for p in phases]), owner, start)
 
 
 def _prepared(models: dict[str, object], active: np.ndarray) -> _Prepared:
@@ -147,30 +224,16 @@ def _prepared(models: dict[str, object], active: np.ndarray) -> _Prepared:
     few (models, elements) pairs: points of one section or one path at one temperature share
     them. The entry holds the models, so their ids in the key stay unique while it lives."""
     key = (tuple((name, id(m)) for name, m in models.items()), active.tobytes())
-    with _PREPARED_LOCK:
-        found = _PREPARED.get(key)
-        if found is not None:
-            _PREPARED.move_to_end(key)
-            return found
-    phases = _prepare(models, active)
-    if not phases:
-        raise ValueError("no phase can hold this composition")
-    found = _Prepared(tuple(models.values()), phases, np.ascontiguousarray(np.vstack([p.X for p in phases]).T),
-                      np.concatenate([p.G for p in phases]))
-    with _PREPARED_LOCK:
-        _PREPARED[key] = found
-        if len(_PREPARED) > _PREPARED_SIZE:
-            _PREPARED.popitem(last=False)
-    return found
+    return _remembered(_PREPARED, key, lambda: _prepare(models, active))
 
 
 class _Cloud:
     """Every sample and refined point given to the linear program, with its phase and site fractions."""
 
-    def __init__(self, phases: list[_Phase]) -> None:
-        self.owner = np.concatenate([np.full(len(p.G), k) for k, p in enumerate(phases)])
-        self.start = np.cumsum([0] + [len(p.G) for p in phases])
-        self.phases = phases
+    def __init__(self, prepared: _Prepared) -> None:
+        self.owner = prepared.owner
+        self.start = prepared.start
+        self.phases = prepared.phases
         self.extra_y: list[np.ndarray] = []
         self.extra_owner: list[int] = []
 
@@ -313,7 +376,7 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
     za = z[active] / z[active].sum()
     prepared = _prepared(models, active)
     phases = prepared.phases
-    cloud = _Cloud(phases)
+    cloud = _Cloud(prepared)
     if near is not None:
         warm = _from_nearby(near, phases, cloud, z, active, elements)
         if warm is not None:

@@ -414,8 +414,10 @@ class SublatticePhase:
         return found
 
     @cached_property
-    def _sample_sites(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-        """(Y, X, atoms): the sample site fractions, their mole fractions and atoms per formula unit."""
+    def sample_sites(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """(Y, X, atoms): the sample site fractions (k, n_vars), their mole fractions (k,
+        n_elements) and atoms per formula unit (k,); the same at every temperature (see
+        `SublatticeAtT.samples`)."""
         dims = [len(held) - 1 for held in self.constituents]
         total = sum(dims)
         per_lattice = [_simplex_points(len(held), SAMPLE_BUDGET ** (d / total) if total else 1)
@@ -438,7 +440,7 @@ class SublatticePhase:
         R T S, B[k, (t, j)] = monomial_t(y_k) s_t(y_k)^j, S the entropy sum, and the same bases of
         Tc and beta where the phase is magnetic; None where a basis would be large (then G is
         evaluated afresh)."""
-        Y = self._sample_sites[0]
+        Y = self.sample_sites[0]
         expansions = [self._energy] + ([self._curie, self._moment] if self.magnetic is not None else [])
         if any(len(Y) * e.n_terms * e.order > 4_000_000 for e in expansions):
             return None
@@ -659,7 +661,7 @@ class SublatticeAtT:
 
     @cached_property
     def _samples(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-        Y, X, atoms = self.phase._sample_sites
+        Y, X, atoms = self.phase.sample_sites
         basis = self.phase._sample_basis
         if basis is None:
             return Y, X, self.gibbs(Y) / atoms
