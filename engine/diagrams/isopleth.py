@@ -143,12 +143,16 @@ def _changed(a: tuple[str, ...], b: tuple[str, ...]) -> set[str]:
 class _Mapper:
     """Point equilibria of one section."""
 
-    def __init__(self, system, start, end, basis: str) -> None:
+    def __init__(self, system, start, end, basis: str, span_K: float = 1.0) -> None:
         self.system, self.start, self.end, self.basis = system, start, end, basis
+        self.span_K = span_K                   # the temperature range mapped (K)
         self.n = len(system.elements)
         self.calls = 0
         self.warnings: list[str] = []
         self.invariant_K: list[float] = []    # temperatures (K) of invariant reactions found so far
+        # changes found so far, per (edge direction, set on one side, set on the other):
+        # [(the edge's fixed coordinate, where along it the change lies)], u or T (K)
+        self.crossings: dict[tuple, list[tuple[float, float]]] = defaultdict(list)
 
     def eq_at(self, u: float, T: float, near=None):
         """The point equilibrium at u and T (K); `near`, one at the same T and a nearby u, starts
@@ -203,10 +207,13 @@ class _Mapper:
             if km not in (ka, kb) and depth < _MAX_SPLITS:
                 return self.changes(a, at(0.5), ea, mid, depth + 1) + self.changes(at(0.5), b, mid, eb, depth + 1)
             lo, hi, lo_eq, hi_eq = (0.0, 0.5, ea, mid) if km != ka else (0.5, 1.0, mid, eb)
+        column = a[0] == b[0]
+        predicted = self._predicted(column, a, b, phase_set(lo_eq), phase_set(hi_eq)) if (lo, hi) == (0.0, 1.0) else None
         near, far, near_eq, far_eq = narrow_change(probe, lo, hi, phase_set(lo_eq), lo_eq,
-                                                   hi_eq, EDGE_TOLERANCE, self.system)
+                                                   hi_eq, EDGE_TOLERANCE, self.system, predicted)
         point = at(0.5 * (near + far))
         k_near, k_far = phase_set(near_eq), phase_set(far_eq)
+        self.crossings[(column, k_near, k_far)].append((point[0], point[1]) if column else (point[1], point[0]))
         if invariant and k_near == ka and k_far == kb:
             self.invariant_K.append(point[1])
         found = [(point, k_near, k_far)]
@@ -217,6 +224,23 @@ class _Mapper:
                 found += self.changes(at(far), at(hi), far_eq, hi_eq, depth + 1)
         return found
 
+
+    def _predicted(self, column: bool, a: tuple[float, float], b: tuple[float, float], ka, kb) -> float | None:
+        """Where along the edge from a to b ((u, T) each, 0 at a, 1 at b) the change from ka to
+        kb is expected: the same change on the two nearest parallel edges within a fifth of the
+        section (continuation: extrapolated along the line they make, or the nearest's place
+        where only one is known); None where none is known."""
+        fixed, start, length = (a[0], a[1], b[1] - a[1]) if column else (a[1], a[0], b[0] - a[0])
+        reach = 0.2 if column else 0.2 * self.span_K
+        known = sorted((abs(f - fixed), f, v) for f, v in self.crossings.get((column, ka, kb), ()) if 0 < abs(f - fixed) <= reach)
+        if not known:
+            return None
+        if len(known) == 1 or known[0][1] == known[1][1]:
+            value = known[0][2]
+        else:
+            (_, f1, v1), (_, f2, v2) = known[:2]
+            value = v1 + (fixed - f1) * (v2 - v1) / (f2 - f1)
+        return (value - start) / length
 
     def grid(self, us: np.ndarray, Ts: np.ndarray) -> tuple[list[list], list[list[tuple[str, ...]]]]:
         """Point equilibria and phase sets of the grid's nodes (rows of temperature `Ts`,
@@ -283,7 +307,7 @@ def map_isopleth(system, start, end, basis: str, element: str, temperature_range
         raise ValueError("a section's ends must hold non-negative fractions summing to 1")
     T_lo, T_hi = temperature_range_K or system.temperature_range_K
     start, end, clipped = covered_part(system, start, end, basis)
-    mapper = _Mapper(system, start, end, basis)
+    mapper = _Mapper(system, start, end, basis, float(T_hi - T_lo))
     us = np.linspace(0.0, 1.0, columns)
     Ts = np.linspace(T_hi, T_lo, rows)
     eqs, keys = mapper.grid(us, Ts)

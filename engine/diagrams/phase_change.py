@@ -16,7 +16,7 @@ def phase_set(eq) -> tuple[str, ...]:
 
 
 def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], near_eq, far_eq, tolerance: float,
-                  system=None):
+                  system=None, first: float | None = None):
     """Narrow a change of the stable phases between parameters `near` (phase set `near_key`,
     point equilibrium `near_eq` or None) and `far` (point equilibrium `far_eq`, another set) to
     `tolerance`; `probe(t)` gives the point equilibrium at parameter t. Returns
@@ -30,23 +30,24 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
     uncertainty (the two estimates' difference, at least 0.4 `tolerance`; ten times more after
     each try that fell short), and then just before it, so that both sides close in on the
     change together. The bracket is bisected where no estimate lies inside it and after two
-    tries in a row that did not halve it. A change with several phase sets inside the bracket
-    is narrowed to one of them.
+    tries in a row that neither halved it nor halved the amount on the far side. A change with
+    several phase sets inside the bracket is narrowed to one of them.
 
     Where the amount gives no estimate (a jump: at an invariant reaction a phase appears with a
     finite amount) and `system` is given, the driving force of the phases that appear is taken
     on the near side instead (`driving_force`: it falls to zero at the change) and its zero
-    estimated the same way."""
+    estimated the same way. `first`, where given and inside the bracket, is tried first (a
+    prediction, such as where a neighbouring edge's change lies)."""
     far_key = phase_set(far_eq)
     if near_eq is not None and not any(far_key.count(n) > near_key.count(n) for n in set(far_key)):
-        near, far, near_eq, far_eq = narrow_change(probe, far, near, far_key, far_eq, near_eq, tolerance, system)
+        near, far, near_eq, far_eq = narrow_change(probe, far, near, far_key, far_eq, near_eq, tolerance, system, first)
         return far, near, far_eq, near_eq                 # the phase that goes to zero is on the near side
     far_points: list[tuple[float, float, tuple[str, ...]]] = []
     near_points: list[tuple[float, float]] = []      # (parameter, driving force) on the near side
     direction = 1.0 if far > near else -1.0
     beyond = True            # the next estimated try goes just beyond the zero (on the far side)
     short = 0                # tries beyond the estimate in a row that still fell on the near side
-    slow = 0                 # tries in a row that did not halve the bracket
+    slow = 0                 # tries in a row that halved neither the bracket nor the far side's amount
     while abs(far - near) > tolerance:
         far_key = phase_set(far_eq)
         gained = sorted(n for n in set(far_key) if far_key.count(n) > near_key.count(n))
@@ -64,21 +65,27 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
                 force = driving_force(system, near_eq, gained)
                 near_points.append((near, force if force is not None else np.nan))
             estimate = _zero_estimate([(t, f) for t, f in near_points if np.isfinite(f) and f >= 0.0], far)
-        if inside(estimate):
+        if first is not None and min(near, far) < first < max(near, far):
+            trial, first = first, None
+        elif inside(estimate):
             zero, spread = estimate
             margin = max(0.4 * tolerance, spread) * 10.0 ** short if beyond else 0.4 * tolerance
             guess = zero + (margin if beyond else -margin) * direction
             if min(near, far) < guess < max(near, far):
                 trial, guessed = guess, True
         eq = probe(trial)
+        closer = False           # a try on the far side where the amount fell to less than half
         if phase_set(eq) == near_key:
             near, near_eq = trial, eq
             short = short + 1 if guessed and beyond else 0
             beyond = True
         else:
+            if gained and far_points and phase_set(eq) == far_points[-1][2]:
+                amount = sum(p.amount_mol for p in eq.phases if p.name == gained[0])
+                closer = amount < 0.5 * far_points[-1][1]
             far, far_eq = trial, eq
             short, beyond = 0, False
-        slow = slow + 1 if abs(far - near) > 0.5 * width else 0
+        slow = slow + 1 if abs(far - near) > 0.5 * width and not closer else 0
     return near, far, near_eq, far_eq
 
 
