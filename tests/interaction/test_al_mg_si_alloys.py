@@ -11,7 +11,7 @@ Reference values:
   (J.L. Murray and A.J. McAlister, Bull. Alloy Phase Diagrams 5 (1984) 74);
 - at room temperature all of an A356.0's magnesium is tied up in Mg2Si: by mass balance (a closed
   form) 0.35 wt% Mg makes 0.35 x M(Mg2Si) / (2 M(Mg)) = 0.552 wt% Mg2Si (IUPAC 2013 atomic weights);
-- the (Al) of the model dissolves 1.70 wt% Mg2Si at 583.5 C; J. Zhang et al., Mater. Sci. Technol.
+- the (Al) of the model dissolves 1.89 wt% Mg2Si at 583.5 C; J. Zhang et al., Mater. Sci. Technol.
   17 (2001) 494 give 1.91 wt%. The (Al) ternary term of the file was set with that value in view, so
   this is a fit target guarded (within a factor of 1.5, a dilute solubility), not a validation.
 """
