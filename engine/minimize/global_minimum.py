@@ -29,7 +29,7 @@ from functools import cached_property
 import numpy as np
 
 from .lowest_combination import LowestCombination
-from .multiphase_newton import PhaseState, lowest_driving_force, solve
+from .multiphase_newton import PhaseState, free_groups, lowest_driving_force, solve
 from .site_sampling import site_fraction_cloud
 
 #: A phase lying more than this below the equilibrium's tangent plane is missing from the answer
@@ -91,9 +91,7 @@ class _Phase:
     @cached_property
     def free_groups(self) -> list[np.ndarray]:
         """Per sublattice, the indices of its free site fractions."""
-        mask = np.zeros(self.model.n_vars, dtype=bool)
-        mask[self.free] = True
-        return [g[mask[g]] for g in self.model.groups]
+        return free_groups(self.model, self.free)
 
 
 @dataclass

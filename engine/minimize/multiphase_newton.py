@@ -74,18 +74,26 @@ def positive_step(y: np.ndarray, dy: np.ndarray) -> np.ndarray:
     decreasing fractions and for dilute ones (below DILUTE, up to GROWTH_CAP or y + dy), y + dy
     for the others."""
     with np.errstate(over="ignore", under="ignore", invalid="ignore"):
-        log_step = y * np.exp(np.clip(dy / y, -700.0, 50.0))
+        log_step = y * np.exp((dy / y).clip(-700.0, 50.0))
     plain = y + dy
     up = np.where(y < DILUTE, np.minimum(log_step, np.maximum(plain, GROWTH_CAP)), plain)
     return np.where(dy >= 0.0, up, log_step)
 
 
-def _normalise(y: np.ndarray, model, free: np.ndarray) -> np.ndarray:
-    out = np.zeros_like(y)
-    mask = np.zeros(len(y), dtype=bool)
+def free_groups(model, free: np.ndarray) -> list[np.ndarray]:
+    """Per sublattice, the indices of its free site fractions (`free`)."""
+    mask = np.zeros(model.n_vars, dtype=bool)
     mask[free] = True
-    for g in model.groups:
-        gi = g[mask[g]]
+    return [g[mask[g]] for g in model.groups]
+
+
+def _normalise(y: np.ndarray, groups: list[np.ndarray]) -> np.ndarray:
+    """y with each sublattice's free fractions (`groups`, see `free_groups`) scaled to sum to 1
+    and the others 0."""
+    if len(groups) == 1 and len(groups[0]) == len(y):
+        return y / y.sum()
+    out = np.zeros_like(y)
+    for gi in groups:
         out[gi] = y[gi] / y[gi].sum()
     return out
 
@@ -110,13 +118,15 @@ class _Layout:
         for st in states:
             S = sublattice_rows(st.model, st.free)
             A = st.model.element_matrix[np.ix_(st.free, elements)]
-            self.blocks.append((S, A, size, len(st.free), S.shape[0], st.free[:, None], st.free[None, :]))
+            whole = len(st.free) == st.model.n_vars          # every site fraction free: no indexing
+            self.blocks.append((S, A, size, len(st.free), S.shape[0], st.free[:, None], st.free[None, :], whole,
+                                free_groups(st.model, st.free)))
             size += len(st.free) + S.shape[0] + 1
         self.m0 = size
         self.size = size + ne
         J0 = np.zeros((self.size, self.size))
         energy, balance, ys = [], [np.arange(size, size + ne)], []
-        for S, A, o, nf, ns, _r, _c in self.blocks:
+        for S, A, o, nf, ns, *_rest in self.blocks:
             J0[o:o + nf, o + nf:o + nf + ns] = -S.T
             J0[o:o + nf, size:] = -A
             J0[o + nf:o + nf + ns, o:o + nf] = S
@@ -146,19 +156,22 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
             r = np.empty(lay.size)
             scale = 1.0
             balance = -np.asarray(z, dtype=float)
-            for st, (S, A, o, nf, ns, fr, fc) in zip(states, lay.blocks):
+            for st, (S, A, o, nf, ns, fr, fc, whole, _groups) in zip(states, lay.blocks):
                 y = st.y
                 G, g, H = _derivatives(st.model, y)
-                G, g, H = float(G), g[st.free], H[fr, fc]
-                yf = y[st.free]
-                Amu = A @ mu
-                lam = S @ (yf * (g - Amu)) / (S @ yf)
+                G = float(G)
+                if whole:
+                    yf = y
+                else:
+                    g, H, yf = g[st.free], H[fr, fc], y[st.free]
+                gA = g - A @ mu
+                lam = S @ (yf * gA) / (S @ yf)
                 n_el = yf @ A
-                r[o:o + nf] = g - Amu - lam @ S
+                r[o:o + nf] = gA - lam @ S
                 r[o + nf:o + nf + ns] = S @ yf - 1.0
                 r[o + nf + ns] = G - n_el @ mu
                 J[o:o + nf, o:o + nf] = H
-                J[o + nf + ns, o:o + nf] = g - Amu
+                J[o + nf + ns, o:o + nf] = gA
                 J[o + nf + ns, m0:] = -n_el
                 J[m0:, o:o + nf] = st.amount * A.T
                 J[m0:, o + nf + ns] = n_el
@@ -179,10 +192,13 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
                 d *= MAX_STEP / big
             mu = mu + d[m0:]
             gone = []
-            for k, (st, (_S, _A, o, nf, ns, _r, _c)) in enumerate(zip(states, lay.blocks)):
-                y = st.y.copy()
-                y[st.free] = positive_step(st.y[st.free], d[o:o + nf])
-                st.y = _normalise(y, st.model, st.free)
+            for k, (st, (_S, _A, o, nf, ns, _r, _c, whole, groups)) in enumerate(zip(states, lay.blocks)):
+                if whole:
+                    y = positive_step(st.y, d[o:o + nf])
+                else:
+                    y = st.y.copy()
+                    y[st.free] = positive_step(st.y[st.free], d[o:o + nf])
+                st.y = _normalise(y, groups)
                 st.amount = st.amount + float(d[o + nf + ns])
                 if st.amount < 0.0:
                     gone.append(k)
@@ -204,6 +220,7 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
     Negative means the phase lies below the tangent plane mu. The steps stop early where the
     local quadratic model puts the minimum above `margin` (J/mol) with room to spare."""
     S = sublattice_rows(model, free)
+    groups = free_groups(model, free)
     A = model.element_matrix[np.ix_(free, elements)]
     E = model.element_matrix[:, elements]
     y = np.array(y0, dtype=float)
@@ -238,7 +255,7 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
                 dy = dy * (0.2 / big)
             y_new = y.copy()
             y_new[free] = positive_step(yf, dy)
-            y = _normalise(y_new, model, free)
+            y = _normalise(y_new, groups)
             if big < 1e-10:
                 break
         n = y @ model.element_matrix
