@@ -402,13 +402,23 @@ def _four_phase(system, solids: tuple[str, ...], T: float, x_liquid: np.ndarray,
         return None             # two members converged to one phase
     if not _stable(system, T, mu, {LIQUID, *solids}):
         return None
-    H = []
-    for m in members:
-        model = m.phase.at(T)
-        atoms = float((m.y @ np.asarray(model.element_matrix)).sum())
-        H.append((float(model.gibbs(m.y)) - T * float(model.gibbs_dT(m.y))) / atoms)
+    return four_phase_reaction(T, [(m.name, m.phase, m.y) for m in members])
+
+
+def four_phase_reaction(T: float, members) -> FourPhaseReaction:
+    """The invariant reaction at T (K) among four phases given as (name, the phase's
+    temperature-independent model, site fractions): their compositions, the reaction on cooling
+    (`reaction_coefficients`, with H = G - T dG/dT per mole of atoms from each model) and its
+    kind (`classify`)."""
+    xs, H = [], []
+    for _name, phase, y in members:
+        model = phase.at(T)
+        n = y @ np.asarray(model.element_matrix, dtype=float)
+        atoms = float(n.sum())
+        xs.append(n / atoms)
+        H.append((float(model.gibbs(y)) - T * float(model.gibbs_dT(y))) / atoms)
     c = reaction_coefficients(np.array(xs), np.array(H))
-    phases = tuple((m.name, tuple(float(v) for v in x), float(k)) for m, x, k in zip(members, xs, c))
+    phases = tuple((name, tuple(float(v) for v in x), float(k)) for (name, _p, _y), x, k in zip(members, xs, c))
     return FourPhaseReaction(classify(phases), float(T), phases)
 
 

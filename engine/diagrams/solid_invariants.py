@@ -12,7 +12,7 @@ stable phases is narrowed in temperature by point equilibria (`phase_change.narr
 is an invariant where the phases on the two sides make four solids together. Their compositions
 are the point equilibria's on either side; the reaction's coefficients and its direction on
 cooling (giving off heat) follow as for the liquid's invariants
-(`liquidus_projection.reaction_coefficients`, H = G - T dG/dT of each phase from its model).
+(`liquidus_projection.four_phase_reaction`).
 
 A plane whose triangles hold no node of the coarse grid, or that lies between two rungs together
 with another change of the same triangles, can be missed: the scan sees what the grid resolves.
@@ -26,7 +26,7 @@ import numpy as np
 
 from ..minimize.equilibrium import equilibrate
 from .isothermal import map_isothermal
-from .liquidus_projection import LIQUID, FourPhaseReaction, classify, reaction_coefficients
+from .liquidus_projection import LIQUID, FourPhaseReaction, four_phase_reaction
 from .phase_change import narrow_change, phase_set
 
 #: Rungs of the temperature ladder and steps per side of the sections' grid.
@@ -93,15 +93,5 @@ def _reaction(system, T: float, hot, cold) -> FourPhaseReaction:
     """The reaction at T (K) among the phases of the equilibria just above (`hot`) and below."""
     shares = {p.name: p for p in cold.phases}
     shares.update({p.name: p for p in hot.phases})
-    names = sorted(shares)
-    xs, H = [], []
-    for name in names:
-        share = shares[name]
-        model = system.models[name].at(T)
-        y = np.concatenate(share.site_fractions)
-        atoms = float((y @ model.element_matrix).sum())
-        xs.append(np.asarray(share.x, dtype=float))
-        H.append((float(model.gibbs(y)) - T * float(model.gibbs_dT(y))) / atoms)
-    c = reaction_coefficients(np.array(xs), np.array(H))
-    members = tuple((n, tuple(float(v) for v in x), float(k)) for n, x, k in zip(names, xs, c))
-    return FourPhaseReaction(classify(members), float(T), members)
+    return four_phase_reaction(T, [(name, system.models[name], np.concatenate(shares[name].site_fractions))
+                                   for name in sorted(shares)])
