@@ -178,7 +178,8 @@ class _Mapper:
         further phase set lies between, such as a thin three-phase field above an invariant),
         the rest of the edge on either side of it is searched the same way. A change on a
         column where N + 1 phases meet (an invariant reaction, flat in temperature) is first
-        tried at the temperatures of invariants found on other columns (two point equilibria)."""
+        tried at the temperatures of invariants found on other columns (two point equilibria),
+        and the rest of the edge searched on either side where one is found there."""
         ka, kb = phase_set(ea), phase_set(eb)
         if ka == kb:
             return []
@@ -197,9 +198,16 @@ class _Mapper:
             for T in self.invariant_K:
                 t = (T - a[1]) / (b[1] - a[1])
                 if EDGE_TOLERANCE < t < 1.0 - EDGE_TOLERANCE:
-                    above, below = self.eq_at(*at(t - 0.4 * EDGE_TOLERANCE)), self.eq_at(*at(t + 0.4 * EDGE_TOLERANCE))
-                    if phase_set(above) == ka and phase_set(below) == kb:
-                        return [(at(t), ka, kb)]
+                    t_above, t_below = t - 0.4 * EDGE_TOLERANCE, t + 0.4 * EDGE_TOLERANCE
+                    above, below = self.eq_at(*at(t_above)), self.eq_at(*at(t_below))
+                    k_above, k_below = phase_set(above), phase_set(below)
+                    if k_above != k_below and len(set(k_above) | set(k_below)) > self.n:
+                        found = [(at(t), k_above, k_below)]      # and the rest of the edge on either side
+                        if k_above != ka and depth < _MAX_SPLITS:
+                            found = self.changes(a, at(t_above), ea, above, depth + 1) + found
+                        if k_below != kb and depth < _MAX_SPLITS:
+                            found += self.changes(at(t_below), b, below, eb, depth + 1)
+                        return found
         lo, hi, lo_eq, hi_eq = 0.0, 1.0, ea, eb
         if len(_changed(ka, kb)) > 1:              # (one phase appears: one zero-phase-fraction line, as a rule)
             mid = probe(0.5)
