@@ -296,6 +296,31 @@ def _start_fractions(ph: _Phase, y: np.ndarray) -> np.ndarray:
     return y0
 
 
+def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray) -> list[PhaseState] | None:
+    """The state with its largest composition set of phase `ph` split in two: one at the site
+    fractions `y` (a point below the plane), the other at the set's mirror image beyond it,
+    y_s + t (y_s - y), t as large as 1 while every free fraction stays positive; the amounts
+    (t/(1+t) and 1/(1+t) of the set's) keep the mass balance. A start for Newton where a set
+    lies inside a miscibility gap's spinodal, from which a zero-amount second set is dropped
+    again. None where the phase has no set."""
+    mine = [k for k, st in enumerate(states) if st.name == ph.name]
+    if not mine:
+        return None
+    k = max(mine, key=lambda i: states[i].amount)
+    st = states[k]
+    step = st.y - y
+    t = 1.0
+    falling = step[ph.free] < 0.0
+    if falling.any():
+        t = min(1.0, 0.9 * float(np.min(st.y[ph.free][falling] / -step[ph.free][falling])))
+    if t <= 1e-9:
+        return None
+    mirror = _start_fractions(ph, st.y + t * step)
+    one = PhaseState(st.name, st.model, _start_fractions(ph, y), st.amount * t / (1.0 + t), st.free)
+    two = PhaseState(st.name, st.model, mirror, st.amount / (1.0 + t), st.free)
+    return states[:k] + [one, two] + states[k + 1:]
+
+
 def _merge_duplicates(states: list[PhaseState]) -> list[PhaseState]:
     """Composition sets of one phase that Newton brought to the same site fractions, merged."""
     out: list[PhaseState] = []
@@ -389,6 +414,7 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
     converged = False
     scale = abs(lp.gibbs) + 1.0
     tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * scale)
+    added_to = None                         # the number of phases a zero-amount phase was added to
     for _ in range(_ROUNDS):
         refined, mu_new, ok = solve(states, za, mu, elements)
         if ok:
@@ -399,10 +425,24 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
         converged = ok and not found
         if not found:
             break
-        if ok and len(states) < n_active:   # room for one more phase: add the lowest, amount 0
+        # room for one more phase: add the lowest at amount 0, unless Newton just dropped such a
+        # phase again (a start inside a miscibility gap's spinodal, say): then the linear program
+        # decides below, with the phase's point among its columns
+        if ok and len(states) < n_active and added_to != len(states):
             p, y, _df = min(found, key=lambda c: c[2])
+            added_to = len(states)
             states = states + [PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free)]
             continue
+        if ok and len(states) < n_active:   # dropped again: split a set of that phase about its point
+            p, y, _df = min(found, key=lambda c: c[2])
+            split = _split_about(states, phases[p], y)
+            if split is not None:
+                refined, mu_split, ok_split = solve(split, za, mu, elements)
+                refined = _merge_duplicates(refined) if ok_split else []
+                if len(refined) > len(states):
+                    states, mu, added_to = refined, mu_split, None
+                    continue
+        added_to = None
         # no room (or no converged state): the linear program decides, from the refined plane
         add_X, add_G = [], []
         first = len(lp.G)

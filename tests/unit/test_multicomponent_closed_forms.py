@@ -102,3 +102,41 @@ def test_symmetric_regular_ternary_gap_along_the_symmetry_line():
     a_c = 1.0 - 2.0 * R * T / L
     assert len(general_equilibrium(system, T, [a_c - 0.01, (1 - a_c + 0.01) / 2, (1 - a_c + 0.01) / 2]).phases) == 2
     assert len(general_equilibrium(system, T, [a_c + 0.01, (1 - a_c - 0.01) / 2, (1 - a_c - 0.01) / 2]).phases) == 1
+
+
+def test_alloys_near_the_top_of_an_asymmetric_gap_split():
+    """A regular ternary whose gap comes from the B-C pair alone (L_BC = 2.5 RT, L_AB = L_AC =
+    0.5 RT): alloys just inside the gap's top lie inside its spinodal, where the homogeneous
+    solution is a stationary point of G and a second composition set started at zero amount is
+    dropped again by Newton. The answer must still be the split (the global minimum), converged,
+    with G below the homogeneous solution's; the reference for "inside the gap" is scipy's
+    minimize of the two-set G at the alloy's composition (Nelder-Mead from a spread start)."""
+    from scipy.optimize import minimize
+
+    T = 800.0
+    els = ELEMENTS[:3]
+    ends = {(el,): TemperatureFunction.constant_terms({"a": 0.0}) for el in els}
+    terms = tuple(Interaction(((a, b),), (TemperatureFunction.constant_terms({"a": L * R * T}),))
+                  for (a, b), L in ((("A", "B"), 0.5), (("A", "C"), 0.5), (("B", "C"), 2.5)))
+    phase = SublatticePhase(name="fcc", elements=els, site_ratios=(1.0,), constituents=(els,),
+                            end_members=ends, interactions=terms)
+    system = system_of(els, [phase])
+    at = phase.at(T)
+
+    def g(x):
+        return float(at.gibbs(np.asarray(x, dtype=float)[None, :])[0])
+
+    for z in ([0.1974, 0.4018, 0.4008], [0.1929, 0.4102, 0.3969]):     # where the split was missed
+        z = np.array(z) / sum(z)
+
+        def split(v):           # v = (x_B, x_C of set 1, x_B, x_C of set 2, share of set 1)
+            x1 = np.array([1 - v[0] - v[1], v[0], v[1]])
+            f = v[4]
+            x2 = (z - f * x1) / (1 - f)
+            return f * g(x1) + (1 - f) * g(x2) if min(x1.min(), x2.min()) > 0 else 1e9
+        ref = minimize(split, [z[1] - 0.08, z[2] + 0.08, 0, 0, 0.5], method="Nelder-Mead",
+                       options={"xatol": 1e-10, "fatol": 1e-10, "maxiter": 20000})
+        assert ref.fun < g(z) - 1e-3                      # the reference finds a lower split
+        eq = general_equilibrium(system, T, z)
+        assert eq.converged and len(eq.phases) == 2
+        assert eq.gibbs_J_per_mol <= ref.fun + 1e-6
