@@ -270,8 +270,10 @@ class _Mapper:
             keys[r][c] = phase_set(eqs[r][c])
 
         def settle(r: int, c: int, around: list[tuple[int, int]]) -> None:
+            # solved where a coarse node beyond it is missing (the grid's last row or column is odd)
+            beyond = r + (r % 2) < rows and c + (c % 2) < columns
             found = {keys[i][j] for i, j in around if 0 <= i < rows and 0 <= j < columns}
-            if len(found) == 1 and None not in found:
+            if beyond and len(found) == 1 and None not in found:
                 keys[r][c] = found.pop()
             else:
                 solve(r, c)
