@@ -13,6 +13,7 @@ from ladle.tui.explorer.app import ExplorerApp
 from ladle.tui.explorer.cursor import Cursor
 from ladle.tui.explorer.exploration import Exploration
 from ladle.tui.explorer.glyphs import glyphs_for
+from ladle.tui.explorer.launch import exploration_for
 from ladle.tui.explorer.scales import Scales
 from ladle.tui.explorer.screen_text import screen_text
 from ladle.tui.explorer.widgets.status_pane import StatusPane
@@ -56,9 +57,27 @@ def make_app(system: str = "pb-sn", *, T_K: float | None = None, x_B: float | No
     return app
 
 
+def section_app(system: str, ascii_only: bool = False) -> ExplorerApp:
+    """An explorer on a shipped system drawn as an isopleth (Fe-C, a ternary)."""
+    app = ExplorerApp(exploration_for(find_system(system)), glyphs_for(ascii_only), None)
+    app.theme = THEME
+    return app
+
+
 def status_text(app: ExplorerApp) -> str:
     """The status pane's text, as shown."""
-    return app.screen_stack[0].query_one(StatusPane).plain_text()
+    return app.explore_screen.query_one(StatusPane).plain_text()
 
 
-__all__ = ["SIZE", "clean_environment", "make_app", "pilot_test", "screen_text", "status_text"]
+async def until(pilot, answered, what: str, timeout_s: float = 6.0) -> None:
+    """Wait (at most timeout_s) until `answered()` is true: the workers have given what the test
+    needs."""
+    for _ in range(int(timeout_s / 0.02)):
+        await pilot.pause(0.02)
+        if answered():
+            return
+    raise AssertionError(f"the workers did not answer within {timeout_s:g} s: {what}")
+
+
+__all__ = ["SIZE", "clean_environment", "make_app", "pilot_test", "screen_text", "section_app", "status_text",
+           "until"]

@@ -9,7 +9,7 @@ import sys
 from pathlib import Path
 
 import pytest
-from explorer_harness import SIZE, THEME, pilot_test, screen_text, status_text
+from explorer_harness import SIZE, THEME, pilot_test, screen_text, status_text, until
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
 
@@ -35,18 +35,9 @@ def ternary_app(monkeypatch):
     return app
 
 
-async def _until(pilot, answered, what: str) -> None:
-    """Wait (at most 6 s) until `answered()` is true: the workers have given what the test needs."""
-    for _ in range(300):
-        await pilot.pause(0.02)
-        if answered():
-            return
-    raise AssertionError(f"the workers did not answer: {what}")
-
-
 async def _settled(app, pilot) -> None:
     """Wait until the isopleth is mapped and the point at the cursor computed."""
-    await _until(pilot, lambda: app.screen.exploration.isopleth is not None and "computing" not in status_text(app),
+    await until(pilot, lambda: app.screen.exploration.isopleth is not None and "computing" not in status_text(app),
                  "the isopleth and the point")
 
 
@@ -119,7 +110,7 @@ async def test_the_isothermal_section_at_the_cursors_temperature(ternary_app, mo
         await _settled(app, pilot)
         await pilot.press("i")
         e = app.screen.exploration
-        await _until(pilot, lambda: e.triangle is not None, "the isothermal section")
+        await until(pilot, lambda: e.triangle is not None, "the isothermal section")
         assert e.view == "triangle" and e.triangle.temperature_K == pytest.approx(700.0)
         text = screen_text(app)
         assert "alpha + liquid" in text and "mole fractions" in text
@@ -139,7 +130,7 @@ async def test_the_cooling_view_shows_both_paths_of_the_cursors_alloy(ternary_ap
     async with app.run_test(size=SIZE) as pilot:
         await _settled(app, pilot)
         await pilot.press("c")
-        await _until(pilot, lambda: "computing" not in status_text(app), "the freezing paths")
+        await until(pilot, lambda: "computing" not in status_text(app), "the freezing paths")
         text = status_text(app)
         # 90 A, 5 B, 5 C (at%): alpha first, the ternary eutectic ends freezing (ideal_ternaries)
         assert "FREEZING" in text and "primary alpha" in text and "(ternary eutectic)" in text
@@ -167,3 +158,22 @@ async def test_the_systems_caution_stands_under_the_status_pane(ternary_app):
     async with app.run_test(size=SIZE) as pilot:
         await _settled(app, pilot)
         assert "! Lead is toxic (? more)" in screen_text(app)
+
+
+@pilot_test
+async def test_zoom_halves_the_window_about_the_cursor_and_0_shows_all_of_it(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await until(pilot, lambda: app.screen.exploration.isopleth is not None, "the isopleth")
+        e = app.screen.exploration
+        ticks = screen_text(app)
+        await pilot.press("plus")
+        w, c = e.window, e.cursor
+        assert w.u_high - w.u_low == pytest.approx(0.5) and w.T_high - w.T_low == pytest.approx(0.5 * (e.T_high - e.T_low))
+        assert w.u_low <= c.u <= w.u_high and w.T_low <= c.temperature_K <= w.T_high
+        assert screen_text(app) != ticks                       # redrawn on the new axes
+        T = c.temperature_K
+        await pilot.press("up")                                # a step is a fiftieth of the window shown
+        assert e.cursor.temperature_K - T == pytest.approx((w.T_high - w.T_low) / 50.0)
+        await pilot.press("0")
+        assert e.window == e.whole and screen_text(app).split("\n")[-4] == ticks.split("\n")[-4]   # the axis again

@@ -18,12 +18,19 @@ class SystemChoice:
     safety: str = ""
     checks: str = ""
     problem: str = ""
-    drawn_as: str = ""
 
     def matches(self, query: str) -> bool:
         """Whether every word of the query occurs in the name, title or source (any case)."""
         haystack = f"{self.name} {self.title} {self.source}".lower()
         return all(word in haystack for word in query.lower().split())
+
+    def rank(self, query: str) -> int:
+        """Where the choice stands among those matching `query`: 0 when the query is its name,
+        1 when its name holds every word, 2 otherwise (so that typing a name and Enter opens it)."""
+        words = query.lower().split()
+        if " ".join(words) == self.name.lower():
+            return 0
+        return 1 if all(word in self.name.lower() for word in words) else 2
 
 
 def opens_as_section(system) -> bool:
@@ -33,13 +40,6 @@ def opens_as_section(system) -> bool:
     from ladle.engine.diagrams.mappable import unmapped_phases
 
     return len(system.elements) != 2 or bool(unmapped_phases(system))
-
-
-def drawn_as(system) -> str:
-    """How the picker says the explorer draws `system`: '' for a traced binary diagram."""
-    if len(system.elements) != 2:
-        return f"{len(system.elements)} elements: isopleth" + (" and triangle" if len(system.elements) == 3 else "")
-    return "drawn as an isopleth (sublattice phases)" if opens_as_section(system) else ""
 
 
 def system_choices() -> list[SystemChoice]:
@@ -54,8 +54,7 @@ def system_choices() -> list[SystemChoice]:
             choices.append(SystemChoice(entry.name, problem=str(error)))
             continue
         choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
-                                    checks_text(None, len(independent_checks(system)), len(system.measured)),
-                                    drawn_as=drawn_as(system)))
+                                    checks_text(None, len(independent_checks(system)), len(system.measured))))
     return choices
 
 
@@ -74,17 +73,13 @@ def checks_text(passed: int | None, total: int, fit_targets: int = 0) -> str:
     return text
 
 
-def with_check_results(choices: list[SystemChoice]) -> list[SystemChoice]:
-    """The choices with how many independent checks pass (evaluated by the engine, remembered in the user's
-    cache, so slow only the first time a system file is seen)."""
+def with_check_result(choice: SystemChoice) -> SystemChoice:
+    """The choice with how many independent checks pass (evaluated by the engine, remembered in
+    the user's cache, so slow only the first time a system file is seen)."""
     from ladle.engine.checking.cache import check_counts
 
-    out = []
-    for choice in choices:
-        if choice.problem:
-            out.append(choice)
-            continue
-        system = find_system(choice.name)
-        passed, total = check_counts(system)
-        out.append(replace(choice, checks=checks_text(passed, total, len(system.measured))))
-    return out
+    if choice.problem:
+        return choice
+    system = find_system(choice.name)
+    passed, total = check_counts(system)
+    return replace(choice, checks=checks_text(passed, total, len(system.measured)))

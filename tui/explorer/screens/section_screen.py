@@ -219,7 +219,7 @@ class SectionScreen(Screen[None]):
         key = self.query_one(SectionView).key()
         listed = [("heading", "FIELDS")] + [("note", f" {k}") for k in key] if key else []
         joined = [("note", "FIELDS " + "; ".join(k.replace(":", "", 1) for k in key))] if key else []
-        self.query_one(StatusPane).show_lines(full + listed, full + joined, compact + joined, compact)
+        self.query_one(StatusPane).show_lines(full + listed, full + joined, compact + joined, full, compact)
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
         worker, e = event.worker, self.exploration

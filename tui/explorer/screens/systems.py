@@ -9,8 +9,9 @@ from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, OptionList, Static
 from textual.widgets.option_list import Option
+from textual.worker import get_current_worker
 
-from ..system_choices import SystemChoice, with_check_results
+from ..system_choices import SystemChoice, with_check_result
 
 
 class SystemPicker(ModalScreen[str | None]):
@@ -49,8 +50,14 @@ class SystemPicker(ModalScreen[str | None]):
         field.focus()
 
     def _count_checks(self) -> None:
-        """In a thread: how many independent checks each system passes, then show them."""
-        counted = with_check_results(self.choices)
+        """In a thread: how many independent checks each system passes, then show them (given up
+        when the worker is cancelled, as when the explorer quits)."""
+        worker = get_current_worker()
+        counted = []
+        for choice in self.choices:
+            if worker.is_cancelled:
+                return
+            counted.append(with_check_result(choice))
         self.app.call_from_thread(self._show_counts, counted)
 
     def _show_counts(self, counted: list[SystemChoice]) -> None:
@@ -58,11 +65,14 @@ class SystemPicker(ModalScreen[str | None]):
         self._fill(self.query_one(Input).value)
 
     def _fill(self, query: str) -> None:
+        """The choices matching `query`, the system named by it first, then those whose names
+        hold it (each group in the catalog's order)."""
         options = self.query_one(OptionList)
         options.clear_options()
+        matching = sorted((choice for choice in self.choices if choice.matches(query)), key=lambda c: c.rank(query))
         options.add_options([Option(self._describe(choice), id=choice.name,   # one refresh
                                     disabled=bool(choice.problem))
-                             for choice in self.choices if choice.matches(query)])
+                             for choice in matching])
         if options.option_count:
             options.highlighted = 0
 
@@ -74,7 +84,7 @@ class SystemPicker(ModalScreen[str | None]):
             text.append(f"\n    cannot open: {choice.problem}"[:width])
             return text
         text.append(f"  {choice.title}")
-        text.append(f"\n    {choice.checks}" + (f"; {choice.drawn_as}" if choice.drawn_as else ""))
+        text.append(f"\n    {choice.checks}")
         source = choice.source.replace("\n", " ")
         text.append(f"\n    {source if len(source) <= width - 4 else source[:width - 5] + '~'}")
         return text
