@@ -54,6 +54,8 @@ RANGE_STEP_K = 0.05
 _MAX_STEPS = 5000
 #: The path's `end` where the remaining liquid leaves the range of compositions the model covers.
 OUTSIDE_RANGE = "outside covered range"
+#: How many of its last point equilibria a path remembers.
+_REMEMBERED = 8
 #: Freezing ends when less than this share of the alloy's atoms is liquid.
 LAST_LIQUID = 1e-6
 
@@ -142,13 +144,23 @@ class AlloyScheil:
         self.left_range = False               # whether the liquid left the covered range at the path's end
         self.calls = 0
         self.unconverged: list[float] = []     # temperatures (K) of point equilibria that did not converge
+        self.recent: dict[tuple[float, bytes], object] = {}   # the last point equilibria, by (T, x)
 
     # --- point equilibria --------------------------------------------------------------------
     def _eq(self, T: float, x: np.ndarray, near=None):
+        """The point equilibrium at T (K) of x; the last few are remembered (an event's
+        narrowing asks again for the step's own equilibrium and its last probe)."""
+        key = (float(T), np.asarray(x, dtype=float).tobytes())
+        eq = self.recent.get(key)
+        if eq is not None:
+            return eq
         self.calls += 1
         eq = _equilibrium(self.system, T, x, near)
         if not eq.converged:
             self.unconverged.append(T)
+        self.recent[key] = eq
+        if len(self.recent) > _REMEMBERED:
+            del self.recent[next(iter(self.recent))]
         return eq
 
     # --- the path ----------------------------------------------------------------------------
