@@ -45,6 +45,9 @@ NEAR_PLANE_SPACING = 1.0 / 60.0
 #: Samples of a phase this far (site fractions, max norm) from its composition sets seed a
 #: search for a gap.
 GAP_DISTANCE = 0.08
+#: Separate low regions of a phase, far from its composition sets, given Newton steps toward the
+#: lowest driving force.
+FAR_STARTS = 3
 #: Relative size of the neighbourhood added around refined points (see `_neighbourhood`).
 NEIGHBOURHOOD = 1e-2
 _ROUNDS = 8
@@ -360,12 +363,15 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
         starts = [lowest]
         freedom = len(ph.free) - len(ph.model.groups)
         near = NEAR_PLANE * (len(d) ** (-1.0 / max(freedom, 1)) / NEAR_PLANE_SPACING) ** 2
-        if mine and d[lowest] >= -tol:       # the lowest sample is at a composition set: look farther
+        if mine:                             # look farther from the composition sets as well
             close = np.flatnonzero(d <= near)
             far = np.ones(len(close), dtype=bool)
             for y in mine:
                 far &= np.max(np.abs(ph.Y[close] - y), axis=1) > GAP_DISTANCE
-            starts = [int(close[far][np.argmin(d[close[far]])])] if far.any() else []
+            far_start = _spread_lowest(ph.Y, d, close[far])
+            # the lowest sample at a set is no candidate; one just below the plane next to a set
+            # (inside a shallow gap's spinodal) is, but the gap's other side may lie far away
+            starts = far_start if d[lowest] >= -tol else [lowest] + [k for k in far_start if k != lowest]
         if freedom == 0:                      # a compound: its one sample is exact
             starts = [k for k in starts if d[k] < -tol]
         for k in starts:
@@ -382,6 +388,19 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
             if df < -tol:
                 found.append((p, y, df))
     return found
+
+
+def _spread_lowest(Y: np.ndarray, d: np.ndarray, among: np.ndarray) -> list[int]:
+    """Up to FAR_STARTS samples of `among`, lowest `d` first, each more than GAP_DISTANCE (site
+    fractions, max norm) from those taken: one start per separate low region (the two sides of a
+    gap next to a composition set can both lie near the plane, only one of them below it)."""
+    taken: list[int] = []
+    for k in among[np.argsort(d[among], kind="stable")]:
+        if all(np.max(np.abs(Y[k] - Y[j])) > GAP_DISTANCE for j in taken):
+            taken.append(int(k))
+            if len(taken) == FAR_STARTS:
+                break
+    return taken
 
 
 def global_minimum(models: dict[str, object], z: np.ndarray,
