@@ -6,7 +6,8 @@ heat-treatment window). The arrows move the cursor along the section and in temp
 the next element vary, `g` goes to a typed alloy and temperature ("Ag=3wt% Cu=0.5wt% 250C"), `s`
 opens another system.
 
-The isopleth, the point equilibrium and the alloy's transitions are computed in worker threads:
+The isopleth, the point equilibrium and the alloy's transitions are computed in worker threads
+(background.py: the explorer quits without waiting for them):
 keys are answered while they run ("mapping the isopleth ..." shows meanwhile); a newer request
 for the point replaces an older one, and the transitions are scanned once the cursor rests.
 """
@@ -26,6 +27,7 @@ from ladle.engine.units import TEMPERATURE_UNITS, kelvin_to
 from ladle.tui.quote import percent
 
 from ..alloy_changes import change_lines
+from ..background import in_background
 from ..cautions import caution_line
 from ..glyphs import Glyphs
 from ..section_exploration import SectionExploration
@@ -145,11 +147,11 @@ class SectionScreen(Screen[None]):
         self.query_one("#title", Static).update(self._title())
         if e.isopleth is None and not e.recall() and e.section_key() != self._mapping:
             self._mapping = key = e.section_key()
-            self.run_worker(lambda: (key, e.map()), thread=True, group="isopleth", exit_on_error=False)
+            self.run_worker(in_background(lambda: (key, e.map())), group="isopleth", exit_on_error=False)
         if e.view == "triangle" and (e.triangle is None or e.triangle.temperature_K != e.cursor.temperature_K):
-            self.run_worker(e.map_triangle, thread=True, group="triangle", exclusive=True, exit_on_error=False)
+            self.run_worker(in_background(e.map_triangle), group="triangle", exclusive=True, exit_on_error=False)
         if e.view == "cooling" and e.alloy_key() not in e.freezing:
-            self.run_worker(e.freeze, thread=True, group="cooling", exclusive=True, exit_on_error=False)
+            self.run_worker(in_background(e.freeze), group="cooling", exclusive=True, exit_on_error=False)
         self._ask_changes()
         view = self.query_one(SectionView)
         self._ask_point()
@@ -176,7 +178,7 @@ class SectionScreen(Screen[None]):
             result = e.equilibrium()
             return result, time.perf_counter() - started
 
-        self._point_worker = self.run_worker(timed, thread=True, group="point", exclusive=True, exit_on_error=False)
+        self._point_worker = self.run_worker(in_background(timed), group="point", exclusive=True, exit_on_error=False)
 
     def _ask_changes(self) -> None:
         """Scan the cursor's alloy's transitions once the cursor has rested (SCAN_DELAY_S), where
@@ -194,7 +196,7 @@ class SectionScreen(Screen[None]):
         busy = self._scanning is not None and not self._scanning.is_finished
         if busy or self._mapping is not None or e.alloy_key() in e.changes:
             return
-        self._scanning = self.run_worker(e.scan_changes, thread=True, group="changes", exit_on_error=False)
+        self._scanning = self.run_worker(in_background(e.scan_changes), group="changes", exit_on_error=False)
 
     def _show_status(self) -> None:
         """The status pane: the point and its phases, then the view's own lines (the freezing
