@@ -26,8 +26,13 @@ def phase_label(system, phase: str, x_B: float, temperature_K: float,
     gap_side = solid_label(system, phase, x_B, list(among))
     if gap_side != phase:
         return gap_side
-    trade = _trade_name(system, phase, temperature_K)
-    if not trade:
+    return beside(phase, _trade_name(system, phase, temperature_K))
+
+
+def beside(phase: str, trade: str | None) -> str:
+    """'fcc (austenite)', 'bct (Sn)': a phase with its trade name beside it (bracketed unless the
+    name is a bracketed one already); the phase alone where the name is empty or the same."""
+    if not trade or trade == phase:
         return phase
     return f"{phase} {trade}" if trade.startswith("(") else f"{phase} ({trade})"
 

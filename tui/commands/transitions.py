@@ -120,11 +120,9 @@ def _alloy_line(system, alloy, x, w) -> str:
 
 def _phases(names, phases, T: float) -> str:
     """'fcc (austenite) + Fe3C (cementite)': each phase with the trade's name at T (K) beside it."""
-    out = []
-    for p in phases:
-        trade = names.phase_name(p, T)
-        out.append(f"{p} ({trade})" if trade and trade != p else p)
-    return " + ".join(out)
+    from ..phase_names import beside
+
+    return " + ".join(beside(p, names.phase_name(p, T)) for p in phases)
 
 
 def _render(system, result, labels, names, window, constituents, alloy, x, w, unit: str) -> list[str]:
