@@ -91,3 +91,14 @@ def test_the_heat_treatment_window_says_what_bounds_it_and_that_the_specificatio
     assert change_lines(iron, None, "C", "°C")[-1] == ("note", " computing ...")
     assert change_lines(iron, "no transitions: bad", "C", "°C")[-1] == ("warning", " no transitions: bad")
     assert all(len(text) <= 30 for _, text in lines)          # the status pane's width at 80x24
+
+
+def test_freezing_constituents_are_named_as_the_trade_names_them():
+    """fe-c.toml names the cementite eutectic's constituent ledeburite; bcc above 1400 K is
+    delta ferrite; ag-cu-sn.toml: bct = (Sn), Ag3Sn = epsilon, Cu6Sn5 = eta."""
+    iron = SectionExploration(find_system("fe-fe3c"))
+    assert iron.constituent_name("eutectic fcc + Fe3C", 1500.0) == "eutectic austenite + cementite (ledeburite)"
+    assert iron.constituent_name("primary bcc", 1700.0) == "primary delta ferrite"
+    sac = SectionExploration(find_system("ag-cu-sn"))
+    assert sac.constituent_name("ternary eutectic bct + Ag3Sn + Cu6Sn5", 490.0) == "ternary eutectic (Sn) + epsilon + eta"
+    assert sac.constituent_name("primary fcc (Ag-rich)", 490.0) == "primary fcc (Ag-rich)"

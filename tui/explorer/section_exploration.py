@@ -16,6 +16,7 @@ system opened again finds its picture ready.
 
 from __future__ import annotations
 
+import re
 from collections import OrderedDict
 from dataclasses import dataclass
 
@@ -26,7 +27,7 @@ from ladle.engine.diagrams.isopleth import Isopleth, map_isopleth, section_mole_
 from ladle.engine.diagrams.isothermal import IsothermalSection, map_isothermal
 from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import kelvin_to, mass_from_mole
-from ladle.tui.phase_names import phase_label
+from ladle.tui.phase_names import constituent_trade_name, phase_label
 from ladle.tui.quote import percent
 
 from .alloy_changes import AlloyChanges, alloy_changes, shows_changes
@@ -240,8 +241,20 @@ class SectionExploration:
         lines += [("heading", "STRUCTURE, mass %"), ("note", " equilibrium / Scheil")]
         for name, fractions in structure_rows(result):
             shown = " / ".join("-" if f is None else percent(f) for f in fractions)
-            lines.append(("note", f" {name}: {shown}"))
+            lines.append(("note", f" {self.constituent_name(name, result.equilibrium.liquidus_K)}: {shown}"))
         return lines
+
+    def constituent_name(self, name: str, temperature_K: float) -> str:
+        """A constituent of the freezing paths ('eutectic fcc + Fe3C') with each phase by the
+        trade's name near temperature_K (K) where the file gives one (a side of a miscibility
+        gap, 'fcc (Ag-rich)', keeps its name), and the name of what its reaction forms: 'eutectic
+        austenite + cementite (ledeburite)'."""
+        names = trade_names(self.system)
+        phases = sorted(self.system.phases, key=len, reverse=True)
+        pattern = r"(?<![\w(])(" + "|".join(map(re.escape, phases)) + r")(?![\w)]| \()"   # not a gap's side
+        shown = re.sub(pattern, lambda m: names.phase_name(m.group(0), temperature_K) or m.group(0), name)
+        trade = constituent_trade_name(self.system, name)
+        return shown + (f" ({trade})" if trade else "")
 
     def x_at_cursor(self) -> np.ndarray:
         """Mole fractions of every element at the cursor."""
