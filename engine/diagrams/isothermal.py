@@ -120,18 +120,18 @@ def _coarse_then_fine(system, temperature_K: float, steps: int, nodes: np.ndarra
     index = {v: i for i, v in enumerate(jk)}
     eqs: list = [None] * len(nodes)
     keys: list = [None] * len(nodes)
-    last = None
 
-    def solve(i: int) -> None:
-        nonlocal last
+    def solve(i: int, start) -> None:
         x = nodes[i]
-        last = equilibrate(system, temperature_K, x) if last is None else \
-            equilibrate(system, temperature_K, x, near=last)
-        eqs[i], keys[i] = last, tuple(sorted(last.phase_names))
+        eqs[i] = equilibrate(system, temperature_K, x) if start is None else \
+            equilibrate(system, temperature_K, x, near=start)
+        keys[i] = tuple(sorted(eqs[i].phase_names))
 
+    last = None
     for i, (j, k) in enumerate(jk):
         if j % 2 == 0 and k % 2 == 0:
-            solve(i)
+            solve(i, last)            # the coarse nodes in the grid's order: each beside the one before
+            last = eqs[i]
     for i, (j, k) in enumerate(jk):
         if keys[i] is not None:
             continue
@@ -144,8 +144,9 @@ def _coarse_then_fine(system, temperature_K: float, steps: int, nodes: np.ndarra
         around = {keys[index[v]] for v in ends + thirds if v in index}
         if all(v in index for v in ends) and len(around) == 1:
             keys[i] = around.pop()
-        else:
-            solve(i)
+        else:                   # started from the end with more phases (Newton drops one that vanishes)
+            starts = [eqs[index[v]] for v in ends if v in index and eqs[index[v]] is not None]
+            solve(i, max(starts, key=lambda eq: len(eq.phases)) if starts else last)
     return list(zip(eqs, keys))
 
 
