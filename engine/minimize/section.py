@@ -20,7 +20,7 @@ import numpy as np
 
 from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid
 from .hull import lower_hull
-from ..models.phases import CompoundPhase, SolutionAtT
+from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
 from .tangent import common_tangent, lowest_against_line, tangent_to_point
 
 #: The hull is taken over every HULL_STRIDE-th grid point; checks use the whole grid.
@@ -67,19 +67,19 @@ class Section:
         self.system = system
         self.T = float(T)
         self.xa, self.xb = composition_grid(points)
-        solutions, compounds = system.solutions, system.compounds
-        self.names: list[str] = list(solutions) + list(compounds)
+        solutions = [(n, p) for n, p in system.phases.items() if isinstance(p, SolutionPhase)]
+        compounds = [(n, p) for n, p in system.phases.items() if isinstance(p, CompoundPhase)]
+        self.names: list[str] = [n for n, _p in solutions + compounds]
         self.n_sol = len(solutions)
-        self.solutions: list[SolutionAtT] = [p.at(self.T) for p in solutions.values()]
-        self.compounds: list[CompoundPhase] = list(compounds.values())
+        self.solutions: list[SolutionAtT] = [p.at(self.T) for _n, p in solutions]
+        self.compounds: list[CompoundPhase] = [p for _n, p in compounds]
         self.G = gibbs_on_grid(self.solutions, points)
         self.comp_x = [(float(c.x[0]), float(c.x[1])) for c in self.compounds]
         self.comp_g = [c.gibbs(self.T) for c in self.compounds]
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
         coarse = self.G[:, ::HULL_STRIDE]
-        which = np.argmin(coarse, axis=0)
         #: The coarse envelope (x_B, x_A, G, phase) the hull is taken over, compounds not included.
-        self._coarse = (self.xb[::HULL_STRIDE], self.xa[::HULL_STRIDE], coarse[which, np.arange(coarse.shape[1])], which)
+        self._coarse = (self.xb[::HULL_STRIDE], self.xa[::HULL_STRIDE], coarse.min(axis=0), coarse.argmin(axis=0))
         #: Refined tie-lines by the seed points they started from, (phase, grid index or -1) each.
         self._ties: dict[tuple[int, int, int, int], TieLine | None] = {}
         #: Tie-lines ((phase, x_B) pairs and mu) whose driving-force check passed: it depends on
