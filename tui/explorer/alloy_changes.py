@@ -77,7 +77,7 @@ def change_lines(system, changes: AlloyChanges | str | None, unit: str, unit_tex
         return lines + [("warning", f" {changes}")]
     for i, t in enumerate(changes.transitions.transitions):
         what = changes.labels.get(i) or crossing_name(t.above, t.below)
-        lines.append(("value", f" {kelvin_to(t.temperature_K, unit):7.1f} {unit_text} {what}"))
+        lines.append(("value", f" {kelvin_to(t.temperature_K, unit):.1f} {unit_text} {what}"))
     window = changes.window
     if window is not None:
         lines += window_lines(system, window, unit, unit_text)

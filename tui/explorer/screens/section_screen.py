@@ -201,7 +201,8 @@ class SectionScreen(Screen[None]):
     def _show_status(self) -> None:
         """The status pane: the point and its phases, then the view's own lines (the freezing
         paths; the alloy's transitions and the key of numbered fields); where they do not fit,
-        the key in fewer lines, then a binary's phases one line each, then without the key."""
+        the key in fewer lines (the fields marked on the picture), then a binary's phases one line
+        each, then without the key."""
         e = self.exploration
         unit = self.query_one(SectionView).unit
         unit_text = self.glyphs.temperature_unit(unit)
@@ -220,7 +221,8 @@ class SectionScreen(Screen[None]):
             return
         key = self.query_one(SectionView).key()
         listed = [("heading", "FIELDS")] + [("note", f" {k}") for k in key] if key else []
-        joined = [("note", "FIELDS " + "; ".join(k.replace(":", "", 1) for k in key))] if key else []
+        marked = [k.replace(":", "", 1) for k in key if ":" in k.split(" ", 1)[0]]     # not those too small to mark
+        joined = [("note", "FIELDS " + "; ".join(marked))] if marked else []
         self.query_one(StatusPane).show_lines(full + listed, full + joined, compact + joined, full, compact)
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
