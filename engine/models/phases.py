@@ -169,8 +169,9 @@ class SolutionAtT:
         return where(active, g, 0.0 * g)
 
     def _magnetic(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, ...]:
-        """(G, dG/dx, d2G/dx2, dG/dT) of the magnetic term along x_B (arrays, or floats); with
-        order 0 the composition derivatives are returned as zeros."""
+        """(G, dG/dx, d2G/dx2, dG/dT, d2G/dx dT) of the magnetic term along x_B (arrays, or
+        floats); with order 0 the composition derivatives are returned as zeros. The temperature
+        derivatives take Tc and beta as independent of T (tau = T/Tc, so d tau/dT = tau/T)."""
         (tc1, tc2), (be, be1, be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, order)
         f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
         u = _log(1.0 + be)
@@ -183,7 +184,8 @@ class SolutionAtT:
         g1 = RT * (u1 * f + u * f1 * tau1)
         g2 = RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
         g_dT = R * u * (f + tau * f1)
-        return tuple(where(active, v, 0.0 * v) for v in (g, g1, g2, g_dT))
+        g1_dT = R * (u1 * (f + tau * f1) + u * tau1 * (2.0 * f1 + tau * f2))
+        return tuple(where(active, v, 0.0 * v) for v in (g, g1, g2, g_dT, g1_dT))
 
     @staticmethod
     def _linear_plus_excess(pure: np.ndarray, L: list[float], xa: np.ndarray, xb: np.ndarray, order: int):
@@ -218,10 +220,25 @@ class SolutionAtT:
         mua = self.g0a + self.RT * _log(xa) + mua
         mub = self.g0b + self.RT * _log(xb) + mub
         if self.phase.magnetic is not None:
-            gm, gm1, _gm2, _ = self._magnetic(xa, xb)
+            gm, gm1, _gm2, _gm_dT, _gm1_dT = self._magnetic(xa, xb)
             mua = mua + gm - xb * gm1
             mub = mub + gm + xa * gm1
         return mua, mub
+
+    def potentials_dT(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Temperature derivatives of the chemical potentials at fixed composition, d mu_A/dT and
+        d mu_B/dT = -S_A, -S_B (J/(mol K)), term by term as `potentials` (Newton's methods that
+        solve for temperature need them; no phase is rebuilt at neighbouring temperatures). The
+        magnetic term's Tc and beta are taken as independent of T, as in `gibbs_dT`."""
+        (da, db), L_dT = self._temperature_derivatives
+        sa, sb = redlich_kister_potentials(L_dT, xa, xb)
+        sa = da + R * _log(xa) + sa
+        sb = db + R * _log(xb) + sb
+        if self.phase.magnetic is not None:
+            _gm, _gm1, _gm2, gm_dT, gm1_dT = self._magnetic(xa, xb)
+            sa = sa + gm_dT - xb * gm1_dT
+            sb = sb + gm_dT + xa * gm1_dT
+        return sa, sb
 
     def slope(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
         """dG/dx_B = mu_B - mu_A (J/mol), computed without subtracting two large numbers."""

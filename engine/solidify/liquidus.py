@@ -22,8 +22,6 @@ from ..minimize.tangent import fractions
 from ..units import GAS_CONSTANT
 
 LIQUID = "liquid"
-#: Step (K) of the central difference that gives temperature derivatives of chemical potentials.
-_DT_K = 1e-3
 #: The solve stops when both potential differences are below this share of RT (J/mol).
 _RTOL = 1e-12
 _MAX_ITER = 40
@@ -61,11 +59,11 @@ class LiquidusPoint:
 
 def potentials_with_slopes(phase: SolutionPhase, T: float, xa: float, xb: float) -> tuple[tuple[float, float], tuple[float, float]]:
     """Chemical potentials (mu_A, mu_B) in J/mol of a solution at T (K) and (xa, xb), and their
-    temperature derivatives at fixed composition in J/(mol K) (central difference, step 1e-3 K)."""
-    ma, mb = phase.at(T).potentials(xa, xb)
-    ua, ub = phase.at(T + _DT_K).potentials(xa, xb)
-    da, db = phase.at(T - _DT_K).potentials(xa, xb)
-    return (float(ma), float(mb)), (float(ua - da) / (2 * _DT_K), float(ub - db) / (2 * _DT_K))
+    temperature derivatives at fixed composition in J/(mol K) (analytic: `potentials_dT`)."""
+    at = phase.at(T)
+    ma, mb = at.potentials(xa, xb)
+    da, db = at.potentials_dT(xa, xb)
+    return (float(ma), float(mb)), (float(da), float(db))
 
 
 def solve_liquidus_point(system, solid: str, y: float, T0: float, ys0: float | None = None) -> LiquidusPoint | None:
