@@ -4,12 +4,16 @@
 
 Measures, on a four-phase synthetic system (liquid, fcc, bcc and a compound AB):
 - point_us: median microseconds per point equilibrium over varied (T, x) points, after warm-up,
-  every point at a new temperature (no cached section);
-- vs_dense_grid: how many times faster than a brute-force lower hull over 1e6 grid points per
-  phase at the same points, and max_dx_vs_dense_grid, the largest composition difference;
-- vs_generic_minimizer: how many times faster than scipy.optimize SLSQP over phase amounts and
-  compositions from several starts, how often that minimizer missed the global minimum, and
-  whether it ever found a lower Gibbs energy than the engine;
+  every point at a new temperature (no cached section; the aim is 50);
+- the accuracy against a brute-force lower hull over 1e6 uniform grid points per phase (a
+  reference at that resolution, not a rival: dense_grid_ms is what it costs per point):
+  max_dx_vs_dense_grid, the largest difference of the tie-line ends' compositions, and
+  dense_grid_found_lower_G, how often the reference lay lower than the engine by over 1e-6 J/mol;
+- a general-purpose minimiser, scipy.optimize SLSQP over phase amounts and compositions from
+  several starts (generic_minimizer_starts): how often it missed the global minimum
+  (generic_minimizer_missed_global_minimum, by over 1e-3 J/mol) and how often it found a lower
+  G than the engine (generic_minimizer_found_lower_G); its time per point, generic_minimizer_ms,
+  is that of answers that are often wrong, so no speed ratio is given;
 - diagram_ms: median wall time to map the whole diagram of the largest shipped system (cold),
   and diagram_ms_slowest_shipped, the slowest of all shipped systems (one cold run each);
 - melt_ms: median time of one melt range on that system (diagram already mapped);
@@ -361,10 +365,12 @@ def main() -> int:
     out = {
         "point_us": round(point_us, 1),
         "points": len(pts),
-        "vs_dense_grid": round(statistics.median(dense_times) / statistics.median(times[:len(sub)]), 1),
+        "dense_grid_points_per_phase": 1_000_000,
+        "dense_grid_ms": round(1e3 * statistics.median(dense_times), 1),
         "max_dx_vs_dense_grid": max_dx,
         "dense_grid_found_lower_G": dense_misses,
-        "vs_generic_minimizer": round(statistics.median(slsqp_times) / statistics.median(times[:len(sub)]), 1),
+        "generic_minimizer_starts": args.starts,
+        "generic_minimizer_ms": round(1e3 * statistics.median(slsqp_times), 1),
         "generic_minimizer_missed_global_minimum": f"{missed}/{len(sub)}",
         "generic_minimizer_found_lower_G": lower,
         "points_compared": len(sub),
@@ -380,7 +386,7 @@ def main() -> int:
         "ternary_max_dG_vs_dense_J_per_mol": dG_above,
         "ternary_min_dG_vs_dense_J_per_mol": dG_below,
         "ternary_section_ms": round(section_ms, 1),
-        "targets": {"point_us": 300, "vs_dense_grid": 200, "max_dx_vs_dense_grid": 1e-6, "diagram_ms": 300, "melt_ms": 20,
+        "targets": {"point_us": 50, "max_dx_vs_dense_grid": 1e-6, "diagram_ms": 300, "melt_ms": 20,
                     "ternary_point_us": 1000, "five_element_point_us": 5000, "ternary_section_ms": 500,
                     "ternary_max_dG_vs_dense_J_per_mol": 0.0},
     }
