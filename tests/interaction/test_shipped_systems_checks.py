@@ -59,6 +59,14 @@ KNOWN_FAILURES = {
                   "was fitted to the eutectic's (Si) composition alone",
     ("au-cu", 2): "the liquid's enthalpy of mixing comes out -6.6 kJ/mol against about -5.3 (recalled): the model's disordered "
                   "solid has no excess entropy (short-range order), so the liquid's interaction alone sets the 910 C minimum",
+    ("au-cu", 3): "Gold Braze 3565's liquidus (1010 C at 85.2 at% Cu) lies 7.6 K below the model, while BAu-1's (1016 C at "
+                  "83.8 at%) lies 4.7 K above it: the two-term solid and liquid fitted to the 910 C minimum cannot follow both",
+    ("au-cu", 4): "Gold Braze 3565's solidus (987 C) lies 16 K below the model: the evaluation notes its accepted solidus "
+                  "data lie up to 10 K below the calculated one at 80-90 at% Cu; a refit to it left two coefficients undetermined",
+    ("au-cu", 6): "BAu-1's solidus (991 C, recalled) lies 5.7 K below the model, as for Gold Braze 3565 at 85 at% Cu",
+    ("ag-au-cu", 0): "the 18-carat red gold's listed liquidus (920 C) lies 15 K above the model (905 C; its 0.5 wt% zinc "
+                     "left out would only raise the zinc-free value): the binaries' Au-Cu loop is 3.5 K wide there, the "
+                     "sheet's 15 K, and no ternary term was fitted",
     ("au-si", 2): "the (Si) solubility of Au is set by hand (fcc Au + 30 kJ/mol, L 30 kJ/mol), not measured: k0 comes "
                   "out 80 times Trumbore's 2.5e-5",
     ("au-si", 3): "the model's (Au) holds 0.22 at% Si at 360 C, above the evaluation's bound of 0.1 at%: its fcc "
@@ -100,10 +108,10 @@ KNOWN_FAILURES = {
 #: Systems with fewer than four independent checks -> why (strict: the count is checked, so adding
 #: checks means updating the entry, and reaching four means removing it).
 SHORT_OF_CHECKS = {
-    "ag-au-cu": (0, "built on ag-au, ag-cu and au-cu with no ternary term: no published ternary liquidus, solidus or solvus "
-                    "value was at hand in a readable form, so there is no ternary fit and no ternary check"),
-    "au-cu": (1, "the congruent minimum and the old minimum melting point are the fit targets; no liquidus or solidus table "
-                 "of the evaluation (its data of 62Ben) and no solid calorimetry were at hand, only the liquid's (recalled)"),
+    "ag-au-cu": (2, "built on ag-au, ag-cu and au-cu with no ternary term: one essentially Au-Ag-Cu alloy's melting range "
+                    "from a maker's sheet (an 18-carat red gold) is at hand; the other makers' pages found give no composition "
+                    "beside a melting range and the ternary sections were not readable; the fcc gap is tested against one "
+                    "published ageing point (test_carat_golds)"),
     "au-si": (2, "no liquidus or calorimetric value from a source at hand (die-attach preform sheets and the solder "
                  "tables found give only the eutectic; abstracts on the melt give no numbers); the eutectic is the fit target"),
     "bi-pb": (1, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "

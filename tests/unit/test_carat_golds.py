@@ -12,7 +12,10 @@ Check values, each from outside the model:
 - the fineness marks of ISO 9202: 18 carat is 750 and 14 carat 585 parts of gold per thousand by
   mass, so the shorthands named 18ct-... and 14ct-... hold 75.0 and 58.5 wt% Au;
 - the ordered Au-Cu phases form below about 410 C (Okamoto et al. 1987): the files leave them out
-  and cover only 420 C and above, so a question below that gets no answer.
+  and cover only 420 C and above, so a question below that gets no answer;
+- the fcc miscibility gap reaches into the ternary: an Au-55.2 at% Cu-17.4 at% Ag alloy aged at
+  773 K hardens by nucleation and growth of a silver-rich precipitate (M. Nakagawa and K. Yasuda,
+  J. Mater. Sci. 23 (1988) 2975, abstract), so at 773 K it lies in the two-solid field.
 """
 
 from __future__ import annotations
@@ -82,3 +85,14 @@ def test_no_answer_in_the_ordering_range(capsys, name, spec):
         main(["point", name, "--temp", "400C", "--comp", spec])
     assert stop.value.code == 2
     assert "outside the temperatures this model covers" in capsys.readouterr().err
+
+
+def test_the_published_aged_alloy_separates_into_a_silver_rich_and_a_copper_rich_solid():
+    system = find_system(TERNARY)                       # elements Au, Ag, Cu
+    x = np.array([1.0 - 0.174 - 0.552, 0.174, 0.552])   # Nakagawa and Yasuda (1988), at%
+    result = equilibrate(system, 773.15, x)
+    solids = sorted((p for p in result.phases if p.name == "fcc"), key=lambda p: p.x[1])
+    assert [p.name for p in result.phases] == ["fcc", "fcc"]
+    copper_rich, silver_rich = solids
+    assert silver_rich.x[1] > silver_rich.x[2] and copper_rich.x[2] > copper_rich.x[1]
+    assert silver_rich.amount_mol < copper_rich.amount_mol   # the silver-rich phase is the precipitate
