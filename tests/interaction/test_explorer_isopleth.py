@@ -177,3 +177,24 @@ async def test_zoom_halves_the_window_about_the_cursor_and_0_shows_all_of_it(ter
         assert e.cursor.temperature_K - T == pytest.approx((w.T_high - w.T_low) / 50.0)
         await pilot.press("0")
         assert e.window == e.whole and screen_text(app).split("\n")[-4] == ticks.split("\n")[-4]   # the axis again
+
+
+@pilot_test
+async def test_a_point_without_an_answer_says_so_and_later_points_are_answered(ternary_app, monkeypatch):
+    """The point is computed at once while that is quick; one that fails is asked again in a
+    worker, which reports the problem in the status pane."""
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await until(pilot, lambda: app.screen.exploration.isopleth is not None, "the isopleth")
+        e = app.screen.exploration
+        answer = e.equilibrium
+
+        def refused():
+            raise ValueError("refused for the test")
+
+        monkeypatch.setattr(e, "equilibrium", refused)
+        await pilot.press("up")
+        await until(pilot, lambda: "no answer here: refused for the test" in status_text(app), "the problem")
+        monkeypatch.setattr(e, "equilibrium", answer)
+        await pilot.press("down")
+        await until(pilot, lambda: "PHASES" in status_text(app) and "computing" not in status_text(app), "the point")

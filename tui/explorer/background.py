@@ -11,6 +11,7 @@ from __future__ import annotations
 import asyncio
 import threading
 from collections.abc import Callable
+from functools import partial
 from typing import TypeVar
 
 T = TypeVar("T")
@@ -28,11 +29,9 @@ async def in_background(work: Callable[[], T]) -> T:
 
     def run() -> None:
         try:
-            result = work()
+            outcome = partial(answer.set_result, work())
         except Exception as error:            # handed to the worker, which reports it
-            outcome = lambda: answer.set_exception(error)  # noqa: E731
-        else:
-            outcome = lambda: answer.set_result(result)  # noqa: E731
+            outcome = partial(answer.set_exception, error)
         try:
             loop.call_soon_threadsafe(settle, outcome)
         except RuntimeError:                   # the explorer has closed: nobody waits for it

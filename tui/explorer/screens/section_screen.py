@@ -168,10 +168,11 @@ class SectionScreen(Screen[None]):
             started = time.perf_counter()
             try:
                 self._equilibrium = view.equilibrium = e.equilibrium()
-            except (ValueError, ArithmeticError) as error:
-                self.query_one(StatusPane).show_lines([("warning", f" no answer here: {error}")])
-            self._point_s = time.perf_counter() - started
-            return
+            except (ValueError, ArithmeticError):
+                self._point_s = INLINE_POINT_S     # the worker asks again and reports the problem
+            else:
+                self._point_s = time.perf_counter() - started
+                return
 
         def timed():
             started = time.perf_counter()
