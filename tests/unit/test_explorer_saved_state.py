@@ -3,6 +3,7 @@
 import json
 import os
 
+import numpy as np
 import pytest
 
 from ladle.tui.explorer.saved_state import SavedState, load_state, save_state, state_path
@@ -77,3 +78,19 @@ def test_the_explorer_starts_afresh_on_a_corrupt_state_file_and_says_so(tmp_path
         launch.run_explorer(["pb-sn"])
     assert started == [("pb-sn", None)]
     assert "ignored the remembered place" in capsys.readouterr().err
+
+
+def test_fe_c_is_remembered_and_opened_again_at_the_same_steel():
+    """A binary drawn as an isopleth keeps its cursor between runs (a ternary its temperature)."""
+    from ladle.engine import find_system
+    from ladle.tui.explorer import launch
+    from ladle.tui.explorer.section_exploration import SectionExploration
+
+    before = SectionExploration(find_system("fe-fe3c"), np.array([0.98, 0.02]), temperature_K=1073.15)
+    state = before.saved()
+    assert state.system == "fe-fe3c" and state.composition_unit == "wt"
+    after = launch.first_exploration(None, state)
+    assert isinstance(after, SectionExploration) and after.cursor.temperature_K == pytest.approx(1073.15)
+    assert after.x_at_cursor()[1] == pytest.approx(0.02, abs=1e-12)
+    ternary = launch.first_exploration(None, SectionExploration(find_system("ag-cu-sn"), temperature_K=500.0).saved())
+    assert ternary.cursor.temperature_K == pytest.approx(500.0) and ternary.system.name == "ag-cu-sn"

@@ -5,6 +5,8 @@ from __future__ import annotations
 import os
 import sys
 
+import numpy as np
+
 from ladle.engine import SystemFileError, UnknownSystem, find_system, list_systems
 
 from .cursor import Cursor
@@ -28,11 +30,17 @@ def _open(name: str):
 def exploration_for(system, scales: Scales | None = None, cursor: Cursor | None = None
                     ) -> Exploration | SectionExploration:
     """The exploration that draws `system`: its isopleth (SectionExploration) for three or more
-    elements or a binary with sublattice phases, else its traced diagram with the units
-    `scales` and the `cursor` (where given)."""
-    if opens_as_section(system):
+    elements or a binary with sublattice phases (opened at the cursor's temperature and, for a
+    binary, its alloy, where given), else its traced diagram with the units `scales` and the
+    `cursor` (where given)."""
+    if not opens_as_section(system):
+        return Exploration(system, scales, cursor)
+    if cursor is None:
         return SectionExploration(system)
-    return Exploration(system, scales, cursor)
+    alloy = np.array([1.0 - cursor.x_B, cursor.x_B]) if len(system.elements) == 2 else None
+    if alloy is not None and not system.covered(alloy):
+        alloy = None
+    return SectionExploration(system, alloy, temperature_K=cursor.temperature_K)
 
 
 def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration | SectionExploration:

@@ -32,6 +32,7 @@ from ladle.tui.quote import percent
 
 from .alloy_changes import AlloyChanges, alloy_changes, shows_changes
 from .entry import TypedPoint
+from .saved_state import SavedState
 
 #: The varying element runs from 0 to this mole fraction (less where the others leave less).
 SECTION_SHARE = 0.5
@@ -320,9 +321,11 @@ class SectionExploration:
         self.cursor = SectionCursor(self._u_of(self.alloy), T)
         self.window = self.window.following(self.cursor)
 
-    def saved(self) -> None:
-        """Nothing is remembered of a section between runs (the remembered point is a binary's)."""
-        return None
+    def saved(self) -> SavedState:
+        """What to remember for the next run: the system, the cursor's temperature and, for a
+        binary, its alloy (`launch.exploration_for` opens them again)."""
+        return SavedState(self.system.name, self.cursor.temperature_K, float(self.x_at_cursor()[1]),
+                          composition_unit=self.basis)
 
     # -- the status pane ---------------------------------------------------------------------
     def equilibrium(self):
