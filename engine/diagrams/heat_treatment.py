@@ -4,9 +4,10 @@
   hypoeutectoid steel is fully austenitic from A3 up to the next change above it; a hypereutectoid
   steel is hardened from austenite + cementite between A1 and Acm; a eutectoid steel is fully
   austenitic above A1.
-- Solution treatment (age-hardening alloys): the single solid phase between its solvus and the
-  lower of the equilibrium solidus and the end of Scheil-Gulliver freezing (above that end the
-  last liquid of a cast structure can melt: incipient melting).
+- Solution treatment (age-hardening alloys): the solid phases above the highest solvus (one,
+  or more where one stays undissolved, such as the (Si) of an Al-Si-Mg casting) between that
+  solvus and the lower of the equilibrium solidus and the end of Scheil-Gulliver freezing
+  (above that end the last liquid of a cast structure can melt: incipient melting).
 
 - Constituents of a plain carbon steel after slow cooling, by the lever rule at A1: the
   austenite just above A1 becomes pearlite (the eutectoid constituent, ferrite + cementite); the
