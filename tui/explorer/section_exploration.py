@@ -258,8 +258,12 @@ class SectionExploration:
         return shown + (f" ({trade})" if trade else "")
 
     def x_at_cursor(self) -> np.ndarray:
-        """Mole fractions of every element at the cursor."""
-        start, end = (self._in_basis(np.array(x)) for x in self.ends())
+        """Mole fractions of every element at the cursor (in the at% basis straight between the
+        ends, so that the held elements keep their exact values and the section its key)."""
+        start, end = (np.array(x) for x in self.ends())
+        if self.basis == "at":
+            return start + self.cursor.u * (end - start)
+        start, end = self._in_basis(start), self._in_basis(end)
         return section_mole_fractions(self.system, start, end, self.basis, np.array([self.cursor.u]))[0]
 
     # -- moves ------------------------------------------------------------------------------
