@@ -1,6 +1,8 @@
 """Where the stable phases change between two points of a path through composition and
-temperature: the bracket narrowed with few point equilibria. Shared by the isopleth mapping and
-the Scheil path of alloys of any number of elements.
+temperature: the bracket narrowed with few point equilibria, from the amount of the phase that
+appears (or, at a jump, its driving force). Shared by the isopleth mapping, the Scheil path and
+the transition scan of alloys of any number of elements, and the search for four-solid
+invariants. Driving forces in J per mole of atoms.
 """
 
 from __future__ import annotations
