@@ -230,13 +230,18 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
     K[nf:, :nf] = S
     Amu = A @ mu
     fr, fc = free[:, None], free[None, :]
+    whole = nf == model.n_vars                  # every site fraction free: no indexing
     with np.errstate(all="ignore"):
         for _ in range(steps):
             G, g, H = _derivatives(model, y)
-            g, H = g[free], H[fr, fc]
-            yf = y[free]
-            lam = S @ (yf * (g - Amu)) / (S @ yf)
-            r = np.concatenate([g - Amu - lam @ S, S @ yf - 1.0])
+            if whole:
+                yf = y
+            else:
+                g, H, yf = g[free], H[fr, fc], y[free]
+            gA = g - Amu
+            lam = S @ (yf * gA) / (S @ yf)
+            stationary = gA - lam @ S
+            r = np.concatenate([stationary, S @ yf - 1.0])
             K[:nf, :nf] = H
             if not np.isfinite(K).all():
                 break
@@ -245,16 +250,20 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
             except np.linalg.LinAlgError:
                 break
             dy = d[:nf]
-            predicted = 0.5 * float((g - Amu - lam @ S) @ dy)      # the quadratic model's change
-            atoms = float((y @ E).sum()) if len(elements) else 1.0
-            df_now = (float(G) - float((y @ E) @ mu)) / atoms
+            predicted = 0.5 * float(stationary @ dy)                # the quadratic model's change
+            moles = y @ E
+            atoms = float(moles.sum()) if len(elements) else 1.0
+            df_now = (float(G) - float(moles @ mu)) / atoms
             if predicted <= 0.0 and df_now + 2.0 * predicted / atoms > margin + 10.0 * abs(predicted) / atoms:
                 break                                               # its minimum is well above the plane
             big = float(np.abs(dy).max())
             if big > 0.2:                                           # a non-convex region: bounded steps
                 dy = dy * (0.2 / big)
-            y_new = y.copy()
-            y_new[free] = positive_step(yf, dy)
+            if whole:
+                y_new = positive_step(yf, dy)
+            else:
+                y_new = y.copy()
+                y_new[free] = positive_step(yf, dy)
             y = _normalise(y_new, groups)
             if big < 1e-10:
                 break
