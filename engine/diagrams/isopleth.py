@@ -4,8 +4,10 @@ mapped as zero-phase-fraction lines: each line is where one phase's amount goes 
 (J.E. Morral and H. Gupta, Scripta Metall. Mater. 25 (1991) 1393).
 
 Method: point equilibria (`equilibrate`) on a grid over the section (columns of composition,
-rows of temperature). Wherever two neighbouring nodes differ in their stable phases, the change
-on the edge between them is narrowed to its tolerance; each change found is a point of the zero-phase-
+rows of temperature; every other row and column first, the nodes between them only near a
+change: `_Mapper.grid`). Wherever two neighbouring nodes differ in their stable phases, the
+change on the edge between them is narrowed to its tolerance, tried first where the same change
+lies on the neighbouring parallel edges; each change found is a point of the zero-phase-
 fraction line of every phase present on one side only. Within each grid cell the points of one
 phase's line are joined (marching squares: W.E. Lorensen and H.E. Cline, Comput. Graph. 21
 (1987) 163, in two dimensions), and the pieces chained into lines, split where the phase sets on
@@ -232,7 +234,6 @@ class _Mapper:
                 found += self.changes(at(far), at(hi), far_eq, hi_eq, depth + 1)
         return found
 
-
     def _predicted(self, column: bool, a: tuple[float, float], b: tuple[float, float], ka, kb) -> float | None:
         """Where along the edge from a to b ((u, T) each, 0 at a, 1 at b) the change from ka to
         kb is expected: the same change on the two nearest parallel edges within a fifth of the
@@ -240,7 +241,8 @@ class _Mapper:
         where only one is known); None where none is known."""
         fixed, start, length = (a[0], a[1], b[1] - a[1]) if column else (a[1], a[0], b[0] - a[0])
         reach = 0.2 if column else 0.2 * self.span_K
-        known = sorted((abs(f - fixed), f, v) for f, v in self.crossings.get((column, ka, kb), ()) if 0 < abs(f - fixed) <= reach)
+        known = sorted((abs(f - fixed), f, v) for f, v in self.crossings.get((column, ka, kb), ())
+                       if 0 < abs(f - fixed) <= reach)
         if not known:
             return None
         if len(known) == 1 or known[0][1] == known[1][1]:
