@@ -54,6 +54,8 @@ HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in 
              ("Esc", "close the entry line"),
              ("?", "this help"),
              ("q", "quit")]
+#: Said where the key of numbered fields does not fit the status pane.
+ZOOM_HINT = "numbered fields: + names them"
 #: The cursor's alloy's transitions are scanned once it has rested this long (s).
 SCAN_DELAY_S = 0.4
 #: The point equilibrium is computed at once, without a worker, while the last one took less
@@ -203,7 +205,7 @@ class SectionScreen(Screen[None]):
         """The status pane: the point and its phases, then the view's own lines (the freezing
         paths; the alloy's transitions and the key of numbered fields); where they do not fit,
         the key in fewer lines (the fields marked on the picture), then a binary's phases one line
-        each, then without the key."""
+        each, then, instead of the key, how to see the numbered fields named (ZOOM_HINT)."""
         e = self.exploration
         unit = self.query_one(SectionView).unit
         unit_text = self.glyphs.temperature_unit(unit)
@@ -224,7 +226,9 @@ class SectionScreen(Screen[None]):
         listed = [("heading", "FIELDS")] + [("note", f" {k}") for k in key] if key else []
         marked = [k.replace(":", "", 1) for k in key if ":" in k.split(" ", 1)[0]]     # not those too small to mark
         joined = [("note", "FIELDS " + "; ".join(marked))] if marked else []
-        self.query_one(StatusPane).show_lines(full + listed, full + joined, compact + joined, full, compact)
+        hint = [("note", ZOOM_HINT)] if marked and e.window == e.whole else []
+        self.query_one(StatusPane).show_lines(full + listed, full + joined, compact + joined, full + hint,
+                                              compact + hint, compact)
 
     def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
         worker, e = event.worker, self.exploration
