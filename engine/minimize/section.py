@@ -82,6 +82,9 @@ class Section:
         self._coarse = (self.xb[::HULL_STRIDE], self.xa[::HULL_STRIDE], coarse.min(axis=0), coarse.argmin(axis=0))
         #: Refined tie-lines by the seed points they started from, (phase, grid index or -1) each.
         self._ties: dict[tuple[int, int, int, int], TieLine | None] = {}
+        #: Hull edges found by `_bridge`: (right end's x_B, left end's x_B, i, j), sorted. One
+        #: list, changed by one insert, so that threads sharing the section keep it whole.
+        self._edges: list[tuple[float, float, int, int]] = []
         #: Tie-lines ((phase, x_B) pairs and mu) whose driving-force check passed: it depends on
         #: nothing else, so it is not repeated for the next composition on the same tie-line.
         self._verified: set = set()
@@ -128,7 +131,22 @@ class Section:
         """The lower hull's edge over x_B = xb0 (0 < xb0 < 1) among the hull's candidates, as
         indices (i, j) of `_seed` with x_B(i) < xb0 <= x_B(j): from the coarse grid points on
         either side, the candidate lying lowest below the line through the pair replaces the
-        pair's end on its side until none lies below (the line's value at xb0 falls each step)."""
+        pair's end on its side until none lies below (the line's value at xb0 falls each step).
+        Edges are remembered: another composition inside one found before takes it again (hull
+        edges do not overlap, so the edge whose range holds xb0 is the edge over it)."""
+        edges = self._edges
+        k = bisect_left(edges, (xb0,))
+        if k < len(edges) and edges[k][1] < xb0 <= edges[k][0]:     # inside an edge found before
+            return edges[k][2], edges[k][3]
+        i, j = self._new_bridge(xb0)
+        edge = (self._seed(j)[3], self._seed(i)[3], i, j)
+        k = bisect_left(edges, edge)
+        if k == len(edges) or edges[k] != edge:
+            edges.insert(k, edge)
+        return i, j
+
+    def _new_bridge(self, xb0: float) -> tuple[int, int]:
+        """`_bridge` computed afresh."""
         xb, _xa, g, _which = self._coarse
         n = len(xb)
         j = int(xb.searchsorted(xb0))
