@@ -6,7 +6,8 @@ A.T. Kister, Ind. Eng. Chem. 40 (1948) 345; Y.-M. Muggianu, M. Gambino, J.-P. Br
 72 (1975) 83; H.L. Lukas, S.G. Fries, B. Sundman, Computational Thermodynamics: The Calphad Method,
 Cambridge (2007), section 5.6); a change of bi-pb's liquid L[0] by d changes the ternary liquid's G
 by x_Bi x_Pb d exactly; the lead-bismuth eutectic alloy (44.5 wt% Pb) melts at 398 K (OECD/NEA,
-Handbook on Lead-bismuth Eutectic Alloy and Lead Properties, 2015 edition); the fusible alloy
+Handbook on Lead-bismuth Eutectic Alloy and Lead Properties, 2015 edition) and releases 38.6 kJ/kg
+on freezing (the same handbook; a known miss, marked); the fusible alloy
 52.5Bi-32Pb-15.5Sn (wt%) ends freezing in the ternary eutectic L = (Bi) + (Sn) + epsilon near 95 C
 (the phases as in S.W. Yoon and H.M. Lee, Calphad 22 (1998) 167; the temperature recalled from
 ASTM B774, see the file).
@@ -67,6 +68,17 @@ def test_a_change_to_bi_pb_changes_the_fusible_alloys(tmp_path):
     before, after = find_system("bi-pb-sn"), load_system(tmp_path / "bi-pb-sn.toml")
     drop = _liquid_excess(after, X, 500.0) - _liquid_excess(before, X, 500.0)
     assert np.allclose(drop, X[:, 0] * X[:, 1] * CHANGE_J, rtol=1e-9, atol=1e-7)
+
+
+@pytest.mark.xfail(strict=True, reason="known miss: the model releases 24.7 J/g; the phase-diagram facts it was fitted "
+                   "to fix the Gibbs energies near 400-460 K but not how they split into enthalpy and entropy, and "
+                   "epsilon carries bismuth's large hcp lattice-stability enthalpy (9900 J/mol)")
+def test_the_lead_bismuth_eutectic_releases_the_handbook_latent_heat(capsys):
+    # OECD/NEA LBE handbook (2015): the eutectic's latent heat of melting is 38.6 kJ/kg; 10 % allows for
+    # the scatter of calorimetry and for the model's heat capacities (the simple form of the element data).
+    assert main(["cool", "bi-pb", "--comp", "Bi=55.5wt%", "--json"]) == 0
+    out = json.loads(capsys.readouterr().out)
+    assert out["latent_heat_J_per_g"] == pytest.approx(38.6, rel=0.10)
 
 
 def _melt_json(capsys, *argv: str) -> dict:
