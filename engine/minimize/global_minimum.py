@@ -35,6 +35,12 @@ from .site_sampling import site_fraction_cloud
 #: A phase lying more than this below the equilibrium's tangent plane is missing from the answer
 #: (J/mol; scaled up by 1e-4 |G| where |G| exceeds 1e4 J/mol, the digits G carries).
 DRIVING_FORCE_TOLERANCE = 1e-6
+#: A phase at most this far below the plane (J/mol) while the phase rule leaves no room for it
+#: (N phases of N elements): the state is taken as converged. Its G lies within this of the
+#: minimum (the minimum's phases each lie no lower than the lowest driving force below the
+#: plane), and it arises where a temperature sits within about 1e-7 K of an invariant reaction,
+#: as the narrowing of a phase change on a path puts it: N + 1 phases then meet the plane.
+DEGENERATE_TOLERANCE = 1e-4
 #: Phases whose lowest sample is within `NEAR_PLANE (h / NEAR_PLANE_SPACING)^2` J/mol of the
 #: plane get Newton steps between samples, h = k^(-1/f) being the typical spacing of k samples
 #: over f degrees of freedom: the samples miss a minimum between them by about G'' h^2 / 8, about
@@ -443,6 +449,9 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
         found = _candidates(cloud, states, mu, elements, tol)
         converged = ok and not found
         if not found:
+            break
+        if ok and len(states) >= n_active and min(c[2] for c in found) > -DEGENERATE_TOLERANCE:
+            converged = True                # at an invariant temperature: see DEGENERATE_TOLERANCE
             break
         # room for one more phase: add the lowest at amount 0, unless Newton just dropped such a
         # phase again (a start inside a miscibility gap's spinodal, say): then the linear program

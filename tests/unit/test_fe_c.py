@@ -373,3 +373,19 @@ def test_cool_of_a_white_iron_names_ledeburite(capsys) -> None:
             "primary fcc": None, "eutectic fcc + Fe3C": "ledeburite"}
     assert [c["name"] for c in doc["slow_cooled_constituents"]] == [
         "secondary cementite", "pearlite", "transformed ledeburite"]
+
+
+def test_a_point_at_the_eutectic_temperature_converges(metastable) -> None:
+    """A white iron's Scheil path narrows its eutectic to within 1e-7 K, where the liquid meets
+    the austenite + cementite plane from 1e-6 J/mol below it: the answer there (two phases, the
+    most a binary has at fixed temperature) converges, and the path reports no doubtful points.
+    The liquid's distance below the plane bounds how far G can lie above the minimum."""
+    from ladle.engine.solidify.alloy_scheil import alloy_scheil
+
+    eq = equilibrate(metastable, 1421.5142272990054, np.array([1 - 0.17390612574232292, 0.17390612574232292]))
+    assert eq.converged and set(eq.phase_names) == {"fcc", "Fe3C"}
+    liquid = metastable.models["liquid"].at(eq.temperature_K)
+    g_liquid = float(liquid.gibbs(eq.x[None, :])[0])
+    assert g_liquid >= eq.gibbs_J_per_mol - 1e-4
+    x_C = _x_C(metastable, 3.5)
+    assert not any("converge" in note for note in alloy_scheil(metastable, np.array([1.0 - x_C, x_C])).notes)
