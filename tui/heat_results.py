@@ -93,6 +93,7 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
     ok = reason == ""
     names = ("liquidus", "solidus", "eutectic", "end", "eutectic_scheil")
     values = {name: np.full(rows.count, np.nan) for name in names}
+    left_range = np.zeros(rows.count, dtype=bool)
     if ok.any():
         if job.table is not None:
             r = job.table.evaluate(x[ok, 1], job.scheil)
@@ -104,7 +105,9 @@ def compute_block(job: BlockJob, first_line: int, data: bytes) -> BlockResult:
         for name, v in zip(names, (r.liquidus_K, r.solidus_K, r.eutectic_equilibrium, r.scheil_end_K,
                                    r.eutectic_scheil)):
             values[name][ok] = v
-    notes = _notes(reason, values, job.scheil)
+        if r.scheil_left_range is not None:
+            left_range[ok] = r.scheil_left_range
+    notes = _notes(reason, values, job.scheil, left_range)
 
     offset, scale = kelvin_to(0.0, job.unit), kelvin_to(1.0, job.unit) - kelvin_to(0.0, job.unit)
     comma, encoding = layout.decimal_comma, layout.encoding
@@ -184,11 +187,11 @@ def _input_cells(layout: Layout, rows: Rows) -> np.ndarray:
     return joined
 
 
-def _notes(reason: np.ndarray, values: dict, scheil: bool) -> np.ndarray:
+def _notes(reason: np.ndarray, values: dict, scheil: bool, left_range: np.ndarray) -> np.ndarray:
     """The note column: the reason a row was not computed; a computed row without a liquidus or
     solidus inside the mapped window gets that as its reason (it counts as not computed); one
-    whose Scheil liquid is still there at the bottom of the window keeps its melt range and says
-    so (the Scheil path leaves the model's range)."""
+    whose Scheil path has no end keeps its melt range and says why: its liquid left the range
+    the model covers (`left_range`), or is still there at the bottom of the window."""
     ok = reason == ""
     melt = [(np.isnan(values["liquidus"]), "not fully liquid at the top of the mapped window"),
             (np.isnan(values["solidus"]), "not fully solid at the bottom of the mapped window")]
@@ -196,5 +199,7 @@ def _notes(reason: np.ndarray, values: dict, scheil: bool) -> np.ndarray:
         reason[k] = "; ".join(text for m, text in melt if m[k])
     notes = reason.copy()
     if scheil:
-        notes[(reason == "") & np.isnan(values["end"])] = "Scheil: liquid left at the bottom of the mapped window"
+        open_end = (reason == "") & np.isnan(values["end"])
+        notes[open_end & ~left_range] = "Scheil: liquid left at the bottom of the mapped window"
+        notes[open_end & left_range] = "Scheil: not followed where the liquid leaves the range this model covers"
     return notes

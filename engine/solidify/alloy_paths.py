@@ -19,7 +19,7 @@ import numpy as np
 from ..units import mass_from_mole
 from .alloy_equilibrium import alloy_equilibrium_cooling
 from .alloy_records import AlloyPath, AlloyStep
-from .alloy_scheil import alloy_scheil
+from .alloy_scheil import OUTSIDE_RANGE, alloy_scheil
 
 #: The equilibrium scan starts this far (K) above the liquidus and ends this far below the
 #: Scheil path's end (equilibrium freezing ends no lower than Scheil freezing).
@@ -63,7 +63,10 @@ def solidify_alloy(system, x) -> AlloySolidification:
     of `system`, summing to 1), from above its liquidus to the end of freezing. Raises PathError
     (a ValueError) with one line where a path cannot be computed."""
     scheil = alloy_scheil(system, x)
-    bottom = (scheil.end_K if scheil.end_K is not None else scheil.steps[-1].temperature_K) - _MARGIN_K
-    bottom = max(bottom, system.temperature_range_K[0])
+    if scheil.end == OUTSIDE_RANGE:     # the alloy itself stays inside: its own freezing goes on below
+        bottom = system.temperature_range_K[0]
+    else:
+        bottom = (scheil.end_K if scheil.end_K is not None else scheil.steps[-1].temperature_K) - _MARGIN_K
+        bottom = max(bottom, system.temperature_range_K[0])
     equilibrium = alloy_equilibrium_cooling(system, x, scheil.liquidus_K + _MARGIN_K, bottom)
     return AlloySolidification(system, tuple(float(v) for v in x), equilibrium, scheil)

@@ -46,13 +46,16 @@ class HeatResults:
     """Per alloy (arrays of one length; NaN where there is no answer inside the mapped window):
     liquidus and solidus (K), the equilibrium eutectic constituent (mass fraction; 0 where the
     alloy does not end freezing at a eutectic), the Scheil end temperature (K) and the Scheil
-    eutectic constituent (mass fraction, or NaN without --scheil)."""
+    eutectic constituent (mass fraction, or NaN without --scheil); `scheil_left_range` is True
+    where the Scheil path stopped because its liquid left the range the model covers (systems
+    of three or more elements; None where no path can leave it)."""
 
     liquidus_K: np.ndarray
     solidus_K: np.ndarray
     eutectic_equilibrium: np.ndarray
     scheil_end_K: np.ndarray
     eutectic_scheil: np.ndarray
+    scheil_left_range: np.ndarray | None = None
 
     @property
     def freezing_range_K(self) -> np.ndarray:
@@ -188,10 +191,11 @@ def evaluate_alloys(system, x: np.ndarray, scheil: bool) -> tuple[HeatResults, l
     fractions of every element in the system's order), and for each the reason (one line) it
     could not be computed, or None. The equilibrium eutectic constituent is not computed (NaN)."""
     from ..diagrams.alloy_transitions import alloy_transitions
-    from .alloy_scheil import alloy_scheil
+    from .alloy_scheil import OUTSIDE_RANGE, alloy_scheil
 
     n = len(x)
     out = {name: np.full(n, np.nan) for name in ("liquidus", "solidus", "end", "eutectic")}
+    left_range = np.zeros(n, dtype=bool)
     problems: list[str | None] = [None] * n
     for k, alloy in enumerate(np.asarray(x, dtype=float)):
         try:
@@ -201,9 +205,11 @@ def evaluate_alloys(system, x: np.ndarray, scheil: bool) -> tuple[HeatResults, l
             if scheil:
                 path = alloy_scheil(system, alloy)
                 out["end"][k] = np.nan if path.end_K is None else path.end_K
+                left_range[k] = path.end == OUTSIDE_RANGE
                 out["eutectic"][k] = sum(c.mass_fraction for c in path.constituents if "eutectic" in c.name)
         except ValueError as e:             # PathError and TemperatureOutOfRange among them
             problems[k] = str(e).splitlines()[0] if str(e) else type(e).__name__
     if not scheil:
         out["eutectic"][:] = np.nan
-    return HeatResults(out["liquidus"], out["solidus"], np.full(n, np.nan), out["end"], out["eutectic"]), problems
+    return (HeatResults(out["liquidus"], out["solidus"], np.full(n, np.nan), out["end"], out["eutectic"], left_range),
+            problems)

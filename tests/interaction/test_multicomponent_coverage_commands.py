@@ -78,8 +78,9 @@ def test_batch_notes_the_rows_outside(system, tmp_path, capsys, monkeypatch):
     assert main(["batch", system, str(heats), "-o", str(out)]) == 1
     rows = list(csv.DictReader(io.StringIO(out.read_text())))
     # T1 lies inside; its Scheil liquid leaves the range before freezing ends (every liquid of
-    # this system ends at the ternary eutectic, 42.5 at% Bi), which the batch may note
-    assert "lies outside" not in rows[0]["note"] and rows[0]["liquidus_C"] != ""
+    # this system ends at the ternary eutectic, 42.5 at% Bi), which the batch notes as such
+    assert rows[0]["note"] == "Scheil: not followed where the liquid leaves the range this model covers"
+    assert rows[0]["liquidus_C"] != "" and rows[0]["solidus_C"] != ""
     assert rows[1]["note"] == "Sn at% 40, Bi at% 10 lies outside the range this model covers (Sn 0-30 at%, Bi 5-20 at%)"
     assert rows[2]["note"] == "Sn at% 20, Bi at% 2 lies outside the range this model covers (Sn 0-30 at%, Bi 5-20 at%)"
     assert rows[1]["liquidus_C"] == rows[2]["liquidus_C"] == ""

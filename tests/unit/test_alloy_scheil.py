@@ -173,3 +173,19 @@ def test_the_path_stops_where_the_liquid_leaves_the_covered_range(tmp_path):
     moles = sum(c.fraction_mol * np.array(c.x) for c in path.constituents)
     assert np.abs(moles - z).max() < 1e-6
     assert sum(c.mass_fraction for c in path.constituents) == pytest.approx(1.0, abs=1e-9)
+
+
+def test_the_equilibrium_path_goes_on_where_the_scheil_liquid_leaves_the_range(tmp_path):
+    """The same alloy: its Scheil liquid leaves the covered range, but the alloy itself stays
+    inside it, so its equilibrium freezing is followed to its own end, the solidus of the one-alloy
+    transition scan (the same engine path `ladle melt` takes)."""
+    from ladle.engine import load_system
+    from ladle.engine.diagrams.alloy_transitions import alloy_transitions
+    from ladle.engine.solidify.alloy_paths import solidify_alloy
+
+    system = load_system(it.write_covered_file(tmp_path))
+    z = np.array([0.80, 0.05, 0.15])
+    both = solidify_alloy(system, z)
+    assert both.scheil.end == alloy_scheil.OUTSIDE_RANGE
+    assert both.equilibrium.end != "window"
+    assert both.equilibrium.end_K == pytest.approx(alloy_transitions(system, z).solidus_K, abs=0.01)
