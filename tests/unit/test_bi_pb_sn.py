@@ -10,7 +10,8 @@ Handbook on Lead-bismuth Eutectic Alloy and Lead Properties, 2015 edition) and r
 on freezing (the same handbook; a known miss, marked); the fusible alloy
 52.5Bi-32Pb-15.5Sn (wt%) ends freezing in the ternary eutectic L = (Bi) + (Sn) + epsilon near 95 C
 (the phases as in S.W. Yoon and H.M. Lee, Calphad 22 (1998) 167; the temperature recalled from
-ASTM B774, see the file).
+ASTM B774, see the file); its liquidus projection has the two reactions with liquid that the
+assessment of Yoon and Lee has, as tabulated by U.R. Kattner (NIST solder pages, Bi-Pb-Sn, 2000).
 """
 
 from __future__ import annotations
@@ -101,6 +102,29 @@ def test_the_fusible_eutectic_alloy_ends_in_the_ternary_eutectic_of_the_three_so
     # 95 C (ASTM B774, recalled; see the file), within the project's 3 K on invariant temperatures
     assert abs(temperature_C - 95.0) <= 3.0
     assert set(last.split("->")[1].replace("+", " ").split()) == {"rhombohedral", "hcp", "bct"}
+
+
+#: The invariant reactions with liquid of the Bi-Pb-Sn system, on cooling, and their temperatures (C):
+#: calculated from the assessment of S.W. Yoon and H.M. Lee, Calphad 22 (1998) 167, as tabulated by
+#: U.R. Kattner, NIST Metallurgy Division solder pages, Bi-Pb-Sn (2000): the class II reaction
+#: L + (Pb) -> (Sn) + epsilon at 135.7 C and the ternary eutectic L -> (Sn) + epsilon + (Bi) at 98.0 C
+#: (measured on the fusible alloy at 95-96 C, see the file); no other four-phase reaction with liquid.
+LITERATURE_REACTIONS = {
+    ("quasi-peritectic", frozenset({"liquid", "fcc"}), frozenset({"hcp", "bct"})): 135.7,
+    ("eutectic", frozenset({"liquid"}), frozenset({"rhombohedral", "hcp", "bct"})): 98.0,
+}
+
+
+def test_the_liquidus_projection_has_the_literature_s_reactions_and_no_others():
+    from ladle.engine.diagrams.liquidus_projection import map_liquidus_projection
+
+    found = {(r.kind, frozenset(n for n, _x, c in r.phases if c < 0), frozenset(n for n, _x, c in r.phases if c > 0)):
+             r.temperature_K - 273.15 for r in map_liquidus_projection(find_system("bi-pb-sn")).invariants}
+    assert set(found) == set(LITERATURE_REACTIONS), sorted(found.items(), key=lambda kv: -kv[1])
+    for reaction, temperature_C in LITERATURE_REACTIONS.items():
+        # 5 K: the fit's eutectic target is the measured 95 C, 3 K below the assessment's 98.0 C,
+        # and the class II temperature was not fitted (its liquid's liquidus was, within 3 K)
+        assert found[reaction] == pytest.approx(temperature_C, abs=5.0), reaction
 
 
 def test_every_answer_says_a_computed_melting_point_qualifies_no_safety_part(capsys):

@@ -15,11 +15,26 @@ a few seconds in all):
   fitted to a phase diagram without calorimetry.
 
 Declared exceptions below name the file's own words; each is a known limit, not a pass.
+
+For every shipped system of three or more elements, built from binary files, over its covered
+compositions and temperatures (point equilibria on a coarse grid):
+
+- a solid solution phase of the binaries is stable only with the composition of a binary that
+  has it: where the phase's own two most abundant elements are A and B, the A-B binary it is
+  built on has that phase (where the second element is below 2 at%, any binary of the main
+  element). A ternary solution extends from its binary edges; a structure that no binary of its
+  main elements forms, stable in the middle of the triangle or near an edge that lacks it, is an
+  artefact of the energies of elements in structures they never take (lattice stabilities) and
+  of pairs no binary file has fitted (F.N. Rhines, Phase Diagrams in Metallurgy, McGraw-Hill
+  (1956), the chapters on ternary systems, recalled from memory: each solid solution of a ternary without ternary phases
+  is the continuation of a binary's terminal or intermediate solution).
 """
 
 from __future__ import annotations
 
+import itertools
 from functools import lru_cache
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -135,3 +150,65 @@ def test_excess_energy_keeps_its_sign(name):
             if min(abs(g1), abs(g2)) > 50.0:
                 assert np.sign(g1) == np.sign(g2), (f"{name} {pname} at {100 * x:.0f} at%: excess Gibbs energy "
                                                     f"{g1:.0f} J/mol at {T_low:.0f} K, {g2:.0f} J/mol at {T_high:.0f} K")
+
+
+#: Systems of three or more elements built from binary files.
+SHIPPED_MULTICOMPONENT = sorted(p.stem for p in shipped_folder().glob("*.toml") if p.name != "elements.toml"
+                                and len(find_system(p.stem).elements) >= 3 and find_system(p.stem).document.get("builds_on"))
+#: Grid of the multicomponent sweep: values of each gridded element over its covered range,
+#: temperature step (K), and the least mole fraction of any element on the grid.
+GRID_VALUES, MULTI_STEP_K, GRID_FLOOR = 8, 25.0, 0.005
+#: Below this mole fraction the second element of a phase is a trace: any binary of the main element will do.
+TRACE = 0.02
+
+
+def _multicomponent_grid(system) -> list[np.ndarray]:
+    """Compositions (mole fractions, the system's order) over the covered range: every element
+    but the one with the widest covered range on a grid, that one the balance; where the grid's
+    values leave the balance less than GRID_FLOOR, they are scaled down to leave it that much
+    (points along the edge where the balance is a trace)."""
+    ranges = system.element_ranges
+    balance = int(np.argmax(ranges[:, 1] - ranges[:, 0]))
+    gridded = [i for i in range(len(system.elements)) if i != balance]
+    axes = [np.linspace(max(ranges[i, 0], GRID_FLOOR), min(ranges[i, 1], 1.0 - GRID_FLOOR), GRID_VALUES)
+            for i in gridded]
+    points = []
+    for values in itertools.product(*axes):
+        x = np.zeros(len(system.elements))
+        x[gridded] = values
+        x[gridded] *= min(1.0, (1.0 - GRID_FLOOR) / x.sum())
+        x[balance] = 1.0 - x.sum()
+        if system.covered(x):
+            points.append(x)
+    return points
+
+
+def _at_percent(system, x: np.ndarray) -> str:
+    """'Bi 0.5, Pb 42.7, Sn 56.8 at%'."""
+    return ", ".join(f"{el} {100 * v:.1f}" for el, v in zip(system.elements, x)) + " at%"
+
+
+def _edge(system, x: np.ndarray) -> set[str]:
+    """The elements of the binary a phase of composition `x` continues: its two most abundant,
+    or its main element alone where the second is a trace."""
+    order = np.argsort(x)[::-1]
+    return {system.elements[i] for i in (order[:1] if x[order[1]] < TRACE else order[:2])}
+
+
+@pytest.mark.parametrize("name", SHIPPED_MULTICOMPONENT)
+def test_binary_solid_solutions_stay_where_their_binaries_have_them(name):
+    system = find_system(name)
+    binaries = [find_system(Path(f).stem) for f in system.document["builds_on"]]
+    solutions = {n for b in binaries for n in b.solutions if n != LIQUID}
+    top = min(max(t for t in system.melting_points.values() if t is not None), system.covers_K[1])
+    wrong = []
+    for T in np.arange(max(300.0, system.covers_K[0]), top, MULTI_STEP_K):
+        state = None
+        for x in _multicomponent_grid(system):
+            state = equilibrate(system, float(T), x, near=state)
+            for share in state.phases:
+                edge = _edge(system, share.x)
+                if share.name in solutions and not any(share.name in b.phases for b in binaries if edge <= set(b.elements)):
+                    wrong.append(f"{share.name} ({_at_percent(system, share.x)}) stable at {T:.0f} K in the alloy "
+                                 f"{_at_percent(system, x)}: no binary of {'-'.join(sorted(edge))} has it")
+    assert not wrong, f"{name}: {len(wrong)} points, e.g. " + "; ".join(wrong[:4])
