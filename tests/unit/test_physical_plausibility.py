@@ -26,8 +26,9 @@ compositions and temperatures (point equilibria on a coarse grid):
   main elements forms, stable in the middle of the triangle or near an edge that lacks it, is an
   artefact of the energies of elements in structures they never take (lattice stabilities) and
   of pairs no binary file has fitted (F.N. Rhines, Phase Diagrams in Metallurgy, McGraw-Hill
-  (1956), the chapters on ternary systems, recalled from memory: each solid solution of a ternary without ternary phases
-  is the continuation of a binary's terminal or intermediate solution).
+  (1956), the chapters on ternary systems, recalled from memory: each solid solution of a
+  ternary without ternary phases is the continuation of a binary's terminal or intermediate
+  solution).
 """
 
 from __future__ import annotations
@@ -154,7 +155,8 @@ def test_excess_energy_keeps_its_sign(name):
 
 #: Systems of three or more elements built from binary files.
 SHIPPED_MULTICOMPONENT = sorted(p.stem for p in shipped_folder().glob("*.toml") if p.name != "elements.toml"
-                                and len(find_system(p.stem).elements) >= 3 and find_system(p.stem).document.get("builds_on"))
+                                and len(find_system(p.stem).elements) >= 3
+                                and find_system(p.stem).document.get("builds_on"))
 #: Grid of the multicomponent sweep: values of each gridded element over its covered range,
 #: temperature step (K), and the least mole fraction of any element on the grid.
 GRID_VALUES, MULTI_STEP_K, GRID_FLOOR = 8, 25.0, 0.005
@@ -208,7 +210,8 @@ def test_binary_solid_solutions_stay_where_their_binaries_have_them(name):
             state = equilibrate(system, float(T), x, near=state)
             for share in state.phases:
                 edge = _edge(system, share.x)
-                if share.name in solutions and not any(share.name in b.phases for b in binaries if edge <= set(b.elements)):
+                holders = [b for b in binaries if edge <= set(b.elements)]
+                if share.name in solutions and not any(share.name in b.phases for b in holders):
                     wrong.append(f"{share.name} ({_at_percent(system, share.x)}) stable at {T:.0f} K in the alloy "
                                  f"{_at_percent(system, x)}: no binary of {'-'.join(sorted(edge))} has it")
     assert not wrong, f"{name}: {len(wrong)} points, e.g. " + "; ".join(wrong[:4])
