@@ -187,14 +187,18 @@ class _Expansion:
         hess.flat[::len(y) + 1] -= wE
         return value, grad, hess / np.outer(y, y)
 
+    @cached_property
+    def _slots(self) -> tuple[np.ndarray, list[TemperatureFunction]]:
+        """The flat positions in C of the coefficients that are given, and their functions."""
+        given = [(t * self.order + k, f) for t, row in enumerate(self.functions) for k, f in enumerate(row) if f is not None]
+        return np.array([i for i, _f in given], dtype=np.intp), [f for _i, f in given]
+
     def coefficients(self, T: float, derivative: bool = False) -> np.ndarray:
         """C (n_terms, order) at T (K), or dC/dT."""
-        out = np.zeros((self.n_terms, self.order))
-        for t, row in enumerate(self.functions):
-            for k, f in enumerate(row):
-                if f is not None:
-                    out[t, k] = f.derivative(T) if derivative else f.value(T)
-        return out
+        where, functions = self._slots
+        out = np.zeros(self.n_terms * self.order)
+        out[where] = [f.derivative(T) for f in functions] if derivative else [f.value(T) for f in functions]
+        return out.reshape(self.n_terms, self.order)
 
     def _factors(self, y: np.ndarray, C: np.ndarray, order: int):
         """The polynomial factor F(s) of each term and its first two derivatives in s."""
