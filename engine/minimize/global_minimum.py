@@ -35,12 +35,6 @@ from .site_sampling import site_fraction_cloud
 #: A phase lying more than this below the equilibrium's tangent plane is missing from the answer
 #: (J/mol; scaled up by 1e-4 |G| where |G| exceeds 1e4 J/mol, the digits G carries).
 DRIVING_FORCE_TOLERANCE = 1e-6
-#: A phase at most this far below the plane (J/mol) while the phase rule leaves no room for it
-#: (N phases of N elements): the state is taken as converged. Its G lies within this of the
-#: minimum (the minimum's phases each lie no lower than the lowest driving force below the
-#: plane), and it arises where a temperature sits within about 1e-7 K of an invariant reaction,
-#: as the narrowing of a phase change on a path puts it: N + 1 phases then meet the plane.
-DEGENERATE_TOLERANCE = 1e-4
 #: Phases whose lowest sample is within `NEAR_PLANE (h / NEAR_PLANE_SPACING)^2` J/mol of the
 #: plane get Newton steps between samples, h = k^(-1/f) being the typical spacing of k samples
 #: over f degrees of freedom: the samples miss a minimum between them by about G'' h^2 / 8, about
@@ -305,6 +299,31 @@ def _start_fractions(ph: _Phase, y: np.ndarray) -> np.ndarray:
     return y0
 
 
+def _exchange(states: list[PhaseState], entering: PhaseState, za: np.ndarray,
+              elements: np.ndarray) -> list[PhaseState] | None:
+    """One exact exchange (simplex) step: the phase `entering` joins the state's phases at the
+    largest amount that keeps every amount non-negative under the mass balance (the ratio test),
+    and the phases whose amount reaches zero leave. None where the state's compositions are
+    singular or nothing limits the step. Amounts in moles of atoms per mole of alloy `za`
+    (mole fractions of the present elements `elements`)."""
+    X = np.array([st.moles_per_formula_unit[elements] / st.atoms for st in states]).T
+    atoms = np.array([st.amount * st.atoms for st in states])
+    x_in = entering.moles_per_formula_unit[elements] / entering.atoms
+    try:
+        lam = np.linalg.solve(X, x_in)
+    except np.linalg.LinAlgError:
+        return None
+    limiting = lam > 1e-12
+    if not limiting.any():
+        return None
+    t = float(np.min(atoms[limiting] / lam[limiting]))
+    left = atoms - t * lam
+    kept = [PhaseState(st.name, st.model, st.y, float(a) / st.atoms, st.free)
+            for st, a in zip(states, left) if a > 1e-12 * max(1.0, t)]
+    entering.amount = t / entering.atoms
+    return kept + [entering]
+
+
 def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray) -> list[PhaseState] | None:
     """The state with its largest composition set of phase `ph` split in two: one at the site
     fractions `y` (a point below the plane), the other at the set's mirror image beyond it,
@@ -440,6 +459,7 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
     scale = abs(lp.gibbs) + 1.0
     tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * scale)
     added_to = None                         # the number of phases a zero-amount phase was added to
+    exchanged = False                       # whether this round's states come from an exchange step
     for _ in range(_ROUNDS):
         refined, mu_new, ok = solve(states, za, mu, elements)
         if ok:
@@ -450,9 +470,15 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
         converged = ok and not found
         if not found:
             break
-        if ok and len(states) >= n_active and min(c[2] for c in found) > -DEGENERATE_TOLERANCE:
-            converged = True                # at an invariant temperature: see DEGENERATE_TOLERANCE
-            break
+        if ok and len(states) >= n_active and not exchanged:
+            # no room: the lowest point enters by one exact exchange step (a phase just below the
+            # plane, within the linear program's tolerance, at a temperature next to an invariant)
+            p, y, _df = min(found, key=lambda c: c[2])
+            swapped = _exchange(states, PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free), za, elements)
+            if swapped is not None:
+                states, exchanged = swapped, True
+                continue
+        exchanged = False
         # room for one more phase: add the lowest at amount 0, unless Newton just dropped such a
         # phase again (a start inside a miscibility gap's spinodal, say): then the linear program
         # decides below, with the phase's point among its columns

@@ -376,16 +376,16 @@ def test_cool_of_a_white_iron_names_ledeburite(capsys) -> None:
 
 
 def test_a_point_at_the_eutectic_temperature_converges(metastable) -> None:
-    """A white iron's Scheil path narrows its eutectic to within 1e-7 K, where the liquid meets
-    the austenite + cementite plane from 1e-6 J/mol below it: the answer there (two phases, the
-    most a binary has at fixed temperature) converges, and the path reports no doubtful points.
-    The liquid's distance below the plane bounds how far G can lie above the minimum."""
+    """A white iron's Scheil path narrows its eutectic to within 1e-7 K, where the liquid lies
+    1e-6 J/mol below the austenite + cementite plane, within the linear program's tolerance: an
+    exact exchange step brings the liquid in, and the answer converges (no phase below it: G is
+    no higher than the all-liquid state's), and the path reports no doubtful points."""
     from ladle.engine.solidify.alloy_scheil import alloy_scheil
 
     eq = equilibrate(metastable, 1421.5142272990054, np.array([1 - 0.17390612574232292, 0.17390612574232292]))
-    assert eq.converged and set(eq.phase_names) == {"fcc", "Fe3C"}
+    assert eq.converged and "liquid" in eq.phase_names
     liquid = metastable.models["liquid"].at(eq.temperature_K)
     g_liquid = float(liquid.gibbs(eq.x[None, :])[0])
-    assert g_liquid >= eq.gibbs_J_per_mol - 1e-4
+    assert eq.gibbs_J_per_mol <= g_liquid + 1e-9
     x_C = _x_C(metastable, 3.5)
     assert not any("converge" in note for note in alloy_scheil(metastable, np.array([1.0 - x_C, x_C])).notes)
