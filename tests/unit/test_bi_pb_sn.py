@@ -22,9 +22,10 @@ import numpy as np
 import pytest
 
 from ladle.engine.files.catalog import find_system
-from ladle.engine.files.loader import load_system, shipped_folder
+from ladle.engine.files.loader import load_system
 from ladle.tui.cli import main
 from ladle.tui.explorer.cautions import caution_line
+from shipped_copies import with_liquid_L0_changed
 
 R = 8.314462618  # J/(mol K), CODATA 2018, as the engine uses
 CHANGE_J = -1500.0  # J/mol added to bi-pb's liquid L[0] in the changed copy
@@ -59,13 +60,7 @@ def test_the_ternary_liquid_is_its_three_binaries_plus_one_ternary_term(T):
 
 
 def test_a_change_to_bi_pb_changes_the_fusible_alloys(tmp_path):
-    shipped = shipped_folder()
-    text = (shipped / "bi-pb.toml").read_text(encoding="utf-8")
-    a0 = find_system("bi-pb").document["phase"]["liquid"]["L"][0]["a"]
-    old = f"L = [ {{ a = {a0!r} }} ]"
-    assert text.count(old) == 1
-    (tmp_path / "bi-pb.toml").write_text(text.replace(old, f"L = [ {{ a = {a0 + CHANGE_J!r} }} ]"), encoding="utf-8")
-    (tmp_path / "bi-pb-sn.toml").write_text((shipped / "bi-pb-sn.toml").read_text(encoding="utf-8"), encoding="utf-8")
+    with_liquid_L0_changed(tmp_path, "bi-pb", CHANGE_J, ("bi-pb-sn",))
     before, after = find_system("bi-pb-sn"), load_system(tmp_path / "bi-pb-sn.toml")
     drop = _liquid_excess(after, X, 500.0) - _liquid_excess(before, X, 500.0)
     assert np.allclose(drop, X[:, 0] * X[:, 1] * CHANGE_J, rtol=1e-9, atol=1e-7)

@@ -20,6 +20,7 @@ from ladle.engine.files.catalog import find_system
 from ladle.engine.files.loader import load_system, shipped_folder
 from ladle.engine.fitting.fit import fit
 from ladle.tui.cli import main
+from shipped_copies import with_liquid_L0_changed
 
 R = 8.314462618  # J/(mol K), CODATA 2018, as the engine uses
 CHANGE_J = -2000.0  # J/mol added to sn-cu's liquid L[0] in the changed copy
@@ -59,14 +60,7 @@ def test_the_bronze_phases_stay_out_of_the_solder_systems():
 @pytest.fixture
 def changed(tmp_path):
     """A folder with sn-cu.toml's liquid L[0] lowered by CHANGE_J and cu-sn.toml copied beside it."""
-    shipped = shipped_folder()
-    text = (shipped / "sn-cu.toml").read_text(encoding="utf-8")
-    a0 = find_system("sn-cu").document["phase"]["liquid"]["L"][0]["a"]
-    old = f"L = [ {{ a = {a0!r},"
-    assert text.count(old) == 1
-    (tmp_path / "sn-cu.toml").write_text(text.replace(old, f"L = [ {{ a = {a0 + CHANGE_J!r},"), encoding="utf-8")
-    (tmp_path / "cu-sn.toml").write_text((shipped / "cu-sn.toml").read_text(encoding="utf-8"), encoding="utf-8")
-    return tmp_path
+    return with_liquid_L0_changed(tmp_path, "sn-cu", CHANGE_J, ("cu-sn",))
 
 
 def test_a_change_to_sn_cu_changes_the_bronzes(changed):
