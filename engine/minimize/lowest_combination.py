@@ -19,7 +19,8 @@ from __future__ import annotations
 
 import numpy as np
 
-#: A point enters the basis when its driving force is below -ENTER_TOLERANCE (J/mol).
+#: A point enters the basis when its driving force is below -ENTER_TOLERANCE (J/mol, relative to
+#: 1 + |G_k|), and below the rounding of mu.x_k (see `_rounding`).
 ENTER_TOLERANCE = 1e-9
 #: Points priced in the first, coarse solve (every k-th point of a larger cloud).
 COARSE_POINTS = 400
@@ -30,6 +31,14 @@ SHORTLIST_FROM = 2000
 SHORTLIST_SHARE = 0.05
 #: Energy (J/mol) above every point given to the artificial start columns (pure elements).
 _ARTIFICIAL_MARGIN = 1e7
+
+
+def _rounding(d: float, mu: np.ndarray, x: np.ndarray) -> bool:
+    """Whether the driving force d = G_k - mu.x_k (J/mol) of a point at x lies within the
+    rounding of mu.x_k. Where an artificial column is in the basis mu reaches 1e11 J/mol, and a
+    point already in the basis would otherwise enter itself again, step after step, until the
+    iteration limit (a tin solder with ppm of Ag and Cu once stopped so, still artificial)."""
+    return d > -ENTER_TOLERANCE * float(np.abs(mu) @ x)
 
 
 class LowestCombination:
@@ -92,19 +101,22 @@ class LowestCombination:
         converged = False
         since_refactor = 0
         short = None                                 # the shortlist being priced, or None: every point
+        artificial = bool((self.basis < 0).any())    # an artificial column in the basis (see _rounding)
         while self.iterations < self.max_iterations:
             mu = cost @ inv                          # B^T mu = c_B
             if short is not None:
                 d = short_G - mu @ short_XT
                 k = int(d.argmin())
-                if d[k] > -ENTER_TOLERANCE * (1.0 + abs(short_G[k])):
+                if (d[k] > -ENTER_TOLERANCE * (1.0 + abs(short_G[k]))
+                        or artificial and _rounding(d[k], mu, short_XT[:, k])):
                     short = None                     # optimal on the shortlist: price every point
                     continue
                 k = int(short[k])
             else:
                 d = G - mu @ XT
                 k = int(d.argmin()) if len(d) else -1
-                if k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k])):
+                if (k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k]))
+                        or artificial and _rounding(d[k], mu, XT[:, k])):
                     converged = True
                     break
                 if len(d) > SHORTLIST_FROM:          # the most promising points, priced alone until
@@ -120,6 +132,8 @@ class LowestCombination:
             w = w - step * u
             w[r] = step
             self.basis[r] = k * stride
+            if artificial:
+                artificial = bool((self.basis < 0).any())
             cols[r], cost[r] = XT[:, k], G[k]
             since_refactor += 1
             if since_refactor >= 20:                 # fresh inverse now and then: rounding
