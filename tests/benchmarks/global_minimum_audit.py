@@ -29,7 +29,8 @@ models, `phase.at(T).gibbs`):
 
 A miss is a point where the engine's G lies above the reference by more than MISS_J_PER_MOL (the
 reference is a real state, so a higher engine G is a real miss; the sampling error only bounds how
-many misses the reference can overlook), or where the engine says converged=False. For binaries
+many misses the reference can overlook), where the engine says converged=False, or where it
+raises instead of answering (an error). For binaries
 the binary shortcut (`equilibrate`, independently verified) is compared as well (G, phase names,
 compositions); for a system of three elements, its binary edges (one element absent) against the
 shortcut on the shipped binary of the other two (the ternary is built on it: Muggianu's
@@ -361,6 +362,7 @@ class Tally:
     shortcut_worst_dx: float = 0.0
     shortcut_worst_dG: float = 0.0
     shortcut_differs: list = field(default_factory=list)
+    errors: list = field(default_factory=list)
     edge_points: int = 0
     edge_worst_dG: float = 0.0
     edge_differs: list = field(default_factory=list)
@@ -446,7 +448,9 @@ def audit_system(name: str, points: int, rng, verbose: bool, alloy_step: float =
             refs.clear()
             refs[key] = Reference(list(samples.values()), models, active)
         ref = refs[key].minimum(z[active])
-        eq = general_equilibrium(system, T, z)
+        eq = _engine(system, T, z, tally)
+        if eq is None:
+            continue
         dG = eq.gibbs_J_per_mol - ref["gibbs"]
         tally.points += 1
         tally.worst_dG = max(tally.worst_dG, dG)
@@ -484,6 +488,16 @@ def audit_system(name: str, points: int, rng, verbose: bool, alloy_step: float =
     return tally
 
 
+def _engine(system, T: float, z: np.ndarray, tally: Tally):
+    """The engine's answer, or None with the case kept as an error where it raises."""
+    try:
+        return general_equilibrium(system, T, z)
+    except ValueError as e:
+        tally.points += 1
+        tally.errors.append({"system": system.name, "T_K": T, "x": [float(v) for v in z], "error": str(e)})
+        return None
+
+
 def edges(system, rng, points: int, tally: Tally) -> None:
     """The ternary `system` on its binary edges against the binary shortcut of the shipped binary
     of the same two elements, at random temperatures and compositions both files cover (a third
@@ -505,7 +519,10 @@ def edges(system, rng, points: int, tally: Tally) -> None:
             z[idx] = (1.0 - x_b, x_b)
             if not (system.covered(z) and binary.covered(z[idx])):
                 continue
-            ternary, fast = general_equilibrium(system, T, z), equilibrate(binary, T, z[idx])
+            ternary = _engine(system, T, z, tally)
+            if ternary is None:
+                continue
+            fast = equilibrate(binary, T, z[idx])
             dG = abs(ternary.gibbs_J_per_mol - fast.gibbs_J_per_mol)
             tally.edge_points += 1
             tally.edge_worst_dG = max(tally.edge_worst_dG, dG)
@@ -538,7 +555,9 @@ def screen_system(name: str, temperatures: int, per_T: int, rng, verbose: bool,
             mu = ref._facet_at(z)
             if mu is None:
                 continue
-            eq = general_equilibrium(system, T, z)
+            eq = _engine(system, T, z, tally)
+            if eq is None:
+                continue
             dG = eq.gibbs_J_per_mol - float(z @ mu)
             tally.points += 1
             case = {"system": name, "T_K": T, "x": [float(v) for v in z], "converged": eq.converged,
@@ -591,6 +610,7 @@ def main(argv: list[str] | None = None) -> int:
             "shortcut_worst_dx": t.shortcut_worst_dx, "shortcut_worst_dG_J_per_mol": t.shortcut_worst_dG,
             "shortcut_differs": t.shortcut_differs[:5], "edge_points": t.edge_points,
             "edge_worst_dG_J_per_mol": t.edge_worst_dG, "edge_differs": t.edge_differs[:5],
+            "errors": len(t.errors), "error_cases": t.errors[:5],
             "seconds": round(t.seconds, 1),
             "miss_cases": t.misses[:10], "unconverged_cases": t.unconverged[:10]}
         if not args.json:
@@ -598,10 +618,11 @@ def main(argv: list[str] | None = None) -> int:
                   f"worst dG {t.worst_dG:.3g} J/mol (reference error <= {t.worst_error:.2g}), "
                   f"phase sets differ at {t.phase_set_differs}; shortcut {t.shortcut_points} points, "
                   f"worst dx {t.shortcut_worst_dx:.2g}, {len(t.shortcut_differs)} differ; binary edges {t.edge_points} points, "
-                  f"worst dG {t.edge_worst_dG:.2g} J/mol, {len(t.edge_differs)} differ; {t.seconds:.0f} s", flush=True)
+                  f"worst dG {t.edge_worst_dG:.2g} J/mol, {len(t.edge_differs)} differ; {len(t.errors)} errors; {t.seconds:.0f} s", flush=True)
     s = report["systems"].values()
     report["points"] = sum(v["points"] for v in s)
-    report["misses"] = sum(v["misses"] + v["unconverged"] + len(v["shortcut_differs"]) + len(v["edge_differs"]) for v in s)
+    report["misses"] = sum(v["misses"] + v["unconverged"] + v["errors"] + len(v["shortcut_differs"]) + len(v["edge_differs"])
+                           for v in s)
     report["worst_dG_J_per_mol"] = max(v["worst_dG_J_per_mol"] for v in s)
     if args.json:
         print(json.dumps(report, indent=1))
