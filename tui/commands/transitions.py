@@ -34,6 +34,8 @@ def run(args: argparse.Namespace) -> int:
     from ladle.engine.files.trade_names import trade_names
     from ladle.engine.units import mass_from_mole
 
+    from ..treatment_window import treatment_window
+
     system = open_system(args.system, args.without)
     x, alloy = read_alloy(system, args.comp)
     if args.step is not None and not (0.01 <= args.step <= 100.0):
@@ -41,7 +43,7 @@ def run(args: argparse.Namespace) -> int:
     result = alloy_transitions(system, x, **({} if args.step is None else {"step_K": args.step}))
     names = trade_names(system)
     labels = line_labels(result, names.line)
-    window = _window(system, result, labels, names.heat_treatment)
+    window = treatment_window(system, result, labels, names.heat_treatment)
     constituents = ()
     if names.heat_treatment == "austenitizing":
         from ladle.engine.diagrams.heat_treatment import slow_cooled_constituents
@@ -53,32 +55,6 @@ def run(args: argparse.Namespace) -> int:
         return 0
     print("\n".join(_render(system, result, labels, names, window, constituents, alloy, x, w, args.unit)))
     return 0
-
-
-def _window(system, result, labels: dict[int, str], treatment: str | None):
-    """The heat-treatment window the system's file asks for, or None."""
-    from ladle.engine.diagrams.heat_treatment import austenitizing_window, solution_window
-
-    if treatment == "austenitizing":
-        return austenitizing_window(result, labels)
-    if treatment == "solution":
-        scheil_end = None
-        if "liquid" in system.phases:
-            from ladle.engine.solidify.records import PathError
-
-            try:
-                if len(system.elements) == 2:
-                    from ladle.engine.solidify.scheil import ScheilCooling
-
-                    scheil_end = ScheilCooling(system, float(result.composition[1])).end_K
-                else:
-                    from ladle.engine.solidify.alloy_scheil import alloy_scheil
-
-                    scheil_end = alloy_scheil(system, result.composition).end_K
-            except PathError:
-                scheil_end = None
-        return solution_window(result, scheil_end)
-    return None
 
 
 def _json(system, result, labels: dict[int, str], window, constituents, x, w) -> dict:

@@ -16,11 +16,11 @@ from dataclasses import dataclass
 import numpy as np
 
 from ladle.engine.diagrams.alloy_transitions import AlloyTransitions, alloy_transitions
-from ladle.engine.diagrams.heat_treatment import (HeatTreatmentWindow, austenitizing_window, line_labels,
-                                                  solution_window)
+from ladle.engine.diagrams.heat_treatment import HeatTreatmentWindow, line_labels
 from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import kelvin_to
 
+from ..treatment_window import treatment_window
 from .exploration import crossing_name
 
 #: Scan step (K) and bracket (K) of the cursor's alloy's transitions.
@@ -53,16 +53,11 @@ def shows_changes(system) -> bool:
 def alloy_changes(system, x: np.ndarray) -> AlloyChanges:
     """The transitions of the alloy `x` (mole fractions), their trade names and the window
     (slow, a few seconds for Fe-C: run it in a worker). The solution-treatment window's top is
-    the equilibrium solidus here (the Scheil end is not computed: the window says so)."""
+    the lower of the equilibrium solidus and the end of Scheil freezing, as in `ladle transitions`."""
     names = trade_names(system)
     result = alloy_transitions(system, x, step_K=SCAN_STEP_K, tolerance_K=SCAN_TOLERANCE_K)
     labels = line_labels(result, names.line)
-    window = None
-    if names.heat_treatment == "austenitizing":
-        window = austenitizing_window(result, labels)
-    elif names.heat_treatment == "solution":
-        window = solution_window(result, None)
-    return AlloyChanges(result, labels, window)
+    return AlloyChanges(result, labels, treatment_window(system, result, labels, names.heat_treatment))
 
 
 def change_lines(system, changes: AlloyChanges | str | None, unit: str, unit_text: str) -> list[Line]:
