@@ -20,7 +20,10 @@ from __future__ import annotations
 import numpy as np
 
 #: A point enters the basis when its driving force is below -ENTER_TOLERANCE (J/mol, relative to
-#: 1 + |G_k|), and below the rounding of mu.x_k (see `_rounding`).
+#: 1 + |G_k|) and it is not in the basis already: while an artificial column is in the basis, mu
+#: reaches 1e11 J/mol and the rounding of mu.x alone can put a basic point's driving force below
+#: the tolerance, even with a fresh inverse; entering itself changes nothing, so it did so until
+#: the iteration limit (a tin solder with ppm of Ag and Cu stopped so, still artificial).
 ENTER_TOLERANCE = 1e-9
 #: Points priced in the first, coarse solve (every k-th point of a larger cloud).
 COARSE_POINTS = 400
@@ -31,14 +34,6 @@ SHORTLIST_FROM = 2000
 SHORTLIST_SHARE = 0.05
 #: Energy (J/mol) above every point given to the artificial start columns (pure elements).
 _ARTIFICIAL_MARGIN = 1e7
-
-
-def _rounding(d: float, mu: np.ndarray, x: np.ndarray) -> bool:
-    """Whether the driving force d = G_k - mu.x_k (J/mol) of a point at x lies within the
-    rounding of mu.x_k. Where an artificial column is in the basis mu reaches 1e11 J/mol, and a
-    point already in the basis would otherwise enter itself again, step after step, until the
-    iteration limit (a tin solder with ppm of Ag and Cu once stopped so, still artificial)."""
-    return d > -ENTER_TOLERANCE * float(np.abs(mu) @ x)
 
 
 class LowestCombination:
@@ -101,27 +96,36 @@ class LowestCombination:
         converged = False
         since_refactor = 0
         short = None                                 # the shortlist being priced, or None: every point
-        artificial = bool((self.basis < 0).any())    # an artificial column in the basis (see _rounding)
+        artificial = bool((self.basis < 0).any())    # an artificial column in the basis (see ENTER_TOLERANCE)
         while self.iterations < self.max_iterations:
             mu = cost @ inv                          # B^T mu = c_B
             if short is not None:
                 d = short_G - mu @ short_XT
                 k = int(d.argmin())
-                if (d[k] > -ENTER_TOLERANCE * (1.0 + abs(short_G[k]))
-                        or artificial and _rounding(d[k], mu, short_XT[:, k])):
+                if d[k] > -ENTER_TOLERANCE * (1.0 + abs(short_G[k])):
                     short = None                     # optimal on the shortlist: price every point
                     continue
                 k = int(short[k])
             else:
                 d = G - mu @ XT
                 k = int(d.argmin()) if len(d) else -1
-                if (k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k]))
-                        or artificial and _rounding(d[k], mu, XT[:, k])):
+                if k < 0 or d[k] > -ENTER_TOLERANCE * (1.0 + abs(G[k])):
                     converged = True
                     break
                 if len(d) > SHORTLIST_FROM:          # the most promising points, priced alone until
                     short = np.flatnonzero(d < SHORTLIST_SHARE * d[k])     # none of them enters
                     short_XT, short_G = XT[:, short], G[short]
+            if artificial and k * stride in self.basis:     # entering itself would change nothing
+                if since_refactor:                   # a fresh inverse first, as every 20th step makes
+                    inv = np.linalg.inv(cols.T)
+                    w = inv @ self.z
+                    since_refactor = 0
+                    continue
+                if short is not None:
+                    short = None
+                    continue
+                converged = True                     # still priced below by rounding alone: optimal
+                break
             u = inv @ XT[:, k]
             r, step = -1, np.inf                     # the ratio test, in Python floats (N is small)
             for i, (ui, wi) in enumerate(zip(u.tolist(), w.tolist())):
