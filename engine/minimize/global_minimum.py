@@ -514,7 +514,7 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
         restart = np.array(state_columns) if good and len(state_columns) == n_active else None
         lp.add(np.array(add_X), np.array(add_G), restart)
         states, mu, good = _start_states(lp, cloud, active), lp.mu, False
-    return _result(states, mu, z, active, elements, converged, phases)
+    return _result(states, mu, z, active, elements, converged)
 
 
 def _from_nearby(near, phases: list[_Phase], cloud: _Cloud, z: np.ndarray, active: np.ndarray,
@@ -551,7 +551,7 @@ def _from_nearby(near, phases: list[_Phase], cloud: _Cloud, z: np.ndarray, activ
     tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * (abs(gibbs) + 1.0))
     if _candidates(cloud, refined, mu, elements, tol):
         return None
-    return _result(refined, mu, z, active, elements, True, phases)
+    return _result(refined, mu, z, active, elements, True)
 
 
 def _phase_index(phases: list[_Phase], name: str) -> int:
@@ -560,16 +560,16 @@ def _phase_index(phases: list[_Phase], name: str) -> int:
 
 
 def _result(states: list[PhaseState], mu_active: np.ndarray, z: np.ndarray, active: np.ndarray,
-            elements: np.ndarray, converged: bool, phases: list[_Phase]) -> GlobalMinimum:
+            elements: np.ndarray, converged: bool) -> GlobalMinimum:
     """The answer: per phase its site fractions, amount (moles of atoms) and composition; mu of
     every element (NaN where absent or undetermined); G and dG/dT per mole of atoms. The phases
-    come in the order of `phases` (the system's), composition sets of one phase by their site
-    fractions, so that an answer reads the same however it was found."""
+    come in the order of their mole fractions of the second element, then the third, ... (a
+    binary's from A-rich to B-rich, as the binary path gives them), so that an answer reads the
+    same however it was found."""
     out = []
     gibbs = gibbs_dT = 0.0
     states = [st for st in states if st.amount * st.atoms > VANISHING_AMOUNT] or states
-    order = {ph.name: k for k, ph in enumerate(phases)}
-    states = sorted(states, key=lambda st: (order[st.name], tuple(st.y)))
+    states = sorted(states, key=lambda st: (tuple(st.moles_per_formula_unit[1:] / st.atoms), st.name))
     for st in states:
         with np.errstate(all="ignore"):
             n = st.y @ st.model.element_matrix
