@@ -62,18 +62,22 @@ def _umask() -> int:
 
 
 def _remove_live_temporaries(signum: int, frame: object) -> None:
-    """Signal handler: remove this process's temporary files, then act as before."""
-    for tmp in list(_LIVE):
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-    _LIVE.clear()
+    """Signal handler: act as before the write; where that ends the process (the default
+    action), remove this process's temporary files first. A handler of the program's own runs
+    instead, and the write goes on (a heat list's handler records the stop and saves its state
+    after the block: removing the temporary file under the write made that save fail); if the
+    handler raises, the write's own clean-up removes the file."""
     previous = _PREVIOUS_HANDLERS.get(signum, signal.SIG_DFL)
     signal.signal(signum, previous)
     if callable(previous):
         previous(signum, frame)
     elif previous == signal.SIG_DFL:
+        for tmp in list(_LIVE):
+            try:
+                os.unlink(tmp)
+            except OSError:
+                pass
+        _LIVE.clear()
         os.kill(os.getpid(), signum)
 
 

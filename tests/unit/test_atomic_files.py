@@ -133,3 +133,28 @@ def test_files_written_together_share_one_number(tmp_path):
     assert [p.name for p in first] == ["screen-2.txt", "screen-2.svg"]
     assert [p.name for p in second] == ["screen-3.txt", "screen-3.svg"]
     assert (tmp_path / "screen.svg").read_text() == "older svg" and not (tmp_path / "screen.txt").exists()
+
+
+def test_a_signal_the_program_handles_lets_the_write_finish(tmp_path, monkeypatch):
+    """A heat list records SIGTERM with a handler of its own and saves its state after the block:
+    a SIGTERM arriving in the middle of that save must not take the temporary file away under
+    it (it did: 'cannot write: No such file or directory', exit status 2 instead of 143). The
+    program's handler runs, the file is written whole, and no temporary file is left."""
+    import signal
+
+    got = []
+    previous = signal.signal(signal.SIGTERM, lambda signum, frame: got.append(signum))
+    real_fsync = os.fsync
+
+    def fsync_then_signal(fd):
+        real_fsync(fd)
+        os.kill(os.getpid(), signal.SIGTERM)      # delivered here, between the write and the rename
+
+    monkeypatch.setattr(os, "fsync", fsync_then_signal)
+    try:
+        write_atomic(tmp_path / "state.json", '{"done": 3}')
+    finally:
+        signal.signal(signal.SIGTERM, previous)
+    assert got == [signal.SIGTERM]
+    assert (tmp_path / "state.json").read_text() == '{"done": 3}'
+    assert [p.name for p in tmp_path.iterdir()] == ["state.json"]
