@@ -299,13 +299,12 @@ def _start_fractions(ph: _Phase, y: np.ndarray) -> np.ndarray:
     return y0
 
 
-def _exchange(states: list[PhaseState], entering: PhaseState, za: np.ndarray,
-              elements: np.ndarray) -> list[PhaseState] | None:
+def _exchange(states: list[PhaseState], entering: PhaseState, elements: np.ndarray) -> list[PhaseState] | None:
     """One exact exchange (simplex) step: the phase `entering` joins the state's phases at the
     largest amount that keeps every amount non-negative under the mass balance (the ratio test),
     and the phases whose amount reaches zero leave. None where the state's compositions are
-    singular or nothing limits the step. Amounts in moles of atoms per mole of alloy `za`
-    (mole fractions of the present elements `elements`)."""
+    singular or nothing limits the step. Amounts in moles of atoms per mole of alloy, mass
+    balance over the present elements `elements`."""
     X = np.array([st.moles_per_formula_unit[elements] / st.atoms for st in states]).T
     atoms = np.array([st.amount * st.atoms for st in states])
     x_in = entering.moles_per_formula_unit[elements] / entering.atoms
@@ -474,7 +473,7 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
             # no room: the lowest point enters by one exact exchange step (a phase just below the
             # plane, within the linear program's tolerance, at a temperature next to an invariant)
             p, y, _df = min(found, key=lambda c: c[2])
-            swapped = _exchange(states, PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free), za, elements)
+            swapped = _exchange(states, PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free), elements)
             if swapped is not None:
                 states, exchanged = swapped, True
                 continue
