@@ -47,14 +47,20 @@ def _row(text: str, label: str) -> float:
     raise AssertionError(f"no row {label!r} in:\n{text}")
 
 
+async def _go_to_steel(pilot, app, point: str) -> None:
+    """Once the diagram is mapped, go to `point` (typed as at the g prompt) and wait for the
+    alloy's changes."""
+    await until(pilot, lambda: _settled(app), "the diagram", MAPPING_S)
+    await pilot.press("g", *point, "enter")
+    await until(pilot, lambda: _settled(app), "the steel's changes", MAPPING_S)
+
+
 @pilot_test
 async def test_a_steel_shows_its_lines_changes_and_austenitizing_window():
     """A 0.4 wt% C steel at 800 C on the iron-cementite diagram."""
     app = section_app("fe-fe3c")
     async with app.run_test(size=SIZE) as pilot:
-        await until(pilot, lambda: _settled(app), "the diagram", MAPPING_S)
-        await pilot.press("g", *"0.4wt% 800C", "enter")
-        await until(pilot, lambda: _settled(app), "the steel's changes", MAPPING_S)
+        await _go_to_steel(pilot, app, "0.4wt% 800C")
         text, screen = status_text(app), screen_text(app)
         assert "800.0 °C" in text and "C 0.400 wt%" in text
         assert "austenite" in text                      # the trade's name of fcc, from fe-c.toml
@@ -78,9 +84,7 @@ async def test_a_steel_shows_its_lines_changes_and_austenitizing_window():
 async def test_a_hypereutectoid_steel_is_hardened_between_a1_and_acm():
     app = section_app("fe-fe3c")
     async with app.run_test(size=SIZE) as pilot:
-        await until(pilot, lambda: _settled(app), "the diagram", MAPPING_S)
-        await pilot.press("g", *"1.2wt% 760C", "enter")
-        await until(pilot, lambda: _settled(app), "the steel's changes", MAPPING_S)
+        await _go_to_steel(pilot, app, "1.2wt% 760C")
         text = status_text(app)
         assert "AUSTENITIZING, A1 to Acm" in text and "austenite + cementite" in text
         assert _row(text, "A1") < _row(text, "Acm")
