@@ -379,12 +379,16 @@ def composition_sets(points: list) -> list[str]:
     return sorted(n for n, _x in sets)
 
 
-def temperature_window(system) -> tuple[float, float]:
+def temperature_window(system, within: tuple[float, float] | None = None) -> tuple[float, float]:
+    """The temperatures (K) the audit samples: the covered range inside the models' range (else
+    the diagram window), narrowed to `within` where given."""
     lo, hi = system.covers_K
     m_lo, m_hi = system.model_range_K
     t_lo, t_hi = system.temperature_range_K
     lo = max(lo, m_lo) if np.isfinite(lo) and lo > 0 else t_lo
     hi = min(hi, m_hi) if np.isfinite(hi) else t_hi
+    if within is not None:
+        lo, hi = max(lo, within[0]), min(hi, within[1])
     return lo, hi
 
 
@@ -426,9 +430,7 @@ def named_alloys(system) -> list[tuple[str, np.ndarray]]:
 def audit_system(name: str, points: int, rng, verbose: bool, alloy_step: float = 20.0,
                  window: tuple[float, float] | None = None, dilute: float = 0.25) -> Tally:
     system = find_system(name)
-    lo, hi = temperature_window(system)
-    if window is not None:
-        lo, hi = max(lo, window[0]), min(hi, window[1])
+    lo, hi = temperature_window(system, window)
     tally = Tally()
     t0 = time.perf_counter()
     cases = [(T, z) for T, z in zip(rng.uniform(lo, hi, points), compositions(system, rng, points, dilute))]
@@ -539,9 +541,7 @@ def screen_system(name: str, temperatures: int, per_T: int, rng, verbose: bool,
     the alloy: itself a real state, so an engine G above it is a miss); the full reference
     (refined, with scipy's local searches) is computed only where the engine lies above the hull."""
     system = find_system(name)
-    lo, hi = temperature_window(system)
-    if window is not None:
-        lo, hi = max(lo, window[0]), min(hi, window[1])
+    lo, hi = temperature_window(system, window)
     tally = Tally()
     t0 = time.perf_counter()
     clouds = [phase_cloud(p, ph.at(lo), n_grid if len(system.elements) == 3 else 4000)
