@@ -5,9 +5,10 @@ Memory stays bounded: only a window of blocks is in flight (a few per worker), a
 per heat is 16 bytes for the duplicate-identifier check (up to DUPLICATE_CHECK_LIMIT heats).
 With `-o`, the rows go to a partial file beside the output (`.NAME.ladle-partial`) that is
 renamed into place at the end, so the output appears whole or not at all; a state file beside
-it (`.NAME.ladle-state.json`) records after each block how far the run got, so that a run
-stopped by Ctrl-C, SIGTERM or a dropped SSH session (SIGHUP) continues with `--resume`,
-computing only the blocks not yet written.
+it (`.NAME.ladle-state.json`) records how far the run got (every CHECKPOINT_S seconds, and at
+once when a signal stops the run or a worker is lost), so that a run stopped by Ctrl-C, SIGTERM,
+a dropped SSH session (SIGHUP) or a killed worker continues with `--resume`, computing only the
+blocks not yet written.
 """
 
 from __future__ import annotations
@@ -419,6 +420,9 @@ def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals
                         saved_at = time.monotonic()
                     progress.show(totals.heats, line)
                     stop.check()
+            except CommandError:                    # a worker lost: what is written can be resumed
+                _save_state(plan, out, state_file, totals, offset, line)
+                raise
             finally:
                 progress.close()
                 workers.close()

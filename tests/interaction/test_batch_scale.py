@@ -304,6 +304,9 @@ def test_a_worker_process_killed_is_one_line_and_the_run_resumes(tmp_path, small
         return compute(job, first_line, data)
 
     monkeypatch.setattr(runs, "compute_block", dies_some_blocks_in)
+    # no timed checkpoint: the state that --resume needs is saved where the worker is lost (a
+    # quick run used to end before its first checkpoint, leaving nothing to resume)
+    monkeypatch.setattr(runs, "CHECKPOINT_S", 1e9)
     assert _run(["batch", "al-si", str(heats), "-o", str(out), "--workers", "2"]) == 2
     err = capsys.readouterr().err
     assert "a worker process ended unexpectedly" in err and err.count("\n") == 1 and not out.exists()
