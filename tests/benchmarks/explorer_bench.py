@@ -44,6 +44,8 @@ import sys
 import tempfile
 import termios
 import time
+from collections.abc import Iterator
+from contextlib import contextmanager
 
 QUIET_S = 0.15          # the screen is complete when no byte arrives for this long
 FINE_RIGHT, FINE_UP, FINE_DOWN = "\x1b[1;2C", "\x1b[1;2A", "\x1b[1;2B"   # shift+arrows
@@ -76,18 +78,30 @@ def _read_until_quiet(fd: int, quiet_s: float, limit_s: float) -> tuple[bytes, f
     return bytes(data), last
 
 
-def _start(system: str, state_dir: str) -> tuple[subprocess.Popen, int, float]:
-    master, slave = pty.openpty()
-    fcntl.ioctl(slave, termios.TIOCSWINSZ, struct.pack("HHHH", 24, 80, 0, 0))
-    env = dict(os.environ, TERM="xterm-256color", XDG_STATE_HOME=state_dir,
-               COLUMNS="80", LINES="24")
-    env.pop("NO_COLOR", None)
-    code = "import sys; from ladle.tui.explorer import run; sys.exit(run(sys.argv[1:]))"
-    started = time.perf_counter()
-    process = subprocess.Popen([sys.executable, "-c", code, system], stdin=slave, stdout=slave,
-                               stderr=slave, env=env, close_fds=True, start_new_session=True)
-    os.close(slave)
-    return process, master, started
+@contextmanager
+def _explorer(system: str) -> Iterator[tuple[subprocess.Popen, int, float]]:
+    """The explorer on `system` in an 80x24 pseudo-terminal with a state folder of its own:
+    (process, the terminal's file descriptor, start time); on leaving, 'q' quits it (killed if it
+    does not end) and the terminal is closed."""
+    with tempfile.TemporaryDirectory() as state_dir:
+        master, slave = pty.openpty()
+        fcntl.ioctl(slave, termios.TIOCSWINSZ, struct.pack("HHHH", 24, 80, 0, 0))
+        env = dict(os.environ, TERM="xterm-256color", XDG_STATE_HOME=state_dir,
+                   COLUMNS="80", LINES="24")
+        env.pop("NO_COLOR", None)
+        code = "import sys; from ladle.tui.explorer import run; sys.exit(run(sys.argv[1:]))"
+        started = time.perf_counter()
+        process = subprocess.Popen([sys.executable, "-c", code, system], stdin=slave, stdout=slave,
+                                   stderr=slave, env=env, close_fds=True, start_new_session=True)
+        os.close(slave)
+        try:
+            yield process, master, started
+            os.write(master, b"q")
+            process.wait(timeout=10)
+        finally:
+            if process.poll() is None:
+                process.kill()
+            os.close(master)
 
 
 def _first_screen(fd: int, started: float) -> float:
@@ -170,29 +184,21 @@ def _use(fd: int, seconds: float) -> None:
 
 
 def measure(system: str, presses: int, use_s: float) -> dict:
-    with tempfile.TemporaryDirectory() as state_dir:
-        process, fd, started = _start(system, state_dir)
-        try:
-            first = _first_screen(fd, started)
-            views = _views(fd, presses)
-            new_alloys = _new_alloys(fd, 5)
-            _press(fd, "1")
-            picker = _picker(fd, 5)
-            _use(fd, use_s)
-            _read_until_quiet(fd, 1.5, 10.0)   # let the last frame and the state save pass
-            resident = _resident_mb(process.pid)
-            idle_start = time.perf_counter()
-            quiet_bytes = bytearray()
-            while time.perf_counter() - idle_start < 3.0:
-                ready, _, _ = select.select([fd], [], [], 0.2)
-                if ready:
-                    quiet_bytes += os.read(fd, 65536)
-            os.write(fd, b"q")
-            process.wait(timeout=10)
-        finally:
-            if process.poll() is None:
-                process.kill()
-            os.close(fd)
+    with _explorer(system) as (process, fd, started):
+        first = _first_screen(fd, started)
+        views = _views(fd, presses)
+        new_alloys = _new_alloys(fd, 5)
+        _press(fd, "1")
+        picker = _picker(fd, 5)
+        _use(fd, use_s)
+        _read_until_quiet(fd, 1.5, 10.0)   # let the last frame and the state save pass
+        resident = _resident_mb(process.pid)
+        idle_start = time.perf_counter()
+        quiet_bytes = bytearray()
+        while time.perf_counter() - idle_start < 3.0:
+            ready, _, _ = select.select([fd], [], [], 0.2)
+            if ready:
+                quiet_bytes += os.read(fd, 65536)
     return {
         "system": system,
         "start_to_first_screen_s": round(first, 3),
@@ -224,22 +230,14 @@ def _mapped(fd: int, started: float, limit_s: float = 300.0) -> float:
 
 def measure_isopleth(system: str, presses: int) -> dict:
     """Key-to-screen times on a mapped isopleth (see the module's docstring)."""
-    with tempfile.TemporaryDirectory() as state_dir:
-        process, fd, started = _start(system, state_dir)
-        try:
-            mapped = _mapped(fd, started)
-            temperature = [_press(fd, (UP, DOWN)[i % 2]) for i in range(presses)]
-            composition = []
-            for i in range(presses):
-                composition.append(_press(fd, (RIGHT, LEFT)[i % 2]))
-                _read_until_quiet(fd, 1.0, 60.0)            # the transitions of the new alloy
-            idle, _ = _read_until_quiet(fd, 3.0, 3.0)
-            os.write(fd, b"q")
-            process.wait(timeout=10)
-        finally:
-            if process.poll() is None:
-                process.kill()
-            os.close(fd)
+    with _explorer(system) as (_process, fd, started):
+        mapped = _mapped(fd, started)
+        temperature = [_press(fd, (UP, DOWN)[i % 2]) for i in range(presses)]
+        composition = []
+        for i in range(presses):
+            composition.append(_press(fd, (RIGHT, LEFT)[i % 2]))
+            _read_until_quiet(fd, 1.0, 60.0)            # the transitions of the new alloy
+        idle, _ = _read_until_quiet(fd, 3.0, 3.0)
     return {
         "system": system,
         "start_to_mapped_s": round(mapped - started, 2),
