@@ -49,7 +49,7 @@ class _Parser(argparse.ArgumentParser):
 def build_parser(command: str | None = None) -> tuple[argparse.ArgumentParser, dict]:
     """The `ladle` parser, with the arguments of `command` only (every command is listed with
     its one-line help; building the others' arguments would only cost time)."""
-    parser = _Parser(prog="ladle", description="Phase equilibria of binary alloys from Gibbs-energy models. "
+    parser = _Parser(prog="ladle", description="Phase equilibria of alloys (binary and multicomponent) from Gibbs-energy models. "
                      "Without a command, `ladle [SYSTEM] [--ascii]` opens the full-screen explorer "
                      "(on the system named, else the one used last; --ascii or LADLE_ASCII=1 draws "
                      "with plain ASCII for old terminals and serial consoles).")
