@@ -103,6 +103,10 @@ KNOWN_FAILURES = {
                   "1.4-2.9 at% that Shen's (2023) solid-solution and precipitation-hardened alloys bracket",
     ("sn-ag", 2): "the refitted liquid mixes exothermically, as calorimetry says, but only -0.5 kJ/mol at 30 at% Ag "
                   "against about -2 (recalled): Ag3Sn's energy is fixed by the author and the liquidus holds the liquid",
+    ("sn-cu", 1): "Multicore's datasheet gives 97Sn-3Cu a 250 C liquidus; the model's 311.6 C follows the 310 C "
+                  "recalled from memory that the fit holds for the same alloy: the two sources disagree by 60 K and no "
+                  "measured tin-rich Cu-Sn liquidus was at hand to settle it (not refitted: the liquid is shared with "
+                  "cu-sn and ag-cu-sn)",
 }
 
 #: Systems with fewer than four independent checks -> why (strict: the count is checked, so adding
@@ -129,12 +133,15 @@ SHORT_OF_CHECKS = {
     "pb-sb": (2, "no liquidus temperatures from a source at hand (lead producers' pages found give compositions, not "
                  "melting ranges; the 1926-27 AIME liquidus and solidus papers were not readable); the evaluation's other "
                  "solubilities are fit targets"),
-    "sn-ag": (2, "Indium's listed Sn95Ag5 and Sn90Ag10 liquidus temperatures are fit targets, the makers' other binary "
-                 "listings are the eutectic itself; no further liquidus, (Sn) solvus or sourced calorimetry of the melt "
-                 "(the calorimetry abstracts found give no numbers) beyond the (recalled) mixing enthalpy"),
-    "sn-cu": (1, "its liquid and (Cu) are shared with cu-sn and fitted to facts of both sides; within 0-6 at% Cu "
-                 "the 97Sn-3Cu liquidus, the eutectic and Cu6Sn5's calorimetry are fit targets, and no further "
-                 "tin-rich liquidus or solvus value was at hand (the bound on Cu in (Sn) is the check)"),
+    "sn-ag": (3, "Indium's listed Sn95Ag5 and Sn90Ag10 liquidus temperatures are fit targets, the makers' other binary "
+                 "listings are the eutectic itself; besides the (recalled) mixing enthalpy and the Sn97Ag3 liquidus, "
+                 "Ag3Sn's EMF enthalpy of formation (2025) is the one further fact found; no further liquidus, (Sn) "
+                 "solvus or sourced calorimetry of the melt (the calorimetry abstracts found give no numbers)"),
+    "sn-cu": (2, "its liquid and (Cu) are shared with cu-sn and fitted to facts of both sides; within 0-6 at% Cu "
+                 "the 97Sn-3Cu liquidus (recalled), the eutectic and Cu6Sn5's calorimetry are fit targets; the checks "
+                 "are the bound on Cu in (Sn) and Multicore's 97Sn-3Cu liquidus (a known miss); no further tin-rich "
+                 "liquidus, solvus or calorimetry value was at hand (solder tables found list Sn-Cu grades with Ag "
+                 "or Ni added, abstracts on Cu dissolution in tin give no numbers)"),
     "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets, and the evaluation's "
                  "summary gives only the eutectic and the two solubilities it fixes; the makers' Sn-Zn listings found "
                  "are the eutectic, and the calorimetry abstracts of the melt give no numbers"),
