@@ -71,6 +71,10 @@ KNOWN_FAILURES = {
                   "out 80 times Trumbore's 2.5e-5",
     ("au-si", 3): "the model's (Au) holds 0.22 at% Si at 360 C, above the evaluation's bound of 0.1 at%: its fcc "
                   "interaction is set by hand",
+    ("au-si", 4): "the model's (Si) holds 0.050 at% Au at 1000 C, about 2900 times Collins et al.'s 1.75e-5 at% (their "
+                  "Arrhenius fit): gold in diamond is set by hand (fcc Au + 30 kJ/mol, L 30 kJ/mol), as for k0",
+    ("au-si", 5): "the model's (Si) holds 0.059 at% Au at 1150 C, about 600 times Collins et al.'s 9.5e-5 at%: gold in "
+                  "diamond is set by hand, as for k0",
     ("bi-pb-sn", 1): "Rose's metal's liquidus (about 98 C in an old table) lies 12 K below the model: from the eutectic "
                       "trough the model's (Sn) liquidus climbs as the Sn-Bi binary's does",
     ("bi-pb-sn", 2): "the 42Bi-42Pb-16Sn liquidus (108 C in an old table) lies 17 K below the model's epsilon liquidus; the "
@@ -116,8 +120,6 @@ SHORT_OF_CHECKS = {
                     "from a maker's sheet (an 18-carat red gold) is at hand; the other makers' pages found give no composition "
                     "beside a melting range and the ternary sections were not readable; the fcc gap is tested against one "
                     "published ageing point (test_carat_golds)"),
-    "au-si": (2, "no liquidus or calorimetric value from a source at hand (die-attach preform sheets and the solder "
-                 "tables found give only the eutectic; abstracts on the melt give no numbers); the eutectic is the fit target"),
     "bi-pb": (1, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "
                  "liquidus, solvus or calorimetry of the binary from a source at hand beyond the 1937 (Bi) solubility"),
     "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
