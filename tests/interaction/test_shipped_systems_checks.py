@@ -75,6 +75,8 @@ KNOWN_FAILURES = {
                   "Arrhenius fit): gold in diamond is set by hand (fcc Au + 30 kJ/mol, L 30 kJ/mol), as for k0",
     ("au-si", 5): "the model's (Si) holds 0.059 at% Au at 1150 C, about 600 times Collins et al.'s 9.5e-5 at%: gold in "
                   "diamond is set by hand, as for k0",
+    ("mg-si", 3): "the model's (Si) holds 0.032 at% Mg at 1250 C, about 64 times the measured 5.0e-4 at%: Mg in diamond "
+                  "is set by the author (hcp + 50 kJ/mol), not fitted",
     ("bi-pb-sn", 1): "Rose's metal's liquidus (about 98 C in an old table) lies 12 K below the model: from the eutectic "
                       "trough the model's (Sn) liquidus climbs as the Sn-Bi binary's does",
     ("bi-pb-sn", 2): "the 42Bi-42Pb-16Sn liquidus (108 C in an old table) lies 17 K below the model's epsilon liquidus; the "
@@ -130,8 +132,10 @@ SHORT_OF_CHECKS = {
     "ge-si": (3, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not "
                  "at hand (the two distribution coefficients check the ends, Bergman et al.'s calorimetry the melt); "
                  "no Si-Ge liquidus or solidus temperature turned up in crystal-growth or calorimetry abstracts"),
-    "mg-si": (1, "the assessed diagram's three invariants and the Merck Index enthalpy of formation of Mg2Si are the "
-                 "fit targets; no Mg-Si liquidus point or calorimetry of the liquid from a source at hand"),
+    "mg-si": (2, "the assessed diagram's three invariants and the Merck Index enthalpy of formation of Mg2Si are the "
+                 "fit targets; besides the two solid solubilities (Si in (Mg), Mg in (Si)) no Mg-Si liquidus point or "
+                 "calorimetry of the liquid from a source at hand (the Landolt-Boernstein and MSI evaluations and the "
+                 "calorimetry and vapour-pressure papers they cite were found as reference lists only)"),
     "pb-sb": (2, "no liquidus temperatures from a source at hand (lead producers' pages found give compositions, not "
                  "melting ranges; the 1926-27 AIME liquidus and solidus papers were not readable); the evaluation's other "
                  "solubilities are fit targets"),
