@@ -123,10 +123,14 @@ SHORT_OF_CHECKS = {
                     "beside a melting range and the ternary sections were not readable; the fcc gap is tested against one "
                     "published ageing point (test_carat_golds)"),
     "bi-pb": (1, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "
-                 "liquidus, solvus or calorimetry of the binary from a source at hand beyond the 1937 (Bi) solubility"),
+                 "liquidus, solvus or calorimetry of the binary from a source at hand beyond the 1937 (Bi) solubility (the "
+                 "same 1937 study's (Pb) solvus, 13-14 % Bi, contradicts the assessment's 23 at% at the peritectic; "
+                 "Agarwal et al.'s calorimetry of epsilon (J. Alloys Compd. 490 (2010) 150) is not a kind of fact "
+                 "ladle checks: epsilon is a solution phase and its enthalpy is given against the liquids)"),
     "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
                  "(one of them checked); no liquidus or calorimetric value from a source at hand (the fusible-alloy and "
-                 "teaching texts found give only the eutectic; abstracts on the melt give no numbers)"),
+                 "teaching texts found give only the eutectic, the Bi60Cd40 fusible alloy is the eutectic itself; "
+                 "abstracts on the melt's enthalpy and EMF give no numbers)"),
     "fe-fe3c": (3, "the variant of fe-c without graphite: its cementite eutectoid and eutectic and the shared "
                    "peritectic; no measured austenite + cementite solvus or liquidus from a source at hand"),
     "ge-si": (3, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not "
@@ -137,8 +141,8 @@ SHORT_OF_CHECKS = {
                  "calorimetry of the liquid from a source at hand (the Landolt-Boernstein and MSI evaluations and the "
                  "calorimetry and vapour-pressure papers they cite were found as reference lists only)"),
     "pb-sb": (2, "no liquidus temperatures from a source at hand (lead producers' pages found give compositions, not "
-                 "melting ranges; the 1926-27 AIME liquidus and solidus papers were not readable); the evaluation's other "
-                 "solubilities are fit targets"),
+                 "melting ranges, battery-alloy and hard-lead pages give compositions only; the 1926-27 AIME liquidus and "
+                 "solidus papers were not readable); the evaluation's other solubilities are fit targets"),
     "sn-ag": (3, "Indium's listed Sn95Ag5 and Sn90Ag10 liquidus temperatures are fit targets, the makers' other binary "
                  "listings are the eutectic itself; besides the (recalled) mixing enthalpy and the Sn97Ag3 liquidus, "
                  "Ag3Sn's EMF enthalpy of formation (2025) is the one further fact found; no further liquidus, (Sn) "
@@ -150,7 +154,8 @@ SHORT_OF_CHECKS = {
                  "or Ni added, abstracts on Cu dissolution in tin give no numbers)"),
     "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets, and the evaluation's "
                  "summary gives only the eutectic and the two solubilities it fixes; the makers' Sn-Zn listings found "
-                 "are the eutectic, and the calorimetry abstracts of the melt give no numbers"),
+                 "are the eutectic (ASTM B907's zinc-tin grades were found, their melting ranges not), and the calorimetry "
+                 "abstracts of the melt give no numbers"),
 }
 MIN_CHECKS = 4
 
