@@ -120,8 +120,10 @@ KNOWN_FAILURES = {
 SHORT_OF_CHECKS = {
     "ag-au-cu": (2, "built on ag-au, ag-cu and au-cu with no ternary term: one essentially Au-Ag-Cu alloy's melting range "
                     "from a maker's sheet (an 18-carat red gold) is at hand; the other makers' pages found give no composition "
-                    "beside a melting range and the ternary sections were not readable; the fcc gap is tested against one "
-                    "published ageing point (test_carat_golds)"),
+                    "beside a melting range (or hold zinc, tin or cadmium), the ternary sections were not readable, and the "
+                    "Gold Bulletin reviews (McDonald and Sistare 1978, Rapson 1990) and a casting study of 18-carat yellow "
+                    "golds were found only in their opening pages; the fcc gap is tested against one published ageing point "
+                    "(test_carat_golds)"),
     "bi-pb": (1, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "
                  "liquidus, solvus or calorimetry of the binary from a source at hand beyond the 1937 (Bi) solubility (the "
                  "same 1937 study's (Pb) solvus, 13-14 % Bi, contradicts the assessment's 23 at% at the peritectic; "
@@ -132,10 +134,15 @@ SHORT_OF_CHECKS = {
                  "teaching texts found give only the eutectic, the Bi60Cd40 fusible alloy is the eutectic itself; "
                  "abstracts on the melt's enthalpy and EMF give no numbers)"),
     "fe-fe3c": (3, "the variant of fe-c without graphite: its cementite eutectoid and eutectic and the shared "
-                   "peritectic; no measured austenite + cementite solvus or liquidus from a source at hand"),
+                   "peritectic; no measured austenite + cementite solvus or liquidus from a source at hand (Chipman's 1972 "
+                   "tables and Wells' and Mehl and Wells' solubility lines found as titles or reference lists only; "
+                   "cementite's calorimetric enthalpy of formation cannot be checked on a sublattice phase); the pearlite "
+                   "reaction's heat (Hagel, Pound and Mehl 1956) is tested in test_pearlite_enthalpy"),
     "ge-si": (3, "a published regular-solution evaluation used unchanged; its liquidus and solidus data were not "
                  "at hand (the two distribution coefficients check the ends, Bergman et al.'s calorimetry the melt); "
-                 "no Si-Ge liquidus or solidus temperature turned up in crystal-growth or calorimetry abstracts"),
+                 "no Si-Ge liquidus or solidus temperature turned up in crystal-growth or calorimetry abstracts "
+                 "(Bergman et al.'s excess Gibbs energy of the melt, 6.0 x(1-x) kJ/mol at 1723 K, is no kind of fact "
+                 "ladle checks)"),
     "mg-si": (2, "the assessed diagram's three invariants and the Merck Index enthalpy of formation of Mg2Si are the "
                  "fit targets; besides the two solid solubilities (Si in (Mg), Mg in (Si)) no Mg-Si liquidus point or "
                  "calorimetry of the liquid from a source at hand (the Landolt-Boernstein and MSI evaluations and the "
