@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 import threading
+import weakref
 from collections import OrderedDict
 from dataclasses import dataclass
 
@@ -178,34 +179,47 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
     """The binary shortcut: the cached isothermal section of the binary engine. Mass fractions
     are computed in Python floats (two elements: cheaper than numpy on two-element arrays)."""
     sec = section_at(system, T)
-    za, zb = float(z[0]), float(z[1])
+    za, zb = z.tolist()
     state = sec.state_at(za, zb)
     ma, mb = system.molar_mass.tolist()
     m_alloy = za * ma + zb * mb
     shares = []
     gibbs_dT = 0.0
     for name, (pa, pb), amount in state.phases:
-        k = sec.names.index(name)
+        k = sec._index[name]
         if k < sec.n_sol:
             gibbs_dT += amount * float(sec.solutions[k].gibbs_dT(pa, pb))
-            px = np.array([pa, pb])
+            px = np.array((pa, pb))
             sites = (px,)
         else:
             gibbs_dT += amount * sec.compound_gibbs_dT(k - sec.n_sol)
-            px = np.array([pa, pb])
-            sites = _compound_sites(system, name)
+            px = np.array((pa, pb))
+            sites = tuple(np.ones(size) for size in _compound_site_counts(system, name))
         m_sum = pa * ma + pb * mb            # the same sum as m_alloy: a single phase's share is exactly 1
-        shares.append(PhaseShare(name, px, np.array([pa * ma / m_sum, pb * mb / m_sum]), float(amount),
+        shares.append(PhaseShare(name, px, np.array((pa * ma / m_sum, pb * mb / m_sum)), float(amount),
                                  float(amount * m_sum / m_alloy), sites))
-    mu = np.array([np.nan if v is None else v for v in state.mu])
-    return PointEquilibrium(T, z, np.array([za * ma / m_alloy, zb * mb / m_alloy]), tuple(shares), float(state.gibbs), mu,
-                            state.converged, gibbs_dT, float(state.gibbs) - T * gibbs_dT)
+    mu_a, mu_b = state.mu
+    mu = np.array((math.nan if mu_a is None else mu_a, math.nan if mu_b is None else mu_b))
+    gibbs = float(state.gibbs)
+    return PointEquilibrium(T, z, np.array((za * ma / m_alloy, zb * mb / m_alloy)), tuple(shares), gibbs, mu,
+                            state.converged, gibbs_dT, gibbs - T * gibbs_dT)
 
 
-def _compound_sites(system, name: str) -> tuple[np.ndarray, ...]:
-    """A stoichiometric compound's site fractions: 1 on each sublattice of its general form."""
-    model = getattr(system, "models", {}).get(name)
-    return tuple(np.ones(len(g)) for g in model.groups) if model is not None else (np.ones(1),)
+#: The sublattice sizes of each compound's general form, per system (systems are not changed in place).
+_site_counts: "weakref.WeakKeyDictionary[object, dict[str, tuple[int, ...]]]" = weakref.WeakKeyDictionary()
+
+
+def _compound_site_counts(system, name: str) -> tuple[int, ...]:
+    """The number of constituents on each sublattice of a stoichiometric compound's general
+    form (its site fractions are 1 on each), remembered per system."""
+    counts = _site_counts.get(system)
+    if counts is None:
+        counts = _site_counts[system] = {}
+    found = counts.get(name)
+    if found is None:
+        model = getattr(system, "models", {}).get(name)
+        found = counts[name] = tuple(len(g) for g in model.groups) if model is not None else (1,)
+    return found
 
 
 def general_equilibrium(system, temperature_K: float, composition,

@@ -5,7 +5,8 @@ so that neither fraction loses digits near its pure element. Both ends are exact
 
 At a new temperature every solution phase's G on the grid is one matrix product: the phase's
 coefficients at T (`SolutionAtT.grid_coefficients`) times the grid's composition basis
-(`gibbs_basis`); a magnetic term is added on its own.
+(`gibbs_basis`); a magnetic term is added on its own. The scaled curvature x_A x_B G'' (the sign
+of the spinodal) is formed the same way (`curvature_basis`).
 """
 
 from __future__ import annotations
@@ -50,6 +51,33 @@ def gibbs_basis(n: int, order: int) -> np.ndarray:
     out = np.array(rows)
     out.setflags(write=False)
     return out
+
+
+@lru_cache(maxsize=8)
+def curvature_basis(n: int, order: int) -> np.ndarray:
+    """(1 + order, n): the composition functions whose combination is a solution's scaled
+    curvature x_A x_B d2G/dx_B2 on the n-point grid: 1 (times RT), then x_A x_B times the second
+    derivative along x_B of x_A x_B (x_A - x_B)^k for k < order (times L[k])."""
+    xa, xb = composition_grid(n)
+    d = xa - xb
+    p = xa * xb
+    rows = [np.ones(n)] + [p * (-2 * (2 * k + 1) * d**k + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0))
+                           for k in range(order)]
+    out = np.array(rows)
+    out.setflags(write=False)
+    return out
+
+
+def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.ndarray:
+    """(len(solutions), n): x_A x_B d2G/dx_B2 (J/mol) of each solution phase at one temperature
+    (`SolutionAtT`) on the n-point grid; negative inside a spinodal."""
+    order = max(len(s.L) for s in solutions)
+    C = np.array([s.curvature_coefficients(order) for s in solutions]) @ curvature_basis(n, order)
+    for k, s in enumerate(solutions):
+        if s.phase.magnetic is not None:
+            xa, xb = composition_grid(n)
+            C[k] += s.magnetic_scaled_curvature(xa, xb)
+    return C
 
 
 def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.ndarray:

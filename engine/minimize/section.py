@@ -12,13 +12,14 @@ the whole section, with every tie-line, is built on demand and cached.
 
 from __future__ import annotations
 
+import weakref
 from bisect import bisect_left
 from dataclasses import dataclass
 from functools import cached_property
 
 import numpy as np
 
-from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid
+from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid, scaled_curvature_on_grid
 from .hull import lower_hull
 from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
 from .tangent import common_tangent, lowest_against_line, tangent_to_point
@@ -60,6 +61,34 @@ class LocalState:
     converged: bool
 
 
+class BinaryPhases:
+    """A binary system's phases in the order sections use them (solutions, then compounds),
+    sorted once per system: `names`, `index` (name to position), the solution and compound
+    models, `n_sol` and each compound's (x_A, x_B)."""
+
+    def __init__(self, system) -> None:
+        solutions = [(n, p) for n, p in system.phases.items() if isinstance(p, SolutionPhase)]
+        compounds = [(n, p) for n, p in system.phases.items() if isinstance(p, CompoundPhase)]
+        self.names: tuple[str, ...] = tuple(n for n, _p in solutions + compounds)
+        self.index = {n: i for i, n in enumerate(self.names)}
+        self.n_sol = len(solutions)
+        self.solutions: tuple[SolutionPhase, ...] = tuple(p for _n, p in solutions)
+        self.compounds: tuple[CompoundPhase, ...] = tuple(p for _n, p in compounds)
+        self.comp_x = tuple((float(c.x[0]), float(c.x[1])) for c in self.compounds)
+
+
+#: BinaryPhases of each system, kept while the system lives (systems are not changed in place).
+_binary_phases: "weakref.WeakKeyDictionary[object, BinaryPhases]" = weakref.WeakKeyDictionary()
+
+
+def binary_phases(system) -> BinaryPhases:
+    """The system's BinaryPhases, built on first use."""
+    found = _binary_phases.get(system)
+    if found is None:
+        found = _binary_phases[system] = BinaryPhases(system)
+    return found
+
+
 class Section:
     """Stable phases of `system` at temperature T (K), for any overall composition."""
 
@@ -67,14 +96,13 @@ class Section:
         self.system = system
         self.T = float(T)
         self.xa, self.xb = composition_grid(points)
-        solutions = [(n, p) for n, p in system.phases.items() if isinstance(p, SolutionPhase)]
-        compounds = [(n, p) for n, p in system.phases.items() if isinstance(p, CompoundPhase)]
-        self.names: list[str] = [n for n, _p in solutions + compounds]
-        self.n_sol = len(solutions)
-        self.solutions: list[SolutionAtT] = [p.at(self.T) for _n, p in solutions]
-        self.compounds: list[CompoundPhase] = [p for _n, p in compounds]
+        phases = binary_phases(system)
+        self.names: tuple[str, ...] = phases.names
+        self.n_sol = phases.n_sol
+        self.solutions: list[SolutionAtT] = [p.at(self.T) for p in phases.solutions]
+        self.compounds: tuple[CompoundPhase, ...] = phases.compounds
         self.G = gibbs_on_grid(self.solutions, points)
-        self.comp_x = [(float(c.x[0]), float(c.x[1])) for c in self.compounds]
+        self.comp_x = phases.comp_x
         self.comp_g = [c.gibbs(self.T) for c in self.compounds]
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
         coarse = self.G[:, ::HULL_STRIDE]
@@ -88,8 +116,16 @@ class Section:
         #: Tie-lines ((phase, x_B) pairs and mu) whose driving-force check passed: it depends on
         #: nothing else, so it is not repeated for the next composition on the same tie-line.
         self._verified: set = set()
-        self._index = {n: i for i, n in enumerate(self.names)}
+        self._index = phases.index
         self._compound_dT: dict[int, float] = {}
+        #: x_A x_B d2G/dx_B2 of every solution on the grid, formed on first use (`_curvatures`).
+        self._scaled_curvature: np.ndarray | None = None
+
+    def _curvatures(self) -> np.ndarray:
+        """(solutions, grid points): x_A x_B d2G/dx_B2 (J/mol) of every solution on the grid."""
+        if self._scaled_curvature is None:
+            self._scaled_curvature = scaled_curvature_on_grid(self.solutions, len(self.xb))
+        return self._scaled_curvature
 
     # --- hull --------------------------------------------------------------------------------
     @cached_property
@@ -193,7 +229,7 @@ class Section:
                 return None
             (xa1, xb1), (xa2, xb2) = r.x
             if r.converged and xb1 < xb2:
-                mu = self.solutions[p].potentials(xa1, xb1)
+                mu = r.mu if r.mu is not None else self.solutions[p].potentials(xa1, xb1)
                 return TieLine(names, r.x, (float(mu[0]), float(mu[1])), True)
             return TieLine(names, (xp, xq), self._line_through(xp, gp, xq, gq), False)
         if p < self.n_sol or q < self.n_sol:
@@ -202,7 +238,7 @@ class Section:
             r = tangent_to_point(self.solutions[sol], self.comp_x[k], self.comp_g[k], start)
             xs = r.x[0]
             if r.converged:
-                mu = self.solutions[sol].potentials(*xs)
+                mu = r.mu if r.mu is not None else self.solutions[sol].potentials(*xs)
                 pair = (xs, self.comp_x[k]) if sol == p else (self.comp_x[k], xs)
                 return TieLine(names, pair, (float(mu[0]), float(mu[1])), True)
             return TieLine(names, (xp, xq), self._line_through(xp, gp, xq, gq), False)
@@ -238,22 +274,38 @@ class Section:
         mu_a, mu_b = mu
         found = []
         df = self.G - (mu_a * self.xa + mu_b * self.xb)
-        inner = df[:, 1:-1]
-        dips = (inner <= df[:, :-2]) & (inner <= df[:, 2:]) & (inner < 2e-3 * self.RT)
-        near = {(ph, int(self.xb.searchsorted(xt))) for ph, xt in touching}
-        for s, i in zip(*(a.tolist() for a in dips.nonzero())):
-            i += 1
+        # A dip (a grid point not above either neighbour) counts only below 2e-3 RT, and a pure
+        # element or compound only below -skip_tol: only the few grid points below 2e-3 RT are
+        # looked at; a neighbour not among them lies higher.
+        n = df.shape[1]
+        flat = df.ravel()
+        low = np.flatnonzero(flat < 2e-3 * self.RT)
+        below = dict(zip(low.tolist(), flat[low].tolist()))
+        near = None
+        ends = []
+        for f, d_grid in below.items():
+            s, i = divmod(f, n)
+            end = i == 0 or i == n - 1
+            if end and d_grid < -skip_tol:          # a pure element below the line
+                ends.append((i, s))
+                continue
+            left, right = below.get(f - 1) if i > 0 else None, below.get(f + 1) if i < n - 1 else None
+            if (left is not None and d_grid > left) or (right is not None and d_grid > right):
+                continue
+            if near is None:
+                near = {(ph, int(self.xb.searchsorted(xt))) for ph, xt in touching}
             if (s, i) in near or (s, i - 1) in near or (s, i + 1) in near:
                 continue
             sol = self.solutions[s]
             xa_i, xb_i = float(self.xa[i]), float(self.xb[i])
             # a dip whose grid value lies above the most a smooth curve can sag between
-            # neighbouring grid points (G'' h^2 / 8, doubled) cannot reach below the line
-            h = 0.5 * float(self.xb[i + 1] - self.xb[i - 1])
-            sag = float(sol.curvature(xa_i, xb_i)) * h * h / 4.0
-            d_grid = float(df[s, i])
-            if d_grid > max(sag, 0.0) + skip_tol:
-                continue
+            # neighbouring grid points (G'' h^2 / 8, doubled) cannot reach below the line; at a
+            # pure element's end (G'' unbounded there) the dip inside the last cell is always sought
+            if not end:
+                h = 0.5 * float(self.xb[i + 1] - self.xb[i - 1])
+                sag = float(sol.curvature(xa_i, xb_i)) * h * h / 4.0
+                if d_grid > max(sag, 0.0) + skip_tol:
+                    continue
             r = lowest_against_line(sol, mu_b - mu_a, (xa_i, xb_i))
             xa_, xb_ = r.x[0]
             g = float(sol.gibbs(xa_, xb_))
@@ -262,11 +314,8 @@ class Section:
                 xa_, xb_, g, d = xa_i, xb_i, float(self.G[s, i]), d_grid
             if d < -skip_tol:
                 found.append((s, xa_, xb_, g))
-        last = df.shape[1] - 1
-        if float(df[:, ::last].min()) < -skip_tol:      # a pure element below the line
-            for end in (0, last):
-                for s in np.flatnonzero(df[:, end] < -skip_tol).tolist():
-                    found.append((s, float(self.xa[end]), float(self.xb[end]), float(self.G[s, end])))
+        for col, s in sorted(ends):
+            found.append((s, float(self.xa[col]), float(self.xb[col]), float(self.G[s, col])))
         for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g)):
             if cg - (mu_a * cx[0] + mu_b * cx[1]) < -skip_tol:
                 found.append((self.n_sol + k, cx[0], cx[1], cg))
@@ -283,9 +332,10 @@ class Section:
         i1 = min(int(self.xb.searchsorted(hi, side="right")) + 1, n - 1)
         if i1 - i0 < 1:
             return None
-        inside = np.arange(i0, i1)
-        xb = self.xb[inside]
-        c = sol.scaled_curvature(self.xa[inside], xb)
+        xb = self.xb[i0:i1]
+        c = self._curvatures()[s, i0:i1]
+        if float(c.min()) >= 0.05 * self.RT:        # no negative curvature, no minimum close to it
+            return None
         neg = np.flatnonzero(c < 0)
         if len(neg) == 0:
             small = np.flatnonzero((c[1:-1] <= c[:-2]) & (c[1:-1] <= c[2:]) & (c[1:-1] < 0.05 * self.RT)) + 1
@@ -435,9 +485,9 @@ class Section:
             g = self.comp_g[k]
             return LocalState(((self.names[phase], self.comp_x[k], 1.0),), (None, None), g, converged)
         sol = self.solutions[phase]
-        mu = sol.potentials(xa0, xb0)
+        mu_a, mu_b, _curvature = sol.potentials_and_curvature(xa0, xb0)
         g = float(sol.gibbs(xa0, xb0))
-        return LocalState(((self.names[phase], (xa0, xb0), 1.0),), (float(mu[0]), float(mu[1])), g, converged)
+        return LocalState(((self.names[phase], (xa0, xb0), 1.0),), (float(mu_a), float(mu_b)), g, converged)
 
     def _two(self, tie: TieLine, xa0: float, xb0: float) -> LocalState:
         """Lever rule on a tie-line; an alloy exactly at one end is that phase alone."""

@@ -45,12 +45,15 @@ def _clip(step: float) -> float:
 
 @dataclass(frozen=True)
 class TangentResult:
-    """Outcome of a tangent solve. `x` holds (xA, xB) of each solution phase solved for."""
+    """Outcome of a tangent solve. `x` holds (xA, xB) of each solution phase solved for; `mu`
+    the chemical potentials (mu_A, mu_B) in J/mol of the first phase at exactly x where the
+    solve evaluated them there (its last step), else None."""
 
     converged: bool
     x: tuple[tuple[float, float], ...]
     iterations: int
     residual: float  # J/mol
+    mu: tuple[float, float] | None = None
 
 
 def _tolerance(RT: float, rtol: float) -> float:
@@ -72,16 +75,14 @@ def common_tangent(P: SolutionAtT, Q: SolutionAtT, start_p: tuple[float, float],
     for it in range(1, _MAX_ITER + 1):
         xa1, xb1 = fractions(y1)
         xa2, xb2 = fractions(y2)
-        ma1, mb1 = P.potentials(xa1, xb1)
-        ma2, mb2 = Q.potentials(xa2, xb2)
+        ma1, mb1, s1 = P.potentials_and_curvature(xa1, xb1)
+        ma2, mb2, s2 = Q.potentials_and_curvature(xa2, xb2)
         f1, f2 = float(ma1 - ma2), float(mb1 - mb2)
         res = max(abs(f1), abs(f2))
         if done:
             break
         if res < tol:
             done = True
-        s1 = float(P.scaled_curvature(xa1, xb1))
-        s2 = float(Q.scaled_curvature(xa2, xb2))
         # d mu_A / dy = -xB s,  d mu_B / dy = xA s  (s = xA xB G'')
         j11, j12, j21, j22 = -xb1 * s1, xb2 * s2, xa1 * s1, -xa2 * s2
         det = j11 * j22 - j12 * j21
@@ -91,10 +92,13 @@ def common_tangent(P: SolutionAtT, Q: SolutionAtT, start_p: tuple[float, float],
         dy2 = (-j11 * f2 + j21 * f1) / det
         y1 += _clip(dy1)
         y2 += _clip(dy2)
+    else:
+        done = False                    # the last step was not evaluated
     xa1, xb1 = fractions(y1)
     xa2, xb2 = fractions(y2)
     trivial = P is Q and abs(y1 - y2) < 1e-7
-    return TangentResult(res < 10 * tol and not trivial, ((xa1, xb1), (xa2, xb2)), it, res)
+    mu = (float(ma1), float(mb1)) if done else None
+    return TangentResult(res < 10 * tol and not trivial, ((xa1, xb1), (xa2, xb2)), it, res, mu)
 
 
 def tangent_to_point(P: SolutionAtT, point: tuple[float, float], g_point: float, start: tuple[float, float],
@@ -108,15 +112,16 @@ def tangent_to_point(P: SolutionAtT, point: tuple[float, float], g_point: float,
     res = math.inf
     for it in range(1, _MAX_ITER + 1):
         xa, xb = fractions(y)
-        ma, mb = P.potentials(xa, xb)
+        ma, mb, s = P.potentials_and_curvature(xa, xb)
         f = float(xa_c * ma + xb_c * mb - g_point)
         res = abs(f)
         if done:
             break
         if res < tol:
             done = True
-        d = float(P.scaled_curvature(xa, xb)) * (xb_c - xb)
+        d = float(s) * (xb_c - xb)
         if d == 0.0:
+            done = True                 # x is where the potentials were evaluated
             break
         y_new = y - _clip(f / d)
         # never cross the compound's composition: halve the step instead
@@ -125,8 +130,11 @@ def tangent_to_point(P: SolutionAtT, point: tuple[float, float], g_point: float,
             if abs(y_new - y) < 1e-15:
                 break
         y = y_new
+    else:
+        done = False                    # the last step was not evaluated
     xa, xb = fractions(y)
-    return TangentResult(res < 10 * tol, ((xa, xb),), it, res)
+    mu = (float(ma), float(mb)) if done else None
+    return TangentResult(res < 10 * tol, ((xa, xb),), it, res, mu)
 
 
 def lowest_against_line(P: SolutionAtT, slope: float, start: tuple[float, float], rtol: float = 1e-12) -> TangentResult:

@@ -138,13 +138,18 @@ class SolutionAtT:
         if mag is not None:
             self.curie_L = [f.value(T) for f in mag.curie_L.get(BINARY_PAIR, ())]
             self.moment_L = [f.value(T) for f in mag.moment_L.get(BINARY_PAIR, ())]
+        self._dT: tuple[tuple[float, float], list[float]] | None = None
 
-    @cached_property
+    @property
     def _temperature_derivatives(self) -> tuple[tuple[float, float], list[float]]:
-        """(dG_A/dT, dG_B/dT) of the pure elements and dL[k]/dT, J/(mol K)."""
-        T = self.T
-        end_a, end_b = self.phase.endmembers
-        return (end_a.derivative(T), end_b.derivative(T)), [f.derivative(T) for f in self.phase.interactions.get(BINARY_PAIR, ())]
+        """(dG_A/dT, dG_B/dT) of the pure elements and dL[k]/dT, J/(mol K), computed on first use
+        (a plain attribute: most phases of a section never need them)."""
+        if self._dT is None:
+            T = self.T
+            end_a, end_b = self.phase.endmembers
+            self._dT = ((end_a.derivative(T), end_b.derivative(T)),
+                        [f.derivative(T) for f in self.phase.interactions.get(BINARY_PAIR, ())])
+        return self._dT
 
     # --- magnetic part -------------------------------------------------------------------
     def _curie_and_moment(self, xa: np.ndarray, xb: np.ndarray, order: int):
@@ -168,11 +173,14 @@ class SolutionAtT:
         g = self.RT * _log(1.0 + be) * hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 0)[0]
         return where(active, g, 0.0 * g)
 
-    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, ...]:
-        """(G, dG/dx, d2G/dx2, dG/dT, d2G/dx dT) of the magnetic term along x_B (arrays, or
-        floats); with order 0 the composition derivatives are returned as zeros. The temperature
-        derivatives take Tc and beta as independent of T (tau = T/Tc, so d tau/dT = tau/T)."""
-        (tc1, tc2), (be, be1, be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, order)
+    def magnetic_scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """xA xB d2G/dx_B2 of the magnetic term alone (J/mol)."""
+        return xa * xb * self._magnetic(xa, xb)[2]
+
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
+        """(G, dG/dx, d2G/dx2) of the magnetic term along x_B (J/mol; arrays, or floats): what
+        chemical potentials and curvatures need, without the temperature derivatives."""
+        (tc1, tc2), (be, be1, be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, 2)
         f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
         u = _log(1.0 + be)
         u1 = be1 / (1.0 + be)
@@ -183,9 +191,21 @@ class SolutionAtT:
         g = RT * u * f
         g1 = RT * (u1 * f + u * f1 * tau1)
         g2 = RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
+        return tuple(where(active, v, 0.0 * v) for v in (g, g1, g2))
+
+    def _magnetic_dT(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, np.ndarray]:
+        """(dG/dT, d2G/dx dT) of the magnetic term (J/(mol K)); with order 0 the second is 0.
+        Tc and beta are taken as independent of T (tau = T/Tc, so d tau/dT = tau/T)."""
+        (tc1, _tc2), (be, be1, _be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, order)
+        f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 1 if order == 0 else 2)
+        u = _log(1.0 + be)
         g_dT = R * u * (f + tau * f1)
+        if order == 0:
+            return where(active, g_dT, 0.0 * g_dT), 0.0
+        u1 = be1 / (1.0 + be)
+        tau1 = -tau * tc1 / tc_safe
         g1_dT = R * (u1 * (f + tau * f1) + u * tau1 * (2.0 * f1 + tau * f2))
-        return tuple(where(active, v, 0.0 * v) for v in (g, g1, g2, g_dT, g1_dT))
+        return tuple(where(active, v, 0.0 * v) for v in (g_dT, g1_dT))
 
     @staticmethod
     def _linear_plus_excess(pure: np.ndarray, L: list[float], xa: np.ndarray, xb: np.ndarray, order: int):
@@ -214,16 +234,52 @@ class SolutionAtT:
         x_A x_B (x_A - x_B)^k for k < order (J/mol; `order` at least len(L))."""
         return [self.g0a, self.g0b, self.RT] + self.L + [0.0] * (order - len(self.L))
 
+    def curvature_coefficients(self, order: int) -> list[float]:
+        """xA xB d2G/dx_B2 without its magnetic term as coefficients of 1 and of xA xB times the
+        second derivative of (x_A - x_B)^k x_A x_B, k < order (J/mol; `order` at least len(L))."""
+        return [self.RT] + self.L + [0.0] * (order - len(self.L))
+
     def potentials(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Chemical potentials (mu_A, mu_B), J/mol, computed term by term."""
         mua, mub = redlich_kister_potentials(self.L, xa, xb)
         mua = self.g0a + self.RT * _log(xa) + mua
         mub = self.g0b + self.RT * _log(xb) + mub
         if self.phase.magnetic is not None:
-            gm, gm1, _gm2, _gm_dT, _gm1_dT = self._magnetic(xa, xb)
+            gm, gm1, _gm2 = self._magnetic(xa, xb)
             mua = mua + gm - xb * gm1
             mub = mub + gm + xa * gm1
         return mua, mub
+
+    def potentials_and_curvature(self, xa: float, xb: float) -> tuple[float, float, float]:
+        """(mu_A, mu_B, xA xB d2G/dx_B2) in J/mol at one composition given as two Python floats:
+        what each step of a tangent Newton solve needs, in one pass over the Redlich-Kister
+        terms and one evaluation of the magnetic term. The same arithmetic, term by term, as
+        `potentials` and `scaled_curvature`, without their array dispatch."""
+        d = xa - xb
+        p = xa * xb
+        mua = mub = 0.0 * d
+        g2 = 0.0 * p
+        for k, Lk in enumerate(self.L):
+            if Lk == 0.0:
+                continue
+            if k == 0:
+                mua = mua + Lk * xb * xb
+                mub = mub + Lk * xa * xa
+                g2 = g2 + Lk * -2.0
+                continue
+            dkm1 = d ** (k - 1)
+            mua = mua + Lk * xb * xb * dkm1 * ((2 * k + 1) * xa - xb)
+            mub = mub + Lk * xa * xa * dkm1 * (xa - (2 * k + 1) * xb)
+            g2 = g2 + Lk * (-2 * (2 * k + 1) * d**k + (4 * k * (k - 1) * p * d ** (k - 2) if k >= 2 else 0.0))
+        RT = self.RT
+        mua = self.g0a + RT * math.log(xa) + mua
+        mub = self.g0b + RT * math.log(xb) + mub
+        if self.phase.magnetic is not None:
+            gm, gm1, gm2 = self._magnetic(xa, xb)
+            mua = mua + gm - xb * gm1
+            mub = mub + gm + xa * gm1
+            g2 = g2 + gm2
+        return mua, mub, RT + xa * xb * g2
 
     def potentials_dT(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Temperature derivatives of the chemical potentials at fixed composition, d mu_A/dT and
@@ -235,7 +291,7 @@ class SolutionAtT:
         sa = da + R * _log(xa) + sa
         sb = db + R * _log(xb) + sb
         if self.phase.magnetic is not None:
-            _gm, _gm1, _gm2, gm_dT, gm1_dT = self._magnetic(xa, xb)
+            gm_dT, gm1_dT = self._magnetic_dT(xa, xb)
             sa = sa + gm_dT - xb * gm1_dT
             sb = sb + gm_dT + xa * gm1_dT
         return sa, sb
@@ -265,7 +321,7 @@ class SolutionAtT:
         g_ex_dT = redlich_kister(L_dT, xa, xb)
         s = xa * da + xb * db + R * (_xlogx(xa) + _xlogx(xb)) + g_ex_dT
         if self.phase.magnetic is not None:
-            s = s + self._magnetic(xa, xb, 0)[3]
+            s = s + self._magnetic_dT(xa, xb, 0)[0]
         return s
 
 
