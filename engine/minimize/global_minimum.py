@@ -110,6 +110,15 @@ class _Prepared:
     owner: np.ndarray
     start: np.ndarray
     last_basis: np.ndarray | None = None
+    pure: list[np.ndarray] | None = None
+
+    @cached_property
+    def corners(self) -> np.ndarray | None:
+        """Per present element, the lowest sample of it pure (-1 where none is), or None where
+        the samples are not those of the shape."""
+        if self.pure is None:
+            return None
+        return np.array([int(k[np.argmin(self.G[k])]) if len(k) else -1 for k in self.pure])
 
 
 _PREPARED: OrderedDict[tuple, _Prepared] = OrderedDict()
@@ -129,6 +138,11 @@ class _Shape:
     XT: np.ndarray
     owner: np.ndarray
     start: np.ndarray
+
+    @cached_property
+    def pure(self) -> list[np.ndarray]:
+        """Per present element, the samples (indices into XT's columns) of it pure."""
+        return [np.flatnonzero(row >= 1.0 - 1e-12) for row in self.XT]
 
 
 def _stacked(X: list[np.ndarray]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -217,7 +231,8 @@ def _prepare(models: dict[str, object], active: np.ndarray) -> _Prepared:
     if not phases:
         raise ValueError("no phase can hold this composition")
     XT, owner, start = (shape.XT, shape.owner, shape.start) if finite else _stacked([p.X for p in phases])
-    return _Prepared(tuple(models.values()), phases, XT, np.concatenate([p.G for p in phases]), owner, start)
+    return _Prepared(tuple(models.values()), phases, XT, np.concatenate([p.G for p in phases]), owner, start,
+                     pure=shape.pure if finite else None)
 
 
 def _prepared(models: dict[str, object], active: np.ndarray) -> _Prepared:
@@ -406,7 +421,7 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
                 continue
             y0 = np.zeros(ph.model.n_vars)
             y0[ph.free] = np.maximum(ph.Y[k][ph.free], _SMALLEST_START)
-            y, df = lowest_driving_force(ph.model, y0, mu, elements, ph.free)
+            y, df = lowest_driving_force(ph.model, y0, mu, elements, ph.free, sets=mine, tolerance=tol)
             if not np.isfinite(df) or df > d[k]:
                 y, df = ph.Y[k], float(d[k])
             if df < -tol:
@@ -432,94 +447,145 @@ def global_minimum(models: dict[str, object], z: np.ndarray,
     """The global minimum of G over `models` (name -> SublatticeAtT at one temperature) at
     overall composition z (mole fractions of every element, summing to 1).
 
-    `near` may give the answer at a nearby composition and the same temperature: its phases
-    (name, site fractions) and chemical potentials (J/mol). Newton starts from it; where that
-    converges and no phase lies below the result, the linear program is skipped (the answer
-    passes the same driving-force check either way)."""
+    `near` may give the answer at a nearby composition (or temperature): its phases (name, site
+    fractions) and chemical potentials (J/mol). Newton starts from it; where that converges, the
+    linear program is skipped: the driving-force check runs on the result, and a phase found below
+    it is added as from any other refined state. Where that does not end in a converged answer,
+    the minimiser starts afresh from the linear program (the answer passes the same check either
+    way)."""
     z = np.asarray(z, dtype=float)
     active = z > 0.0
     elements = np.flatnonzero(active)
     za = z[active] / z[active].sum()
     prepared = _prepared(models, active)
-    phases = prepared.phases
-    cloud = _Cloud(prepared)
     if near is not None:
-        warm = _from_nearby(near, phases, cloud, z, active, elements)
+        warm = _from_nearby(near, prepared.phases, z, active, elements)
         if warm is not None:
-            return warm
-    lp = LowestCombination(prepared.XT, prepared.G, za, start=prepared.last_basis, transposed=True)
-    if lp.uses_artificial:
-        raise ValueError("no combination of the phases reaches this composition")
-    prepared.last_basis = lp.basis.copy() if np.all(lp.basis >= 0) else None
-    n_active = len(elements)
-    states, mu = _start_states(lp, cloud, active), lp.mu
-    good = False                            # whether `states` and `mu` are a converged solve
-    converged = False
-    scale = abs(lp.gibbs) + 1.0
-    tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * scale)
-    added_to = None                         # the number of phases a zero-amount phase was added to
-    exchanged = False                       # whether this round's states come from an exchange step
-    for _ in range(_ROUNDS):
-        refined, mu_new, ok = solve(states, za, mu, elements)
-        if ok:
-            states, mu, good = _merge_duplicates(refined), mu_new, True
-        elif not good:
-            states, mu = _start_states(lp, cloud, active), lp.mu
-        found = _candidates(cloud, states, mu, elements, tol)
-        converged = ok and not found
-        if not found:
-            break
-        if ok and len(states) >= n_active and not exchanged:
-            # no room: the lowest point enters by one exact exchange step (a phase just below the
-            # plane, within the linear program's tolerance, at a temperature next to an invariant)
-            p, y, _df = min(found, key=lambda c: c[2])
-            swapped = _exchange(states, PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free), elements)
-            if swapped is not None:
-                states, exchanged = swapped, True
-                continue
-        exchanged = False
-        # room for one more phase: add the lowest at amount 0, unless Newton just dropped such a
-        # phase again (a start inside a miscibility gap's spinodal, say): then the linear program
-        # decides below, with the phase's point among its columns
-        if ok and len(states) < n_active and added_to != len(states):
-            p, y, _df = min(found, key=lambda c: c[2])
-            added_to = len(states)
-            states = states + [PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free)]
-            continue
-        if ok and len(states) < n_active:   # dropped again: split a set of that phase about its point
-            p, y, _df = min(found, key=lambda c: c[2])
-            split = _split_about(states, phases[p], y)
-            if split is not None:
-                refined, mu_split, ok_split = solve(split, za, mu, elements)
-                refined = _merge_duplicates(refined) if ok_split else []
-                if len(refined) > len(states):
-                    states, mu, added_to = refined, mu_split, None
-                    continue
-        added_to = None
-        # no room (or no converged state): the linear program decides, from the refined plane
-        add_X, add_G = [], []
-        first = len(lp.G)
-        state_columns = []
-        seeds = [(_phase_index(phases, st.name), st.y) for st in states] if good else []
-        seeds += [(p, y) for p, y, _df in found]
-        for p, y0 in seeds:
-            for k, y in enumerate(_neighbourhood(phases[p], y0)):
-                if k == 0 and len(state_columns) < len(states) and good:
-                    state_columns.append(first + len(add_G))
-                x, g = _per_atom(phases[p].model, y, active)
-                cloud.add(p, y)
-                add_X.append(x)
-                add_G.append(g)
-        restart = np.array(state_columns) if good and len(state_columns) == n_active else None
-        lp.add(np.array(add_X), np.array(add_G), restart)
-        states, mu, good = _start_states(lp, cloud, active), lp.mu, False
+            found = _Search(prepared, za, active, elements).run(*warm)
+            if found is not None:
+                return _result(*found, z, active, elements, True)
+    search = _Search(prepared, za, active, elements)
+    states, mu, converged = search.run_from_samples()
     return _result(states, mu, z, active, elements, converged)
 
 
-def _from_nearby(near, phases: list[_Phase], cloud: _Cloud, z: np.ndarray, active: np.ndarray,
-                 elements: np.ndarray) -> GlobalMinimum | None:
-    """The minimum refined from a nearby answer, or None where Newton fails from there or a
-    phase lies below its result."""
+class _Search:
+    """One search for the minimum at overall composition za (mole fractions of the present
+    `elements`) over the prepared clouds: Newton's method, the driving-force check and the repairs
+    it calls for (a phase added, an exchange step, a composition set split, the linear program
+    over the clouds with the refined points added). The linear program is built when first
+    needed."""
+
+    def __init__(self, prepared: _Prepared, za: np.ndarray, active: np.ndarray, elements: np.ndarray) -> None:
+        self.prepared = prepared
+        self.phases = prepared.phases
+        self.za = za
+        self.active = active
+        self.elements = elements
+        self.cloud = _Cloud(prepared)
+        self._lp: LowestCombination | None = None
+
+    @property
+    def lp(self) -> LowestCombination:
+        """The linear program over the clouds at za (from the last basis at this temperature)."""
+        if self._lp is None:
+            prepared = self.prepared
+            lp = LowestCombination(prepared.XT, prepared.G, self.za, start=prepared.last_basis, transposed=True,
+                                   corners=prepared.corners)
+            if lp.uses_artificial:
+                raise ValueError("no combination of the phases reaches this composition")
+            prepared.last_basis = lp.basis.copy() if np.all(lp.basis >= 0) else None
+            self._lp = lp
+        return self._lp
+
+    def run_from_samples(self) -> tuple[list[PhaseState], np.ndarray, bool]:
+        """(states, mu, converged) from the linear program's lowest combination."""
+        lp = self.lp
+        return self._rounds(_start_states(lp, self.cloud, self.active), lp.mu, abs(lp.gibbs) + 1.0, refined=False)
+
+    def run(self, states: list[PhaseState], mu: np.ndarray) -> tuple[list[PhaseState], np.ndarray] | None:
+        """(states, mu) from refined states (Newton converged on them), or None where the rounds
+        end without a converged answer."""
+        states, mu, converged = self._rounds(states, mu, abs(float(mu @ self.za)) + 1.0, refined=True)
+        return (states, mu) if converged else None
+
+    def _rounds(self, states: list[PhaseState], mu: np.ndarray, scale: float,
+                refined: bool) -> tuple[list[PhaseState], np.ndarray, bool]:
+        """Newton, the check and one repair per round, at most _ROUNDS rounds. `refined`: the
+        states are a converged Newton solve already. Returns (states, mu, converged)."""
+        phases, za, elements, active, cloud = self.phases, self.za, self.elements, self.active, self.cloud
+        n_active = len(elements)
+        good = refined                          # whether `states` and `mu` are a converged solve
+        converged = False
+        tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * scale)
+        added_to = None                         # the number of phases a zero-amount phase was added to
+        exchanged = False                       # whether this round's states come from an exchange step
+        for _ in range(_ROUNDS):
+            if refined:
+                ok, refined = True, False
+            else:
+                solved, mu_new, ok = solve(states, za, mu, elements)
+                if ok:
+                    states, mu, good = _merge_duplicates(solved), mu_new, True
+                elif not good:
+                    states, mu = _start_states(self.lp, cloud, active), self.lp.mu
+            found = _candidates(cloud, states, mu, elements, tol)
+            converged = ok and not found
+            if not found:
+                break
+            if ok and len(states) >= n_active and not exchanged:
+                # no room: the lowest point enters by one exact exchange step (a phase just below
+                # the plane, within the linear program's tolerance, at a temperature next to an
+                # invariant)
+                p, y, _df = min(found, key=lambda c: c[2])
+                swapped = _exchange(states, PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free), elements)
+                if swapped is not None:
+                    states, exchanged = swapped, True
+                    continue
+            exchanged = False
+            # room for one more phase: add the lowest at amount 0, unless Newton just dropped such
+            # a phase again (a start inside a miscibility gap's spinodal, say): then the linear
+            # program decides below, with the phase's point among its columns
+            if ok and len(states) < n_active and added_to != len(states):
+                p, y, _df = min(found, key=lambda c: c[2])
+                added_to = len(states)
+                states = states + [PhaseState(phases[p].name, phases[p].model, y, 0.0, phases[p].free)]
+                continue
+            if ok and len(states) < n_active:   # dropped again: split a set of that phase about its point
+                p, y, _df = min(found, key=lambda c: c[2])
+                split = _split_about(states, phases[p], y)
+                if split is not None:
+                    solved, mu_split, ok_split = solve(split, za, mu, elements)
+                    solved = _merge_duplicates(solved) if ok_split else []
+                    if len(solved) > len(states):
+                        states, mu, added_to = solved, mu_split, None
+                        continue
+            added_to = None
+            # no room (or no converged state): the linear program decides, from the refined plane
+            lp = self.lp
+            add_X, add_G = [], []
+            first = len(lp.G)
+            state_columns = []
+            seeds = [(_phase_index(phases, st.name), st.y) for st in states] if good else []
+            seeds += [(p, y) for p, y, _df in found]
+            for p, y0 in seeds:
+                for k, y in enumerate(_neighbourhood(phases[p], y0)):
+                    if k == 0 and len(state_columns) < len(states) and good:
+                        state_columns.append(first + len(add_G))
+                    x, g = _per_atom(phases[p].model, y, active)
+                    cloud.add(p, y)
+                    add_X.append(x)
+                    add_G.append(g)
+            restart = np.array(state_columns) if good and len(state_columns) == n_active else None
+            lp.add(np.array(add_X), np.array(add_G), restart)
+            states, mu, good = _start_states(lp, cloud, active), lp.mu, False
+        return states, mu, converged
+
+
+def _from_nearby(near, phases: list[_Phase], z: np.ndarray, active: np.ndarray,
+                 elements: np.ndarray) -> tuple[list[PhaseState], np.ndarray] | None:
+    """(states, mu) refined by Newton from a nearby answer, or None where its phases do not fit
+    these models or Newton fails from there."""
     previous, mu0 = near
     mu0 = np.asarray(mu0, dtype=float)
     if len(mu0) != len(z) or not np.all(np.isfinite(mu0[active])):
@@ -545,12 +611,7 @@ def _from_nearby(near, phases: list[_Phase], cloud: _Cloud, z: np.ndarray, activ
     refined, mu, ok = solve(states, za, mu0[active], elements)
     if not ok:
         return None
-    refined = _merge_duplicates(refined)
-    gibbs = float(mu @ za)
-    tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * (abs(gibbs) + 1.0))
-    if _candidates(cloud, refined, mu, elements, tol):
-        return None
-    return _result(refined, mu, z, active, elements, True)
+    return _merge_duplicates(refined), mu
 
 
 def _phase_index(phases: list[_Phase], name: str) -> int:

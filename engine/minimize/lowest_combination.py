@@ -45,9 +45,12 @@ class LowestCombination:
     """
 
     def __init__(self, X: np.ndarray, G: np.ndarray, z: np.ndarray, max_iterations: int | None = None,
-                 start: np.ndarray | None = None, transposed: bool = False) -> None:
+                 start: np.ndarray | None = None, transposed: bool = False, corners: np.ndarray | None = None) -> None:
         """`X` is (k, N), or (N, k) C-contiguous with `transposed`; `start` (N point indices) is
-        a basis to try first (the last answer's at a nearby composition): used when feasible."""
+        a basis to try first (the last answer's at a nearby composition): used when feasible.
+        `corners` (N point indices, -1 where there is none) may name a point at each pure
+        element: they replace the artificial columns of the first basis (a feasible basis
+        whose weights are z), which saves the iterations that drive the artificial columns out."""
         self.z = np.asarray(z, dtype=float)
         n = len(self.z)
         self.XT = X if transposed else np.ascontiguousarray(np.asarray(X, dtype=float).T)   # (N, k): fast pricing
@@ -60,6 +63,8 @@ class LowestCombination:
         if start is not None and self._feasible(np.asarray(start)):
             self.basis = np.array(start)
         else:
+            if corners is not None:
+                self.basis = np.where(corners >= 0, corners, self.basis)
             stride = len(self.G) // COARSE_POINTS
             if stride > 1:                          # a coarse solve first, then every point
                 self._solve(stride)
@@ -89,7 +94,7 @@ class LowestCombination:
 
     def _solve(self, stride: int = 1) -> None:
         """Simplex iterations from the current basis, pricing every `stride`-th point."""
-        XT, G = self.XT[:, ::stride], self.G[::stride]
+        XT, G = (self.XT, self.G) if stride == 1 else (np.ascontiguousarray(self.XT[:, ::stride]), self.G[::stride].copy())
         cols, cost = self._columns(self.basis)
         inv = np.linalg.inv(cols.T)                  # B^-1, B = the basis columns side by side
         w = inv @ self.z

@@ -165,10 +165,11 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
                 else:
                     g, H, yf = g[st.free], H[fr, fc], y[st.free]
                 gA = g - A @ mu
-                lam = S @ (yf * gA) / (S @ yf)
+                sums = S @ yf
+                lam = S @ (yf * gA) / sums
                 n_el = yf @ A
                 r[o:o + nf] = gA - lam @ S
-                r[o + nf:o + nf + ns] = S @ yf - 1.0
+                r[o + nf:o + nf + ns] = sums - 1.0
                 r[o + nf + ns] = G - n_el @ mu
                 J[o:o + nf, o:o + nf] = H
                 J[o + nf + ns, o:o + nf] = gA
@@ -213,12 +214,24 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
     return states, mu, False
 
 
+#: Relative closeness (in every free site fraction) at which a descent has reached a stationary
+#: point given to `lowest_driving_force`.
+REACHED = 1e-3
+
+
 def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.ndarray, free: np.ndarray,
-                         steps: int = 8, margin: float = 0.0) -> tuple[np.ndarray, float]:
+                         steps: int = 8, margin: float = 0.0, sets: tuple | list = (),
+                         tolerance: float = 0.0) -> tuple[np.ndarray, float]:
     """A few Newton steps toward the minimum of G(y) - y A mu (J per mole of formula units) over
     the phase's site fractions from y0; returns (y, driving force per mole of atoms, J/mol).
     Negative means the phase lies below the tangent plane mu. The steps stop early where the
-    local quadratic model puts the minimum above `margin` (J/mol) with room to spare."""
+    local quadratic model puts the minimum above `margin` (J/mol) with room to spare.
+
+    `sets` may hold stationary points of the same function (the phase's composition sets on the
+    plane mu, from Newton's method on the equilibrium): the steps also stop where they come within
+    a relative REACHED of one of them in every free site fraction with the driving force above
+    -`tolerance` (J/mol): from there Newton's steps end at that point, on the plane, so the
+    answer "not below -tolerance" is the same, a few steps sooner."""
     S = sublattice_rows(model, free)
     groups = free_groups(model, free)
     A = model.element_matrix[np.ix_(free, elements)]
@@ -231,6 +244,7 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
     Amu = A @ mu
     fr, fc = free[:, None], free[None, :]
     whole = nf == model.n_vars                  # every site fraction free: no indexing
+    targets = [st[free] for st in sets]
     with np.errstate(all="ignore"):
         for _ in range(steps):
             G, g, H = _derivatives(model, y)
@@ -238,6 +252,11 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
                 yf = y
             else:
                 g, H, yf = g[free], H[fr, fc], y[free]
+            moles = y @ E
+            atoms = float(moles.sum()) if len(elements) else 1.0
+            df_now = (float(G) - float(moles @ mu)) / atoms
+            if df_now > -tolerance and any(np.all(np.abs(yf - t) <= REACHED * t) for t in targets):
+                break                                               # at a given stationary point
             gA = g - Amu
             lam = S @ (yf * gA) / (S @ yf)
             stationary = gA - lam @ S
@@ -251,9 +270,6 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
                 break
             dy = d[:nf]
             predicted = 0.5 * float(stationary @ dy)                # the quadratic model's change
-            moles = y @ E
-            atoms = float(moles.sum()) if len(elements) else 1.0
-            df_now = (float(G) - float(moles @ mu)) / atoms
             if predicted <= 0.0 and df_now + 2.0 * predicted / atoms > margin + 10.0 * abs(predicted) / atoms:
                 break                                               # its minimum is well above the plane
             big = float(np.abs(dy).max())

@@ -170,12 +170,13 @@ class _Expansion:
         return E, Q
 
     @staticmethod
-    def evaluate_at(y: np.ndarray, E: np.ndarray, c: np.ndarray, order: int):
+    def evaluate_at(y: np.ndarray, E: np.ndarray, c: np.ndarray, order: int, log_y: np.ndarray | None = None):
         """(value, gradient, Hessian) at one point y (n_vars,) with every y > 0, from the monomial
         form (exponents E, coefficients c = Q @ C.ravel()): G = sum_p c_p prod_v y_v^E_pv,
         dG/dy_v = sum_p c_p E_pv m_p / y_v, d2G/dy_u dy_v = sum_p c_p E_pu (E_pv - [u = v]) m_p / (y_u y_v).
-        Derivatives only up to `order` (None beyond)."""
-        w = c * np.prod(y ** E, axis=1)
+        Derivatives only up to `order` (None beyond). `log_y`, ln y where the caller has it,
+        gives the monomials as exp(E ln y) (one product and one exponential for all)."""
+        w = c * (np.exp(E @ log_y) if log_y is not None else np.multiply.reduce(y ** E, axis=1))
         value = w.sum()
         if order == 0:
             return value, None, None
@@ -627,13 +628,14 @@ class SublatticeAtT:
         """G and its derivatives in y up to `order` (None beyond). One point with every site
         fraction positive (Newton's iterates) takes the monomial form."""
         y = np.asarray(y, dtype=float)
-        if y.ndim == 1 and order > 0 and y.min() > 0.0:
+        if y.ndim == 1 and y.min() > 0.0:
             E, c = self._energy_monomials
-            g, grad, hess = _Expansion.evaluate_at(y, E, c, order)
             log_y = np.log(y)
+            g, grad, hess = _Expansion.evaluate_at(y, E, c, order, log_y)
             rt_w = self.RT * self._weights
             g = g + rt_w @ (y * log_y)
-            grad = grad + rt_w * (log_y + 1.0)
+            if order >= 1:
+                grad = grad + rt_w * (log_y + 1.0)
             if order >= 2:
                 hess.flat[::len(y) + 1] += rt_w / y
         else:
@@ -655,10 +657,20 @@ class SublatticeAtT:
         """dC/dT of the energy's coefficients at this temperature (J/(mol f.u. K))."""
         return self.phase._energy.coefficients(self.T, derivative=True)
 
+    @cached_property
+    def _energy_monomials_dT(self) -> np.ndarray:
+        """The coefficients of the energy's monomials' temperature derivative at this temperature."""
+        return self.phase._energy.monomials[1] @ self._C_dT.ravel()
+
     def gibbs_dT(self, y: np.ndarray) -> np.ndarray:
         """dG/dT at fixed y (J/(mol f.u. K)); the enthalpy is H = G - T dG/dT."""
         y = np.asarray(y, dtype=float)
-        d = self.phase._energy.evaluate(y, self._C_dT)[0] + R * (_xlogx(y) @ self._weights)
+        if y.ndim == 1 and y.min() > 0.0:       # one point inside the simplex: the monomial form
+            log_y = np.log(y)
+            d = _Expansion.evaluate_at(y, self.phase._energy.monomials[0], self._energy_monomials_dT, 0, log_y)[0]
+            d = d + R * (self._weights @ (y * log_y))
+        else:
+            d = self.phase._energy.evaluate(y, self._C_dT)[0] + R * (_xlogx(y) @ self._weights)
         if self.phase.magnetic is not None:
             d = d + self._magnetic_dT(y)
         return d

@@ -30,7 +30,7 @@ the alloy, heats in J per gram of alloy (H = G - T dG/dT of each phase from its 
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, is_dataclass, replace
 
 import numpy as np
 
@@ -62,10 +62,17 @@ LAST_LIQUID = 1e-6
 
 def _equilibrium(system, T: float, x: np.ndarray, near=None):
     """Point equilibrium at T (K) of mole fractions x (every element); `near`, an equilibrium at
-    the same T and a nearby composition, starts the minimiser there."""
+    a nearby temperature and composition (the path's last), starts the minimiser from its phases.
+    `equilibrate` takes a start given at its own temperature only; the minimiser checks an answer
+    found from any start the same way (every phase's samples against its chemical potentials, and
+    the full sampled start where a phase lies below them), so a start from the last step is
+    handed over as one at T."""
     if len(x) == 2:
         return equilibrate(system, T, float(x[1]))
-    return equilibrate(system, T, x, near=near) if near is not None else equilibrate(system, T, x)
+    if near is None:
+        return equilibrate(system, T, x)
+    moved = is_dataclass(near) and near.temperature_K != T
+    return equilibrate(system, T, x, near=replace(near, temperature_K=T) if moved else near)
 
 
 def _split(eq):
@@ -93,13 +100,15 @@ class _State:
     """The liquid at T (K): f_L moles of atoms per mole of alloy; the liquid as a blend of phase
     shares of point equilibria ((weight, share), weights summing to 1: one share, or two where a
     step interpolates between two equilibria); the solids forming with it (shares, None before
-    a stage's first step) and the phase set of the liquid's equilibrium."""
+    a stage's first step), the phase set of the liquid's equilibrium and a point equilibrium
+    near T with that phase set (where the next step's minimiser starts)."""
 
     T: float
     f_L: float
     liquid: tuple[tuple[float, object], ...]
     forming: list | None
     key: tuple[str, ...]
+    eq: object
 
     @property
     def x_L(self) -> np.ndarray:
@@ -163,6 +172,17 @@ class AlloyScheil:
             del self.recent[next(iter(self.recent))]
         return eq
 
+    def _probe(self, T_top: float, x: np.ndarray, tried: list):
+        """probe(offset): the point equilibrium of x at T_top - offset (K), for narrowing a change;
+        each starts from the nearest in temperature of `tried` ((T, equilibrium) pairs), which
+        the probes extend."""
+        def probe(offset: float):
+            T = T_top - offset
+            eq = self._eq(T, x, near=min(tried, key=lambda known: abs(known[0] - T))[1])
+            tried.append((T, eq))
+            return eq
+        return probe
+
     # --- the path ----------------------------------------------------------------------------
     def path(self) -> AlloyPath:
         lo, _hi = self.system.temperature_range_K
@@ -217,16 +237,16 @@ class AlloyScheil:
         below = self._eq(lo, self.x)
         if phase_set(below) == (LIQUID,):
             raise PathError(f"no liquidus for this alloy inside the window ({lo:.0f}-{top:.0f} K)")
-        near, _far, hot, below = narrow_change(lambda h: self._eq(T - h, self.x), 0.0, T - lo, (LIQUID,), eq, below,
-                                               EVENT_TOLERANCE_K, self.system)
+        near, _far, hot, below = narrow_change(self._probe(T, self.x, [(T, eq), (lo, below)]), 0.0, T - lo, (LIQUID,),
+                                               eq, below, EVENT_TOLERANCE_K, self.system)
         T_hot = T - near
-        return _State(T_hot, 1.0, ((1.0, _split(hot)[0]),), None, (LIQUID,)), below
+        return _State(T_hot, 1.0, ((1.0, _split(hot)[0]),), None, (LIQUID,), hot), below
 
     def _step(self, state: _State, h: float):
         """(the state h K lower, the step's error estimate), or None where the phase set changes."""
         T1 = state.T - h
         x_L, f_L = state.x_L, state.f_L
-        first = self._eq(T1, x_L)
+        first = self._eq(T1, x_L, near=state.eq)
         if phase_set(first) != state.key:
             return None
         d0 = f_L * _solid_amount(first)
@@ -245,7 +265,7 @@ class AlloyScheil:
         first_liquid, first_solids = _split(first)
         f_first = f_L * (1.0 - _solid_amount(first))
         guess = trapezoid(d0) if d0 > 0.0 else None
-        blend, f_new, solids = ((1.0, first_liquid),), f_first, first_solids
+        blend, f_new, solids, end = ((1.0, first_liquid),), f_first, first_solids, first
         if guess is not None:
             eq, m = guess
             s1 = m * _solid_amount(eq)
@@ -254,9 +274,9 @@ class AlloyScheil:
             t = d / d0
             trial = ((1.0 - t, first_liquid), (t, _split(eq)[0]))
             if 0.0 < t < 2.0 and np.all(_blend_x(trial) >= 0.0):
-                blend, f_new, solids = trial, f_L - d, _split(eq)[1]
+                blend, f_new, solids, end = trial, f_L - d, _split(eq)[1], eq
         error = abs(f_new - f_first) + float(np.max(np.abs(_blend_x(blend) - np.asarray(first_liquid.x))))
-        return _State(T1, f_new, blend, solids, state.key), error
+        return _State(T1, f_new, blend, solids, state.key, end), error
 
     def _accept(self, old: _State, new: _State, h: float) -> None:
         """Book the solid of one step: its stage, its mass and the heat released."""
@@ -279,9 +299,7 @@ class AlloyScheil:
     def _event(self, state: _State, h: float) -> _State:
         """Narrow the change of phases within a step of h K below `state`, move there, and start
         the next stage (or end freezing)."""
-        def probe(offset: float):
-            return self._eq(state.T - offset, state.x_L)
-
+        probe = self._probe(state.T, state.x_L, [(state.T, state.eq)])
         lo, _hi, _above, below = narrow_change(probe, 0.0, h, state.key, None, probe(h), EVENT_TOLERANCE_K,
                                                  self.system)
         if lo > 0.0:
@@ -319,7 +337,7 @@ class AlloyScheil:
             what = [f"{n} starts to form" for n in new] + [f"{n} stops forming" for n in gone]
             self.arrests.append(Arrest(T, "new phase", f"{kind}: {', '.join(what) or 'the solids change'}"))
         self._start_stage(f"{kind} {' + '.join(names)}")
-        state.key, state.forming = phase_set(below), solids
+        state.key, state.forming, state.eq = phase_set(below), solids, below
 
     def _start_stage(self, name: str) -> None:
         """Solid formed from now on belongs to the constituent `name` (one per name)."""
