@@ -18,7 +18,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .global_minimum import global_minimum
-from .section import Section
+from .section import Section, per_system
 from ..models.phases import CompoundPhase, SolutionPhase
 from ..units import mass_from_mole
 
@@ -131,7 +131,7 @@ def _composition(system, composition, x_A: float | None) -> np.ndarray:
     """The overall mole fractions as an array (a float is a binary's x_B). Raises ValueError with one line for a composition of the wrong length, a negative or
     non-finite fraction, or fractions that do not sum to 1."""
     n = len(system.elements)
-    if np.ndim(composition) == 0:
+    if isinstance(composition, (float, int)) or np.ndim(composition) == 0:
         x_B = float(composition)
         if n != 2:
             raise ValueError(f"{system.name} has {n} elements; give a mole fraction for each of {', '.join(system.elements)}")
@@ -148,10 +148,14 @@ def _composition(system, composition, x_A: float | None) -> np.ndarray:
     return z
 
 
+#: Whether each system takes the binary shortcut (systems are not changed in place).
+_shortcut: "weakref.WeakKeyDictionary[object, bool]" = weakref.WeakKeyDictionary()
+
+
 def _binary_shortcut(system) -> bool:
     """True for a binary of substitutional solutions and compounds (today's fast binary path)."""
-    return len(system.elements) == 2 and all(isinstance(p, (SolutionPhase, CompoundPhase))
-                                             for p in system.phases.values())
+    return per_system(_shortcut, system, lambda s: len(s.elements) == 2 and all(
+        isinstance(p, (SolutionPhase, CompoundPhase)) for p in s.phases.values()))
 
 
 def equilibrate(system, temperature_K: float, composition, x_A: float | None = None,
@@ -212,9 +216,7 @@ _site_counts: "weakref.WeakKeyDictionary[object, dict[str, tuple[int, ...]]]" = 
 def _compound_site_counts(system, name: str) -> tuple[int, ...]:
     """The number of constituents on each sublattice of a stoichiometric compound's general
     form (its site fractions are 1 on each), remembered per system."""
-    counts = _site_counts.get(system)
-    if counts is None:
-        counts = _site_counts[system] = {}
+    counts = per_system(_site_counts, system, lambda _s: {})
     found = counts.get(name)
     if found is None:
         model = getattr(system, "models", {}).get(name)

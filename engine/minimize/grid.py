@@ -31,6 +31,12 @@ def composition_grid(n: int = DEFAULT_POINTS) -> tuple[np.ndarray, np.ndarray]:
 
 
 @lru_cache(maxsize=8)
+def grid_list(n: int = DEFAULT_POINTS) -> tuple[float, ...]:
+    """x_B on the n-point grid as Python floats (for bisect on single compositions)."""
+    return tuple(composition_grid(n)[1].tolist())
+
+
+@lru_cache(maxsize=8)
 def ideal_mixing_on_grid(n: int = DEFAULT_POINTS) -> np.ndarray:
     """x_A ln x_A + x_B ln x_B on the grid (0 at both ends); times RT it is the ideal mixing term."""
     xa, xb = composition_grid(n)
@@ -68,13 +74,14 @@ def curvature_basis(n: int, order: int) -> np.ndarray:
     return out
 
 
-def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.ndarray:
+def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS, magnetic: bool = True) -> np.ndarray:
     """(len(solutions), n): x_A x_B d2G/dx_B2 (J/mol) of each solution phase at one temperature
-    (`SolutionAtT`) on the n-point grid; negative inside a spinodal."""
+    (`SolutionAtT`) on the n-point grid; negative inside a spinodal. `magnetic` False leaves
+    the magnetic terms out (the caller adds them where it needs them)."""
     order = max(len(s.L) for s in solutions)
     C = np.array([s.curvature_coefficients(order) for s in solutions]) @ curvature_basis(n, order)
     for k, s in enumerate(solutions):
-        if s.phase.magnetic is not None:
+        if magnetic and s.phase.magnetic is not None:
             xa, xb = composition_grid(n)
             C[k] += s.magnetic_scaled_curvature(xa, xb)
     return C
@@ -88,5 +95,30 @@ def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.ndarray:
     for k, s in enumerate(solutions):
         if s.phase.magnetic is not None:
             xa, xb = composition_grid(n)
-            G[k] += s.magnetic_gibbs(xa, xb)
+            G[k] += s.magnetic_gibbs(xa, xb, _magnetic_parameters_on_grid(s, n))
     return G
+
+
+#: Magnetic parameters on the grid of phases whose Tc and beta do not depend on temperature,
+#: by (id(phase), n); each entry keeps its phase, so that the id is not reused while it lives.
+_magnetic_parameters: dict[tuple[int, int], tuple[object, tuple[np.ndarray, ...]]] = {}
+_MAGNETIC_PARAMETERS_KEPT = 64
+
+
+def _magnetic_parameters_on_grid(s, n: int) -> tuple[np.ndarray, ...] | None:
+    """`SolutionAtT.magnetic_parameters` on the n-point grid, computed once per phase where they
+    do not depend on temperature; None where they do (computed with the term then)."""
+    phase = s.phase
+    if not phase.magnetic_parameters_constant:
+        return None
+    key = (id(phase), n)
+    found = _magnetic_parameters.get(key)
+    if found is not None and found[0] is phase:
+        return found[1]
+    params = s.magnetic_parameters(*composition_grid(n))
+    for a in params:
+        a.setflags(write=False)
+    if len(_magnetic_parameters) >= _MAGNETIC_PARAMETERS_KEPT:
+        _magnetic_parameters.clear()
+    _magnetic_parameters[key] = (phase, params)
+    return params

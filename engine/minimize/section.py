@@ -13,13 +13,14 @@ the whole section, with every tie-line, is built on demand and cached.
 from __future__ import annotations
 
 import weakref
-from bisect import bisect_left
+from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from functools import cached_property
+from typing import Callable
 
 import numpy as np
 
-from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid, scaled_curvature_on_grid
+from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid, grid_list, scaled_curvature_on_grid
 from .hull import lower_hull
 from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
 from .tangent import common_tangent, lowest_against_line, tangent_to_point
@@ -77,16 +78,24 @@ class BinaryPhases:
         self.comp_x = tuple((float(c.x[0]), float(c.x[1])) for c in self.compounds)
 
 
-#: BinaryPhases of each system, kept while the system lives (systems are not changed in place).
+def per_system(cache: weakref.WeakKeyDictionary, system, build: Callable):
+    """cache[system], made by build(system) on first use and kept while the system lives
+    (systems are not changed in place); an object that takes no weak reference is not kept."""
+    try:
+        found = cache.get(system)
+    except TypeError:
+        return build(system)
+    if found is None:
+        found = cache[system] = build(system)
+    return found
+
+
 _binary_phases: "weakref.WeakKeyDictionary[object, BinaryPhases]" = weakref.WeakKeyDictionary()
 
 
 def binary_phases(system) -> BinaryPhases:
     """The system's BinaryPhases, built on first use."""
-    found = _binary_phases.get(system)
-    if found is None:
-        found = _binary_phases[system] = BinaryPhases(system)
-    return found
+    return per_system(_binary_phases, system, BinaryPhases)
 
 
 class Section:
@@ -118,13 +127,16 @@ class Section:
         self._verified: set = set()
         self._index = phases.index
         self._compound_dT: dict[int, float] = {}
-        #: x_A x_B d2G/dx_B2 of every solution on the grid, formed on first use (`_curvatures`).
+        #: x_A x_B d2G/dx_B2 of every solution on the grid less any magnetic term, formed on
+        #: first use (`_curvatures`).
         self._scaled_curvature: np.ndarray | None = None
 
     def _curvatures(self) -> np.ndarray:
-        """(solutions, grid points): x_A x_B d2G/dx_B2 (J/mol) of every solution on the grid."""
+        """(solutions, grid points): x_A x_B d2G/dx_B2 (J/mol) of every solution on the grid,
+        without the magnetic term (on the whole grid it would cost more than the few points a
+        query looks at)."""
         if self._scaled_curvature is None:
-            self._scaled_curvature = scaled_curvature_on_grid(self.solutions, len(self.xb))
+            self._scaled_curvature = scaled_curvature_on_grid(self.solutions, len(self.xb), magnetic=False)
         return self._scaled_curvature
 
     # --- hull --------------------------------------------------------------------------------
@@ -163,6 +175,11 @@ class Section:
         c = k - n
         return self.n_sol + c, -1, self.comp_x[c][0], self.comp_x[c][1], self.comp_g[c]
 
+    def _seed_x_B(self, k: int) -> float:
+        """x_B of candidate k of `_seed`."""
+        cxb = self._coarse[0]
+        return float(cxb[k]) if k < len(cxb) else self.comp_x[k - len(cxb)][1]
+
     def _bridge(self, xb0: float) -> tuple[int, int]:
         """The lower hull's edge over x_B = xb0 (0 < xb0 < 1) among the hull's candidates, as
         indices (i, j) of `_seed` with x_B(i) < xb0 <= x_B(j): from the coarse grid points on
@@ -175,7 +192,7 @@ class Section:
         if k < len(edges) and edges[k][1] < xb0 <= edges[k][0]:     # inside an edge found before
             return edges[k][2], edges[k][3]
         i, j = self._new_bridge(xb0)
-        edge = (self._seed(j)[3], self._seed(i)[3], i, j)
+        edge = (self._seed_x_B(j), self._seed_x_B(i), i, j)
         k = bisect_left(edges, edge)
         if k == len(edges) or edges[k] != edge:
             edges.insert(k, edge)
@@ -200,7 +217,10 @@ class Section:
                     k, lowest = n + c, dc
             if lowest >= level - 1e-9 * (1.0 + abs(level)):
                 break
-            _p, _grid, _xa, xk, gk = self._seed(k)
+            if k < n:
+                xk, gk = float(xb[k]), float(g[k])
+            else:
+                xk, gk = self.comp_x[k - n][1], self.comp_g[k - n]
             if xk < xb0:
                 i, xi, gi = k, xk, gk
             else:
@@ -279,7 +299,7 @@ class Section:
         # looked at; a neighbour not among them lies higher.
         n = df.shape[1]
         flat = df.ravel()
-        low = np.flatnonzero(flat < 2e-3 * self.RT)
+        low = (flat < 2e-3 * self.RT).nonzero()[0]
         below = dict(zip(low.tolist(), flat[low].tolist()))
         near = None
         ends = []
@@ -293,7 +313,8 @@ class Section:
             if (left is not None and d_grid > left) or (right is not None and d_grid > right):
                 continue
             if near is None:
-                near = {(ph, int(self.xb.searchsorted(xt))) for ph, xt in touching}
+                grid = grid_list(n)
+                near = {(ph, bisect_left(grid, xt)) for ph, xt in touching}
             if (s, i) in near or (s, i - 1) in near or (s, i + 1) in near:
                 continue
             sol = self.solutions[s]
@@ -327,13 +348,18 @@ class Section:
         Curvature minima between grid points are examined on a finer local grid so that a
         spinodal narrower than a grid cell is found."""
         sol = self.solutions[s]
-        n = len(self.xb)
-        i0 = max(int(self.xb.searchsorted(lo)) - 1, 1)
-        i1 = min(int(self.xb.searchsorted(hi, side="right")) + 1, n - 1)
+        grid = grid_list(len(self.xb))
+        n = len(grid)
+        i0 = max(bisect_left(grid, lo) - 1, 1)
+        i1 = min(bisect_right(grid, hi) + 1, n - 1)
         if i1 - i0 < 1:
+            return None
+        if sol.phase.magnetic is None and self._curvature_stays_positive(s, grid[i0], grid[i1 - 1]):
             return None
         xb = self.xb[i0:i1]
         c = self._curvatures()[s, i0:i1]
+        if sol.phase.magnetic is not None:
+            c = c + sol.magnetic_scaled_curvature(self.xa[i0:i1], xb)
         if float(c.min()) >= 0.05 * self.RT:        # no negative curvature, no minimum close to it
             return None
         neg = np.flatnonzero(c < 0)
@@ -354,6 +380,14 @@ class Section:
         left = self._curvature_root(sol, xb[first - 1], xb[first]) if first > 0 else float(xb[first])
         right = self._curvature_root(sol, xb[last], xb[last + 1]) if last + 1 < len(c) else float(xb[last])
         return left, right
+
+    def _curvature_stays_positive(self, s: int, lo: float, hi: float) -> bool:
+        """Whether solution s (no magnetic term) has a scaled curvature of at least 0.05 RT at
+        every x_B in [lo, hi], by a bound: x_A x_B G'' = RT + x_A x_B sum_k L[k] t_k(x), and
+        |t_k| <= 2 (2k + 1) + k (k - 1) (|x_A - x_B| <= 1, x_A x_B <= 1/4)."""
+        bound = sum(abs(Lk) * (2 * (2 * k + 1) + k * (k - 1)) for k, Lk in enumerate(self.solutions[s].L))
+        p_max = 0.25 if lo <= 0.5 <= hi else max(lo * (1.0 - lo), hi * (1.0 - hi))
+        return p_max * bound <= 0.95 * self.RT
 
     @staticmethod
     def _curvature_root(sol: SolutionAtT, a: float, b: float) -> float:

@@ -107,6 +107,8 @@ def tangent_to_point(P: SolutionAtT, point: tuple[float, float], g_point: float,
     xa_c, xb_c = point
     y = logit(*start)
     side = 1.0 if start[1] > xb_c else -1.0
+    # the compound's composition in y (x_B rises with y): a step may not reach it
+    y_c = math.log(xb_c) - math.log(xa_c) if xa_c > 0.0 and xb_c > 0.0 else -side * math.inf
     tol = _tolerance(P.RT, rtol)
     done = False
     res = math.inf
@@ -125,7 +127,7 @@ def tangent_to_point(P: SolutionAtT, point: tuple[float, float], g_point: float,
             break
         y_new = y - _clip(f / d)
         # never cross the compound's composition: halve the step instead
-        while (fractions(y_new)[1] - xb_c) * side <= 0:
+        while (y_new - y_c) * side <= 0:
             y_new = 0.5 * (y + y_new)
             if abs(y_new - y) < 1e-15:
                 break

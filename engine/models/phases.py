@@ -117,6 +117,20 @@ class SolutionPhase:
         """The phase with all temperature-dependent coefficients evaluated at T (K)."""
         return SolutionAtT(self, T)
 
+    @cached_property
+    def binary_terms(self) -> tuple[TemperatureFunction, ...]:
+        """The Redlich-Kister series L[0], L[1], ... of the binary's element pair."""
+        return self.interactions.get(BINARY_PAIR, ())
+
+    @cached_property
+    def magnetic_parameters_constant(self) -> bool:
+        """Whether the magnetic term's Tc and beta (K, Bohr magnetons) do not depend on
+        temperature (every composition term of theirs a constant): then they can be tabulated
+        once over a composition grid (`SolutionAtT.magnetic_parameters`)."""
+        mag = self.magnetic
+        return mag is not None and all(f.is_constant for terms in (*mag.curie_L.values(), *mag.moment_L.values())
+                                       for f in terms)
+
     def valid_range_K(self) -> tuple[float, float]:
         funcs = self.endmembers + sum(self.interactions.values(), ())
         if self.magnetic:
@@ -133,11 +147,14 @@ class SolutionAtT:
         self.RT = R * T
         end_a, end_b = phase.endmembers
         self.g0a, self.g0b = end_a.value(T), end_b.value(T)
-        self.L = [f.value(T) for f in phase.interactions.get(BINARY_PAIR, ())]
+        self.L = [f.value(T) for f in phase.binary_terms]
         mag = phase.magnetic
         if mag is not None:
             self.curie_L = [f.value(T) for f in mag.curie_L.get(BINARY_PAIR, ())]
             self.moment_L = [f.value(T) for f in mag.moment_L.get(BINARY_PAIR, ())]
+            # the pure elements' Tc and beta as Python floats: scalar Newton steps stay in floats
+            self._pure_curie = tuple(float(v) for v in mag.curie_K[:2])
+            self._pure_moment = tuple(float(v) for v in mag.moment[:2])
         self._dT: tuple[tuple[float, float], list[float]] | None = None
 
     @property
@@ -147,8 +164,7 @@ class SolutionAtT:
         if self._dT is None:
             T = self.T
             end_a, end_b = self.phase.endmembers
-            self._dT = ((end_a.derivative(T), end_b.derivative(T)),
-                        [f.derivative(T) for f in self.phase.interactions.get(BINARY_PAIR, ())])
+            self._dT = ((end_a.derivative(T), end_b.derivative(T)), [f.derivative(T) for f in self.phase.binary_terms])
         return self._dT
 
     # --- magnetic part -------------------------------------------------------------------
@@ -156,21 +172,33 @@ class SolutionAtT:
         """Tc and beta with their derivatives along x_B (order 2, else zeros), antiferromagnetic
         values divided by the factor, and where the term is active, the safe Tc and tau = T/Tc."""
         mag = self.phase.magnetic
-        tc, tc1, tc2 = self._linear_plus_excess(mag.curie_K, self.curie_L, xa, xb, order)
-        be, be1, be2 = self._linear_plus_excess(mag.moment, self.moment_L, xa, xb, order)
+        tc, tc1, tc2 = self._linear_plus_excess(self._pure_curie, self.curie_L, xa, xb, order)
+        be, be1, be2 = self._linear_plus_excess(self._pure_moment, self.moment_L, xa, xb, order)
         sign_tc = where(tc < 0.0, 1.0 / mag.antiferro_factor, 1.0)
         sign_be = where(be < 0.0, 1.0 / mag.antiferro_factor, 1.0)
-        tc, tc1, tc2 = tc * sign_tc, tc1 * sign_tc, tc2 * sign_tc
-        be, be1, be2 = be * sign_be, be1 * sign_be, be2 * sign_be
+        tc, be = tc * sign_tc, be * sign_be
+        if order:
+            tc1, tc2 = tc1 * sign_tc, tc2 * sign_tc
+            be1, be2 = be1 * sign_be, be2 * sign_be
         active = tc > 1e-9
         tc_safe = where(active, tc, 1.0)
         tau = where(active, self.T / tc_safe, 1e9)
         return (tc1, tc2), (be, be1, be2), active, tc_safe, tau
 
-    def magnetic_gibbs(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
-        """G of the magnetic term alone (J/mol): the value-only path of `gibbs`."""
-        _tc, (be, _b1, _b2), active, _safe, tau = self._curie_and_moment(xa, xb, 0)
-        g = self.RT * _log(1.0 + be) * hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 0)[0]
+    def magnetic_parameters(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """(active, Tc, ln(1 + beta)) of the magnetic term at the compositions: where Tc > 0 (K),
+        Tc there (1 elsewhere), and the moment's logarithm. They depend on temperature only
+        where the phase's `magnetic_parameters_constant` is False."""
+        _tc, (be, _b1, _b2), active, tc_safe, _tau = self._curie_and_moment(xa, xb, 0)
+        return active, tc_safe, _log(1.0 + be)
+
+    def magnetic_gibbs(self, xa: np.ndarray, xb: np.ndarray,
+                       parameters: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None) -> np.ndarray:
+        """G of the magnetic term alone (J/mol): the value-only path of `gibbs`. `parameters`
+        may hold `magnetic_parameters` at these compositions, computed before."""
+        active, tc_safe, u = self.magnetic_parameters(xa, xb) if parameters is None else parameters
+        tau = where(active, self.T / tc_safe, 1e9)
+        g = self.RT * u * hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 0)[0]
         return where(active, g, 0.0 * g)
 
     def magnetic_scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
@@ -208,7 +236,7 @@ class SolutionAtT:
         return tuple(where(active, v, 0.0 * v) for v in (g_dT, g1_dT))
 
     @staticmethod
-    def _linear_plus_excess(pure: np.ndarray, L: list[float], xa: np.ndarray, xb: np.ndarray, order: int):
+    def _linear_plus_excess(pure: tuple[float, float], L: list[float], xa: np.ndarray, xb: np.ndarray, order: int):
         """The composition-dependent Tc or beta and, for order 2, its first two derivatives."""
         value = xa * pure[0] + xb * pure[1] + redlich_kister(L, xa, xb)
         if order == 0:

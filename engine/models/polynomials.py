@@ -74,6 +74,12 @@ class TemperatureFunction:
     def lower_K(self) -> float:
         return self.bounds[0]
 
+    @cached_property
+    def is_constant(self) -> bool:
+        """Whether the function takes one value at every temperature where it is defined."""
+        rows = self._rows
+        return all(not any(row[1:]) for row in rows) and len({row[0] for row in rows}) == 1
+
     @property
     def upper_K(self) -> float:
         return self.bounds[-1]
@@ -93,12 +99,23 @@ class TemperatureFunction:
         i = bisect_left(self.bounds, T, 1) - 1
         return rows[min(max(i, 0), len(rows) - 1)]
 
+    @cached_property
+    def _one_piece(self) -> tuple[float, float, tuple[float, ...]] | None:
+        """(lower K, upper K, coefficients) of a function of one piece, else None."""
+        return (self.bounds[0], self.bounds[1], self._rows[0]) if len(self._rows) == 1 else None
+
     def value(self, T: float) -> float:
         """G(T) in J/mol."""
+        one = self._one_piece
+        if one is not None and one[0] <= T <= one[1] and T > 0.0:
+            return _evaluate(one[2], T)
         return _evaluate(self._row(T), T)
 
     def derivative(self, T: float) -> float:
         """dG/dT in J/(mol K)."""
+        one = self._one_piece
+        if one is not None and one[0] <= T <= one[1] and T > 0.0:
+            return _evaluate_dT(one[2], T)
         return _evaluate_dT(self._row(T), T)
 
     def plus(self, other: "TemperatureFunction") -> "TemperatureFunction":
