@@ -122,7 +122,14 @@ def driving_force(system, eq, names) -> float | None:
     (minimize.multiphase_newton.lowest_driving_force). Positive where the phases are less
     stable than the equilibrium, zero where one of them joins it. None where the equilibrium
     gives no chemical potentials or a phase has no sampled model."""
-    mu = np.asarray(getattr(eq, "chemical_potentials", ()), dtype=float)
+    return driving_force_at(system, eq.temperature_K, getattr(eq, "chemical_potentials", ()), names)
+
+
+def driving_force_at(system, temperature_K: float, chemical_potentials, names) -> float | None:
+    """The least driving force (J per mole of atoms) of the phases `names` against the chemical
+    potentials (J/mol, one per element of the system, NaN where an element is absent) at
+    temperature_K (K), as `driving_force` takes them from a point equilibrium."""
+    mu = np.asarray(chemical_potentials, dtype=float)
     models = getattr(system, "models", None)
     if mu.size == 0 or models is None:
         return None
@@ -133,7 +140,7 @@ def driving_force(system, eq, names) -> float | None:
         phase = models.get(name)
         if phase is None or not hasattr(phase, "at"):
             return None
-        model = phase.at(eq.temperature_K)
+        model = phase.at(temperature_K)
         Y, X, G = model.samples()
         E = np.asarray(model.element_matrix)
         free = np.flatnonzero(~np.any(E[:, ~active] != 0.0, axis=1))

@@ -30,7 +30,7 @@ from .plain_text import has_controls, without_controls
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
 _TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
              "temperature_range_K", "phase", "check", "measured", "fit", "fit_report", "builds_on",
-             "trade_names", "trade_line", "trade_line_note", "heat_treatment", "alloy"}
+             "trade_names", "trade_line", "trade_line_note", "heat_treatment", "alloy", "cast_iron"}
 _LOWEST_K = 1.0
 
 

@@ -49,12 +49,15 @@ class PhaseName:
 class TradeNames:
     """A system's trade names: `phases` (phase -> its names by temperature), `lines`, the note
     shown once under any answer that crosses a named line (`lines_note`, may be empty) and the
-    `heat_treatment` its alloys take (one of HEAT_TREATMENTS, or None)."""
+    `heat_treatment` its alloys take (one of HEAT_TREATMENTS, or None); `cast_iron`: the
+    system's alloys are cast irons, for which `ladle melt` gives the graphite eutectic and the
+    carbon equivalent."""
 
     phases: dict[str, tuple[PhaseName, ...]]
     lines: tuple[TradeLine, ...]
     heat_treatment: str | None = None
     lines_note: str = ""
+    cast_iron: bool = False
 
     def phase_name(self, phase: str, temperature_K: float) -> str | None:
         """The trade's name of `phase` at temperature_K (K), or None."""
@@ -98,7 +101,28 @@ def read_trade_names(doc: dict, phases: Collection[str] | None, fail: Callable[[
     note = doc.get("trade_line_note", "")
     if not isinstance(note, str):
         raise fail("trade_line_note", "expected a text")
-    return TradeNames(names, tuple(lines), treatment, without_controls(note, keep_newlines=True))
+    return TradeNames(names, tuple(lines), treatment, without_controls(note, keep_newlines=True),
+                      _cast_iron(doc, phases, fail))
+
+
+#: What a cast iron system holds: its elements and the phases of its eutectics.
+CAST_IRON_ELEMENTS = ("Fe", "C", "Si")
+CAST_IRON_PHASES = ("liquid", "fcc", "graphite")
+
+
+def _cast_iron(doc: dict, phases: Collection[str] | None, fail: Callable[[str, str], Exception]) -> bool:
+    """The file's `cast_iron` flag (default false); a file that sets it must hold iron, carbon and
+    silicon and the phases liquid, fcc (austenite) and graphite."""
+    value = doc.get("cast_iron", False)
+    if not isinstance(value, bool):
+        raise fail("cast_iron", f"expected true or false, found {value!r}")
+    if value and phases is not None:
+        lacking = [e for e in CAST_IRON_ELEMENTS if e not in doc.get("elements", ())]
+        lacking += [p for p in CAST_IRON_PHASES if p not in phases]
+        if lacking:
+            raise fail("cast_iron", f"a cast iron system needs the elements {', '.join(CAST_IRON_ELEMENTS)} and the "
+                       f"phases {', '.join(CAST_IRON_PHASES)}; this one lacks {', '.join(lacking)}")
+    return value
 
 
 def _table(item: Any, key: str, allowed: set[str], fail: Callable[[str, str], Exception], what: str) -> dict:

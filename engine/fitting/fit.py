@@ -32,6 +32,7 @@ from typing import Callable
 import numpy as np
 
 from ..diagrams.diagram import map_diagram
+from ..diagrams.mappable import unmapped_phases
 from ..errors import SystemFileError
 from .parameters import ParameterPath, ParameterPathError, parse_free
 from .targets import Target, TargetInputError, TargetLost, make_target
@@ -184,9 +185,13 @@ def _prepare(system) -> tuple[list[ParameterPath], list[Target]]:
         if reason is not None:
             raise FitInputError(f"{name}: measured[{f.index}]: {reason}")
     binary = len(system.elements) == 2
-    diagram = map_diagram(system) if binary and any(f.kind == "invariant" for f in system.measured) else None
+    point_equilibria = binary and bool(unmapped_phases(system))
+    if point_equilibria and any(f.kind == "invariant" for f in system.measured):
+        raise FitInputError(f"{name}: measured: an invariant of a binary with sublattice phases is not fitted (its "
+                            "diagram is not traced); give its liquidus, solidus or tie-line ends instead")
+    diagram = map_diagram(system) if binary and not point_equilibria and any(f.kind == "invariant" for f in system.measured) else None
     try:
-        targets = [make_target(f, diagram, tuple(system.elements)) for f in system.measured]
+        targets = [make_target(f, diagram, tuple(system.elements), point_equilibria) for f in system.measured]
     except TargetInputError as e:
         raise FitInputError(f"{name}: {e}") from None
     m = sum(len(t.quantities) for t in targets)

@@ -20,7 +20,7 @@ from ..models.polynomials import COEFFICIENTS
 
 #: Magnitude (J/mol) that one unit of a scaled parameter adds to G at the reference temperature.
 SCALE_J_PER_MOL = 1000.0
-_TABLE_KEYS = set(COEFFICIENTS) | {"library", "upto", "from"}
+_TABLE_KEYS = set(COEFFICIENTS) | {"library", "upto", "from", "reference"}   # "reference": an end member's G
 
 
 class ParameterPathError(ValueError):

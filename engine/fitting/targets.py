@@ -225,13 +225,37 @@ class MulticomponentTarget(Target):
         return values
 
 
-def make_target(fact: Fact, diagram, elements: tuple[str, ...] = ()) -> Target:
+class PointBoundaryTarget(Target):
+    """A liquidus, solidus or tie-line end of a binary with sublattice phases (which the tracer
+    does not map), measured from point equilibria as `ladle check` measures it
+    (engine/checking/point_boundaries.py)."""
+
+    def __init__(self, fact: Fact) -> None:
+        super().__init__(fact)
+        self.quantities = ((_composition_quantity(fact, fact.phase, fact.x_B),) if fact.kind == "boundary"
+                           else (_temperature_quantity(fact),))
+
+    def _values(self, system) -> list[float]:
+        from ..checking.point_boundaries import point_boundary
+
+        outcome = point_boundary(system, self.fact)
+        values = [c.model for c in outcome.comparisons]
+        if outcome.problem is not None or not values or any(v is None for v in values):
+            raise TargetLost(outcome.problem or "the model has no value for it")
+        return values
+
+
+def make_target(fact: Fact, diagram, elements: tuple[str, ...] = (), point_equilibria: bool = False) -> Target:
     """The fit target of one measured fact; `diagram` is the starting model's mapped diagram
-    (used to find its reactions); `elements` the system's (for facts of three or more)."""
+    (used to find its reactions); `elements` the system's (for facts of three or more);
+    `point_equilibria` for a binary with sublattice phases, whose boundaries are measured from
+    point equilibria."""
     if fact.kind == "melting":
         return MeltingTarget(fact)
     if fact.x is not None or fact.phase_x:
         return MulticomponentTarget(fact, elements)
+    if point_equilibria and fact.kind in ("liquidus", "solidus", "boundary"):
+        return PointBoundaryTarget(fact)
     if fact.kind in ("liquidus", "solidus"):
         return BoundaryTemperatureTarget(fact)
     if fact.kind == "boundary":

@@ -7,6 +7,7 @@ from __future__ import annotations
 import argparse
 
 from .. import quote
+from .cast_iron import cast_iron_lines, cast_iron_report
 from .common import alloy_both, closing_lines, print_json, read_alloy, system_title, temperature_both
 
 
@@ -23,6 +24,7 @@ def run_alloy(system, args: argparse.Namespace) -> int:
     liquidus, solidus = scan.liquidus_K, scan.solidus_K
     freezing = None if liquidus is None or solidus is None else liquidus - solidus
     pouring_K = None if superheat_K is None or liquidus is None else liquidus + superheat_K
+    cast_iron = cast_iron_report(system, x)
     if args.json:
         w = mass_from_mole(x, system.molar_mass)
         print_json({
@@ -31,6 +33,7 @@ def run_alloy(system, args: argparse.Namespace) -> int:
             "mass_fraction": {el: float(v) for el, v in zip(system.elements, w)},
             "liquidus_K": liquidus, "solidus_K": solidus, "freezing_range_K": freezing,
             **({} if superheat_K is None else {"superheat_K": superheat_K, "pouring_K": pouring_K}),
+            **({} if cast_iron is None else {"cast_iron": cast_iron}),
             "crossings": [{"temperature_K": c.temperature_K, "above": list(c.above), "below": list(c.below)}
                           for c in scan.transitions],
             "warnings": list(scan.warnings),
@@ -48,6 +51,7 @@ def run_alloy(system, args: argparse.Namespace) -> int:
         lines.append(f"freezing range  {quote.temperature_difference(freezing, unit)}")
     if superheat_K is not None:
         lines.append(pouring_line(pouring_K, superheat_K, unit))
+    lines += cast_iron_lines(cast_iron, unit)
     lines.append("on cooling:")
     lines += [f"  {quote.temperature(c.temperature_K, unit):>12}  {' + '.join(c.above)}  ->  {' + '.join(c.below)}"
               for c in scan.transitions]
