@@ -141,6 +141,8 @@ class SolutionPhase:
 class SolutionAtT:
     """A solution phase at one temperature; vectorised over compositions."""
 
+    __slots__ = ("phase", "T", "RT", "g0a", "g0b", "L", "curie_L", "moment_L", "_pure_curie", "_pure_moment", "_dT")
+
     def __init__(self, phase: SolutionPhase, T: float) -> None:
         self.phase = phase
         self.T = T

@@ -4,8 +4,9 @@
   `scaled_curvature` (the same numbers exactly on Python floats, and to 1e-12 from the array
   path), and its curvature against a central difference of the slope dG/dx_B (step 1e-6: the
   truncation error is of order h^2 times the fourth derivative, far below the tolerance);
-- the scaled curvature on the section's grid (one matrix product for every phase) against each
-  phase's own `scaled_curvature`;
+- G and the scaled curvature on the section's grid (one matrix product for every phase, the
+  magnetic term's Tc and beta tabulated once per phase) against each phase's own `gibbs` and
+  `scaled_curvature`;
 - a section's driving-force scan (`violations`, which looks only at the grid points close to the
   line) against a dense evaluation of every phase on 20,001 compositions: every phase that lies
   below a line somewhere is reported, and every reported point lies below it;
@@ -21,7 +22,7 @@ import pytest
 from ladle.engine import equilibrate, find_system
 from ladle.engine.files.loader import shipped_folder
 from ladle.engine.minimize.equilibrium import _binary_shortcut, section_at
-from ladle.engine.minimize.grid import composition_grid, scaled_curvature_on_grid
+from ladle.engine.minimize.grid import composition_grid, gibbs_on_grid, scaled_curvature_on_grid
 from ladle.engine.minimize.section import DRIVING_FORCE_TOLERANCE, Section
 from ladle.engine.models.phases import SolutionPhase
 
@@ -67,6 +68,20 @@ def test_fused_potentials_and_curvature_equal_the_separate_ones(name):
                     central = x_a * x_b * (float(up) - float(down)) / (2 * h)
                     # slopes of ~1e4 J/mol differenced over 2e-6 carry ~1e-5 J/mol of rounding
                     assert s == pytest.approx(central, rel=1e-5, abs=1e-3 * at.RT), (name, phase_name, T, x_b)
+
+
+@pytest.mark.parametrize("name", BINARIES)
+def test_grid_gibbs_equals_each_phase_gibbs(name):
+    """One matrix product for every phase, the magnetic term from Tc and beta tabulated once per
+    phase (Cu-Ni's fcc), against each phase's own `gibbs` at the same compositions."""
+    system = find_system(name)
+    xa, xb = composition_grid()
+    for T in _temperatures(system, 3):
+        solutions = [p.at(T) for _n, p in _solutions(system)]
+        grid = gibbs_on_grid(solutions)
+        for k, sol in enumerate(solutions):
+            expected = sol.gibbs(xa, xb)
+            assert np.allclose(grid[k], expected, rtol=1e-12, atol=1e-9), (name, k, T)
 
 
 @pytest.mark.parametrize("name", BINARIES)
