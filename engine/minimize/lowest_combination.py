@@ -151,13 +151,14 @@ class LowestCombination:
                 since_refactor = 0
             else:                                    # product-form update of the inverse
                 pivot = inv[r] / u[r]
-                inv = inv - np.outer(u, pivot)
+                inv = inv - u[:, None] * pivot
                 inv[r] = pivot
             self.iterations += 1
         self.converged = converged
-        self.weights = np.linalg.solve(cols.T, self.z)
-        self.mu = np.linalg.solve(cols, cost)
-        self.gibbs = float(self.weights @ cost)
+        if stride == 1:                              # the answer (a coarse solve only starts the full one)
+            self.weights = np.linalg.solve(cols.T, self.z)
+            self.mu = np.linalg.solve(cols, cost)
+            self.gibbs = float(self.weights @ cost)
 
     # --- public ------------------------------------------------------------------------------
     def add(self, X: np.ndarray, G: np.ndarray, restart: np.ndarray | None = None) -> None:

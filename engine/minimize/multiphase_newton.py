@@ -149,13 +149,14 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
     mu = np.array(mu, dtype=float)
     extra_step = False
     lay = _Layout(states, elements)
+    minus_z = -np.asarray(z, dtype=float)
     with np.errstate(all="ignore"):
         for _ in range(max_iterations):
             m0 = lay.m0
             J = lay.J0.copy()
             r = np.empty(lay.size)
             scale = 1.0
-            balance = -np.asarray(z, dtype=float)
+            balance = minus_z.copy()
             for st, (S, A, o, nf, ns, fr, fc, whole, _groups) in zip(states, lay.blocks):
                 y = st.y
                 G, g, H = _derivatives(st.model, y)
@@ -182,12 +183,14 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
             if (np.abs(r[lay.energy_rows]).max() <= ENERGY_TOLERANCE * scale
                     and np.abs(r[lay.balance_rows]).max() <= BALANCE_TOLERANCE):
                 extra_step = True           # converged: one more step polishes the last digits
-            if not (np.isfinite(J).all() and np.isfinite(r).all()):
+            if not np.isfinite(r).all():
                 return states, mu, False
             try:
                 d = np.linalg.solve(J, -r)
             except np.linalg.LinAlgError:
                 d = np.linalg.lstsq(J, -r, rcond=None)[0]
+            if not np.isfinite(d).all():     # a non-finite Jacobian (its entries are not checked)
+                return states, mu, False
             big = float(np.abs(d[lay.y_rows]).max()) if len(lay.y_rows) else 0.0
             if big > MAX_STEP:              # a far start: shorter steps keep composition sets apart
                 d *= MAX_STEP / big

@@ -154,13 +154,18 @@ def molar_mass(system, x) -> float:
 
 def labelled(system, shares) -> list[str]:
     """Names of phases (point-equilibrium shares) for a constituent's name, with the element a
-    phase is richest in where the same phase occurs twice (the two sides of a miscibility gap:
-    'fcc (Cu-rich)')."""
+    composition set is rich in where the same phase occurs twice (the two sides of a miscibility
+    gap: 'fcc (Cu-rich)'): the element whose mole fraction in it most exceeds (relative) its mean
+    over the phase's sets, so that the sets get different names even where the same element is
+    the largest in both (Ag-Au-Cu: fcc (Ag-rich) and fcc (Cu-rich), each with about 30 % Au)."""
     names = [p.name for p in shares]
     out = []
     for p in shares:
         if names.count(p.name) < 2:
             out.append(p.name)
-        else:
-            out.append(f"{p.name} ({system.elements[int(np.argmax(p.x))]}-rich)")
+            continue
+        mean = np.mean([np.asarray(q.x, dtype=float) for q in shares if q.name == p.name], axis=0)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            enrichment = np.where(mean > 0.0, np.asarray(p.x, dtype=float) / mean, 0.0)
+        out.append(f"{p.name} ({system.elements[int(np.argmax(enrichment))]}-rich)")
     return out

@@ -11,7 +11,10 @@ shipped lead-tin binary with bismuth added ideally) and on the shipped Sn-Ag-Cu 
   grid: valleys and four-phase invariants; no target in the issue; not for Sn-Ag-Cu, whose file
   covers only the tin corner);
 - point_binary_s / point_ternary_s: `ladle point` in a fresh process for a binary alloy and for a
-  ternary one (target: the ternary within 0.1 s of the binary).
+  ternary one (target: the ternary within 0.1 s of the binary);
+- scheil_named: the Scheil path of one named alloy of each other shipped ternary (`[[alloy]]` of
+  its file: the 14-carat gold 14ct-1N of Ag-Au-Cu, A356.0 of Al-Mg-Si, Rose's metal Bi50Pb28Sn22
+  of Bi-Pb-Sn; target 0.2 s each).
 Each computation is given as the median wall-clock time (time.perf_counter), the median CPU
 time of this process (time.process_time, less disturbed by other work on a loaded machine) and
 the number of point equilibria it took (each module's `equilibrate` counted; the projection
@@ -39,6 +42,7 @@ import ideal_ternaries  # noqa: E402
 
 from ladle.engine import find_system, load_system  # noqa: E402
 from ladle.engine.diagrams import isopleth, isothermal, liquidus_projection  # noqa: E402
+from ladle.engine.files.alloys import find_alloy, mole_fractions  # noqa: E402
 from ladle.engine.solidify import alloy_scheil  # noqa: E402
 from ladle.engine.units import mole_from_mass  # noqa: E402
 
@@ -50,6 +54,9 @@ CASES = (
     ("pb-sn-bi", [0.6, 0.35, 0.05], ((0.95, 0.0, 0.05), (0.35, 0.6, 0.05), "at", "Sn"), None),
     ("ag-cu-sn", None, ((0.97, 0.03, 0.0), (0.95, 0.03, 0.02), "wt", "Cu"), 498.15),
 )
+
+#: (system, named alloy of its file) whose Scheil paths are timed beside the cases above
+NAMED_SCHEIL = (("ag-au-cu", "14ct-1N"), ("al-mg-si", "A356.0"), ("bi-pb-sn", "Bi50Pb28Sn22"))
 
 
 class _Counted:
@@ -122,6 +129,13 @@ def main() -> None:
             if not system.covers_elements:
                 row["projection"] = _measured(lambda: liquidus_projection.map_liquidus_projection(system), few)
             report[name] = row
+        report["scheil_named"] = {}
+        for name, alloy_name in NAMED_SCHEIL:
+            system = find_system(name)
+            alloy = find_alloy(system.alloys, alloy_name)
+            x = np.array(mole_fractions(alloy.parts, alloy.basis, system.elements, system.molar_mass))
+            report["scheil_named"][f"{name} {alloy_name}"] = _measured(lambda: alloy_scheil.alloy_scheil(system, x),
+                                                                       args.repeats)
         report["point_binary_s"] = _command_time(["point", "pb-sn", "--temp", "250C", "--comp", "Sn=30wt%"],
                                                  args.repeats)
         report["point_ternary_s"] = _command_time(["point", str(paths["pb-sn-bi"]), "--temp", "250C", "--comp",
@@ -136,6 +150,9 @@ def main() -> None:
         for what, m in report[name].items():
             count = f"{m['point_equilibria']:6d} point equilibria" if what != "projection" else ""
             print(f"  {name:15s} {what:11s} {m['wall_s']:7.3f} s wall {m['cpu_s']:7.3f} s CPU {count}")
+    for name, m in report["scheil_named"].items():
+        print(f"  {name:27s} scheil {m['wall_s']:7.3f} s wall {m['cpu_s']:7.3f} s CPU "
+              f"{m['point_equilibria']:6d} point equilibria")
     print(f"  ladle point: binary {report['point_binary_s']:.3f} s, ternary {report['point_ternary_s']:.3f} s "
           f"(difference {report['point_ternary_s'] - report['point_binary_s']:+.3f} s)")
 
