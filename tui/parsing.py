@@ -6,6 +6,7 @@ names the value and what is expected.
 
 from __future__ import annotations
 
+import math
 import re
 from dataclasses import dataclass
 
@@ -39,7 +40,10 @@ def parse_temperature(text: str) -> Temperature:
     if not m:
         raise ValueError(f"cannot read temperature {text!r}; expected a number with an optional unit C, K or F, e.g. 1250C")
     unit = (m.group(2) or "C").replace("°", "").strip().upper()
-    kelvin = kelvin_from(float(m.group(1)), unit)
+    value = float(m.group(1))
+    if not math.isfinite(value):
+        raise ValueError(f"temperature {text.strip()} is not a finite number; expected one such as 1250C")
+    kelvin = kelvin_from(value, unit)
     if kelvin <= 0.0:
         raise ValueError(f"temperature {text.strip()} is at or below absolute zero")
     return Temperature(kelvin, unit)

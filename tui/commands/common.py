@@ -54,7 +54,7 @@ def composition_specs(system, specs: str | list[str]) -> str | list[str]:
     if found is not None:
         return [found.spec]
     known = ", ".join(a.name for a in system.alloys)
-    raise CommandError(f"unknown alloy {quote.one_line(name)!r} for {system.name}; "
+    raise CommandError(f"unknown alloy {quote.one_line(repr(str(name)))} for {system.name}; "
                        + (f"its alloys: {known}" if known else "its file lists no alloys: give --comp"))
 
 

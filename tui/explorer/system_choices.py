@@ -6,6 +6,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 
 from ladle.engine import SystemFileError, UnknownSystem, find_system, list_systems
+from ladle.tui.quote import one_line
 
 
 @dataclass(frozen=True)
@@ -51,7 +52,7 @@ def system_choices() -> list[SystemChoice]:
         try:
             system = find_system(str(entry.path))
         except (SystemFileError, UnknownSystem, OSError) as error:
-            choices.append(SystemChoice(entry.name, problem=str(error)))
+            choices.append(SystemChoice(entry.name, problem=one_line(str(error))))   # no file text drives the screen
             continue
         choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
                                     checks_text(None, len(independent_checks(system)), len(system.measured))))

@@ -75,7 +75,7 @@ class ExploreScreen(Screen[None]):
                 yield CoolingView(self.glyphs, id="cooling")
             with Vertical(id="side"):
                 yield StatusPane(id="status")
-                yield Static("", id="caution")   # under the pane, never pushed off it
+                yield Static("", id="caution", markup=False)   # under the pane, never pushed off it; file text as written
         yield PointEntry(id="entry")
         yield KeyBar(self.glyphs, id="keys")
         yield Static("", id="too-small")

@@ -112,12 +112,12 @@ class SectionScreen(Screen[None]):
         self._scanning: Worker | None = None
 
     def compose(self) -> ComposeResult:
-        yield Static("", id="title")
+        yield Static("", id="title", markup=False)   # the file's title as written
         with Horizontal(id="body"):
             yield SectionView(self.glyphs, id="diagram")
             with Vertical(id="side"):
                 yield StatusPane(id="status")
-                yield Static("", id="caution")   # under the pane, never pushed off it
+                yield Static("", id="caution", markup=False)   # under the pane, never pushed off it; file text as written
         yield PointEntry(id="entry")
         yield Static(key_bar(self.exploration), id="keys")
 

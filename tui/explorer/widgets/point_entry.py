@@ -16,7 +16,7 @@ class PointEntry(Vertical):
 
     def compose(self) -> ComposeResult:
         yield Input(id="point-input")
-        yield Static("", id="point-problem")
+        yield Static("", id="point-problem", markup=False)   # the typed text, as typed
 
     def on_mount(self) -> None:
         self.query_one(Input).cursor_blink = False   # no idle output over slow links

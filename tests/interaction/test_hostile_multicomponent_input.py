@@ -1,0 +1,134 @@
+"""Input paths of multicomponent alloys and user systems hit as a hostile or careless person
+would: FIFOs, links and folders where files are expected, a corrupted --resume state, a heat
+list column naming an element the system lacks, markup and non-finite numbers typed into the
+explorer or written in a system file. The bar (DEVELOPERS.md): one clear line naming the file,
+key or value and what is expected, exit status 2; never a traceback, a hang or a wrong answer;
+nothing from a file drives the terminal; a user's file is never overwritten unasked."""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+from explorer_harness import SIZE, THEME, pilot_test, status_text, until
+
+SHIPPED = Path(__file__).resolve().parents[2] / "systems"
+#: Seconds a refused input may take; the defects here waited forever.
+PROMPT_S = 60
+
+
+def _ladle(*args: str, cwd: Path, env: dict | None = None) -> subprocess.CompletedProcess:
+    return subprocess.run([sys.executable, "-m", "ladle.tui.cli", *args], capture_output=True, text=True,
+                          stdin=subprocess.DEVNULL, cwd=cwd, env={**os.environ, **(env or {})}, timeout=PROMPT_S)
+
+
+def _one_line_refusal(run: subprocess.CompletedProcess, *words: str) -> None:
+    """Exit status 2 and one line on stderr holding every one of `words`, without a traceback."""
+    assert run.returncode == 2, run.stderr
+    lines = run.stderr.strip().splitlines()
+    assert len(lines) == 1, run.stderr
+    for word in words:
+        assert word in lines[0], lines[0]
+
+
+# -- typed values and names -----------------------------------------------------------------------
+
+@pytest.mark.parametrize("text", ["1e400", "1e400C", "-1e400K"])
+def test_a_temperature_beyond_any_number_is_refused_as_such(text):
+    from ladle.tui.parsing import parse_temperature
+
+    with pytest.raises(ValueError, match="not a finite number"):
+        parse_temperature(text)
+
+
+def test_an_unknown_alloy_name_with_escapes_is_echoed_escaped_once(tmp_path):
+    run = _ladle("point", "ag-cu-sn", "--temp", "250C", "--alloy", "x\x1b[31m", cwd=tmp_path)
+    _one_line_refusal(run, "unknown alloy 'x\\x1b[31m'")
+
+
+def test_the_system_picker_shows_a_files_problem_without_its_control_characters(tmp_path, monkeypatch):
+    from ladle.tui.explorer.system_choices import system_choices
+
+    folder = tmp_path / "own"
+    folder.mkdir()
+    text = (SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8")
+    (folder / "my-sac.toml").write_text(text.replace('"ag-cu.toml"]', '"a\\u001b[2J.toml"]'), encoding="utf-8")
+    monkeypatch.setenv("LADLE_SYSTEMS", str(folder))
+    [choice] = [c for c in system_choices() if c.name == "my-sac"]
+    assert "a\\x1b[2J.toml" in choice.problem and "\x1b" not in choice.problem
+
+
+# -- the explorer: markup typed or written in a file is shown as text ----------------------------
+
+MARKUP = "[/]Lead [bold]is[/bold] toxic"
+
+
+@pytest.fixture
+def ternary_app(monkeypatch):
+    """The invented ideal ternary eutectic of tests/unit/ideal_ternaries.py on the section screen,
+    its title and safety text holding console markup."""
+    sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
+    import ideal_ternaries as it
+
+    from ladle.engine.diagrams import isopleth
+    from ladle.tui.explorer import section_exploration
+    from ladle.tui.explorer.app import ExplorerApp
+    from ladle.tui.explorer.glyphs import glyphs_for
+
+    system = it.eutectic_system()
+    system.phases = system.models
+    system.title, system.safety = MARKUP, MARKUP + ". Wear a face shield."
+    solve = it.equilibrate_for(system)
+    monkeypatch.setattr(isopleth, "equilibrate", solve)
+    monkeypatch.setattr(section_exploration, "equilibrate", solve)
+    app = ExplorerApp(section_exploration.SectionExploration(system, temperature_K=700.0), glyphs_for(False), None)
+    app.theme = THEME
+    return app
+
+
+@pilot_test
+async def test_markup_in_a_systems_safety_text_is_shown_as_written_on_the_section_screen(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await until(pilot, lambda: app.screen.exploration.isopleth is not None, "the isopleth")
+        assert app.is_running
+        assert "[/]Lead [bold]is[/bold]" in str(app.screen.query_one("#caution").render())
+
+
+@pytest.mark.parametrize("typed", ["[/]", "[link=http://x]y[/link]", "B=[red]20at%"])
+@pilot_test
+async def test_markup_typed_at_the_go_to_prompt_is_echoed_as_typed(ternary_app, typed):
+    from ladle.tui.explorer.widgets.point_entry import PointEntry
+
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await until(pilot, lambda: app.screen.exploration.isopleth is not None and "computing" not in status_text(app),
+                    "the isopleth and the point")
+        await pilot.press("g")
+        app.screen.query_one(PointEntry).query_one("Input").value = typed
+        await pilot.press("enter")
+        assert app.is_running
+        problem = str(app.screen.query_one("#point-problem").render())
+        assert problem.startswith("not used: ") and typed.split("=")[-1].removesuffix("20at%") in problem
+
+
+@pilot_test
+async def test_markup_in_a_binarys_safety_text_is_shown_as_written(tmp_path):
+    from ladle.engine import find_system
+    from ladle.tui.explorer.app import ExplorerApp
+    from ladle.tui.explorer.glyphs import glyphs_for
+    from ladle.tui.explorer.launch import exploration_for
+
+    text = (SHIPPED / "pb-sn.toml").read_text(encoding="utf-8")
+    assert '\nsafety = "' in text
+    (tmp_path / "my-pb-sn.toml").write_text(text.replace('\nsafety = "', f'\nsafety = "{MARKUP}. '), encoding="utf-8")
+    app = ExplorerApp(exploration_for(find_system(str(tmp_path / "my-pb-sn.toml"))), glyphs_for(False), None)
+    app.theme = THEME
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause(0.2)
+        assert app.is_running
+        assert "[/]Lead [bold]is[/bold]" in str(app.screen.query_one("#caution").render())
