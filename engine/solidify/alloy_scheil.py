@@ -172,15 +172,14 @@ class AlloyScheil:
             del self.recent[next(iter(self.recent))]
         return eq
 
-    def _probe(self, T_top: float, x: np.ndarray, tried: list):
-        """probe(offset): the point equilibrium of x at T_top - offset (K), for narrowing a change;
-        each starts from the nearest in temperature of `tried` ((T, equilibrium) pairs), which
-        the probes extend."""
+    def _probe(self, T_top: float, x: np.ndarray, start):
+        """probe(offset): the point equilibrium of x at T_top - offset (K), for narrowing a change,
+        started from `start`, the equilibrium on the side the change begins from. (Starting from
+        the nearest probe tried instead took about 3 % more probes over the shipped alloys: within
+        1e-7 K of an invariant two phase sets tie within the minimiser's tolerance, and a start
+        from the far side tips such probes over, so the narrowing falls back to bisection.)"""
         def probe(offset: float):
-            T = T_top - offset
-            eq = self._eq(T, x, near=min(tried, key=lambda known: abs(known[0] - T))[1])
-            tried.append((T, eq))
-            return eq
+            return self._eq(T_top - offset, x, near=start)
         return probe
 
     # --- the path ----------------------------------------------------------------------------
@@ -237,7 +236,7 @@ class AlloyScheil:
         below = self._eq(lo, self.x)
         if phase_set(below) == (LIQUID,):
             raise PathError(f"no liquidus for this alloy inside the window ({lo:.0f}-{top:.0f} K)")
-        near, _far, hot, below = narrow_change(self._probe(T, self.x, [(T, eq), (lo, below)]), 0.0, T - lo, (LIQUID,),
+        near, _far, hot, below = narrow_change(self._probe(T, self.x, eq), 0.0, T - lo, (LIQUID,),
                                                eq, below, EVENT_TOLERANCE_K, self.system)
         T_hot = T - near
         return _State(T_hot, 1.0, ((1.0, _split(hot)[0]),), None, (LIQUID,), hot), below
@@ -299,7 +298,7 @@ class AlloyScheil:
     def _event(self, state: _State, h: float) -> _State:
         """Narrow the change of phases within a step of h K below `state`, move there, and start
         the next stage (or end freezing)."""
-        probe = self._probe(state.T, state.x_L, [(state.T, state.eq)])
+        probe = self._probe(state.T, state.x_L, state.eq)
         lo, _hi, _above, below = narrow_change(probe, 0.0, h, state.key, None, probe(h), EVENT_TOLERANCE_K,
                                                  self.system)
         if lo > 0.0:
