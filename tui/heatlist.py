@@ -21,11 +21,12 @@ import io
 import math
 import os
 import re
-import stat
 from collections.abc import Iterator
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import NamedTuple
+
+from ladle.engine.files.regular_files import NotARegularFile, open_regular
 
 from .csv_columns import may_hold_formulas
 from .errors import CommandError
@@ -95,6 +96,8 @@ def _open_error(path: Path, e: OSError) -> CommandError:
         return CommandError(f"{quoted_path(path)}: no such file")
     if isinstance(e, IsADirectoryError):
         return CommandError(f"{quoted_path(path)}: is a folder, not a CSV file")
+    if isinstance(e, NotARegularFile):
+        return CommandError(f"{quoted_path(path)}: {e.strerror}")
     return CommandError(f"{quoted_path(path)}: cannot read: {e.strerror or e}")
 
 
@@ -120,10 +123,7 @@ def scan_heat_list(path: Path, encoding: str | None) -> FileScan:
     decoder = codecs.getincrementaldecoder(encoding or "utf-8")()
     decodes, cp1252_ok, lines, offset = True, True, 0, 0
     try:
-        with open(path, "rb") as f:
-            st = os.fstat(f.fileno())
-            if not stat.S_ISREG(st.st_mode):
-                raise CommandError(f"{quoted_path(path)}: not a regular file (ladle batch reads the heat list twice)")
+        with open_regular(path) as f:          # a FIFO is refused at once, never waited on
             while block := f.read(_SCAN_BYTES):
                 digest.update(block)
                 if b"\0" in block:

@@ -22,6 +22,8 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 from pathlib import Path
 
+from .regular_files import NotARegularFile, not_regular  # NotARegularFile: what the writes here raise
+
 _MAX_NUMBERED = 1000
 _CLEANUP_SIGNALS = tuple(getattr(signal, name) for name in ("SIGTERM", "SIGHUP") if hasattr(signal, name))
 _TEMPORARY = re.compile(r"^\.(?P<name>.+)\.(?P<pid>\d+)\.[A-Za-z0-9_]{8}\.tmp$")
@@ -31,19 +33,6 @@ _LIVE: set[str] = set()
 _PREVIOUS_HANDLERS: dict[int, object] = {}
 
 
-class NotARegularFile(OSError):
-    """The destination exists and is not a regular file (a device, FIFO, folder, socket or link)."""
-
-
-def _kind(mode: int) -> str:
-    for test, name in ((stat.S_ISCHR, "a character device"), (stat.S_ISBLK, "a block device"),
-                       (stat.S_ISFIFO, "a FIFO"), (stat.S_ISSOCK, "a socket"),
-                       (stat.S_ISDIR, "a folder"), (stat.S_ISLNK, "a symbolic link")):
-        if test(mode):
-            return name
-    return "not a plain file"
-
-
 def refuse_unless_regular(path: Path | str) -> None:
     """Raise NotARegularFile unless `path` is a regular file or does not exist yet."""
     try:
@@ -51,8 +40,7 @@ def refuse_unless_regular(path: Path | str) -> None:
     except FileNotFoundError:
         return
     if not stat.S_ISREG(mode):
-        raise NotARegularFile(errno.EINVAL, f"not a regular file ({_kind(mode)}); ladle writes only "
-                              "regular files", str(path))
+        raise not_regular(path, mode, "writes")
 
 
 def _umask() -> int:

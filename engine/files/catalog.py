@@ -16,6 +16,7 @@ from pathlib import Path
 
 from ..errors import SystemFileError, UnknownSystem
 from .loader import LIBRARY_FILE, ElementLibrary, load_system, shipped_folder, shipped_library
+from .regular_files import require_regular
 from ..models.system import System
 
 def user_folders() -> list[Path]:
@@ -85,9 +86,13 @@ def _normalise(name: str) -> str:
     return name.strip().lower()
 
 
-def _is_file(p: Path, text: str) -> bool:
+def _require_system_file(p: Path, text: str) -> None:
+    """SystemFileError of one line naming `text` unless `p` (links followed) is a regular file:
+    missing, a FIFO (reading it would wait for a writer), a folder, a device, or out of reach."""
     try:
-        return p.is_file()
+        require_regular(p)
+    except FileNotFoundError:
+        raise SystemFileError(f"{text}: no such system file") from None
     except OSError as error:
         raise SystemFileError(f"{text}: {error.strerror or error}") from None
 
@@ -99,8 +104,7 @@ def resolve(name_or_path: str) -> SystemEntry:
     text = name_or_path.strip()
     if text.endswith(".toml") or os.sep in text:
         p = Path(text).expanduser()
-        if not _is_file(p, text):
-            raise SystemFileError(f"{text}: no such system file")
+        _require_system_file(p, text)
         return SystemEntry(p.stem.lower(), p, "path")
     wanted = _normalise(text)
     candidates = (wanted, "-".join(reversed(wanted.split("-"))))
@@ -124,6 +128,7 @@ def resolve(name_or_path: str) -> SystemEntry:
 def find_system(name_or_path: str) -> System:
     """Load the system named (or at the path) `name_or_path`; cached per file."""
     entry = resolve(name_or_path)
+    _require_system_file(entry.path, str(entry.path))
     return _load_cached(str(entry.path.resolve()), entry.path.stat().st_mtime_ns, entry.name)
 
 

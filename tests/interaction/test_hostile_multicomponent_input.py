@@ -35,6 +35,49 @@ def _one_line_refusal(run: subprocess.CompletedProcess, *words: str) -> None:
         assert word in lines[0], lines[0]
 
 
+# -- FIFOs, links and folders where a file is read ------------------------------------------------
+
+def test_a_fifo_in_the_users_folder_of_systems_is_refused_not_waited_on(tmp_path):
+    folder = tmp_path / "systems"
+    folder.mkdir()
+    os.mkfifo(folder / "ag-zn.toml")
+    run = _ladle("point", "ag-zn", "--temp", "250C", "--comp", "Zn=3wt%", cwd=tmp_path,
+                 env={"LADLE_SYSTEMS": str(folder)})
+    _one_line_refusal(run, "ag-zn.toml", "not a regular file", "FIFO")
+
+
+@pytest.mark.parametrize("kind", ["fifo", "folder"])
+def test_a_system_path_that_is_not_a_regular_file_says_what_it_is(tmp_path, kind):
+    path = tmp_path / "mine.toml"
+    os.mkfifo(path) if kind == "fifo" else path.mkdir()
+    run = _ladle("point", str(path), "--temp", "250C", "--comp", "Ag=3wt%,Cu=0.5wt%", cwd=tmp_path)
+    _one_line_refusal(run, "mine.toml", "not a regular file", "FIFO" if kind == "fifo" else "folder")
+    assert "no such" not in run.stderr
+
+
+def test_fit_refuses_a_fifo_for_its_measurements_file(tmp_path):
+    os.mkfifo(tmp_path / "measured.toml")
+    run = _ladle("fit", "measured.toml", "-o", "fitted.toml", cwd=tmp_path)
+    _one_line_refusal(run, "measured.toml", "not a regular file")
+
+
+def test_batch_refuses_a_fifo_for_its_heat_list(tmp_path):
+    os.mkfifo(tmp_path / "heats.csv")
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", cwd=tmp_path)
+    _one_line_refusal(run, "heats.csv", "not a regular file")
+
+
+@pytest.mark.xfail(strict=True, reason="engine/files/loader.py `_bases` (others' uncommitted edits there): a "
+                   "non-regular file beside the user's file falls back to the shipped one of that name")
+@pytest.mark.parametrize("kind", ["fifo", "folder"])
+def test_a_file_built_on_that_is_not_a_regular_file_is_refused_not_replaced_by_the_shipped_one(tmp_path, kind):
+    (tmp_path / "sac.toml").write_text((SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8"), encoding="utf-8")
+    beside = tmp_path / "ag-cu.toml"                  # the person's own Ag-Cu, which sac.toml builds on
+    os.mkfifo(beside) if kind == "fifo" else beside.mkdir()
+    run = _ladle("point", "sac.toml", "--temp", "250C", "--comp", "Ag=3wt%,Cu=0.5wt%", cwd=tmp_path)
+    _one_line_refusal(run, "ag-cu.toml", "not a regular file")
+
+
 # -- typed values and names -----------------------------------------------------------------------
 
 @pytest.mark.parametrize("text", ["1e400", "1e400C", "-1e400K"])

@@ -53,6 +53,17 @@ def _check_output(source: Path, output: Path, force: bool) -> None:
     check_writable(output)
 
 
+def _refuse_unless_regular_input(source: Path) -> None:
+    """A measurements file that is a FIFO, a device or a folder is refused at once (reading a FIFO
+    would wait for a writer); a missing one is left for the loader to name."""
+    from ladle.engine.files.regular_files import require_regular
+
+    try:
+        require_regular(source)
+    except FileNotFoundError:
+        pass
+
+
 def _write_or_keep(source: Path, output: Path, force: bool, text: str) -> None:
     """Write the fitted file to `output`; where that fails after the fit, keep it in the
     temporary folder and raise a CommandError that names both."""
@@ -172,6 +183,7 @@ def run(args: argparse.Namespace) -> int:
     _check_output(source, output, args.force)
     if args.max_steps is not None and args.max_steps < 1:
         raise CommandError(f"--max-steps {args.max_steps}: expected a positive number")
+    _refuse_unless_regular_input(source)
     system = load_system(source)
     progress = _Progress() if sys.stderr.isatty() else None
     try:
