@@ -27,6 +27,7 @@ from pathlib import Path
 import numpy as np
 
 from ladle.engine.files.atomic_files import write_atomic
+from ladle.engine.files.regular_files import open_regular
 
 from .errors import CommandError
 from .heat_results import LISTED, BlockJob, BlockResult, compute_block, identifiers
@@ -440,10 +441,16 @@ def _run_to_file(plan: Plan, stop: _Stop, note: Callable[[str], None]) -> Totals
 
 
 def _open_partial(partial: Path, output: Path, resume: bool) -> int:
-    """The partial file, opened for writing and locked (one run per output at a time)."""
+    """The partial file, opened for writing and locked (one run per output at a time); a link,
+    FIFO or device in its place is refused (writing through a link would overwrite its target)."""
+    from ladle.engine.files.atomic_files import refuse_unless_regular
+
     try:
-        fd = os.open(partial, os.O_RDWR | (0 if resume else os.O_CREAT), 0o666)
+        refuse_unless_regular(partial)
+        fd = os.open(partial, os.O_RDWR | os.O_NOFOLLOW | (0 if resume else os.O_CREAT), 0o666)
     except FileNotFoundError:
+        if not resume:
+            raise CommandError(f"{quoted_path(output)}: cannot write: no folder {quoted_path(output.parent)}") from None
         raise CommandError(f"--resume: no interrupted run writing {quoted_path(output)} to continue; "
                            f"run without --resume") from None
     except OSError as e:
@@ -470,14 +477,18 @@ def _resumed(plan: Plan, out, state_file: Path, note: Callable[[str], None]):
     """(totals, duplicate check, input offset, line) where the interrupted run stopped; the
     partial file cut back to what the state records."""
     try:
-        state = json.loads(state_file.read_text(encoding="utf-8"))
-        offset, line, written = int(state["input_offset"]), int(state["line"]), int(state["output_bytes"])
-        totals = Totals(**state["totals"])
-        totals.listed = [tuple(p) for p in totals.listed]
-        totals.duplicate_listed = [tuple(p) for p in totals.duplicate_listed]
-    except (OSError, ValueError, KeyError, TypeError):
+        with open_regular(state_file) as f:
+            state = json.loads(f.read().decode("utf-8"))
+    except (OSError, ValueError):
         raise CommandError(f"--resume: no readable state of an interrupted run beside {quoted_path(plan.output)}; "
                            f"run without --resume") from None
+    try:
+        totals, offset, line, written = _checked_state(state, plan)
+    except (KeyError, TypeError):
+        raise CommandError(f"--resume: {quoted_path(state_file)} is damaged (not the fields a run writes); "
+                           f"run without --resume") from None
+    except ValueError as e:
+        raise CommandError(f"--resume: {quoted_path(state_file)} is damaged ({e}); run without --resume") from None
     if state.get("sha256") != plan.scan.sha256 or state.get("size") != plan.scan.size:
         raise CommandError(f"--resume: {quoted_path(plan.source)} changed since the interrupted run; "
                            f"run without --resume to start over")
@@ -496,6 +507,51 @@ def _resumed(plan: Plan, out, state_file: Path, note: Callable[[str], None]):
         duplicates.add(*identifiers(plan.job, block.first_line, block.data))
     note(f"resuming at line {line}: {totals.heats:,} heats were written before")
     return totals, duplicates, offset, line
+
+
+def _whole_number(value: object, low: int, high: int | None, what: str) -> int:
+    """`value` where it is an integer (not a bool) from `low` to `high` (None: no limit), else
+    ValueError naming `what`."""
+    if type(value) is not int or value < low or (high is not None and value > high):
+        raise ValueError(f"{what} {value!r}, expected a whole number from {low}" + (f" to {high}" if high is not None else " up"))
+    return value
+
+
+def _checked_state(state: object, plan: Plan) -> tuple[Totals, int, int, int]:
+    """(totals, input offset, line, output bytes) of a state file's contents, each checked to be
+    what an interrupted run of this heat list writes: whole numbers inside the file, the offset
+    at the end of a row, no more heats than lines read. ValueError naming the value otherwise
+    (KeyError or TypeError where the fields are not those a run writes)."""
+    layout, size = plan.job.layout, plan.scan.size
+    offset = _whole_number(state["input_offset"], layout.data_offset, size, "input_offset")
+    line = _whole_number(state["line"], layout.data_line, layout.data_line + plan.scan.lines, "line")
+    written = _whole_number(state["output_bytes"], len(plan.job.header_text()), None, "output_bytes")
+    if offset > layout.data_offset:
+        with open_regular(plan.source) as f:
+            f.seek(offset - 1)
+            around = f.read(2)
+        if around[:1] not in (b"\n", b"\r") or around == b"\r\n":
+            raise ValueError(f"input_offset {offset} is not at the end of a row")
+    counts = state["totals"]
+    if set(counts) != set(Totals.__dataclass_fields__):
+        raise ValueError("totals: not the fields a run writes")
+    read = line - layout.data_line
+    heats = _whole_number(counts["heats"], 0, read, "totals.heats")
+    for name in ("problems", "blank_ids", "duplicates"):
+        _whole_number(counts[name], 0, heats, f"totals.{name}")
+    pairs = {"listed": (int, str), "duplicate_listed": (int, int)}
+    for name, kinds in pairs.items():
+        if not isinstance(counts[name], list) or not all(
+                isinstance(p, list) and len(p) == 2 and all(type(v) is k for v, k in zip(p, kinds)) for p in counts[name]):
+            raise ValueError(f"totals.{name}: expected pairs (line, {kinds[1].__name__})")
+    if not isinstance(counts["blank_listed"], list) or not all(type(n) is int for n in counts["blank_listed"]):
+        raise ValueError("totals.blank_listed: expected line numbers")
+    if type(counts["duplicate_check_full"]) is not bool:
+        raise ValueError("totals.duplicate_check_full: expected true or false")
+    totals = Totals(**counts)
+    totals.listed = [tuple(p) for p in totals.listed]
+    totals.duplicate_listed = [tuple(p) for p in totals.duplicate_listed]
+    return totals, offset, line, written
 
 
 def _put_in_place(partial: Path, output: Path, force: bool) -> None:

@@ -78,6 +78,112 @@ def test_a_file_built_on_that_is_not_a_regular_file_is_refused_not_replaced_by_t
     _one_line_refusal(run, "ag-cu.toml", "not a regular file")
 
 
+# -- heat lists: the output's partial file, its folder, and a --resume state ----------------------
+
+HEATS = "heat,Ag wt%,Cu wt%\nH1,3.0,0.5\nH2,3.5,0.7\nH3,1.0,0.5\n"
+
+
+def test_a_link_at_the_partial_results_path_is_refused_and_its_target_kept(tmp_path):
+    (tmp_path / "heats.csv").write_text(HEATS, encoding="utf-8")
+    precious = tmp_path / "precious.txt"
+    precious.write_text("a person's own file\n", encoding="utf-8")
+    (tmp_path / ".out.csv.ladle-partial").symlink_to(precious.name)
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", "-o", "out.csv", cwd=tmp_path)
+    _one_line_refusal(run, ".out.csv.ladle-partial", "not a regular file")
+    assert precious.read_text(encoding="utf-8") == "a person's own file\n"
+    assert not (tmp_path / "out.csv").exists()
+
+
+def test_a_fifo_at_the_partial_results_path_is_refused(tmp_path):
+    (tmp_path / "heats.csv").write_text(HEATS, encoding="utf-8")
+    os.mkfifo(tmp_path / ".out.csv.ladle-partial")
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", "-o", "out.csv", cwd=tmp_path)
+    _one_line_refusal(run, ".out.csv.ladle-partial", "not a regular file", "FIFO")
+
+
+def test_an_output_in_a_missing_folder_names_the_folder_not_resume(tmp_path):
+    (tmp_path / "heats.csv").write_text(HEATS, encoding="utf-8")
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", "-o", "nowhere/out.csv",
+                 cwd=tmp_path)
+    _one_line_refusal(run, "out.csv", "no folder nowhere")
+    assert "--resume" not in run.stderr
+
+
+def _interrupted_run(folder: Path) -> dict:
+    """A heat list of four heats, the partial output of its first two and the state an
+    interrupted run leaves (as tui/heatlist_runs.py writes it), made directly: (state)."""
+    from ladle.tui.heatlist import scan_heat_list
+
+    (folder / "heats.csv").write_text(HEATS + "H4,2.0,0.3\n", encoding="utf-8")
+    done = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", cwd=folder)
+    assert done.returncode == 0, done.stderr
+    written = "".join(done.stdout.splitlines(keepends=True)[:3])        # header and two heats
+    (folder / ".out.csv.ladle-partial").write_text(written, encoding="utf-8")
+    scan = scan_heat_list(folder / "heats.csv", None)
+    state = {"version": 1, "input": str(folder / "heats.csv"), "size": scan.size, "sha256": scan.sha256,
+             "options": {"system": "ag-cu-sn", "without": [], "unit": "C", "superheat_K": None, "scheil": False,
+                         "encoding": "utf-8"},
+             "input_offset": len("".join(HEATS.splitlines(keepends=True)[:3])), "line": 4,
+             "output_bytes": len(written.encode()),
+             "totals": {"heats": 2, "problems": 0, "listed": [], "blank_ids": 0, "blank_listed": [],
+                        "duplicates": 0, "duplicate_listed": [], "duplicate_check_full": False}}
+    (folder / ".out.csv.ladle-state.json").write_text(json.dumps(state), encoding="utf-8")
+    return state
+
+
+def test_the_made_interrupted_run_resumes_to_the_uninterrupted_answer(tmp_path):
+    """The control for the corrupted states below: the state as made is accepted."""
+    _interrupted_run(tmp_path)
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", "-o", "out.csv", "--resume",
+                 cwd=tmp_path)
+    assert run.returncode == 0, run.stderr
+    whole = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", cwd=tmp_path)
+    assert (tmp_path / "out.csv").read_text(encoding="utf-8") == whole.stdout
+
+
+CORRUPTIONS = {
+    "heats a text": ("totals", "heats", "abc"),
+    "heats negative": ("totals", "heats", -5),
+    "heats a fraction": ("totals", "heats", 2.5),
+    "problems a text": ("totals", "problems", "x"),
+    "problems above heats": ("totals", "problems", 7),
+    "listed not pairs": ("totals", "listed", [[1]]),
+    "blank_listed a text": ("totals", "blank_listed", "abc"),
+    "duplicate_check_full a text": ("totals", "duplicate_check_full", "yes"),
+    "offset beyond the file": (None, "input_offset", 10 ** 12),
+    "offset negative": (None, "input_offset", -100),
+    "offset inside a row": (None, "input_offset", 33),
+    "offset true": (None, "input_offset", True),
+    "offset a fraction": (None, "input_offset", 41.5),
+    "line negative": (None, "line", -1),
+    "output before the header's end": (None, "output_bytes", 0),
+    "output negative": (None, "output_bytes", -1),
+}
+
+
+@pytest.mark.parametrize("corruption", CORRUPTIONS, ids=list(CORRUPTIONS))
+def test_resume_refuses_a_corrupted_state_file_in_one_line(tmp_path, corruption):
+    state = _interrupted_run(tmp_path)
+    table, key, value = CORRUPTIONS[corruption]
+    (state[table] if table else state)[key] = value
+    (tmp_path / ".out.csv.ladle-state.json").write_text(json.dumps(state), encoding="utf-8")
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", "-o", "out.csv", "--resume",
+                 cwd=tmp_path)
+    _one_line_refusal(run, ".out.csv.ladle-state.json", "run without --resume")
+    assert not (tmp_path / "out.csv").exists()
+
+
+def test_resume_refuses_an_infinite_offset(tmp_path):
+    state = _interrupted_run(tmp_path)
+    path = tmp_path / ".out.csv.ladle-state.json"
+    path.write_text(json.dumps(state).replace(f'"input_offset": {state["input_offset"]}', '"input_offset": Infinity'),
+                    encoding="utf-8")
+    assert "Infinity" in path.read_text(encoding="utf-8")
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", "-o", "out.csv", "--resume",
+                 cwd=tmp_path)
+    _one_line_refusal(run, ".out.csv.ladle-state.json", "run without --resume")
+
+
 # -- typed values and names -----------------------------------------------------------------------
 
 @pytest.mark.parametrize("text", ["1e400", "1e400C", "-1e400K"])
