@@ -91,6 +91,13 @@ def composition_header(cell: str, elements: tuple[str, ...]) -> tuple[str, str] 
     return m.group(1).capitalize(), _BASIS[m.group(2).lower()]
 
 
+def foreign_composition_columns(header: tuple[str, ...], elements: tuple[str, ...]) -> list[tuple[str, str]]:
+    """(header cell, element) of every cell that reads as the composition column of an element
+    that is not one of `elements` ('Pb wt%' in a tin-silver-copper list): not part of any alloy."""
+    found = ((cell, _HEADER.match(cell)) for cell in header)
+    return [(cell, m.group(1).capitalize()) for cell, m in found if m and m.group(1).capitalize() not in elements]
+
+
 def _open_error(path: Path, e: OSError) -> CommandError:
     if isinstance(e, FileNotFoundError):
         return CommandError(f"{quoted_path(path)}: no such file")

@@ -184,6 +184,18 @@ def test_resume_refuses_an_infinite_offset(tmp_path):
     _one_line_refusal(run, ".out.csv.ladle-state.json", "run without --resume")
 
 
+# -- a heat list's columns ------------------------------------------------------------------------
+
+def test_a_column_naming_an_element_the_system_lacks_is_named_on_stderr(tmp_path):
+    """Sn-3Ag-0.5Cu with 1 wt% Pb is not the alloy computed (ag-cu-sn has no lead): the person is
+    told which column is left out of every alloy."""
+    (tmp_path / "heats.csv").write_text("heat,Ag wt%,Cu wt%,Pb wt%\nH1,3.0,0.5,1.0\n", encoding="utf-8")
+    run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", cwd=tmp_path)
+    assert run.returncode == 0, run.stderr
+    notes = [line for line in run.stderr.splitlines() if "Pb wt%" in line]
+    assert len(notes) == 1 and "Pb" in notes[0] and "not in ag-cu-sn" in notes[0], run.stderr
+
+
 # -- typed values and names -----------------------------------------------------------------------
 
 @pytest.mark.parametrize("text", ["1e400", "1e400C", "-1e400K"])

@@ -58,7 +58,7 @@ def add_arguments(p: argparse.ArgumentParser) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ..heat_results import BlockJob
-    from ..heatlist import parse_temperature_difference, read_layout, scan_heat_list
+    from ..heatlist import foreign_composition_columns, parse_temperature_difference, read_layout, scan_heat_list
     from ..heatlist_runs import Interrupted, Plan
     from ..heatlist_runs import run as run_plan
     from .common import open_system
@@ -75,6 +75,9 @@ def run(args: argparse.Namespace) -> int:
     system = open_system(args.system, args.without)
     scan = scan_heat_list(source, args.encoding)
     layout = read_layout(source, scan, system.elements)
+    for cell, element in foreign_composition_columns(layout.header, system.elements):
+        _note(f"note: {source.name}: column {cell!r}: {element} is not in {system.name} ({'-'.join(system.elements)}), "
+              f"so every alloy is computed without it")
 
     from ladle.engine.diagrams.mappable import unmapped_phases
     from ladle.engine.solidify.table import composition_table
