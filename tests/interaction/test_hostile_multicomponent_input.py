@@ -196,6 +196,19 @@ def test_a_column_naming_an_element_the_system_lacks_is_named_on_stderr(tmp_path
     assert len(notes) == 1 and "Pb" in notes[0] and "not in ag-cu-sn" in notes[0], run.stderr
 
 
+# -- leaving phases out ---------------------------------------------------------------------------
+
+@pytest.mark.parametrize("command", [("melt", "--comp", "Ag=3wt%,Cu=0.5wt%"), ("cool", "--comp", "Ag=3wt%,Cu=0.5wt%"),
+                                     ("batch", "heats.csv", "--melt-only", "--workers", "1")], ids=lambda c: c[0])
+def test_melting_or_freezing_without_the_liquid_is_refused_as_such(tmp_path, command):
+    """With the liquid left out, cool said the alloy 'is not all liquid at 6000 K', melt that its
+    liquidus is 'not inside the scanned range' and batch that each heat is 'not fully solid at the
+    bottom of the window': none of which is the reason."""
+    (tmp_path / "heats.csv").write_text(HEATS, encoding="utf-8")
+    run = _ladle(command[0], "ag-cu-sn", *command[1:], "--without", "liquid", cwd=tmp_path)
+    _one_line_refusal(run, "ag-cu-sn has no liquid phase")
+
+
 # -- typed values and names -----------------------------------------------------------------------
 
 @pytest.mark.parametrize("text", ["1e400", "1e400C", "-1e400K"])

@@ -61,7 +61,7 @@ def run(args: argparse.Namespace) -> int:
     from ..heatlist import foreign_composition_columns, parse_temperature_difference, read_layout, scan_heat_list
     from ..heatlist_runs import Interrupted, Plan
     from ..heatlist_runs import run as run_plan
-    from .common import open_system
+    from .common import open_system, require_liquid
 
     source = Path(args.file)
     output = Path(args.output) if args.output else None
@@ -73,6 +73,7 @@ def run(args: argparse.Namespace) -> int:
         raise CommandError("--resume continues a run that writes a file: give its -o OUT.csv")
     _check_output(output, args.force, source)
     system = open_system(args.system, args.without)
+    require_liquid(system)
     scan = scan_heat_list(source, args.encoding)
     layout = read_layout(source, scan, system.elements)
     for cell, element in foreign_composition_columns(layout.header, system.elements):

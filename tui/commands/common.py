@@ -71,6 +71,14 @@ def open_system(name: str, without: list[str] | tuple[str, ...] = ()):
     return system.without(tuple(without)) if without else system
 
 
+def require_liquid(system) -> None:
+    """A CommandError of one line where `system` has no phase called liquid (left out with
+    --without, or a file of solids only): there is nothing to melt or freeze."""
+    if "liquid" not in system.phases:
+        raise CommandError(f"{system.name} has no liquid phase here (its phases: {', '.join(system.phases)}); "
+                           f"melting and freezing need one: do not leave it out")
+
+
 def read_alloy(system, specs: str | list[str]):
     """(mole fractions of every element as a numpy array in the system's order, the resolved
     Alloy) for the --comp value(s); a binary alloy is refused outside the range the model covers."""

@@ -7,7 +7,7 @@ import argparse
 from .. import quote
 from ..cooling_text import PATH_NAMES, structure_rows
 from .common import (add_composition_argument, add_system_argument, alloy_both, ascii_text, closing_lines,
-                     composition_both, open_system, print_json, read_alloy, system_title, terminal_plot)
+                     composition_both, open_system, print_json, read_alloy, require_liquid, system_title, terminal_plot)
 
 HELP = "how an alloy freezes: fraction solid, liquid composition and phases on cooling (equilibrium and Scheil)"
 
@@ -34,6 +34,7 @@ def run(args: argparse.Namespace) -> int:
     from ladle.engine.solidify.paths import solidify
 
     system = open_system(args.system, args.without)
+    require_liquid(system)
     x, comp = read_alloy(system, args.comp)
     from ladle.engine.diagrams.mappable import unmapped_phases
 

@@ -6,7 +6,7 @@ import argparse
 
 from .. import quote
 from .common import (add_composition_argument, add_system_argument, alloy_composition, closing_lines,
-                     composition_both, open_system, print_json, system_title, temperature_both)
+                     composition_both, open_system, print_json, require_liquid, system_title, temperature_both)
 
 HELP = "liquidus, solidus, freezing range and every phase change of one alloy"
 
@@ -71,6 +71,7 @@ def run(args: argparse.Namespace) -> int:
     from ..heatlist import parse_temperature_difference
 
     system = open_system(args.system, args.without)
+    require_liquid(system)
     from ladle.engine.diagrams.mappable import unmapped_phases
 
     if len(system.elements) != 2 or unmapped_phases(system):     # no mapped diagram: point equilibria
