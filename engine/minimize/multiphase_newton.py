@@ -73,8 +73,8 @@ def positive_step(y: np.ndarray, dy: np.ndarray) -> np.ndarray:
     """The updated site fractions, always positive: y exp(dy / y) (Newton's step in ln y) for
     decreasing fractions and for dilute ones (below DILUTE, up to GROWTH_CAP or y + dy), y + dy
     for the others."""
-    with np.errstate(over="ignore", under="ignore", invalid="ignore"):
-        log_step = y * np.exp((dy / y).clip(-700.0, 50.0))
+    ratio = np.minimum(np.maximum(dy / np.maximum(y, 1e-300), -700.0), 50.0)   # ufuncs: no clip() overhead
+    log_step = y * np.exp(ratio)
     plain = y + dy
     up = np.where(y < DILUTE, np.minimum(log_step, np.maximum(plain, GROWTH_CAP)), plain)
     return np.where(dy >= 0.0, up, log_step)

@@ -186,7 +186,7 @@ class _Expansion:
             return value, grad, None
         hess = (E.T * w) @ E
         hess.flat[::len(y) + 1] -= wE
-        return value, grad, hess / np.outer(y, y)
+        return value, grad, hess / (y[:, None] * y)
 
     @cached_property
     def _slots(self) -> tuple[np.ndarray, list[TemperatureFunction]]:
@@ -619,6 +619,11 @@ class SublatticeAtT:
         return self._up_to(y, 2)
 
     @cached_property
+    def _rt_weights(self) -> np.ndarray:
+        """RT times each site fraction's site ratio (J/mol): the entropy term's weights at T."""
+        return self.RT * self._weights
+
+    @cached_property
     def _energy_monomials(self) -> tuple[np.ndarray, np.ndarray]:
         """(E, c): the energy's monomial exponents and their coefficients at this temperature."""
         E, Q = self.phase._energy.monomials
@@ -632,7 +637,7 @@ class SublatticeAtT:
             E, c = self._energy_monomials
             log_y = np.log(y)
             g, grad, hess = _Expansion.evaluate_at(y, E, c, order, log_y)
-            rt_w = self.RT * self._weights
+            rt_w = self._rt_weights
             g = g + rt_w @ (y * log_y)
             if order >= 1:
                 grad = grad + rt_w * (log_y + 1.0)
