@@ -222,6 +222,10 @@ def section_ends(spec: AlloySpec, vary: ContentRange, elements: tuple[str, ...])
     if basis != spec.basis:
         raise ValueError(f"--vary {vary.element} is in {basis}% but the alloy is in {spec.basis}%; give both in one of them")
     held = [(e, p) for e, p in spec.parts if e != vary.element]
+    unnamed = [e for e in elements if e not in {h for h, _ in held} | {vary.element}]
+    if len(elements) > 2 and vary.element in elements and len(unnamed) > 1:
+        raise ValueError(f"{spec.text} with --vary {vary.element} leaves {' and '.join(unnamed)} unnamed: --comp holds "
+                         f"every element but {vary.element} and the balance, e.g. --comp {unnamed[-1]}=1{basis}%")
     if {e for e, _ in held} | {vary.element} >= set(elements):
         raise ValueError(f"{spec.text} and --vary {vary.element} name every element: leave one unnamed as the "
                          f"balance that takes up {vary.element}'s change")

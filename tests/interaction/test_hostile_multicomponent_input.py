@@ -219,6 +219,12 @@ def test_a_temperature_beyond_any_number_is_refused_as_such(text):
         parse_temperature(text)
 
 
+def test_varying_the_only_element_held_says_what_to_hold(tmp_path):
+    """The old line spoke of 'Ag at 0wt%' and naming 'all but one', which the person had not typed."""
+    run = _ladle("diagram", "ag-cu-sn", "--comp", "Ag=3wt%", "--vary", "Ag=0..2wt%", cwd=tmp_path)
+    _one_line_refusal(run, "--vary Ag leaves Sn and Cu unnamed", "--comp holds every element but Ag and the balance")
+
+
 def test_an_unknown_alloy_name_with_escapes_is_echoed_escaped_once(tmp_path):
     run = _ladle("point", "ag-cu-sn", "--temp", "250C", "--alloy", "x\x1b[31m", cwd=tmp_path)
     _one_line_refusal(run, "unknown alloy 'x\\x1b[31m'")
