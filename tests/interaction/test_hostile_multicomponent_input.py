@@ -239,6 +239,18 @@ def test_varying_the_only_element_held_says_what_to_hold(tmp_path):
     _one_line_refusal(run, "--vary Ag leaves Sn and Cu unnamed", "--comp holds every element but Ag and the balance")
 
 
+def test_a_typed_alloy_outside_a_binary_sections_cover_names_the_range():
+    """Fe-C is drawn as a section; the refusal of C=30wt% ended in empty brackets '()'."""
+    from ladle.engine import find_system
+    from ladle.tui.explorer.entry import parse_point
+    from ladle.tui.explorer.launch import exploration_for
+
+    system = find_system("fe-fe3c")
+    exploration = exploration_for(system)
+    with pytest.raises(ValueError, match=r"covers \(0-25 at% C\)"):
+        exploration.jump(parse_point("C=30wt%", system.elements, system.molar_mass, system.alloys))
+
+
 def test_an_unknown_alloy_name_with_escapes_is_echoed_escaped_once(tmp_path):
     run = _ladle("point", "ag-cu-sn", "--temp", "250C", "--alloy", "x\x1b[31m", cwd=tmp_path)
     _one_line_refusal(run, "unknown alloy 'x\\x1b[31m'")

@@ -23,7 +23,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from ladle.engine import equilibrate
-from ladle.engine.diagrams.isopleth import Isopleth, map_isopleth, section_mole_fractions, trade_labels
+from ladle.engine.diagrams.isopleth import (Isopleth, covered_range_words, map_isopleth, section_mole_fractions,
+                                           trade_labels)
 from ladle.engine.diagrams.isothermal import IsothermalSection, map_isothermal
 from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import kelvin_to, mass_from_mole
@@ -313,7 +314,7 @@ class SectionExploration:
             x = np.asarray(point.mole_fractions, dtype=float)
             if not self.system.covered(x):
                 raise ValueError(f"that alloy lies outside the range this model covers "
-                                 f"({self.system.covered_range_text()})")
+                                 f"({covered_range_words(self.system)})")
             if x[self.varying] > self._top(x):
                 raise ValueError(f"{self.element} {percent(x[self.varying])} at% lies beyond this section's "
                                  f"{percent(self._top(x))} at%")
