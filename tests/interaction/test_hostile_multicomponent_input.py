@@ -338,3 +338,52 @@ async def test_markup_in_a_binarys_safety_text_is_shown_as_written(tmp_path):
         await pilot.pause(0.2)
         assert app.is_running
         assert "[/]Lead [bold]is[/bold]" in str(app.screen.query_one("#caution").render())
+
+
+@pilot_test
+async def test_a_written_files_notice_shows_its_folder_as_it_is(tmp_path, monkeypatch):
+    """A working folder called '[bold]work' was shown as 'work': the notice read the path as markup."""
+    from textual.widgets._toast import Toast
+
+    from explorer_harness import make_app
+
+    folder = tmp_path / "[bold]work"
+    folder.mkdir()
+    monkeypatch.chdir(folder)
+    app = make_app(T_K=458.15, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("w")
+        await pilot.pause(0.2)
+        shown = [str(Toast(n).render()) for n in app._notifications]
+    assert any("[bold]work" in text and "wrote" in text for text in shown), shown
+
+
+@pilot_test
+async def test_phase_names_with_brackets_are_shown_in_the_reactions_view(tmp_path):
+    """A file's phase called 'b[/]ct' crashed the explorer's reactions table (read as markup)."""
+    import re
+
+    from ladle.engine import find_system
+    from ladle.tui.explorer.app import ExplorerApp
+    from ladle.tui.explorer.glyphs import glyphs_for
+    from ladle.tui.explorer.launch import exploration_for
+    from ladle.tui.explorer.widgets.reactions_view import ReactionsView
+
+    lines = []
+    for line in (SHIPPED / "pb-sn.toml").read_text(encoding="utf-8").splitlines():
+        if line.startswith("[fit") or line.startswith("free ="):
+            break                                  # the fit's paths name the phase; not needed here
+        line = '[phase."b[/]ct"]' if line == "[phase.bct]" else re.sub(r'(?<![\w"])bct(?=\s*=)', '"b[/]ct"', line)
+        lines.append(line)
+    (tmp_path / "pb-sn-marked.toml").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    system = find_system(str(tmp_path / "pb-sn-marked.toml"))
+    assert "b[/]ct" in system.phases
+    app = ExplorerApp(exploration_for(system), glyphs_for(False), None)
+    app.theme = THEME
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("3")
+        await pilot.pause(0.5)
+        assert app.is_running
+        table = app.screen.query_one(ReactionsView)
+        cells = [str(table.get_cell_at((r, 2))) for r in range(table.row_count)]
+    assert any("b[/]ct" in cell for cell in cells), cells

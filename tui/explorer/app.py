@@ -9,6 +9,7 @@ from pathlib import Path
 from textual.app import App
 
 from ladle.engine import SystemFileError, UnknownSystem, find_system
+from ladle.tui.quote import one_line
 
 from .exploration import Exploration
 from .glyphs import Glyphs
@@ -88,7 +89,7 @@ class ExplorerApp(App[None]):
         try:
             system = find_system(name)
         except (SystemFileError, UnknownSystem, OSError) as error:
-            self.notify(str(error), severity="error")
+            self.notify(one_line(str(error)), severity="error", markup=False)
             return
         first = self.screen_stack[0]
         if isinstance(first, ExploreScreen) and not opens_as_section(system):
@@ -113,7 +114,7 @@ class ExplorerApp(App[None]):
             if not self._save_problem_shown:
                 self._save_problem_shown = True
                 self.notify(f"cannot remember the point in {self.state_file}: {error.strerror}",
-                            severity="warning")
+                            severity="warning", markup=False)
 
     async def action_quit(self) -> None:
         self.remember()

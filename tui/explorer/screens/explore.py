@@ -268,7 +268,7 @@ class ExploreScreen(Screen[None]):
         try:
             result = e.reading().equilibrium
         except (ValueError, ArithmeticError) as error:
-            self.app.notify(f"nothing written: {error}", severity="error")
+            self.app.notify(f"nothing written: {error}", severity="error", markup=False)
             return
         text = json.dumps(result.to_json(e.system), indent=1) + "\n"
         T = format_temperature_value(e.scales.shown_temperature(e.cursor.temperature_K))
@@ -298,13 +298,13 @@ class ExploreScreen(Screen[None]):
         try:
             paths = write_new_files(Path.cwd(), stem, texts)
         except OSError as error:
-            self.app.notify(f"nothing written: {os_error_text(error)}", severity="error")
+            self.app.notify(f"nothing written: {os_error_text(error)}", severity="error", markup=False)
             return
         if also_copy:
             self.app.copy_to_clipboard(next(iter(texts.values())))
         where = " on the server's disk" if self.app.is_web else ""
         self.app.notify(f"wrote {' and '.join(str(p) for p in paths)}{where}"
-                        + (" (and copied it)" if also_copy else ""), timeout=NOTICE_S)
+                        + (" (and copied it)" if also_copy else ""), timeout=NOTICE_S, markup=False)   # paths as they are
 
     # -- remembering the point -------------------------------------------------------------
 

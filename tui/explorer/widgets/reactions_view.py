@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from rich.text import Text
 from textual.message import Message
 from textual.widgets import DataTable
 
@@ -28,7 +29,8 @@ class ReactionsView(DataTable):
         self.add_columns("reaction", "T", f"phases, {composition_heading}")
         self._rows = rows
         for row in rows:
-            self.add_row(row.kind, row.temperature, row.phases, height=row.phases.count("\n") + 1)
+            cells = (Text(row.kind), Text(row.temperature), Text(row.phases))   # phase names as written, never markup
+            self.add_row(*cells, height=row.phases.count("\n") + 1)
 
     def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
         event.stop()
