@@ -19,7 +19,6 @@ import csv
 import hashlib
 import io
 import math
-import os
 import re
 from collections.abc import Iterator
 from dataclasses import dataclass, replace
