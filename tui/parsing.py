@@ -114,6 +114,9 @@ def parse_alloy(texts: str | list[str] | tuple[str, ...]) -> AlloySpec:
     parts: list[tuple[str | None, float]] = []
     bases: dict[str, str] = {}
     for text in texts:
+        if text.count("=") > 1 and "," not in text:
+            raise ValueError(f"cannot read composition {text.strip()!r}; separate the contents with commas, "
+                             f"e.g. Ag=3wt%,Cu=0.5wt%")
         for word in text.split(","):
             if word.strip() != text.strip() and not _COMPOSITION.match(word):
                 raise ValueError(f"cannot read composition {text.strip()!r} (at {word.strip()!r}); expected "

@@ -251,6 +251,12 @@ def test_a_typed_alloy_outside_a_binary_sections_cover_names_the_range():
         exploration.jump(parse_point("C=30wt%", system.elements, system.molar_mass, system.alloys))
 
 
+@pytest.mark.parametrize("typed", ["Ag=3wt% Cu=0.5wt%", "Ag=3wt%;Cu=0.5wt%"])
+def test_contents_not_separated_by_commas_are_told_to_be(tmp_path, typed):
+    run = _ladle("point", "ag-cu-sn", "--temp", "250C", "--comp", typed, cwd=tmp_path)
+    _one_line_refusal(run, repr(typed), "separate the contents with commas")
+
+
 def test_an_unknown_alloy_name_with_escapes_is_echoed_escaped_once(tmp_path):
     run = _ladle("point", "ag-cu-sn", "--temp", "250C", "--alloy", "x\x1b[31m", cwd=tmp_path)
     _one_line_refusal(run, "unknown alloy 'x\\x1b[31m'")
