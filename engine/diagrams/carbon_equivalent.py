@@ -43,6 +43,8 @@ _WINDOW_K = {GRAPHITE: (1350.0, 1600.0), CEMENTITE: (1250.0, 1450.0)}
 _CARBON_TOLERANCE_WT = 1e-6
 _TEMPERATURE_TOLERANCE_K = 1e-4
 _EDGE_TOLERANCE_K = 0.01
+#: A driving force (J/mol of atoms) below minus this marks a phase as more stable than austenite.
+_OVERTAKEN_J = 1.0
 
 
 class NotACastIron(ValueError):
@@ -58,6 +60,10 @@ class IronEutectic:
     silicon_wt: float
     temperature_K: float
     carbon_wt: float
+    #: Phases (other than the carbon-rich ones) more stable than austenite against that liquid:
+    #: where any, the model's melt freezes another way first (delta ferrite, say) and this
+    #: eutectic is a metastable extrapolation.
+    overtaken_by: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -182,7 +188,9 @@ def _eutectic_cached(system, silicon_wt: float, carbon_phase: str) -> IronEutect
         raise NotACastIron(f"{system.name}: no eutectic of austenite and {carbon_phase} at {silicon_wt:g} wt% Si "
                            f"between {lo_K:.0f} and {hi_K:.0f} K")
     carbon = _saturated_carbon(system, carbon_phase, T, silicon_wt)
-    return IronEutectic(carbon_phase, silicon_wt, T, float(carbon))
+    others = [p for p in system.phases if p not in (LIQUID, AUSTENITE, GRAPHITE, CEMENTITE)]
+    overtaken = tuple(p for p in others if (_force(system, p, T, carbon, silicon_wt) < -_OVERTAKEN_J))
+    return IronEutectic(carbon_phase, silicon_wt, T, float(carbon), overtaken)
 
 
 def carbon_equivalent(system, carbon_wt: float, silicon_wt: float) -> CarbonEquivalent:

@@ -135,6 +135,14 @@ def test_silicon_raises_the_graphite_eutectic_and_lowers_the_cementite_eutectic(
     assert all(b > a for a, b in zip(gaps, gaps[1:])), gaps
 
 
+@pytest.mark.parametrize("silicon", [0.0, 1.0, 2.0, 3.0])
+def test_grey_irons_freeze_austenite_and_graphite_not_delta_ferrite(ternary, silicon):
+    """Cast irons of up to 3 wt% Si freeze as austenite (primary in hypoeutectic irons) and the
+    austenite-graphite eutectic; delta ferrite belongs to low-carbon steels (R. Elliott, Cast Iron
+    Technology (1988), ch. 2; recalled): at the eutectic melt no other solid is more stable."""
+    assert eutectic_of_silicon(ternary, silicon, GRAPHITE).overtaken_by == ()
+
+
 @pytest.mark.parametrize("carbon, silicon", [(3.5, 1.0), (3.4, 2.5), (3.0, 3.0), (3.6, 2.0)])
 def test_carbon_equivalent_of_the_model_against_the_foundry_rule(ternary, carbon, silicon):
     ce = carbon_equivalent(ternary, carbon, silicon)

@@ -46,7 +46,8 @@ def cast_iron_report(system, x) -> dict | None:
 
 
 def _eutectic(e) -> dict:
-    return {"temperature_K": e.temperature_K, "carbon_wt_percent": e.carbon_wt, "silicon_wt_percent": e.silicon_wt}
+    return {"temperature_K": e.temperature_K, "carbon_wt_percent": e.carbon_wt, "silicon_wt_percent": e.silicon_wt,
+            "overtaken_by": list(e.overtaken_by)}
 
 
 def cast_iron_lines(report: dict | None, unit: str) -> list[str]:
@@ -66,5 +67,9 @@ def cast_iron_lines(report: dict | None, unit: str) -> list[str]:
         lines.append(f"carbon equivalent   {ce['model_wt_percent']:.2f} wt% from the model, {ce['rule_wt_percent']:.2f} "
                      f"by the foundry rule %C + %Si/3 (difference {ce['difference_wt_percent']:+.2f}); "
                      f"{ce['side']} against the model's {ce['binary_eutectic_carbon_wt_percent']:.2f} wt% C of Fe-C")
+    for name, e in (("graphite", graphite), ("cementite", cementite)):
+        if e is not None and e["overtaken_by"]:
+            lines.append(f"note: at the {name} eutectic's melt the model's {', '.join(e['overtaken_by'])} is more stable "
+                         "than austenite: that eutectic is a metastable extrapolation of the model")
     lines += [f"note: {n}" for n in report["notes"]]
     return lines
