@@ -1,5 +1,6 @@
 """Text from files made safe for a terminal: control characters (escape sequences that set the
-window title, clear the screen or move the cursor; bidirectional overrides) are removed."""
+window title, clear the screen or move the cursor; bidirectional overrides; invisible format
+characters) are removed."""
 
 from __future__ import annotations
 
@@ -7,8 +8,11 @@ import re
 
 #: An escape sequence (CSI, OSC, or a two-character escape), removed whole.
 _ESCAPE_SEQUENCE = re.compile(r"\x1b(\[[0-?]*[ -/]*[@-~]?|\][^\x07\x1b]*(\x07|\x1b\\)?|[@-_]?)|\x9b[0-?]*[ -/]*[@-~]?")
-_CONTROLS = re.compile(r"[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
-_CONTROLS_BUT_LINES = re.compile(r"[\x00-\x09\x0b-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
+#: Invisible format characters besides: direction marks, zero-width spaces and joiners, the line
+#: and paragraph separators, the word joiner and the byte-order mark (one name could pass for another).
+_INVISIBLE = "\u061c\u200b-\u200f\u2028\u2029\u2060-\u2064\ufeff"
+_CONTROLS = re.compile(rf"[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069{_INVISIBLE}]")
+_CONTROLS_BUT_LINES = re.compile(rf"[\x00-\x09\x0b-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069{_INVISIBLE}]")
 
 
 def without_controls(text: str, keep_newlines: bool = False) -> str:

@@ -92,6 +92,29 @@ def test_a_system_file_saved_with_a_byte_order_mark_is_read(tmp_path):
     assert json.loads(marked.stdout)["phases"] == json.loads(plain.stdout)["phases"]
 
 
+@pytest.mark.parametrize("invisible", ["\u200b", "\u200e", "\u2028", "\ufeff"],
+                         ids=["zero-width space", "direction mark", "line separator", "byte-order mark"])
+def test_an_alloy_name_with_an_invisible_character_is_refused(tmp_path, invisible):
+    """'Sn96.5Ag3.0Cu0.5' with a zero-width space inside looks like the standard's name but is not."""
+    text = (SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8")
+    assert 'name = "Sn96.5Ag3.0Cu0.5"' in text
+    escaped = invisible.encode("unicode_escape").decode()
+    (tmp_path / "sac.toml").write_text(text.replace('name = "Sn96.5Ag3.0Cu0.5"', f'name = "Sn96.5{escaped}Ag3.0Cu0.5"'),
+                                       encoding="utf-8")
+    run = _ladle("point", "sac.toml", "--temp", "250C", "--comp", "Ag=3wt%,Cu=0.5wt%", cwd=tmp_path)
+    _one_line_refusal(run, "alloy[0].name", "control characters")
+
+
+def test_invisible_characters_of_a_files_title_do_not_reach_the_terminal(tmp_path):
+    text = (SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8")
+    marked = text.replace('title = "Tin-silver-copper', 'title = "Tin\\u2028\\u200fsilver-copper', 1)
+    assert marked != text
+    (tmp_path / "sac.toml").write_text(marked, encoding="utf-8")
+    run = _ladle("point", "sac.toml", "--temp", "250C", "--comp", "Ag=3wt%,Cu=0.5wt%", cwd=tmp_path)
+    assert run.returncode == 0, run.stderr
+    assert run.stdout.startswith("Tinsilver-copper") and "\u2028" not in run.stdout and "\u200f" not in run.stdout
+
+
 # -- heat lists: the output's partial file, its folder, and a --resume state ----------------------
 
 HEATS = "heat,Ag wt%,Cu wt%\nH1,3.0,0.5\nH2,3.5,0.7\nH3,1.0,0.5\n"
