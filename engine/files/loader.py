@@ -7,6 +7,7 @@ and what was expected. Nothing in a file is evaluated as code.
 from __future__ import annotations
 
 import math
+import os
 import re
 from functools import lru_cache, partial
 import tomllib
@@ -26,6 +27,7 @@ from .phase_reader import read_phases
 from ..models.polynomials import COEFFICIENTS, TemperatureFunction
 from ..models.system import System
 from .plain_text import has_controls, without_controls
+from .regular_files import open_regular, require_regular
 
 _SYMBOL = re.compile(r"^[A-Z][a-z]?$")
 _TOP_KEYS = {"elements", "molar_mass", "source", "title", "safety", "notes", "covers_at_percent", "covers_K",
@@ -139,16 +141,17 @@ class ElementLibrary:
 
 def _read_toml(path: Path) -> dict:
     try:
-        size = path.stat().st_size
-        if size > limits.MAX_FILE_BYTES:
-            raise SystemFileError(f"{path.name}: {size} bytes; a system file may hold at most {limits.MAX_FILE_BYTES} bytes")
-        data = path.read_bytes()
+        with open_regular(path) as f:       # a FIFO or folder is refused at once, not waited on
+            size = os.fstat(f.fileno()).st_size
+            if size > limits.MAX_FILE_BYTES:
+                raise SystemFileError(f"{path.name}: {size} bytes; a system file may hold at most {limits.MAX_FILE_BYTES} bytes")
+            data = f.read()
     except FileNotFoundError:
         raise SystemFileError(f"{path}: no such file") from None
     except OSError as e:
         raise SystemFileError(f"{path}: cannot read: {e.strerror}") from None
     try:
-        return tomllib.loads(data.decode("utf-8"))
+        return tomllib.loads(data.decode("utf-8-sig"))   # a byte-order mark (some Windows editors) is dropped
     except UnicodeDecodeError:
         raise SystemFileError(f"{path.name}: not a text file (expected UTF-8 TOML)") from None
     except tomllib.TOMLDecodeError as e:
@@ -326,11 +329,13 @@ def _bases(r: _Reader, library: ElementLibrary, doc: dict, elements: tuple[str, 
         base = None
         for folder in (path.parent, shipped_folder()):
             try:
-                if (folder / n).is_file():
-                    base = folder / n
-                    break
-            except OSError:
-                continue
+                require_regular(folder / n)
+            except FileNotFoundError:
+                continue                    # not beside this file: the shipped one of that name
+            except OSError as e:            # a folder, FIFO or unreadable entry is refused, never replaced
+                raise r.fail("builds_on", f"{n}: {e.strerror}") from None
+            base = folder / n
+            break
         if base is None:
             raise r.fail("builds_on", f"{n}: no such system file beside this file or among the shipped systems")
         if base.resolve() == here or base.resolve() in building:

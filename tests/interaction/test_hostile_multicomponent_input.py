@@ -67,8 +67,6 @@ def test_batch_refuses_a_fifo_for_its_heat_list(tmp_path):
     _one_line_refusal(run, "heats.csv", "not a regular file")
 
 
-@pytest.mark.xfail(strict=True, reason="engine/files/loader.py `_bases` (others' uncommitted edits there): a "
-                   "non-regular file beside the user's file falls back to the shipped one of that name")
 @pytest.mark.parametrize("kind", ["fifo", "folder"])
 def test_a_file_built_on_that_is_not_a_regular_file_is_refused_not_replaced_by_the_shipped_one(tmp_path, kind):
     (tmp_path / "sac.toml").write_text((SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8"), encoding="utf-8")
@@ -78,8 +76,6 @@ def test_a_file_built_on_that_is_not_a_regular_file_is_refused_not_replaced_by_t
     _one_line_refusal(run, "ag-cu.toml", "not a regular file")
 
 
-@pytest.mark.xfail(strict=True, reason="engine/files/loader.py `_read_toml` (others' uncommitted edits there) decodes "
-                   "with 'utf-8', so tomllib meets the byte-order mark: 'Invalid statement (at line 1, column 1)'")
 def test_a_system_file_saved_with_a_byte_order_mark_is_read(tmp_path):
     """Windows editors may start a UTF-8 file with a byte-order mark; the refusal named line 1,
     column 1 and nothing the person could see."""
