@@ -16,7 +16,7 @@ carbon equivalent (`carbon_equivalent`) is the same idea computed instead of ass
     CE_model = %C + (C_E(0) - C_E(%Si))
 
 with C_E(s) the model's eutectic carbon content (wt%) of a liquid of s wt% Si; an iron with
-CE_model = C_E(0) (4.26 wt% in Fe-C) is eutectic. Compositions in wt% unless a name says
+CE_model = C_E(0) (the model's Fe-C eutectic, 4.34 wt% C) is eutectic. Compositions in wt% unless a name says
 otherwise, temperatures in K, driving forces in J per mole of atoms.
 """
 
