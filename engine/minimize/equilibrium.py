@@ -164,9 +164,11 @@ def equilibrate(system, temperature_K: float, composition, x_A: float | None = N
     a float (the mole fraction x_B of a binary; `x_A` may be given separately, default 1 - x_B,
     to keep digits near pure B) or the mole fractions of every element (summing to 1).
 
-    `near` may be the answer at a nearby composition and the same temperature (neighbouring
-    points of a section or a path): the general minimiser starts from it, which is several times
-    cheaper; the answer is checked the same way. The binary shortcut ignores it.
+    `near` may be the answer at a nearby composition or temperature (neighbouring points of a
+    section, the last step of a path): the general minimiser starts from its phases, which is
+    several times cheaper; the answer is checked the same way (every phase's samples against its
+    chemical potentials, the full sampled start where one lies below). The binary shortcut
+    ignores it.
 
     Raises ValueError for a composition outside the composition simplex or a temperature at or
     below 0 K, and TemperatureOutOfRange outside the models.
@@ -234,7 +236,7 @@ def general_equilibrium(system, temperature_K: float, composition,
     z = _composition(system, composition, None)
     models = {name: phase.at(T) for name, phase in system.models.items()}
     start = None
-    if near is not None and near.temperature_K == T:
+    if near is not None:
         start = ([(p.name, np.concatenate(p.site_fractions)) for p in near.phases], near.chemical_potentials)
     found = global_minimum(models, z, start)
     M = system.molar_mass

@@ -30,7 +30,7 @@ the alloy, heats in J per gram of alloy (H = G - T dG/dT of each phase from its 
 
 from __future__ import annotations
 
-from dataclasses import dataclass, is_dataclass, replace
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -62,17 +62,11 @@ LAST_LIQUID = 1e-6
 
 def _equilibrium(system, T: float, x: np.ndarray, near=None):
     """Point equilibrium at T (K) of mole fractions x (every element); `near`, an equilibrium at
-    a nearby temperature and composition (the path's last), starts the minimiser from its phases.
-    `equilibrate` takes a start given at its own temperature only; the minimiser checks an answer
-    found from any start the same way (every phase's samples against its chemical potentials, and
-    the full sampled start where a phase lies below them), so a start from the last step is
-    handed over as one at T."""
+    a nearby temperature and composition (the path's last), starts the minimiser from its phases
+    (the answer is checked as from any start)."""
     if len(x) == 2:
         return equilibrate(system, T, float(x[1]))
-    if near is None:
-        return equilibrate(system, T, x)
-    moved = is_dataclass(near) and near.temperature_K != T
-    return equilibrate(system, T, x, near=replace(near, temperature_K=T) if moved else near)
+    return equilibrate(system, T, x, near=near)
 
 
 def _split(eq):
