@@ -15,7 +15,7 @@ from functools import lru_cache
 from pathlib import Path
 
 from ..errors import SystemFileError, UnknownSystem
-from .loader import LIBRARY_FILE, ElementLibrary, load_system, shipped_folder, shipped_library
+from .loader import LIBRARY_FILE, load_system, shipped_folder
 from .regular_files import require_regular
 from ..models.system import System
 
