@@ -102,23 +102,10 @@ def _mole_fractions(system, carbon_wt: float, silicon_wt: float) -> np.ndarray:
     return mole_from_mass(w, system.molar_mass)
 
 
-def _liquid_potentials(system, T: float, x: np.ndarray) -> np.ndarray:
-    """The chemical potentials (J/mol) of the elements in the liquid of mole fractions x at T:
-    mu_i = G + dG/dx_i - sum_j x_j dG/dx_j; NaN for an element the liquid lacks."""
-    at = system.models[LIQUID].at(T)
-    y = x[None, :]
-    present = x > 0.0
-    with np.errstate(divide="ignore", invalid="ignore"):
-        G, g = float(at.gibbs(y)[0]), np.asarray(at.gradient(y)[0], dtype=float)
-    mu = np.full(len(x), np.nan)
-    mu[present] = G + g[present] - float(x[present] @ g[present])
-    return mu
-
-
 def _force(system, phase: str, T: float, carbon_wt: float, silicon_wt: float) -> float:
     """The driving force (J/mol of atoms) of `phase` against the liquid of that composition at T:
     positive where the liquid is not saturated with it."""
-    mu = _liquid_potentials(system, T, _mole_fractions(system, carbon_wt, silicon_wt))
+    mu = system.models[LIQUID].at(T).element_potentials(_mole_fractions(system, carbon_wt, silicon_wt))
     force = driving_force_at(system, T, mu, (phase,))
     if force is None:
         raise NotACastIron(f"{system.name}: the phase {phase} has no sampled model")

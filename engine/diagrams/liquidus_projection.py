@@ -153,6 +153,12 @@ class _Member:
     y: np.ndarray
 
 
+def _liquid_potentials(model, x: np.ndarray) -> np.ndarray:
+    """Chemical potentials (J/mol) of the liquid at mole fractions x (..., 3)."""
+    _liquid_rows(model)                     # a liquid of another kind is refused in the projection's words
+    return model.element_potentials(x)
+
+
 def _liquid_rows(model) -> np.ndarray:
     """The liquid's site fractions from mole fractions: y = x E^-1 for a one-sublattice liquid
     whose constituents are the three elements."""
@@ -160,15 +166,6 @@ def _liquid_rows(model) -> np.ndarray:
     if len(model.groups) != 1 or E.shape != (3, 3) or abs(np.linalg.det(E)) < 1e-12:
         raise ValueError("the liquidus projection needs a substitutional liquid of the three elements")
     return np.linalg.inv(E)
-
-
-def _liquid_potentials(model, x: np.ndarray) -> np.ndarray:
-    """Chemical potentials (J/mol) of the liquid at mole fractions x (..., 3):
-    mu_i = G + dG/dx_i - sum_j x_j dG/dx_j."""
-    y = x @ _liquid_rows(model)
-    G, g = model.gibbs(y), model.gradient(y)
-    g = g @ _liquid_rows(model).T
-    return G[..., None] + g - np.sum(x * g, axis=-1)[..., None]
 
 
 def _solve(members: list[_Member], T: float, mu: np.ndarray, free_T: bool,

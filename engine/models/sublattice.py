@@ -610,6 +610,24 @@ class SublatticeAtT:
         """dG/dy (J/mol f.u.), shape (..., n_vars)."""
         return self._up_to(y, 1)[1]
 
+    def element_potentials(self, x: np.ndarray) -> np.ndarray:
+        """Chemical potentials (J/mol) of the elements at mole fractions x (..., n elements) of a
+        phase of one sublattice whose constituents are the elements (a substitutional solution
+        such as a liquid): mu_i = G + dG/dx_i - sum_j x_j dG/dx_j; NaN for an element of x = 0.
+        Raises ValueError for another kind of phase."""
+        E = np.asarray(self.element_matrix, dtype=float)
+        if len(self.groups) != 1 or E.shape[0] != E.shape[1] or abs(np.linalg.det(E)) < 1e-12:
+            raise ValueError(f"phase {self.phase.name} is not a substitutional solution of the elements")
+        rows = np.linalg.inv(E)
+        x = np.asarray(x, dtype=float)
+        present = x > 0.0
+        with np.errstate(divide="ignore", invalid="ignore"):
+            y = x @ rows
+            G = self.gibbs(y)
+            g = np.where(y > 0.0, self.gradient(y), 0.0) @ rows.T    # an absent constituent's -inf left out
+            mean = np.sum(np.where(present, x * g, 0.0), axis=-1)
+        return np.where(present, G[..., None] + g - mean[..., None], np.nan)
+
     def hessian(self, y: np.ndarray) -> np.ndarray:
         """d2G/dy2 (J/mol f.u.), shape (..., n_vars, n_vars)."""
         return self._up_to(y, 2)[2]
