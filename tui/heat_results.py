@@ -37,16 +37,25 @@ class BlockJob:
     scheil: bool
 
     def header(self) -> list[str]:
-        """The output's header: the heat list's own columns, then the results."""
+        """The output's header: the heat list's own columns, then the results; a result's name
+        that the heat list already uses (its own `note` column, or a list that is an earlier
+        output) is prefixed with `ladle_` until it is unique, so no column name appears twice."""
         u = self.unit
-        cells = list(self.layout.header) + [f"liquidus_{u}", f"solidus_{u}", f"freezing_range_{u}"]
+        results = [f"liquidus_{u}", f"solidus_{u}", f"freezing_range_{u}"]
         if self.scheil:
-            cells += [f"scheil_end_{u}", "eutectic_scheil_mass%_of_alloy"]
+            results += [f"scheil_end_{u}", "eutectic_scheil_mass%_of_alloy"]
         if self.table is not None:
-            cells.append("eutectic_equilibrium_mass%_of_alloy")
+            results.append("eutectic_equilibrium_mass%_of_alloy")
         if self.superheat_K is not None:
-            cells.append(f"pouring_{u}")
-        return cells + ["note"]
+            results.append(f"pouring_{u}")
+        cells = list(self.layout.header)
+        taken = {cell.strip().casefold() for cell in cells}
+        for name in results + ["note"]:
+            while name.casefold() in taken:
+                name = f"ladle_{name}"
+            taken.add(name.casefold())
+            cells.append(name)
+        return cells
 
     def header_text(self) -> bytes:
         cells = neutralised(np.array(self.header(), dtype=_TEXT), True, self.layout.delimiter)

@@ -189,6 +189,18 @@ def test_melt_only_and_compositions_outside_the_model(tmp_path, capsys):
     assert "line 3: Zn at% 70 lies outside" in captured.err
 
 
+def test_a_heat_lists_own_note_and_result_columns_are_not_repeated(tmp_path, capsys):
+    """A shop's list with its own `note` column, or an earlier output fed back, keeps its columns;
+    ladle's results with the same names come after them as ladle_..., so every header is unique."""
+    path = tmp_path / "own.csv"
+    path.write_text("heat,Zn at%,note,liquidus_C\nC1,30,poured twice,917\n")
+    assert main(["batch", "cu-zn", str(path), "--melt-only"]) == 0
+    header = capsys.readouterr().out.splitlines()[0].split(",")
+    assert len(header) == len(set(header))
+    assert header[:4] == ["heat", "Zn at%", "note", "liquidus_C"]
+    assert header[4] == "ladle_liquidus_C" and header[-1] == "ladle_note"
+
+
 @pytest.mark.parametrize("text, message", [
     ("heat,Fe wt%\nX,1\n", "no composition column; expected a header such as 'Si wt%' or 'Al at%'"),
     ("heat,Si wt%,Al wt%\nX,1,99\n", "several composition columns ('Si wt%', 'Al wt%'); keep one"),
