@@ -117,7 +117,9 @@ def test_the_explorer_go_to_takes_an_alloy_name(pb_sn):
     by_name = parse_point("sn63pb37 200C", system.elements, system.molar_mass, system.alloys)
     by_comp = parse_point("Sn=63wt% 200C", system.elements, system.molar_mass, system.alloys)
     assert by_name == by_comp and by_name.temperature_K == pytest.approx(473.15)
-    with pytest.raises(EntryError, match="element Sn is given twice"):
+    with pytest.raises(EntryError, match="^Sn63Pb37 gives the whole composition; type its name or the contents, not both$"):
         parse_point("Sn63Pb37 Sn=60wt%", system.elements, system.molar_mass, system.alloys)
+    with pytest.raises(EntryError, match="^Sn63Pb37 and sn63pb37: type one alloy name$"):
+        parse_point("Sn63Pb37 sn63pb37 200C", system.elements, system.molar_mass, system.alloys)
     with pytest.raises(EntryError):
         parse_point("SAC305 200C", system.elements, system.molar_mass, system.alloys)

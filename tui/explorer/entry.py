@@ -62,6 +62,10 @@ def parse_point(text: str, elements: tuple[str, ...], molar_mass, alloys: tuple 
     temperature_K: float | None = None
     contents = [word for word in words if _is_composition(word)]
     named = [word for word in words if word not in contents and find_alloy(alloys, word) is not None]
+    if len(named) > 1:
+        raise EntryError(f"{' and '.join(named)}: type one alloy name")
+    if named and contents:
+        raise EntryError(f"{named[0]} gives the whole composition; type its name or the contents, not both")
     contents += [part for word in named for part in find_alloy(alloys, word).spec.split(",")]
     try:
         for word in words:
