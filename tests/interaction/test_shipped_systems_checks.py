@@ -83,6 +83,9 @@ KNOWN_FAILURES = {
                       "model's ternary eutectic liquid is also 0.9 at% richer in Pb than the fusible alloy (a fit target)",
     ("bi-pb", 2): "the regular (Bi) solution fitted to the assessment's 0.48 at% Pb at the eutectic loses Pb on "
                   "cooling (0.21 at% at 50 C), where the 1937 study found about 0.5 at% down to 6 C",
+    ("bi-pb", 3): "the 1937 thermal analysis puts the peritectic at 188 C, 3.1 K above the model's 184.9 C, which "
+                  "follows the assessment's calculated peritectic (Yoon and Lee 1998, a fit target): measurement and "
+                  "assessment disagree by just over the 3 K tolerance",
     ("bi-cd", 2): "the model's (Cd) holds 0.07 at% Bi at 140 C, above the bound of 0.03 at%: its hcp interaction is "
                   "set by hand",
     ("au-sn", 4): "the model's zeta liquidus lies 15 K below the solder maker's 350 C for Au-18Sn (wt%): the three-term "
@@ -129,15 +132,20 @@ SHORT_OF_CHECKS = {
                     "Gold Bulletin reviews (McDonald and Sistare 1978, Rapson 1990) and a casting study of 18-carat yellow "
                     "golds were found only in their opening pages; the fcc gap is tested against one published ageing point "
                     "(test_carat_golds)"),
-    "bi-pb": (1, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "
-                 "liquidus, solvus or calorimetry of the binary from a source at hand beyond the 1937 (Bi) solubility (the "
-                 "same 1937 study's (Pb) solvus, 13-14 % Bi, contradicts the assessment's 23 at% at the peritectic; "
+    "bi-pb": (2, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "
+                 "liquidus, solvus or calorimetry of the binary from a source at hand beyond the 1937 study's (Bi) solubility "
+                 "and peritectic temperature (the same study's (Pb) solvus, 13-14 % Bi, contradicts the assessment's 23 at% "
+                 "at the peritectic; Hultgren's Bi-Pb mixing enthalpies, the LBE handbook's phase-diagram chapter and "
+                 "Barlow's 1911 liquidus were found as titles or reference lists only; "
                  "Agarwal et al.'s calorimetry of epsilon (J. Alloys Compd. 490 (2010) 150) is not a kind of fact "
                  "ladle checks: epsilon is a solution phase and its enthalpy is given against the liquids)"),
     "bi-cd": (1, "the evaluation's summary gives the eutectic (fitted) and the solubilities only as upper limits "
                  "(one of them checked); no liquidus or calorimetric value from a source at hand (the fusible-alloy and "
                  "teaching texts found give only the eutectic, the Bi60Cd40 fusible alloy is the eutectic itself; "
-                 "abstracts on the melt's enthalpy and EMF give no numbers)"),
+                 "abstracts on the melt's enthalpy and EMF give no numbers; Barlow's 1911 and Stoffel's 1907 thermal "
+                 "analyses, Elliott and Chipman's (1951) EMF study and Hultgren et al. (1973) found as titles or reference "
+                 "lists only, Kleppa's calorimetry not found; with one fit target the liquid keeps two coefficients, see "
+                 "FITS_NOT_TO_RULE)"),
     "fe-fe3c": (3, "the variant of fe-c without graphite: its cementite eutectoid and eutectic and the shared "
                    "peritectic; no measured austenite + cementite solvus or liquidus from a source at hand (Chipman's 1972 "
                    "tables and Wells' and Mehl and Wells' solubility lines found as titles or reference lists only; "
@@ -158,7 +166,9 @@ SHORT_OF_CHECKS = {
                  "calorimetry and vapour-pressure papers they cite were found as reference lists only)"),
     "pb-sb": (2, "no liquidus temperatures from a source at hand (lead producers' pages found give compositions, not "
                  "melting ranges, battery-alloy and hard-lead pages give compositions only; the 1926-27 AIME liquidus and "
-                 "solidus papers were not readable); the evaluation's other solubilities are fit targets"),
+                 "solidus papers were not readable; Hassam et al.'s 2009 DSC of the Pb-rich side gives no number in its "
+                 "abstract, the Pb-Sb-Sn evaluation (Osamura 1985) and the ASM and DIN 17640 hard-lead tables were found "
+                 "as titles only); the evaluation's other solubilities are fit targets"),
     "sn-ag": (3, "Indium's listed Sn95Ag5 and Sn90Ag10 liquidus temperatures are fit targets, the makers' other binary "
                  "listings are the eutectic itself; besides the (recalled) mixing enthalpy and the Sn97Ag3 liquidus, "
                  "Ag3Sn's EMF enthalpy of formation (2025) is the one further fact found; no further liquidus, (Sn) "
