@@ -31,8 +31,9 @@ class NamedAlloy:
 
     @property
     def spec(self) -> str:
-        """The composition as a --comp value: 'Ag=3wt%,Cu=0.5wt%'."""
-        return ",".join(f"{el}={pct:g}{self.basis}%" for el, pct in self.parts)
+        """The composition as a --comp value, every content to the full precision of the file
+        (the shortest text that reads back as the same float): 'Ag=3.0wt%,Cu=0.5wt%'."""
+        return ",".join(f"{el}={pct!r}{self.basis}%" for el, pct in self.parts)
 
 
 def read_alloys(items: Any, elements: tuple[str, ...], fail: Callable[[str, str], Exception]) -> tuple[NamedAlloy, ...]:
