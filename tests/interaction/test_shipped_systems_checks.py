@@ -118,9 +118,11 @@ KNOWN_FAILURES = {
     ("sn-ag", 2): "the refitted liquid mixes exothermically, as calorimetry says, but only -0.5 kJ/mol at 30 at% Ag "
                   "against about -2 (recalled): Ag3Sn's energy is fixed by the author and the liquidus holds the liquid",
     ("sn-cu", 1): "Multicore's datasheet gives 97Sn-3Cu a 250 C liquidus; the model's 311.6 C follows the 310 C "
-                  "recalled from memory that the fit holds for the same alloy: the two sources disagree by 60 K and no "
-                  "measured tin-rich Cu-Sn liquidus was at hand to settle it (not refitted: the liquid is shared with "
-                  "cu-sn and ag-cu-sn)",
+                  "recalled from memory that the fit holds for the same alloy. No measured Cu solubility in liquid Sn was "
+                  "found, but 250 C is no equilibrium liquidus: from the eutectic liquid (1.3-1.7 at% Cu at 227 C) to "
+                  "5.46 at% at 250 C the van 't Hoff relation asks 110-136 kJ per mole of Cu dissolved from Cu6Sn5, where "
+                  "its formation enthalpy, tin's and copper's heats of fusion allow about 32 (the model's curve: 33); "
+                  "not refitted (the liquid is shared with cu-sn and ag-cu-sn; the file's note gives the numbers)",
 }
 
 #: Systems with fewer than four independent checks -> why (strict: the count is checked, so adding
@@ -172,16 +174,22 @@ SHORT_OF_CHECKS = {
     "sn-ag": (3, "Indium's listed Sn95Ag5 and Sn90Ag10 liquidus temperatures are fit targets, the makers' other binary "
                  "listings are the eutectic itself; besides the (recalled) mixing enthalpy and the Sn97Ag3 liquidus, "
                  "Ag3Sn's EMF enthalpy of formation (2025) is the one further fact found; no further liquidus, (Sn) "
-                 "solvus or sourced calorimetry of the melt (the calorimetry abstracts found give no numbers)"),
+                 "solvus or sourced calorimetry of the melt (the calorimetry abstracts found give no numbers; a DSC study "
+                 "of Ag-Sn alloys over the whole range (Chinese Sci. Bull. 2013) gives none in its abstract, and a "
+                 "hobbyist's table of Sn-5/6/7Ag melting ranges names no maker or standard)"),
     "sn-cu": (2, "its liquid and (Cu) are shared with cu-sn and fitted to facts of both sides; within 0-6 at% Cu "
                  "the 97Sn-3Cu liquidus (recalled), the eutectic and Cu6Sn5's calorimetry are fit targets; the checks "
                  "are the bound on Cu in (Sn) and Multicore's 97Sn-3Cu liquidus (a known miss); no further tin-rich "
                  "liquidus, solvus or calorimetry value was at hand (solder tables found list Sn-Cu grades with Ag "
-                 "or Ni added, abstracts on Cu dissolution in tin give no numbers)"),
+                 "or Ni added, abstracts on Cu dissolution in tin give no numbers; searched again for the Cu solubility "
+                 "in liquid Sn at 250-300 C: the 1930 AIME eutectic paper, Kleppa's 1956 calorimetry and the dissolution "
+                 "and wave-soldering studies found give none in the text at hand)"),
     "sn-zn": (1, "the two solder liquidus temperatures at hand are needed as fit targets, and the evaluation's "
                  "summary gives only the eutectic and the two solubilities it fixes; the makers' Sn-Zn listings found "
                  "are the eutectic (ASTM B907's zinc-tin grades were found, their melting ranges not), and the calorimetry "
-                 "abstracts of the melt give no numbers"),
+                 "abstracts of the melt give no numbers; Hamada et al. (Mater. Trans. 51 (2010) 1747) give Zn in (Sn) as "
+                 "0.34 mass%, the eutectic solubility already fitted; Lee et al.'s (2007) and Drapala et al.'s (2017) "
+                 "thermal analyses were found without their numbers)"),
 }
 MIN_CHECKS = 4
 
