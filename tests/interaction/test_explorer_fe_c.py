@@ -149,7 +149,8 @@ async def test_the_typed_point_entry_closes_with_escape_and_names_a_bad_entry():
         await until(pilot, lambda: _settled(app), "the diagram", MAPPING_S)
         await pilot.press("g", *"9000C", "enter")
         entry = app.screen.query_one(PointEntry)
-        assert entry.display and "outside this system's window" in str(entry.query_one("#point-problem").render())
+        problem = str(entry.query_one("#point-problem").render())
+        assert entry.display and "9000.0 °C is outside this system's window" in problem, problem    # in the screen's unit
         await pilot.press("escape")
         assert not entry.display and app.screen.focused is None
         await pilot.press("up")                    # the keys move the cursor again

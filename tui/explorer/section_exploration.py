@@ -308,8 +308,15 @@ class SectionExploration:
         self.isopleth = None
         self.window = self.whole
 
-    def jump(self, point: TypedPoint) -> None:
-        """Go to a typed alloy and/or temperature (K)."""
+    def jump(self, point: TypedPoint, unit: str = "K", unit_text: str = "K") -> None:
+        """Go to a typed alloy and/or temperature (K); ValueError, in one line with temperatures in
+        `unit` ("C", "K" or "F", written `unit_text`), when either lies outside, and then nothing
+        moves."""
+        T = self.cursor.temperature_K if point.temperature_K is None else point.temperature_K
+        if not self.T_low <= T <= self.T_high:
+            low, high = (kelvin_to(t, unit) for t in (self.T_low, self.T_high))
+            raise ValueError(f"{kelvin_to(T, unit):.1f} {unit_text} is outside this system's window, "
+                             f"{low:.0f}-{high:.0f} {unit_text}")
         if point.mole_fractions is not None:
             x = np.asarray(point.mole_fractions, dtype=float)
             if not self.system.covered(x):
@@ -320,9 +327,6 @@ class SectionExploration:
                                  f"{percent(self._top(x))} at%")
             self.alloy = x
             self.isopleth = None
-        T = self.cursor.temperature_K if point.temperature_K is None else point.temperature_K
-        if not self.T_low <= T <= self.T_high:
-            raise ValueError(f"{T:.1f} K is outside this system's window, {self.T_low:.0f}-{self.T_high:.0f} K")
         self.cursor = SectionCursor(self._u_of(self.alloy), T)
         self.window = self.window.following(self.cursor)
 

@@ -312,5 +312,8 @@ class SectionScreen(Screen[None]):
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         event.stop()
-        if self.query_one(PointEntry).submit(event.value, self.exploration.system, self.exploration.jump):
+        unit = self.query_one(SectionView).unit
+        unit_text = self.glyphs.temperature_unit(unit)
+        if self.query_one(PointEntry).submit(event.value, self.exploration.system,
+                                             lambda point: self.exploration.jump(point, unit, unit_text)):
             self._changed()
