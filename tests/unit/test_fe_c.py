@@ -139,23 +139,25 @@ def _x_C(system, wt: float) -> float:
     return float(mole_from_mass(np.array([1.0 - wt / 100.0, wt / 100.0]), system.molar_mass)[1])
 
 
-@pytest.mark.parametrize("which, independent", [("stable", 5), ("metastable", 3)])
-def test_the_files_checks_pass(request, which, independent) -> None:
+@pytest.mark.parametrize("which, independent, known_misses", [("stable", 5, set()), ("metastable", 5, {12})])
+def test_the_files_checks_pass(request, which, independent, known_misses) -> None:
     """`ladle check` of both diagrams: the invariants and carbon solubilities of H. Okamoto's
     evaluation (J. Phase Equilib. 13 (1992) 543, as drawn in ASM Handbook Vol. 3 (1992)) and pure
     iron's handbook values, each [[check]] with its source and tolerance in systems/fe-c.toml
     (stable: peritectic, graphite eutectic and eutectoid; austenite's graphite solubility at 957 and
     1110 C, R.W. Gurry, Trans. AIME (1942)) and fe-fe3c.toml (metastable: eutectoid
     with the carbon solubility in ferrite, eutectic with that in austenite; the peritectic
-    inherited). The eutectoid of fe-fe3c is checked with its ferrite, the eutectic with its
-    austenite."""
+    inherited; ferrite's carbon with cementite at 700 and 600 C from C.A. Wert, Trans. AIME 188
+    (1950) 1242). The eutectoid of fe-fe3c is checked with its ferrite, the eutectic with its
+    austenite. Every check passes but the one known miss (check[12], Wert at 600 C: the assessment
+    lies a factor 2.01 below; its reason is in tests/interaction/test_shipped_systems_checks.py)."""
     from ladle.engine.checking.measure import INDEPENDENT, evaluate_all, fact_role
 
     system = request.getfixturevalue(which)
     outcomes = evaluate_all(system, system.checks)
     failed = [(o.fact.index, o.problem, [(c.quantity, c.model, c.reference) for c in o.comparisons if not c.within])
               for o in outcomes if not o.passed]
-    assert not failed
+    assert {index for index, _, _ in failed} == known_misses, failed
     assert sum(fact_role(o.fact, "check") == INDEPENDENT for o in outcomes) == independent
     assert {o.model_reaction for o in outcomes if o.fact.kind == "invariant"} == (
         {"peritectic", "eutectic", "eutectoid"})
