@@ -42,11 +42,11 @@ KNOWN_FAILURES = {
     ("cu-sn", 3): "the model's (Cu) solidus lies 16 K below C90900's data-sheet 818 C at 13 wt% Sn: sn-cu's (Cu) has "
                   "one interaction term, fitted to the (Cu)-liquid tie-line at 798 C, and its solidus bows below the "
                   "data sheets' (931 C at 5 wt% Sn, where C51000's sheet gives 960 C)",
-    ("ag-cu-sn", 3): "SAC387's makers' liquidus (217 C, sold as eutectic) lies 5.9 K below the model's 222.9 C: the "
+    ("ag-cu-sn", 3): "SAC387's makers' liquidus (217 C, sold as eutectic) lies 5.1 K below the model's 222.1 C: the "
                      "alloy lies 0.24 wt% Ag beyond the model's eutectic trough (3.56 wt% Ag at 0.7 wt% Cu; Moon and "
                      "Boettinger 3.58), where the model's Ag3Sn liquidus climbs about 20 K per wt% Ag (the binary "
                      "solders' 221 C at 3.5 wt% and 240 C at 5 wt% give about 13)",
-    ("ag-cu-sn", 7): "SAC405's listed liquidus (220 C) lies 6.2 K below the model, for the same reason as SAC387: on the "
+    ("ag-cu-sn", 7): "SAC405's listed liquidus (220 C) lies 5.7 K below the model, for the same reason as SAC387: on the "
                      "Ag3Sn side of the trough the model's liquidus is too high, while the three alloys on the (Sn) "
                      "side (SAC0307, SAC105, SAC263) agree within 1.2 K",
     ("ag-cu", 5): "ASM's coin-silver liquidus (890 C) lies only 3 K below its sterling liquidus (893 C, a fit target), "
