@@ -138,6 +138,23 @@ async def test_the_cooling_view_shows_both_paths_of_the_cursors_alloy(ternary_ap
 
 
 @pilot_test
+async def test_u_switches_the_section_between_at_and_wt_percent_keeping_the_alloy(ternary_app):
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        e = app.screen.exploration
+        alloy = e.x_at_cursor()
+        assert e.basis == "at" and " at%; A balance" in app.screen.query_one("#title").render().plain
+        await pilot.press("u")
+        await _settled(app, pilot)
+        assert e.basis == "wt" and e.x_at_cursor() == pytest.approx(alloy, abs=1e-12)
+        assert " wt%; A balance" in app.screen.query_one("#title").render().plain
+        assert "B wt%" in screen_text(app) and "PHASES, mass % and wt%" in status_text(app)
+        await pilot.press("u")
+        assert e.basis == "at" and e.x_at_cursor() == pytest.approx(alloy, abs=1e-12)
+
+
+@pilot_test
 async def test_t_switches_the_temperature_unit_everywhere(ternary_app):
     app = ternary_app
     async with app.run_test(size=SIZE) as pilot:

@@ -5,8 +5,9 @@ phases (Fe-C: its whole diagram, an isopleth with nothing held), and the cursor 
 Plain Python (no screen code). The alloy is held as fractions of every element in mole fractions;
 the balance is the system's first element; one other element varies along the section, from 0 to
 SECTION_SHARE (or less, where the other elements, or the range the model covers, leave less
-room). The section is straight in its basis: at% for three or more elements, wt% for a binary
-(as the trade reads Fe-C). The cursor is a position u along the section (0 at its start, 1 at
+room). The section is straight in its basis, which `toggle_basis` switches: in at% the other
+elements keep their mole fractions, in wt% their mass fractions. A binary and a cast iron open in
+wt% (as the trade reads Fe-C and Fe-C-Si), other systems of three or more elements in at%. The cursor is a position u along the section (0 at its start, 1 at
 its end) and a temperature (K). Every thermodynamic answer comes from the engine: the isopleth
 (ladle.engine.diagrams.isopleth) with the trade's names of its lines, the point equilibrium at
 the cursor and, where the system's file names lines or a heat treatment, the cursor's alloy's
@@ -27,7 +28,7 @@ from ladle.engine.diagrams.isopleth import (Isopleth, covered_range_words, map_i
                                            trade_labels)
 from ladle.engine.diagrams.isothermal import IsothermalSection, map_isothermal
 from ladle.engine.files.trade_names import trade_names
-from ladle.engine.units import kelvin_to, mass_from_mole
+from ladle.engine.units import kelvin_to, mass_from_mole, mole_from_mass
 from ladle.tui.phase_names import constituent_trade_name, phase_label
 from ladle.tui.quote import percent
 
@@ -37,6 +38,9 @@ from .saved_state import SavedState
 
 #: The varying element runs from 0 to this mole fraction (less where the others leave less).
 SECTION_SHARE = 0.5
+#: Grid points over the varying element's mass fraction where a wt% section's covered stretch
+#: is looked for (its ends are then bisected).
+MASS_SPAN_SAMPLES = 201
 #: Each element but the balance starts at this mole fraction.
 OPENING_SHARE = 0.05
 #: Arrow keys move the cursor by this share of the window shown (along the section and in
@@ -95,7 +99,7 @@ class SectionExploration:
             alloy[0] = 1.0 - alloy[1:].sum()
         self.alloy = np.asarray(alloy, dtype=float)
         self.varying = varying
-        self.basis = "wt" if n == 2 else "at"      # the section is straight in this basis
+        self.basis = "wt" if n == 2 or trade_names(system).cast_iron else "at"   # the section is straight in it
         self.T_low, self.T_high = system.temperature_range_K
         T = 0.5 * (self.T_low + self.T_high) if temperature_K is None else temperature_K
         self.cursor = SectionCursor(self._u_of(self.alloy), min(max(T, self.T_low), self.T_high))
@@ -120,18 +124,71 @@ class SectionExploration:
         """A binary's whole diagram (nothing held, one element to vary, no triangle)."""
         return len(self.system.elements) == 2
 
+    @property
+    def _holds_mass(self) -> bool:
+        """Whether the held elements keep their mass fractions (a wt% section of three or more
+        elements) rather than their mole fractions."""
+        return self.basis == "wt" and not self.is_binary
+
     def _span(self, alloy: np.ndarray | None = None) -> tuple[float, float]:
-        """The varying element's smallest and largest mole fraction on the section through
-        `alloy` (default: the current one): from 0 to SECTION_SHARE, less where the other
-        elements leave less room, and within the range the model covers (the balance's too)."""
+        """The varying element's smallest and largest fraction in the section's basis (mass
+        fractions where the held elements keep theirs, else mole fractions) on the section through
+        `alloy` (mole fractions; default: the current one): from 0 to a mole fraction of
+        SECTION_SHARE, less where the other elements leave less room, and within the range the
+        model covers (the balance's too)."""
         alloy = self.alloy if alloy is None else alloy
+        if self._holds_mass:
+            return self._mass_span(mass_from_mole(alloy, self.system.molar_mass))
         others = sum(v for i, v in enumerate(alloy) if i not in (0, self.varying))
         (lo, hi), (balance_lo, balance_hi) = self.system.element_ranges[[self.varying, 0]]
         return (max(0.0, lo, 1.0 - others - balance_hi),
                 min(SECTION_SHARE, 1.0 - others, hi, 1.0 - others - balance_lo))
 
+    def _mass_section(self, w: np.ndarray, w_varying: np.ndarray) -> np.ndarray:
+        """Mole fractions (k, N) of the alloys with mass fractions `w` but the varying element's
+        set to each of `w_varying` (k,), the balance taking up the change."""
+        ws = np.repeat(w[None, :], len(w_varying), axis=0)
+        ws[:, self.varying] = w_varying
+        ws[:, 0] = 0.0
+        ws[:, 0] = 1.0 - ws.sum(axis=1)
+        return mole_from_mass(ws, self.system.molar_mass)
+
+    def _mass_span(self, w: np.ndarray) -> tuple[float, float]:
+        """The stretch of the varying element's mass fraction, the others' held at `w`, where the
+        alloy is covered and holds at most SECTION_SHARE of it by moles: the covered run of a
+        MASS_SPAN_SAMPLES grid nearest the alloy, its ends bisected to 1e-12."""
+        room = 1.0 - sum(v for i, v in enumerate(w) if i not in (0, self.varying))
+
+        def inside(w_varying: np.ndarray) -> np.ndarray:
+            x = self._mass_section(w, np.clip(w_varying, 0.0, room))
+            return self.system.covered(x) & (x[:, self.varying] <= SECTION_SHARE + 1e-12)
+
+        grid = np.linspace(0.0, room, MASS_SPAN_SAMPLES)
+        ok = inside(grid)
+        if not ok.any():
+            return float(w[self.varying]), float(w[self.varying])
+        good = np.flatnonzero(ok)
+        here = good[np.argmin(np.abs(grid[good] - w[self.varying]))]
+        first, last = here, here
+        while first > 0 and ok[first - 1]:
+            first -= 1
+        while last < len(grid) - 1 and ok[last + 1]:
+            last += 1
+
+        def edge(inner: float, outer: float) -> float:
+            for _ in range(60):
+                middle = 0.5 * (inner + outer)
+                inner, outer = (middle, outer) if inside(np.array([middle]))[0] else (inner, middle)
+                if abs(outer - inner) < 1e-12:
+                    break
+            return inner
+
+        low = grid[first] if first == 0 else edge(grid[first], grid[first - 1])
+        high = grid[last] if last == len(grid) - 1 else edge(grid[last], grid[last + 1])
+        return float(low), float(high)
+
     def _top(self, alloy: np.ndarray | None = None) -> float:
-        """The varying element's largest mole fraction on the section through `alloy`."""
+        """The varying element's largest fraction (as `_span`) on the section through `alloy`."""
         return self._span(alloy)[1]
 
     def _u_of(self, alloy: np.ndarray) -> float:
@@ -147,6 +204,10 @@ class SectionExploration:
 
     def ends(self) -> tuple[tuple[float, ...], tuple[float, ...]]:
         """Mole fractions of every element at the start (u = 0) and end (u = 1) of the section."""
+        if self._holds_mass:
+            w = mass_from_mole(self.alloy, self.system.molar_mass)
+            start, end = self._mass_section(w, np.array(self._span()))
+            return tuple(float(v) for v in start), tuple(float(v) for v in end)
         start, end = self.alloy.copy(), self.alloy.copy()
         start[self.varying], end[self.varying] = self._span()
         start[0] = end[0] = 0.0
@@ -298,6 +359,15 @@ class SectionExploration:
         """Show the whole section again."""
         self.window = self.whole
 
+    def toggle_basis(self) -> None:
+        """Switch the section between at% and wt% (the held elements keep their mole or their
+        mass fractions); the cursor keeps its alloy and temperature."""
+        self.alloy = self.x_at_cursor()
+        self.basis = "at" if self.basis == "wt" else "wt"
+        self.cursor = SectionCursor(self._u_of(self.alloy), self.cursor.temperature_K)
+        self.isopleth = None
+        self.window = self.whole
+
     def vary_next(self) -> None:
         """Let the next element (after the balance, in the system's order) vary; the cursor
         keeps its alloy."""
@@ -322,9 +392,11 @@ class SectionExploration:
             if not self.system.covered(x):
                 raise ValueError(f"that alloy lies outside the range this model covers "
                                  f"({covered_range_words(self.system)})")
-            if x[self.varying] > self._top(x):
-                raise ValueError(f"{self.element} {percent(x[self.varying])} at% lies beyond this section's "
-                                 f"{percent(self._top(x))} at%")
+            basis = "wt" if self._holds_mass else "at"
+            content = (mass_from_mole(x, self.system.molar_mass) if self._holds_mass else x)[self.varying]
+            if content > self._top(x) + 1e-12:
+                raise ValueError(f"{self.element} {percent(content)} {basis}% lies beyond this section's "
+                                 f"{percent(self._top(x))} {basis}%")
             self.alloy = x
             self.isopleth = None
         self.cursor = SectionCursor(self._u_of(self.alloy), T)

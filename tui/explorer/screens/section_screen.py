@@ -23,7 +23,7 @@ from textual.screen import Screen
 from textual.widgets import Input, Static
 from textual.worker import Worker, WorkerState
 
-from ladle.engine.units import TEMPERATURE_UNITS, kelvin_to
+from ladle.engine.units import TEMPERATURE_UNITS, kelvin_to, mass_from_mole
 from ladle.tui.quote import percent
 
 from ..alloy_changes import change_lines
@@ -38,7 +38,7 @@ from .help import HelpScreen
 
 #: The key bar of a ternary's isopleth: each key and its word (a binary drawn as an isopleth, and
 #: a system of four or more elements, leave off what they lack; the arrows are in the help).
-KEY_BAR = (("v", "vary"), ("i", "triangle"), ("c", "cool"), ("t", "C/K/F"), ("g", "go"),
+KEY_BAR = (("v", "vary"), ("i", "triangle"), ("c", "cool"), ("u t", "unit"), ("g", "go"),
            ("+-0", "zoom"), ("s", "system"), ("?", "help"), ("q", "quit"))
 #: The help screen's rows for this screen: (keys, what they do).
 HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
@@ -48,6 +48,8 @@ HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in 
              ("c", "switch between the isopleth and both freezing paths of the cursor's alloy (equilibrium, "
                    "Scheil), with its liquidus, the ends of freezing and the structure in the status pane"),
              ("g", "go to a typed alloy and temperature: Ag=3wt% Cu=0.5wt% 250C (every element but the balance)"),
+             ("u", "compositions in wt% or at%: the section holds the other elements' mass or mole fractions "
+                   "(a cast iron opens in wt%, other systems of three or more elements in at%)"),
              ("t", "temperatures in C, K or F, everywhere"),
              ("+ - 0", "zoom the isopleth in, out, or show all of it again (the arrows' steps follow the zoom)"),
              ("s", "choose another system"),
@@ -94,6 +96,7 @@ class SectionScreen(Screen[None]):
                 Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
                 Binding("v", "vary", show=False), Binding("i", "view('triangle')", show=False),
                 Binding("c", "view('cooling')", show=False), Binding("t", "temperature_unit", show=False),
+                Binding("u", "composition_unit", show=False),
                 Binding("g", "go_to", show=False), Binding("s", "app.systems", show=False),
                 Binding("plus,equals_sign", "zoom(True)", show=False), Binding("minus", "zoom(False)", show=False),
                 Binding("0", "whole", show=False),
@@ -138,9 +141,10 @@ class SectionScreen(Screen[None]):
             return f" {e.system.name}  isothermal section at {T:.1f} {self.glyphs.temperature_unit(unit)}"
         if e.is_binary:
             return f" {e.system.name}  {e.system.title}"
-        held = ", ".join(f"{el} {percent(e.alloy[i])}" for i, el in enumerate(e.system.elements)
+        shares = mass_from_mole(e.alloy, e.system.molar_mass) if e.basis == "wt" else e.alloy
+        held = ", ".join(f"{el} {percent(shares[i])}" for i, el in enumerate(e.system.elements)
                          if i not in (0, e.varying))
-        return f" {e.system.name}  isopleth: {e.element} varies; {held} at%; {e.system.elements[0]} balance"
+        return f" {e.system.name}  isopleth: {e.element} varies; {held} {e.basis}%; {e.system.elements[0]} balance"
 
     def _changed(self) -> None:
         """The cursor or the section moved: redraw, and ask the workers for what changed (the
@@ -288,6 +292,10 @@ class SectionScreen(Screen[None]):
         if not self.exploration.is_binary:
             self.exploration.vary_next()
             self._changed()
+
+    def action_composition_unit(self) -> None:
+        self.exploration.toggle_basis()
+        self._changed()
 
     def action_help(self) -> None:
         e = self.exploration
