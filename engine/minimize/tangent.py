@@ -60,17 +60,26 @@ def _tolerance(RT: float, rtol: float) -> float:
     return rtol * RT
 
 
+#: Below this residual (times RT) Newton's method is in its quadratic regime: the next step
+#: brings the residual to about its square (times RT), below any tolerance asked for here. That
+#: step is then the last one; the residual after it is checked and iterations go on if it
+#: is not below the tolerance.
+_QUADRATIC = 1e-6
+
+
 def common_tangent(P: SolutionAtT, Q: SolutionAtT, start_p: tuple[float, float], start_q: tuple[float, float],
                    rtol: float = 1e-12) -> TangentResult:
     """Compositions of phases P and Q with equal chemical potentials of both elements.
 
     Starts from (xA, xB) of each phase; stops when the largest potential difference is below
-    rtol * RT (J/mol), then takes one more step. For P is Q (a miscibility gap) the trivial
-    solution with equal compositions is reported as not converged.
+    rtol * RT (J/mol), then takes one more step (or, where a step from the quadratic regime
+    reached the tolerance, at once). For P is Q (a miscibility gap) the trivial solution with
+    equal compositions is reported as not converged.
     """
     y1, y2 = logit(*start_p), logit(*start_q)
     tol = _tolerance(P.RT, rtol)
-    done = False
+    quadratic = _QUADRATIC * P.RT
+    done = last = False
     res = math.inf
     for it in range(1, _MAX_ITER + 1):
         xa1, xb1 = fractions(y1)
@@ -79,10 +88,12 @@ def common_tangent(P: SolutionAtT, Q: SolutionAtT, start_p: tuple[float, float],
         ma2, mb2, s2 = Q.potentials_and_curvature(xa2, xb2)
         f1, f2 = float(ma1 - ma2), float(mb1 - mb2)
         res = max(abs(f1), abs(f2))
-        if done:
+        if done or (last and res < tol):
+            done = True
             break
         if res < tol:
             done = True
+        last = res < quadratic
         # d mu_A / dy = -xB s,  d mu_B / dy = xA s  (s = xA xB G'')
         j11, j12, j21, j22 = -xb1 * s1, xb2 * s2, xa1 * s1, -xa2 * s2
         det = j11 * j22 - j12 * j21
@@ -110,17 +121,20 @@ def tangent_to_point(P: SolutionAtT, point: tuple[float, float], g_point: float,
     # the compound's composition in y (x_B rises with y): a step may not reach it
     y_c = math.log(xb_c) - math.log(xa_c) if xa_c > 0.0 and xb_c > 0.0 else -side * math.inf
     tol = _tolerance(P.RT, rtol)
-    done = False
+    quadratic = _QUADRATIC * P.RT
+    done = last = False
     res = math.inf
     for it in range(1, _MAX_ITER + 1):
         xa, xb = fractions(y)
         ma, mb, s = P.potentials_and_curvature(xa, xb)
         f = float(xa_c * ma + xb_c * mb - g_point)
         res = abs(f)
-        if done:
+        if done or (last and res < tol):
+            done = True
             break
         if res < tol:
             done = True
+        last = res < quadratic
         d = float(s) * (xb_c - xb)
         if d == 0.0:
             done = True                 # x is where the potentials were evaluated
