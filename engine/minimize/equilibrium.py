@@ -193,14 +193,9 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
     gibbs_dT = 0.0
     for name, (pa, pb), amount in state.phases:
         k = sec._index[name]
-        if k < sec.n_sol:
-            gibbs_dT += amount * float(sec.solutions[k].gibbs_dT(pa, pb))
-            px = np.array((pa, pb))
-            sites = (px,)
-        else:
-            gibbs_dT += amount * sec.compound_gibbs_dT(k - sec.n_sol)
-            px = np.array((pa, pb))
-            sites = tuple(np.ones(size) for size in _compound_site_counts(system, name))
+        gibbs_dT += amount * sec.gibbs_dT(k, pa, pb)
+        px = np.array((pa, pb))
+        sites = (px,) if k < sec.n_sol else _compound_sites(system, name)
         m_sum = pa * ma + pb * mb            # the same sum as m_alloy: a single phase's share is exactly 1
         shares.append(PhaseShare(name, px, np.array((pa * ma / m_sum, pb * mb / m_sum)), float(amount),
                                  float(amount * m_sum / m_alloy), sites))
@@ -211,18 +206,21 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
                             state.converged, gibbs_dT, gibbs - T * gibbs_dT)
 
 
-#: The sublattice sizes of each compound's general form, per system (systems are not changed in place).
-_site_counts: "weakref.WeakKeyDictionary[object, dict[str, tuple[int, ...]]]" = weakref.WeakKeyDictionary()
+#: The site fractions of each compound's general form, per system (systems are not changed in place).
+_sites: "weakref.WeakKeyDictionary[object, dict[str, tuple[np.ndarray, ...]]]" = weakref.WeakKeyDictionary()
 
 
-def _compound_site_counts(system, name: str) -> tuple[int, ...]:
-    """The number of constituents on each sublattice of a stoichiometric compound's general
-    form (its site fractions are 1 on each), remembered per system."""
-    counts = per_system(_site_counts, system, lambda _s: {})
-    found = counts.get(name)
+def _compound_sites(system, name: str) -> tuple[np.ndarray, ...]:
+    """The site fractions of a stoichiometric compound's general form: 1 for each constituent
+    of each sublattice, one array per sublattice, remembered per system (read-only: every
+    answer shares them)."""
+    sites = per_system(_sites, system, lambda _s: {})
+    found = sites.get(name)
     if found is None:
         model = getattr(system, "models", {}).get(name)
-        found = counts[name] = tuple(len(g) for g in model.groups) if model is not None else (1,)
+        found = sites[name] = tuple(np.ones(size) for size in (tuple(len(g) for g in model.groups) if model is not None else (1,)))
+        for lattice in found:
+            lattice.setflags(write=False)
     return found
 
 

@@ -87,11 +87,14 @@ def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS, magnetic:
     return C
 
 
-def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.ndarray:
+def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS, coefficients: np.ndarray | None = None) -> np.ndarray:
     """(len(solutions), n): G (J/mol) of each solution phase at one temperature (`SolutionAtT`)
-    on the n-point grid."""
-    order = max(len(s.L) for s in solutions)
-    G = np.array([s.grid_coefficients(order) for s in solutions]) @ gibbs_basis(n, order)
+    on the n-point grid. `coefficients` may hold their `grid_coefficients` as rows of one matrix
+    (of any order at least the longest Redlich-Kister series), where the caller has them."""
+    if coefficients is None:
+        order = max(len(s.L) for s in solutions)
+        coefficients = np.array([s.grid_coefficients(order) for s in solutions])
+    G = coefficients @ gibbs_basis(n, coefficients.shape[1] - 3)
     for k, s in enumerate(solutions):
         if s.phase.magnetic is not None:
             xa, xb = composition_grid(n)

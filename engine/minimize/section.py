@@ -23,6 +23,8 @@ import numpy as np
 from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid, grid_list, scaled_curvature_on_grid
 from .hull import lower_hull
 from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
+from ..models.polynomials import FunctionStack, TemperatureFunction
+from ..units import GAS_CONSTANT as R
 from .tangent import common_tangent, lowest_against_line, tangent_to_point
 
 #: The hull is taken over every HULL_STRIDE-th grid point; checks use the whole grid.
@@ -65,7 +67,8 @@ class LocalState:
 class BinaryPhases:
     """A binary system's phases in the order sections use them (solutions, then compounds),
     sorted once per system: `names`, `index` (name to position), the solution and compound
-    models, `n_sol` and each compound's (x_A, x_B)."""
+    models, `n_sol` and each compound's (x_A, x_B); every phase's temperature functions stacked
+    (`functions`), each phase's share of them a slice (`slices`, in the order of `names`)."""
 
     def __init__(self, system) -> None:
         solutions = [(n, p) for n, p in system.phases.items() if isinstance(p, SolutionPhase)]
@@ -76,6 +79,32 @@ class BinaryPhases:
         self.solutions: tuple[SolutionPhase, ...] = tuple(p for _n, p in solutions)
         self.compounds: tuple[CompoundPhase, ...] = tuple(p for _n, p in compounds)
         self.comp_x = tuple((float(c.x[0]), float(c.x[1])) for c in self.compounds)
+        functions: list[TemperatureFunction] = []
+        self.slices: list[slice] = []
+        for p in self.solutions + self.compounds:
+            self.slices.append(slice(len(functions), len(functions) + len(p.temperature_functions)))
+            functions += p.temperature_functions
+        # R T and zero as two more functions: the solutions' grid coefficients (`grid_coefficients`)
+        # are then picked out of the values by one index matrix
+        rt, zero = len(functions), len(functions) + 1
+        functions += [TemperatureFunction.constant_terms({"b": R}), TemperatureFunction.constant_terms({})]
+        self.functions = FunctionStack(tuple(functions))
+        order = max((len(p.binary_terms) for p in self.solutions), default=0)
+        self._grid_index = np.array(
+            [[cut.start, cut.start + 1, rt] + [cut.start + 2 + k if k < len(p.binary_terms) else zero for k in range(order)]
+             for p, cut in zip(self.solutions, self.slices)], dtype=np.intp).reshape(self.n_sol, 3 + order)
+
+    def at(self, T: float) -> tuple[list[SolutionAtT], list[float], np.ndarray]:
+        """Every solution at T (K), every compound's G (J/mol) and the solutions' grid
+        coefficients (rows of `SolutionAtT.grid_coefficients`), from one evaluation of the
+        stacked temperature functions."""
+        array = self.functions.values(T)
+        values = array.tolist()
+        cut = self.slices
+        solutions = [SolutionAtT(p, T, values[cut[k]]) for k, p in enumerate(self.solutions)]
+        n = self.n_sol
+        compounds = [c.gibbs_from_values(values[cut[n + k]]) for k, c in enumerate(self.compounds)]
+        return solutions, compounds, array[self._grid_index]
 
 
 def per_system(cache: weakref.WeakKeyDictionary, system, build: Callable):
@@ -108,11 +137,10 @@ class Section:
         phases = binary_phases(system)
         self.names: tuple[str, ...] = phases.names
         self.n_sol = phases.n_sol
-        self.solutions: list[SolutionAtT] = [p.at(self.T) for p in phases.solutions]
+        self.solutions, self.comp_g, coefficients = phases.at(self.T)
         self.compounds: tuple[CompoundPhase, ...] = phases.compounds
-        self.G = gibbs_on_grid(self.solutions, points)
+        self.G = gibbs_on_grid(self.solutions, points, coefficients)
         self.comp_x = phases.comp_x
-        self.comp_g = [c.gibbs(self.T) for c in self.compounds]
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
         coarse = self.G[:, ::HULL_STRIDE]
         #: The coarse envelope (x_B, x_A, G, phase) the hull is taken over, compounds not included.
@@ -126,7 +154,6 @@ class Section:
         #: nothing else, so it is not repeated for the next composition on the same tie-line.
         self._verified: set = set()
         self._index = phases.index
-        self._compound_dT: dict[int, float] = {}
         #: x_A x_B d2G/dx_B2 of every solution on the grid less any magnetic term, formed on
         #: first use (`_curvatures`).
         self._scaled_curvature: np.ndarray | None = None
@@ -277,12 +304,11 @@ class Section:
             self._ties[key] = tie
         return tie
 
-    def compound_gibbs_dT(self, k: int) -> float:
-        """dG/dT (J/(mol K)) of compound k at this temperature, computed once."""
-        found = self._compound_dT.get(k)
-        if found is None:
-            found = self._compound_dT[k] = self.compounds[k].gibbs_dT(self.T)
-        return found
+    def gibbs_dT(self, k: int, xa: float, xb: float) -> float:
+        """dG/dT (J/(mol K)) of phase k at (x_A, x_B) (a compound at its own composition)."""
+        if k < self.n_sol:
+            return float(self.solutions[k].gibbs_dT(xa, xb))
+        return self.compounds[k - self.n_sol].gibbs_dT(self.T)
 
     # --- driving forces -------------------------------------------------------------------------
     def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
@@ -383,9 +409,14 @@ class Section:
 
     def _curvature_stays_positive(self, s: int, lo: float, hi: float) -> bool:
         """Whether solution s (no magnetic term) has a scaled curvature of at least 0.05 RT at
-        every x_B in [lo, hi], by a bound: x_A x_B G'' = RT + x_A x_B sum_k L[k] t_k(x), and
-        |t_k| <= 2 (2k + 1) + k (k - 1) (|x_A - x_B| <= 1, x_A x_B <= 1/4)."""
-        bound = sum(abs(Lk) * (2 * (2 * k + 1) + k * (k - 1)) for k, Lk in enumerate(self.solutions[s].L))
+        every x_B in [lo, hi], by a bound: x_A x_B G'' = RT + x_A x_B sum_k L[k] t_k(x) with
+        t_0 = -2 and |t_k| <= 2 (2k + 1) + k (k - 1) (|x_A - x_B| <= 1, x_A x_B <= 1/4), so the
+        sum is at least -(2 L[0] + sum_{k>0} |L[k]| (2 (2k + 1) + k (k - 1))): a negative L[0]
+        (attraction) only adds curvature."""
+        L = self.solutions[s].L
+        bound = sum(abs(Lk) * (2 * (2 * k + 1) + k * (k - 1)) for k, Lk in enumerate(L) if k) + (2.0 * L[0] if L else 0.0)
+        if bound <= 0.0:
+            return True
         p_max = 0.25 if lo <= 0.5 <= hi else max(lo * (1.0 - lo), hi * (1.0 - hi))
         return p_max * bound <= 0.95 * self.RT
 

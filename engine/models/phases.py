@@ -118,6 +118,15 @@ class SolutionPhase:
         return SolutionAtT(self, T)
 
     @cached_property
+    def temperature_functions(self) -> tuple[TemperatureFunction, ...]:
+        """Every function of T that `at` evaluates, in the order `SolutionAtT` takes their values:
+        the two end members, the binary's Redlich-Kister series, then the magnetic term's Tc and
+        beta series where there is one."""
+        mag = self.magnetic
+        magnetic = () if mag is None else mag.curie_L.get(BINARY_PAIR, ()) + mag.moment_L.get(BINARY_PAIR, ())
+        return self.endmembers[:2] + self.binary_terms + magnetic
+
+    @cached_property
     def binary_terms(self) -> tuple[TemperatureFunction, ...]:
         """The Redlich-Kister series L[0], L[1], ... of the binary's element pair."""
         return self.interactions.get(BINARY_PAIR, ())
@@ -143,17 +152,22 @@ class SolutionAtT:
 
     __slots__ = ("phase", "T", "RT", "g0a", "g0b", "L", "curie_L", "moment_L", "_pure_curie", "_pure_moment", "_dT")
 
-    def __init__(self, phase: SolutionPhase, T: float) -> None:
+    def __init__(self, phase: SolutionPhase, T: float, values: list[float] | None = None) -> None:
+        """`values`: the phase's `temperature_functions` at T, in their order, where they were
+        evaluated together with other phases' (`FunctionStack`); else each is evaluated here."""
         self.phase = phase
         self.T = T
         self.RT = R * T
-        end_a, end_b = phase.endmembers
-        self.g0a, self.g0b = end_a.value(T), end_b.value(T)
-        self.L = [f.value(T) for f in phase.binary_terms]
+        if values is None:
+            values = [f.value(T) for f in phase.temperature_functions]
+        self.g0a, self.g0b = values[0], values[1]
+        n = 2 + len(phase.binary_terms)
+        self.L = values[2:n]
         mag = phase.magnetic
         if mag is not None:
-            self.curie_L = [f.value(T) for f in mag.curie_L.get(BINARY_PAIR, ())]
-            self.moment_L = [f.value(T) for f in mag.moment_L.get(BINARY_PAIR, ())]
+            m = n + len(mag.curie_L.get(BINARY_PAIR, ()))
+            self.curie_L = values[n:m]
+            self.moment_L = values[m:]
             # the pure elements' Tc and beta as Python floats: scalar Newton steps stay in floats
             self._pure_curie = tuple(float(v) for v in mag.curie_K[:2])
             self._pure_moment = tuple(float(v) for v in mag.moment[:2])
@@ -165,7 +179,7 @@ class SolutionAtT:
         (a plain attribute: most phases of a section never need them)."""
         if self._dT is None:
             T = self.T
-            end_a, end_b = self.phase.endmembers
+            end_a, end_b = self.phase.endmembers[:2]
             self._dT = ((end_a.derivative(T), end_b.derivative(T)), [f.derivative(T) for f in self.phase.binary_terms])
         return self._dT
 
@@ -367,22 +381,29 @@ class CompoundPhase:
     kind: str = field(default="compound", init=False)
 
     @cached_property
-    def _weighted_references(self) -> tuple[tuple[float, TemperatureFunction], ...]:
-        return tuple(zip(np.asarray(self.x, dtype=float).tolist(), self.references))
+    def temperature_functions(self) -> tuple[TemperatureFunction, ...]:
+        """The formation energy and each element's reference, in the order `gibbs_from_values` takes their values."""
+        return (self.formation, *self.references)
+
+    @cached_property
+    def _fractions(self) -> tuple[float, ...]:
+        return tuple(np.asarray(self.x, dtype=float).tolist())
+
+    def gibbs_from_values(self, values) -> float:
+        """G (J per mole of atoms), or dG/dT, from the values (or temperature derivatives) of
+        `temperature_functions` at one temperature, in their order."""
+        g = values[0]
+        for xi, v in zip(self._fractions, values[1:]):
+            g += xi * v
+        return g
 
     def gibbs(self, T: float) -> float:
         """Molar Gibbs energy (J per mole of atoms) at T (K)."""
-        g = self.formation.value(T)
-        for xi, f in self._weighted_references:
-            g += xi * f.value(T)
-        return g
+        return self.gibbs_from_values([f.value(T) for f in self.temperature_functions])
 
     def gibbs_dT(self, T: float) -> float:
         """dG/dT (J/(mol K)) at T (K)."""
-        d = self.formation.derivative(T)
-        for xi, f in self._weighted_references:
-            d += xi * f.derivative(T)
-        return d
+        return self.gibbs_from_values([f.derivative(T) for f in self.temperature_functions])
 
     def valid_range_K(self) -> tuple[float, float]:
         funcs = self.references + (self.formation,)

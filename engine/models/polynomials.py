@@ -2,6 +2,9 @@
 
 Each piece is  G(T) = a + b T + c T ln T + d T^2 + e T^3 + f / T + g T^7 + h / T^9 + i / T^2 + j / T^3
 (J/mol, T in K), valid from the previous piece's upper limit (or the first piece's lower limit) up to its own.
+
+`FunctionStack` evaluates many functions at one temperature together: one matrix product of their
+coefficients with the ten terms above (what a binary section needs at each new temperature).
 """
 
 from __future__ import annotations
@@ -134,3 +137,45 @@ class TemperatureFunction:
     def scaled(self, factor: float) -> "TemperatureFunction":
         """The function times `factor`, over the same pieces."""
         return TemperatureFunction(self.bounds, np.asarray(self.coefficients) * float(factor))
+
+
+def _terms(T: float) -> list[float]:
+    """The ten terms of a piece at T (K), in the order of COEFFICIENTS: 1, T, T ln T, T^2, T^3,
+    1/T, T^7, T^-9, T^-2, T^-3."""
+    inv = 1.0 / T
+    inv2 = inv * inv
+    T3 = T * T * T
+    return [1.0, T, T * math.log(T), T * T, T3, inv, T3 * T3 * T, inv2 * inv2 * inv2 * inv2 * inv, inv2, inv2 * inv]
+
+
+class FunctionStack:
+    """Several temperature functions evaluated together at one temperature: the rows of the
+    piece each function takes between neighbouring piece limits of any of them are stacked once,
+    so that every value at T is one matrix-vector product. Values agree with each function's
+    own `value` to rounding (the terms are summed in another order).
+    A temperature outside a function's range raises that function's TemperatureOutOfRange."""
+
+    def __init__(self, functions: tuple[TemperatureFunction, ...]) -> None:
+        self.functions = functions
+        self.lower_K = max((f.lower_K for f in functions), default=0.0)
+        self.upper_K = min((f.upper_K for f in functions), default=math.inf)
+        cuts = sorted({b for f in functions for b in f.bounds[1:-1] if self.lower_K < b < self.upper_K})
+        #: the upper limit of each interval between piece limits; T at a limit belongs to the
+        #: interval below it, as each function's own pieces do
+        self._uppers = cuts + [self.upper_K]
+        self._rows = []
+        lower = self.lower_K
+        for upper in self._uppers:
+            inside = upper if math.isfinite(upper) else lower + 1.0
+            self._rows.append(np.array([f._row(inside) for f in functions]).reshape(len(functions), len(COEFFICIENTS)))
+            lower = upper
+
+    def _piece_rows(self, T: float) -> np.ndarray:
+        if not (self.lower_K <= T <= self.upper_K) or T <= 0.0:
+            for f in self.functions:        # the first function out of range raises
+                f.value(T)
+        return self._rows[bisect_left(self._uppers, T) if len(self._rows) > 1 else 0]
+
+    def values(self, T: float) -> np.ndarray:
+        """Every function's value at T (K), J/mol, in the order of `functions`."""
+        return self._piece_rows(T) @ np.array(_terms(T))
