@@ -5,8 +5,10 @@ so that neither fraction loses digits near its pure element. Both ends are exact
 
 At a new temperature every solution phase's G on the grid is one matrix product: the phase's
 coefficients at T (`SolutionAtT.grid_coefficients`) times the grid's composition basis
-(`gibbs_basis`); a magnetic term is added on its own. The scaled curvature x_A x_B G'' (the sign
-of the spinodal) is formed the same way (`curvature_basis`).
+(`gibbs_basis`); a magnetic term is added on its own, its Tc and beta with their composition
+derivatives tabulated on the grid once per phase where they do not depend on temperature
+(`magnetic_shape_on_grid`). The scaled curvature x_A x_B G'' (the sign of the spinodal) is
+formed the same way (`curvature_basis`).
 """
 
 from __future__ import annotations
@@ -83,7 +85,7 @@ def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS, magnetic:
     for k, s in enumerate(solutions):
         if magnetic and s.phase.magnetic is not None:
             xa, xb = composition_grid(n)
-            C[k] += s.magnetic_scaled_curvature(xa, xb)
+            C[k] += s.magnetic_scaled_curvature(xa, xb, magnetic_shape_on_grid(s, n))
     return C
 
 
@@ -102,26 +104,34 @@ def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS, coefficients: np.nda
     return G
 
 
-#: Magnetic parameters on the grid of phases whose Tc and beta do not depend on temperature,
-#: by (id(phase), n); each entry keeps its phase, so that the id is not reused while it lives.
-_magnetic_parameters: dict[tuple[int, int], tuple[object, tuple[np.ndarray, ...]]] = {}
-_MAGNETIC_PARAMETERS_KEPT = 64
+#: The magnetic term's shape (`SolutionAtT.magnetic_shape`) on the grid of phases whose Tc and
+#: beta do not depend on temperature, by (id(phase), n); each entry keeps its phase, so that the
+#: id is not reused while it lives.
+_magnetic_shapes: dict[tuple[int, int], tuple[object, tuple[np.ndarray, ...]]] = {}
+_MAGNETIC_SHAPES_KEPT = 64
 
 
-def _magnetic_parameters_on_grid(s, n: int) -> tuple[np.ndarray, ...] | None:
-    """`SolutionAtT.magnetic_parameters` on the n-point grid, computed once per phase where they
-    do not depend on temperature; None where they do (computed with the term then)."""
+def magnetic_shape_on_grid(s, n: int) -> tuple[np.ndarray, ...] | None:
+    """`SolutionAtT.magnetic_shape` on the n-point grid, computed once per phase where it does
+    not depend on temperature; None where it does (computed with the term then)."""
     phase = s.phase
     if not phase.magnetic_parameters_constant:
         return None
     key = (id(phase), n)
-    found = _magnetic_parameters.get(key)
+    found = _magnetic_shapes.get(key)
     if found is not None and found[0] is phase:
         return found[1]
-    params = s.magnetic_parameters(*composition_grid(n))
-    for a in params:
+    shape = s.magnetic_shape(*composition_grid(n))
+    for a in shape:
         a.setflags(write=False)
-    if len(_magnetic_parameters) >= _MAGNETIC_PARAMETERS_KEPT:
-        _magnetic_parameters.clear()
-    _magnetic_parameters[key] = (phase, params)
-    return params
+    if len(_magnetic_shapes) >= _MAGNETIC_SHAPES_KEPT:
+        _magnetic_shapes.clear()
+    _magnetic_shapes[key] = (phase, shape)
+    return shape
+
+
+def _magnetic_parameters_on_grid(s, n: int) -> tuple[np.ndarray, ...] | None:
+    """`SolutionAtT.magnetic_parameters` on the n-point grid (active, Tc, ln(1 + beta)), from
+    the tabulated shape; None where they depend on temperature."""
+    shape = magnetic_shape_on_grid(s, n)
+    return None if shape is None else (shape[0], shape[1], shape[4])

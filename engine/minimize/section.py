@@ -20,7 +20,8 @@ from typing import Callable
 
 import numpy as np
 
-from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid, grid_list, scaled_curvature_on_grid
+from .grid import (DEFAULT_POINTS, composition_grid, gibbs_on_grid, grid_list, magnetic_shape_on_grid,
+                   scaled_curvature_on_grid)
 from .hull import lower_hull
 from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
 from ..models.polynomials import FunctionStack, TemperatureFunction
@@ -385,7 +386,8 @@ class Section:
         xb = self.xb[i0:i1]
         c = self._curvatures()[s, i0:i1]
         if sol.phase.magnetic is not None:
-            c = c + sol.magnetic_scaled_curvature(self.xa[i0:i1], xb)
+            shape = magnetic_shape_on_grid(sol, n)
+            c = c + sol.magnetic_scaled_curvature(self.xa[i0:i1], xb, None if shape is None else tuple(a[i0:i1] for a in shape))
         if float(c.min()) >= 0.05 * self.RT:        # no negative curvature, no minimum close to it
             return None
         neg = np.flatnonzero(c < 0)

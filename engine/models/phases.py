@@ -217,18 +217,28 @@ class SolutionAtT:
         g = self.RT * u * hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 0)[0]
         return where(active, g, 0.0 * g)
 
-    def magnetic_scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
-        """xA xB d2G/dx_B2 of the magnetic term alone (J/mol)."""
-        return xa * xb * self._magnetic(xa, xb)[2]
+    def magnetic_scaled_curvature(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None = None) -> np.ndarray:
+        """xA xB d2G/dx_B2 of the magnetic term alone (J/mol). `shape` may hold `magnetic_shape`
+        at these compositions, computed before."""
+        return xa * xb * self._magnetic(xa, xb, shape)[2]
 
-    def _magnetic(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
-        """(G, dG/dx, d2G/dx2) of the magnetic term along x_B (J/mol; arrays, or floats): what
-        chemical potentials and curvatures need, without the temperature derivatives."""
-        (tc1, tc2), (be, be1, be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, 2)
-        f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
-        u = _log(1.0 + be)
+    def magnetic_shape(self, xa: np.ndarray, xb: np.ndarray) -> tuple:
+        """(active, Tc, dTc/dx_B, d2Tc/dx_B2, ln(1 + beta), and its first two derivatives along
+        x_B) of the magnetic term at the compositions (K and Bohr magnetons; Tc is 1 where the
+        term is not active): all that its value and composition derivatives take besides the
+        temperature. They depend on temperature only where the phase's
+        `magnetic_parameters_constant` is False."""
+        (tc1, tc2), (be, be1, be2), active, tc_safe, _tau = self._curie_and_moment(xa, xb, 2)
         u1 = be1 / (1.0 + be)
-        u2 = be2 / (1.0 + be) - u1 * u1
+        return active, tc_safe, tc1, tc2, _log(1.0 + be), u1, be2 / (1.0 + be) - u1 * u1
+
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None = None) -> tuple[np.ndarray, ...]:
+        """(G, dG/dx, d2G/dx2) of the magnetic term along x_B (J/mol; arrays, or floats): what
+        chemical potentials and curvatures need, without the temperature derivatives. `shape`
+        may hold `magnetic_shape` at these compositions, computed before."""
+        active, tc_safe, tc1, tc2, u, u1, u2 = self.magnetic_shape(xa, xb) if shape is None else shape
+        tau = where(active, self.T / tc_safe, 1e9)
+        f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
         tau1 = -tau * tc1 / tc_safe
         tau2 = -tau * tc2 / tc_safe + 2.0 * tau * (tc1 / tc_safe) ** 2
         RT = self.RT
