@@ -77,8 +77,9 @@ class AlloyPath:
     notes: tuple[str, ...] = ()
 
     def state_at(self, T: float, below: bool = False) -> AlloyStep:
-        """The state at T (K), interpolated linearly between the path's steps; at a plateau
-        temperature the state before the plateau, or after it with `below`."""
+        """The state at T (K), interpolated between the path's steps by monotone cubic pieces
+        (_between); at a plateau temperature the state before the plateau, or after it with
+        `below`."""
         steps = self.steps
         if T > steps[0].temperature_K + SAME_K:
             return AlloyStep(T, 0.0, 0.0, tuple(self.x), (LIQUID,))
@@ -90,13 +91,9 @@ class AlloyPath:
             s = steps[-1]
             return AlloyStep(T, s.fraction_solid, s.fraction_solid_mol, s.liquid_x, s.phases, s.latent_heat_J_per_g)
         k = next(i for i in range(1, len(steps)) if steps[i].temperature_K < T)
-        a, b = steps[k - 1], steps[k]
-        t = (a.temperature_K - T) / (a.temperature_K - b.temperature_K)
-        liquid = None if a.liquid_x is None or b.liquid_x is None else \
-            tuple((1.0 - t) * np.asarray(a.liquid_x) + t * np.asarray(b.liquid_x))
-        return AlloyStep(T, (1.0 - t) * a.fraction_solid + t * b.fraction_solid,
-                         (1.0 - t) * a.fraction_solid_mol + t * b.fraction_solid_mol, liquid, b.phases,
-                         (1.0 - t) * a.latent_heat_J_per_g + t * b.latent_heat_J_per_g)
+        v = _between(steps, k, T)
+        liquid = None if steps[k - 1].liquid_x is None or steps[k].liquid_x is None else tuple(float(u) for u in v[3:])
+        return AlloyStep(T, float(v[0]), float(v[1]), liquid, steps[k].phases, float(v[2]))
 
     def to_json(self) -> dict:
         """The path as plain JSON types: the keys of the binary paths, with one entry per element
@@ -145,6 +142,70 @@ def solid_enthalpy(system, shares, x_solid, T: float) -> float:
     b = np.concatenate([np.asarray(x_solid, dtype=float), [1.0]])
     weights = np.linalg.lstsq(A, b, rcond=None)[0]
     return float(sum(w * phase_enthalpy(system, p, T) for w, p in zip(weights, shares)))
+
+
+def _values(step: AlloyStep) -> np.ndarray:
+    """What state_at interpolates: fraction solid (mass, moles), heat, the liquid's mole fractions."""
+    liquid = () if step.liquid_x is None else step.liquid_x
+    return np.array([step.fraction_solid, step.fraction_solid_mol, step.latent_heat_J_per_g, *liquid])
+
+
+def _between(steps, k: int, T: float) -> np.ndarray:
+    """_values at T (K) between steps[k - 1] and steps[k]: the cubic Hermite piece whose slopes
+    at both ends are the monotone ones of F.N. Fritsch and J. Butland, SIAM J. Sci. Stat.
+    Comput. 5 (1984) 300 (the weighted harmonic mean of the neighbouring secants, zero where
+    they differ in sign), taken from the neighbours in the same stage only (same phases, no
+    plateau between); at a stage's end, the three-point end slope of the same method, or the
+    secant where the stage has only this piece. The Scheil path's steps are several K long
+    where its error allows: a straight line between them would misplace the fraction solid
+    by up to half a percent."""
+    a, b = steps[k - 1], steps[k]
+    va, vb = _values(a), _values(b)
+    if va.shape != vb.shape:
+        t = (a.temperature_K - T) / (a.temperature_K - b.temperature_K)
+        return (1.0 - t) * va[:3] + t * vb[:3]
+
+    def same_stage(i: int) -> bool:
+        """Whether steps i and i + 1 bound a piece of the stage of steps k - 1 to k."""
+        if i < 0 or i + 1 >= len(steps):
+            return False
+        p, q = steps[i], steps[i + 1]
+        return (q.phases == b.phases and p.temperature_K > q.temperature_K
+                and (p.liquid_x is None) == (a.liquid_x is None) and (q.liquid_x is None) == (a.liquid_x is None))
+
+    def secant(i: int) -> tuple[float, np.ndarray]:
+        p, q = steps[i], steps[i + 1]
+        h = q.temperature_K - p.temperature_K
+        return h, (_values(q) - _values(p)) / h
+
+    h, d = secant(k - 1)
+    before = secant(k - 2) if same_stage(k - 2) else None
+    after = secant(k) if same_stage(k) else None
+    m_a = _inner_slope(before, (h, d)) if before else (_end_slope((h, d), after) if after else d)
+    m_b = _inner_slope((h, d), after) if after else (_end_slope((h, d), before) if before else d)
+    s = (T - a.temperature_K) / h
+    return ((1.0 + 2.0 * s) * (1.0 - s) ** 2 * va + s * (1.0 - s) ** 2 * h * m_a
+            + s * s * (3.0 - 2.0 * s) * vb + s * s * (s - 1.0) * h * m_b)
+
+
+def _inner_slope(left: tuple[float, np.ndarray], right: tuple[float, np.ndarray]) -> np.ndarray:
+    """The slope at the node between two pieces (length, secant): the weighted harmonic mean of
+    their secants (Fritsch and Butland 1984), zero where they differ in sign or one is zero."""
+    (h1, d1), (h2, d2) = left, right
+    w1, w2 = 2.0 * abs(h2) + abs(h1), abs(h2) + 2.0 * abs(h1)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        mean = (w1 + w2) / (w1 / d1 + w2 / d2)
+    return np.where(d1 * d2 > 0.0, mean, 0.0)
+
+
+def _end_slope(piece: tuple[float, np.ndarray], other: tuple[float, np.ndarray]) -> np.ndarray:
+    """The slope at a stage's end node of `piece` (length, secant), `other` being the next piece
+    inward: the three-point formula, kept of the piece's sign and within three times its secant
+    where the secants differ in sign (the end condition of Fritsch and Butland's method)."""
+    (h0, d0), (h1, d1) = piece, other
+    m = ((2.0 * abs(h0) + abs(h1)) * d0 - abs(h0) * d1) / (abs(h0) + abs(h1))
+    m = np.where(m * d0 <= 0.0, 0.0, m)
+    return np.where((d0 * d1 < 0.0) & (np.abs(m) > 3.0 * np.abs(d0)), 3.0 * d0, m)
 
 
 def molar_mass(system, x) -> float:
