@@ -11,12 +11,22 @@ with the liquid at its end, found by a point equilibrium of the composition
 z* = (f_L x_L - D/2 x_S,start) / (f_L - D/2) at T - h, with D (the step's solid) solved from the
 linear dependence of that equilibrium's solid amount on D (two point equilibria: D = 0, which
 is the first-order step, and D from it; the liquid at the solved D is interpolated between
-them, linear in D as the lever rule is). The difference between the first-order and the
-trapezoid step is the step's error estimate and sets the next step. Mass balance is exact at
-every step: the solid of a step is what leaves the liquid.
+them, linear in D as the lever rule is). Where one solid forms, from a stage's second step on,
+the solid of the step is then taken from the quadratic through the solid's compositions at the
+step's end, at its start and at the previous step's start (in the amount frozen: the
+Adams-Moulton formula of order three for unequal steps, E. Hairer, S.P. Norsett, G. Wanner,
+Solving Ordinary Differential Equations I, 2nd ed., Springer (1993), section III.5), the liquid
+taking the difference; that difference, the trapezoid step's own error, sets the next step
+(with a local error of order h^4, steps of a few K reach the accuracy for which the trapezoid
+needed steps under 1 K), and the step's heat is weighted the same way. Elsewhere (a stage's
+first step; several solids forming together, whose mean composition in the liquid's
+equilibrium is not what forms) the step is the trapezoid step, and its difference from the
+first-order step sets the next. Mass balance is exact at every step: the solid of a step is
+what leaves the liquid.
 
 Where the stable phases of the liquid's equilibrium change (a new solid starts to form, one
-stops, or no liquid is left), the change is narrowed to EVENT_TOLERANCE_K
+stops, or no liquid is left) within a step, the step is halved until it is at most EVENT_STEP_K
+long, and the change is then narrowed to EVENT_TOLERANCE_K
 (engine/diagrams/phase_change.py). Freezing ends where
 the liquid freezes at once into several solids (an invariant reaction: `eutectic` with two,
 `ternary eutectic` with three, ...), where it freezes into one solid (`last liquid`), at the
@@ -43,9 +53,16 @@ from .records import Arrest, PathError
 
 #: Phase changes are bracketed to this width (K).
 EVENT_TOLERANCE_K = 1e-7
-#: Target of the first-order step's local deviation from the trapezoid step (mole fraction).
+#: Target of the first-order step's local deviation from the trapezoid step (mole fraction), for a
+#: stage's first step.
 STEP_TOLERANCE = 2e-4
+#: Target of the trapezoid step's local deviation from the third-order step (mole fraction in the
+#: liquid), for every later step.
+THIRD_ORDER_TOLERANCE = 3e-5
 _FIRST_STEP_K = 2.0
+#: A change of the liquid's phases is narrowed inside a step of at most this many K; longer steps
+#: that meet one are halved first (the change is placed for the liquid at the step's start).
+EVENT_STEP_K = 4.0
 _MAX_STEP_K = 20.0
 _MIN_STEP_K = 1e-5
 _LIQUID_SEARCH_STEP_K = 50.0
@@ -93,9 +110,14 @@ def _blend_x(blend) -> np.ndarray:
 class _State:
     """The liquid at T (K): f_L moles of atoms per mole of alloy; the liquid as a blend of phase
     shares of point equilibria ((weight, share), weights summing to 1: one share, or two where a
-    step interpolates between two equilibria); the solids forming with it (shares, None before
-    a stage's first step), the phase set of the liquid's equilibrium and a point equilibrium
-    near T with that phase set (where the next step's minimiser starts)."""
+    step interpolates between two equilibria), less `shift` (mole fractions: the third-order
+    step's correction, None for none); the solids forming with it (shares, None before a
+    stage's first step), the phase set of the liquid's equilibrium and a point equilibrium near
+    T with that phase set (where the next step's minimiser starts). Within a stage after its
+    first step: `solid_x`, the mole fractions of the solid forming at T (interpolated as the
+    liquid is), and `behind`, (the moles of solid of the step that ended at T, the mole
+    fractions of the solid forming at that step's start, the temperature there in K, the solids
+    forming there)."""
 
     T: float
     f_L: float
@@ -103,10 +125,14 @@ class _State:
     forming: list | None
     key: tuple[str, ...]
     eq: object
+    shift: np.ndarray | None = None
+    solid_x: np.ndarray | None = None
+    behind: tuple[float, np.ndarray, float, list] | None = None
 
     @property
     def x_L(self) -> np.ndarray:
-        return _blend_x(self.liquid)
+        x = _blend_x(self.liquid)
+        return x if self.shift is None else x - self.shift
 
     def liquid_enthalpy(self, system, T: float) -> float:
         """The liquid's enthalpy (J per mole of atoms) at T (K), blended as its composition."""
@@ -127,6 +153,17 @@ class _Stage:
         self.mol += moles
         self.elements = moles * x if self.elements is None else self.elements + moles * x
         self.mass += mass
+
+
+def _third_order_weights(h1: float, h2: float) -> tuple[float, float, float]:
+    """The weights (before, start, end) that give the mean over a step of a quantity of the solid
+    forming (its mole fractions, the temperature it forms at) from the quadratic through three
+    nodes spaced h1 (the previous step) and h2 (this step) in moles frozen: the three-node
+    Adams-Moulton formula for unequal steps (Hairer, Norsett and Wanner 1993, section III.5),
+    -1/12, 8/12, 5/12 for equal steps. The trapezoid's are (0, 1/2, 1/2)."""
+    w_end = (2.0 * h2 + 3.0 * h1) / (6.0 * (h1 + h2))
+    w_before = -h2 * h2 / (6.0 * h1 * (h1 + h2))
+    return w_before, 1.0 - w_end - w_before, w_end
 
 
 class AlloyScheil:
@@ -184,20 +221,26 @@ class AlloyScheil:
         self.liquidus_K = state.T
         self._change(state, below)
         h = _FIRST_STEP_K
+        change_below = None         # a temperature (K) above which the liquid's phases are known to change
         for _ in range(_MAX_STEPS):
             if state.f_L <= LAST_LIQUID or self.end_K is not None or self.left_range:
                 break
+            if change_below is not None:
+                h = min(h, state.T - change_below)
             if state.T - h < lo:
                 h = state.T - lo
                 if h <= EVENT_TOLERANCE_K:
                     break
             step = self._step(state, h)
             if step is None:                              # the phase set changes within the step
+                if h > EVENT_STEP_K:
+                    change_below, h = state.T - h, 0.5 * h
+                    continue
                 state = self._event(state, h)
-                h = _FIRST_STEP_K
+                change_below, h = None, _FIRST_STEP_K
                 continue
-            new, error = step
-            if error > 4.0 * STEP_TOLERANCE and h > _MIN_STEP_K:
+            new, error, order = step
+            if error > 4.0 and h > _MIN_STEP_K:
                 h *= 0.3
                 continue
             if not self.system.covered(new.x_L):
@@ -208,7 +251,9 @@ class AlloyScheil:
                 continue
             self._accept(state, new, h)
             state = new
-            h = min(_MAX_STEP_K, max(_MIN_STEP_K, h * min(2.0, max(0.3, 0.9 * np.sqrt(STEP_TOLERANCE / max(error, 1e-30))))))
+            if change_below is not None and state.T - change_below <= EVENT_TOLERANCE_K:
+                change_below = None     # the liquid moved on: where its phases change is not known
+            h = min(_MAX_STEP_K, max(_MIN_STEP_K, h * min(2.0, max(0.3, 0.9 * max(error, 1e-30) ** (-1.0 / order)))))
         else:
             raise PathError("the Scheil path did not reach the end of freezing in its step limit")
         if self.end_K is None and state.f_L <= LAST_LIQUID:
@@ -236,14 +281,16 @@ class AlloyScheil:
         return _State(T_hot, 1.0, ((1.0, _split(hot)[0]),), None, (LIQUID,), hot), below
 
     def _step(self, state: _State, h: float):
-        """(the state h K lower, the step's error estimate), or None where the phase set changes."""
+        """(the state h K lower, its error estimate as a share of its tolerance, the power of h
+        the estimate grows with), or None where the phase set changes."""
         T1 = state.T - h
         x_L, f_L = state.x_L, state.f_L
         first = self._eq(T1, x_L, near=state.eq)
         if phase_set(first) != state.key:
             return None
         d0 = f_L * _solid_amount(first)
-        x_start = _mean_x(state.forming if state.forming else _split(first)[1])
+        start = state.forming if state.forming else _split(first)[1]
+        x_start = state.solid_x if state.solid_x is not None else _mean_x(start)
 
         def trapezoid(d: float):
             """The equilibrium at T1 of the liquid less half the step's solid d at the step's
@@ -258,7 +305,6 @@ class AlloyScheil:
         first_liquid, first_solids = _split(first)
         f_first = f_L * (1.0 - _solid_amount(first))
         guess = trapezoid(d0) if d0 > 0.0 else None
-        blend, f_new, solids, end = ((1.0, first_liquid),), f_first, first_solids, first
         if guess is not None:
             eq, m = guess
             s1 = m * _solid_amount(eq)
@@ -267,9 +313,21 @@ class AlloyScheil:
             t = d / d0
             trial = ((1.0 - t, first_liquid), (t, _split(eq)[0]))
             if 0.0 < t < 2.0 and np.all(_blend_x(trial) >= 0.0):
-                blend, f_new, solids, end = trial, f_L - d, _split(eq)[1], eq
-        error = abs(f_new - f_first) + float(np.max(np.abs(_blend_x(blend) - np.asarray(first_liquid.x))))
-        return _State(T1, f_new, blend, solids, state.key, end), error
+                new = _State(T1, f_L - d, trial, _split(eq)[1], state.key, eq)
+                if len(first_solids) == 1:      # one solid: its composition is smooth in the amount frozen
+                    new.solid_x = (1.0 - t) * _mean_x(first_solids) + t * _mean_x(new.forming)
+                    new.behind = (d, x_start, state.T, start)
+                    if state.behind is not None:
+                        w_before, w_start, w_end = _third_order_weights(state.behind[0], d)
+                        excess = w_before * state.behind[1] + (w_start - 0.5) * x_start + (w_end - 0.5) * new.solid_x
+                        new.shift = d * excess / new.f_L
+                        if np.all(new.x_L >= 0.0):
+                            return new, float(np.max(np.abs(new.shift))) / THIRD_ORDER_TOLERANCE, 3
+                        new.shift = None
+                        return new, np.inf, 3
+                error = abs(d - d0) + float(np.max(np.abs(_blend_x(trial) - np.asarray(first_liquid.x))))
+                return new, error / STEP_TOLERANCE, 2
+        return _State(T1, f_first, ((1.0, first_liquid),), first_solids, state.key, first), 0.0, 2
 
     def _accept(self, old: _State, new: _State, h: float) -> None:
         """Book the solid of one step: its stage, its mass and the heat released."""
@@ -281,10 +339,17 @@ class AlloyScheil:
         x_solid = (old.f_L * old.x_L - new.f_L * new.x_L) / d
         mass = old.f_L * molar_mass(system, old.x_L) - new.f_L * molar_mass(system, new.x_L)
         self.current.add(d, x_solid, mass)
-        T_mid = old.T - 0.5 * h
         start = old.forming if old.forming else new.forming
-        h_solid = 0.5 * (solid_enthalpy(system, start, x_solid, T_mid)
-                         + solid_enthalpy(system, new.forming, x_solid, T_mid))
+        if new.shift is None:                   # the trapezoid: half the solid as at either end
+            T_mid = old.T - 0.5 * h
+            h_solid = 0.5 * (solid_enthalpy(system, start, x_solid, T_mid)
+                             + solid_enthalpy(system, new.forming, x_solid, T_mid))
+        else:                                   # weighted as the third-order step weighs the solid
+            w_before, w_start, w_end = _third_order_weights(old.behind[0], d)
+            T_mid = w_before * old.behind[2] + w_start * old.T + w_end * new.T
+            h_solid = (w_before * solid_enthalpy(system, old.behind[3], x_solid, T_mid)
+                       + w_start * solid_enthalpy(system, start, x_solid, T_mid)
+                       + w_end * solid_enthalpy(system, new.forming, x_solid, T_mid))
         self.heat += (old.f_L * old.liquid_enthalpy(system, T_mid) - new.f_L * new.liquid_enthalpy(system, T_mid)
                       - d * h_solid)
         self._record(new)
@@ -301,8 +366,11 @@ class AlloyScheil:
                 self.left_range = True           # the main loop narrows where the liquid leaves the range
                 return state
             if step is not None:
-                self._accept(state, step[0], lo)
-                state = step[0]
+                new, error, order = step
+                if order == 3 and error > 4.0:        # the correction is not to be trusted this close
+                    new.shift = None
+                self._accept(state, new, lo)
+                state = new
         self._change(state, below)
         return state
 
@@ -331,6 +399,7 @@ class AlloyScheil:
             self.arrests.append(Arrest(T, "new phase", f"{kind}: {', '.join(what) or 'the solids change'}"))
         self._start_stage(f"{kind} {' + '.join(names)}")
         state.key, state.forming, state.eq = phase_set(below), solids, below
+        state.solid_x, state.behind = None, None
 
     def _start_stage(self, name: str) -> None:
         """Solid formed from now on belongs to the constituent `name` (one per name)."""
