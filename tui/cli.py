@@ -16,6 +16,7 @@ import sys
 from .blas_threads import limit_blas_threads
 from .errors import report
 from .quote import one_line
+from .standard_streams import guard_closed_streams, tolerate_narrow_terminal
 
 #: Subcommand name -> module under ladle.tui.commands.
 COMMANDS = {
@@ -105,11 +106,13 @@ def _attach_negative_values(argv: list[str]) -> list[str]:
 
 def main(argv: list[str] | None = None) -> int:
     limit_blas_threads(os.environ)
+    guard_closed_streams()
     argv = _attach_negative_values(sys.argv[1:] if argv is None else argv)
     if _opens_explorer(argv):
         from .explorer import run as run_explorer
 
         return run_explorer(argv)
+    tolerate_narrow_terminal()
     parser, modules = build_parser(argv[0] if argv else None)
     with report("ladle"):          # --help into a closed pipe: status 1, as every command
         args = parser.parse_args(argv)

@@ -150,3 +150,43 @@ def test_a_path_with_a_newline_is_one_line_and_a_huge_argument_is_shortened(user
     escape = _ladle("melt", "\x1b]0;pwned\x07\x1b[2J.toml", "--comp", "Sn=10wt%", env=user_env)
     _one_line(escape)
     assert "\x1b" not in escape.stderr and "\x07" not in escape.stderr
+
+
+def _with_closed(fd: int, *args: str, env: dict) -> subprocess.CompletedProcess:
+    """Run `ladle ARGS` with descriptor `fd` closed, as `ladle ARGS >&-` (1), `2>&-` (2) or
+    `<&-` (0) does; the other two streams are pipes (stdout, stderr) or the null device."""
+    streams = {0: subprocess.DEVNULL, 1: subprocess.PIPE, 2: subprocess.PIPE}
+    return subprocess.run([sys.executable, "-m", "ladle.tui.cli", *args], text=True, timeout=120,
+                          stdin=streams[0], stdout=streams[1], stderr=streams[2],
+                          env={**os.environ, **env}, preexec_fn=lambda: os.close(fd))
+
+
+@pytest.mark.parametrize("args", [("systems",), ("--help",), ("point", "pb-sn", "--temp", "200C", "--comp", "Sn=30wt%")])
+def test_a_closed_standard_output_is_one_line_and_status_2(args, user_env):
+    run = _with_closed(1, *args, env=user_env)
+    _one_line(run, "standard output: Bad file descriptor")
+
+
+def test_a_closed_standard_output_does_not_stop_a_run_that_writes_a_file(tmp_path, user_env):
+    out = tmp_path / "results.csv"
+    run = _with_closed(1, "batch", "al-si", str(HEATS), "--melt-only", "-o", str(out), env=user_env)
+    assert "Traceback" not in run.stderr and "Bad file descriptor" not in run.stderr, run.stderr
+    assert out.read_text().startswith("heat,furnace,Si wt%,liquidus_C,")
+
+
+def test_a_closed_standard_error_keeps_messages_out_of_standard_output(user_env):
+    run = _with_closed(2, "point", "pb-sn", "--temp", "200C", "--comp", "Sn=300wt%", env=user_env)
+    assert (run.returncode, run.stdout) == (2, "")
+
+
+def test_the_explorer_with_a_closed_standard_input_is_refused_in_one_line(user_env):
+    _one_line(_with_closed(0, "pb-sn", env=user_env), "needs a terminal")
+
+
+def test_a_terminal_that_is_not_utf8_gets_question_marks_for_what_it_cannot_show(tmp_path, user_env):
+    mine = tmp_path / "pb-sn-mine.toml"
+    text = (SHIPPED / "pb-sn.toml").read_text(encoding="utf-8")
+    mine.write_text(text.replace('title = "', 'title = "Blei\u2013Zinn, ', 1), encoding="utf-8")
+    run = _ladle("point", str(mine), "--temp", "200C", "--comp", "Sn=30wt%", env={**user_env, "PYTHONIOENCODING": "ascii"})
+    assert (run.returncode, run.stderr) == (0, "")
+    assert run.stdout.startswith("Blei?Zinn, ")
