@@ -95,17 +95,18 @@ class BinaryPhases:
             [[cut.start, cut.start + 1, rt] + [cut.start + 2 + k if k < len(p.binary_terms) else zero for k in range(order)]
              for p, cut in zip(self.solutions, self.slices)], dtype=np.intp).reshape(self.n_sol, 3 + order)
 
-    def at(self, T: float) -> tuple[list[SolutionAtT], list[float], np.ndarray]:
-        """Every solution at T (K), every compound's G (J/mol) and the solutions' grid
-        coefficients (rows of `SolutionAtT.grid_coefficients`), from one evaluation of the
-        stacked temperature functions."""
-        array = self.functions.values(T)
-        values = array.tolist()
+    def at(self, T: float) -> tuple[list[SolutionAtT], list[float], list[float], np.ndarray]:
+        """Every solution at T (K), every compound's G (J/mol) and dG/dT (J/(mol K)) and the
+        solutions' grid coefficients (rows of `SolutionAtT.grid_coefficients`), from one
+        evaluation of the stacked temperature functions and their derivatives."""
+        both = self.functions.values_and_derivatives(T)
+        values, derivatives = both.tolist()
         cut = self.slices
-        solutions = [SolutionAtT(p, T, values[cut[k]]) for k, p in enumerate(self.solutions)]
+        solutions = [SolutionAtT(p, T, values[cut[k]], derivatives[cut[k]]) for k, p in enumerate(self.solutions)]
         n = self.n_sol
-        compounds = [c.gibbs_from_values(values[cut[n + k]]) for k, c in enumerate(self.compounds)]
-        return solutions, compounds, array[self._grid_index]
+        compounds = [(c.gibbs_from_values(values[cut[n + k]]), c.gibbs_from_values(derivatives[cut[n + k]]))
+                     for k, c in enumerate(self.compounds)]
+        return solutions, [g for g, _d in compounds], [d for _g, d in compounds], both[0][self._grid_index]
 
 
 def per_system(cache: weakref.WeakKeyDictionary, system, build: Callable):
@@ -138,7 +139,7 @@ class Section:
         phases = binary_phases(system)
         self.names: tuple[str, ...] = phases.names
         self.n_sol = phases.n_sol
-        self.solutions, self.comp_g, coefficients = phases.at(self.T)
+        self.solutions, self.comp_g, self._comp_dT, coefficients = phases.at(self.T)
         self.compounds: tuple[CompoundPhase, ...] = phases.compounds
         self.G = gibbs_on_grid(self.solutions, points, coefficients)
         self.comp_x = phases.comp_x
@@ -309,7 +310,7 @@ class Section:
         """dG/dT (J/(mol K)) of phase k at (x_A, x_B) (a compound at its own composition)."""
         if k < self.n_sol:
             return float(self.solutions[k].gibbs_dT(xa, xb))
-        return self.compounds[k - self.n_sol].gibbs_dT(self.T)
+        return self._comp_dT[k - self.n_sol]
 
     # --- driving forces -------------------------------------------------------------------------
     def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
@@ -529,7 +530,7 @@ class Section:
             return self._pure_state(0 if xb0 <= 0.0 else 1)
         state = self._fast_state(xa0, xb0)
         if state is not None and state.mu[0] is not None:
-            touching = tuple((self._index[name], x[1]) for name, x, _amount in state.phases)
+            touching = tuple([(self._index[name], x[1]) for name, x, _amount in state.phases])
             if len(touching) == 2 and (touching, state.mu) in self._verified:
                 return state                    # this tie-line passed the check before
             if not self.violations(state.mu, touching):
@@ -563,7 +564,7 @@ class Section:
         f2 = (xb0 - xb1) / width
         f1 = (xb2 - xb0) / width
         g = tie.mu[0] * xa0 + tie.mu[1] * xb0
-        shares = tuple((name, x, f) for name, x, f in zip(tie.phases, tie.x, (f1, f2)) if f > 0.0)
+        shares = tuple([(name, x, f) for name, x, f in zip(tie.phases, tie.x, (f1, f2)) if f > 0.0])
         return LocalState(shares, tie.mu, g, tie.converged)
 
     def _fast_state(self, xa0: float, xb0: float) -> LocalState | None:

@@ -152,9 +152,11 @@ class SolutionAtT:
 
     __slots__ = ("phase", "T", "RT", "g0a", "g0b", "L", "curie_L", "moment_L", "_pure_curie", "_pure_moment", "_dT")
 
-    def __init__(self, phase: SolutionPhase, T: float, values: list[float] | None = None) -> None:
-        """`values`: the phase's `temperature_functions` at T, in their order, where they were
-        evaluated together with other phases' (`FunctionStack`); else each is evaluated here."""
+    def __init__(self, phase: SolutionPhase, T: float, values: list[float] | None = None,
+                 derivatives: list[float] | None = None) -> None:
+        """`values` and `derivatives`: the phase's `temperature_functions` and their dG/dT at T,
+        in their order, where they were evaluated together with other phases' (`FunctionStack`);
+        else each is evaluated here (the derivatives on first use)."""
         self.phase = phase
         self.T = T
         self.RT = R * T
@@ -171,7 +173,8 @@ class SolutionAtT:
             # the pure elements' Tc and beta as Python floats: scalar Newton steps stay in floats
             self._pure_curie = tuple(float(v) for v in mag.curie_K[:2])
             self._pure_moment = tuple(float(v) for v in mag.moment[:2])
-        self._dT: tuple[tuple[float, float], list[float]] | None = None
+        self._dT: tuple[tuple[float, float], list[float]] | None = (
+            None if derivatives is None else ((derivatives[0], derivatives[1]), derivatives[2:n]))
 
     @property
     def _temperature_derivatives(self) -> tuple[tuple[float, float], list[float]]:
@@ -220,7 +223,8 @@ class SolutionAtT:
     def magnetic_scaled_curvature(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None = None) -> np.ndarray:
         """xA xB d2G/dx_B2 of the magnetic term alone (J/mol). `shape` may hold `magnetic_shape`
         at these compositions, computed before."""
-        return xa * xb * self._magnetic(xa, xb, shape)[2]
+        active, _u, _u1, _f, _f1, _tau1, g2 = self._magnetic_pieces(xa, xb, shape)
+        return xa * xb * where(active, g2, 0.0 * g2)
 
     def magnetic_shape(self, xa: np.ndarray, xb: np.ndarray) -> tuple:
         """(active, Tc, dTc/dx_B, d2Tc/dx_B2, ln(1 + beta), and its first two derivatives along
@@ -232,19 +236,25 @@ class SolutionAtT:
         u1 = be1 / (1.0 + be)
         return active, tc_safe, tc1, tc2, _log(1.0 + be), u1, be2 / (1.0 + be) - u1 * u1
 
-    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None = None) -> tuple[np.ndarray, ...]:
-        """(G, dG/dx, d2G/dx2) of the magnetic term along x_B (J/mol; arrays, or floats): what
-        chemical potentials and curvatures need, without the temperature derivatives. `shape`
-        may hold `magnetic_shape` at these compositions, computed before."""
+    def _magnetic_pieces(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None) -> tuple:
+        """(active, ln(1 + beta), its x_B derivative, f(tau), f'(tau), dtau/dx_B, d2G/dx_B2 where
+        active) of the magnetic term: what its value and derivatives are formed from."""
         active, tc_safe, tc1, tc2, u, u1, u2 = self.magnetic_shape(xa, xb) if shape is None else shape
         tau = where(active, self.T / tc_safe, 1e9)
         f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
         tau1 = -tau * tc1 / tc_safe
         tau2 = -tau * tc2 / tc_safe + 2.0 * tau * (tc1 / tc_safe) ** 2
+        g2 = self.RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
+        return active, u, u1, f, f1, tau1, g2
+
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None = None) -> tuple[np.ndarray, ...]:
+        """(G, dG/dx, d2G/dx2) of the magnetic term along x_B (J/mol; arrays, or floats): what
+        chemical potentials and curvatures need, without the temperature derivatives. `shape`
+        may hold `magnetic_shape` at these compositions, computed before."""
+        active, u, u1, f, f1, tau1, g2 = self._magnetic_pieces(xa, xb, shape)
         RT = self.RT
         g = RT * u * f
         g1 = RT * (u1 * f + u * f1 * tau1)
-        g2 = RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
         return tuple(where(active, v, 0.0 * v) for v in (g, g1, g2))
 
     def _magnetic_dT(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, np.ndarray]:

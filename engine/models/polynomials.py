@@ -148,11 +148,20 @@ def _terms(T: float) -> list[float]:
     return [1.0, T, T * math.log(T), T * T, T3, inv, T3 * T3 * T, inv2 * inv2 * inv2 * inv2 * inv, inv2, inv2 * inv]
 
 
+def _terms_dT(T: float) -> list[float]:
+    """The temperature derivatives (per K) of the ten terms of `_terms`."""
+    inv = 1.0 / T
+    inv2 = inv * inv
+    T2 = T * T
+    return [0.0, 1.0, math.log(T) + 1.0, 2.0 * T, 3.0 * T2, -inv2, 7.0 * T2 * T2 * T2,
+            -9.0 * inv2 * inv2 * inv2 * inv2 * inv2, -2.0 * inv2 * inv, -3.0 * inv2 * inv2]
+
+
 class FunctionStack:
     """Several temperature functions evaluated together at one temperature: the rows of the
     piece each function takes between neighbouring piece limits of any of them are stacked once,
-    so that every value at T is one matrix-vector product. Values agree with each function's
-    own `value` to rounding (the terms are summed in another order).
+    so that every value and dG/dT at T is one matrix product. They agree with each function's
+    own `value` and `derivative` to rounding (the terms are summed in another order).
     A temperature outside a function's range raises that function's TemperatureOutOfRange."""
 
     def __init__(self, functions: tuple[TemperatureFunction, ...]) -> None:
@@ -176,6 +185,7 @@ class FunctionStack:
                 f.value(T)
         return self._rows[bisect_left(self._uppers, T) if len(self._rows) > 1 else 0]
 
-    def values(self, T: float) -> np.ndarray:
-        """Every function's value at T (K), J/mol, in the order of `functions`."""
-        return self._piece_rows(T) @ np.array(_terms(T))
+    def values_and_derivatives(self, T: float) -> np.ndarray:
+        """(2, functions): every function's value (J/mol) and dG/dT (J/(mol K)) at T (K), in the
+        order of `functions`."""
+        return np.array((_terms(T), _terms_dT(T))) @ self._piece_rows(T).T
