@@ -47,12 +47,15 @@ def alloy_line(x_B: float, element_B: str, scales: Scales) -> Line:
     return ("value", f" {element_B} {_composition_pair(x_B, scales)}")
 
 
-def _composition_pair(x_B: float, scales: Scales) -> str:
-    """ "40.0 wt%  (54.0 at%)": the chosen unit first."""
+def _composition_pair(x_B: float, scales: Scales, room: int = WIDTH) -> str:
+    """ "40.0 wt%  (54.0 at%)": the chosen unit first; one space apart where two would take
+    more than `room` characters (a near-pure phase: ">99.999 wt% (>99.999 at%)")."""
     first = scales.composition_unit
     second = "at" if first == "wt" else "wt"
-    return (f"{percent(scales.shown_fraction(x_B, first))} {first}%  "
-            f"({percent(scales.shown_fraction(x_B, second))} {second}%)")
+    shown = (f"{percent(scales.shown_fraction(x_B, first))} {first}%",
+             f"({percent(scales.shown_fraction(x_B, second))} {second}%)")
+    pair = "  ".join(shown)
+    return pair if len(pair) <= room else " ".join(shown)
 
 
 def phase_lines(reading: Reading, system, scales: Scales) -> list[Line]:
@@ -69,7 +72,11 @@ def phase_lines(reading: Reading, system, scales: Scales) -> list[Line]:
         amounts = f"{percent(share.amount_mass):>6}{percent(share.amount_mol):>6}"
         lines.append(("value", f" {name}{' ' * max(WIDTH - 1 - len(name) - len(amounts), 1)}"
                                f"{amounts}"))
-        lines.append(("note", f"   {element_B} {_composition_pair(share.x[1], scales)}"))
+        indent = "   "
+        pair = _composition_pair(share.x[1], scales, WIDTH - len(indent) - len(element_B) - 1)
+        if len(indent) + len(element_B) + 1 + len(pair) > WIDTH:
+            indent = "  "     # still under its phase's name, one column less
+        lines.append(("note", f"{indent}{element_B} {pair}"))
     return lines
 
 
@@ -115,13 +122,13 @@ def boundary_lines(reading: Reading, element_B: str, scales: Scales,
         where = (f"{format_temperature_value(scales.shown_temperature(nearest.temperature_K), decimals)}"
                  f" {unit}")
         how_far = ("the cursor is on it" if nearest.direction == "here" else
-                   f"{format_temperature_value(gap, decimals)} {nearest.direction}")
+                   f"{format_temperature_value(gap, decimals)} {unit} {nearest.direction}")
     else:
         comp = scales.composition_unit
         shown = scales.shown_composition(nearest.x_B)
         gap = abs(shown - scales.shown_composition(reading.cursor.x_B))
         where = f"{element_B} {percent(shown / 100.0)} {comp}%"
-        how_far = f"{percent(gap / 100.0)} {nearest.direction}"
+        how_far = f"{percent(gap / 100.0)} {comp}% {nearest.direction}"
     line = f" {arrow} {nearest.name} {where}"
     if len(line) + len(how_far) + 2 <= WIDTH:     # one line where it fits
         return lines + [("value", f"{line}, {how_far}")]
