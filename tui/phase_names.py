@@ -29,6 +29,24 @@ def phase_label(system, phase: str, x_B: float, temperature_K: float,
     return beside(phase, _trade_name(system, phase, temperature_K))
 
 
+def equilibrium_labels(system, phases: Sequence, temperature_K: float) -> list[str]:
+    """Each phase of one equilibrium (objects with `name` and `x`, mole fractions of every
+    element in the system's order) as the trade reads it, any number of elements: the structure
+    name with the trade's name beside it ('bct (Sn)'), and where a phase is stable twice, on both
+    sides of a miscibility gap, each side named by the element it holds most more of than the
+    other side(s) ('fcc (Cu-rich)' beside 'fcc (Ag-rich)'); for a binary the same names as
+    `phase_label`."""
+    labels = []
+    for i, p in enumerate(phases):
+        others = [q.x for j, q in enumerate(phases) if j != i and q.name == p.name]
+        if not others:
+            labels.append(beside(p.name, _trade_name(system, p.name, temperature_K)))
+            continue
+        excess = [float(p.x[k]) - sum(float(o[k]) for o in others) / len(others) for k in range(len(system.elements))]
+        labels.append(f"{p.name} ({system.elements[excess.index(max(excess))]}-rich)")
+    return labels
+
+
 def beside(phase: str, trade: str | None) -> str:
     """'fcc (austenite)', 'bct (Sn)': a phase with its trade name beside it (bracketed unless the
     name is a bracketed one already); the phase alone where the name is empty or the same."""

@@ -143,7 +143,7 @@ def test_point_for_a_ternary_alloy_lists_every_phase_and_element(run, lead_tin_b
     assert code == 0 and err == "", err
     assert "alloy: Pb 68.0 wt%" in out and "Sn 30.0 wt%" in out and "Bi 2.00 wt%" in out
     header = next(line for line in out.splitlines() if line.startswith("phase"))
-    assert header.split()[1:] == ["amount", "Pb", "wt%", "Sn", "wt%", "Bi", "wt%"]
+    assert header.split()[1:] == ["amount,", "of", "the", "alloy", "Pb", "wt%", "Sn", "wt%", "Bi", "wt%"]
     code, js, _ = run("point", lead_tin_bismuth, "--temp", "200C", "--comp", "Sn=30wt%", "--comp", "Bi=2wt%", "--json")
     data = json.loads(js)
     assert set(data["mole_fraction"]) == set(data["mass_fraction"]) == {"Pb", "Sn", "Bi"}
@@ -186,3 +186,26 @@ def test_tin_silver_copper_isopleth_crosses_the_ternary_eutectic(run):
     assert "liquid" in above.phase_names and tuple(sorted(below.phase_names)) == ("Ag3Sn", "Cu6Sn5", "bct")
     code, out, _ = run("diagram", "ag-cu-sn", "--comp", "Ag=3wt%,Cu=0.5wt%", "--vary", "Cu=0..2wt%", "--ascii")
     assert code == 0 and "invariant reactions crossed: none" not in out
+
+
+def test_point_names_a_ternarys_phases_as_a_binarys_and_the_sides_of_a_gap(run):
+    """The trade's names beside the structure names, amounts as mass % of the alloy and G with
+    its reference, as the binary's table has them (shipped bi-pb-sn with no bismuth against
+    shipped pb-sn); the two fcc phases of a 14-carat gold aged at 500 C (the silver-rich and the
+    copper-rich one of the ageing study of M. Nakagawa and K. Yasuda, J. Mater. Sci. 23 (1988)
+    2975, the file's test) each named by the element it holds more of, not 'fcc + fcc'."""
+    def stable(out: str) -> set[str]:
+        return set(next(ln for ln in out.splitlines() if ln.startswith("stable: "))[8:].split(" + "))
+
+    code, binary, _ = run("point", "pb-sn", "--temp", "150C", "--comp", "Sn=61.9wt%")
+    code3, ternary, err = run("point", "bi-pb-sn", "--temp", "150C", "--comp", "Bi=0wt%,Sn=61.9wt%")
+    assert (code, code3, err) == (0, 0, "")
+    assert stable(ternary) == stable(binary) == {"fcc (Pb)", "bct (Sn)"}
+    assert "58.5 mass % (69.3 mol %)" in ternary and " wt% (" not in ternary.split("stable:")[1]
+    assert "J/mol (relative to the pure elements as their stable solids at this temperature)" in ternary
+    code, gold, err = run("point", "ag-au-cu", "--temp", "500C", "--alloy", "14ct-1N")
+    assert (code, err) == (0, "")
+    assert stable(gold) == {"fcc (Ag-rich)", "fcc (Cu-rich)"}
+    rows = {ln.split("  ")[0]: ln.split()[-3:] for ln in gold.splitlines() if ln.startswith("fcc (")}
+    silver_rich, copper_rich = (list(map(float, rows[name])) for name in ("fcc (Ag-rich)", "fcc (Cu-rich)"))
+    assert silver_rich[1] > copper_rich[1] and copper_rich[2] > silver_rich[2]   # Ag and Cu wt%

@@ -129,3 +129,19 @@ def test_without_leaves_the_phase_out_of_the_answer(ladle) -> None:
     assert out.returncode == 0, out.stderr
     doc = json.loads(out.stdout)
     assert all("bct" not in t["above"] + t["below"] for t in doc["transitions"])
+
+
+def test_the_sides_of_a_miscibility_gap_are_named_and_amounts_are_mass_percent(ladle) -> None:
+    """Sterling silver (Ag-7.5 wt% Cu) meets the solvus of the Ag-Cu solid solutions on cooling
+    (P.R. Subramanian and J.H. Perepezko, J. Phase Equilib. 14 (1993) 62: copper-rich (Cu)
+    precipitates from the silver-rich (Ag)): the two fcc phases below it are told apart by what
+    they are rich in, as `ladle point` names them, and the amounts of phases are mass % of the
+    alloy (compositions alone are wt%)."""
+    out = ladle("transitions", "ag-cu", "--comp", "Cu=7.5wt%")
+    assert out.returncode == 0, out.stderr
+    lines = out.stdout.splitlines()
+    solvus = next(i for i, ln in enumerate(lines) if "->" in ln and ln.count("fcc") == 3)
+    assert lines[solvus].endswith("fcc  ->  fcc (Ag-rich) + fcc (Cu-rich)")
+    below = lines[solvus + 1].split("just below: ")[1]
+    assert below.startswith("fcc (Ag-rich) >99.999 mass %, fcc (Cu-rich) <0.001 mass %")
+    assert not any("just below" in ln and " wt%" in ln for ln in lines)

@@ -10,6 +10,9 @@ from .common import (add_composition_argument, add_system_argument, alloy_both, 
 
 HELP = "phases, their compositions and amounts for one alloy at one temperature"
 
+#: What the alloy's Gibbs energy is measured from, in every table.
+GIBBS_REFERENCE = "(relative to the pure elements as their stable solids at this temperature)"
+
 
 def add_arguments(p: argparse.ArgumentParser) -> None:
     add_system_argument(p)
@@ -38,23 +41,27 @@ def run(args: argparse.Namespace) -> int:
 def render_every_element(system, result, unit: str, basis: str) -> list[str]:
     """The table of an alloy of three or more elements: every phase with its amount and the
     content of every element, in the person's basis ("wt" or "at"; --json gives both)."""
-    first, amount_name, other_name = ("w", "wt%", "mol%") if basis == "wt" else ("x", "mol%", "wt%")
+    from ..phase_names import equilibrium_labels
+
+    first, amount_name, other_name = ("w", "mass %", "mol %") if basis == "wt" else ("x", "mol %", "mass %")
 
     def amount(p) -> str:
         a, b = (p.amount_mass, p.amount_mol) if basis == "wt" else (p.amount_mol, p.amount_mass)
         return f"{quote.percent(a)} {amount_name} ({quote.percent(b)} {other_name})"
 
-    head = ("phase", "amount") + tuple(f"{el} {basis}%" for el in system.elements)
-    rows = [head] + [(p.name, amount(p)) + tuple(quote.percent(v) for v in getattr(p, first)) for p in result.phases]
+    labels = equilibrium_labels(system, result.phases, result.temperature_K)
+    head = ("phase", "amount, of the alloy") + tuple(f"{el} {basis}%" for el in system.elements)
+    rows = [head] + [(label, amount(p)) + tuple(quote.percent(v) for v in getattr(p, first))
+                     for label, p in zip(labels, result.phases, strict=True)]
     widths = [max(len(r[i]) for r in rows) for i in range(len(head))]
     lines = [f"{system_title(system)} at {temperature_both(result.temperature_K, unit)}",
              f"alloy: {alloy_both(system, result.x, basis)}",
-             f"stable: {' + '.join(result.phase_names)}",
+             f"stable: {' + '.join(labels)}",
              ""]
     lines += ["  ".join(f"{v:<{w}}" if i < 2 else f"{v:>{w}}" for i, (v, w) in enumerate(zip(r, widths))).rstrip()
               for r in rows]
     lines.append("")
-    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)}")
+    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)} {GIBBS_REFERENCE}")
     if not result.converged:
         lines.append("warning: the equilibrium did not converge to its tolerance; treat this answer with suspicion")
     return lines + closing_lines(system)
@@ -92,8 +99,7 @@ def render(system, result, unit: str, element: str, basis: str) -> list[str]:
     w1 = max(len(r[1]) for r in rows)
     lines += [f"{r[0]:<{w0}}  {r[1]:<{w1}}  {r[2]}" for r in rows]
     lines.append("")
-    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)} (relative to the pure elements "
-                 "as their stable solids at this temperature)")
+    lines.append(f"Gibbs energy of the alloy: {quote.energy(result.gibbs_J_per_mol)} {GIBBS_REFERENCE}")
     if not result.converged:
         lines.append("warning: a tie-line did not converge to its tolerance; treat this answer with suspicion")
     return lines + closing_lines(system)

@@ -101,6 +101,16 @@ def _phases(names, phases, T: float) -> str:
     return " + ".join(beside(p, names.phase_name(p, T)) for p in phases)
 
 
+def _sides(system, equilibrium, phases: tuple[str, ...]) -> list[str] | None:
+    """The labels of `phases` from the point equilibrium beside a change, where it holds them
+    (both sides of a miscibility gap named by what they are rich in: 'fcc (Cu-rich)'); else None."""
+    from ..phase_names import equilibrium_labels
+
+    if sorted(p.name for p in equilibrium.phases) != sorted(phases):
+        return None
+    return equilibrium_labels(system, equilibrium.phases, equilibrium.temperature_K)
+
+
 def _render(system, result, labels, names, window, constituents, alloy, x, w, unit: str) -> list[str]:
     lines = [f"{system_title(system)}, alloy {_alloy_line(system, alloy, x, w)}",
              f"equilibrium phase changes on cooling from {temperature_both(result.highest_K, unit)} "
@@ -113,10 +123,15 @@ def _render(system, result, labels, names, window, constituents, alloy, x, w, un
         label = labels.get(i)
         if label and label not in used:
             used.append(label)
-        lines.append(f"  {quote.temperature(T, unit):>11}  {_phases(names, t.above, T + 1e-3)}  ->  "
-                     f"{_phases(names, t.below, T - 1e-3)}" + (f"   [{label}]" if label else ""))
-        amounts = ", ".join(f"{p.name} {quote.percent(p.amount_mass)} wt%" for p in t.amounts_below)
-        lines.append(f"  {'':>11}  just below: {amounts}")
+        above = _sides(system, t.above_equilibrium, t.above)
+        below = _sides(system, t.below_equilibrium, t.below)
+        lines.append(f"  {quote.temperature(T, unit):>11}  "
+                     f"{' + '.join(above) if above else _phases(names, t.above, T + 1e-3)}  ->  "
+                     f"{' + '.join(below) if below else _phases(names, t.below, T - 1e-3)}"
+                     + (f"   [{label}]" if label else ""))
+        shown = below or [p.name for p in t.amounts_below]
+        amounts = ", ".join(f"{name} {quote.percent(p.amount_mass)} mass %" for name, p in zip(shown, t.amounts_below))
+        lines.append(f"  {'':>11}  just below: {amounts} of the alloy")
     for label in used:
         note = next((ln.note for ln in names.lines if ln.name == label and ln.note), "")
         if note:
@@ -138,7 +153,7 @@ def slow_cooled_lines(constituents) -> list[str]:
     real cooling rates change them; nothing where there are none."""
     if not constituents:
         return []
-    parts = ", ".join(f"{c.name} {quote.percent(c.mass_fraction)} wt%" for c in constituents)
+    parts = ", ".join(f"{c.name} {quote.percent(c.mass_fraction)} mass %" for c in constituents)
     return ["", f"after slow cooling through A1 (lever rule, equilibrium): {parts}", COOLING_NOTE]
 
 
