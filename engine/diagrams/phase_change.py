@@ -25,7 +25,7 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
     (near, far, near_eq, far_eq) at the end, near_eq None where no probe fell on that side.
 
     Where a phase is present on one side only (the far side, the two sides swapped where need
-    be), its amount there is a smooth function of the parameter that falls to zero at the
+    be, as soon as a point equilibrium on the near side is known), its amount there is a smooth function of the parameter that falls to zero at the
     change: its zero is estimated from the points found on that side (a straight line through
     the two nearest, a parabola through the three nearest; regula falsi and inverse
     interpolation), and the next point is tried just beyond the estimate, by the estimate's own
@@ -40,10 +40,6 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
     on the near side instead (`driving_force`: it falls to zero at the change) and its zero
     estimated the same way. `first`, where given and inside the bracket, is tried first (a
     prediction, such as where a neighbouring edge's change lies)."""
-    far_key = phase_set(far_eq)
-    if near_eq is not None and not any(far_key.count(n) > near_key.count(n) for n in set(far_key)):
-        near, far, near_eq, far_eq = narrow_change(probe, far, near, far_key, far_eq, near_eq, tolerance, system, first)
-        return far, near, far_eq, near_eq                 # the phase that goes to zero is on the near side
     far_points: list[tuple[float, float, tuple[str, ...]]] = []
     near_points: list[tuple[float, float]] = []      # (parameter, driving force) on the near side
     direction = 1.0 if far > near else -1.0
@@ -53,6 +49,10 @@ def narrow_change(probe, near: float, far: float, near_key: tuple[str, ...], nea
     while abs(far - near) > tolerance:
         far_key = phase_set(far_eq)
         gained = sorted(n for n in set(far_key) if far_key.count(n) > near_key.count(n))
+        if not gained and near_eq is not None:     # the phase that goes to zero is on the near side
+            near, far, near_eq, far_eq = narrow_change(probe, far, near, far_key, far_eq, near_eq, tolerance, system,
+                                                       first)
+            return far, near, far_eq, near_eq
         if gained and (not far_points or far_points[-1][0] != far):
             far_points.append((far, sum(p.amount_mol for p in far_eq.phases if p.name == gained[0]), far_key))
         width = abs(far - near)
