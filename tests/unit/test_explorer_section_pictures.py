@@ -14,7 +14,8 @@ from ladle.engine.diagrams.heat_treatment import HeatTreatmentWindow
 from ladle.tui.explorer.alloy_changes import AlloyChanges, change_lines
 from ladle.tui.explorer.cautions import CAUTION_ROOM, caution_line
 from ladle.tui.explorer.screens.section_screen import help_rows, key_bar
-from ladle.tui.explorer.section_drawing import _triangle_frame, field_name, triangle_point
+from ladle.tui.explorer.plotting import Frame
+from ladle.tui.explorer.section_drawing import _triangle_frame, field_name, labelled_fields, triangle_point
 from ladle.tui.explorer.section_exploration import SectionExploration
 
 
@@ -102,3 +103,15 @@ def test_freezing_constituents_are_named_as_the_trade_names_them():
     sac = SectionExploration(find_system("ag-cu-sn"))
     assert sac.constituent_name("ternary eutectic bct + Ag3Sn + Cu6Sn5", 490.0) == "ternary eutectic (Sn) + epsilon + eta"
     assert sac.constituent_name("primary fcc (Ag-rich)", 490.0) == "primary fcc (Ag-rich)"
+
+
+def test_numbered_fields_run_without_a_gap_where_one_is_too_small_to_mark():
+    # Three fields whose names are wider than the picture; the second sits on the first's cell,
+    # so its number cannot be written: the picture shows 1 and 2 (it showed 1 and 3, and the
+    # pane's key went '1 ...; 3 ...'), and the key names the unmarked field without a number.
+    frame = Frame(0.0, 10.0, 0.0, 10.0, 20, 10)
+    wide = "a field name wider than the whole picture"
+    wanted = [(f"{wide} A", 5.0, 5.0), (f"{wide} B", 5.0, 5.0), (f"{wide} C", 5.0, 1.0)]
+    labels, key = labelled_fields(wanted, frame)
+    assert sorted(label.text for label in labels) == ["1", "2"]
+    assert key == [f"1: {wide} A", f"2: {wide} C", f"too small to mark: {wide} B"]

@@ -60,21 +60,22 @@ def labelled_fields(wanted: list[tuple[str, float, float]], frame: Frame,
                     first: Sequence[Label] = ()) -> tuple[list[Label], list[str]]:
     """Labels for fields (name, x, y), largest first, after the labels `first` (placed where
     they fit): the name where it fits, else a number (1, 2, ...) where that fits; the key lists
-    what each number stands for, and any field that got no label at all."""
+    what each number stands for, then any field that got no label at all (unnumbered, so that
+    the numbers on the picture run 1, 2, 3 ... without a gap)."""
     placed = place_labels(list(first) + [Label(name, x, y) for name, x, y in wanted], frame)
     named = {label.text for label in placed}
-    numbered, key = [], []
+    numbered, key, unmarked = [], [], []
     for name, x, y in wanted:
         if name in named:
             continue
-        tag = str(len(key) + 1)
+        tag = str(len(numbered) + 1)
         trial = place_labels(placed + numbered + [Label(tag, x, y)], frame)
         if len(trial) > len(placed) + len(numbered):
             numbered.append(Label(tag, x, y))
             key.append(f"{tag}: {name}")
         else:
-            key.append(f"{tag} (too small to mark): {name}")
-    return placed + numbered, key
+            unmarked.append(f"too small to mark: {name}")
+    return placed + numbered, key + unmarked
 
 
 def isopleth_scene(iso, unit: str, glyphs: Glyphs, width: int, height: int,
