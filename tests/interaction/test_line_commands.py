@@ -324,6 +324,10 @@ BAD = [
     (("point", "al-cu", "--temp", "500", "--comp", "Cu=50at%"), "outside the range this model covers"),
     (("point", "pb-sn", "--temp", "1e9K", "--comp", "Sn=10wt%"), "outside the range of this system's models"),
     (("point", "pb-sn", "--comp", "Sn=10wt%"), "required: --temp"),
+    # the range in the unit typed, then in K (the shipped ag-cu-sn covers 100-450 C)
+    (("point", "pb-sn", "--temp", "1e9F", "--comp", "Sn=10wt%"), "(-457.87 to 10340.33 F, 1 to 6000 K)"),
+    (("diagram", "ag-cu-sn", "--temp", "25C"), "covers (100 to 450 C, 373.15 to 723.15 K); no answer is given"),
+    (("diagram", "ag-cu-sn", "--temp", "300K"), "covers (373.15 to 723.15 K); no answer is given"),
 ]
 
 

@@ -124,12 +124,25 @@ def temperature_kelvin(system, text: str):
     t = parse_temperature(text)
     lo, hi = system.model_range_K
     if not lo <= t.kelvin <= hi:
-        raise CommandError(f"temperature {text} is outside the range of this system's models ({lo:g}-{hi:g} K)")
+        raise CommandError(f"temperature {quote.one_line(text.strip())} is outside the range of this system's models "
+                           f"({_range_text(lo, hi, t.unit)})")
     c_lo, c_hi = system.covers_K
     if not c_lo <= t.kelvin <= c_hi:
-        raise CommandError(f"temperature {text} lies outside the temperatures this model covers "
-                           f"({c_lo:g}-{c_hi:g} K); no answer is given there")
+        raise CommandError(f"temperature {quote.one_line(text.strip())} lies outside the temperatures this model "
+                           f"covers ({_range_text(c_lo, c_hi, t.unit)}); no answer is given there")
     return t
+
+
+def _range_text(lo_K: float, hi_K: float, unit: str) -> str:
+    """'100 to 450 C, 373.15 to 723.15 K': a range of temperatures (K) in the unit the person
+    typed, then in K (K alone where that was the unit)."""
+    from ladle.engine.units import kelvin_to
+
+    kelvin = f"{lo_K:g} to {hi_K:g} K"
+    if unit == "K":
+        return kelvin
+    lo, hi = (f"{kelvin_to(T, unit):.2f}".rstrip("0").rstrip(".") for T in (lo_K, hi_K))
+    return f"{lo} to {hi} {unit}, {kelvin}"
 
 
 def system_title(system) -> str:
