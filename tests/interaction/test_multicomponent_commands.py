@@ -186,6 +186,8 @@ def test_tin_silver_copper_isopleth_crosses_the_ternary_eutectic(run):
     assert "liquid" in above.phase_names and tuple(sorted(below.phase_names)) == ("Ag3Sn", "Cu6Sn5", "bct")
     code, out, _ = run("diagram", "ag-cu-sn", "--comp", "Ag=3wt%,Cu=0.5wt%", "--vary", "Cu=0..2wt%", "--ascii")
     assert code == 0 and "invariant reactions crossed: none" not in out
+    # listed with the trade's names, as the fields on the plot are labelled (epsilon, eta, (Sn))
+    assert "Ag3Sn (epsilon) + Cu6Sn5 (eta) + bct (Sn) + liquid" in out
 
 
 def test_point_names_a_ternarys_phases_as_a_binarys_and_the_sides_of_a_gap(run):

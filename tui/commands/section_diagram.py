@@ -115,8 +115,11 @@ def show_isopleth(system, iso, title: str, args: argparse.Namespace) -> int:
     print(terminal_plot(title, glyphs, 24, draw))
     lines = [f"fields: {'; '.join(key)}"] if key else []
     lines.append("invariant reactions crossed:" if iso.invariants else "invariant reactions crossed: none")
+    from ..phase_names import beside
+
     for inv in iso.invariants:
-        lines.append(f"  {quote.temperature(inv.temperature_K, args.unit):>12}  {' + '.join(inv.phases)}")
+        phases = " + ".join(beside(p, names.phase_name(p, inv.temperature_K)) for p in inv.phases)
+        lines.append(f"  {quote.temperature(inv.temperature_K, args.unit):>12}  {phases}")
     lines += _named_lines(iso, labels, args.unit)
     if any(labels) and names.lines_note:
         lines.append(f"note: {names.lines_note}")
