@@ -9,10 +9,11 @@ import pytest
 
 import ideal_ternaries as it
 from ladle.engine import find_system
-from ladle.engine.diagrams.alloy_transitions import AlloyTransitions
+from ladle.engine.diagrams.alloy_transitions import AlloyTransitions, Transition
 from ladle.engine.diagrams.heat_treatment import HeatTreatmentWindow
 from ladle.tui.explorer.alloy_changes import AlloyChanges, change_lines
 from ladle.tui.explorer.cautions import CAUTION_ROOM, caution_line
+from ladle.tui.explorer.exploration import crossing_name
 from ladle.tui.explorer.screens.section_screen import help_rows, key_bar
 from ladle.tui.explorer.plotting import Frame
 from ladle.tui.explorer.section_drawing import _triangle_frame, field_name, labelled_fields, triangle_point
@@ -115,3 +116,20 @@ def test_numbered_fields_run_without_a_gap_where_one_is_too_small_to_mark():
     labels, key = labelled_fields(wanted, frame)
     assert sorted(label.text for label in labels) == ["1", "2"]
     assert key == [f"1: {wide} A", f"2: {wide} C", f"too small to mark: {wide} B"]
+
+
+def test_a_change_inside_the_freezing_range_is_named_by_the_solid_that_forms():
+    # ladle transitions fe-c-si --comp C=5at%,Si=5at%: at 1300.1 C bcc (delta ferrite) + liquid
+    # -> fcc (austenite) + liquid; the pane called that a solvus, a solid-solubility line.
+    iron = find_system("fe-c-si")
+    def change(T_K, above, below):
+        return Transition(T_K, above, below, 0.01, None, None)
+    transitions = AlloyTransitions(np.array([0.9, 0.05, 0.05]), 1900.0, 298.15, 2.0, 0.01, ("liquid",), ("bcc", "graphite"),
+                                   (change(1681.8, ("liquid",), ("bcc", "liquid")),
+                                    change(1573.2, ("bcc", "liquid"), ("fcc", "liquid")),
+                                    change(1440.75, ("fcc", "liquid"), ("fcc", "graphite"))))
+    lines = change_lines(iron, AlloyChanges(transitions, {}, None), "C", "°C")
+    assert [text for _, text in lines[1:]] == [" 1408.7 °C liquidus", " 1300.1 °C austenite forms",
+                                               " 1167.6 °C solidus"]
+    assert crossing_name(("fcc", "liquid"), ("liquid",)) == "fcc used up"
+    assert crossing_name(("fcc", "graphite"), ("bcc", "fcc", "graphite")) == "solvus"

@@ -62,16 +62,18 @@ def alloy_changes(system, x: np.ndarray) -> AlloyChanges:
 
 def change_lines(system, changes: AlloyChanges | str | None, unit: str, unit_text: str) -> list[Line]:
     """The status pane's lines: each change hot to cold (its temperature in `unit`, written
-    `unit_text`, with the trade's name of the line, else liquidus, solidus or solvus), then the
-    heat-treatment window with its caution; a note while they are computed (`changes` None) or
-    why there is no answer (a string)."""
+    `unit_text`, with the trade's name of the line, else liquidus, solidus, the solid that forms
+    in the freezing range, or solvus), then the heat-treatment window with its caution; a note
+    while they are computed (`changes` None) or why there is no answer (a string)."""
     lines: list[Line] = [("heading", "EQUILIBRIUM CHANGES ON COOLING")]
     if changes is None:
         return lines + [("note", " computing ...")]
     if isinstance(changes, str):
         return lines + [("warning", f" {changes}")]
+    names = trade_names(system)
     for i, t in enumerate(changes.transitions.transitions):
-        what = changes.labels.get(i) or crossing_name(t.above, t.below)
+        what = changes.labels.get(i) or crossing_name(
+            t.above, t.below, lambda p, T=t.temperature_K: names.phase_name(p, T) or p)
         lines.append(("value", f" {kelvin_to(t.temperature_K, unit):.1f} {unit_text} {what}"))
     window = changes.window
     if window is not None:

@@ -9,6 +9,7 @@ per composition is cached here).
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, replace
 from functools import lru_cache
 
@@ -79,12 +80,23 @@ def boundary_name(phase: str, partner: str) -> str:
     return "solvus"
 
 
-def crossing_name(above: tuple[str, ...], below: tuple[str, ...]) -> str:
-    """The trade's name of a boundary crossed on cooling from the phases `above` to `below`."""
+def crossing_name(above: tuple[str, ...], below: tuple[str, ...],
+                  name: Callable[[str], str] = str) -> str:
+    """The trade's name of a boundary crossed on cooling from the phases `above` to `below`:
+    liquidus, solidus, solvus (solids only); inside the freezing range (liquid on both sides,
+    as in an alloy of three elements) the solid that starts to form ("austenite forms"), or the
+    one that is used up, each named by `name`."""
     if above == (LIQUID,):
         return "liquidus"
     if LIQUID in above and LIQUID not in below:
         return "solidus"
+    if LIQUID in above and LIQUID in below:
+        new = [p for p in below if p not in above]
+        if new:
+            return f"{' + '.join(name(p) for p in new)} forms"
+        gone = [p for p in above if p not in below]
+        if gone:
+            return f"{' + '.join(name(p) for p in gone)} used up"
     return "solvus"
 
 
