@@ -11,10 +11,14 @@
   line) against a dense evaluation of every phase on 20,001 compositions: every phase that lies
   below a line somewhere is reported, and every reported point lies below it;
 - point equilibria (the fast path: one hull edge, one tie-line, one check) against the whole
-  section's tie-lines.
+  section's tie-lines;
+- every phase's temperature functions evaluated together (`FunctionStack`, one matrix product
+  per temperature) against each function's own value and dG/dT, at every piece limit too.
 """
 
 from __future__ import annotations
+
+import math
 
 import numpy as np
 import pytest
@@ -23,8 +27,9 @@ from ladle.engine import equilibrate, find_system
 from ladle.engine.files.loader import shipped_folder
 from ladle.engine.minimize.equilibrium import _binary_shortcut, section_at
 from ladle.engine.minimize.grid import composition_grid, gibbs_on_grid, scaled_curvature_on_grid
-from ladle.engine.minimize.section import DRIVING_FORCE_TOLERANCE, Section
+from ladle.engine.minimize.section import DRIVING_FORCE_TOLERANCE, Section, binary_phases
 from ladle.engine.models.phases import SolutionPhase
+from ladle.engine.models.polynomials import TemperatureOutOfRange
 
 BINARIES = sorted(p.stem for p in shipped_folder().glob("*.toml")
                   if p.name != "elements.toml" and _binary_shortcut(find_system(p.stem)))
@@ -137,3 +142,25 @@ def test_point_equilibria_match_the_whole_section(name):
             assert got.phase_names == tie.phases, (name, T, x0)
             for share, (_xa, xb) in zip(got.phases, tie.x):
                 assert abs(float(share.x[1]) - xb) <= 1e-9, (name, T, x0, share.name)
+
+
+@pytest.mark.parametrize("name", BINARIES)
+def test_stacked_temperature_functions_equal_each_ones_own(name):
+    """A section's functions of T evaluated together (end members, Redlich-Kister and magnetic
+    terms, compounds) against each function's own `value` and `derivative`: the same numbers to
+    rounding (the terms are summed in another order), at 40 temperatures and at every piece
+    limit inside the range; below the range, the function's own error."""
+    stack = binary_phases(find_system(name)).functions
+    lo, hi = stack.lower_K, min(stack.upper_K, 6000.0)
+    limits = sorted({b for f in stack.functions for b in f.bounds if lo <= b <= hi and math.isfinite(b)})
+    for T in [float(T) for T in np.linspace(max(lo, 1.0), hi, 40)] + limits:
+        if T <= 0.0:
+            continue
+        values, derivatives = stack.values_and_derivatives(T)
+        for f, v, d in zip(stack.functions, values.tolist(), derivatives.tolist()):
+            assert v == pytest.approx(f.value(T), rel=1e-12, abs=1e-9), (name, T)
+            assert d == pytest.approx(f.derivative(T), rel=1e-12, abs=1e-12), (name, T)
+    if lo > 1.0:
+        with pytest.raises(TemperatureOutOfRange):
+            stack.values_and_derivatives(lo - 1.0)
+
