@@ -375,3 +375,16 @@ def test_bad_input_as_a_separate_process(argv, expected, tmp_path):
     p = subprocess.run([sys.executable, "-m", "ladle.tui.cli", *argv], capture_output=True, text=True, env=env,
                        timeout=120)
     _one_line_error(p.returncode, p.stdout, p.stderr, argv[0], expected)
+
+
+def test_the_plot_keeps_its_80_by_24_on_a_smaller_terminal(run, eut, monkeypatch):
+    """A terminal narrower or shorter than 80x24 (COLUMNS, LINES) gets the plot at 80 columns
+    and 24 rows all the same (plotext would shrink it to the terminal: 20 columns and a row or
+    two, unreadable), as the line commands promise."""
+    monkeypatch.setenv("COLUMNS", "20")
+    monkeypatch.setenv("LINES", "5")
+    code, out, err = run("diagram", eut, "--ascii")
+    assert (code, err) == (0, "")
+    picture = out.split("\nreactions:")[0].splitlines()
+    assert max(len(line) for line in picture) == 80
+    assert len(picture) >= 24

@@ -208,6 +208,7 @@ def terminal_plot(title: str, glyphs, min_rows: int, draw: Callable[[object, int
     heading = textwrap.wrap(title, width)   # plotext would blank a title wider than the plot
     height = max(size.lines - 5 - len(heading), min_rows)
     plotext.clear_figure()
+    plotext.limit_size(False, False)        # plotext would shrink the picture to a smaller terminal
     plotext.plotsize(width, height)
     plotext.theme("clear")
     draw(plotext, width, height)
