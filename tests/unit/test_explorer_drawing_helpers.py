@@ -4,8 +4,13 @@ import numpy as np
 
 from ladle.tui.explorer.glyphs import ASCII, UNICODE
 from ladle.tui.explorer.keymap import MAIN_KEYS, help_rows, key_bar_text
-from ladle.tui.explorer.plotting import (Frame, Label, joined, place_labels, round_ticks,
-                                         thin_polyline)
+from ladle.engine import find_system
+from ladle.tui.explorer.cursor import Cursor
+from ladle.tui.explorer.energy_drawing import energy_scene
+from ladle.tui.explorer.exploration import Exploration
+from ladle.tui.explorer.plotting import (Frame, Label, inside_frame, joined, place_labels,
+                                         round_ticks, thin_polyline)
+from ladle.tui.explorer.scales import Scales
 
 FRAME = Frame(0.0, 100.0, 0.0, 400.0, columns=40, rows=20)
 
@@ -64,3 +69,23 @@ def test_help_lists_every_key_once():
     assert any("Ag=12wt%" in what for _, what in rows)    # the open system's element
     keys = [key for use in MAIN_KEYS for key in use.keys.split(",")]
     assert len(keys) == len(set(keys))
+
+
+def test_a_label_at_the_frames_edge_moves_inside_and_stays_over_its_point():
+    edge = inside_frame(Label("AuSn", 100.0, 200.0), FRAME)
+    column, _ = FRAME.cell(edge.x, edge.y)
+    first = column - len("AuSn") // 2
+    assert (first, first + len("AuSn") - 1) == (FRAME.columns - 4, FRAME.columns - 1)   # over x=100
+    assert place_labels([edge], FRAME) == [edge]
+    assert inside_frame(Label("middle", 50.0, 200.0), FRAME) == Label("middle", 50.0, 200.0)
+
+
+def test_a_compound_at_the_energy_windows_edge_is_named():
+    # Au-Sn at 600 C, 7.32 wt% Sn: the model covers 0-50 at% Sn, so AuSn (37.6 wt% Sn) sits on
+    # the window's right edge near its top; its point was drawn with the cursor's mark and no
+    # name (the label, centred on the edge and above the top, was dropped).
+    system = find_system("au-sn")
+    e = Exploration(system, Scales(system.molar_mass, "C", "wt"), Cursor(873.15, 0.116))
+    scene = energy_scene(e, 44, 20)      # the energy plot's size on an 80x24 screen
+    assert [name for name, _, _ in scene.points] == ["AuSn"]
+    assert "AuSn" in [label.text for label in scene.labels]

@@ -15,7 +15,7 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, inside_frame, joined, place_labels, thin_polyline
 from .diagram_drawing import plot_area
 
 ENVELOPE_POINTS = 120        # envelope samples across the window (drawn: one per cell)
@@ -72,7 +72,9 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
         if x.size == 1:
             if inside(x[0]) and frame.y_low <= y[0] <= frame.y_high:
                 points.append((name, float(shown_x[0]), float(y[0])))
-                labels.append(Label(name, float(shown_x[0]), float(y[0]) + span * 0.12))
+                above = float(y[0]) + span * 0.12     # its name above it, else below it
+                label_y = above if above <= frame.y_high else float(y[0]) - span * 0.12
+                labels.append(inside_frame(Label(name, float(shown_x[0]), label_y), frame))
             continue
         keep = inside(x) & (y <= frame.y_high + span)
         if not (keep & (y >= frame.y_low) & (y <= frame.y_high)).any():

@@ -75,6 +75,20 @@ class Label:
     y: float
 
 
+def inside_frame(label: Label, frame: Frame) -> Label:
+    """The label moved sideways, by whole columns, so that all of it lies inside the frame
+    (still over its point where the point is inside): a point at the window's edge keeps its
+    name."""
+    column, _ = frame.cell(label.x, label.y)
+    first = column - len(label.text) // 2
+    last = first + len(label.text) - 1
+    shift = -first if first < 0 else min(frame.columns - 1 - last, 0)
+    if shift == 0:
+        return label
+    column_width = (frame.x_high - frame.x_low) / max(frame.columns - 1, 1)
+    return Label(label.text, label.x + shift * column_width, label.y)
+
+
 def place_labels(wanted: Sequence[Label], frame: Frame) -> list[Label]:
     """The labels that fit inside the frame without overlapping, in order of preference.
 
