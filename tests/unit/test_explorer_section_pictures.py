@@ -133,3 +133,22 @@ def test_a_change_inside_the_freezing_range_is_named_by_the_solid_that_forms():
                                                " 1167.6 °C solidus"]
     assert crossing_name(("fcc", "liquid"), ("liquid",)) == "fcc used up"
     assert crossing_name(("fcc", "graphite"), ("bcc", "fcc", "graphite")) == "solvus"
+
+
+def test_the_structure_keeps_each_constituents_amounts_together():
+    # A 1.12 wt% C iron (amounts invented for the layout): the long eutectic name wrapped at
+    # the pane's edge, leaving '>99.999 /' on one line and '90.1' on the next.
+    from types import SimpleNamespace as Fake
+    iron = SectionExploration(find_system("fe-fe3c"))
+    def path(end_K, constituents):
+        return Fake(end_K=end_K, end="eutectic", constituents=[Fake(name=n, mass_fraction=f) for n, f in constituents])
+    paths = {"equilibrium": path(1599.5, [("primary fcc", 0.9999999)]),
+             "scheil": path(1421.5, [("primary fcc", 0.901), ("eutectic fcc + Fe3C", 0.0993)])}
+    result = Fake(equilibrium=Fake(liquidus_K=1726.4), path=paths.__getitem__)
+    iron.freezing[iron.alloy_key()] = result
+    texts = [text for _, text in iron.freezing_lines("C", "°C")]
+    assert all(len(text) <= 30 for text in texts), texts
+    primary = texts.index(" primary austenite")
+    assert texts[primary + 1] == "   >99.999 / 90.1"
+    eutectic = texts.index(" eutectic austenite +")
+    assert texts[eutectic + 1:eutectic + 3] == ["   cementite (ledeburite)", "   - / 9.93"]

@@ -18,6 +18,7 @@ system opened again finds its picture ready.
 from __future__ import annotations
 
 import re
+import textwrap
 from collections import OrderedDict
 from dataclasses import dataclass
 
@@ -35,6 +36,7 @@ from ladle.tui.quote import percent
 from .alloy_changes import AlloyChanges, alloy_changes, shows_changes
 from .entry import TypedPoint
 from .saved_state import SavedState
+from .status_lines import WIDTH
 
 #: The varying element runs from 0 to this mole fraction (less where the others leave less).
 SECTION_SHARE = 0.5
@@ -304,7 +306,13 @@ class SectionExploration:
         lines += [("heading", "STRUCTURE, mass %"), ("note", " equilibrium / Scheil")]
         for name, fractions in structure_rows(result):
             shown = " / ".join("-" if f is None else percent(f) for f in fractions)
-            lines.append(("note", f" {self.constituent_name(name, result.equilibrium.liquidus_K)}: {shown}"))
+            named = self.constituent_name(name, result.equilibrium.liquidus_K)
+            if len(named) + len(shown) + 3 <= WIDTH:
+                lines.append(("note", f" {named}: {shown}"))
+            else:   # the name on its own lines, the two amounts together under it
+                lines += [("note", row) for row in textwrap.wrap(named, WIDTH, initial_indent=" ",
+                                                                 subsequent_indent="   ")]
+                lines.append(("note", f"   {shown}"))
         return lines
 
     def constituent_name(self, name: str, temperature_K: float) -> str:
