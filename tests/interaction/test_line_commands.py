@@ -388,3 +388,38 @@ def test_the_plot_keeps_its_80_by_24_on_a_smaller_terminal(run, eut, monkeypatch
     picture = out.split("\nreactions:")[0].splitlines()
     assert max(len(line) for line in picture) == 80
     assert len(picture) >= 24
+
+
+def test_steel_lines_are_read_at_the_reactions_not_on_the_grid(run):
+    """`ladle diagram fe-fe3c` (the whole diagram drawn as an isopleth on a grid of 0.209 wt% C):
+    A1 lists its three phases' carbon, not the grid column next to ferrite's end (it said
+    'C 0.209-6.48 wt%', ten times ferrite's carbon), and A3 and Acm run down to A1 at the
+    eutectoid's austenite (they stopped a grid row above it, at 746 C and 757 C). Check values:
+    the eutectoid at 727 C, austenite 0.77 wt% C, ferrite 0.022 wt% C (ASM Handbook Vol. 3, Alloy
+    Phase Diagrams (1992), Fe-C; recalled from memory), and the engine's own point equilibria of
+    steels just below and above the model's A1."""
+    import numpy as np
+
+    from ladle.engine import equilibrate, find_system
+    from ladle.engine.units import mole_from_mass
+
+    code, out, err = run("diagram", "fe-fe3c", "--ascii")
+    assert (code, err) == (0, "")
+    rows = {ln.split()[0]: ln for ln in out.split("lines the trade names:\n")[1].splitlines() if ln.startswith("  ")}
+    a1 = re.fullmatch(r"\s+A1\s+at ([\d.]+) C: bcc \(ferrite\) ([\d.]+), fcc \(austenite\) ([\d.]+), "
+                      r"Fe3C \(cementite\) ([\d.]+) wt% C", rows["A1"])
+    assert a1, rows["A1"]
+    t_a1, ferrite, austenite, cementite = map(float, a1.groups())
+    assert t_a1 == pytest.approx(727.0, abs=3.0) and austenite == pytest.approx(0.77, abs=0.03)
+    assert ferrite == pytest.approx(0.022, abs=0.005) and cementite == pytest.approx(6.69, abs=0.01)
+    system = find_system("fe-fe3c")
+
+    def carbon(T_C: float, wt: float, phase: str) -> float:
+        x = mole_from_mass(np.array([1.0 - wt / 100.0, wt / 100.0]), system.molar_mass)
+        share = next(p for p in equilibrate(system, T_C + 273.15, x).phases if p.name == phase)
+        return 100.0 * float(share.w[1])
+
+    assert ferrite == pytest.approx(carbon(t_a1 - 0.1, 0.4, "bcc"), rel=5e-3)
+    assert austenite == pytest.approx(carbon(t_a1 + 0.1, 1.2, "fcc"), rel=5e-3)
+    assert rows["A3"].endswith(f"to {a1.group(1)} C, C 0-{a1.group(3)} wt%"), rows["A3"]
+    assert f"to {a1.group(1)} C, C {a1.group(3)}-" in rows["Acm"], rows["Acm"]

@@ -120,7 +120,7 @@ def show_isopleth(system, iso, title: str, args: argparse.Namespace) -> int:
     for inv in iso.invariants:
         phases = " + ".join(beside(p, names.phase_name(p, inv.temperature_K)) for p in inv.phases)
         lines.append(f"  {quote.temperature(inv.temperature_K, args.unit):>12}  {phases}")
-    lines += _named_lines(iso, labels, args.unit)
+    lines += _named_lines(iso, labels, args.unit, names)
     if any(labels) and names.lines_note:
         lines.append(f"note: {names.lines_note}")
     lines += [f"note: {w}" for w in iso.warnings]
@@ -128,21 +128,103 @@ def show_isopleth(system, iso, title: str, args: argparse.Namespace) -> int:
     return 0
 
 
-def _named_lines(iso, labels: list[str | None], unit: str) -> list[str]:
+#: Half the bracket (K) around a mapped invariant reaction in which it is narrowed again.
+_AROUND_INVARIANT_K = 1.0
+#: A binary's line of the section that ends this many grid rows or fewer from an invariant
+#: reaction holding all its phases is taken to end at that reaction (such lines end only there).
+_ROWS_TO_INVARIANT = 1.5
+
+
+def _invariant_equilibria(iso, invariant) -> dict | None:
+    """Each phase of a binary's invariant reaction (name -> the phase's share of a point
+    equilibrium: composition, amount), from the point equilibria of the alloy in the middle of
+    the reaction's line on both sides of the reaction, narrowed to 1e-6 K (the line's ends on the
+    section are only as close as its grid's columns); None for three or more elements, or where
+    those two equilibria do not hold every phase of the reaction."""
+    from ladle.engine import equilibrate
+    from ladle.engine.diagrams.phase_change import narrow_change, phase_set
+
+    system = iso.system
+    if len(system.elements) != 2 or len(set(invariant.phases)) != len(invariant.phases):
+        return None
+    x = iso.mole_fractions(0.5 * sum(invariant.u_range))
+    below, above = (invariant.temperature_K + d for d in (-_AROUND_INVARIANT_K, _AROUND_INVARIANT_K))
+    eq_below, eq_above = (equilibrate(system, T, x) for T in (below, above))
+    if phase_set(eq_below) == phase_set(eq_above):
+        return None
+    *_, eq_below, eq_above = narrow_change(lambda T: equilibrate(system, T, x), below, above, phase_set(eq_below),
+                                           eq_below, eq_above, 1e-6, system)
+    found = {p.name: p for eq in (eq_below, eq_above) if eq is not None for p in eq.phases}
+    return found if set(invariant.phases) <= set(found) else None
+
+
+def _content(iso, share) -> float:
+    """The section's varying element's fraction (in its basis) in a phase's share."""
+    return float((share.w if iso.basis == "wt" else share.x)[iso.system.elements.index(iso.element)])
+
+
+def _line_points(iso, line, reactions) -> list[tuple[float, float]]:
+    """The (content, T in K) points of a line of the section; for a binary, an end of the line
+    at or within a grid row or so of an invariant reaction holding all its phases is moved onto
+    the reaction: the content there of the phase present on both sides of the line
+    (`reactions(inv)`: the reaction's phases, or None), instead of the grid's nearest column."""
+    from ladle.engine.diagrams.isopleth import DEFAULT_ROWS
+
+    points = [(float(iso.content(u)), float(T)) for u, T in line.points]
+    common = set(line.with_phase) & set(line.without_phase)
+    if len(iso.system.elements) != 2 or len(common) != 1:
+        return points
+    (phase,) = common
+    row_K = (iso.temperature_range_K[1] - iso.temperature_range_K[0]) / (DEFAULT_ROWS - 1)
+    for end in (0, -1):
+        for inv in iso.invariants:
+            if (set(line.with_phase) | set(line.without_phase) <= set(inv.phases)
+                    and abs(points[end][1] - inv.temperature_K) <= _ROWS_TO_INVARIANT * row_K
+                    and (found := reactions(inv)) is not None):
+                at_reaction = (_content(iso, found[phase]), inv.temperature_K)
+                points = [at_reaction] + points[1:] if end == 0 else points[:-1] + [at_reaction]
+                break
+    return points
+
+
+def _named_lines(iso, labels: list[str | None], unit: str, names) -> list[str]:
     """One row per trade name on the isopleth: the range of temperature and of the varying
-    element's content its lines span."""
+    element's content its lines span (for a binary, out to the invariant reactions they end at);
+    for a binary's invariant reaction, its phases' contents."""
+    from ..phase_names import beside
+
+    known: dict = {}
+
+    def reactions(inv) -> dict | None:
+        if inv not in known:
+            known[inv] = _invariant_equilibria(iso, inv)
+        return known[inv]
+
     spans: dict[str, list[tuple[float, float]]] = {}
     for line, label in zip(iso.lines, labels):
         if label is not None:
             spans.setdefault(label, []).extend((float(iso.content(u)), T) for u, T in line.points)
+    ends: dict[str, list[tuple[float, float]]] = {}     # the lines with their ends on reactions
+    for line, label in zip(iso.lines, labels):
+        if label is not None:
+            ends.setdefault(label, []).extend(_line_points(iso, line, reactions))
     rows = ["lines the trade names:"] if spans else []
     for label, points in spans.items():
         T_mid = sorted(p[1] for p in points)[len(points) // 2]
-        flat = next((inv.temperature_K for inv in iso.invariants if abs(inv.temperature_K - T_mid) < 0.5), None)
-        if flat is not None:   # an invariant reaction: its temperature and the compositions along it
-            c = [p[0] for p in points if abs(p[1] - flat) < 0.5]
-            where = f"at {quote.temperature(flat, unit)}"
+        flat = next((inv for inv in iso.invariants if abs(inv.temperature_K - T_mid) < 0.5), None)
+        found = None if flat is None else reactions(flat)
+        if found is not None:     # a binary's invariant reaction: its phases
+            phases = sorted(flat.phases, key=lambda name: _content(iso, found[name]))
+            parts = ", ".join(f"{beside(name, names.phase_name(name, flat.temperature_K))} "
+                              f"{quote.percent(_content(iso, found[name]))}" for name in phases)
+            rows.append(f"  {label:<24} at {quote.temperature(flat.temperature_K, unit)}: {parts} "
+                        f"{iso.basis}% {iso.element}")
+            continue
+        if flat is not None:      # an invariant reaction: its temperature and the compositions along it
+            c = [p[0] for p in points if abs(p[1] - flat.temperature_K) < 0.5]
+            where = f"at {quote.temperature(flat.temperature_K, unit)}"
         else:
+            points = ends[label]
             c = [p[0] for p in points]
             where = f"{quote.temperature(max(p[1] for p in points), unit)} to " \
                     f"{quote.temperature(min(p[1] for p in points), unit)}"
