@@ -152,3 +152,14 @@ def test_the_structure_keeps_each_constituents_amounts_together():
     assert texts[primary + 1] == "   >99.999 / 90.1"
     eutectic = texts.index(" eutectic austenite +")
     assert texts[eutectic + 1:eutectic + 3] == ["   cementite (ledeburite)", "   - / 9.93"]
+
+
+def test_a_long_change_name_wraps_under_its_temperature():
+    # ladle transitions fe-c-si --comp C=5at%,Si=5at%: 829.7 C, the stable eutectoid range
+    # begins; 'eutectoid (graphite) begins' is the file's trade name of that line.
+    iron = find_system("fe-c-si")
+    change = Transition(1102.85, ("fcc", "graphite"), ("bcc", "fcc", "graphite"), 0.01, None, None)
+    transitions = AlloyTransitions(np.array([0.9, 0.05, 0.05]), 1900.0, 298.15, 2.0, 0.01, ("liquid",),
+                                   ("bcc", "graphite"), (change,))
+    lines = change_lines(iron, AlloyChanges(transitions, {0: "eutectoid (graphite) begins"}, None), "C", "°C")
+    assert lines[1:] == [("value", " 829.7 °C eutectoid (graphite)"), ("value", "   begins")]

@@ -11,6 +11,7 @@ tenth of a degree shown. Temperatures in K.
 
 from __future__ import annotations
 
+import textwrap
 from dataclasses import dataclass
 
 import numpy as np
@@ -22,6 +23,7 @@ from ladle.engine.units import kelvin_to
 
 from ..treatment_window import treatment_window
 from .exploration import crossing_name
+from .status_lines import WIDTH
 
 #: Scan step (K) and bracket (K) of the cursor's alloy's transitions.
 SCAN_STEP_K = 2.0
@@ -74,7 +76,9 @@ def change_lines(system, changes: AlloyChanges | str | None, unit: str, unit_tex
     for i, t in enumerate(changes.transitions.transitions):
         what = changes.labels.get(i) or crossing_name(
             t.above, t.below, lambda p, T=t.temperature_K: names.phase_name(p, T) or p)
-        lines.append(("value", f" {kelvin_to(t.temperature_K, unit):.1f} {unit_text} {what}"))
+        text = f"{kelvin_to(t.temperature_K, unit):.1f} {unit_text} {what}"
+        lines += [("value", row) for row in textwrap.wrap(text, WIDTH, initial_indent=" ",
+                                                          subsequent_indent="   ")]
     window = changes.window
     if window is not None:
         lines += window_lines(system, window, unit, unit_text)
