@@ -61,6 +61,26 @@ def test_no_control_character_from_a_file_reaches_the_terminal(tmp_path, args):
         assert ch not in output, (repr(ch), args)
 
 
+@pytest.mark.parametrize("args", [("systems",), ("point", "pb-sn", "--temp", "200C", "--comp", "Sn=30wt%")],
+                         ids=lambda a: a[0])
+def test_no_control_character_from_a_file_name_reaches_the_terminal(tmp_path, args):
+    """File and folder names in the user's systems are the user's too: a folder named with an
+    escape sequence holding a file of a shipped system's name (the note that it is not used
+    under that name, on every command) and an unreadable file named with a bell (its row of
+    `ladle systems`) are shown escaped."""
+    folder = tmp_path / "u\x1b[31mx"
+    folder.mkdir()
+    (folder / "pb-sn.toml").write_text((SHIPPED / "pb-sn.toml").read_text(encoding="utf-8"), encoding="utf-8")
+    (folder / "q\x07r.toml").write_text("x =\n", encoding="utf-8")
+    run = _ladle(*args, env={"LADLE_SYSTEMS": str(folder), "XDG_CACHE_HOME": str(tmp_path / "cache")})
+    assert run.returncode == 0, run.stderr
+    assert "u\\x1b[31mx/pb-sn.toml: a system named 'pb-sn' exists already" in run.stderr
+    if args[0] == "systems":
+        assert "q\\x07r" in run.stdout and "(unreadable)" in run.stdout
+    for ch in "\x1b\x07":
+        assert ch not in run.stdout + run.stderr, repr(ch)
+
+
 def test_a_phase_name_with_control_characters_is_refused_in_one_line(tmp_path):
     text = (SHIPPED / "cu-ni.toml").read_text(encoding="utf-8").replace("[phase.fcc]", '[phase."fcc\\u001b[2J"]', 1)
     path = tmp_path / "odd.toml"

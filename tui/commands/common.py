@@ -67,7 +67,7 @@ def open_system(name: str, without: list[str] | tuple[str, ...] = ()):
 
     system = find_system(name)
     for line in catalog()[1]:
-        print(f"ladle: note: {line}", file=sys.stderr)
+        print(f"ladle: note: {quote.one_line(line)}", file=sys.stderr)
     return system.without(tuple(without)) if without else system
 
 

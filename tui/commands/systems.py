@@ -9,6 +9,7 @@ import argparse
 import shutil
 import sys
 
+from ..quote import one_line
 from .common import print_json
 
 HELP = "list the alloy systems (shipped and your own) with their sources and independent checks passed"
@@ -46,7 +47,7 @@ def run(args: argparse.Namespace) -> int:
         width = max(shutil.get_terminal_size((80, 24)).columns, 40)
         print("\n".join(line for r in rows for line in render_row(r, width)))
     for c in conflicts:
-        print(f"ladle: note: {c}", file=sys.stderr)
+        print(f"ladle: note: {one_line(c)}", file=sys.stderr)
     return 0
 
 
@@ -60,8 +61,11 @@ def _covers_at_percent(system) -> list[float] | dict[str, list[float]]:
 
 def render_row(row: dict, width: int) -> list[str]:
     """One system's lines, wrapped to `width` columns: name and title, independent checks
-    passed (and the fit targets, not counted), source."""
+    passed (and the fit targets, not counted), source. The name (a file's) and a file's problem
+    are shown with their control characters escaped."""
     import textwrap
+
+    row = {**row, "name": one_line(row["name"])} | ({"error": one_line(row["error"])} if "error" in row else {})
 
     def wrapped(first: str, text: str) -> list[str]:
         return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=" " * _NAME) or [first.rstrip()]
