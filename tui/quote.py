@@ -34,6 +34,9 @@ def temperature_difference(dT_K: float, unit: str, decimals: int = 1) -> str:
 
 
 SMALLEST_PERCENT = 1e-3   # shares below this (and within it of 100 %) are numerical noise to a reader
+#: Percentages below this are shown as nothing ('0'): rounding noise of sums near 1 (1e-13 of the
+#: alloy), well below a content anyone types (1e-9 wt% is shown '<0.001', as its at% is).
+NOTHING_PERCENT = 1e-11
 
 
 def percent(fraction: float) -> str:
@@ -42,7 +45,7 @@ def percent(fraction: float) -> str:
     rounded up to 100 ('99.98', '>99.999'). JSON output keeps full precision instead."""
     v = 100.0 * fraction
     a = abs(v)
-    if a < 1e-9:
+    if a < NOTHING_PERCENT:
         return "0"
     if a >= 9.995:   # what rounds to 10.00 is shown as 10.0
         rest = 100.0 - a

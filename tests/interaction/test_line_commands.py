@@ -423,3 +423,12 @@ def test_steel_lines_are_read_at_the_reactions_not_on_the_grid(run):
     assert austenite == pytest.approx(carbon(t_a1 + 0.1, 1.2, "fcc"), rel=5e-3)
     assert rows["A3"].endswith(f"to {a1.group(1)} C, C 0-{a1.group(3)} wt%"), rows["A3"]
     assert f"to {a1.group(1)} C, C {a1.group(3)}-" in rows["Acm"], rows["Acm"]
+
+
+def test_a_tiny_content_is_never_shown_as_nothing(run):
+    """1e-9 wt% of silver and copper in tin (shipped ag-cu-sn): each shown '<0.001' in wt% as in
+    at%, never '0' beside a non-zero at% (it said 'Ag 0 wt% (<0.001 at%)')."""
+    code, out, err = run("point", "ag-cu-sn", "--temp", "250C", "--comp", "Ag=1e-9wt%,Cu=1e-9wt%")
+    assert (code, err) == (0, "")
+    alloy = next(line for line in out.splitlines() if line.startswith("alloy: "))
+    assert alloy == "alloy: Sn >99.999 wt% (>99.999 at%), Ag <0.001 wt% (<0.001 at%), Cu <0.001 wt% (<0.001 at%)"
