@@ -47,6 +47,20 @@ def equilibrium_labels(system, phases: Sequence, temperature_K: float) -> list[s
     return labels
 
 
+def change_side(system, phases: Sequence[str], temperature_K: float, equilibrium_at=None) -> str:
+    """'fcc (Ag-rich) + fcc (Cu-rich)', 'bct (Sn) + liquid': the stable phases on one side of a
+    change of an alloy's phases, at temperature_K (K), as the trade reads them. A phase stable
+    twice is named by what each side of the gap is rich in, from `equilibrium_at(T)`, the alloy's
+    point equilibrium at T just on that side (asked only then); otherwise each phase carries its
+    trade name at that temperature."""
+    if len(set(phases)) == len(phases) or equilibrium_at is None:
+        return " + ".join(beside(p, _trade_name(system, p, temperature_K)) for p in phases)
+    eq = equilibrium_at(temperature_K)
+    if sorted(p.name for p in eq.phases) != sorted(phases):
+        return " + ".join(beside(p, _trade_name(system, p, temperature_K)) for p in phases)
+    return " + ".join(equilibrium_labels(system, eq.phases, temperature_K))
+
+
 def beside(phase: str, trade: str | None) -> str:
     """'fcc (austenite)', 'bct (Sn)': a phase with its trade name beside it (bracketed unless the
     name is a bracketed one already); the phase alone where the name is empty or the same."""

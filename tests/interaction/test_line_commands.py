@@ -432,3 +432,24 @@ def test_a_tiny_content_is_never_shown_as_nothing(run):
     assert (code, err) == (0, "")
     alloy = next(line for line in out.splitlines() if line.startswith("alloy: "))
     assert alloy == "alloy: Sn >99.999 wt% (>99.999 at%), Ag <0.001 wt% (<0.001 at%), Cu <0.001 wt% (<0.001 at%)"
+
+
+def test_melt_names_the_phases_of_each_change_as_point_and_transitions_do(run):
+    """`ladle melt` listed its changes by bare structure names ('fcc  ->  fcc + fcc' for
+    sterling silver's solvus): now with the trade's names and the two sides of a gap told apart,
+    the same for a binary (pb-sn) and for the ternary holding it (bi-pb-sn without bismuth)."""
+    def changes(out: str) -> list[str]:
+        block = out.split("on cooling:\n")[1].split("\nsafety:")[0]
+        return [line.split("C  ", 1)[1] for line in block.splitlines()]
+
+    code, out, err = run("melt", "ag-cu", "--comp", "Cu=7.5wt%")
+    assert (code, err) == (0, "")
+    assert changes(out)[-1] == "fcc  ->  fcc (Ag-rich) + fcc (Cu-rich)"
+    code, binary, _ = run("melt", "pb-sn", "--comp", "Sn=40wt%")
+    code3, ternary, err = run("melt", "bi-pb-sn", "--comp", "Bi=0wt%,Sn=40wt%")
+    assert (code, code3, err) == (0, 0, "")
+    assert changes(binary) == ["liquid  ->  fcc (Pb) + liquid", "fcc (Pb) + liquid  ->  fcc (Pb) + bct (Sn)"]
+    def phase_sets(out: str) -> list[list[list[str]]]:
+        return [[sorted(side.split(" + ")) for side in change.split("  ->  ")] for change in changes(out)]
+
+    assert phase_sets(ternary) == phase_sets(binary)

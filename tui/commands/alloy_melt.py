@@ -52,9 +52,10 @@ def run_alloy(system, args: argparse.Namespace) -> int:
     if superheat_K is not None:
         lines.append(pouring_line(pouring_K, superheat_K, unit))
     lines += cast_iron_lines(cast_iron, unit)
+    from .transitions import change_line
+
     lines.append("on cooling:")
-    lines += [f"  {quote.temperature(c.temperature_K, unit):>12}  {' + '.join(c.above)}  ->  {' + '.join(c.below)}"
-              for c in scan.transitions]
+    lines += [f" {change_line(system, c, unit)}" for c in scan.transitions]
     lines += [f"note: {w}" for w in scan.warnings]
     print("\n".join(lines + closing_lines(system)))
     return 0

@@ -114,9 +114,16 @@ def run(args: argparse.Namespace) -> int:
         from .alloy_melt import pouring_line
 
         print(pouring_line(pouring_K, superheat_K, unit))
+    from ladle.engine import equilibrate
+
+    from ..phase_names import change_side
+
     print("on cooling:")
     for c in m.crossings:
-        print(f"  {quote.temperature(c.temperature_K, unit):>12}  {' + '.join(c.above)}  ->  {' + '.join(c.below)}")
+        T = c.temperature_K
+        sides = (change_side(system, phases, T + d, lambda at: equilibrate(system, at, x_b))
+                 for phases, d in ((c.above, 1e-3), (c.below, -1e-3)))
+        print(f"  {quote.temperature(T, unit):>12}  {'  ->  '.join(sides)}")
     for warning in m.warnings:
         print(f"note: {warning}")
     print("\n".join(closing_lines(system)))

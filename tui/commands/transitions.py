@@ -101,17 +101,21 @@ def _phases(names, phases, T: float) -> str:
     return " + ".join(beside(p, names.phase_name(p, T)) for p in phases)
 
 
-def _sides(system, equilibrium, phases: tuple[str, ...]) -> list[str] | None:
-    """The labels of `phases` from the point equilibrium beside a change, where it holds them
-    (both sides of a miscibility gap named by what they are rich in: 'fcc (Cu-rich)'); else None."""
-    from ..phase_names import equilibrium_labels
+def change_line(system, change, unit: str) -> str:
+    """'   749.8 °C  fcc  ->  fcc (Ag-rich) + fcc (Cu-rich)': one change of an alloy's transition
+    scan (engine/diagrams/alloy_transitions.py), its phases named from the point equilibria on
+    both sides of it, for `ladle transitions` and `ladle melt`."""
+    from ..phase_names import change_side
 
-    if sorted(p.name for p in equilibrium.phases) != sorted(phases):
-        return None
-    return equilibrium_labels(system, equilibrium.phases, equilibrium.temperature_K)
+    T = change.temperature_K
+    above = change_side(system, change.above, T + 1e-3, lambda _: change.above_equilibrium)
+    below = change_side(system, change.below, T - 1e-3, lambda _: change.below_equilibrium)
+    return f"  {quote.temperature(T, unit):>11}  {above}  ->  {below}"
 
 
 def _render(system, result, labels, names, window, constituents, alloy, x, w, unit: str) -> list[str]:
+    from ..phase_names import equilibrium_labels
+
     lines = [f"{system_title(system)}, alloy {_alloy_line(system, alloy, x, w)}",
              f"equilibrium phase changes on cooling from {temperature_both(result.highest_K, unit)} "
              f"to {temperature_both(result.lowest_K, unit)} (each within {result.tolerance_K:g} K):"]
@@ -123,13 +127,8 @@ def _render(system, result, labels, names, window, constituents, alloy, x, w, un
         label = labels.get(i)
         if label and label not in used:
             used.append(label)
-        above = _sides(system, t.above_equilibrium, t.above)
-        below = _sides(system, t.below_equilibrium, t.below)
-        lines.append(f"  {quote.temperature(T, unit):>11}  "
-                     f"{' + '.join(above) if above else _phases(names, t.above, T + 1e-3)}  ->  "
-                     f"{' + '.join(below) if below else _phases(names, t.below, T - 1e-3)}"
-                     + (f"   [{label}]" if label else ""))
-        shown = below or [p.name for p in t.amounts_below]
+        lines.append(change_line(system, t, unit) + (f"   [{label}]" if label else ""))
+        shown = equilibrium_labels(system, t.amounts_below, T)
         amounts = ", ".join(f"{name} {quote.percent(p.amount_mass)} mass %" for name, p in zip(shown, t.amounts_below))
         lines.append(f"  {'':>11}  just below: {amounts} of the alloy")
     for label in used:
