@@ -112,6 +112,20 @@ async def test_system_picker_lists_sources_and_narrows_by_typing():
 
 
 @pilot_test
+async def test_a_long_system_title_wraps_indented_under_its_name():
+    # ag-au-cu's title is 'Gold-silver-copper (carat golds, gold solders), above the ordering
+    # range': its last words went to the picker's left edge, like a line of their own.
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("s", *"ag-au-cu")
+        await pilot.pause()
+        lines = screen_text(app).splitlines()
+        name = next(i for i, line in enumerate(lines) if "ag-au-cu  Gold-silver-copper" in line)
+        after = next(part for part in lines[name + 1].split("│") if "ordering" in part)   # inside the picker's border
+        assert "ordering range" in after and after.startswith("     "), lines[name + 1]
+
+
+@pilot_test
 async def test_choosing_another_system_keeps_the_units_and_redraws():
     app = make_app(T_K=500.0, x_B=0.5, temperature_unit="K")
     async with app.run_test(size=SIZE) as pilot:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import textwrap
+
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -83,7 +85,9 @@ class SystemPicker(ModalScreen[str | None]):
         if choice.problem:
             text.append(f"\n    cannot open: {choice.problem}"[:width])
             return text
-        text.append(f"  {choice.title}")
+        lead = len(text.plain) + 2     # the title's first line follows the name
+        title = textwrap.wrap(choice.title, width, initial_indent=" " * lead, subsequent_indent="    ")
+        text.append("  " + "\n".join(title)[lead:])     # a wrapped title goes on indented
         text.append(f"\n    {choice.checks}")
         source = choice.source.replace("\n", " ")
         text.append(f"\n    {source if len(source) <= width - 4 else source[:width - 5] + '~'}")
