@@ -28,6 +28,9 @@ BAD = [
     (("melt", "pb-sn", "--comp", "Sn=60wt%,Pb=50wt%"), "sums to 110 %, over 100 %"),
     (("cool", "pb-sn", "--comp", "Sn=10wt%,Sn=5wt%"), "element Sn is given twice"),
     (("point", "pb-sn", "--temp", "250C", "--comp", "Sn=10wt%,Ag=1wt%"), "element Ag is not in this system"),
+    # two alloy names: refused, not the last one taken silently
+    (("melt", "ag-cu-sn", "--alloy", "Sn96.5Ag3.0Cu0.5", "--alloy", "Sn99.3Cu0.7"),
+     "--alloy is given twice ('Sn96.5Ag3.0Cu0.5' and 'Sn99.3Cu0.7'); name one alloy"),
 ]
 
 

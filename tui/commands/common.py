@@ -27,7 +27,13 @@ class AlloyName(str):
 
 
 class _StoreAlloyName(argparse.Action):
+    """--alloy NAME, once: a second name is refused (the last one would silently win)."""
+
     def __call__(self, parser, namespace, value, option_string=None):
+        given = getattr(namespace, self.dest, None)
+        if given:
+            parser.error(f"--alloy is given twice ({quote.one_line(repr(str(given[0])))} and "
+                         f"{quote.one_line(repr(value))}); name one alloy")
         setattr(namespace, self.dest, [AlloyName(value)])
 
 
