@@ -55,3 +55,15 @@ def test_four_solid_invariants_are_listed_and_in_the_json(run, tmp_path):
     [reaction] = json.loads(out)["invariants"]
     assert reaction["kind"] == "quasi-peritectoid" and reaction["temperature_K"] == pytest.approx(500.0, abs=1e-5)
     assert {p["name"] for p in reaction["phases"]} == {"PbBi", "PbSn", "beta", "gamma"}
+
+
+def test_the_reactions_carry_the_trade_names_the_file_gives(run, ternary_file):
+    """A file's trade names stand beside the structure names in the listed reactions, as on the
+    other commands' tables (the reactions listed 'liquid -> alpha + beta + gamma' whatever the
+    file called its phases)."""
+    path = Path(ternary_file)
+    path.write_text('trade_names = { alpha = "(Pb)", gamma = "eta" }\n' + path.read_text(encoding="utf-8"),
+                    encoding="utf-8")
+    code, out, err = run("diagram", str(path), "--ascii", "--unit", "K")
+    assert code == 0 and err == "", err
+    assert "558.4 K  liquid -> alpha (Pb) + beta + gamma (eta)  (liquid " in out

@@ -298,14 +298,17 @@ def _projection(system, args: argparse.Namespace) -> int:
     lines.append("invariant reactions (liquid composition at%):" if projection.invariants
                  else "invariant reactions of four phases: none found" if not projection.solid_invariants
                  else "invariant reactions with the liquid: none found")
+    from ..phase_names import with_trade_names
+
     for k, r in enumerate(projection.invariants):
         liquid = ", ".join(f"{el} {quote.percent(v)}" for el, v in zip(system.elements, r.phases[0][1]))
-        lines.append(f"  {k + 1}  {r.kind:<16} {quote.temperature(r.temperature_K, args.unit):>12}  {r.equation()}"
-                     f"  (liquid {liquid})")
+        lines.append(f"  {k + 1}  {r.kind:<16} {quote.temperature(r.temperature_K, args.unit):>12}  "
+                     f"{with_trade_names(system, r.equation(), r.temperature_K)}  (liquid {liquid})")
     if projection.solid_invariants:
         lines.append("invariant reactions of four solids:")
     for r in projection.solid_invariants:
-        lines.append(f"     {r.kind:<17} {quote.temperature(r.temperature_K, args.unit):>12}  {r.equation()}")
+        lines.append(f"     {r.kind:<17} {quote.temperature(r.temperature_K, args.unit):>12}  "
+                     f"{with_trade_names(system, r.equation(), r.temperature_K)}")
     lines += [f"note: {w}" for w in projection.warnings]
     print("\n".join(ascii_text(lines + closing_lines(system), args.ascii)))
     return 0
