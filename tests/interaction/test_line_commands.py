@@ -453,3 +453,28 @@ def test_melt_names_the_phases_of_each_change_as_point_and_transitions_do(run):
         return [[sorted(side.split(" + ")) for side in change.split("  ->  ")] for change in changes(out)]
 
     assert phase_sets(ternary) == phase_sets(binary)
+
+
+def test_steel_diagram_json_has_the_kind_and_compositions_of_each_reaction(run):
+    """`ladle diagram fe-fe3c --json` (drawn as an isopleth) gives each invariant reaction the
+    `kind` a mapped binary's JSON has, and its phases' compositions at the reaction. Check values
+    (ASM Handbook Vol. 3, Alloy Phase Diagrams (1992), Fe-C, recalled from memory): the peritectic
+    at 1495 C (delta ferrite 0.09, austenite 0.17, liquid 0.53 wt% C), the ledeburite eutectic at
+    1147 C (austenite 2.11, liquid 4.30 wt% C), the eutectoid at 727 C (ferrite 0.022, austenite
+    0.77 wt% C); cementite is Fe3C (25 at% C)."""
+    code, out, err = run("diagram", "fe-fe3c", "--json")
+    assert (code, err) == (0, "")
+    reactions = {r["kind"]: r for r in json.loads(out)["invariants"]}
+    assert set(reactions) == {"peritectic", "eutectic", "eutectoid"}
+    expected = {"peritectic": (1495.0, {"bcc": 0.09, "fcc": 0.17, "liquid": 0.53}),
+                "eutectic": (1147.0, {"fcc": 2.11, "liquid": 4.30}),
+                "eutectoid": (727.0, {"bcc": 0.022, "fcc": 0.77})}
+    for kind, (T_C, carbon) in expected.items():
+        r = reactions[kind]
+        assert r["temperature_K"] - 273.15 == pytest.approx(T_C, abs=3.0)
+        found = {c["name"]: 100.0 * c["mass_fraction"]["C"] for c in r["compositions"]}
+        assert [c["name"] for c in r["compositions"]] == sorted(found, key=found.get)
+        for phase, wt in carbon.items():
+            assert found[phase] == pytest.approx(wt, rel=0.15, abs=0.01), (kind, phase)
+        if "Fe3C" in found:
+            assert {c["name"]: c for c in r["compositions"]}["Fe3C"]["mole_fraction"]["C"] == pytest.approx(0.25)

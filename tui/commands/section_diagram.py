@@ -99,6 +99,7 @@ def show_isopleth(system, iso, title: str, args: argparse.Namespace) -> int:
         data = iso.to_json()
         for line, label in zip(data["lines"], labels):
             line["label"] = label
+        _invariants_json(iso, data)
         print_json(data)
         return 0
     from ..explorer.glyphs import glyphs_for
@@ -155,7 +156,41 @@ def _invariant_equilibria(iso, invariant) -> dict | None:
     *_, eq_below, eq_above = narrow_change(lambda T: equilibrate(system, T, x), below, above, phase_set(eq_below),
                                            eq_below, eq_above, 1e-6, system)
     found = {p.name: p for eq in (eq_below, eq_above) if eq is not None for p in eq.phases}
-    return found if set(invariant.phases) <= set(found) else None
+    if eq_above is None or not set(invariant.phases) <= set(found):
+        return None
+    return {**found, _ABOVE: {p.name for p in eq_above.phases}}
+
+
+#: The key of `_invariant_equilibria`'s answer that holds the names of the phases stable just above.
+_ABOVE = " above"
+
+
+def _invariant_kind(iso, found: dict) -> str | None:
+    """'eutectic', 'eutectoid', 'peritectic' or 'peritectoid': a binary's invariant reaction by
+    its middle phase (in composition) and the side it is stable on, as for a mapped diagram's
+    reactions; None for another kind. `found`: `_invariant_equilibria`'s answer."""
+    names = sorted((n for n in found if n != _ABOVE), key=lambda n: _content(iso, found[n]))
+    middle, liquid = names[1], "liquid" in names
+    if middle in found[_ABOVE]:                 # the middle phase gives way to the outer two on cooling
+        return "eutectic" if middle == "liquid" else None if liquid else "eutectoid"
+    if middle == "liquid":                      # the outer two form the middle one on cooling
+        return None
+    return ("peritectic" if "liquid" in found[_ABOVE] else None) if liquid else "peritectoid"
+
+
+def _invariants_json(iso, data: dict) -> None:
+    """A binary's invariant reactions in `data` (the isopleth's JSON) get the mapped diagram's
+    `kind` and each phase's composition at the reaction (`compositions`: name, mole_fraction,
+    mass_fraction), from `_invariant_equilibria`; those of three or more elements stay as they are."""
+    els = iso.system.elements
+    for inv, out in zip(iso.invariants, data["invariants"]):
+        found = _invariant_equilibria(iso, inv)
+        if found is None:
+            continue
+        out["kind"] = _invariant_kind(iso, found)
+        out["compositions"] = [{"name": n, "mole_fraction": {el: float(v) for el, v in zip(els, found[n].x)},
+                                "mass_fraction": {el: float(v) for el, v in zip(els, found[n].w)}}
+                               for n in sorted(inv.phases, key=lambda n: _content(iso, found[n]))]
 
 
 def _content(iso, share) -> float:
