@@ -7,7 +7,7 @@ import re
 
 from rich.console import Console
 
-from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_text
+from explorer_harness import SIZE, make_app, pilot_test, screen_text, section_app, status_text
 
 from ladle.engine import equilibrate
 from ladle.tui.explorer import run
@@ -39,6 +39,20 @@ async def test_p_saves_the_screen_as_text_and_svg(clean_environment):
         svg = (clean_environment / "ladle-screen-pb-sn-diagram.svg").read_text()
         assert text == screen_text(app) and "POINT" in text
         assert svg.startswith("<svg") and "POINT" in svg
+
+
+@pilot_test
+async def test_p_saves_an_isopleth_screen_too(clean_environment):
+    # The isopleth screen (three elements, or Fe-C) had no p: the key did nothing there.
+    app = section_app("ag-cu-sn")
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("p")
+        await pilot.pause()
+        text = (clean_environment / "ladle-screen-ag-cu-sn-isopleth.txt").read_text()
+        svg = (clean_environment / "ladle-screen-ag-cu-sn-isopleth.svg").read_text()
+        assert "ag-cu-sn  isopleth" in text and "POINT" in text and svg.startswith("<svg")
+        notices = [n.message for n in app._notifications]
+        assert any("ladle-screen-ag-cu-sn-isopleth.txt" in n for n in notices)
 
 
 @pilot_test

@@ -4,7 +4,6 @@ pane."""
 from __future__ import annotations
 
 import json
-from pathlib import Path
 
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -13,8 +12,6 @@ from textual.events import Resize
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Input, Static
 
-from ladle.engine.files.atomic_files import write_new_files
-from ladle.tui.errors import os_error_text
 from ladle.tui.commands.common import coverage_note
 from ladle.tui.quote import percent
 
@@ -28,7 +25,6 @@ from ..glyphs import Glyphs
 from ..keymap import MAIN_KEYS
 from ..reaction_rows import reaction_rows
 from ..readout import format_step, format_temperature_value
-from ..screen_text import screen_text
 from ..status_lines import (Line, alloy_line, energy_lines, melt_lines, phase_lines,
                             point_lines, status_lines, without_heading)
 from ..widgets.diagram_view import DiagramView
@@ -39,17 +35,15 @@ from ..widgets.point_entry import PointEntry
 from ..widgets.reactions_view import ReactionsView
 from ..widgets.status_pane import StatusPane
 from ..widgets.title_bar import TitleBar
+from .file_writing import WritesFiles
 from .help import HelpScreen
 
 MIN_WIDTH, MIN_HEIGHT = 80, 24
-NOTICE_S = 3.0   # a "wrote ..." notice leaves the status pane after this long
-NOTICE_WAITS = 20   # frames to wait at most for notices to leave before a screenshot
-FRAME_S = 0.02
 SAVE_DELAY_S = 1.0   # the remembered point is written this long after the last change
 STEP_ROOM = 28       # characters the step may use in the status pane's lower border
 
 
-class ExploreScreen(Screen[None]):
+class ExploreScreen(WritesFiles, Screen[None]):
     """Keys move the cursor; the status pane and the plot follow."""
 
     BINDINGS = [Binding(use.keys, use.action, use.description, show=False)
@@ -275,36 +269,10 @@ class ExploreScreen(Screen[None]):
         comp = percent(e.scales.shown_fraction(e.cursor.x_B))
         stem = safe_stem(f"ladle-point-{e.system.name}-{T}{e.scales.temperature_unit}-"
                          f"{comp}{e.scales.composition_unit}")
-        self._write(stem, {".json": text}, also_copy=True)
+        self.write_files(stem, {".json": text}, also_copy=True)
 
-    def action_write_screen(self) -> None:
-        self.app.clear_notifications()   # a notice from `w` is not part of the screen to save
-        self._save_screen()
-
-    def _save_screen(self, waited: int = 0, clear: int = 0) -> None:
-        """Save once no notice has been on the screen for two looks a frame apart (the screen
-        is then drawn without it)."""
-        clear = 0 if self.query("Toast") else clear + 1
-        if clear < 2 and waited < NOTICE_WAITS:
-            self.refresh(layout=True)
-            self.set_timer(FRAME_S, lambda: self._save_screen(waited + 1, clear))
-            return
-        stem = safe_stem(f"ladle-screen-{self.exploration.system.name}-{self.view}")
-        self._write(stem, {".txt": screen_text(self.app), ".svg": self.app.export_screenshot(title="ladle")})
-
-    def _write(self, stem: str, texts: dict[str, str], also_copy: bool = False) -> None:
-        """Write the texts (suffix -> text) under one new number in the working folder and say
-        where (in a browser: on the disk of the machine that serves the explorer)."""
-        try:
-            paths = write_new_files(Path.cwd(), stem, texts)
-        except OSError as error:
-            self.app.notify(f"nothing written: {os_error_text(error)}", severity="error", markup=False)
-            return
-        if also_copy:
-            self.app.copy_to_clipboard(next(iter(texts.values())))
-        where = " on the server's disk" if self.app.is_web else ""
-        self.app.notify(f"wrote {' and '.join(str(p) for p in paths)}{where}"
-                        + (" (and copied it)" if also_copy else ""), timeout=NOTICE_S, markup=False)   # paths as they are
+    def screen_stem(self) -> str:
+        return f"{self.exploration.system.name}-{self.view}"
 
     # -- remembering the point -------------------------------------------------------------
 

@@ -34,6 +34,7 @@ from ..section_exploration import SectionExploration
 from ..widgets.point_entry import PointEntry
 from ..widgets.section_view import SectionView
 from ..widgets.status_pane import StatusPane
+from .file_writing import WritesFiles
 from .help import HelpScreen
 
 #: The key bar of a ternary's isopleth: each key and its word (a binary drawn as an isopleth, and
@@ -53,6 +54,7 @@ HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in 
              ("t", "temperatures in C, K or F, everywhere"),
              ("+ - 0", "zoom the isopleth in, out, or show all of it again (the arrows' steps follow the zoom)"),
              ("s", "choose another system"),
+             ("p", "save the screen as text and SVG files (in the working folder, never over an existing file)"),
              ("Esc", "close the entry line"),
              ("?", "this help"),
              ("q", "quit")]
@@ -89,7 +91,7 @@ def help_rows(exploration: SectionExploration) -> list[tuple[str, str]]:
     return rows
 
 
-class SectionScreen(Screen[None]):
+class SectionScreen(WritesFiles, Screen[None]):
     """Keys move the cursor on the isopleth; the status pane follows."""
 
     BINDINGS = [Binding("left", "move(-1, 0)", show=False), Binding("right", "move(1, 0)", show=False),
@@ -99,7 +101,7 @@ class SectionScreen(Screen[None]):
                 Binding("u", "composition_unit", show=False),
                 Binding("g", "go_to", show=False), Binding("s", "app.systems", show=False),
                 Binding("plus,equals_sign", "zoom(True)", show=False), Binding("minus", "zoom(False)", show=False),
-                Binding("0", "whole", show=False),
+                Binding("0", "whole", show=False), Binding("p", "write_screen", show=False),
                 Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
                 Binding("q", "app.quit", show=False)]
 
@@ -300,6 +302,9 @@ class SectionScreen(Screen[None]):
     def action_help(self) -> None:
         e = self.exploration
         self.app.push_screen(HelpScreen(self.glyphs, e.system.name, e.system.safety, e.element, help_rows(e)))
+
+    def screen_stem(self) -> str:
+        return f"{self.exploration.system.name}-{self.exploration.view}"
 
     def action_view(self, view: str) -> None:
         self.exploration.switch_view(view)
