@@ -152,6 +152,11 @@ def test_the_structure_keeps_each_constituents_amounts_together():
     assert texts[primary + 1] == "   >99.999 / 90.1"
     eutectic = texts.index(" eutectic austenite +")
     assert texts[eutectic + 1:eutectic + 3] == ["   cementite (ledeburite)", "   - / 9.93"]
+    # Where the pane is short (A356.0 in al-mg-si: its ternary eutectic's amounts fell under the
+    # caution), the screen's second choice names the paths in the heading: one line less.
+    compact = iron.freezing_lines("C", "°C", compact=True)
+    assert len(compact) == len(texts) - 1 and ("heading", "STRUCTURE mass %: eq. / Scheil") in compact
+    assert all(len(text) <= 30 for _, text in compact)
 
 
 def test_a_long_change_name_wraps_under_its_temperature():

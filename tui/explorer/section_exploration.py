@@ -286,9 +286,10 @@ class SectionExploration:
         key = self.alloy_key()
         return key, solidify_alloy(self.system, np.array(key))
 
-    def freezing_lines(self, unit: str, unit_text: str) -> list[Line]:
+    def freezing_lines(self, unit: str, unit_text: str, compact: bool = False) -> list[Line]:
         """The cursor's alloy's liquidus, the end of freezing by both paths and the structure at
-        the end (mass %), or a note while they are computed."""
+        the end (mass %), or a note while they are computed (`compact`: the structure's heading
+        names the two paths, one line less)."""
         from ladle.tui.cooling_text import PATH_NAMES, structure_rows
 
         result = self.freezing.get(self.alloy_key())
@@ -303,7 +304,8 @@ class SectionExploration:
             end = "liquid left" if path.end_K is None else f"{kelvin_to(path.end_K, unit):.1f} {unit_text}"
             lines.append(("value", f" {name} end {end}"))
             lines.append(("note", f"   ({path.end})"))
-        lines += [("heading", "STRUCTURE, mass %"), ("note", " equilibrium / Scheil")]
+        lines += ([("heading", "STRUCTURE mass %: eq. / Scheil")] if compact else
+                  [("heading", "STRUCTURE, mass %"), ("note", " equilibrium / Scheil")])
         for name, fractions in structure_rows(result):
             shown = " / ".join("-" if f is None else percent(f) for f in fractions)
             named = self.constituent_name(name, result.equilibrium.liquidus_K)

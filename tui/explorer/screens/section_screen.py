@@ -215,9 +215,10 @@ class SectionScreen(WritesFiles, Screen[None]):
         e = self.exploration
         unit = self.query_one(SectionView).unit
         unit_text = self.glyphs.temperature_unit(unit)
-        if e.view == "cooling":
-            self.query_one(StatusPane).show_lines(e.status_lines(self._equilibrium, unit, unit_text, phases=False)
-                                                  + e.freezing_lines(unit, unit_text))
+        if e.view == "cooling":     # where the structure would be cut off: without POINT, one line less
+            self.query_one(StatusPane).show_lines(*(e.status_lines(self._equilibrium, unit, unit_text, phases=False,
+                                                                   compact=c) + e.freezing_lines(unit, unit_text, c)
+                                                    for c in (False, True)))
             return
         tail = []
         if e.view == "isopleth" and e.lists_changes:
