@@ -115,7 +115,7 @@ def test_numbered_fields_run_without_a_gap_where_one_is_too_small_to_mark():
     wanted = [(f"{wide} A", 5.0, 5.0), (f"{wide} B", 5.0, 5.0), (f"{wide} C", 5.0, 1.0)]
     labels, key = labelled_fields(wanted, frame)
     assert sorted(label.text for label in labels) == ["1", "2"]
-    assert key == [f"1: {wide} A", f"2: {wide} C", f"too small to mark: {wide} B"]
+    assert key == [f"1: {wide} A", f"2: {wide} C", f"too small: {wide} B"]
 
 
 def test_a_change_inside_the_freezing_range_is_named_by_the_solid_that_forms():

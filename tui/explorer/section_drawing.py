@@ -74,7 +74,7 @@ def labelled_fields(wanted: list[tuple[str, float, float]], frame: Frame,
             numbered.append(Label(tag, x, y))
             key.append(f"{tag}: {name}")
         else:
-            unmarked.append(f"too small to mark: {name}")
+            unmarked.append(f"too small: {name}")
     return placed + numbered, key + unmarked
 
 
