@@ -7,10 +7,13 @@ temperature functions only (no mixing involved).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
 
+from ..units import GAS_CONSTANT
+from .magnetic import hillert_jarl
 from .phases import SolutionPhase
 from .sublattice import SublatticePhase
 
@@ -35,13 +38,32 @@ def _pure_function(phase, index: int):
     return None
 
 
+def _pure_magnetic(phase, index: int, T: float) -> float:
+    """G (J/mol) of the magnetic term of pure element `index` in a substitutional solution phase
+    at T (K): R T ln(1 + beta) f(T / Tc) with the element's own Curie temperature and moment
+    (antiferromagnetic values divided by the phase's factor); 0 for a phase without the term.
+    (A substitutional sublattice phase's magnetic terms are not read here: no shipped one has
+    them.)"""
+    mag = phase.magnetic if isinstance(phase, SolutionPhase) else None
+    if mag is None:
+        return 0.0
+    tc, beta = float(mag.curie_K[index]), float(mag.moment[index])
+    tc = tc / mag.antiferro_factor if tc < 0.0 else tc
+    beta = beta / mag.antiferro_factor if beta < 0.0 else beta
+    if tc <= 1e-9:
+        return 0.0
+    return GAS_CONSTANT * T * math.log1p(beta) * hillert_jarl(T / tc, mag.above_curie_fraction, 0)[0]
+
+
 def _pure_gibbs(phases: dict, index: int, T: float) -> dict[str, float]:
-    """G (J/mol) of pure element `index` in every solution phase that is defined at T."""
+    """G (J/mol) of pure element `index` in every solution phase that is defined at T: its end
+    member's function and, where the phase has one, its magnetic term (the same G the
+    equilibrium sees at the pure element)."""
     out = {}
     for name, ph in phases.items():
         f = _pure_function(ph, index)
         if f is not None and f.lower_K <= T <= f.upper_K:
-            out[name] = f.value(T)
+            out[name] = f.value(T) + _pure_magnetic(ph, index, T)
     return out
 
 

@@ -136,7 +136,7 @@ class EquilibriumCooling:
                     continue
                 kind = "primary" if not kinds else reaction.kind if reaction is not None else "boundary"
                 kinds[name] = kind
-                forms.append((name, T if steps[-1].temperature_K == T else self.liquidus_K))
+                forms.append((name, T if steps and steps[-1].temperature_K == T else self.liquidus_K))
                 if kind != "primary" and not (arrests and arrests[-1].temperature_K == T):
                     arrests.append(Arrest(T, "new phase", f"{kind}: {name} starts to form"))
             steps.append(step)
