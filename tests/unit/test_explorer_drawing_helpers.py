@@ -6,10 +6,10 @@ from ladle.tui.explorer.glyphs import ASCII, UNICODE
 from ladle.tui.explorer.keymap import MAIN_KEYS, help_rows, key_bar_text
 from ladle.engine import find_system
 from ladle.tui.explorer.cursor import Cursor
-from ladle.tui.explorer.energy_drawing import energy_scene
+from ladle.tui.explorer.energy_drawing import draw_energy, energy_scene
 from ladle.tui.explorer.exploration import Exploration
-from ladle.tui.explorer.plotting import (Frame, Label, inside_frame, joined, place_labels,
-                                         round_ticks, thin_polyline)
+from ladle.tui.explorer.plotting import (Frame, Label, inside_frame, joined, place_choices,
+                                         place_labels, round_ticks, thin_polyline)
 from ladle.tui.explorer.scales import Scales
 
 FRAME = Frame(0.0, 100.0, 0.0, 400.0, columns=40, rows=20)
@@ -89,3 +89,41 @@ def test_a_compound_at_the_energy_windows_edge_is_named():
     scene = energy_scene(e, 44, 20)      # the energy plot's size on an 80x24 screen
     assert [name for name, _, _ in scene.points] == ["AuSn"]
     assert "AuSn" in [label.text for label in scene.labels]
+
+
+def test_a_curve_crowded_out_at_its_lowest_point_is_named_elsewhere():
+    # Au-Sn at 600 C: fcc (Au) and hcp (zeta) have their lowest points in one cell, so the hcp
+    # curve went unnamed; it is now named at another of its points, in its own colour.
+    system = find_system("au-sn")
+    e = Exploration(system, Scales(system.molar_mass, "C", "wt"), Cursor(873.15, 0.116))
+    scene = energy_scene(e, 46, 21)
+    assert {"fcc", "hcp", "liquid"} <= {label.text for label in scene.labels}
+    first, second = Label("first", 50.0, 200.0), Label("second", 50.0, 200.0)
+    aside = Label("second", 20.0, 200.0)
+    assert place_choices([[first], [second, aside]], FRAME) == [first, aside]
+
+
+class _Recorder:
+    """Records plotext's text calls (the rest of the figure API does nothing)."""
+
+    def __init__(self):
+        self.texts = []
+
+    def text(self, label, x, y, **options):
+        self.texts.append((label, options.get("color")))
+
+    def __getattr__(self, name):
+        return lambda *args, **kwargs: None
+
+
+def test_each_curves_name_takes_its_curves_colour():
+    system = find_system("au-sn")
+    e = Exploration(system, Scales(system.molar_mass, "C", "wt"), Cursor(873.15, 0.116))
+    scene = energy_scene(e, 46, 21)
+    plt = _Recorder()
+    draw_energy(plt, scene, UNICODE)
+    colours = dict(plt.texts)
+    assert colours["fcc"] != colours["hcp"] and colours["AuSn"] is None
+    plt = _Recorder()
+    draw_energy(plt, scene, UNICODE, colour=False)
+    assert all(colour is None for _, colour in plt.texts)

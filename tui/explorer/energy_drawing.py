@@ -15,7 +15,7 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, inside_frame, joined, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, inside_frame, joined, place_choices, thin_polyline
 from .diagram_drawing import plot_area
 
 ENVELOPE_POINTS = 120        # envelope samples across the window (drawn: one per cell)
@@ -74,7 +74,7 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
                 points.append((name, float(shown_x[0]), float(y[0])))
                 above = float(y[0]) + span * 0.12     # its name above it, else below it
                 label_y = above if above <= frame.y_high else float(y[0]) - span * 0.12
-                labels.append(inside_frame(Label(name, float(shown_x[0]), label_y), frame))
+                labels.append([inside_frame(Label(name, float(shown_x[0]), label_y), frame)])
             continue
         keep = inside(x) & (y <= frame.y_high + span)
         if not (keep & (y >= frame.y_low) & (y <= frame.y_high)).any():
@@ -82,7 +82,11 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
         xs, ys = thin_polyline(shown_x[keep], y[keep], frame, per_cell=(1, 1))
         curves.append((name, xs.tolist(), ys.tolist()))
         lowest = int(np.argmin(ys))
-        labels.append(Label(name, float(xs[lowest]), float(ys[lowest]) - span * 0.08))
+        shown = np.flatnonzero((ys >= frame.y_low) & (ys <= frame.y_high))   # the curve's points on the plot
+        elsewhere = [int(shown[int(share * (shown.size - 1))]) for share in (0.25, 0.75, 0.5)]
+        labels.append([Label(name, float(xs[i]), float(ys[i]) + side * span * 0.08)   # under its lowest point,
+                       for i, side in [(lowest, -1)] + [(i, s) for i in elsewhere for s in (-1, 1)]])  # else beside another
+
     tangents = []
     for tie in section.tie_lines:
         ends = np.array(tie.x_B)
@@ -93,14 +97,15 @@ def energy_scene(exploration: Exploration, width: int, height: int) -> EnergySce
     element_B = exploration.system.elements[1]
     envelope = thin_polyline(scales.shown_composition(x_env), env_rel, frame, per_cell=(1, 1))
     return EnergyScene(frame, curves, points, (envelope[0].tolist(), envelope[1].tolist()),
-                       joined(tangents), place_labels(labels, frame),
+                       joined(tangents), place_choices(labels, frame),
                        f"{element_B} {scales.composition_unit}%   G kJ/mol, relative (see right)")
 
 
 def draw_energy(plt, scene: EnergyScene, glyphs: Glyphs, colour: bool = True) -> None:
-    """Issue the plot calls: curves, envelope, tangents, labels and a legend of the envelope
-    and the tangent (the explorer writes the cursor's line over the built picture). Without
-    `colour` each phase's curve has its own mark, named in the legend too."""
+    """Issue the plot calls: curves, envelope, tangents, labels (each curve's in its colour) and
+    a legend of the envelope and the tangent (the explorer writes the cursor's line over the
+    built picture). Without `colour` each phase's curve has its own mark, named in the legend
+    too."""
     frame = scene.frame
     draw_frame(plt, frame, scene.x_title)
     for index, (name, xs, ys) in enumerate(scene.curves):
@@ -117,5 +122,7 @@ def draw_energy(plt, scene: EnergyScene, glyphs: Glyphs, colour: bool = True) ->
                  label=TANGENT_LABEL)
     for _, x, y in scene.points:
         plt.scatter([x], [y], marker=glyphs.cursor_marker)
-    for label in scene.labels:
-        plt.text(label.text, label.x, label.y, alignment="center")
+    curve_colour = {name: CURVE_COLOURS[i % len(CURVE_COLOURS)] for i, (name, _, _) in enumerate(scene.curves)}
+    for label in scene.labels:      # in colour, a curve's name takes its curve's colour
+        plt.text(label.text, label.x, label.y, alignment="center",
+                 color=curve_colour.get(label.text) if colour else None)

@@ -110,6 +110,20 @@ def place_labels(wanted: Sequence[Label], frame: Frame) -> list[Label]:
     return placed
 
 
+def place_choices(choices: Sequence[Sequence[Label]], frame: Frame) -> list[Label]:
+    """One label of each group at most, in order of preference: each group's first choice that
+    fits beside those already placed (as `place_labels` judges), so that a name crowded out at
+    one spot of its curve is written at another."""
+    placed: list[Label] = []
+    for group in choices:
+        for label in group:
+            trial = place_labels(placed + [label], frame)
+            if len(trial) > len(placed):
+                placed = trial
+                break
+    return placed
+
+
 def round_ticks(low: float, high: float, count: int) -> list[float]:
     """About `count` tick positions on round numbers between low and high."""
     step = nice_step(high - low, max(count, 1))
