@@ -92,7 +92,10 @@ class AlloyPath:
             return AlloyStep(T, s.fraction_solid, s.fraction_solid_mol, s.liquid_x, s.phases, s.latent_heat_J_per_g)
         k = next(i for i in range(1, len(steps)) if steps[i].temperature_K < T)
         v = _between(steps, k, T)
-        liquid = None if steps[k - 1].liquid_x is None or steps[k].liquid_x is None else tuple(float(u) for u in v[3:])
+        # each element's monotone slope is its own, so the pieces' sum can stray from 1 by the
+        # order of the step's curvature: the liquid's mole fractions are scaled back to 1
+        liquid = (None if steps[k - 1].liquid_x is None or steps[k].liquid_x is None
+                  else tuple(float(u) for u in v[3:] / v[3:].sum()))
         return AlloyStep(T, float(v[0]), float(v[1]), liquid, steps[k].phases, float(v[2]))
 
     def to_json(self) -> dict:

@@ -68,6 +68,10 @@ def test_scheil_in_an_ideal_lens_follows_an_independent_integration(monkeypatch)
     for s, ui in zip(steps, u):
         assert s.liquid_x == pytest.approx(tuple(solution.sol(ui)), abs=5e-5)   # measured: 9.7e-6 at most
         assert s.temperature_K == pytest.approx(liquidus(solution.sol(ui)), abs=0.02)
+    for a, b in zip(steps, steps[1:]):             # between the steps: the tables' interpolation
+        mid = path.state_at(0.5 * (a.temperature_K + b.temperature_K))
+        assert sum(mid.liquid_x) == pytest.approx(1.0, abs=1e-12)
+        assert mid.liquid_x == pytest.approx(tuple(solution.sol(-np.log(1.0 - mid.fraction_solid_mol))), abs=5e-5)
     assert path.end == "last liquid"
 
 
