@@ -42,8 +42,9 @@ async def test_p_saves_the_screen_as_text_and_svg(clean_environment):
 
 
 @pilot_test
-async def test_p_saves_an_isopleth_screen_too(clean_environment):
-    # The isopleth screen (three elements, or Fe-C) had no p: the key did nothing there.
+async def test_w_and_p_write_on_the_isopleth_screen_too(clean_environment):
+    # The isopleth screen (three elements, or Fe-C) had neither: the keys did nothing there.
+    # ag-cu-sn opens at 5 at% Ag and Cu, Sn the balance (README).
     app = section_app("ag-cu-sn")
     async with app.run_test(size=SIZE) as pilot:
         await pilot.press("p")
@@ -51,8 +52,15 @@ async def test_p_saves_an_isopleth_screen_too(clean_environment):
         text = (clean_environment / "ladle-screen-ag-cu-sn-isopleth.txt").read_text()
         svg = (clean_environment / "ladle-screen-ag-cu-sn-isopleth.svg").read_text()
         assert "ag-cu-sn  isopleth" in text and "POINT" in text and svg.startswith("<svg")
-        notices = [n.message for n in app._notifications]
-        assert any("ladle-screen-ag-cu-sn-isopleth.txt" in n for n in notices)
+        assert any("ladle-screen-ag-cu-sn-isopleth.txt" in n.message for n in app._notifications)
+        await pilot.press("w")
+        await pilot.pause()
+        written = list(clean_environment.glob("ladle-point-ag-cu-sn-*.json"))
+        assert [p.name for p in written] == ["ladle-point-ag-cu-sn-275C-Ag5.00-Cu1.85at.json"]
+        e = app.explore_screen.exploration
+        assert json.loads(written[0].read_text()) == json.loads(json.dumps(
+            equilibrate(e.system, e.cursor.temperature_K, e.x_at_cursor()).to_json(e.system)))
+        assert app.clipboard == written[0].read_text()
 
 
 @pilot_test

@@ -3,8 +3,6 @@ pane."""
 
 from __future__ import annotations
 
-import json
-
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
@@ -20,7 +18,6 @@ from ..cooling import CoolingView
 from ..cooling_status import cooling_lines
 from ..entry import TypedPoint, check_inside
 from ..exploration import Exploration, Reading
-from ..exports import safe_stem
 from ..glyphs import Glyphs
 from ..keymap import MAIN_KEYS
 from ..reaction_rows import reaction_rows
@@ -264,12 +261,10 @@ class ExploreScreen(WritesFiles, Screen[None]):
         except (ValueError, ArithmeticError) as error:
             self.app.notify(f"nothing written: {error}", severity="error", markup=False)
             return
-        text = json.dumps(result.to_json(e.system), indent=1) + "\n"
         T = format_temperature_value(e.scales.shown_temperature(e.cursor.temperature_K))
         comp = percent(e.scales.shown_fraction(e.cursor.x_B))
-        stem = safe_stem(f"ladle-point-{e.system.name}-{T}{e.scales.temperature_unit}-"
-                         f"{comp}{e.scales.composition_unit}")
-        self.write_files(stem, {".json": text}, also_copy=True)
+        self.write_point(result, e.system, f"{e.system.name}-{T}{e.scales.temperature_unit}-"
+                                           f"{comp}{e.scales.composition_unit}")
 
     def screen_stem(self) -> str:
         return f"{self.exploration.system.name}-{self.view}"

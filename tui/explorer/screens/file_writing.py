@@ -6,6 +6,7 @@ the machine that serves the explorer)."""
 
 from __future__ import annotations
 
+import json
 from pathlib import Path
 
 from ladle.engine.files.atomic_files import write_new_files
@@ -21,7 +22,8 @@ FRAME_S = 0.02
 
 class WritesFiles:
     """A Screen mixin: `action_write_screen` saves the screen as ladle-screen-<screen_stem()>
-    .txt and .svg; `write_files` writes texts under a new number."""
+    .txt and .svg; `write_point` a point's result as JSON; `write_files` any texts under a new
+    number."""
 
     def screen_stem(self) -> str:
         """What the saved screen's file names say after 'ladle-screen-' (system and view)."""
@@ -41,6 +43,12 @@ class WritesFiles:
             return
         self.write_files(safe_stem(f"ladle-screen-{self.screen_stem()}"),
                          {".txt": screen_text(self.app), ".svg": self.app.export_screenshot(title="ladle")})
+
+    def write_point(self, result, system, what: str) -> None:
+        """Write a point equilibrium as `ladle point --json` gives it, to
+        ladle-point-<what>.json (and copy it)."""
+        text = json.dumps(result.to_json(system), indent=1) + "\n"
+        self.write_files(safe_stem(f"ladle-point-{what}"), {".json": text}, also_copy=True)
 
     def write_files(self, stem: str, texts: dict[str, str], also_copy: bool = False) -> None:
         """Write the texts (suffix -> text) under one new number in the working folder and say

@@ -54,6 +54,7 @@ HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in 
              ("t", "temperatures in C, K or F, everywhere"),
              ("+ - 0", "zoom the isopleth in, out, or show all of it again (the arrows' steps follow the zoom)"),
              ("s", "choose another system"),
+             ("w", "write the point's result as JSON, as ladle point --json gives it (and copy it)"),
              ("p", "save the screen as text and SVG files (in the working folder, never over an existing file)"),
              ("Esc", "close the entry line"),
              ("?", "this help"),
@@ -102,6 +103,7 @@ class SectionScreen(WritesFiles, Screen[None]):
                 Binding("g", "go_to", show=False), Binding("s", "app.systems", show=False),
                 Binding("plus,equals_sign", "zoom(True)", show=False), Binding("minus", "zoom(False)", show=False),
                 Binding("0", "whole", show=False), Binding("p", "write_screen", show=False),
+                Binding("w", "write_point", show=False),
                 Binding("escape", "back", show=False), Binding("question_mark,f1", "help", show=False),
                 Binding("q", "app.quit", show=False)]
 
@@ -143,7 +145,8 @@ class SectionScreen(WritesFiles, Screen[None]):
             return f" {e.system.name}  isothermal section at {T:.1f} {self.glyphs.temperature_unit(unit)}"
         if e.is_binary:
             return f" {e.system.name}  {e.system.title}"
-        shares = mass_from_mole(e.alloy, e.system.molar_mass) if e.basis == "wt" else e.alloy
+        x = e.x_at_cursor()
+        shares = mass_from_mole(x, e.system.molar_mass) if e.basis == "wt" else x
         held = ", ".join(f"{el} {percent(shares[i])}" for i, el in enumerate(e.system.elements)
                          if i not in (0, e.varying))
         return f" {e.system.name}  isopleth: {e.element} varies; {held} {e.basis}%; {e.system.elements[0]} balance"
@@ -306,6 +309,20 @@ class SectionScreen(WritesFiles, Screen[None]):
 
     def screen_stem(self) -> str:
         return f"{self.exploration.system.name}-{self.exploration.view}"
+
+    def action_write_point(self) -> None:
+        e = self.exploration
+        try:
+            result = self._equilibrium or e.equilibrium()
+        except (ValueError, ArithmeticError) as error:
+            self.app.notify(f"nothing written: {error}", severity="error", markup=False)
+            return
+        unit = self.query_one(SectionView).unit
+        x = e.x_at_cursor()
+        shares = mass_from_mole(x, e.system.molar_mass) if e.basis == "wt" else x
+        alloy = "-".join(f"{el}{percent(shares[i])}" for i, el in enumerate(e.system.elements) if i > 0)
+        self.write_point(result, e.system, f"{e.system.name}-{kelvin_to(e.cursor.temperature_K, unit):.0f}{unit}-"
+                                           f"{alloy}{e.basis}")
 
     def action_view(self, view: str) -> None:
         self.exploration.switch_view(view)
