@@ -150,7 +150,10 @@ async def test_the_typed_point_entry_closes_with_escape_and_names_a_bad_entry():
         await pilot.press("g", *"9000C", "enter")
         entry = app.screen.query_one(PointEntry)
         problem = str(entry.query_one("#point-problem").render())
-        assert entry.display and "9000.0 °C is outside this system's window" in problem, problem    # in the screen's unit
+        assert entry.display and "9000 °C is outside this system's range, 327 to 1627 °C" in problem, problem    # in the screen's unit
+        await pilot.press("escape", "g", *"C=8wt% 760C", "enter")    # the range in the screen's basis too
+        problem = str(entry.query_one("#point-problem").render())
+        assert "outside the range this model covers (0-6.69 wt% C, 0-25 at% C)" in problem, problem
         await pilot.press("escape")
         assert not entry.display and app.screen.focused is None
         await pilot.press("up")                    # the keys move the cursor again

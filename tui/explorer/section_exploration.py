@@ -35,6 +35,7 @@ from ladle.tui.quote import percent
 
 from .alloy_changes import AlloyChanges, alloy_changes, shows_changes
 from .entry import TypedPoint
+from .readout import format_temperature_value
 from .saved_state import SavedState
 from .status_lines import WIDTH
 
@@ -393,15 +394,14 @@ class SectionExploration:
         `unit` ("C", "K" or "F", written `unit_text`), when either lies outside, and then nothing
         moves."""
         T = self.cursor.temperature_K if point.temperature_K is None else point.temperature_K
-        if not self.T_low <= T <= self.T_high:
-            low, high = (kelvin_to(t, unit) for t in (self.T_low, self.T_high))
-            raise ValueError(f"{kelvin_to(T, unit):.1f} {unit_text} is outside this system's window, "
-                             f"{low:.0f}-{high:.0f} {unit_text}")
+        if not self.T_low <= T <= self.T_high:     # worded as on the binary screen
+            low, high = (format_temperature_value(kelvin_to(t, unit)) for t in (self.T_low, self.T_high))
+            raise ValueError(f"{format_temperature_value(kelvin_to(T, unit))} {unit_text} is outside this "
+                             f"system's range, {low} to {high} {unit_text}")
         if point.mole_fractions is not None:
             x = np.asarray(point.mole_fractions, dtype=float)
             if not self.system.covered(x):
-                raise ValueError(f"that alloy lies outside the range this model covers "
-                                 f"({covered_range_words(self.system)})")
+                raise ValueError(f"that alloy lies outside the range this model covers ({self._covered_words()})")
             basis = "wt" if self._holds_mass else "at"
             content = (mass_from_mole(x, self.system.molar_mass) if self._holds_mass else x)[self.varying]
             if content > self._top(x) + 1e-12:
@@ -411,6 +411,16 @@ class SectionExploration:
             self.isopleth = None
         self.cursor = SectionCursor(self._u_of(self.alloy), T)
         self.window = self.window.following(self.cursor)
+
+    def _covered_words(self) -> str:
+        """The range the model covers; a binary's in the section's basis first ('0-6.69 wt% C,
+        0-25 at%')."""
+        words = covered_range_words(self.system)
+        if not (self.is_binary and self.basis == "wt"):
+            return words
+        shown = [percent(mass_from_mole(np.array([1.0 - x, x]), self.system.molar_mass)[1])
+                 for x in self.system.covers]
+        return f"{shown[0]}-{shown[1]} wt% {self.element}, {words}"
 
     def saved(self) -> SavedState:
         """What to remember for the next run: the system, the cursor's temperature and, for a
