@@ -14,7 +14,7 @@ from typing import Any, Callable
 
 from .plain_text import has_controls, without_controls
 
-_KEYS = {"name", "wt_percent", "at_percent", "source", "note"}
+_KEYS = {"name", "trade_name", "wt_percent", "at_percent", "source", "note"}
 _MAX_NAME = 40
 
 
@@ -28,6 +28,12 @@ class NamedAlloy:
     parts: tuple[tuple[str, float], ...]
     source: str
     note: str = ""
+    trade_name: str = ""
+
+    @property
+    def shown_name(self) -> str:
+        """'Sn96.5Ag3.0Cu0.5 (SAC305)': the designation, with the trade's name where there is one."""
+        return f"{self.name} ({self.trade_name})" if self.trade_name else self.name
 
     @property
     def spec(self) -> str:
@@ -37,8 +43,9 @@ class NamedAlloy:
 
 
 def read_alloys(items: Any, elements: tuple[str, ...], fail: Callable[[str, str], Exception]) -> tuple[NamedAlloy, ...]:
-    """Validate the `[[alloy]]` list of a document: one table per alloy, names unique (without
-    regard to case), every element but one (the balance) given in wt% or at%, the sum below 100."""
+    """Validate the `[[alloy]]` list of a document: one table per alloy, names and trade names
+    unique together (without regard to case), every element but one (the balance) given in wt%
+    or at%, the sum below 100."""
     if not isinstance(items, list):
         raise fail("alloy", "expected a list of tables ([[alloy]])")
     out: list[NamedAlloy] = []
@@ -50,14 +57,17 @@ def read_alloys(items: Any, elements: tuple[str, ...], fail: Callable[[str, str]
         for k in item:
             if k not in _KEYS:
                 raise fail(f"{key}.{k}", f"unknown key; expected one of {', '.join(sorted(_KEYS))}")
-        name = item.get("name")
-        if (not isinstance(name, str) or not name.strip() or len(name) > _MAX_NAME or has_controls(name)
-                or any(c in name.strip() for c in ",; ")):
-            raise fail(f"{key}.name", f"expected a designation of at most {_MAX_NAME} characters, "
-                                      "without spaces, commas, semicolons or control characters")
-        if name.strip().lower() in seen:
-            raise fail(f"{key}.name", f"{name.strip()!r} is named twice")
-        seen.add(name.strip().lower())
+        names = {"name": item.get("name")}
+        if "trade_name" in item:
+            names["trade_name"] = item["trade_name"]
+        for which, name in names.items():
+            if (not isinstance(name, str) or not name.strip() or len(name) > _MAX_NAME or has_controls(name)
+                    or any(c in name.strip() for c in ",; ")):
+                raise fail(f"{key}.{which}", f"expected a name of at most {_MAX_NAME} characters, "
+                                             "without spaces, commas, semicolons or control characters")
+            if name.strip().lower() in seen:
+                raise fail(f"{key}.{which}", f"{name.strip()!r} is named twice")
+            seen.add(name.strip().lower())
         source = item.get("source")
         if not isinstance(source, str) or not source.strip():
             raise fail(f"{key}.source", "missing: name the standard (and edition) that gives this designation")
@@ -68,8 +78,9 @@ def read_alloys(items: Any, elements: tuple[str, ...], fail: Callable[[str, str]
         note = item.get("note", "")
         if not isinstance(note, str):
             raise fail(f"{key}.note", "expected a text")
-        out.append(NamedAlloy(name=name.strip(), basis=bases[0][:2], parts=tuple(parts),
-                              source=without_controls(source), note=without_controls(note)))
+        out.append(NamedAlloy(name=names["name"].strip(), basis=bases[0][:2], parts=tuple(parts),
+                              source=without_controls(source), note=without_controls(note),
+                              trade_name=names.get("trade_name", "").strip()))
     return tuple(out)
 
 
@@ -112,6 +123,7 @@ def mole_fractions(parts: tuple[tuple[str, float], ...], basis: str, elements: t
 
 
 def find_alloy(alloys: tuple[NamedAlloy, ...], name: str) -> NamedAlloy | None:
-    """The shorthand called `name` (case and surrounding spaces ignored), or None."""
+    """The shorthand called `name`, by its designation or its trade name (case and surrounding
+    spaces ignored), or None."""
     wanted = name.strip().lower()
-    return next((a for a in alloys if a.name.lower() == wanted), None)
+    return next((a for a in alloys if wanted in (a.name.lower(), a.trade_name.lower())), None)

@@ -86,7 +86,10 @@ BAD_LISTS = [
     ('name = "X"\nwt_percent = { Sn = 100.0 }\nsource = "s"\n', "alloy[0].wt_percent.Sn: expected a percentage from 0 to below 100"),
     ('name = "X"\nwt_percent = { Sn = 63.0, Pb = 37.0 }\nsource = "s"\n', "give every element but one, the balance"),
     ('name = "X"\nwt_percent = { Sn = 63.0 }\nat_percent = { Sn = 50.0 }\nsource = "s"\n', "give the composition once"),
-    ('name = "X,Y"\nwt_percent = { Sn = 63.0 }\nsource = "s"\n', "alloy[0].name: expected a designation"),
+    ('name = "X,Y"\nwt_percent = { Sn = 63.0 }\nsource = "s"\n', "alloy[0].name: expected a name of at most 40"),
+    ('name = "X"\ntrade_name = "S 63"\nwt_percent = { Sn = 63.0 }\nsource = "s"\n', "alloy[0].trade_name: expected a name"),
+    ('name = "X"\ntrade_name = 63\nwt_percent = { Sn = 63.0 }\nsource = "s"\n', "alloy[0].trade_name: expected a name"),
+    ('name = "X"\ntrade_name = "x"\nwt_percent = { Sn = 63.0 }\nsource = "s"\n', "alloy[0].trade_name: 'x' is named twice"),
     ('name = "X"\nwt_percent = { Sn = 63.0 }\nsource = "s"\ncolour = "grey"\n', "alloy[0].colour: unknown key"),
 ]
 
@@ -99,6 +102,26 @@ def test_a_bad_alloy_list_is_one_line(tmp_path, body, expected):
     with pytest.raises(SystemFileError) as e:
         load_system(path)
     assert expected in str(e.value) and "\n" not in str(e.value)
+
+
+def test_a_trade_name_stands_for_the_designation_and_is_listed_beside_it(run):
+    """The shipped tin-silver-copper file names Sn96.5Ag3.0Cu0.5 by the trade's SAC305 too (makers'
+    sheets cited there); an unknown name lists both."""
+    by_trade = run("melt", "ag-cu-sn", "--alloy", "sac305", "--json")
+    by_designation = run("melt", "ag-cu-sn", "--alloy", "Sn96.5Ag3.0Cu0.5", "--json")
+    assert by_trade[0] == by_designation[0] == 0 and json.loads(by_trade[1]) == json.loads(by_designation[1])
+    code, out, err = run("melt", "ag-cu-sn", "--alloy", "SAC999")
+    _one_line_error(code, out, err, "melt", "unknown alloy 'SAC999'")
+    assert "Sn96.5Ag3.0Cu0.5 (SAC305)" in err
+
+
+def test_a_trade_name_may_not_repeat_another_alloys_name(tmp_path):
+    text = (shipped_folder() / "pb-sn.toml").read_text(encoding="utf-8")
+    path = tmp_path / "twice.toml"
+    path.write_text(text + ALLOYS + '\n[[alloy]]\nname = "Sn60Pb40"\ntrade_name = "test-alloy-1"\n'
+                    'wt_percent = { Sn = 60.0 }\nsource = "s"\n', encoding="utf-8")
+    with pytest.raises(SystemFileError, match="alloy.2..trade_name: 'test-alloy-1' is named twice"):
+        load_system(path)
 
 
 def test_a_name_given_twice_is_refused(tmp_path):

@@ -59,7 +59,7 @@ def composition_specs(system, specs: str | list[str]) -> str | list[str]:
     found = find_alloy(system.alloys, name)
     if found is not None:
         return [found.spec]
-    known = ", ".join(a.name for a in system.alloys)
+    known = ", ".join(a.shown_name for a in system.alloys)
     raise CommandError(f"unknown alloy {quote.one_line(repr(str(name)))} for {system.name}; "
                        + (f"its alloys: {known}" if known else "its file lists no alloys: give --comp"))
 
