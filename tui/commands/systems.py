@@ -28,24 +28,25 @@ def run(args: argparse.Namespace) -> int:
     from ladle.engine.files.catalog import catalog, find_system
 
     entries, conflicts = catalog()
+    width = max(shutil.get_terminal_size((80, 24)).columns, 40)
     rows = []
     for e in entries:
         try:
             s = find_system(str(e.path))
         except SystemFileError as err:
-            rows.append({"name": e.name, "origin": e.origin, "path": str(e.path), "error": str(err)})
-            continue
-        passed, total = check_counts(s)
-        rows.append({"name": e.name, "origin": e.origin, "path": str(e.path), "title": s.title,
-                     "elements": list(s.elements), "covers_at_percent": _covers_at_percent(s),
-                     "source": s.source, "safety": s.safety,
-                     "independent_checks": total, "independent_checks_passed": passed,
-                     "fit_targets": len(s.measured)})
+            row = {"name": e.name, "origin": e.origin, "path": str(e.path), "error": str(err)}
+        else:
+            passed, total = check_counts(s)      # measured once per file and cached (seconds when new)
+            row = {"name": e.name, "origin": e.origin, "path": str(e.path), "title": s.title,
+                   "elements": list(s.elements), "covers_at_percent": _covers_at_percent(s),
+                   "source": s.source, "safety": s.safety,
+                   "independent_checks": total, "independent_checks_passed": passed,
+                   "fit_targets": len(s.measured)}
+        rows.append(row)
+        if not args.json:                        # each system as soon as it is counted
+            print("\n".join(render_row(row, width)), flush=True)
     if args.json:
         print_json({"systems": rows, "conflicts": conflicts})
-    else:
-        width = max(shutil.get_terminal_size((80, 24)).columns, 40)
-        print("\n".join(line for r in rows for line in render_row(r, width)))
     for c in conflicts:
         print(f"ladle: note: {one_line(c)}", file=sys.stderr)
     return 0
