@@ -14,12 +14,14 @@ import threading
 import weakref
 from collections import OrderedDict
 from dataclasses import dataclass
+from functools import partial
+from typing import Callable
 
 import numpy as np
 
 from .global_minimum import global_minimum
-from .section import Section, per_system
-from ..models.phases import CompoundPhase, SolutionPhase
+from .section import LocalState, Section, per_system
+from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
 from ..units import mass_from_mole
 
 _SECTION_CACHE_SIZE = 64
@@ -40,7 +42,6 @@ class PhaseShare:
     site_fractions: tuple[np.ndarray, ...] = ()
 
 
-@dataclass(frozen=True)
 class PointEquilibrium:
     """The global-minimum state of an alloy at temperature_K (K) and composition x (mole fractions).
 
@@ -48,22 +49,85 @@ class PointEquilibrium:
     derivative at fixed composition (-S, J/(mol K)) and `enthalpy_J_per_mol` H = G - T dG/dT;
     `chemical_potentials` holds mu of each element in J/mol (NaN where undefined: an element
     absent from the alloy, or at a compound's exact composition); `converged` says whether every
-    Newton solve met its tolerance.
+    Newton solve met its tolerance; `w` the alloy's mass fractions and `phases` its stable phases
+    (`PhaseShare`). Read-only. The binary shortcut leaves `w`, `phases`, dG/dT and H to be
+    computed on first access (`deferred`): most callers of a point read only some of them.
     """
 
-    temperature_K: float
-    x: np.ndarray
-    w: np.ndarray
-    phases: tuple[PhaseShare, ...]
-    gibbs_J_per_mol: float
-    chemical_potentials: np.ndarray
-    converged: bool
-    gibbs_dT_J_per_mol_K: float = math.nan
-    enthalpy_J_per_mol: float = math.nan
+    __slots__ = ("_T", "_x", "_w", "_phases", "_names", "_gibbs", "_mu", "_converged", "_gibbs_dT", "_enthalpy",
+                 "_details")
+
+    def __init__(self, temperature_K: float, x: np.ndarray, w: np.ndarray, phases: tuple[PhaseShare, ...],
+                 gibbs_J_per_mol: float, chemical_potentials: np.ndarray, converged: bool,
+                 gibbs_dT_J_per_mol_K: float = math.nan, enthalpy_J_per_mol: float = math.nan) -> None:
+        self._T, self._x, self._w, self._phases = temperature_K, x, w, phases
+        self._names = tuple([p.name for p in phases])
+        self._gibbs, self._mu, self._converged = gibbs_J_per_mol, chemical_potentials, converged
+        self._gibbs_dT, self._enthalpy = gibbs_dT_J_per_mol_K, enthalpy_J_per_mol
+        self._details = None
+
+    @classmethod
+    def deferred(cls, temperature_K: float, x: np.ndarray, names: tuple[str, ...], gibbs_J_per_mol: float,
+                 chemical_potentials: np.ndarray, converged: bool,
+                 details: Callable[[], tuple[np.ndarray, tuple[PhaseShare, ...], float]]) -> "PointEquilibrium":
+        """An answer whose mass fractions, phases and dG/dT (J/(mol K)) `details()` gives on first
+        access (H follows from dG/dT); `names` are the phases' names in the order it gives them."""
+        self = cls.__new__(cls)
+        self._T, self._x, self._names = temperature_K, x, names
+        self._gibbs, self._mu, self._converged = gibbs_J_per_mol, chemical_potentials, converged
+        self._details = details
+        return self
+
+    def _resolve(self) -> None:
+        details = self._details
+        if details is not None:
+            self._w, self._phases, self._gibbs_dT = details()
+            self._enthalpy = self._gibbs - self._T * self._gibbs_dT
+            self._details = None
+
+    @property
+    def temperature_K(self) -> float:
+        return self._T
+
+    @property
+    def x(self) -> np.ndarray:
+        return self._x
+
+    @property
+    def w(self) -> np.ndarray:
+        self._resolve()
+        return self._w
+
+    @property
+    def phases(self) -> tuple[PhaseShare, ...]:
+        self._resolve()
+        return self._phases
+
+    @property
+    def gibbs_J_per_mol(self) -> float:
+        return self._gibbs
+
+    @property
+    def chemical_potentials(self) -> np.ndarray:
+        return self._mu
+
+    @property
+    def converged(self) -> bool:
+        return self._converged
+
+    @property
+    def gibbs_dT_J_per_mol_K(self) -> float:
+        self._resolve()
+        return self._gibbs_dT
+
+    @property
+    def enthalpy_J_per_mol(self) -> float:
+        self._resolve()
+        return self._enthalpy
 
     @property
     def phase_names(self) -> tuple[str, ...]:
-        return tuple(p.name for p in self.phases)
+        return self._names
 
     def to_json(self, system) -> dict:
         """The JSON object of `ladle point --json`."""
@@ -182,28 +246,38 @@ def equilibrate(system, temperature_K: float, composition, x_A: float | None = N
 
 
 def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
-    """The binary shortcut: the cached isothermal section of the binary engine. Mass fractions
-    are computed in Python floats (two elements: cheaper than numpy on two-element arrays)."""
+    """The binary shortcut: the cached isothermal section of the binary engine. Phases, mass
+    fractions and dG/dT are left to first access (`_binary_details`)."""
     sec = section_at(system, T)
     za, zb = z.tolist()
     state = sec.state_at(za, zb)
+    mu_a, mu_b = state.mu
+    mu = np.array((math.nan if mu_a is None else mu_a, math.nan if mu_b is None else mu_b))
+    names = tuple([name for name, _x, _amount in state.phases])
+    at_T = tuple([sec.phase_at(name) for name in names])
+    return PointEquilibrium.deferred(T, z, names, float(state.gibbs), mu, state.converged,
+                                     partial(_binary_details, system, za, zb, state, at_T))
+
+
+def _binary_details(system, za: float, zb: float, state: LocalState,
+                    at_T: tuple[SolutionAtT | float, ...]) -> tuple[np.ndarray, tuple[PhaseShare, ...], float]:
+    """The alloy's mass fractions, its phase shares and dG/dT (J/(mol K)) of a binary state:
+    `at_T` holds each phase of the state at T (a solution) or its dG/dT (a compound). Mass
+    fractions are computed in Python floats (two elements: cheaper than numpy on two-element
+    arrays)."""
     ma, mb = system.molar_mass.tolist()
     m_alloy = za * ma + zb * mb
     shares = []
     gibbs_dT = 0.0
-    for name, (pa, pb), amount in state.phases:
-        k = sec._index[name]
-        gibbs_dT += amount * sec.gibbs_dT(k, pa, pb)
+    for (name, (pa, pb), amount), phase in zip(state.phases, at_T):
+        solution = isinstance(phase, SolutionAtT)
+        gibbs_dT += amount * (float(phase.gibbs_dT(pa, pb)) if solution else phase)
         px = np.array((pa, pb))
-        sites = (px,) if k < sec.n_sol else _compound_sites(system, name)
+        sites = (px,) if solution else _compound_sites(system, name)
         m_sum = pa * ma + pb * mb            # the same sum as m_alloy: a single phase's share is exactly 1
         shares.append(PhaseShare(name, px, np.array((pa * ma / m_sum, pb * mb / m_sum)), float(amount),
                                  float(amount * m_sum / m_alloy), sites))
-    mu_a, mu_b = state.mu
-    mu = np.array((math.nan if mu_a is None else mu_a, math.nan if mu_b is None else mu_b))
-    gibbs = float(state.gibbs)
-    return PointEquilibrium(T, z, np.array((za * ma / m_alloy, zb * mb / m_alloy)), tuple(shares), gibbs, mu,
-                            state.converged, gibbs_dT, gibbs - T * gibbs_dT)
+    return np.array((za * ma / m_alloy, zb * mb / m_alloy)), tuple(shares), gibbs_dT
 
 
 #: The site fractions of each compound's general form, per system (systems are not changed in place).

@@ -306,11 +306,11 @@ class Section:
             self._ties[key] = tie
         return tie
 
-    def gibbs_dT(self, k: int, xa: float, xb: float) -> float:
-        """dG/dT (J/(mol K)) of phase k at (x_A, x_B) (a compound at its own composition)."""
-        if k < self.n_sol:
-            return float(self.solutions[k].gibbs_dT(xa, xb))
-        return self._comp_dT[k - self.n_sol]
+    def phase_at(self, name: str) -> SolutionAtT | float:
+        """Phase `name` at the section's temperature: a solution as `SolutionAtT`, a compound as
+        its dG/dT (J/(mol K); its G is `comp_g`)."""
+        k = self._index[name]
+        return self.solutions[k] if k < self.n_sol else self._comp_dT[k - self.n_sol]
 
     # --- driving forces -------------------------------------------------------------------------
     def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
