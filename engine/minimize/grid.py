@@ -5,9 +5,9 @@ so that neither fraction loses digits near its pure element. Both ends are exact
 
 At a new temperature every solution phase's G on the grid is one matrix product: the phase's
 coefficients at T (`SolutionAtT.grid_coefficients`) times the grid's composition basis
-(`gibbs_basis`); a magnetic term is added on its own, its Tc and beta with their composition
-derivatives tabulated on the grid once per phase where they do not depend on temperature
-(`magnetic_shape_on_grid`). The scaled curvature x_A x_B G'' (the sign of the spinodal) is
+(`gibbs_basis`); a magnetic term is added on its own: where its Tc and beta do not depend on
+temperature, another product of a few powers of T with coefficients tabulated on the grid once
+per phase (`MagneticPowers`). The scaled curvature x_A x_B G'' (the sign of the spinodal) is
 formed the same way (`curvature_basis`).
 """
 
@@ -16,6 +16,9 @@ from __future__ import annotations
 from functools import lru_cache
 
 import numpy as np
+
+from ..models.magnetic import hillert_jarl_constants
+from ..units import GAS_CONSTANT as R_GAS
 
 DEFAULT_POINTS = 257
 
@@ -76,16 +79,14 @@ def curvature_basis(n: int, order: int) -> np.ndarray:
     return out
 
 
-def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS, magnetic: bool = True) -> np.ndarray:
+def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.ndarray:
     """(len(solutions), n): x_A x_B d2G/dx_B2 (J/mol) of each solution phase at one temperature
-    (`SolutionAtT`) on the n-point grid; negative inside a spinodal. `magnetic` False leaves
-    the magnetic terms out (the caller adds them where it needs them)."""
+    (`SolutionAtT`) on the n-point grid; negative inside a spinodal."""
     order = max(len(s.L) for s in solutions)
     C = np.array([s.curvature_coefficients(order) for s in solutions]) @ curvature_basis(n, order)
     for k, s in enumerate(solutions):
-        if magnetic and s.phase.magnetic is not None:
-            xa, xb = composition_grid(n)
-            C[k] += s.magnetic_scaled_curvature(xa, xb, magnetic_shape_on_grid(s, n))
+        if s.phase.magnetic is not None:
+            C[k] += magnetic_on_grid(s, n, curvature=True)
     return C
 
 
@@ -99,39 +100,86 @@ def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS, coefficients: np.nda
     G = coefficients @ gibbs_basis(n, coefficients.shape[1] - 3)
     for k, s in enumerate(solutions):
         if s.phase.magnetic is not None:
-            xa, xb = composition_grid(n)
-            G[k] += s.magnetic_gibbs(xa, xb, _magnetic_parameters_on_grid(s, n))
+            G[k] += magnetic_on_grid(s, n)
     return G
 
 
-#: The magnetic term's shape (`SolutionAtT.magnetic_shape`) on the grid of phases whose Tc and
-#: beta do not depend on temperature, by (id(phase), n); each entry keeps its phase, so that the
-#: id is not reused while it lives.
-_magnetic_shapes: dict[tuple[int, int], tuple[object, tuple[np.ndarray, ...]]] = {}
-_MAGNETIC_SHAPES_KEPT = 64
+class MagneticPowers:
+    """A magnetic phase's term on the grid as sums of powers of T, where its Tc and beta do not
+    depend on temperature. With tau = T/Tc, the Hillert-Jarl function above the Curie
+    temperature is a sum of tau^-5, tau^-15 and tau^-25, below it of 1, 1/tau, tau^3, tau^9 and
+    tau^15, and so are tau f' and tau^2 f''; times R T (and the composition derivatives of Tc and
+    ln(1 + beta) for the curvature) each grid point's term is a sum of powers of T with
+    coefficients fixed per phase: above, T^-4, T^-14, T^-24; below, T, 1, T^4, T^10, T^16. The
+    coefficients are tabulated once per phase (rows of `above` and `below`, for G and for the
+    scaled curvature x_A x_B d2G/dx_B2, J/mol); at T each is one matrix-vector product, each
+    grid point taking the branch of its own tau (below where T <= Tc). The same function as
+    `SolutionAtT.magnetic_gibbs` and `magnetic_scaled_curvature`, its terms summed in another
+    order."""
+
+    def __init__(self, s, n: int) -> None:
+        xa, xb = composition_grid(n)
+        active, tc, tc1, tc2, u, u1, u2 = s.magnetic_shape(xa, xb)
+        a, k, D = hillert_jarl_constants(s.phase.magnetic.above_curie_fraction)
+        on = np.where(active, R_GAS, 0.0)
+        r1, r2 = tc1 / tc, tc2 / tc
+        # x_A x_B d2G/dx2 / (R T) = x_A x_B (P f + Q tau f' + S tau^2 f'')
+        P = xa * xb * u2 * on
+        Q = xa * xb * (u * (2.0 * r1 * r1 - r2) - 2.0 * u1 * r1) * on
+        S = xa * xb * u * r1 * r1 * on
+        U = u * on
+        tc5 = tc**5
+        tc15 = tc5 * tc5 * tc5
+        above = np.array([tc5 * -U / 10.0, tc15 * -U / 315.0, tc15 * tc5 * tc5 * -U / 1500.0,
+                          tc5 * (-P / 10.0 + Q / 2.0 - 3.0 * S),
+                          tc15 * (-P / 315.0 + Q / 21.0 - 16.0 * S / 21.0),
+                          tc15 * tc5 * tc5 * (-P / 1500.0 + Q / 60.0 - 26.0 * S / 60.0)]) / D
+        tc3 = tc * tc * tc
+        tc9 = tc3 * tc3 * tc3
+        below = np.array([U, -a * tc * U / D, -k * U / (6.0 * D * tc3), -k * U / (135.0 * D * tc9),
+                          -k * U / (600.0 * D * tc9 * tc3 * tc3),
+                          P, a * tc * (-P + Q - 2.0 * S) / D, k * (-P / 6.0 - Q / 2.0 - S) / (D * tc3),
+                          k * (-P / 135.0 - Q / 15.0 - 8.0 * S / 15.0) / (D * tc9),
+                          k * (-P / 600.0 - Q / 40.0 - 14.0 * S / 40.0) / (D * tc9 * tc3 * tc3)])
+        self.above = (above[:3], above[3:])
+        self.below = (below[:5], below[5:])
+        #: Tc (K) on the grid where the term is active (0 elsewhere), and its largest value
+        self.curie = np.where(active, tc, 0.0)
+        self.curie_max = float(self.curie.max())
+
+    def at(self, T: float, curvature: bool) -> np.ndarray:
+        """The term's G (J/mol), or with `curvature` its x_A x_B d2G/dx_B2, on the grid at T (K)."""
+        which = 1 if curvature else 0
+        t4 = T**-4
+        t10 = T**-10
+        g = np.array((t4, t4 * t10, t4 * t10 * t10)) @ self.above[which]
+        if T > self.curie_max:
+            return g
+        T4 = T**4
+        T6 = T**6
+        below = np.array((T, 1.0, T4, T4 * T6, T4 * T6 * T6)) @ self.below[which]
+        return np.where(T <= self.curie, below, g)
 
 
-def magnetic_shape_on_grid(s, n: int) -> tuple[np.ndarray, ...] | None:
-    """`SolutionAtT.magnetic_shape` on the n-point grid, computed once per phase where it does
-    not depend on temperature; None where it does (computed with the term then)."""
+#: The magnetic term's tables (`MagneticPowers`) of phases whose Tc and beta do not depend on
+#: temperature, by (id(phase), n); each entry keeps its phase, so that the id is not reused
+#: while it lives.
+_magnetic_tables: dict[tuple[int, int], tuple[object, MagneticPowers]] = {}
+_MAGNETIC_TABLES_KEPT = 64
+
+
+def magnetic_on_grid(s, n: int, curvature: bool = False) -> np.ndarray:
+    """The magnetic term of solution s (`SolutionAtT`) on the n-point grid: G (J/mol), or with
+    `curvature` its x_A x_B d2G/dx_B2; from the phase's `MagneticPowers` (made on first use)
+    where its Tc and beta do not depend on temperature, else from the term itself."""
     phase = s.phase
     if not phase.magnetic_parameters_constant:
-        return None
+        xa, xb = composition_grid(n)
+        return s.magnetic_scaled_curvature(xa, xb) if curvature else s.magnetic_gibbs(xa, xb)
     key = (id(phase), n)
-    found = _magnetic_shapes.get(key)
-    if found is not None and found[0] is phase:
-        return found[1]
-    shape = s.magnetic_shape(*composition_grid(n))
-    for a in shape:
-        a.setflags(write=False)
-    if len(_magnetic_shapes) >= _MAGNETIC_SHAPES_KEPT:
-        _magnetic_shapes.clear()
-    _magnetic_shapes[key] = (phase, shape)
-    return shape
-
-
-def _magnetic_parameters_on_grid(s, n: int) -> tuple[np.ndarray, ...] | None:
-    """`SolutionAtT.magnetic_parameters` on the n-point grid (active, Tc, ln(1 + beta)), from
-    the tabulated shape; None where they depend on temperature."""
-    shape = magnetic_shape_on_grid(s, n)
-    return None if shape is None else (shape[0], shape[1], shape[4])
+    found = _magnetic_tables.get(key)
+    if found is None or found[0] is not phase:
+        if len(_magnetic_tables) >= _MAGNETIC_TABLES_KEPT:
+            _magnetic_tables.clear()
+        found = _magnetic_tables[key] = (phase, MagneticPowers(s, n))
+    return found[1].at(s.T, curvature)

@@ -20,8 +20,7 @@ from typing import Callable
 
 import numpy as np
 
-from .grid import (DEFAULT_POINTS, composition_grid, gibbs_on_grid, grid_list, magnetic_shape_on_grid,
-                   scaled_curvature_on_grid)
+from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid, grid_list, scaled_curvature_on_grid
 from .hull import lower_hull
 from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
 from ..models.polynomials import FunctionStack, TemperatureFunction
@@ -156,16 +155,13 @@ class Section:
         #: nothing else, so it is not repeated for the next composition on the same tie-line.
         self._verified: set = set()
         self._index = phases.index
-        #: x_A x_B d2G/dx_B2 of every solution on the grid less any magnetic term, formed on
-        #: first use (`_curvatures`).
+        #: x_A x_B d2G/dx_B2 of every solution on the grid, formed on first use (`_curvatures`).
         self._scaled_curvature: np.ndarray | None = None
 
     def _curvatures(self) -> np.ndarray:
-        """(solutions, grid points): x_A x_B d2G/dx_B2 (J/mol) of every solution on the grid,
-        without the magnetic term (on the whole grid it would cost more than the few points a
-        query looks at)."""
+        """(solutions, grid points): x_A x_B d2G/dx_B2 (J/mol) of every solution on the grid."""
         if self._scaled_curvature is None:
-            self._scaled_curvature = scaled_curvature_on_grid(self.solutions, len(self.xb), magnetic=False)
+            self._scaled_curvature = scaled_curvature_on_grid(self.solutions, len(self.xb))
         return self._scaled_curvature
 
     # --- hull --------------------------------------------------------------------------------
@@ -386,9 +382,6 @@ class Section:
             return None
         xb = self.xb[i0:i1]
         c = self._curvatures()[s, i0:i1]
-        if sol.phase.magnetic is not None:
-            shape = magnetic_shape_on_grid(sol, n)
-            c = c + sol.magnetic_scaled_curvature(self.xa[i0:i1], xb, None if shape is None else tuple(a[i0:i1] for a in shape))
         if float(c.min()) >= 0.05 * self.RT:        # no negative curvature, no minimum close to it
             return None
         neg = np.flatnonzero(c < 0)

@@ -24,6 +24,13 @@ def where(condition, a, b):
     return a if condition else b
 
 
+def hillert_jarl_constants(p: float) -> tuple[float, float, float]:
+    """(a, k, D) of the Hillert-Jarl polynomials for the share p: below the Curie temperature
+    f = 1 - (a / tau + k (tau^3 / 6 + tau^9 / 135 + tau^15 / 600)) / D, above it
+    f = -(tau^-5 / 10 + tau^-15 / 315 + tau^-25 / 1500) / D."""
+    return 79.0 / (140.0 * p), (474.0 / 497.0) * (1.0 / p - 1.0), _denominator(p)
+
+
 def hillert_jarl(tau, p: float, order: int = 2):
     """f(tau) and its first and second derivatives in tau (arrays, or floats for a float); with
     `order` 0 or 1 the derivatives beyond it are not computed (None).
@@ -33,9 +40,7 @@ def hillert_jarl(tau, p: float, order: int = 2):
     only its own branch (below or above the Curie temperature); an array takes both where it
     holds both.
     """
-    D = _denominator(p)
-    k = (474.0 / 497.0) * (1.0 / p - 1.0)
-    a = 79.0 / (140.0 * p)
+    a, k, D = hillert_jarl_constants(p)
     if not isinstance(tau, np.ndarray):
         return _below(tau, a, k, D, order) if tau <= 1.0 else _above(1.0 / tau, D, order)
     below = tau <= 1.0

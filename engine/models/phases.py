@@ -135,7 +135,7 @@ class SolutionPhase:
     def magnetic_parameters_constant(self) -> bool:
         """Whether the magnetic term's Tc and beta (K, Bohr magnetons) do not depend on
         temperature (every composition term of theirs a constant): then they can be tabulated
-        once over a composition grid (`SolutionAtT.magnetic_parameters`)."""
+        once over a composition grid (`SolutionAtT.magnetic_shape`)."""
         mag = self.magnetic
         return mag is not None and all(f.is_constant for terms in (*mag.curie_L.values(), *mag.moment_L.values())
                                        for f in terms)
@@ -211,19 +211,16 @@ class SolutionAtT:
         _tc, (be, _b1, _b2), active, tc_safe, _tau = self._curie_and_moment(xa, xb, 0)
         return active, tc_safe, _log(1.0 + be)
 
-    def magnetic_gibbs(self, xa: np.ndarray, xb: np.ndarray,
-                       parameters: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None) -> np.ndarray:
-        """G of the magnetic term alone (J/mol): the value-only path of `gibbs`. `parameters`
-        may hold `magnetic_parameters` at these compositions, computed before."""
-        active, tc_safe, u = self.magnetic_parameters(xa, xb) if parameters is None else parameters
+    def magnetic_gibbs(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """G of the magnetic term alone (J/mol): the value-only path of `gibbs`."""
+        active, tc_safe, u = self.magnetic_parameters(xa, xb)
         tau = where(active, self.T / tc_safe, 1e9)
         g = self.RT * u * hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 0)[0]
         return where(active, g, 0.0 * g)
 
-    def magnetic_scaled_curvature(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None = None) -> np.ndarray:
-        """xA xB d2G/dx_B2 of the magnetic term alone (J/mol). `shape` may hold `magnetic_shape`
-        at these compositions, computed before."""
-        active, _u, _u1, _f, _f1, _tau1, g2 = self._magnetic_pieces(xa, xb, shape)
+    def magnetic_scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
+        """xA xB d2G/dx_B2 of the magnetic term alone (J/mol)."""
+        active, _u, _u1, _f, _f1, _tau1, g2 = self._magnetic_pieces(xa, xb)
         return xa * xb * where(active, g2, 0.0 * g2)
 
     def magnetic_shape(self, xa: np.ndarray, xb: np.ndarray) -> tuple:
@@ -236,10 +233,10 @@ class SolutionAtT:
         u1 = be1 / (1.0 + be)
         return active, tc_safe, tc1, tc2, _log(1.0 + be), u1, be2 / (1.0 + be) - u1 * u1
 
-    def _magnetic_pieces(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None) -> tuple:
+    def _magnetic_pieces(self, xa: np.ndarray, xb: np.ndarray) -> tuple:
         """(active, ln(1 + beta), its x_B derivative, f(tau), f'(tau), dtau/dx_B, d2G/dx_B2 where
         active) of the magnetic term: what its value and derivatives are formed from."""
-        active, tc_safe, tc1, tc2, u, u1, u2 = self.magnetic_shape(xa, xb) if shape is None else shape
+        active, tc_safe, tc1, tc2, u, u1, u2 = self.magnetic_shape(xa, xb)
         tau = where(active, self.T / tc_safe, 1e9)
         f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
         tau1 = -tau * tc1 / tc_safe
@@ -247,11 +244,10 @@ class SolutionAtT:
         g2 = self.RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
         return active, u, u1, f, f1, tau1, g2
 
-    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, shape: tuple | None = None) -> tuple[np.ndarray, ...]:
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
         """(G, dG/dx, d2G/dx2) of the magnetic term along x_B (J/mol; arrays, or floats): what
-        chemical potentials and curvatures need, without the temperature derivatives. `shape`
-        may hold `magnetic_shape` at these compositions, computed before."""
-        active, u, u1, f, f1, tau1, g2 = self._magnetic_pieces(xa, xb, shape)
+        chemical potentials and curvatures need, without the temperature derivatives."""
+        active, u, u1, f, f1, tau1, g2 = self._magnetic_pieces(xa, xb)
         RT = self.RT
         g = RT * u * f
         g1 = RT * (u1 * f + u * f1 * tau1)
