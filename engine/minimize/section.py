@@ -545,10 +545,10 @@ class Section:
             k = phase - self.n_sol
             g = self.comp_g[k]
             return LocalState(((self.names[phase], self.comp_x[k], 1.0),), (None, None), g, converged)
-        sol = self.solutions[phase]
-        mu_a, mu_b, _curvature = sol.potentials_and_curvature(xa0, xb0)
-        g = float(sol.gibbs(xa0, xb0))
-        return LocalState(((self.names[phase], (xa0, xb0), 1.0),), (float(mu_a), float(mu_b)), g, converged)
+        mu_a, mu_b, _curvature = self.solutions[phase].potentials_and_curvature(xa0, xb0)
+        mu_a, mu_b = float(mu_a), float(mu_b)
+        # G = x_A mu_A + x_B mu_B (Euler's theorem for a molar quantity): no second evaluation
+        return LocalState(((self.names[phase], (xa0, xb0), 1.0),), (mu_a, mu_b), xa0 * mu_a + xb0 * mu_b, converged)
 
     def _two(self, tie: TieLine, xa0: float, xb0: float) -> LocalState:
         """Lever rule on a tie-line; an alloy exactly at one end is that phase alone."""
