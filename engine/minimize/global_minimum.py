@@ -434,11 +434,11 @@ def _spread_lowest(Y: np.ndarray, d: np.ndarray, among: np.ndarray) -> list[int]
     fractions, max norm) from those taken: one start per separate low region (the two sides of a
     gap next to a composition set can both lie near the plane, only one of them below it)."""
     taken: list[int] = []
-    for k in among[np.argsort(d[among], kind="stable")]:
-        if all(np.max(np.abs(Y[k] - Y[j])) > GAP_DISTANCE for j in taken):
-            taken.append(int(k))
-            if len(taken) == FAR_STARTS:
-                break
+    left = np.asarray(among)
+    while len(left) and len(taken) < FAR_STARTS:   # the lowest left, then those far from it
+        k = int(left[np.argmin(d[left])])
+        taken.append(k)
+        left = left[np.max(np.abs(Y[left] - Y[k]), axis=1) > GAP_DISTANCE]
     return taken
 
 

@@ -19,6 +19,7 @@ constituents) and an increasing one the plain step. A phase whose amount turns n
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -67,12 +68,28 @@ def sublattice_rows(model, free: np.ndarray) -> np.ndarray:
 #: Below this a site fraction also grows by Newton's step in ln y (capped at GROWTH_CAP).
 DILUTE = 1e-4
 GROWTH_CAP = 1e-3
+#: Vectors up to this length take `positive_step` in Python floats: a dozen numpy calls on a few
+#: numbers cost several times more than the arithmetic.
+_SHORT = 12
+
+
+def _positive_step_one(y: float, dy: float) -> float:
+    """`positive_step` for one site fraction (Python floats, the same formula)."""
+    plain = y + dy
+    if dy >= 0.0 and y >= DILUTE:
+        return plain
+    log_step = y * math.exp(min(max(dy / max(y, 1e-300), -700.0), 50.0))
+    if dy < 0.0:
+        return log_step
+    return min(log_step, max(plain, GROWTH_CAP))
 
 
 def positive_step(y: np.ndarray, dy: np.ndarray) -> np.ndarray:
     """The updated site fractions, always positive: y exp(dy / y) (Newton's step in ln y) for
     decreasing fractions and for dilute ones (below DILUTE, up to GROWTH_CAP or y + dy), y + dy
     for the others."""
+    if len(y) <= _SHORT:
+        return np.array([_positive_step_one(a, b) for a, b in zip(y.tolist(), dy.tolist())])
     ratio = np.minimum(np.maximum(dy / np.maximum(y, 1e-300), -700.0), 50.0)   # ufuncs: no clip() overhead
     log_step = y * np.exp(ratio)
     plain = y + dy
@@ -106,6 +123,44 @@ def _derivatives(model, y: np.ndarray) -> tuple:
     return model.gibbs(y), model.gradient(y), model.hessian(y)
 
 
+class _Pieces:
+    """What Newton's method needs of one phase's structure with free site fractions `free` and
+    present `elements` (index arrays): the sublattice sums S, the free fractions per sublattice,
+    the element matrices of the free fractions (A) and of all (E), the constant part of a lone
+    phase's Newton matrix (K0), index grids of the free fractions and whether all are free. The
+    same at every temperature; `anchors` are the model's arrays the cache's key names by id."""
+
+    def __init__(self, model, free: np.ndarray, elements: np.ndarray) -> None:
+        self.anchors = (model.element_matrix, model.groups)
+        self.S = sublattice_rows(model, free)
+        self.groups = free_groups(model, free)
+        self.A = model.element_matrix[np.ix_(free, elements)]
+        self.E = model.element_matrix[:, elements]
+        nf, ns = len(free), self.S.shape[0]
+        self.K0 = np.zeros((nf + ns, nf + ns))
+        self.K0[:nf, nf:] = -self.S.T
+        self.K0[nf:, :nf] = self.S
+        self.fr, self.fc = free[:, None], free[None, :]
+        self.whole = nf == model.n_vars                   # every site fraction free: no indexing
+
+
+_PIECES: dict[tuple, _Pieces] = {}
+
+
+def _pieces(model, free: np.ndarray, elements: np.ndarray) -> _Pieces:
+    """`_Pieces` of a phase, remembered for the last few hundred (structure, free, elements): a
+    phase at another temperature shares its element matrix and groups (the engine's models do)."""
+    free, elements = np.asarray(free, dtype=np.intp), np.asarray(elements, dtype=np.intp)
+    key = (id(model.element_matrix), id(model.groups), free.tobytes(), elements.tobytes())
+    found = _PIECES.get(key)
+    if found is None or found.anchors[0] is not model.element_matrix or found.anchors[1] is not model.groups:
+        found = _Pieces(model, free, elements)
+        if len(_PIECES) >= 256:
+            _PIECES.pop(next(iter(_PIECES)), None)
+        _PIECES[key] = found
+    return found
+
+
 class _Layout:
     """Where each state's unknowns sit in the Newton system (its site fractions, sublattice
     multipliers and amount; the chemical potentials last), the constant blocks of the Jacobian,
@@ -116,11 +171,9 @@ class _Layout:
         self.blocks = []
         size = 0
         for st in states:
-            S = sublattice_rows(st.model, st.free)
-            A = st.model.element_matrix[np.ix_(st.free, elements)]
-            whole = len(st.free) == st.model.n_vars          # every site fraction free: no indexing
-            self.blocks.append((S, A, size, len(st.free), S.shape[0], st.free[:, None], st.free[None, :], whole,
-                                free_groups(st.model, st.free)))
+            pc = _pieces(st.model, st.free, elements)
+            S = pc.S
+            self.blocks.append((S, pc.A, size, len(st.free), S.shape[0], pc.fr, pc.fc, pc.whole, pc.groups))
             size += len(st.free) + S.shape[0] + 1
         self.m0 = size
         self.size = size + ne
@@ -235,18 +288,13 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
     a relative REACHED of one of them in every free site fraction with the driving force above
     -`tolerance` (J/mol): from there Newton's steps end at that point, on the plane, so the
     answer "not below -tolerance" is the same, a few steps sooner."""
-    S = sublattice_rows(model, free)
-    groups = free_groups(model, free)
-    A = model.element_matrix[np.ix_(free, elements)]
-    E = model.element_matrix[:, elements]
+    pieces = _pieces(model, free, elements)
+    S, groups, A, E, fr, fc, whole = (pieces.S, pieces.groups, pieces.A, pieces.E, pieces.fr, pieces.fc,
+                                      pieces.whole)
     y = np.array(y0, dtype=float)
-    nf, ns = len(free), S.shape[0]
-    K = np.zeros((nf + ns, nf + ns))
-    K[:nf, nf:] = -S.T
-    K[nf:, :nf] = S
+    nf = len(free)
+    K = pieces.K0.copy()
     Amu = A @ mu
-    fr, fc = free[:, None], free[None, :]
-    whole = nf == model.n_vars                  # every site fraction free: no indexing
     targets = [st[free] for st in sets]
     with np.errstate(all="ignore"):
         for _ in range(steps):
