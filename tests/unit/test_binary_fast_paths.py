@@ -164,3 +164,40 @@ def test_stacked_temperature_functions_equal_each_ones_own(name):
         with pytest.raises(TemperatureOutOfRange):
             stack.values_and_derivatives(lo - 1.0)
 
+
+
+@pytest.mark.parametrize("name", BINARIES)
+def test_deferred_answer_fields(name):
+    """The binary shortcut's answer computes its phases, mass fractions, dG/dT and H on first
+    access: they agree with independent figures. dG/dT at fixed overall composition against a
+    central difference of the equilibrium G in T (the envelope theorem: the phases' amounts and
+    compositions minimise G, so their change with T does not enter to first order; step 1e-3 K,
+    skipped where the stable phases change within it), H = G - T dG/dT, mass fractions from the
+    molar masses (sum to 1, the phases' mass shares balance the alloy's), and the answer is
+    read-only."""
+    system = find_system(name)
+    rng = np.random.default_rng(31)
+    lo, hi = system.temperature_range_K
+    M = system.molar_mass
+    compared = 0
+    for _ in range(12):
+        T, x = float(rng.uniform(lo + 1.0, hi - 1.0)), float(rng.uniform(0.01, 0.99))
+        r = equilibrate(system, T, x)
+        names = r.phase_names
+        assert names == tuple(p.name for p in r.phases)
+        w = np.array((1.0 - x, x)) * M / float(np.array((1.0 - x, x)) @ M)
+        assert np.allclose(r.w, w, rtol=1e-14, atol=0.0)
+        assert sum(p.amount_mass for p in r.phases) == pytest.approx(1.0, abs=1e-12)
+        assert np.allclose(sum(p.amount_mass * p.w for p in r.phases), r.w, rtol=0.0, atol=1e-12)
+        assert r.enthalpy_J_per_mol == pytest.approx(r.gibbs_J_per_mol - T * r.gibbs_dT_J_per_mol_K, rel=1e-14, abs=1e-9)
+        with pytest.raises(AttributeError):
+            r.gibbs_J_per_mol = 0.0
+        h = 1e-3
+        up, down = equilibrate(system, T + h, x), equilibrate(system, T - h, x)
+        if up.phase_names != names or down.phase_names != names:
+            continue
+        central = (up.gibbs_J_per_mol - down.gibbs_J_per_mol) / (2 * h)
+        # G of ~1e5 J/mol differenced over 2e-3 K carries ~1e-8 J/(mol K) of rounding per 1e-13 relative
+        assert r.gibbs_dT_J_per_mol_K == pytest.approx(central, abs=2e-5), (name, T, x, names)
+        compared += 1
+    assert compared >= 6
