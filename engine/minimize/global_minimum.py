@@ -244,12 +244,15 @@ def _prepared(models: dict[str, object], active: np.ndarray) -> _Prepared:
 
 
 class _Cloud:
-    """Every sample and refined point given to the linear program, with its phase and site fractions."""
+    """Every sample and refined point given to the linear program, with its phase and site
+    fractions; `XT` and `G` are the samples' stacked mole fractions and G (J/mol)."""
 
     def __init__(self, prepared: _Prepared) -> None:
         self.owner = prepared.owner
         self.start = prepared.start
         self.phases = prepared.phases
+        self.XT = prepared.XT
+        self.G = prepared.G
         self.extra_y: list[np.ndarray] = []
         self.extra_owner: list[int] = []
 
@@ -395,8 +398,9 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
                 tol: float) -> list[tuple[int, np.ndarray, float]]:
     """Points of any phase below the plane mu by more than tol (J/mol): (phase, y, driving force)."""
     found = []
+    d_all = cloud.G - mu @ cloud.XT             # every sample of every phase in one product
     for p, ph in enumerate(cloud.phases):
-        d = ph.G - ph.X @ mu
+        d = d_all[cloud.start[p]:cloud.start[p + 1]]
         mine = [st.y for st in states if st.name == ph.name]
         lowest = int(np.argmin(d))
         starts = [lowest]

@@ -148,15 +148,15 @@ _PIECES: dict[tuple, _Pieces] = {}
 
 
 def _pieces(model, free: np.ndarray, elements: np.ndarray) -> _Pieces:
-    """`_Pieces` of a phase, remembered for the last few hundred (structure, free, elements): a
+    """`_Pieces` of a phase, remembered for up to a few hundred (structure, free, elements): a
     phase at another temperature shares its element matrix and groups (the engine's models do)."""
     free, elements = np.asarray(free, dtype=np.intp), np.asarray(elements, dtype=np.intp)
     key = (id(model.element_matrix), id(model.groups), free.tobytes(), elements.tobytes())
     found = _PIECES.get(key)
     if found is None or found.anchors[0] is not model.element_matrix or found.anchors[1] is not model.groups:
         found = _Pieces(model, free, elements)
-        if len(_PIECES) >= 256:
-            _PIECES.pop(next(iter(_PIECES)), None)
+        if len(_PIECES) >= 256:           # rarely reached: start afresh (no iteration, safe in threads)
+            _PIECES.clear()
         _PIECES[key] = found
     return found
 
@@ -166,15 +166,15 @@ class _Layout:
     multipliers and amount; the chemical potentials last), the constant blocks of the Jacobian,
     and index arrays of the residual's energy and balance rows."""
 
-    def __init__(self, states: list[PhaseState], elements: np.ndarray) -> None:
-        ne = len(elements)
+    def __init__(self, pieces: tuple[_Pieces, ...], ne: int) -> None:
+        self.pieces = pieces
         self.blocks = []
         size = 0
-        for st in states:
-            pc = _pieces(st.model, st.free, elements)
+        for pc in pieces:
             S = pc.S
-            self.blocks.append((S, pc.A, size, len(st.free), S.shape[0], pc.fr, pc.fc, pc.whole, pc.groups))
-            size += len(st.free) + S.shape[0] + 1
+            nf = S.shape[1]
+            self.blocks.append((S, pc.A, size, nf, S.shape[0], pc.fr, pc.fc, pc.whole, pc.groups))
+            size += nf + S.shape[0] + 1
         self.m0 = size
         self.size = size + ne
         J0 = np.zeros((self.size, self.size))
@@ -192,6 +192,23 @@ class _Layout:
         self.y_rows = np.concatenate(ys).astype(np.intp) if ys else np.zeros(0, np.intp)
 
 
+_LAYOUTS: dict[tuple, _Layout] = {}
+
+
+def _layout(states: list[PhaseState], elements: np.ndarray) -> _Layout:
+    """The `_Layout` of `states`, remembered for up to a few hundred sequences of phase pieces
+    (a layout holds no values, only where they go)."""
+    pieces = tuple(_pieces(st.model, st.free, elements) for st in states)
+    key = tuple(map(id, pieces))
+    found = _LAYOUTS.get(key)
+    if found is None or any(a is not b for a, b in zip(found.pieces, pieces)):
+        found = _Layout(pieces, len(elements))
+        if len(_LAYOUTS) >= 256:          # rarely reached: start afresh (no iteration, safe in threads)
+            _LAYOUTS.clear()
+        _LAYOUTS[key] = found
+    return found
+
+
 def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.ndarray,
           max_iterations: int = MAX_ITERATIONS) -> tuple[list[PhaseState], np.ndarray, bool]:
     """Refine `states` to the equilibrium at overall composition z (mole fractions of the active
@@ -201,7 +218,7 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
     states = [replace(st, y=st.y.copy()) for st in states]
     mu = np.array(mu, dtype=float)
     extra_step = False
-    lay = _Layout(states, elements)
+    lay = _layout(states, elements)
     minus_z = -np.asarray(z, dtype=float)
     with np.errstate(all="ignore"):
         for _ in range(max_iterations):
@@ -264,7 +281,7 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
                 extra_step = False
                 if not states:
                     return states, mu, False
-                lay = _Layout(states, elements)
+                lay = _layout(states, elements)
             elif extra_step:
                 return states, mu, True
     return states, mu, False
