@@ -440,12 +440,13 @@ class SublatticePhase:
         return Y[keep], moles[keep] / atoms[keep, None], atoms[keep]
 
     @cached_property
-    def _sample_basis(self) -> tuple[np.ndarray, np.ndarray, tuple[np.ndarray, np.ndarray] | None] | None:
-        """The samples' G without its temperature: (B, S, magnetic) with G = B @ C(T).ravel() +
-        R T S, B[k, (t, j)] = monomial_t(y_k) s_t(y_k)^j, S the entropy sum, and the same bases of
-        Tc and beta where the phase is magnetic; None where a basis would be large (then G is
-        evaluated afresh)."""
-        Y = self.sample_sites[0]
+    def _sample_basis(self) -> tuple[np.ndarray, tuple[np.ndarray, np.ndarray] | None] | None:
+        """The samples' G without its temperature: (B, magnetic) with G per mole of atoms (but the
+        magnetic term) B @ [C(T).ravel(), R T]: B[k, (t, j)] = monomial_t(y_k) s_t(y_k)^j / atoms_k,
+        the last column the entropy sum / atoms_k (one product at each temperature); the bases of
+        Tc and beta (per formula unit, without the division) where the phase is magnetic; None
+        where a basis would be large (then G is evaluated afresh)."""
+        Y, _X, atoms = self.sample_sites
         expansions = [self._energy] + ([self._curie, self._moment] if self.magnetic is not None else [])
         if any(len(Y) * e.n_terms * e.order > 4_000_000 for e in expansions):
             return None
@@ -457,7 +458,8 @@ class SublatticePhase:
             return (monomial[..., None] * s[..., None] ** np.arange(e.order)).reshape(len(Y), -1)
 
         magnetic = (basis(self._curie), basis(self._moment)) if self.magnetic is not None else None
-        return basis(self._energy), _xlogx(Y) @ self._site_weights, magnetic
+        energy = np.column_stack([basis(self._energy), _xlogx(Y) @ self._site_weights]) / atoms[:, None]
+        return np.asfortranarray(energy), magnetic
 
 
 def _axis_levels(n_log: int, n_mid: int) -> np.ndarray:
@@ -528,11 +530,15 @@ class SublatticeAtT:
         self.element_matrix = phase.element_matrix
         self._C = phase._energy.coefficients(self.T)
         self._weights = phase._site_weights
-        self._eye = np.eye(self.n_vars)
         mag = phase.magnetic
         if mag is not None:
             self._C_curie = phase._curie.coefficients(self.T)
             self._C_moment = phase._moment.coefficients(self.T)
+
+    @cached_property
+    def _eye(self) -> np.ndarray:
+        """The identity of the site fractions (the entropy's Hessian over many points)."""
+        return np.eye(self.n_vars)
 
     # --- magnetic part ----------------------------------------------------------------------
     def _magnetic(self, y: np.ndarray, order: int, values: tuple[np.ndarray, np.ndarray] | None = None):
@@ -704,12 +710,12 @@ class SublatticeAtT:
         basis = self.phase._sample_basis
         if basis is None:
             return Y, X, self.gibbs(Y) / atoms
-        B, S, magnetic = basis
-        g = B @ self._C.ravel() + self.RT * S
+        B, magnetic = basis
+        g = B @ np.append(self._C.ravel(), self.RT)
         if magnetic is not None:
             values = (magnetic[0] @ self._C_curie.ravel(), magnetic[1] @ self._C_moment.ravel())
-            g = g + self._magnetic(Y, 0, values)[0]
-        return Y, X, g / atoms
+            g = g + self._magnetic(Y, 0, values)[0] / atoms
+        return Y, X, g
 
     def samples(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """(Y, X, G): site fractions (k, n_vars), mole fractions per mole of atoms (k, n_elements)
