@@ -1,7 +1,7 @@
 """Views, units, zoom, the reactions table, help and the system picker."""
 
 import pytest
-from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_text
+from explorer_harness import SIZE, make_app, pilot_test, screen_text, status_text, until
 from textual.widgets import ContentSwitcher, OptionList
 
 from ladle.tui.explorer.cautions import GENERAL_CAUTIONS
@@ -109,6 +109,41 @@ async def test_system_picker_lists_sources_and_narrows_by_typing():
         await pilot.press("escape")
         assert not isinstance(app.screen, SystemPicker)
         assert _main(app).exploration.system.name == "pb-sn"
+
+
+@pilot_test
+async def test_the_pickers_counts_arrive_one_by_one_and_leave_the_highlight(monkeypatch):
+    """A system's independent checks are counted the first time its file is seen (seconds
+    each): each count shows as it arrives, while the list keeps the user's highlight."""
+    import threading
+
+    from ladle.tui.explorer.screens import systems as picker_module
+
+    release, counted = threading.Event(), []
+    real = picker_module.with_check_result
+
+    def held_after_the_first(choice):
+        if counted:
+            release.wait(10.0)
+        counted.append(choice.name)
+        return real(choice)
+
+    monkeypatch.setattr(picker_module, "with_check_result", held_after_the_first)
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("s", "down", "down", "down")
+        options = app.screen.query_one(OptionList)
+        before = options.highlighted
+        assert before and before > 0                  # where a refilled list would have put it back to 0
+        first, last = options.get_option_at_index(0).id, options.get_option_at_index(options.option_count - 1).id
+        await until(pilot, lambda: "independent checks passed" in str(options.get_option(first).prompt)
+                    or "no independent checks" in str(options.get_option(first).prompt), "the first count")
+        assert "independent checks passed" not in str(options.get_option(last).prompt)   # not counted yet
+        assert options.highlighted == before
+        release.set()
+        await until(pilot, lambda: "passed" in str(options.get_option(last).prompt)
+                    or "no independent checks" in str(options.get_option(last).prompt), "the last count", 120.0)
+        assert options.highlighted == before
 
 
 @pilot_test

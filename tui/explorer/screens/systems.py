@@ -10,7 +10,7 @@ from textual.binding import Binding
 from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, OptionList, Static
-from textual.widgets.option_list import Option
+from textual.widgets.option_list import Option, OptionDoesNotExist
 from textual.worker import get_current_worker
 
 from ..system_choices import SystemChoice, with_check_result
@@ -52,19 +52,23 @@ class SystemPicker(ModalScreen[str | None]):
         field.focus()
 
     def _count_checks(self) -> None:
-        """In a thread: how many independent checks each system passes, then show them (given up
-        when the worker is cancelled, as when the explorer quits)."""
+        """In a thread: how many independent checks each system passes, each shown as soon as it
+        is counted (a file seen for the first time takes seconds; given up when the worker is
+        cancelled, as when the explorer quits)."""
         worker = get_current_worker()
-        counted = []
-        for choice in self.choices:
+        for i, choice in enumerate(list(self.choices)):
             if worker.is_cancelled:
                 return
-            counted.append(with_check_result(choice))
-        self.app.call_from_thread(self._show_counts, counted)
+            self.app.call_from_thread(self._show_count, i, with_check_result(choice))
 
-    def _show_counts(self, counted: list[SystemChoice]) -> None:
-        self.choices = counted
-        self._fill(self.query_one(Input).value)
+    def _show_count(self, index: int, counted: SystemChoice) -> None:
+        """Put a counted choice in its place, and in the list where the filter shows it (its
+        line alone: the highlight and the scrolling stay where the user has them)."""
+        self.choices[index] = counted
+        try:
+            self.query_one(OptionList).replace_option_prompt(counted.name, self._describe(counted))
+        except OptionDoesNotExist:
+            pass
 
     def _fill(self, query: str) -> None:
         """The choices matching `query`, the system named by it first, then those whose names
