@@ -313,6 +313,7 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
     K = pieces.K0.copy()
     Amu = A @ mu
     targets = [st[free] for st in sets]
+    df_at_y = None                              # the driving force at y where the loop has it
     with np.errstate(all="ignore"):
         for _ in range(steps):
             G, g, H = _derivatives(model, y)
@@ -323,6 +324,7 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
             moles = y @ E
             atoms = float(moles.sum()) if len(elements) else 1.0
             df_now = (float(G) - float(moles @ mu)) / atoms
+            df_at_y = df_now if len(elements) else None
             if df_now > -tolerance and any(np.all(np.abs(yf - t) <= REACHED * t) for t in targets):
                 break                                               # at a given stationary point
             gA = g - Amu
@@ -348,9 +350,11 @@ def lowest_driving_force(model, y0: np.ndarray, mu: np.ndarray, elements: np.nda
             else:
                 y_new = y.copy()
                 y_new[free] = positive_step(yf, dy)
-            y = _normalise(y_new, groups)
+            y, df_at_y = _normalise(y_new, groups), None
             if big < 1e-10:
                 break
+        if df_at_y is not None:                 # stopped before a step: y is where G was evaluated
+            return y, df_at_y
         n = y @ model.element_matrix
         atoms = float(n.sum())
         df = (float(model.gibbs(y)) - float(n[elements] @ mu)) / atoms
