@@ -42,7 +42,8 @@ def _key(system) -> str:
     from ..files.loader import shipped_library
 
     h = hashlib.sha256(_engine_digest())
-    h.update(Path(system.path).read_bytes())
+    for path in (system.path, *system.built_from):     # a fix to a binary changes what is built on it
+        h.update(Path(path).read_bytes())
     h.update(shipped_library().path.read_bytes())
     h.update("\0".join(system.phases).encode())      # a variant keeps fewer phases of the same file
     return h.hexdigest()

@@ -271,6 +271,7 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         covers_elements=covers_elements,
         declared_temperature_range_K=t_range,
         document=doc,
+        built_from=tuple(dict.fromkeys(f for _n, b in bases for f in (b.path, *b.built_from))),
     )
     system.checks = parse_facts(doc.get("check", []), "check", system, r.fail)
     system.measured = parse_facts(doc.get("measured", []), "measured", system, r.fail)

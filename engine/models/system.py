@@ -59,7 +59,8 @@ class System:
     temperature (K) the model is meant for; `covers_elements` the range of mole fraction of each
     element it names (systems of three or more elements; an element not named may take any).
     `fit_covers` is the range of x_B a binary's fit draws its measured facts from, where the file
-    gives `[fit] facts_at_percent` (None: the covered range).
+    gives `[fit] facts_at_percent` (None: the covered range). `built_from` lists the files its
+    model was built from besides `path` (`builds_on`, and what those build on).
     """
 
     name: str
@@ -82,6 +83,7 @@ class System:
     fit_covers: tuple[float, float] | None = None
     alloys: tuple = ()
     document: dict = field(default_factory=dict, repr=False)
+    built_from: tuple[Path, ...] = ()
 
     @property
     def solutions(self) -> dict[str, SolutionPhase]:

@@ -73,3 +73,29 @@ def test_an_unusable_cache_is_not_needed(tmp_path, monkeypatch):
     monkeypatch.setenv("XDG_CACHE_HOME", str(blocker))
     system = load_system(write(tmp_path, ideal_text(CHECKS)))
     assert measure_cache.check_counts(system) == (1, 2)
+
+
+def test_a_change_to_a_file_built_on_is_evaluated_again(tmp_path, cache_home, monkeypatch):
+    """A ternary's counts depend on the binaries it builds on (builds_on, beside it): a fix to
+    one of them must not leave the ternary's old counts standing."""
+    from types import SimpleNamespace
+
+    from ladle.engine.files.loader import shipped_folder
+
+    for name in ("ag-cu-sn.toml", "sn-ag.toml", "sn-cu.toml", "ag-cu.toml"):
+        (tmp_path / name).write_bytes((shipped_folder() / name).read_bytes())
+    evaluated = []
+
+    def counted(system, checks):
+        evaluated.append(system.name)
+        return [SimpleNamespace(passed=True)] * len(checks)
+
+    monkeypatch.setattr(measure_cache, "evaluate_all", counted)
+    ternary = tmp_path / "ag-cu-sn.toml"
+    measure_cache.check_counts(load_system(ternary))
+    measure_cache.check_counts(load_system(ternary))
+    assert len(evaluated) == 1
+    binary = tmp_path / "sn-ag.toml"
+    binary.write_text(binary.read_text(encoding="utf-8") + "\n# a changed binary\n", encoding="utf-8")
+    measure_cache.check_counts(load_system(ternary))
+    assert len(evaluated) == 2
