@@ -159,15 +159,16 @@ class SectionExploration:
     def _mass_span(self, w: np.ndarray) -> tuple[float, float]:
         """The stretch of the varying element's mass fraction, the others' held at `w`, where the
         alloy is covered and holds at most SECTION_SHARE of it by moles: the covered run of a
-        MASS_SPAN_SAMPLES grid nearest the alloy, its ends bisected to 1e-12."""
+        MASS_SPAN_SAMPLES grid (and the alloy's own content) nearest the alloy, its ends bisected
+        to 1e-12."""
         room = 1.0 - sum(v for i, v in enumerate(w) if i not in (0, self.varying))
 
         def inside(w_varying: np.ndarray) -> np.ndarray:
             x = self._mass_section(w, np.clip(w_varying, 0.0, room))
             return self.system.covered(x) & (x[:, self.varying] <= SECTION_SHARE + 1e-12)
 
-        grid = np.linspace(0.0, room, MASS_SPAN_SAMPLES)
-        ok = inside(grid)
+        grid = np.union1d(np.linspace(0.0, room, MASS_SPAN_SAMPLES), [min(max(w[self.varying], 0.0), room)])
+        ok = inside(grid)            # the alloy's own content is sampled: a stretch narrower than the grid is found
         if not ok.any():
             return float(w[self.varying]), float(w[self.varying])
         good = np.flatnonzero(ok)
