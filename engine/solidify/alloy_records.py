@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .branches import hermite
 from .records import SAME_K, Arrest
 
 #: The liquid phase's name in every system.
@@ -186,9 +187,7 @@ def _between(steps, k: int, T: float) -> np.ndarray:
     after = secant(k) if same_stage(k) else None
     m_a = _inner_slope(before, (h, d)) if before else (_end_slope((h, d), after) if after else d)
     m_b = _inner_slope((h, d), after) if after else (_end_slope((h, d), before) if before else d)
-    s = (T - a.temperature_K) / h
-    return ((1.0 + 2.0 * s) * (1.0 - s) ** 2 * va + s * (1.0 - s) ** 2 * h * m_a
-            + s * s * (3.0 - 2.0 * s) * vb + s * s * (s - 1.0) * h * m_b)
+    return hermite(a.temperature_K, b.temperature_K, va, vb, m_a, m_b, T)[0]
 
 
 def _inner_slope(left: tuple[float, np.ndarray], right: tuple[float, np.ndarray]) -> np.ndarray:

@@ -165,17 +165,14 @@ def _invariant_equilibria(iso, invariant) -> dict | None:
 _ABOVE = " above"
 
 
-def _invariant_kind(iso, found: dict) -> str | None:
-    """'eutectic', 'eutectoid', 'peritectic' or 'peritectoid': a binary's invariant reaction by
-    its middle phase (in composition) and the side it is stable on, as for a mapped diagram's
-    reactions; None for another kind. `found`: `_invariant_equilibria`'s answer."""
-    names = sorted((n for n in found if n != _ABOVE), key=lambda n: _content(iso, found[n]))
-    middle, liquid = names[1], "liquid" in names
-    if middle in found[_ABOVE]:                 # the middle phase gives way to the outer two on cooling
-        return "eutectic" if middle == "liquid" else None if liquid else "eutectoid"
-    if middle == "liquid":                      # the outer two form the middle one on cooling
-        return None
-    return ("peritectic" if "liquid" in found[_ABOVE] else None) if liquid else "peritectoid"
+def _invariant_kind(iso, found: dict) -> str:
+    """A binary's invariant reaction named as a mapped diagram names its reactions
+    (engine/diagrams/special.py `classify`): by its middle phase (in composition) and whether
+    that phase forms on cooling. `found`: `_invariant_equilibria`'s answer."""
+    from ladle.engine.diagrams.special import classify
+
+    low, middle, high = sorted((n for n in found if n != _ABOVE), key=lambda n: _content(iso, found[n]))
+    return classify(middle, (low, high), middle not in found[_ABOVE])
 
 
 def _invariants_json(iso, data: dict) -> None:
