@@ -98,6 +98,9 @@ KNOWN_FAILURES = {
     ("bi-pb", 3): "the 1937 thermal analysis puts the peritectic at 188 C, 3.1 K above the model's 184.9 C, which "
                   "follows the assessment's calculated peritectic (Yoon and Lee 1998, a fit target): measurement and "
                   "assessment disagree by just over the 3 K tolerance",
+    ("bi-pb", 4): "the 1937 study's (Pb) solvus (13-14 % Bi between 6 and 188 C) lies 4.4 at% below the model's "
+                  "17.9 at% at 100 C, which follows the assessment's 23 at% at the 184.9 C peritectic (Yoon and Lee 1998, "
+                  "a fit target): measurement and assessment disagree; not refitted, no third source at hand to settle it",
     ("bi-cd", 2): "the model's (Cd) holds 0.07 at% Bi at 140 C, above the bound of 0.03 at%: its hcp interaction is "
                   "set by hand",
     ("au-sn", 4): "the model's zeta liquidus lies 15 K below the solder maker's 350 C for Au-18Sn (wt%): the three-term "
@@ -162,10 +165,11 @@ SHORT_OF_CHECKS = {
                  "no Au-Si liquidus point, calorimetry of the melt or further solubility value was found in a source at "
                  "hand (the evaluation's tables, Castanet's calorimetry, Thurmond and Kowalchik's liquidus and the textbook "
                  "tables found were reference lists or text without their numbers)"),
-    "bi-pb": (2, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "
-                 "liquidus, solvus or calorimetry of the binary from a source at hand beyond the 1937 study's (Bi) solubility "
-                 "and peritectic temperature (the same study's (Pb) solvus, 13-14 % Bi, contradicts the assessment's 23 at% "
-                 "at the peritectic; Hultgren's Bi-Pb mixing enthalpies, the LBE handbook's phase-diagram chapter and "
+    "bi-pb": (3, "the facts at hand (the LBE handbook's eutectic, the assessment's invariants) are fit targets; no "
+                 "liquidus or calorimetry of the binary from a source at hand beyond the 1937 study's (Bi) solubility, "
+                 "peritectic temperature and (Pb) solvus (all three known misses; searched again for Kleppa's 1955 "
+                 "calorimetry of liquid Bi-Pb, DSC of the LBE and Pb-Bi liquidus points: titles or abstracts without "
+                 "numbers; Hultgren's Bi-Pb mixing enthalpies, the LBE handbook's phase-diagram chapter and "
                  "Barlow's 1911 liquidus were found as titles or reference lists only; "
                  "Agarwal et al.'s calorimetry of epsilon (J. Alloys Compd. 490 (2010) 150) is not a kind of fact "
                  "ladle checks: epsilon is a solution phase and its enthalpy is given against the liquids)"),
@@ -201,12 +205,6 @@ SHORT_OF_CHECKS = {
                  "solidus papers were not readable; Hassam et al.'s 2009 DSC of the Pb-rich side gives no number in its "
                  "abstract, the Pb-Sb-Sn evaluation (Osamura 1985) and the ASM and DIN 17640 hard-lead tables were found "
                  "as titles only); the evaluation's other solubilities are fit targets"),
-    "sn-ag": (3, "Indium's listed Sn95Ag5 and Sn90Ag10 liquidus temperatures are fit targets, the makers' other binary "
-                 "listings are the eutectic itself; besides the (recalled) mixing enthalpy and the Sn97Ag3 liquidus, "
-                 "Ag3Sn's EMF enthalpy of formation (2025) is the one further fact found; no further liquidus, (Sn) "
-                 "solvus or sourced calorimetry of the melt (the calorimetry abstracts found give no numbers; a DSC study "
-                 "of Ag-Sn alloys over the whole range (Chinese Sci. Bull. 2013) gives none in its abstract, and a "
-                 "hobbyist's table of Sn-5/6/7Ag melting ranges names no maker or standard)"),
     "sn-cu": (2, "its liquid and (Cu) are shared with cu-sn and fitted to facts of both sides; within 0-6 at% Cu "
                  "the 97Sn-3Cu liquidus (Indium's listing), the eutectic and Cu6Sn5's calorimetry are fit targets; the checks "
                  "are the bound on Cu in (Sn) and Multicore's 97Sn-3Cu liquidus (a known miss); no further tin-rich "
