@@ -42,13 +42,16 @@ NOTHING_PERCENT = 1e-11
 def percent(fraction: float) -> str:
     """A fraction as a percentage with three significant figures: '40.0', '2.51', '0.800',
     '0.00310'; below 0.001 % '<0.001' (and '0' for nothing), and a near-pure value never
-    rounded up to 100 ('99.98', '>99.999'). JSON output keeps full precision instead."""
+    rounded up to 100 ('99.98', '>99.999'; within NOTHING_PERCENT of it, rounding noise of a
+    sum, '100.0'). JSON output keeps full precision instead."""
     v = 100.0 * fraction
     a = abs(v)
     if a < NOTHING_PERCENT:
         return "0"
     if a >= 9.995:   # what rounds to 10.00 is shown as 10.0
         rest = 100.0 - a
+        if abs(rest) < NOTHING_PERCENT:    # the whole, off by rounding noise only (0.9999999999999999)
+            return f"{math.copysign(100.0, v):.1f}"
         if 0.0 < rest < SMALLEST_PERCENT:
             return f">{100.0 - SMALLEST_PERCENT:g}"
         if 0.0 < rest < 0.05:  # never round a near-pure value up to 100

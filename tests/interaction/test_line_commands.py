@@ -479,3 +479,13 @@ def test_steel_diagram_json_has_the_kind_and_compositions_of_each_reaction(run):
             assert found[phase] == pytest.approx(wt, rel=0.15, abs=0.01), (kind, phase)
         if "Fe3C" in found:
             assert {c["name"]: c for c in r["compositions"]}["Fe3C"]["mole_fraction"]["C"] == pytest.approx(0.25)
+
+
+def test_a_single_phase_is_the_whole_alloy_in_both_units(run):
+    """SAC305 at 250 C is all liquid (shipped ag-cu-sn; its liquidus is near 220 C): the liquid is
+    100.0 mass % and 100.0 mol % of the alloy. Its mass share summed to 0.9999999999999999 and was
+    shown '>99.999 mass % (100.0 mol %)', as if another phase held the rest."""
+    code, out, err = run("point", "ag-cu-sn", "--temp", "250C", "--alloy", "SAC305")
+    assert (code, err) == (0, "")
+    liquid = next(line for line in out.splitlines() if line.startswith("liquid "))
+    assert "100.0 mass % (100.0 mol %)" in liquid, liquid
