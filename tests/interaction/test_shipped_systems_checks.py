@@ -178,8 +178,9 @@ SHORT_OF_CHECKS = {
                  "teaching texts found give only the eutectic, the Bi60Cd40 fusible alloy is the eutectic itself; "
                  "abstracts on the melt's enthalpy and EMF give no numbers; Barlow's 1911 and Stoffel's 1907 thermal "
                  "analyses, Elliott and Chipman's (1951) EMF study and Hultgren et al. (1973) found as titles or reference "
-                 "lists only, Kleppa's calorimetry not found; with one fit target the liquid keeps two coefficients, see "
-                 "FITS_NOT_TO_RULE)"),
+                 "lists only, Kleppa's calorimetry not found; searched again for DSC of Bi-Cd alloys, Russian and Chinese "
+                 "teaching-lab tables and Russian handbook summaries: none with numbers; with one fit target the liquid "
+                 "keeps two coefficients, see FITS_NOT_TO_RULE)"),
     "fe-si": (3, "the iron-rich Fe-Si facts at hand (the liquidus slope and distribution coefficient of steelmaking "
                  "practice, the gamma loop) are the fit targets, all recalled from memory; the checks are the melt's "
                  "enthalpy from Sigworth and Elliott's partial enthalpy of silicon (recalled), a weak liquidus from Won "
@@ -204,21 +205,25 @@ SHORT_OF_CHECKS = {
                  "melting ranges, battery-alloy and hard-lead pages give compositions only; the 1926-27 AIME liquidus and "
                  "solidus papers were not readable; Hassam et al.'s 2009 DSC of the Pb-rich side gives no number in its "
                  "abstract, the Pb-Sb-Sn evaluation (Osamura 1985) and the ASM and DIN 17640 hard-lead tables were found "
-                 "as titles only); the evaluation's other solubilities are fit targets"),
+                 "as titles only; searched again for Pb-Sb DSC of battery alloys, German, Russian and Japanese hard-lead "
+                 "and phase-diagram pages: compositions or pouring temperatures only); the evaluation's other solubilities "
+                 "are fit targets"),
     "sn-cu": (2, "its liquid and (Cu) are shared with cu-sn and fitted to facts of both sides; within 0-6 at% Cu "
                  "the 97Sn-3Cu liquidus (Indium's listing), the eutectic and Cu6Sn5's calorimetry are fit targets; the checks "
                  "are the bound on Cu in (Sn) and Multicore's 97Sn-3Cu liquidus (a known miss); no further tin-rich "
                  "liquidus, solvus or calorimetry value was at hand (solder tables found list Sn-Cu grades with Ag "
                  "or Ni added, abstracts on Cu dissolution in tin give no numbers; searched again for the Cu solubility "
                  "in liquid Sn at 250-300 C: the 1930 AIME eutectic paper, Kleppa's 1956 calorimetry and the dissolution "
-                 "and wave-soldering studies found give none in the text at hand)"),
+                 "and wave-soldering studies found give none in the text at hand; Sn99Cu1 listings of makers and ISO 9453 "
+                 "and DSC studies of Sn-xCu searched again: not found)"),
     "sn-zn": (2, "JIS Z 3281's two off-eutectic Sn-Zn solders give one fit target (Sn80Zn20) and one check "
                  "(Sn85Zn15), the makers' 30 and 40 wt% liquidus values are fit targets, and the evaluation's summary "
                  "gives only the eutectic and the two solubilities it fixes; the makers' other Sn-Zn listings are the "
                  "eutectic (ASTM B907's melting ranges not found), and the calorimetry abstracts of the melt give no "
                  "numbers; Hamada et al. (Mater. Trans. 51 (2010) 1747) give Zn in (Sn) as 0.34 mass%, the eutectic "
                  "solubility already fitted; Lee et al.'s (2007) and Drapala et al.'s (2017) thermal analyses were found "
-                 "without their numbers)"),
+                 "without their numbers; zinc-rich Zn-Sn spray-wire and solder grades (ASTM B943) searched again: scope "
+                 "text only)"),
 }
 MIN_CHECKS = 4
 
