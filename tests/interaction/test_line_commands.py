@@ -489,3 +489,18 @@ def test_a_single_phase_is_the_whole_alloy_in_both_units(run):
     assert (code, err) == (0, "")
     liquid = next(line for line in out.splitlines() if line.startswith("liquid "))
     assert "100.0 mass % (100.0 mol %)" in liquid, liquid
+
+
+def test_cool_table_ends_with_both_paths_frozen_at_a_shared_plateau(run):
+    """SAC305 (shipped ag-cu-sn) ends freezing by the ternary eutectic on both paths, their
+    plateaus some 1e-8 K apart: the table's last row is all solid on both (a ternary eutectic
+    plateau leaves no liquid). It showed equilibrium 38.9 beside Scheil 100.0, the equilibrium
+    state taken a hair above its own plateau."""
+    code, out, err = run("cool", "ag-cu-sn", "--alloy", "SAC305")
+    assert (code, err) == (0, "")
+    table = out.split("\n\n")[1].splitlines()
+    assert "freezing ends, equilibrium" in out.split("\n\n")[2]
+    last = table[-1].split()
+    assert last[2:4] == ["100.0", "100.0"], table[-1]
+    assert [row.split()[0] for row in table[-2:]] == [last[0], last[0]]     # before and after the plateau
+    assert table[-2].split()[2] != "100.0", table[-2]

@@ -121,18 +121,20 @@ def row_temperatures(result, unit: str) -> list[tuple[float, bool]]:
     paths = (result.equilibrium, result.scheil)
     top = result.equilibrium.liquidus_K
     bottom = min(s.temperature_K for p in paths for s in p.steps)
-    events: list[list] = []                  # [T, plateau?], one per temperature of either path
+    events: list[list] = []     # [highest T, lowest T, plateau?]: arrests of either path within _SAME_K
     for a in sorted((a for p in paths for a in p.arrests), key=lambda a: -a.temperature_K):
-        if events and abs(events[-1][0] - a.temperature_K) <= _SAME_K:
-            events[-1][1] = events[-1][1] or a.kind == "plateau"
+        if events and abs(events[-1][1] - a.temperature_K) <= _SAME_K:
+            events[-1][1:] = [a.temperature_K, events[-1][2] or a.kind == "plateau"]
         else:
-            events.append([a.temperature_K, a.kind == "plateau"])
+            events.append([a.temperature_K, a.temperature_K, a.kind == "plateau"])
     rows = {(top, False)}
-    for T, plateau in events:
-        if abs(T - top) > _SAME_K:
-            rows.add((T, False))
+    # the row before a shared arrest at its highest temperature, the row after it at its lowest:
+    # each path then stands before, or after, its own arrest
+    for high, low, plateau in events:
+        if abs(high - top) > _SAME_K:
+            rows.add((high, False))
         if plateau:
-            rows.add((T, True))
+            rows.add((low, True))
     hi, lo = kelvin_to(top, unit), kelvin_to(bottom, unit)
     if hi - lo > 0.0:
         step = max(nice_step(hi - lo, TABLE_ROWS), 1.0)     # the table shows tenths of a degree
