@@ -34,7 +34,10 @@ COMMANDS = {
 
 
 class _Parser(argparse.ArgumentParser):
-    """An argument parser whose errors are one line on stderr and exit status 2."""
+    """An argument parser whose errors are one line on stderr and exit status 2; the `ladle`
+    parser knows each command's own (`commands`), which names the command in its errors."""
+
+    commands: dict[str, argparse.ArgumentParser]
 
     def error(self, message: str) -> None:  # type: ignore[override]
         self.exit(2, f"{self.prog}: {one_line(message)} (see {self.prog} --help)\n")
@@ -55,10 +58,11 @@ def build_parser(command: str | None = None) -> tuple[argparse.ArgumentParser, d
                      "(on the system named, else the one used last; --ascii or LADLE_ASCII=1 draws "
                      "with plain ASCII for old terminals and serial consoles).")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    parser.commands = {}
     modules = {}
     for name, module in COMMANDS.items():
         mod = importlib.import_module(f"ladle.tui.commands.{module}")
-        p = sub.add_parser(name, help=mod.HELP, description=mod.HELP)
+        p = parser.commands[name] = sub.add_parser(name, help=mod.HELP, description=mod.HELP)
         if name == command:
             mod.add_arguments(p)
         modules[name] = mod
@@ -115,7 +119,9 @@ def main(argv: list[str] | None = None) -> int:
     tolerate_narrow_terminal()
     parser, modules = build_parser(argv[0] if argv else None)
     with report("ladle"):          # --help into a closed pipe: status 1, as every command
-        args = parser.parse_args(argv)
+        args, extra = parser.parse_known_args(argv)
+        if extra:                  # named by the command that refused them, as its other errors
+            parser.commands.get(args.command, parser).error(f"unrecognized arguments: {' '.join(extra)}")
     with report(f"ladle {args.command}"):
         return modules[args.command].run(args)
 

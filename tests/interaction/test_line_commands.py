@@ -329,6 +329,10 @@ BAD = [
     (("point", "pb-sn", "--temp", "1e9F", "--comp", "Sn=10wt%"), "(-457.87 to 10340.33 F, 1 to 6000 K)"),
     (("diagram", "ag-cu-sn", "--temp", "25C"), "covers (100 to 450 C, 373.15 to 723.15 K); no answer is given"),
     (("diagram", "ag-cu-sn", "--temp", "300K"), "covers (373.15 to 723.15 K); no answer is given"),
+    # an option another command takes: named by this command, as its other errors (it said
+    # 'ladle: unrecognized arguments: ... (see ladle --help)')
+    (("transitions", "al-cu", "--comp", "Cu=4.5wt%", "--temp", "500"),
+     "unrecognized arguments: --temp 500 (see ladle transitions --help)"),
 ]
 
 
