@@ -90,3 +90,21 @@ async def test_an_alloy_without_paths_says_why(tmp_path):
         await pilot.pause()
         assert "no answer: no liquidus for this alloy inside the mapped window" in status_text(app)
         assert "no cooling path (see the status pane)" in screen_text(app)
+
+
+@pilot_test
+async def test_how_each_path_ends_is_never_cut():
+    """Cu-50 wt% Ni (shipped cu-ni, a complete solid solution): the Scheil liquid runs to pure
+    copper and the status pane says so in full, 'last liquid', where it showed 'last liq' (the
+    line was cut at the pane's width); at 4-digit temperatures in F the equilibrium's 'solidus'
+    keeps its line too."""
+    x_ni = 0.5 / 58.6934 / (0.5 / 58.6934 + 0.5 / 63.546)      # 50 wt% Ni as a mole fraction
+    app = make_app("cu-ni", T_K=1500.0, x_B=x_ni, temperature_unit="F")
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("4")
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        lines = [line.strip() for line in status_text(app).splitlines()]
+        scheil = next(i for i, line in enumerate(lines) if line.startswith("Scheil "))
+        assert re.fullmatch(r"Scheil +\d+ °F", lines[scheil]) and lines[scheil + 1] == "last liquid", lines
+        assert any(re.fullmatch(r"equilibrium +\d+ °F solidus", line) for line in lines), lines

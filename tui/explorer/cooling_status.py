@@ -35,7 +35,12 @@ def cooling_lines(result, coring: Coring | None, system, scales: Scales,
             lines.append(("value", f" {name:<12}{'liquid left':>14}"))
             continue
         T = format_temperature_value(scales.shown_temperature(path.end_K))
-        lines.append(("value", f" {name:<12}{T:>5} {unit} {path.end}"[:WIDTH]))
+        line = f" {name:<12}{T:>5} {unit}"
+        if len(f"{line} {path.end}") <= WIDTH:
+            lines.append(("value", f"{line} {path.end}"))
+        else:        # how it ends on a line of its own, never cut ('last liquid', 'peritectic')
+            lines += [("value", line)] + [("value", row) for row in
+                                          textwrap.wrap(path.end, WIDTH, initial_indent="   ", subsequent_indent="   ")]
     lines.append(("heading", f"{'STRUCTURE, mass %':<17}{'eq.':>6}{'Sch.':>7}"))
     ends = [p.end_K for p in (result.equilibrium, result.scheil) if p.end_K is not None]
     T_end = min(ends) if ends else result.equilibrium.liquidus_K   # trade names at the end
