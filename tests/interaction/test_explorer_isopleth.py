@@ -9,7 +9,7 @@ import sys
 from pathlib import Path
 
 import pytest
-from explorer_harness import SIZE, THEME, pilot_test, screen_text, status_text, until
+from explorer_harness import SIZE, THEME, pilot_test, screen_text, section_app, status_text, until
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "unit"))
 
@@ -215,3 +215,21 @@ async def test_a_point_without_an_answer_says_so_and_later_points_are_answered(t
         monkeypatch.setattr(e, "equilibrium", answer)
         await pilot.press("down")
         await until(pilot, lambda: "PHASES" in status_text(app) and "computing" not in status_text(app), "the point")
+
+
+@pilot_test
+async def test_the_sides_of_a_ternary_gap_are_named_by_what_each_is_rich_in():
+    """14-carat gold 14ct-1N at 500 C (shipped ag-au-cu) lies in the gap between a copper-rich and
+    a silver-rich fcc. Each side is named by the element it holds most more of than the other:
+    'fcc (Cu-rich)' (some 55 at% Cu) and 'fcc (Ag-rich)' (some 54 at% Ag). The status pane
+    called the copper-rich side 'fcc (Au-rich)', from its silver content alone, as for a binary."""
+    app = section_app("ag-au-cu")
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("g", *"14ct-1N 500C", "enter")
+        await until(pilot, lambda: "PHASES" in status_text(app) and "computing" not in status_text(app), "the point")
+        rows = [line.strip() for line in status_text(app).splitlines()]
+        sides = {row.split(" ")[1]: rows[i + 1] for i, row in enumerate(rows) if row.startswith("fcc (")}
+        assert set(sides) == {"(Cu-rich)", "(Ag-rich)"}, rows
+        cu, ag = (dict(zip(sides[side].split()[::2], map(float, sides[side].split()[1::2])))
+                  for side in ("(Cu-rich)", "(Ag-rich)"))
+        assert cu["Cu"] > ag["Cu"] and ag["Ag"] > cu["Ag"]

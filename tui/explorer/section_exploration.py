@@ -30,7 +30,7 @@ from ladle.engine.diagrams.isopleth import (Isopleth, covered_range_words, map_i
 from ladle.engine.diagrams.isothermal import IsothermalSection, map_isothermal
 from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import kelvin_to, mass_from_mole, mole_from_mass
-from ladle.tui.phase_names import constituent_trade_name, phase_label
+from ladle.tui.phase_names import constituent_trade_name, equilibrium_labels
 from ladle.tui.quote import percent
 
 from .alloy_changes import AlloyChanges, alloy_changes, shows_changes
@@ -459,9 +459,7 @@ class SectionExploration:
         if eq is None:
             lines.append(("note", " computing ..."))
             return lines
-        among = [(p.name, float(p.x[1])) for p in eq.phases]
-        for p in eq.phases:
-            name = phase_label(self.system, p.name, float(p.x[1]), T, among)
+        for p, name in zip(eq.phases, equilibrium_labels(self.system, eq.phases, T), strict=True):
             amount, content = (p.amount_mass, p.w) if by_mass else (p.amount_mol, p.x)
             contents = " ".join(f"{els[i]} {percent(content[i])}" for i in shown)
             if compact and self.is_binary:
