@@ -150,6 +150,9 @@ async def test_u_switches_the_section_between_at_and_wt_percent_keeping_the_allo
         assert e.basis == "wt" and e.x_at_cursor() == pytest.approx(alloy, abs=1e-12)
         assert " wt%; A balance" in app.screen.query_one("#title").render().plain
         assert "B wt%" in screen_text(app) and "PHASES, mass % and wt%" in status_text(app)
+        # each phase's amount is a mass % of the alloy, not a content: 'liquid 16.3 mass%' (it said 'wt%')
+        amounts = [row.strip() for row in status_text(app).splitlines() if row.strip().startswith(("liquid ", "alpha "))]
+        assert amounts and all(row.endswith(" mass%") for row in amounts), amounts
         await pilot.press("u")
         assert e.basis == "at" and e.x_at_cursor() == pytest.approx(alloy, abs=1e-12)
 

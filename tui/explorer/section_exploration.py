@@ -439,7 +439,7 @@ class SectionExploration:
         (every element, or a binary's second one, in the section's basis and the other), and
         every phase of `eq` (the point equilibrium at the cursor, None while it is computed) with
         the trade's name beside it, its amount and its content of every element (left out with
-        `phases` False). In the wt% basis amounts are mass fractions, else mole fractions.
+        `phases` False). In the wt% basis amounts are mass % of the alloy, else mol %.
         `compact`: without the POINT heading, and a binary's phases one line each, by the
         trade's name where there is one."""
         els = self.system.elements
@@ -466,7 +466,7 @@ class SectionExploration:
                 short = trade_names(self.system).phase_name(p.name, T) if name.count("(") == 1 else None
                 lines.append(("value", f" {short or name} {percent(amount)}%, {contents}"))
                 continue
-            lines.append(("value", f" {name} {percent(amount)} {'wt' if by_mass else 'mol'}%"))
+            lines.append(("value", f" {name} {percent(amount)} {'mass' if by_mass else 'mol'}%"))   # an amount, not a content
             lines.append(("note", f"   {contents}"))
         if not eq.converged:
             lines.append(("warning", " did not converge: treat with suspicion"))
