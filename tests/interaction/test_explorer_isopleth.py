@@ -236,3 +236,17 @@ async def test_the_sides_of_a_ternary_gap_are_named_by_what_each_is_rich_in():
         cu, ag = (dict(zip(sides[side].split()[::2], map(float, sides[side].split()[1::2])))
                   for side in ("(Cu-rich)", "(Ag-rich)"))
         assert cu["Cu"] > ag["Cu"] and ag["Ag"] > cu["Ag"]
+
+
+@pilot_test
+async def test_a_typed_name_the_system_lacks_gets_its_alloys_listed():
+    """'A356 600C' on the shipped al-mg-si, whose file names the alloy A356.0 (the Aluminum
+    Association's designation): the entry says the name is not one of this system's alloys and
+    lists them. It said only "cannot read temperature 'A356'", as if a number were mistyped."""
+    app = section_app("al-mg-si")
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("g", *"A356 600C", "enter")
+        problem = str(app.screen.query_one("#point-problem").render())
+        assert problem.startswith("not used: cannot read temperature 'A356', nor an alloy of this system by that name; "
+                                  "its alloys: A356.0, "), problem
+        assert app.screen.query_one(PointEntry).display            # kept open for correcting

@@ -15,7 +15,7 @@ import re
 from dataclasses import dataclass
 
 from ladle.tui.parsing import parse_alloy, parse_temperature, resolve_alloy
-from ladle.tui.quote import percent
+from ladle.tui.quote import one_line, percent
 
 from .cursor import Window
 from .glyphs import Glyphs
@@ -73,6 +73,8 @@ def parse_point(text: str, elements: tuple[str, ...], molar_mass, alloys: tuple 
                 continue
             if temperature_K is not None:
                 raise EntryError(f"{word}: a second temperature; give one")
+            if not re.match(r"[-+.\d]", word):       # a name, not a number: an alloy this file lacks
+                raise EntryError(_not_understood(word, alloys))
             temperature_K = parse_temperature(word).kelvin
         if not contents:
             return TypedPoint(temperature_K, None)
@@ -82,6 +84,14 @@ def parse_point(text: str, elements: tuple[str, ...], molar_mass, alloys: tuple 
     except ValueError as error:
         raise EntryError(str(error)) from None
     return TypedPoint(temperature_K, x[1] if len(elements) == 2 else None, x)
+
+
+def _not_understood(word: str, alloys: tuple) -> str:
+    """Why a word that is neither a number nor a composition was not used: it names none of the
+    system's alloys (listed, as `--alloy` lists them)."""
+    known = ", ".join(a.shown_name for a in alloys)
+    return (f"cannot read temperature {one_line(repr(word))}, nor an alloy of this system by that name; "
+            + (f"its alloys: {known}" if known else "its file lists no alloys"))
 
 
 def check_inside(point: TypedPoint, limits: Window, scales: Scales, glyphs: Glyphs) -> None:
