@@ -8,10 +8,10 @@ take a composition (`--alloy NAME`); the composition is then read as if typed af
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 from typing import Any, Callable
 
+from .bounds import finite_number, shown_value
 from .plain_text import has_controls, without_controls
 
 _KEYS = {"name", "trade_name", "wt_percent", "at_percent", "source", "note"}
@@ -94,8 +94,8 @@ def percent_table(table: Any, elements: tuple[str, ...], key: str,
     for el, v in table.items():
         if el not in elements:
             raise fail(f"{key}.{el}", f"expected an element of this system ({', '.join(elements)})")
-        if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or not 0 <= v < 100:
-            raise fail(f"{key}.{el}", f"expected a percentage from 0 to below 100, found {v!r}")
+        if not finite_number(v) or not 0 <= v < 100:
+            raise fail(f"{key}.{el}", f"expected a percentage from 0 to below 100, found {shown_value(v)}")
         parts.append((el, float(v)))
     if len(parts) != len(elements) - 1:
         raise fail(key, "give every element but one, the balance")

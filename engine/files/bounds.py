@@ -6,7 +6,7 @@ assessment; a file that exceeds one is refused in one line naming the file and t
 from __future__ import annotations
 
 import math
-from typing import Callable
+from typing import Any, Callable
 
 #: The largest system file (bytes).
 MAX_FILE_BYTES = 2_000_000
@@ -42,6 +42,27 @@ Fail = Callable[[str, str], Exception]
 #: Each term of a piece as a function of T, in the order of the coefficients a..h.
 _TERMS = (lambda T: 1.0, lambda T: T, lambda T: T * math.log(T), lambda T: T * T, lambda T: T**3,
           lambda T: 1.0 / T, lambda T: T**7, lambda T: T**-9, lambda T: T**-2, lambda T: T**-3)
+
+
+def finite_number(value: Any) -> bool:
+    """Whether `value`, as TOML gives it, is a number (a boolean is not) that is finite as a float:
+    NaN, infinities and integers beyond the float range (10**400, which TOML allows) are not."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        return False
+    try:
+        return math.isfinite(value)
+    except OverflowError:                   # an integer too large for a float
+        return False
+
+
+def shown_value(value: Any) -> str:
+    """`value` from a file as a message quotes it: its repr, shortened to about 80 characters (an
+    integer of thousands of digits, which TOML allows in hexadecimal, has none Python will write)."""
+    try:
+        text = repr(value)
+    except ValueError:                      # more digits than Python converts to text
+        return "a value holding an integer of thousands of digits"
+    return text if len(text) <= 80 else text[:77] + "..."
 
 
 def check_count(n: int, limit: int, key: str, what: str, fail: Fail) -> None:

@@ -3,10 +3,10 @@ at% ranges per element, read into mole fractions."""
 
 from __future__ import annotations
 
-import math
 from collections.abc import Callable
 from typing import Any
 
+from .bounds import finite_number
 from .plain_text import without_controls
 
 EXAMPLE = "{ Ag = [0, 5.5], Cu = [0, 3.7] }"
@@ -28,7 +28,7 @@ def read_element_ranges(value: Any, elements: tuple[str, ...],
         if el not in elements:
             raise fail(where, f"not an element of this system; expected one of {', '.join(elements)}")
         if (not isinstance(pair, list) or len(pair) != 2
-                or not all(isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v) for v in pair)):
+                or not all(finite_number(v) for v in pair)):
             raise fail(where, f"expected [from, to] in at% of {el}")
         lo, hi = float(pair[0]), float(pair[1])
         if not 0 <= lo < hi <= 100:

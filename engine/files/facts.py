@@ -7,12 +7,12 @@ to, `[[check]]` facts are independent checks the model was not fitted to. A fact
 
 from __future__ import annotations
 
-import math
 from typing import Any, Callable
 
 import numpy as np
 
 from ..units import kelvin_from, mole_from_mass
+from .bounds import finite_number, shown_value
 from .plain_text import without_controls
 
 KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy",
@@ -45,8 +45,9 @@ FACTOR_KEY = "tolerance_factor"
 AT_MOST_KEY = "at_most"
 
 
-def _num(v: Any) -> bool:
-    return not isinstance(v, bool) and isinstance(v, (int, float)) and math.isfinite(v)
+def _is_phase(v: Any, system) -> bool:
+    """Whether `v` names a phase of `system` (a list or table names none)."""
+    return isinstance(v, str) and v in system.phases
 
 
 def _read_spread(v: Any, key: str, spread: dict[str, float], name: str, low: float, expected: str,
@@ -55,10 +56,10 @@ def _read_spread(v: Any, key: str, spread: dict[str, float], name: str, low: flo
     `name` or "<name>:<phase>"; `expected` says what is wanted."""
     if isinstance(v, dict):
         for ph, s in v.items():
-            if not _num(s) or s <= low:
+            if not finite_number(s) or s <= low:
                 raise fail(f"{key}.{ph}", f"expected {expected}")
             spread[f"{name}:{ph}"] = float(s)
-    elif _num(v) and v > low:
+    elif finite_number(v) and v > low:
         spread[name] = float(v)
     else:
         raise fail(key, f"expected {expected}, or a table per phase")
@@ -78,7 +79,7 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
             raise fail(key, "expected a table")
         kind = item.get("kind")
         if kind not in KINDS:
-            raise fail(f"{key}.kind", f"expected one of {', '.join(KINDS)}, found {kind!r}")
+            raise fail(f"{key}.kind", f"expected one of {', '.join(KINDS)}, found {shown_value(kind)}")
         allowed = _COMMON | _KIND_KEYS[kind] | {k_key, at_key, j_key}
         if list_name == "check" and kind in ("invariant", "boundary", "distribution_coefficient"):
             allowed = allowed | {FACTOR_KEY}
@@ -99,8 +100,8 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         if len(temps) != 1:
             raise fail(key, "give the temperature once, as temperature_C or temperature_K")
         tval = item[temps[0]]
-        if not _num(tval):
-            raise fail(f"{key}.{temps[0]}", f"expected a number, found {tval!r}")
+        if not finite_number(tval):
+            raise fail(f"{key}.{temps[0]}", f"expected a number, found {shown_value(tval)}")
         T = kelvin_from(tval, temps[0][-1])
         if T <= 0:
             raise fail(f"{key}.{temps[0]}", "expected a temperature above absolute zero")
@@ -108,11 +109,11 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
 
         spread: dict[str, float] = {}
         if k_key in item:
-            if not _num(item[k_key]) or item[k_key] <= 0:
+            if not finite_number(item[k_key]) or item[k_key] <= 0:
                 raise fail(f"{key}.{k_key}", "expected a positive number of kelvin")
             spread["K"] = float(item[k_key])
         if j_key in item:
-            if not _num(item[j_key]) or item[j_key] <= 0:
+            if not finite_number(item[j_key]) or item[j_key] <= 0:
                 raise fail(f"{key}.{j_key}", "expected a positive number of J/mol")
             spread["J"] = float(item[j_key])
         if at_key in item:
@@ -130,13 +131,13 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         if kind in ("melting", "distribution_coefficient", "transformation", "curie"):
             el = item.get("element")
             if el not in system.elements:
-                raise fail(f"{key}.element", f"expected one of {', '.join(system.elements)}, found {el!r}")
+                raise fail(f"{key}.element", f"expected one of {', '.join(system.elements)}, found {shown_value(el)}")
             fields["element"] = el
         for k, field_name in (("above", "phase"), ("below", "partner"), ("phase", "phase")):
             if kind in ("transformation", "curie") and k in _KIND_KEYS[kind]:
-                if item.get(k) not in system.phases:
+                if not _is_phase(item.get(k), system):
                     raise fail(f"{key}.{k}", f"expected a phase of this system ({', '.join(system.phases)}), "
-                                             f"found {item.get(k)!r}")
+                                             f"found {shown_value(item.get(k))}")
                 fields[field_name] = item[k]
         if len(system.elements) > 2:
             _read_multicomponent(item, key, kind, system, fields, fail)
@@ -146,44 +147,44 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
                 raise fail(key, f"give the composition once, as at_percent or wt_percent of {system.elements[1]}")
             if comps:
                 v = item[comps[0]]
-                if not _num(v) or not 0 <= v <= 100:
-                    raise fail(f"{key}.{comps[0]}", f"expected a percentage from 0 to 100, found {v!r}")
+                if not finite_number(v) or not 0 <= v <= 100:
+                    raise fail(f"{key}.{comps[0]}", f"expected a percentage from 0 to 100, found {shown_value(v)}")
                 frac = v / 100.0
                 if comps[0] == "wt_percent":
                     frac = float(mole_from_mass(np.array([1 - frac, frac]), system.molar_mass)[1])
                 fields["x_B"] = frac
         if kind == "boundary":
             for k in ("phase", "partner"):
-                if item.get(k) not in system.phases:
-                    raise fail(f"{key}.{k}", f"expected a phase of this system ({', '.join(system.phases)}), found {item.get(k)!r}")
+                if not _is_phase(item.get(k), system):
+                    raise fail(f"{key}.{k}", f"expected a phase of this system ({', '.join(system.phases)}), found {shown_value(item.get(k))}")
             if "x_B" not in fields:
                 raise fail(key, f"give the boundary composition as at_percent or wt_percent of {system.elements[1]}")
             fields["phase"], fields["partner"] = item["phase"], item["partner"]
         if kind in ("mixing_enthalpy", "formation_enthalpy"):
             model = "solution" if kind == "mixing_enthalpy" else "compound"
             ph = item.get("phase")
-            if ph not in system.phases or not _is_model(system, ph, model):
+            if not _is_phase(ph, system) or not _is_model(system, ph, model):
                 names = [n for n in system.phases if _is_model(system, n, model)]
-                raise fail(f"{key}.phase", f"expected a {model} phase of this system ({', '.join(names) or 'none'}), found {ph!r}")
+                raise fail(f"{key}.phase", f"expected a {model} phase of this system ({', '.join(names) or 'none'}), found {shown_value(ph)}")
             fields["phase"] = ph
             h = item.get("enthalpy_J_per_mol")
-            if not _num(h):
-                raise fail(f"{key}.enthalpy_J_per_mol", f"expected the measured enthalpy in J per mole of atoms, found {h!r}")
+            if not finite_number(h):
+                raise fail(f"{key}.enthalpy_J_per_mol", f"expected the measured enthalpy in J per mole of atoms, found {shown_value(h)}")
             fields["enthalpy_J_per_mol"] = float(h)
         if kind == "distribution_coefficient":
             ph = item.get("phase")
-            if ph not in system.phases or ph == "liquid" or not _is_model(system, ph, "solution"):
+            if not _is_phase(ph, system) or ph == "liquid" or not _is_model(system, ph, "solution"):
                 names = [n for n in system.phases if n != "liquid" and _is_model(system, n, "solution")]
                 raise fail(f"{key}.phase", f"expected the solid solution the element dissolves in "
-                           f"({', '.join(names) or 'none'}), found {ph!r}")
+                           f"({', '.join(names) or 'none'}), found {shown_value(ph)}")
             k = item.get("k")
-            if not _num(k) or k <= 0:
-                raise fail(f"{key}.k", f"expected the distribution coefficient, a positive number, found {k!r}")
+            if not finite_number(k) or k <= 0:
+                raise fail(f"{key}.k", f"expected the distribution coefficient, a positive number, found {shown_value(k)}")
             fields["phase"], fields["ratio"] = ph, float(k)
         if kind == "invariant":
             reaction = item.get("reaction")
             if reaction not in REACTIONS:
-                raise fail(f"{key}.reaction", f"expected one of {', '.join(REACTIONS)}, found {reaction!r}")
+                raise fail(f"{key}.reaction", f"expected one of {', '.join(REACTIONS)}, found {shown_value(reaction)}")
             fields["reaction"] = reaction
         if kind == "invariant" and len(system.elements) == 2:
             ph = item.get("phases", {})
@@ -195,9 +196,9 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
                     raise fail(f"{key}.phases.{name}", f"not a phase of this system ({', '.join(system.phases)})")
                 values = v if isinstance(v, list) and 1 <= len(v) <= 2 else [v]
                 for one in values:
-                    if not _num(one) or not 0 <= one <= 100:
+                    if not finite_number(one) or not 0 <= one <= 100:
                         raise fail(f"{key}.phases.{name}", f"expected at% from 0 to 100 (or two of them, for a phase "
-                                   f"that takes part twice), found {v!r}")
+                                   f"that takes part twice), found {shown_value(v)}")
                     comp.append((name, one / 100.0))
             fields["phase_x_B"] = tuple(comp)
         facts.append(Fact(**fields))

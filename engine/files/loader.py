@@ -6,7 +6,6 @@ and what was expected. Nothing in a file is evaluated as code.
 
 from __future__ import annotations
 
-import math
 import os
 import re
 from functools import lru_cache, partial
@@ -47,8 +46,8 @@ class _Reader:
         return SystemFileError(where + what)
 
     def number(self, value: Any, key: str) -> float:
-        if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
-            raise self.fail(key, f"expected a number, found {value!r}")
+        if not limits.finite_number(value):
+            raise self.fail(key, f"expected a number, found {limits.shown_value(value)}")
         return float(value)
 
     def text(self, value: Any, key: str) -> str:
@@ -154,8 +153,10 @@ def _read_toml(path: Path) -> dict:
         return tomllib.loads(data.decode("utf-8-sig"))   # a byte-order mark (some Windows editors) is dropped
     except UnicodeDecodeError:
         raise SystemFileError(f"{path.name}: not a text file (expected UTF-8 TOML)") from None
-    except tomllib.TOMLDecodeError as e:
+    except ValueError as e:                 # TOMLDecodeError, or an integer of more digits than Python reads
         raise SystemFileError(f"{path.name}: not valid TOML: {e}") from None
+    except RecursionError:                  # arrays or tables nested thousands deep
+        raise SystemFileError(f"{path.name}: not valid TOML: arrays or tables nested too deeply") from None
 
 
 LIBRARY_FILE = "elements.toml"

@@ -67,7 +67,7 @@ def _reference_function(r: "_Reader", library: "ElementLibrary", ref: Any, eleme
     if isinstance(ref, str) and ref:
         return library.function(element, ref, key, r)
     raise r.fail(key, f"expected a solution phase of this system ({', '.join(solutions) or 'none'}) "
-                 f"or a structure of the element library, found {ref!r}")
+                 f"or a structure of the element library, found {bounds.shown_value(ref)}")
 
 
 # --- names of interacting elements --------------------------------------------------------------
@@ -386,7 +386,7 @@ def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elem
         table = r.table(table, f"phase.{name}")
         model = table.get("model")
         if model not in MODELS:
-            raise r.fail(f"phase.{name}.model", f"unknown model {model!r}; expected one of {', '.join(repr(m) for m in MODELS)}")
+            raise r.fail(f"phase.{name}.model", f"unknown model {bounds.shown_value(model)}; expected one of {', '.join(repr(m) for m in MODELS)}")
         tables[name] = (model, table)
     complete = not bases
     base_drafts: dict[str, list[PhaseDraft]] = {}

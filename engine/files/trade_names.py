@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
+from .bounds import finite_number, shown_value
 from .plain_text import without_controls
 
 #: The heat treatments a file may name (`heat_treatment`): solution treatment of age-hardening
@@ -97,7 +98,7 @@ def read_trade_names(doc: dict, phases: Collection[str] | None, fail: Callable[[
         lines.append(_line(entry, f"trade_line[{i}]", phases, fail))
     treatment = doc.get("heat_treatment")
     if treatment is not None and treatment not in HEAT_TREATMENTS:
-        raise fail("heat_treatment", f"expected one of {', '.join(repr(h) for h in HEAT_TREATMENTS)}, found {treatment!r}")
+        raise fail("heat_treatment", f"expected one of {', '.join(repr(h) for h in HEAT_TREATMENTS)}, found {shown_value(treatment)}")
     note = doc.get("trade_line_note", "")
     if not isinstance(note, str):
         raise fail("trade_line_note", "expected a text")
@@ -115,7 +116,7 @@ def _cast_iron(doc: dict, phases: Collection[str] | None, fail: Callable[[str, s
     silicon and the phases liquid, fcc (austenite) and graphite."""
     value = doc.get("cast_iron", False)
     if not isinstance(value, bool):
-        raise fail("cast_iron", f"expected true or false, found {value!r}")
+        raise fail("cast_iron", f"expected true or false, found {shown_value(value)}")
     if value and phases is not None:
         lacking = [e for e in CAST_IRON_ELEMENTS if e not in doc.get("elements", ())]
         lacking += [p for p in CAST_IRON_PHASES if p not in phases]
@@ -154,8 +155,8 @@ def _phase_names(value: Any, key: str, fail: Callable[[str, str], Exception]) ->
         bounds = []
         for bound, default in (("from_K", 0.0), ("upto_K", math.inf)):
             v = item.get(bound, default)
-            if isinstance(v, bool) or not isinstance(v, (int, float)) or math.isnan(v) or v < 0:
-                raise fail(f"{k}.{bound}", f"expected a temperature in K, found {v!r}")
+            if not (finite_number(v) or v == math.inf) or v < 0:       # upto_K may be unbounded
+                raise fail(f"{k}.{bound}", f"expected a temperature in K, found {shown_value(v)}")
             bounds.append(float(v))
         if not bounds[0] < bounds[1]:
             raise fail(k, "expected from_K below upto_K")

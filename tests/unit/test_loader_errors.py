@@ -56,6 +56,10 @@ CASES = [
     ("one element only", 'elements = ["A", "B"]', 'elements = ["A"]', "elements", "two different element symbols"),
     ("same element twice", 'elements = ["A", "B"]', 'elements = ["A", "A"]', "elements", "two different element symbols"),
     ("interactions not a list", "L = [ { a = 15000.0, b = -2.0 } ]", "L = 15000.0", "phase.fcc.L", "expected a list"),
+    # TOML integers have no bound: one beyond the float range raised OverflowError (a traceback)
+    ("integer beyond the float range", "a = 6000.0", "a = 1" + "0" * 400, "phase.fcc.G.B[0].a", "expected a number"),
+    ("integer molar mass beyond the float range", "B = 30.0 }", "B = 1" + "0" * 400 + " }", "molar_mass.B",
+     "expected a number"),
 ]
 
 
@@ -88,6 +92,52 @@ def test_not_toml_is_reported(tmp_path):
         load_system(_write(tmp_path, VALID.replace("[phase.fcc]", "[phase.fcc")))
     assert str(err.value).startswith("bad.toml: not valid TOML")
     assert "\n" not in str(err.value)
+
+
+#: A fact appended to VALID: (case, the fact's lines, key named, words of what was expected).
+FACT_CASES = [
+    ("temperature beyond the float range", "temperature_C = 1" + "0" * 400, "check[0].temperature_C", "expected a number"),
+    ("composition beyond the float range", "temperature_C = 500\nat_percent = 1" + "0" * 400, "check[0].at_percent",
+     "expected a percentage"),
+    ("tolerance beyond the float range", "temperature_C = 500\nat_percent = 30\ntolerance_K = 1" + "0" * 400,
+     "check[0].tolerance_K", "positive number of kelvin"),
+    ("phase a table", "temperature_C = 500\nat_percent = 30\nphase = {}\npartner = \"liquid\"", "check[0].phase",
+     "expected a phase of this system"),
+    ("partner a list", "temperature_C = 500\nat_percent = 30\nphase = \"fcc\"\npartner = [\"liquid\"]", "check[0].partner",
+     "expected a phase of this system"),
+]
+
+
+@pytest.mark.parametrize("case,lines,key,expected", FACT_CASES, ids=[c[0] for c in FACT_CASES])
+def test_bad_fact_is_reported_in_one_line(tmp_path, case, lines, key, expected):
+    """A boundary fact whose values TOML reads but the loader must refuse: these raised OverflowError
+    (an integer beyond the float range) or TypeError (a table or list looked up among the phases)."""
+    fact = f'\n[[check]]\nkind = "boundary"\nsource = "invented for this test"\n{lines}\n'
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID + fact))
+    message = str(err.value)
+    assert "\n" not in message and message.startswith(f"bad.toml: {key}: "), message
+    assert expected in message, message
+
+
+@pytest.mark.parametrize("case,text", [
+    ("arrays nested thousands deep", "x = " + "[" * 100_000 + "]" * 100_000),
+    ("inline tables nested thousands deep", "x = " + "{a=" * 3000 + "1" + "}" * 3000),
+    ("an integer of more digits than Python reads", "x = " + "9" * 5000),
+], ids=lambda c: c if isinstance(c, str) and len(c) < 60 else "")
+def test_toml_that_python_cannot_read_is_reported(tmp_path, case, text):
+    """tomllib raised RecursionError on deep nesting and a ValueError naming no file on a 5000-digit
+    integer."""
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID + text + "\n"))
+    assert str(err.value).startswith("bad.toml: not valid TOML") and "\n" not in str(err.value)
+
+
+def test_a_value_too_long_to_write_is_described_not_quoted(tmp_path):
+    """A hexadecimal integer of 4000 digits (4800 decimal ones) is valid TOML; its repr raised ValueError."""
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID.replace("formation = { a = -8000.0 }", "formation = { a = 0x" + "f" * 4000 + " }")))
+    assert "phase.AB.formation.a: expected a number, found a value holding an integer of thousands of digits" in str(err.value)
 
 
 def test_missing_file_is_reported(tmp_path):
