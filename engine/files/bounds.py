@@ -34,6 +34,9 @@ MAX_TERM_J = 1e8
 #: magnetons) stated as a number.
 MAX_CURIE_K = 1e5
 MAX_MOMENT = 100.0
+#: The molar masses a file may give (g/mol): those of the periodic table, hydrogen's 1.008 to
+#: oganesson's 294 (IUPAC standard atomic weights), with room either side.
+MOLAR_MASS_G_PER_MOL = (1.0, 300.0)
 #: How deep files may build on files that build on files.
 MAX_BUILD_DEPTH = 4
 

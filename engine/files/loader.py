@@ -211,8 +211,10 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
             masses.append(known[0])
             continue
         m = r.number(mm[el], f"molar_mass.{el}")
-        if m <= 0:
-            raise r.fail(f"molar_mass.{el}", f"expected a positive molar mass in g/mol, found {m:g}")
+        lightest, heaviest = limits.MOLAR_MASS_G_PER_MOL
+        if not lightest <= m <= heaviest:
+            raise r.fail(f"molar_mass.{el}", f"expected a positive molar mass in g/mol, from {lightest:g} to "
+                         f"{heaviest:g} (those of the periodic table), found {m:g}")
         masses.append(m)
     r.known_keys(mm, set(elements), "molar_mass")
     source = r.text(doc["source"], "source")

@@ -50,6 +50,9 @@ CASES = [
      "phase.AB.reference.B", "solution phase of this system"),
     ("molar mass zero", "B = 30.0 }", "B = 0.0 }", "molar_mass.B", "positive molar mass"),
     ("molar mass negative", "B = 30.0 }", "B = -30.0 }", "molar_mass.B", "positive molar mass"),
+    # 1e308 g/mol of gold showed every tin alloy as '0 wt%' Sn (a wrong answer, status 0)
+    ("molar mass beyond the periodic table", "B = 30.0 }", "B = 1e308 }", "molar_mass.B", "from 1 to 300"),
+    ("molar mass below hydrogen's", "B = 30.0 }", "B = 1e-300 }", "molar_mass.B", "from 1 to 300"),
     ("missing molar mass", "molar_mass = { A = 60.0, B = 30.0 }", "molar_mass = { A = 60.0 }", "molar_mass.B", "missing"),
     ("missing source", 'source = "Synthetic test system: invented parameters."', "", "source", "missing"),
     ("misspelt top-level key", "source =", "sourse =", "sourse", "unknown key"),
