@@ -104,11 +104,36 @@ async def test_system_picker_lists_sources_and_narrows_by_typing():
         options = app.screen.query_one(OptionList)
         assert options.option_count >= 1
         assert "Massalski" in screen_text(app) or "fitted" in screen_text(app)
-        await pilot.press(*"no-such-alloy")
-        assert options.option_count == 0
+        await pilot.press(*"no-such-alloy")      # nothing matches: one line says so (the list was empty)
+        assert options.option_count == 1 and options.get_option_at_index(0).disabled
+        assert "no system's name, title, source or alloy holds 'no-such-alloy'" in screen_text(app)
+        await pilot.press("enter")                # nothing to open
+        assert isinstance(app.screen, SystemPicker)
         await pilot.press("escape")
         assert not isinstance(app.screen, SystemPicker)
         assert _main(app).exploration.system.name == "pb-sn"
+
+
+@pilot_test
+async def test_system_picker_finds_a_system_by_an_alloys_name(monkeypatch):
+    """Typing an alloy's shorthand finds the system whose file lists it, with the alloy shown:
+    SAC305 (the trade's name of Sn96.5Ag3.0Cu0.5) in ag-cu-sn, 14ct-1N in ag-au-cu. The search
+    read only names, titles and sources, and left the list empty."""
+    from ladle.tui.explorer.screens import systems
+
+    monkeypatch.setattr(systems, "with_check_result", lambda choice: choice)   # checks not counted here
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("s", *"sac305")
+        options = app.screen.query_one(OptionList)
+        assert [options.get_option_at_index(i).id for i in range(options.option_count)] == ["ag-cu-sn"]
+        assert "alloy Sn96.5Ag3.0Cu0.5 (SAC305)" in screen_text(app)
+        await pilot.press(*["backspace"] * 6, *"14ct-1N")
+        assert [options.get_option_at_index(i).id for i in range(options.option_count)] == ["ag-au-cu"]
+        assert "alloy 14ct-1N" in screen_text(app)
+        await pilot.press("enter")
+        await pilot.pause()
+        assert app.explore_screen.exploration.system.name == "ag-au-cu"
 
 
 @pilot_test

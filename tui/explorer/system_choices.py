@@ -19,11 +19,21 @@ class SystemChoice:
     safety: str = ""
     checks: str = ""
     problem: str = ""
+    alloys: tuple[str, ...] = ()     # the file's alloy shorthands as listed: 'Sn96.5Ag3.0Cu0.5 (SAC305)'
 
-    def matches(self, query: str) -> bool:
-        """Whether every word of the query occurs in the name, title or source (any case)."""
-        haystack = f"{self.name} {self.title} {self.source}".lower()
+    def matches(self, query: str, by_alloys: bool = True) -> bool:
+        """Whether every word of the query occurs in the name, title, source or (`by_alloys`) an
+        alloy's name (any case)."""
+        haystack = f"{self.name} {self.title} {self.source} {' '.join(self.alloys) if by_alloys else ''}".lower()
         return all(word in haystack for word in query.lower().split())
+
+    def alloys_named(self, query: str) -> tuple[str, ...]:
+        """Where only its alloys' names made the query match (a search by 'SAC305' or 'A356'),
+        the alloys whose names hold a word of it; else ()."""
+        if self.matches(query, by_alloys=False):
+            return ()
+        words = query.lower().split()
+        return tuple(alloy for alloy in self.alloys if any(word in alloy.lower() for word in words))
 
     def rank(self, query: str) -> int:
         """Where the choice stands among those matching `query`: 0 when the query is its name,
@@ -55,7 +65,8 @@ def system_choices() -> list[SystemChoice]:
             choices.append(SystemChoice(entry.name, problem=one_line(str(error))))   # no file text drives the screen
             continue
         choices.append(SystemChoice(entry.name, system.title, system.source, system.safety,
-                                    checks_text(None, len(independent_checks(system)), len(system.measured))))
+                                    checks_text(None, len(independent_checks(system)), len(system.measured)),
+                                    alloys=tuple(alloy.shown_name for alloy in system.alloys)))
     return choices
 
 

@@ -1,4 +1,5 @@
-"""The system picker: type to narrow the list, Enter to open, Esc to go back."""
+"""The system picker: type to narrow the list (by name, title, source or an alloy's name), Enter to
+open, Esc to go back."""
 
 from __future__ import annotations
 
@@ -12,6 +13,8 @@ from textual.screen import ModalScreen
 from textual.widgets import Input, OptionList, Static
 from textual.widgets.option_list import Option, OptionDoesNotExist
 from textual.worker import get_current_worker
+
+from ladle.tui.quote import one_line
 
 from ..system_choices import SystemChoice, with_check_result
 
@@ -32,7 +35,7 @@ class SystemPicker(ModalScreen[str | None]):
     def compose(self) -> ComposeResult:
         with Vertical(id="picker"):
             yield Static("SYSTEMS  (type to narrow, Enter opens, Esc back)", id="picker-title")
-            yield Input(placeholder="search name, title or source", id="picker-filter")
+            yield Input(placeholder="search name, title, source or alloy (SAC305)", id="picker-filter")
             yield OptionList(id="picker-list")
 
     def on_mount(self) -> None:
@@ -66,23 +69,26 @@ class SystemPicker(ModalScreen[str | None]):
         line alone: the highlight and the scrolling stay where the user has them)."""
         self.choices[index] = counted
         try:
-            self.query_one(OptionList).replace_option_prompt(counted.name, self._describe(counted))
+            self.query_one(OptionList).replace_option_prompt(counted.name,
+                                                             self._describe(counted, self.query_one(Input).value))
         except OptionDoesNotExist:
             pass
 
     def _fill(self, query: str) -> None:
         """The choices matching `query`, the system named by it first, then those whose names
-        hold it (each group in the catalog's order)."""
+        hold it (each group in the catalog's order); where none matches, a line that says so."""
         options = self.query_one(OptionList)
         options.clear_options()
         matching = sorted((choice for choice in self.choices if choice.matches(query)), key=lambda c: c.rank(query))
-        options.add_options([Option(self._describe(choice), id=choice.name,   # one refresh
+        options.add_options([Option(self._describe(choice, query), id=choice.name,   # one refresh
                                     disabled=bool(choice.problem))
-                             for choice in matching])
-        if options.option_count:
+                             for choice in matching]
+                            or [Option(Text(f"  no system's name, title, source or alloy holds {one_line(repr(query))}"),
+                                       disabled=True)])
+        if matching:
             options.highlighted = 0
 
-    def _describe(self, choice: SystemChoice) -> Text:
+    def _describe(self, choice: SystemChoice, query: str = "") -> Text:
         width = max(self.app.size.width * 9 // 10 - 8, 30)   # the list's inner width
         mark = "*" if choice.name == self.current else " "
         text = Text(f"{mark} {choice.name}", style="bold")
@@ -95,6 +101,10 @@ class SystemPicker(ModalScreen[str | None]):
         text.append(f"\n    {choice.checks}")
         source = choice.source.replace("\n", " ")
         text.append(f"\n    {source if len(source) <= width - 4 else source[:width - 5] + '~'}")
+        named = choice.alloys_named(query)
+        if named:       # found by an alloy's name: which one
+            text.append("\n" + "\n".join(textwrap.wrap(f"alloy {', '.join(named)}", width, initial_indent="    ",
+                                                       subsequent_indent="      ")), style="bold")
         return text
 
     def on_input_changed(self, event: Input.Changed) -> None:
