@@ -328,7 +328,7 @@ def _bases(r: _Reader, library: ElementLibrary, doc: dict, elements: tuple[str, 
         raise r.fail("builds_on", f"files build on files more than {limits.MAX_BUILD_DEPTH} deep")
     out = []
     for n in names:
-        if not n.endswith(".toml") or Path(n).name != n or n.startswith(".") or len(n) > 200:
+        if not n.endswith(".toml") or Path(n).name != n or n.startswith(".") or len(n) > 200 or n == LIBRARY_FILE:
             raise r.fail("builds_on", f"expected names of system files such as \"ag-cu.toml\" (beside this file, or shipped), found {n[:40]!r}")
         base = None
         for folder in (path.parent, shipped_folder()):
@@ -344,7 +344,10 @@ def _bases(r: _Reader, library: ElementLibrary, doc: dict, elements: tuple[str, 
             raise r.fail("builds_on", f"{n}: no such system file beside this file or among the shipped systems")
         if base.resolve() == here or base.resolve() in building:
             raise r.fail("builds_on", f"{n}: builds on the file being read (a cycle)")
-        system = load_system(base, library, building=building + (here,))
+        try:
+            system = load_system(base, library, building=building + (here,))
+        except SystemFileError as e:        # named as reached from this file: which file, and through which key
+            raise r.fail("builds_on", str(e)) from None
         extra = [el for el in system.elements if el not in elements]
         if extra:
             raise r.fail("builds_on", f"{n} holds {', '.join(extra)}, which this file's elements lack")

@@ -47,7 +47,11 @@ def load_variant(path: Path, doc: dict, name: str | None, read: Callable[[Path],
     base = path.parent / base_name
     if base.resolve() == path.resolve():
         raise fail(VARIANT_KEY, "names the variant file itself")
-    if is_variant(read(base)):
+    try:
+        base_document = read(base)
+    except SystemFileError as e:            # named as reached from the variant: through variant_of
+        raise fail(VARIANT_KEY, str(e)) from None
+    if is_variant(base_document):
         raise fail(VARIANT_KEY, f"{base_name} is a variant itself; name the file that holds the phases")
     without = doc.get("without")
     if not isinstance(without, list) or not without or not all(isinstance(p, str) and p for p in without):
@@ -58,7 +62,10 @@ def load_variant(path: Path, doc: dict, name: str | None, read: Callable[[Path],
             if not isinstance(doc[key], str) or not without_controls(doc[key]).strip():
                 raise fail(key, "expected a non-empty text")
             texts[key] = without_controls(doc[key], keep_newlines=True)
-    system = load(base, name=name or path.stem.lower())
+    try:
+        system = load(base, name=name or path.stem.lower())
+    except SystemFileError as e:
+        raise fail(VARIANT_KEY, str(e)) from None
     try:
         variant = system.without(tuple(without))
     except ValueError as e:

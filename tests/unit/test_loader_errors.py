@@ -4,9 +4,13 @@ systems/FORMAT.md."""
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import pytest
 
 from ladle.engine import SystemFileError, TemperatureOutOfRange, equilibrate, load_system
+
+SHIPPED = Path(__file__).resolve().parents[2] / "systems"
 
 VALID = '''
 elements = ["A", "B"]
@@ -173,3 +177,30 @@ def test_temperature_below_the_first_piece(tmp_path):
     assert system.model_range_K == (500.0, 3000.0)
     with pytest.raises(TemperatureOutOfRange, match="400.00 K is outside"):
         equilibrate(system, 400.0, 0.3)
+
+
+def test_a_broken_file_built_on_is_named_as_reached_from_the_file_read(tmp_path):
+    """The message named only sn-ag.toml, a file the person had not asked for (and not which of
+    the two of that name, beside or shipped, was read)."""
+    (tmp_path / "sac.toml").write_text((SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8"), encoding="utf-8")
+    (tmp_path / "sn-ag.toml").write_text(VALID.replace('["A", "B"]', '["Sn", "Ag"]'), encoding="utf-8")
+    with pytest.raises(SystemFileError) as err:
+        load_system(tmp_path / "sac.toml")
+    assert str(err.value).startswith("sac.toml: builds_on: sn-ag.toml: molar_mass.Sn: missing"), str(err.value)
+
+
+def test_the_element_library_is_not_a_file_to_build_on(tmp_path):
+    """It was read as a system file: 'elements.toml: Pb: unknown key', naming neither the file
+    read nor the key that led there."""
+    text = (SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8")
+    (tmp_path / "sac.toml").write_text(text.replace('builds_on = [', 'builds_on = ["elements.toml", ', 1), encoding="utf-8")
+    with pytest.raises(SystemFileError) as err:
+        load_system(tmp_path / "sac.toml")
+    assert str(err.value).startswith("sac.toml: builds_on: expected names of system files"), str(err.value)
+
+
+def test_a_variant_of_a_missing_file_names_the_variant_and_its_key(tmp_path):
+    (tmp_path / "v.toml").write_text('variant_of = "absent.toml"\nwithout = ["fcc"]\n', encoding="utf-8")
+    with pytest.raises(SystemFileError) as err:
+        load_system(tmp_path / "v.toml")
+    assert str(err.value).startswith("v.toml: variant_of: ") and str(err.value).endswith("absent.toml: no such file")
