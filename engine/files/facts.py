@@ -7,6 +7,7 @@ to, `[[check]]` facts are independent checks the model was not fitted to. A fact
 
 from __future__ import annotations
 
+from collections.abc import Collection
 from typing import Any, Callable
 
 import numpy as np
@@ -51,11 +52,13 @@ def _is_phase(v: Any, system) -> bool:
 
 
 def _read_spread(v: Any, key: str, spread: dict[str, float], name: str, low: float, expected: str,
-                 fail: Callable[[str, str], Exception]) -> None:
-    """A composition spread above `low` (a number, or a table per phase) into `spread` under
-    `name` or "<name>:<phase>"; `expected` says what is wanted."""
+                 phases: Collection[str], fail: Callable[[str, str], Exception]) -> None:
+    """A composition spread above `low` (a number, or a table by phase, each one of `phases`) into
+    `spread` under `name` or "<name>:<phase>"; `expected` says what is wanted."""
     if isinstance(v, dict):
         for ph, s in v.items():
+            if ph not in phases:                # a misspelt phase would leave the real one without a spread
+                raise fail(f"{key}.{ph}", f"not a phase of this system ({', '.join(phases)})")
             if not finite_number(s) or s <= low:
                 raise fail(f"{key}.{ph}", f"expected {expected}")
             spread[f"{name}:{ph}"] = float(s)
@@ -117,10 +120,11 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
                 raise fail(f"{key}.{j_key}", "expected a positive number of J/mol")
             spread["J"] = float(item[j_key])
         if at_key in item:
-            _read_spread(item[at_key], f"{key}.{at_key}", spread, "at", 0.0, "a positive number of at%", fail)
+            _read_spread(item[at_key], f"{key}.{at_key}", spread, "at", 0.0, "a positive number of at%", system.phases,
+                         fail)
         if FACTOR_KEY in item:
             _read_spread(item[FACTOR_KEY], f"{key}.{FACTOR_KEY}", spread, "factor", 1.0,
-                         "a factor above 1 (2 means within half to twice the value)", fail)
+                         "a factor above 1 (2 means within half to twice the value)", system.phases, fail)
         if AT_MOST_KEY in item:
             if item[AT_MOST_KEY] is not True or at_key in item or FACTOR_KEY in item:
                 raise fail(f"{key}.{AT_MOST_KEY}", "expected true (the composition is an upper limit of the minor "

@@ -204,3 +204,14 @@ def test_a_variant_of_a_missing_file_names_the_variant_and_its_key(tmp_path):
     with pytest.raises(SystemFileError) as err:
         load_system(tmp_path / "v.toml")
     assert str(err.value).startswith("v.toml: variant_of: ") and str(err.value).endswith("absent.toml: no such file")
+
+
+@pytest.mark.parametrize("table", ["tolerance_at", "tolerance_factor"])
+def test_a_tolerance_by_phase_naming_no_phase_is_refused(tmp_path, table):
+    """'FCC' for 'fcc' was read and ignored, leaving the fcc end of the fact without a tolerance."""
+    value = "{ FCC = 2.0 }" if table == "tolerance_at" else "{ FCC = 2 }"
+    fact = ('\n[[check]]\nkind = "invariant"\nreaction = "eutectic"\nsource = "invented for this test"\n'
+            f'temperature_C = 500\nphases = {{ liquid = 40, fcc = 10 }}\ntolerance_K = 5\n{table} = {value}\n')
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID + fact))
+    assert str(err.value).startswith(f"bad.toml: check[0].{table}.FCC: not a phase of this system"), str(err.value)
