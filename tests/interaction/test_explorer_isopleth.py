@@ -89,6 +89,26 @@ async def test_typed_alloy_and_temperature(ternary_app):
 
 
 @pilot_test
+async def test_the_binary_screens_movement_keys_move_on_the_isopleth_too(ternary_app):
+    """h j k l move a step as the arrows do, and shift+arrows or H J K L a tenth of one, as on a
+    binary's diagram (the help lists them); on the isopleth they did nothing."""
+    app = ternary_app
+    async with app.run_test(size=SIZE) as pilot:
+        await _settled(app, pilot)
+        e = app.screen.exploration
+        w = e.window
+        du, dT = section_exploration.STEP_SHARE * (w.u_high - w.u_low), section_exploration.STEP_SHARE * (w.T_high - w.T_low)
+        for keys, (step_u, step_T) in ((("l",), (du, 0.0)), (("k",), (0.0, dT)), (("h", "j"), (-du, -dT)),
+                                       (("L",), (du / 10, 0.0)), (("shift+up",), (0.0, dT / 10)),
+                                       (("H", "J"), (-du / 10, -dT / 10))):
+            u, T = e.cursor.u, e.cursor.temperature_K
+            await pilot.press(*keys)
+            assert (e.cursor.u - u, e.cursor.temperature_K - T) == pytest.approx((step_u, step_T), abs=1e-9), keys
+        await pilot.press("question_mark")
+        assert ("arrows h j k l", "shift+arrows") == tuple(keys for keys, _ in app.screen.rows[:2])
+
+
+@pilot_test
 async def test_help_shows_the_cautions_and_this_screens_keys(ternary_app):
     app = ternary_app
     async with app.run_test(size=SIZE) as pilot:

@@ -341,13 +341,14 @@ class SectionExploration:
         return section_mole_fractions(self.system, start, end, self.basis, np.array([self.cursor.u]))[0]
 
     # -- moves ------------------------------------------------------------------------------
-    def move(self, columns: int, rows: int) -> None:
-        """Move the cursor by whole steps (STEP_SHARE of the window shown) along the section
-        (columns) and in temperature (rows, positive up), within the section and the system's
-        window; the window shown follows it."""
+    def move(self, columns: int, rows: int, fine: bool = False) -> None:
+        """Move the cursor by whole steps (STEP_SHARE of the window shown; a tenth of that where
+        `fine`) along the section (columns) and in temperature (rows, positive up), within the
+        section and the system's window; the window shown follows it."""
         w = self.window
-        u = min(max(self.cursor.u + columns * STEP_SHARE * (w.u_high - w.u_low), 0.0), 1.0)
-        T = self.cursor.temperature_K + rows * STEP_SHARE * (w.T_high - w.T_low)
+        step = STEP_SHARE * (0.1 if fine else 1.0)
+        u = min(max(self.cursor.u + columns * step * (w.u_high - w.u_low), 0.0), 1.0)
+        T = self.cursor.temperature_K + rows * step * (w.T_high - w.T_low)
         self.cursor = SectionCursor(u, min(max(T, self.T_low), self.T_high))
         self.alloy = self.x_at_cursor()
         self.window = w.following(self.cursor)

@@ -42,7 +42,8 @@ from .help import HelpScreen
 KEY_BAR = (("v", "vary"), ("i", "triangle"), ("c", "cool"), ("u t", "unit"), ("g", "go"),
            ("+-0", "zoom"), ("s", "system"), ("?", "help"), ("q", "quit"))
 #: The help screen's rows for this screen: (keys, what they do).
-HELP_ROWS = [("arrows", "move the cursor along the section (left, right) and in temperature (up, down)"),
+HELP_ROWS = [("arrows h j k l", "move the cursor along the section (left, right) and in temperature (up, down)"),
+             ("shift+arrows", "the same by a tenth of a step (or H J K L)"),
              ("v", "let the next element vary (the balance, the first element, takes up the change)"),
              ("i", "a ternary: switch between the isopleth and the isothermal section at the cursor's temperature "
                    "(the cursor's alloy marked, its tie-line or tie-triangle drawn)"),
@@ -95,8 +96,12 @@ def help_rows(exploration: SectionExploration) -> list[tuple[str, str]]:
 class SectionScreen(WritesFiles, Screen[None]):
     """Keys move the cursor on the isopleth; the status pane follows."""
 
-    BINDINGS = [Binding("left", "move(-1, 0)", show=False), Binding("right", "move(1, 0)", show=False),
-                Binding("up", "move(0, 1)", show=False), Binding("down", "move(0, -1)", show=False),
+    BINDINGS = [Binding("left,h", "move(-1, 0)", show=False), Binding("right,l", "move(1, 0)", show=False),
+                Binding("up,k", "move(0, 1)", show=False), Binding("down,j", "move(0, -1)", show=False),
+                Binding("shift+left,H", "move(-1, 0, True)", show=False),
+                Binding("shift+right,L", "move(1, 0, True)", show=False),
+                Binding("shift+up,K", "move(0, 1, True)", show=False),
+                Binding("shift+down,J", "move(0, -1, True)", show=False),
                 Binding("v", "vary", show=False), Binding("i", "view('triangle')", show=False),
                 Binding("c", "view('cooling')", show=False), Binding("t", "temperature_unit", show=False),
                 Binding("u", "composition_unit", show=False),
@@ -282,8 +287,8 @@ class SectionScreen(WritesFiles, Screen[None]):
         self._show_status()
 
     # -- keys ----------------------------------------------------------------------------------
-    def action_move(self, columns: int, rows: int) -> None:
-        self.exploration.move(columns, rows)
+    def action_move(self, columns: int, rows: int, fine: bool = False) -> None:
+        self.exploration.move(columns, rows, fine)
         self._changed()
 
     def action_zoom(self, zoom_in: bool) -> None:
