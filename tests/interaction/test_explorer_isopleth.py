@@ -270,3 +270,15 @@ async def test_a_typed_name_the_system_lacks_gets_its_alloys_listed():
         assert problem.startswith("not used: cannot read temperature 'A356', nor an alloy of this system by that name; "
                                   "its alloys: A356.0, "), problem
         assert app.screen.query_one(PointEntry).display            # kept open for correcting
+
+
+@pilot_test
+async def test_the_pointer_to_the_full_caution_stays_on_one_row():
+    """The shipped bi-pb-sn's caution line under the status pane ends on one row with '(? more)'
+    (where the full text is: ? help); the pane broke it into '(?' and 'more)' on two rows."""
+    app = section_app("bi-pb-sn")
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        side = [line[46:].strip(" │") for line in screen_text(app).split("\n")]
+        start = next(i for i, row in enumerate(side) if row.startswith("! A computed melting point"))
+        assert side[start:start + 3] == ["! A computed melting point", "qualifies no safety part", "(? more)"], side

@@ -2,9 +2,14 @@
 under the status pane that gives the open system's own caution."""
 
 import re
+import textwrap
 
 #: Characters the line under the status pane may take (two of its lines at 80x24).
 CAUTION_ROOM = 60
+#: Cells of one row under the status pane (the pane's width less its border and padding).
+CAUTION_WIDTH = 30
+#: Where the full text is, at the end of the caution line; kept on one row.
+MORE = "(? more)"
 
 GENERAL_CAUTIONS: tuple[str, ...] = (
     "Molten metal burns, and it explodes on contact with water: preheat and dry every tool, "
@@ -30,9 +35,16 @@ def caution_line(safety: str) -> str:
     for stop in (":", ";", "."):
         safety = safety.split(stop)[0]
     clause = safety.strip()
-    if len(f"! {clause} (? more)") > CAUTION_ROOM:
+    if len(f"! {clause} {MORE}") > CAUTION_ROOM:
         clause = re.sub(r"\s*\([^)]*\)", "", clause).strip()
     head = clause.split(",")[0]
-    if len(f"! {clause} (? more)") > CAUTION_ROOM and 2 * len(head.split()) >= len(clause.split()):
+    if len(f"! {clause} {MORE}") > CAUTION_ROOM and 2 * len(head.split()) >= len(clause.split()):
         clause = head.strip()
-    return f"! {clause} (? more)"
+    return f"! {clause} {MORE}"
+
+
+def caution_rows(line: str, width: int = CAUTION_WIDTH) -> str:
+    """`line` (caution_line's) broken into rows of `width` cells at its words, its closing
+    "(? more)" kept whole on one row (a row ending '(?' above 'more)' reads as a stray mark)."""
+    glued = MORE.replace(" ", "\0")
+    return "\n".join(textwrap.wrap(line.replace(MORE, glued), width)).replace(glued, MORE)

@@ -13,7 +13,7 @@ from textual.widgets import ContentSwitcher, Input, Static
 from ladle.tui.commands.common import coverage_note
 from ladle.tui.quote import percent
 
-from ..cautions import caution_line
+from ..cautions import caution_line, caution_rows
 from ..cooling import CoolingView
 from ..cooling_status import cooling_lines
 from ..entry import TypedPoint, check_inside
@@ -174,7 +174,7 @@ class ExploreScreen(WritesFiles, Screen[None]):
         """The system's caution, whole, under the status pane (its full text: ? help)."""
         safety = self.exploration.system.safety
         caution = self.query_one("#caution", Static)
-        text = caution_line(safety)
+        text = caution_rows(caution_line(safety))
         if str(caution.render()) != text or caution.display != bool(safety):
             caution.display = bool(safety)
             caution.update(text)

@@ -28,7 +28,7 @@ from ladle.tui.quote import percent
 
 from ..alloy_changes import change_lines
 from ..background import in_background
-from ..cautions import caution_line
+from ..cautions import caution_line, caution_rows
 from ..glyphs import Glyphs
 from ..section_exploration import SectionExploration
 from ..widgets.point_entry import PointEntry
@@ -136,7 +136,7 @@ class SectionScreen(WritesFiles, Screen[None]):
     def on_mount(self) -> None:
         self.query_one(PointEntry).display = False
         caution = self.query_one("#caution", Static)
-        caution.update(caution_line(self.exploration.system.safety))
+        caution.update(caution_rows(caution_line(self.exploration.system.safety)))
         caution.display = bool(self.exploration.system.safety)
         self.query_one(SectionView).exploration = self.exploration
         self._changed()
