@@ -508,3 +508,26 @@ def test_cool_table_ends_with_both_paths_frozen_at_a_shared_plateau(run):
     assert last[2:4] == ["100.0", "100.0"], table[-1]
     assert [row.split()[0] for row in table[-2:]] == [last[0], last[0]]     # before and after the plateau
     assert table[-2].split()[2] != "100.0", table[-2]
+
+
+def test_isothermal_section_labels_are_drawn_whole(run, monkeypatch):
+    """Every field label the triangle's scene places is printed whole at 80x24 (shipped ag-cu-sn
+    at 220 C). The scene judged labels apart on a grid of the size of a plot with ticks, while
+    the triangle has none: two labels a row apart there fell on one screen row, and the picture
+    read 'epsiloepsilon + (Sn) + liquid'."""
+    from ladle.engine import find_system
+    from ladle.engine.diagrams.isothermal import map_isothermal
+    from ladle.tui.explorer.glyphs import glyphs_for
+    from ladle.tui.explorer.section_drawing import triangle_scene
+
+    monkeypatch.setenv("COLUMNS", "80")
+    monkeypatch.setenv("LINES", "24")
+    code, out, err = run("diagram", "ag-cu-sn", "--temp", "220C")
+    assert (code, err) == (0, "")
+    # terminal_plot's size: 80 columns, and the section's least height, 24 rows (more than 24 - 6)
+    scene = triangle_scene(map_isothermal(find_system("ag-cu-sn"), 493.15), glyphs_for(False), 80, 24)
+    assert len(scene.labels) >= 5
+    picture = out.split("┌", 1)[1].split("└", 1)[0]
+    for text in sorted((label.text for label in scene.labels), key=len, reverse=True):   # 'epsilon + (Sn)'
+        assert text in picture, text                      # after 'epsilon + (Sn) + liquid' is taken out
+        picture = picture.replace(text, " " * len(text), 1)

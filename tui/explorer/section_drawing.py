@@ -158,8 +158,10 @@ def _triangle_frame(system, width: int, height: int) -> tuple[Frame, tuple[list[
     """The composition triangle's frame for this size, its sides (and, zoomed, the edges of the
     covered part) as one series, the labels of its corners and the axis title. Where the model
     covers only a corner (ZOOM_BELOW), the frame shows that part with a margin, in the whole
-    triangle's proportions, its far edges labelled with their at%."""
-    columns, rows = plot_area(width, height)
+    triangle's proportions, its far edges labelled with their at%. The frame has the plot's own
+    cells (no ticks: everything inside the border but the axis title), so that labels judged
+    apart here are apart on the screen."""
+    columns, rows = width - 2, height - 3
     els = system.elements
     whole = Frame(-0.05, 1.05, -0.05, _SQRT3_2 + 0.05, columns, rows)
     corners = np.array([[1.0, 0, 0], [0, 1.0, 0], [0, 0, 1.0], [1.0, 0, 0]])
