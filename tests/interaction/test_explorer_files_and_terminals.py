@@ -91,6 +91,14 @@ async def test_the_point_and_units_are_remembered_between_runs(clean_environment
     assert again.scales.temperature_unit == "K"
 
 
+def test_a_first_run_opens_on_the_lead_tin_binary(clean_environment):
+    """With no system asked for and nothing remembered, the explorer opens on pb-sn, a binary
+    drawn at once; it opened on the catalog's first file, the gold-silver-copper ternary, whose
+    isopleth takes seconds to map before anything is drawn."""
+    first = first_exploration(None, None)
+    assert first.system.name == "pb-sn" and first.system.elements == ("Pb", "Sn")
+
+
 @pilot_test
 async def test_a_small_terminal_is_told_the_size_needed():
     app = make_app(T_K=500.0, x_B=0.5)

@@ -19,6 +19,12 @@ from .section_exploration import SectionExploration
 from .system_choices import opens_as_section
 
 
+#: The system a first run opens (nothing asked for, nothing remembered): the lead-tin solders'
+#: binary, drawn at once and known to every reader of phase diagrams; the catalog's first where
+#: it is missing.
+FIRST_SYSTEM = "pb-sn"
+
+
 def _open(name: str):
     """The system, or a one-line reason it cannot be opened."""
     try:
@@ -44,8 +50,8 @@ def exploration_for(system, scales: Scales | None = None, cursor: Cursor | None 
 
 
 def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration | SectionExploration:
-    """The exploration to open: the system asked for, else the last one used, else the first
-    shipped; with the saved cursor and units where the system is the saved one; for a system
+    """The exploration to open: the system asked for, else the last one used, else FIRST_SYSTEM
+    (the first shipped where it cannot be opened); with the saved cursor and units where the system is the saved one; for a system
     drawn as an isopleth, its SectionExploration.
     Raises ValueError (one line) when the asked-for system cannot be opened."""
     if asked is not None:
@@ -54,6 +60,8 @@ def first_exploration(asked: str | None, saved: SavedState | None) -> Exploratio
             raise ValueError(problem)
     else:
         system = _open(saved.system)[0] if saved is not None else None
+        if system is None:
+            system = _open(FIRST_SYSTEM)[0]
         if system is None:
             entries = list_systems()
             if not entries:
