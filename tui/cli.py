@@ -55,7 +55,7 @@ def build_parser(command: str | None = None) -> tuple[argparse.ArgumentParser, d
     its one-line help; building the others' arguments would only cost time)."""
     parser = _Parser(prog="ladle", description="Phase equilibria of alloys (binary and multicomponent) from Gibbs-energy models. "
                      "Without a command, `ladle [SYSTEM] [--ascii]` opens the full-screen explorer "
-                     "(on the system named, else the one used last; --ascii or LADLE_ASCII=1 draws "
+                     "(on the system named, else the one used last, else pb-sn; --ascii or LADLE_ASCII=1 draws "
                      "with plain ASCII for old terminals and serial consoles).")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     parser.commands = {}
