@@ -243,3 +243,21 @@ async def test_the_energy_picture_built_ahead_is_the_one_built_on_the_spot():
         energy._ahead.clear()
         energy._built_key = None                     # build it again, here and now
         assert energy._picture().plain == ahead
+
+
+@pilot_test
+async def test_a_status_line_too_long_for_the_pane_goes_on_indented():
+    """A line wider than the status pane is broken at its words, its further rows indented under
+    its text (a row at the pane's edge read as a line of its own: ' too small: delta ferrite +'
+    above 'liquid' in Fe-C's key of fields)."""
+    from ladle.tui.explorer.widgets.status_pane import StatusPane
+
+    app = make_app(T_K=500.0, x_B=0.5)
+    async with app.run_test(size=SIZE) as pilot:
+        pane = _main(app).query_one(StatusPane)
+        pane.show_lines([("heading", "FIELDS"), ("note", " too small: delta ferrite + liquid + more"),
+                         ("heading", "SOLUTION TREATMENT, solvus to Scheil end")])
+        await pilot.pause()
+        rows = [pane.render_line(y).text.rstrip() for y in range(pane.rows_needed())]
+        assert rows == ["FIELDS", " too small: delta ferrite +", "   liquid + more",
+                        "SOLUTION TREATMENT, solvus to", "  Scheil end"], rows

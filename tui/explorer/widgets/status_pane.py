@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import textwrap
 from typing import Self
 
 from rich.text import Text
@@ -15,7 +16,8 @@ from ..status_lines import Line
 
 class StatusPane(Widget):
     """Shows (role, text) lines; the stylesheet styles each role through component classes.
-    A line longer than the pane wraps at its words. Each line is turned into screen lines once,
+    A line longer than the pane wraps at its words, its further rows indented under its text.
+    Each line is turned into screen lines once,
     and only the screen lines that differ from those shown are repainted."""
 
     COMPONENT_CLASSES = {"status-pane--heading", "status-pane--value", "status-pane--note",
@@ -65,7 +67,7 @@ class StatusPane(Widget):
             strips = self._made.get(key)
             if strips is None:
                 role, text = line
-                styled = Text(text, style=self.get_component_rich_style(f"status-pane--{role}"),
+                styled = Text(_hanging(text, width), style=self.get_component_rich_style(f"status-pane--{role}"),
                               no_wrap=False, overflow="fold")
                 strips = Visual.to_strips(self, visualize(self, styled), width, None,
                                           self.visual_style)
@@ -95,3 +97,13 @@ class StatusPane(Widget):
         """The pane's text without styles (what a reader sees)."""
         lines = self._lines if self.size.width else self._wanted[0]
         return "\n".join(text for _, text in lines)
+
+
+def _hanging(text: str, width: int) -> str:
+    """`text` as it fits a pane `width` cells wide: unchanged where it fits, else broken at its
+    words with each further row indented two cells more than the line ('too small: delta
+    ferrite +' over '   liquid', not a row starting at the pane's edge as a new line would)."""
+    if len(text) <= width:
+        return text
+    lead = " " * (len(text) - len(text.lstrip(" ")) + 2)
+    return "\n".join(textwrap.wrap(text, width, subsequent_indent=lead, drop_whitespace=True)) or text
