@@ -282,3 +282,18 @@ async def test_the_pointer_to_the_full_caution_stays_on_one_row():
         side = [line[46:].strip(" │") for line in screen_text(app).split("\n")]
         start = next(i for i, row in enumerate(side) if row.startswith("! A computed melting point"))
         assert side[start:start + 3] == ["! A computed melting point", "qualifies no safety part", "(? more)"], side
+
+
+@pilot_test
+async def test_a_long_caution_keeps_its_statement_under_the_pane():
+    """The shipped fe-c-si's caution begins 'Molten iron (...) explodes on contact with water,
+    damp tools, rust, ...': under the status pane it is that statement and where the rest is,
+    in two rows; the whole list took five of the pane's rows (the POINT heading fell off)."""
+    app = section_app("fe-c-si")
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        side = [line[46:].strip(" │") for line in screen_text(app).split("\n")]
+        start = next(i for i, row in enumerate(side) if row.startswith("! Molten iron"))
+        assert side[start:start + 3] == ["! Molten iron explodes on", "contact with water (? more)",
+                                         "╰" + "─" * 32 + "╯"], side
+        assert "POINT" in side

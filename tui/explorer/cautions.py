@@ -8,6 +8,9 @@ import textwrap
 CAUTION_ROOM = 60
 #: Cells of one row under the status pane (the pane's width less its border and padding).
 CAUTION_WIDTH = 30
+#: Words before a long clause's first comma that make a statement of their own (a subject, its
+#: verb and what it does), kept where the rest of the clause does not fit.
+STATEMENT_WORDS = 5
 #: Where the full text is, at the end of the caution line; kept on one row.
 MORE = "(? more)"
 
@@ -28,8 +31,9 @@ def caution_line(safety: str) -> str:
     """The line under the status pane for a system's safety note: its first clause ("Lead is
     toxic") and where the full text is; empty where the system has none. A clause longer than
     CAUTION_ROOM loses its remarks in brackets, then what follows its first comma where that
-    keeps at least half its words (its main statement: "Molten iron and steel explode on contact
-    with water", not "Magnesium melts")."""
+    keeps at least half its words or STATEMENT_WORDS (its main statement: "Molten iron and steel
+    explode on contact with water", "Molten iron explodes on contact with water" before a list of
+    what else makes it explode; not "Magnesium melts")."""
     if not safety:
         return ""
     for stop in (":", ";", "."):
@@ -38,7 +42,8 @@ def caution_line(safety: str) -> str:
     if len(f"! {clause} {MORE}") > CAUTION_ROOM:
         clause = re.sub(r"\s*\([^)]*\)", "", clause).strip()
     head = clause.split(",")[0]
-    if len(f"! {clause} {MORE}") > CAUTION_ROOM and 2 * len(head.split()) >= len(clause.split()):
+    words = len(head.split())
+    if len(f"! {clause} {MORE}") > CAUTION_ROOM and (2 * words >= len(clause.split()) or words >= STATEMENT_WORDS):
         clause = head.strip()
     return f"! {clause} {MORE}"
 
