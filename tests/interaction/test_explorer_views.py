@@ -163,7 +163,8 @@ async def test_the_pickers_counts_arrive_one_by_one_and_leave_the_highlight(monk
         first, last = options.get_option_at_index(0).id, options.get_option_at_index(options.option_count - 1).id
         await until(pilot, lambda: "independent checks passed" in str(options.get_option(first).prompt)
                     or "no independent checks" in str(options.get_option(first).prompt), "the first count")
-        assert "independent checks passed" not in str(options.get_option(last).prompt)   # not counted yet
+        assert "independent checks passed" not in str(options.get_option(last).prompt)   # not counted yet,
+        assert "independent checks (checking ...)" in str(options.get_option(last).prompt)  # and says so
         assert options.highlighted == before
         release.set()
         await until(pilot, lambda: "passed" in str(options.get_option(last).prompt)

@@ -71,13 +71,14 @@ def system_choices() -> list[SystemChoice]:
 
 
 def checks_text(passed: int | None, total: int, fit_targets: int = 0) -> str:
-    """'12 independent checks', or 'independent checks passed: 11 of 12' once they are evaluated
-    (checks the model was not fitted to; melting points are not counted), then how many fit
-    targets the file holds, which are not counted: '; 4 fit targets not counted'."""
+    """'12 independent checks (checking ...)' while the picker evaluates them, then 'independent
+    checks passed: 11 of 12' (checks the model was not fitted to; melting points are not
+    counted), then how many fit targets the file holds, which are not counted: '; 4 fit targets
+    not counted'."""
     if not total:
         text = "no independent checks"
     elif passed is None:
-        text = f"{total} independent check{'s' if total != 1 else ''}"
+        text = f"{total} independent check{'s' if total != 1 else ''} (checking ...)"
     else:
         text = f"independent checks passed: {passed} of {total}"
     if fit_targets:
