@@ -531,3 +531,14 @@ def test_isothermal_section_labels_are_drawn_whole(run, monkeypatch):
     for text in sorted((label.text for label in scene.labels), key=len, reverse=True):   # 'epsilon + (Sn)'
         assert text in picture, text                      # after 'epsilon + (Sn) + liquid' is taken out
         picture = picture.replace(text, " " * len(text), 1)
+
+
+def test_the_sides_of_a_gap_are_named_on_a_ternary_picture(run, monkeypatch):
+    """The carat golds' fcc gap (shipped ag-au-cu at 600 C): the field is named by what each side
+    is rich in, 'fcc (Cu-rich) + fcc (Ag-rich)' (from the point equilibrium in the field), as the
+    status pane and ladle point name them; the picture said 'fcc + fcc'."""
+    monkeypatch.setenv("COLUMNS", "80")
+    monkeypatch.setenv("LINES", "24")
+    code, out, err = run("diagram", "ag-au-cu", "--temp", "600C")
+    assert (code, err) == (0, "")
+    assert "fcc (Cu-rich) + fcc (Ag-rich)" in out and "fcc + fcc" not in out

@@ -5,8 +5,9 @@ The ternary liquidus projection (valleys and invariant points on the triangle) i
 way. Plot calls only (plotext's figure API) and the plain-numpy scenes they draw; the numbers come
 from the engine's mapped sections (ladle.engine.diagrams.isopleth, isothermal,
 liquidus_projection). Every field is labelled: by its phases (the trade's names where the
-system's file gives them) where the text fits, else by a number that the key under the picture
-explains; the lines the file names (A1, A3, Acm) carry their names. A system that covers only a
+system's file gives them; the two sides of a miscibility gap by what each is rich in, from one
+point equilibrium in the field) where the text fits, else by a number that the key under the
+picture explains; the lines the file names (A1, A3, Acm) carry their names. A system that covers only a
 corner of the triangle is drawn zoomed to that corner.
 """
 
@@ -17,6 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ladle.engine.diagrams.isopleth import section_mole_fractions
 from ladle.engine.files.trade_names import trade_names
 from ladle.engine.units import kelvin_to
 
@@ -48,12 +50,37 @@ class SectionScene:
     y_title: str | None
 
 
-def field_name(system, phases: Sequence[str], temperature_K: float) -> str:
+def field_name(system, phases: Sequence[str], temperature_K: float, x: Sequence[float] | None = None) -> str:
     """'liquid + (Sn)': a field's phases at temperature_K (K) as the picture names them, by the
-    trade's names where the system's file gives them (a phase present twice, the two sides of a
-    miscibility gap, keeps its structure name)."""
+    trade's names where the system's file gives them. A phase present twice, the two sides of a
+    miscibility gap, is named by the element each side is rich in, from the point equilibrium at
+    `x` (mole fractions of a point of the field): 'fcc (Cu-rich) + fcc (Ag-rich)'; without `x`,
+    or where that equilibrium holds other phases, by its structure name ('fcc + fcc')."""
     names = trade_names(system)
+    if x is not None and len(set(phases)) < len(phases):
+        sides = _gap_sides(system, phases, temperature_K, x)
+        if sides is not None:
+            return sides
     return " + ".join(p if list(phases).count(p) > 1 else names.phase_name(p, temperature_K) or p for p in phases)
+
+
+def _gap_sides(system, phases: Sequence[str], temperature_K: float, x: Sequence[float]) -> str | None:
+    """The field's phases with each side of a gap named by what it is rich in, from the point
+    equilibrium at (temperature_K, x); None where that equilibrium has other phases or no answer."""
+    from ladle.engine import equilibrate
+    from ladle.tui.phase_names import equilibrium_labels
+
+    try:
+        eq = equilibrate(system, temperature_K, np.asarray(x, dtype=float))
+    except (ValueError, ArithmeticError):
+        return None
+    found = [p.name for p in eq.phases]
+    if sorted(found) != sorted(phases):
+        return None
+    names = trade_names(system)
+    labels = equilibrium_labels(system, eq.phases, temperature_K)
+    return " + ".join(label if found.count(name) > 1 else names.phase_name(name, temperature_K) or name
+                      for name, label in zip(found, labels, strict=True))
 
 
 def labelled_fields(wanted: list[tuple[str, float, float]], frame: Frame,
@@ -109,7 +136,8 @@ def isopleth_scene(iso, unit: str, glyphs: Glyphs, width: int, height: int,
     for f in sorted(iso.fields, key=lambda f: -len(f.nodes)):
         middle = f.middle if window is None else _middle_inside(f.nodes, (u_low, u_high, T_low, T_high))
         if middle is not None:
-            wanted.append((field_name(iso.system, f.phases, middle[1]), *(float(v[0]) for v in shown([middle]))))
+            x = section_mole_fractions(iso.system, iso.start, iso.end, iso.basis, np.array([middle[0]]))[0]
+            wanted.append((field_name(iso.system, f.phases, middle[1], x), *(float(v[0]) for v in shown([middle]))))
     named = _named_line_labels([shown(line.points) for line in iso.lines], line_labels, frame)
     labels, key = labelled_fields(wanted, frame, named)
     return SectionScene(frame, joined(curves), joined(flats), ([], []), labels, key,
@@ -198,7 +226,7 @@ def triangle_scene(section, glyphs: Glyphs, width: int, height: int) -> SectionS
     wanted = []
     for f in sorted(section.fields, key=lambda f: -f.nodes):
         x, y = triangle_point(np.array(f.middle))
-        wanted.append((field_name(system, f.phases, section.temperature_K), float(x), float(y)))
+        wanted.append((field_name(system, f.phases, section.temperature_K, f.middle), float(x), float(y)))
     labels, key = labelled_fields(wanted, frame, corners)
     return SectionScene(frame, sides, joined(triangles), joined(ties), labels, key, title, None)
 
