@@ -257,8 +257,10 @@ async def test_a_status_line_too_long_for_the_pane_goes_on_indented():
     async with app.run_test(size=SIZE) as pilot:
         pane = _main(app).query_one(StatusPane)
         pane.show_lines([("heading", "FIELDS"), ("note", " too small: delta ferrite + liquid + more"),
+                         ("note", " 1: fcc (Cu-rich) + fcc (Ag-rich)"),
                          ("heading", "SOLUTION TREATMENT, solvus to Scheil end")])
         await pilot.pause()
         rows = [pane.render_line(y).text.rstrip() for y in range(pane.rows_needed())]
         assert rows == ["FIELDS", " too small: delta ferrite +", "   liquid + more",
+                        " 1: fcc (Cu-rich) + fcc", "   (Ag-rich)",              # not 'fcc (Ag-' over 'rich)'
                         "SOLUTION TREATMENT, solvus to", "  Scheil end"], rows

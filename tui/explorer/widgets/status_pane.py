@@ -101,9 +101,10 @@ class StatusPane(Widget):
 
 def _hanging(text: str, width: int) -> str:
     """`text` as it fits a pane `width` cells wide: unchanged where it fits, else broken at its
-    words with each further row indented two cells more than the line ('too small: delta
-    ferrite +' over '   liquid', not a row starting at the pane's edge as a new line would)."""
+    words (a hyphen holds its word together: '(Ag-rich)') with each further row indented two
+    cells more than the line ('too small: delta ferrite +' over '   liquid', not a row starting
+    at the pane's edge as a new line would)."""
     if len(text) <= width:
         return text
     lead = " " * (len(text) - len(text.lstrip(" ")) + 2)
-    return "\n".join(textwrap.wrap(text, width, subsequent_indent=lead, drop_whitespace=True)) or text
+    return "\n".join(textwrap.wrap(text, width, subsequent_indent=lead, break_on_hyphens=False)) or text
