@@ -228,6 +228,9 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         lo, hi = (r.number(v, "covers_at_percent") for v in c)
         if not 0 <= lo < hi <= 100:
             raise r.fail("covers_at_percent", "expected 0 <= from < to <= 100 (at%)")
+        if hi - lo < limits.MIN_COVERED_AT_PERCENT:
+            raise r.fail("covers_at_percent", f"{lo:g}-{hi:g} at% is too narrow a range; expected one of at least "
+                         f"{limits.MIN_COVERED_AT_PERCENT:g} at%")
         covers = (lo / 100.0, hi / 100.0)
     covers_K = (0.0, float("inf"))
     if "covers_K" in doc:
@@ -293,7 +296,24 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
     lo, hi = system.model_range_K
     if lo >= hi:
         raise r.fail("phase", f"the phases share no temperature range (they overlap from {lo:g} K to {hi:g} K)")
+    _check_window(r, system)
     return system
+
+
+def _check_window(r: _Reader, system: System) -> None:
+    """Refuse a `temperature_range_K` beyond the temperatures where every phase is defined, and
+    a `covers_K` that leaves diagrams less than MIN_WINDOW_K to be mapped over (a window of
+    303-301 K ended in 'math domain error')."""
+    m_lo, m_hi = system.model_range_K
+    declared = system.declared_temperature_range_K
+    if declared is not None and not m_lo <= declared[0] < declared[1] <= m_hi:
+        raise r.fail("temperature_range_K", f"{declared[0]:g}-{declared[1]:g} K reaches beyond the temperatures where "
+                     f"every phase is defined ({m_lo:g}-{m_hi:g} K)")
+    w_lo, w_hi = system.temperature_range_K
+    if not w_hi - w_lo >= limits.MIN_WINDOW_K:
+        key = "temperature_range_K" if declared is not None and system.covers_K == (0.0, float("inf")) else "covers_K"
+        raise r.fail(key, f"leaves diagrams {max(w_hi - w_lo, 0.0):g} K to be mapped over ({w_lo:g}-{w_hi:g} K); expected "
+                     f"a window of at least {limits.MIN_WINDOW_K:g} K, within where the phases are defined and covered")
 
 
 def _fit_range(r: _Reader, value, system: System) -> tuple[float, float]:

@@ -238,8 +238,9 @@ def _sublattice_draft(r: "_Reader", library: "ElementLibrary", name: str, table:
     for k, entry in _entries(r, lattices, f"{key}.sublattices", _SUBLATTICE_ENTRY_KEYS, ("sites", "holds"),
                              "each sublattice gives its sites per formula unit and what it holds"):
         sites = r.number(entry["sites"], f"{k}.sites")
-        if not 0 < sites <= bounds.MAX_SITES:
-            raise r.fail(f"{k}.sites", f"expected a positive number of sites per formula unit, at most {bounds.MAX_SITES:g}")
+        if not bounds.MIN_SITES <= sites <= bounds.MAX_SITES:
+            raise r.fail(f"{k}.sites", f"expected a positive number of sites per formula unit, at least "
+                         f"{bounds.MIN_SITES:g} and at most {bounds.MAX_SITES:g}")
         holds = _constituent_list(r, entry["holds"], f"{k}.holds")
         bounds.check_count(len(holds), bounds.MAX_CONSTITUENTS, f"{k}.holds", "constituents", r.fail)
         for c in holds:

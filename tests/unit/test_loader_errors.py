@@ -57,6 +57,17 @@ CASES = [
     # 1e308 g/mol of gold showed every tin alloy as '0 wt%' Sn (a wrong answer, status 0)
     ("molar mass beyond the periodic table", "B = 30.0 }", "B = 1e308 }", "molar_mass.B", "from 1 to 300"),
     ("molar mass below hydrogen's", "B = 30.0 }", "B = 1e-300 }", "molar_mass.B", "from 1 to 300"),
+    # found by fuzzing: ladle diagram of a range of 1e-9 at% ran for minutes, of 1e-300 at% ended in a traceback
+    ("covered range too narrow", 'source = "Synthetic', 'covers_at_percent = [0, 1e-9]\nsource = "Synthetic',
+     "covers_at_percent", "at least 1 at%"),
+    # a window beyond the pieces (3000 K) ended in 'min() arg is an empty sequence'
+    ("diagram window beyond the pieces", 'source = "Synthetic', 'temperature_range_K = [300, 5000]\nsource = "Synthetic',
+     "temperature_range_K", "beyond the temperatures where every phase is defined (1-3000 K)"),
+    ("diagram window of a ten-thousandth of a kelvin", 'source = "Synthetic',
+     'temperature_range_K = [300, 300.0001]\nsource = "Synthetic', "temperature_range_K", "at least 1 K"),
+    # covers_K below the window from the melting points inverted it: 'math domain error'
+    ("covered temperatures outside the diagram window", 'source = "Synthetic', 'covers_K = [1, 2]\nsource = "Synthetic',
+     "covers_K", "at least 1 K"),
     ("missing molar mass", "molar_mass = { A = 60.0, B = 30.0 }", "molar_mass = { A = 60.0 }", "molar_mass.B", "missing"),
     ("missing source", 'source = "Synthetic test system: invented parameters."', "", "source", "missing"),
     ("misspelt top-level key", "source =", "sourse =", "sourse", "unknown key"),
@@ -215,3 +226,15 @@ def test_a_tolerance_by_phase_naming_no_phase_is_refused(tmp_path, table):
     with pytest.raises(SystemFileError) as err:
         load_system(_write(tmp_path, VALID + fact))
     assert str(err.value).startswith(f"bad.toml: check[0].{table}.FCC: not a phase of this system"), str(err.value)
+
+
+@pytest.mark.parametrize("sites", ["1e-9", "0.001"])
+def test_a_sublattice_of_a_hundredth_of_a_site_or_less_is_refused(tmp_path, sites):
+    """Found by fuzzing: fe-c with 1e-9 sites on austenite's iron sublattice kept ladle melt busy for
+    minutes; with 1e-300 it ended in 'cannot reshape array of size 0'."""
+    text = (SHIPPED / "fe-c.toml").read_text(encoding="utf-8")
+    line = 'sublattices = [ { sites = 1, holds = ["Fe"] }, { sites = 1, holds = ["C", "Va"] } ]'
+    assert line in text
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, text.replace(line, line.replace("sites = 1,", f"sites = {sites},", 1))))
+    assert "phase.fcc.sublattices[0].sites: expected a positive number of sites per formula unit, at least 0.01" in str(err.value)
