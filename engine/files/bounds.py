@@ -44,6 +44,10 @@ MAX_MOMENT = 100.0
 #: The molar masses a file may give (g/mol): those of the periodic table, hydrogen's 1.008 to
 #: oganesson's 294 (IUPAC standard atomic weights), with room either side.
 MOLAR_MASS_G_PER_MOL = (1.0, 300.0)
+#: The widest spread a fact may give: its tolerance (a [[check]]) or standard uncertainty (a
+#: [[measured]] fact) in K, at% and J/mol, and its tolerance factor. A check whose tolerance is
+#: wider cannot fail (1e308 K passed every check), and such an uncertainty weighs nothing in a fit.
+MAX_SPREAD = {"K": 100.0, "at": 10.0, "J": 10_000.0, "factor": 10.0}
 #: How deep files may build on files that build on files.
 MAX_BUILD_DEPTH = 4
 

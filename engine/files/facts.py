@@ -13,7 +13,7 @@ from typing import Any, Callable
 import numpy as np
 
 from ..units import kelvin_from, mole_from_mass
-from .bounds import finite_number, shown_value
+from .bounds import MAX_SPREAD, check_temperature, finite_number, shown_value
 from .plain_text import without_controls
 
 KINDS = ("melting", "invariant", "liquidus", "solidus", "boundary", "mixing_enthalpy", "formation_enthalpy",
@@ -59,10 +59,10 @@ def _read_spread(v: Any, key: str, spread: dict[str, float], name: str, low: flo
         for ph, s in v.items():
             if ph not in phases:                # a misspelt phase would leave the real one without a spread
                 raise fail(f"{key}.{ph}", f"not a phase of this system ({', '.join(phases)})")
-            if not finite_number(s) or s <= low:
+            if not finite_number(s) or not low < s <= MAX_SPREAD[name]:
                 raise fail(f"{key}.{ph}", f"expected {expected}")
             spread[f"{name}:{ph}"] = float(s)
-    elif finite_number(v) and v > low:
+    elif finite_number(v) and low < v <= MAX_SPREAD[name]:
         spread[name] = float(v)
     else:
         raise fail(key, f"expected {expected}, or a table per phase")
@@ -108,23 +108,26 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         T = kelvin_from(tval, temps[0][-1])
         if T <= 0:
             raise fail(f"{key}.{temps[0]}", "expected a temperature above absolute zero")
+        check_temperature(T, f"{key}.{temps[0]}", fail)
         fields: dict[str, Any] = {"kind": kind, "source": without_controls(source), "temperature_K": T, "index": i}
 
         spread: dict[str, float] = {}
-        if k_key in item:
-            if not finite_number(item[k_key]) or item[k_key] <= 0:
-                raise fail(f"{key}.{k_key}", "expected a positive number of kelvin")
-            spread["K"] = float(item[k_key])
-        if j_key in item:
-            if not finite_number(item[j_key]) or item[j_key] <= 0:
-                raise fail(f"{key}.{j_key}", "expected a positive number of J/mol")
-            spread["J"] = float(item[j_key])
+        for spread_key, name, unit in ((k_key, "K", "kelvin"), (j_key, "J", "J/mol")):
+            if spread_key in item:
+                if not finite_number(item[spread_key]) or item[spread_key] <= 0:
+                    raise fail(f"{key}.{spread_key}", f"expected a positive number of {unit}")
+                if item[spread_key] > MAX_SPREAD[name]:
+                    raise fail(f"{key}.{spread_key}", f"expected at most {MAX_SPREAD[name]:g} {unit} (a wider spread "
+                               "cannot fail)")
+                spread[name] = float(item[spread_key])
         if at_key in item:
-            _read_spread(item[at_key], f"{key}.{at_key}", spread, "at", 0.0, "a positive number of at%", system.phases,
-                         fail)
+            _read_spread(item[at_key], f"{key}.{at_key}", spread, "at", 0.0,
+                         f"a positive number of at%, at most {MAX_SPREAD['at']:g} (a wider spread cannot fail)",
+                         system.phases, fail)
         if FACTOR_KEY in item:
             _read_spread(item[FACTOR_KEY], f"{key}.{FACTOR_KEY}", spread, "factor", 1.0,
-                         "a factor above 1 (2 means within half to twice the value)", system.phases, fail)
+                         f"a factor above 1 and at most {MAX_SPREAD['factor']:g} (2 means within half to twice the "
+                         "value)", system.phases, fail)
         if AT_MOST_KEY in item:
             if item[AT_MOST_KEY] is not True or at_key in item or FACTOR_KEY in item:
                 raise fail(f"{key}.{AT_MOST_KEY}", "expected true (the composition is an upper limit of the minor "

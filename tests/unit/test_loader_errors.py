@@ -119,6 +119,13 @@ FACT_CASES = [
      "expected a percentage"),
     ("tolerance beyond the float range", "temperature_C = 500\nat_percent = 30\ntolerance_K = 1" + "0" * 400,
      "check[0].tolerance_K", "positive number of kelvin"),
+    # found by fuzzing: a tolerance of 1e308 K passed every check, a fact at 1e308 C was shown as a 309-digit number
+    ("tolerance that cannot fail", "temperature_C = 500\nat_percent = 30\ntolerance_K = 1e308", "check[0].tolerance_K",
+     "at most 100 kelvin (a wider spread cannot fail)"),
+    ("composition tolerance that cannot fail", "temperature_C = 500\nat_percent = 30\ntolerance_at = 50",
+     "check[0].tolerance_at", "at most 10 (a wider spread cannot fail)"),
+    ("temperature beyond any file's", "temperature_C = 1e308\nat_percent = 30", "check[0].temperature_C",
+     "beyond the 20000 K a file may name"),
     ("phase a table", "temperature_C = 500\nat_percent = 30\nphase = {}\npartner = \"liquid\"", "check[0].phase",
      "expected a phase of this system"),
     ("partner a list", "temperature_C = 500\nat_percent = 30\nphase = \"fcc\"\npartner = [\"liquid\"]", "check[0].partner",
