@@ -8,6 +8,7 @@ to, `[[check]]` facts are independent checks the model was not fitted to. A fact
 from __future__ import annotations
 
 from collections.abc import Collection
+from dataclasses import replace
 from typing import Any, Callable
 
 import numpy as np
@@ -285,7 +286,14 @@ def named_phases(fact) -> set[str]:
 def reject_repeated_facts(checks: list, measured: list, fail: Callable[[str, str], Exception]) -> None:
     """Refuse a `[[check]]` that repeats a `[[measured]]` fact: a fact the model was fitted to
     proves nothing about it, so it cannot also be an independent check. Pure-element melting
-    points are exempt (they are neither: the element data build them in)."""
+    points are exempt (they are neither: the element data build them in). Refuse as well a fact
+    written twice in one list (the same in every key), which would count twice among the checks
+    passed or weigh double in a fit."""
+    for name, facts in (("check", checks), ("measured", measured)):
+        for i, later in enumerate(facts):
+            earlier = next((f for f in facts[:i] if replace(f, index=later.index) == later), None)
+            if earlier is not None:
+                raise fail(f"{name}[{later.index}]", f"repeats {name}[{earlier.index}] key for key; give a fact once")
     for c in checks:
         if c.kind in PURE_ELEMENT_KINDS:
             continue

@@ -245,3 +245,15 @@ def test_a_sublattice_of_a_hundredth_of_a_site_or_less_is_refused(tmp_path, site
     with pytest.raises(SystemFileError) as err:
         load_system(_write(tmp_path, text.replace(line, line.replace("sites = 1,", f"sites = {sites},", 1))))
     assert "phase.fcc.sublattices[0].sites: expected a positive number of sites per formula unit, at least 0.01" in str(err.value)
+
+
+@pytest.mark.parametrize("table", ["check", "measured"])
+def test_a_fact_given_twice_is_refused(tmp_path, table):
+    """Found by fuzzing: a repeated [[check]] counted twice among the checks passed (7 of 8 for a
+    file of seven), a repeated [[measured]] fact weighed double in a fit."""
+    spread = "tolerance_K = 5" if table == "check" else "uncertainty_K = 5"
+    fact = (f'\n[[{table}]]\nkind = "liquidus"\nsource = "invented for this test"\ntemperature_C = 900\n'
+            f'at_percent = 30\n{spread}\n')
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID + fact + fact))
+    assert str(err.value).startswith(f"bad.toml: {table}[1]: repeats {table}[0] key for key"), str(err.value)
