@@ -13,7 +13,7 @@ HELP = "how an alloy freezes: fraction solid, liquid composition and phases on c
 
 #: About this many evenly spaced rows between the liquidus and the end of freezing.
 TABLE_ROWS = 12
-#: Arrests of the two paths closer than this (K) share a row.
+#: Arrests of the two paths closer than this (K), or shown at the same temperature, share a row.
 _SAME_K = 1e-6
 
 
@@ -121,9 +121,14 @@ def row_temperatures(result, unit: str) -> list[tuple[float, bool]]:
     paths = (result.equilibrium, result.scheil)
     top = result.equilibrium.liquidus_K
     bottom = min(s.temperature_K for p in paths for s in p.steps)
-    events: list[list] = []     # [highest T, lowest T, plateau?]: arrests of either path within _SAME_K
+
+    def same(T1: float, T2: float) -> bool:
+        """Within _SAME_K, or shown as the same temperature (one row, not two that read alike)."""
+        return abs(T1 - T2) <= _SAME_K or quote.temperature(T1, unit) == quote.temperature(T2, unit)
+
+    events: list[list] = []     # [highest T, lowest T, plateau?]: arrests of either path at the `same` T
     for a in sorted((a for p in paths for a in p.arrests), key=lambda a: -a.temperature_K):
-        if events and abs(events[-1][1] - a.temperature_K) <= _SAME_K:
+        if events and same(events[-1][1], a.temperature_K):
             events[-1][1:] = [a.temperature_K, events[-1][2] or a.kind == "plateau"]
         else:
             events.append([a.temperature_K, a.temperature_K, a.kind == "plateau"])
@@ -131,7 +136,7 @@ def row_temperatures(result, unit: str) -> list[tuple[float, bool]]:
     # the row before a shared arrest at its highest temperature, the row after it at its lowest:
     # each path then stands before, or after, its own arrest
     for high, low, plateau in events:
-        if abs(high - top) > _SAME_K:
+        if not same(high, top):
             rows.add((high, False))
         if plateau:
             rows.add((low, True))
