@@ -125,3 +125,29 @@ def test_shipped_names_are_found_without_reading_the_users_folders(tmp_path, mon
     read.clear()
     assert catalog.resolve("my-own").origin == "user"
     assert read == [catalog.shipped_folder(), tmp_path / "first"]          # the second folder is never read
+
+
+#: Mutants of pb-sn.toml found by fuzzing the shipped files, each of which ended in a traceback, a
+#: run of minutes or a wrong answer: (what, line replaced, replacement, words of the one line).
+FUZZED = [
+    ("fact temperature beyond the float range", "temperature_C = 327.462", "temperature_C = 1" + "0" * 400,
+     "check[0].temperature_C: expected a number"),
+    ("molar mass beyond the periodic table", "Pb = 207.2", "Pb = 1e308", "molar_mass.Pb"),
+    ("integer of 400 digits", "Pb = 207.2", "Pb = 1" + "0" * 400, "molar_mass.Pb: expected a number"),
+    ("arrays nested thousands deep", "[[check]]", "zzz = " + "[" * 50_000 + "]" * 50_000 + "\n[[check]]",
+     "nested too deeply"),
+    ("covered range of a billionth of a percent", "source = ", "covers_at_percent = [0, 1e-9]\nsource = ",
+     "covers_at_percent"),
+    ("covered temperatures below the diagram's window", "source = ", "covers_K = [300, 301]\nsource = ", "covers_K"),
+]
+
+
+@pytest.mark.parametrize("what,old,new,words", FUZZED, ids=[f[0] for f in FUZZED])
+def test_fuzzed_files_are_one_line_and_status_2(tmp_path, what, old, new, words):
+    text = (SHIPPED / "pb-sn.toml").read_text(encoding="utf-8")
+    assert old in text, what
+    path = tmp_path / "mutant.toml"
+    path.write_text(text.replace(old, new, 1), encoding="utf-8")
+    run = _ladle("diagram", str(path), env={"XDG_CACHE_HOME": str(tmp_path / "cache")})
+    assert run.returncode == 2 and run.stderr.count("\n") == 1, run.stderr[-2000:]
+    assert run.stderr.startswith("ladle diagram: mutant.toml: ") and words in run.stderr, run.stderr
