@@ -30,7 +30,8 @@ models, `phase.at(T).gibbs`):
 A miss is a point where the engine's G lies above the reference by more than MISS_J_PER_MOL (the
 reference is a real state, so a higher engine G is a real miss; the sampling error only bounds how
 many misses the reference can overlook), where the engine says converged=False, or where it
-raises instead of answering (an error). For binaries
+raises instead of answering (an error). A point where no HiGHS solver of the reference's linear
+program ends with a solution is counted apart (`reference_failed`), neither miss nor pass. For binaries
 the binary shortcut (`equilibrate`, independently verified) is compared as well (G, phase names,
 compositions); for a system of three elements, its binary edges (one element absent) against the
 shortcut on the shipped binary of the other two (the ternary is built on it: Muggianu's
@@ -78,7 +79,7 @@ REFINEMENTS = 5
 PRUNE_MARGIN = 40.0
 SHRINK = 0.3
 TAIL = np.logspace(-7.0, -1.5, 12)
-MULTICOMPONENT = ("ag-cu-sn", "ag-au-cu", "al-mg-si", "bi-pb-sn", "cu-sn", "fe-c", "fe-fe3c")
+MULTICOMPONENT = ("ag-cu-sn", "ag-au-cu", "al-mg-si", "bi-pb-sn", "cu-sn", "fe-c", "fe-fe3c", "fe-c-si")
 
 
 def simplex_grid(m: int, n: int) -> np.ndarray:
@@ -227,10 +228,13 @@ class Reference:
         return n[self.active] / atoms, float(self.models[c.name].gibbs(y[None, :])[0]) / atoms
 
     def _lp(self, X: np.ndarray, G: np.ndarray, z: np.ndarray):
-        res = linprog(G, A_eq=X.T, b_eq=z, bounds=(0, None), method="highs")
-        if res.status != 0:
-            raise RuntimeError(f"reference linear program failed: {res.message}")
-        return float(res.fun), res.x, np.asarray(res.eqlin.marginals)
+        """The lowest combination by HiGHS: its default choice of solver, then the dual simplex
+        and the interior-point solver where one ends without a recognised status."""
+        for method in ("highs", "highs-ds", "highs-ipm"):
+            res = linprog(G, A_eq=X.T, b_eq=z, bounds=(0, None), method=method)
+            if res.status == 0:
+                return float(res.fun), res.x, np.asarray(res.eqlin.marginals)
+        raise ReferenceFailed(f"reference linear program failed: {res.message}")
 
     def minimum(self, z: np.ndarray) -> dict:
         """The reference at overall composition z (mole fractions of the present elements)."""
@@ -350,6 +354,11 @@ class Reference:
         return y_of(res.x), float(res.fun)
 
 
+class ReferenceFailed(RuntimeError):
+    """The reference could not be computed at a point (no solver of the linear program ended
+    with a solution): counted apart, neither a miss nor a pass."""
+
+
 @dataclass
 class Tally:
     points: int = 0
@@ -363,6 +372,7 @@ class Tally:
     shortcut_worst_dG: float = 0.0
     shortcut_differs: list = field(default_factory=list)
     errors: list = field(default_factory=list)
+    reference_failed: list = field(default_factory=list)
     edge_points: int = 0
     edge_worst_dG: float = 0.0
     edge_differs: list = field(default_factory=list)
@@ -449,7 +459,11 @@ def audit_system(name: str, points: int, rng, verbose: bool, alloy_step: float =
         if key not in refs:
             refs.clear()
             refs[key] = Reference(list(samples.values()), models, active)
-        ref = refs[key].minimum(z[active])
+        try:
+            ref = refs[key].minimum(z[active])
+        except ReferenceFailed as e:
+            tally.reference_failed.append({"system": name, "T_K": T, "x": [float(v) for v in z], "error": str(e)})
+            continue
         eq = _engine(system, T, z, tally)
         if eq is None:
             continue
@@ -567,9 +581,13 @@ def screen_system(name: str, temperatures: int, per_T: int, rng, verbose: bool,
                 if verbose:
                     print("UNCONVERGED", json.dumps(case), file=sys.stderr)
             if dG > MISS_J_PER_MOL:
-                full = ref.minimum(z)
-                case.update(dG_J_per_mol=eq.gibbs_J_per_mol - full["gibbs"], reference_error_J_per_mol=full["error"],
-                            reference_phases=composition_sets(full["phases"]))
+                try:
+                    full = ref.minimum(z)
+                except ReferenceFailed as e:         # the coarse hull's facet, a real state, shows the miss
+                    case.update(dG_J_per_mol=dG, reference_failed=str(e))
+                else:
+                    case.update(dG_J_per_mol=eq.gibbs_J_per_mol - full["gibbs"], reference_error_J_per_mol=full["error"],
+                                reference_phases=composition_sets(full["phases"]))
                 tally.misses.append(case)
                 tally.worst_dG = max(tally.worst_dG, case["dG_J_per_mol"])
                 if verbose:
@@ -611,6 +629,7 @@ def main(argv: list[str] | None = None) -> int:
             "shortcut_differs": t.shortcut_differs[:5], "edge_points": t.edge_points,
             "edge_worst_dG_J_per_mol": t.edge_worst_dG, "edge_differs": t.edge_differs[:5],
             "errors": len(t.errors), "error_cases": t.errors[:5],
+            "reference_failed": len(t.reference_failed), "reference_failed_cases": t.reference_failed[:5],
             "seconds": round(t.seconds, 1),
             "miss_cases": t.misses[:10], "unconverged_cases": t.unconverged[:10]}
         if not args.json:
@@ -618,7 +637,8 @@ def main(argv: list[str] | None = None) -> int:
                   f"worst dG {t.worst_dG:.3g} J/mol (reference error <= {t.worst_error:.2g}), "
                   f"phase sets differ at {t.phase_set_differs}; shortcut {t.shortcut_points} points, "
                   f"worst dx {t.shortcut_worst_dx:.2g}, {len(t.shortcut_differs)} differ; binary edges {t.edge_points} points, "
-                  f"worst dG {t.edge_worst_dG:.2g} J/mol, {len(t.edge_differs)} differ; {len(t.errors)} errors; {t.seconds:.0f} s", flush=True)
+                  f"worst dG {t.edge_worst_dG:.2g} J/mol, {len(t.edge_differs)} differ; {len(t.errors)} errors; "
+                  f"reference failed at {len(t.reference_failed)}; {t.seconds:.0f} s", flush=True)
     s = report["systems"].values()
     report["points"] = sum(v["points"] for v in s)
     report["misses"] = sum(v["misses"] + v["unconverged"] + v["errors"] + len(v["shortcut_differs"]) + len(v["edge_differs"])
