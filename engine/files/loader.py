@@ -311,9 +311,10 @@ def _check_window(r: _Reader, system: System) -> None:
                      f"every phase is defined ({m_lo:g}-{m_hi:g} K)")
     w_lo, w_hi = system.temperature_range_K
     if not w_hi - w_lo >= limits.MIN_WINDOW_K:
-        key = "temperature_range_K" if declared is not None and system.covers_K == (0.0, float("inf")) else "covers_K"
-        raise r.fail(key, f"leaves diagrams {max(w_hi - w_lo, 0.0):g} K to be mapped over ({w_lo:g}-{w_hi:g} K); expected "
-                     f"a window of at least {limits.MIN_WINDOW_K:g} K, within where the phases are defined and covered")
+        key = "covers_K" if declared is None else ("temperature_range_K" if system.covers_K == (0.0, float("inf"))
+                                                   else "temperature_range_K and covers_K")
+        raise r.fail(key, f"diagrams would be mapped over {w_lo:g}-{w_hi:g} K; expected a window of at least "
+                     f"{limits.MIN_WINDOW_K:g} K, within where the phases are defined and covered")
 
 
 def _fit_range(r: _Reader, value, system: System) -> tuple[float, float]:
