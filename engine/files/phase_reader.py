@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from . import bounds
-from .phase_drafts import Constituents, PhaseDraft, build, draft_of, find, merge, same_compound
+from .phase_drafts import Constituents, PhaseDraft, build, draft_of, find, merge, same_compound, same_phase
 from ..models.formula import parse_formula
 from ..models.general_form import binary_solution, compound_model
 from ..models.phases import CompoundPhase
@@ -443,4 +443,9 @@ def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elem
     phases.update(compounds)
     models: dict[str, SublatticePhase] = {**solutions, **lattices}
     models.update({n: compound_model(c) for n, c in compounds.items()})
+    names = list(models)
+    for i, name in enumerate(names):
+        twin = next((other for other in names[:i] if same_phase(models[other], models[name])), None)
+        if twin is not None:
+            raise r.fail(f"phase.{name}", f"the same phase as {twin} (every energy alike); give a phase once")
     return phases, {n: models[n] for n in phases}

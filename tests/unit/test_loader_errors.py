@@ -257,3 +257,11 @@ def test_a_fact_given_twice_is_refused(tmp_path, table):
     with pytest.raises(SystemFileError) as err:
         load_system(_write(tmp_path, VALID + fact + fact))
     assert str(err.value).startswith(f"bad.toml: {table}[1]: repeats {table}[0] key for key"), str(err.value)
+
+
+def test_a_phase_given_twice_under_two_names_is_refused(tmp_path):
+    """Found by fuzzing: fe-si with its bcc copied as bcc2 kept ladle check busy for minutes."""
+    copy = VALID[VALID.index("[phase.fcc]"):VALID.index("[phase.AB]")].replace("[phase.fcc]", "[phase.fcc2]")
+    with pytest.raises(SystemFileError) as err:
+        load_system(_write(tmp_path, VALID + "\n" + copy))
+    assert str(err.value) == "bad.toml: phase.fcc2: the same phase as fcc (every energy alike); give a phase once"
