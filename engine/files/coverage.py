@@ -6,7 +6,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import Any
 
-from .bounds import finite_number
+from .bounds import MIN_ELEMENT_RANGE_AT_PERCENT, finite_number
 from .plain_text import without_controls
 
 EXAMPLE = "{ Ag = [0, 5.5], Cu = [0, 3.7] }"
@@ -33,6 +33,9 @@ def read_element_ranges(value: Any, elements: tuple[str, ...],
         lo, hi = float(pair[0]), float(pair[1])
         if not 0 <= lo < hi <= 100:
             raise fail(where, "expected 0 <= from < to <= 100 (at%)")
+        if hi - lo < MIN_ELEMENT_RANGE_AT_PERCENT:
+            raise fail(where, f"{lo:g}-{hi:g} at% is too narrow a range; expected one of at least "
+                              f"{MIN_ELEMENT_RANGE_AT_PERCENT:g} at%")
         ranges[el] = (lo / 100.0, hi / 100.0)
     lows = sum(lo for lo, _ in ranges.values())
     highs = sum(ranges.get(el, (0.0, 1.0))[1] for el in elements)

@@ -265,3 +265,14 @@ def test_a_phase_given_twice_under_two_names_is_refused(tmp_path):
     with pytest.raises(SystemFileError) as err:
         load_system(_write(tmp_path, VALID + "\n" + copy))
     assert str(err.value) == "bad.toml: phase.fcc2: the same phase as fcc (every energy alike); give a phase once"
+
+
+def test_a_ternarys_covered_range_of_an_element_too_narrow_is_refused(tmp_path):
+    """Found by fuzzing: Ag-Cu-Sn with Cu covered over 1e-7 at% took two minutes per isothermal section."""
+    text = (SHIPPED / "ag-cu-sn.toml").read_text(encoding="utf-8")
+    old = "covers_at_percent = { Ag = [0, 5.5], Cu = [0, 3.7] }"
+    assert old in text
+    (tmp_path / "sac.toml").write_text(text.replace(old, old.replace("3.7", "1e-7")), encoding="utf-8")
+    with pytest.raises(SystemFileError) as err:
+        load_system(tmp_path / "sac.toml")
+    assert str(err.value).startswith("sac.toml: covers_at_percent.Cu: 0-1e-07 at% is too narrow a range"), str(err.value)
