@@ -51,6 +51,9 @@ GAP_DISTANCE = 0.08
 #: Separate low regions of a phase, far from its composition sets, given Newton steps toward the
 #: lowest driving force.
 FAR_STARTS = 3
+#: Points sampled on each side of a composition set along the line a split is sought on
+#: (`_split_about`).
+SPLIT_SAMPLES = 200
 #: Relative size of the neighbourhood added around refined points (see `_neighbourhood`).
 NEIGHBOURHOOD = 1e-2
 _ROUNDS = 8
@@ -352,28 +355,50 @@ def _exchange(states: list[PhaseState], entering: PhaseState, elements: np.ndarr
     return kept + [entering]
 
 
-def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray) -> list[PhaseState] | None:
-    """The state with its largest composition set of phase `ph` split in two: one at the site
-    fractions `y` (a point below the plane), the other at the set's mirror image beyond it,
-    y_s + t (y_s - y), t as large as 1 while every free fraction stays positive; the amounts
-    (t/(1+t) and 1/(1+t) of the set's) keep the mass balance. A start for Newton where a set
-    lies inside a miscibility gap's spinodal, from which a zero-amount second set is dropped
-    again. None where the phase has no set."""
+def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray, mu: np.ndarray,
+                 active: np.ndarray) -> list[PhaseState] | None:
+    """The state with its largest composition set of phase `ph` split in two along the line from
+    the set's site fractions y_s through `y` (a point below the plane mu next to it): the phase is
+    sampled densely along the line (SPLIT_SAMPLES each side, as far as every free site fraction
+    stays positive, at most 1 in the max norm) and the two points whose chord lies lowest over
+    y_s (the lower convex hull of the driving force along the line) are the new sets, their
+    amounts by the lever rule. A start for Newton where a set lies inside or next to a
+    miscibility gap's spinodal, from which a zero-amount second set is dropped again: near the
+    gap's critical point its sides lie far beyond the point next to the set, and on one side
+    only. None where the phase has no set or no chord lies below the set."""
     mine = [k for k, st in enumerate(states) if st.name == ph.name]
     if not mine:
         return None
     k = max(mine, key=lambda i: states[i].amount)
     st = states[k]
-    step = st.y - y
-    t = 1.0
-    falling = step[ph.free] < 0.0
-    if falling.any():
-        t = min(1.0, 0.9 * float(np.min(st.y[ph.free][falling] / -step[ph.free][falling])))
-    if t <= 1e-9:
+    free = ph.free
+    step = y - st.y
+    size = float(np.max(np.abs(step[free])))
+    if size <= 0.0:
         return None
-    mirror = _start_fractions(ph, st.y + t * step)
-    one = PhaseState(st.name, st.model, _start_fractions(ph, y), st.amount * t / (1.0 + t), st.free)
-    two = PhaseState(st.name, st.model, mirror, st.amount / (1.0 + t), st.free)
+    step = step / size
+
+    def reach(direction: np.ndarray) -> float:
+        falling = direction[free] < 0.0
+        room = float(np.min(st.y[free][falling] / -direction[free][falling])) if falling.any() else 1.0
+        return min(1.0, (1.0 - 1e-9) * room)
+
+    t = np.concatenate([-np.linspace(0.0, reach(-step), SPLIT_SAMPLES + 1)[:0:-1],
+                        np.linspace(0.0, reach(step), SPLIT_SAMPLES + 1)[1:]])
+    Y = np.clip(st.y + t[:, None] * step, 0.0, None)
+    moles = Y @ ph.model.element_matrix
+    atoms = moles.sum(axis=1)
+    with np.errstate(all="ignore"):
+        d = ph.model.gibbs(Y) / atoms - (moles[:, active] / atoms[:, None]) @ mu
+    left, right = t < 0.0, t > 0.0
+    ta, tb, da, db = t[left][:, None], t[right][None, :], d[left][:, None], d[right][None, :]
+    chord = (da * tb - db * ta) / (tb - ta)                     # each chord's height over y_s
+    if not np.isfinite(chord).any() or np.nanmin(chord) >= 0.0:
+        return None
+    a, b = np.unravel_index(np.nanargmin(chord), chord.shape)
+    t_a, t_b = float(t[left][a]), float(t[right][b])
+    one = PhaseState(st.name, st.model, _start_fractions(ph, Y[left][a]), st.amount * t_b / (t_b - t_a), st.free)
+    two = PhaseState(st.name, st.model, _start_fractions(ph, Y[right][b]), st.amount * -t_a / (t_b - t_a), st.free)
     return states[:k] + [one, two] + states[k + 1:]
 
 
@@ -591,7 +616,7 @@ class _Search:
                 continue
             if ok and len(states) < n_active:   # dropped again: split a set of that phase about its point
                 p, y, _df = min(found, key=lambda c: c[2])
-                split = _split_about(states, phases[p], y)
+                split = _split_about(states, phases[p], y, mu, active)
                 if split is not None:
                     solved, mu_split, ok_split = solve(split, za, mu, elements)
                     solved = _merge_duplicates(solved) if ok_split else []
