@@ -100,6 +100,8 @@ def parse_facts(items: Any, list_name: str, system, fail: Callable[[str, str], E
         source = item.get("source")
         if not isinstance(source, str) or not source.strip():
             raise fail(f"{key}.source", "missing: every fact names its source (handbook with edition, or paper)")
+        if not isinstance(item.get("note", ""), str):
+            raise fail(f"{key}.note", "expected a text")
         temps = [k for k in ("temperature_C", "temperature_K") if k in item]
         if len(temps) != 1:
             raise fail(key, "give the temperature once, as temperature_C or temperature_K")

@@ -203,6 +203,13 @@ def _constituent_list(r: "_Reader", value: Any, key: str) -> list[str]:
     return list(value)
 
 
+def _check_texts(r: "_Reader", table: dict, key: str) -> None:
+    """The free texts a phase, end member or interaction may carry (`notes`, `source`) are texts."""
+    for k in ("notes", "source"):
+        if k in table:
+            r.text(table[k], f"{key}.{k}")
+
+
 def _entries(r: "_Reader", value: Any, key: str, allowed: set[str], required: tuple[str, ...],
              missing: str) -> list[tuple[str, dict]]:
     """The tables of the list under `key` (a TOML array of tables) with their keys for messages,
@@ -215,6 +222,7 @@ def _entries(r: "_Reader", value: Any, key: str, allowed: set[str], required: tu
         k = f"{key}[{i}]"
         entry = r.table(entry, k)
         r.known_keys(entry, allowed, k)
+        _check_texts(r, entry, k)
         for req in required:
             if req not in entry:
                 raise r.fail(f"{k}.{req}", f"missing ({missing})")
@@ -385,6 +393,7 @@ def read_phases(r: "_Reader", library: "ElementLibrary", phase_table: dict, elem
     tables = {}
     for name, table in phase_table.items():
         table = r.table(table, f"phase.{name}")
+        _check_texts(r, table, f"phase.{name}")
         model = table.get("model")
         if model not in MODELS:
             raise r.fail(f"phase.{name}.model", f"unknown model {bounds.shown_value(model)}; expected one of {', '.join(repr(m) for m in MODELS)}")

@@ -73,6 +73,9 @@ CASES = [
     ("misspelt top-level key", "source =", "sourse =", "sourse", "unknown key"),
     ("one element only", 'elements = ["A", "B"]', 'elements = ["A"]', "elements", "two different element symbols"),
     ("same element twice", 'elements = ["A", "B"]', 'elements = ["A", "A"]', "elements", "two different element symbols"),
+    # found by fuzzing: read and ignored
+    ("phase notes not a text", 'model = "compound"', 'model = "compound"\nnotes = { a = 1 }', "phase.AB.notes",
+     "expected a non-empty text"),
     ("interactions not a list", "L = [ { a = 15000.0, b = -2.0 } ]", "L = 15000.0", "phase.fcc.L", "expected a list"),
     # TOML integers have no bound: one beyond the float range raised OverflowError (a traceback)
     ("integer beyond the float range", "a = 6000.0", "a = 1" + "0" * 400, "phase.fcc.G.B[0].a", "expected a number"),
@@ -126,6 +129,7 @@ FACT_CASES = [
      "check[0].tolerance_at", "at most 10 (a wider spread cannot fail)"),
     ("temperature beyond any file's", "temperature_C = 1e308\nat_percent = 30", "check[0].temperature_C",
      "beyond the 20000 K a file may name"),
+    ("note not a text", "temperature_C = 500\nat_percent = 30\nnote = true", "check[0].note", "expected a text"),
     ("phase a table", "temperature_C = 500\nat_percent = 30\nphase = {}\npartner = \"liquid\"", "check[0].phase",
      "expected a phase of this system"),
     ("partner a list", "temperature_C = 500\nat_percent = 30\nphase = \"fcc\"\npartner = [\"liquid\"]", "check[0].partner",
