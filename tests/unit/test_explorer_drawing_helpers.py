@@ -8,7 +8,7 @@ from ladle.engine import find_system
 from ladle.tui.explorer.cursor import Cursor
 from ladle.tui.explorer.energy_drawing import draw_energy, energy_scene
 from ladle.tui.explorer.exploration import Exploration
-from ladle.tui.explorer.plotting import (Frame, Label, inside_frame, joined, place_choices,
+from ladle.tui.explorer.plotting import (Frame, Label, clipped_to_frame, inside_frame, joined, place_choices,
                                          place_labels, round_ticks, thin_polyline)
 from ladle.tui.explorer.scales import Scales
 
@@ -127,3 +127,78 @@ def test_each_curves_name_takes_its_curves_colour():
     plt = _Recorder()
     draw_energy(plt, scene, UNICODE, colour=False)
     assert all(colour is None for _, colour in plt.texts)
+
+
+def _on_polyline(px: float, py: float, xs: list[float], ys: list[float]) -> bool:
+    """Whether the point lies on one of the polyline's segments (to 1e-9 of the frame's size)."""
+    for ax, ay, bx, by in zip(xs[:-1], ys[:-1], xs[1:], ys[1:]):
+        if np.isnan(ax) or np.isnan(bx):
+            continue
+        dx, dy = bx - ax, by - ay
+        length2 = dx * dx + dy * dy
+        u = 0.0 if length2 == 0.0 else min(max(((px - ax) * dx + (py - ay) * dy) / length2, 0.0), 1.0)
+        if np.hypot((ax + u * dx - px) / 100.0, (ay + u * dy - py) / 400.0) < 1e-9:
+            return True
+    return False
+
+
+def test_a_line_is_cut_at_the_frame_widened_by_a_cell_and_keeps_what_lies_inside():
+    # one cell is 2.5 across and 20 down; a segment from far off the left edge starts at -2.5
+    xs, ys = clipped_to_frame([-1e9, 50.0, 60.0], [200.0, 200.0, 300.0], FRAME)
+    assert xs == [-2.5, 50.0, 60.0] and ys == [200.0, 200.0, 300.0]
+    # leaving on the right and coming back: two pieces parted by a gap
+    xs, ys = clipped_to_frame([50.0, 1e6, 50.0], [100.0, 100.0, 300.0], FRAME)
+    assert len(xs) == 5 and np.isnan(xs[2]) and xs[:2] == [50.0, 102.5] and xs[3:] == [102.5, 50.0]
+    assert ys[:2] == [100.0, 100.0] and abs(ys[3] - 300.0) < 0.1 and ys[4] == 300.0
+    # wholly outside: nothing; wholly inside: the same points
+    assert clipped_to_frame([-50.0, -10.0], [500.0, 900.0], FRAME) == ([], [])
+    assert clipped_to_frame([10.0, 20.0], [30.0, 40.0], FRAME) == ([10.0, 20.0], [30.0, 40.0])
+
+
+def test_random_lines_keep_every_point_inside_the_widened_frame_and_nothing_outside():
+    rng = np.random.default_rng(4)
+    for _ in range(200):
+        x = rng.normal(50.0, 300.0, 12)
+        y = rng.normal(200.0, 1200.0, 12)
+        xs, ys = clipped_to_frame(x, y, FRAME)
+        shown = ~np.isnan(xs)
+        assert np.all((np.array(xs)[shown] >= -2.5 - 1e-9) & (np.array(xs)[shown] <= 102.5 + 1e-9))
+        assert np.all((np.array(ys)[shown] >= -20.0 - 1e-9) & (np.array(ys)[shown] <= 420.0 + 1e-9))
+        for i in range(len(x) - 1):
+            for u in np.linspace(0.0, 1.0, 11):
+                px, py = x[i] + u * (x[i + 1] - x[i]), y[i] + u * (y[i + 1] - y[i])
+                if -2.5 <= px <= 102.5 and -20.0 <= py <= 420.0:
+                    assert _on_polyline(px, py, xs, ys)
+
+
+def test_zooming_in_far_on_a_binary_draws_only_inside_the_window():
+    """Twelve zooms on Pb-Sn took 36 s and 660 MB to draw (plotext joins the points of a segment
+    reaching far beyond the window dot by dot), sixteen ran out of memory, and at about fifty the
+    window's floats collapsed to one value (a ZeroDivisionError)."""
+    import plotext as plt
+
+    from ladle.tui.explorer.cursor import SMALLEST_SPAN_K, SMALLEST_SPAN_X
+    from ladle.tui.explorer.diagram_drawing import diagram_scene, draw_diagram
+
+    exploration = Exploration(find_system("pb-sn"))
+    for _ in range(60):
+        exploration.zoom(True)
+    window = exploration.window
+    assert window.T_high - window.T_low >= SMALLEST_SPAN_K * (1 - 1e-9)
+    assert window.x_high - window.x_low >= SMALLEST_SPAN_X * (1 - 1e-9)
+    scene = diagram_scene(exploration, UNICODE, 80, 20)
+    plt.clear_figure()
+    plt.plotsize(80, 20)
+    plotted = []
+    original_plot = plt.plot
+    try:
+        plt.plot = lambda *args, **kwargs: (plotted.append(args), original_plot(*args, **kwargs))
+        draw_diagram(plt, scene, UNICODE)
+    finally:
+        plt.plot = original_plot
+    assert "(Pb)" in plt.build()
+    frame = scene.frame
+    cell_x = (frame.x_high - frame.x_low) / frame.columns
+    for xs, _ys in plotted:
+        shown = np.array(xs)[~np.isnan(xs)]
+        assert np.all((shown >= frame.x_low - cell_x * 1.000001) & (shown <= frame.x_high + cell_x * 1.000001))

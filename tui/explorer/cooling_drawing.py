@@ -16,7 +16,7 @@ from ladle.tui.cooling_text import PATH_NAMES
 
 from .diagram_drawing import plot_area
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, plot_within, thin_polyline
 from .readout import format_temperature_value
 from .scales import Scales
 
@@ -121,8 +121,8 @@ def draw_cooling(plt, scene: CoolingScene, glyphs: Glyphs) -> None:
             (scene.equilibrium, glyphs.boundary_marker, EQUILIBRIUM_COLOUR, PATH_NAMES["equilibrium"]),
             (scene.scheil, glyphs.envelope_marker, SCHEIL_COLOUR, PATH_NAMES["scheil"]),
             (scene.shared, glyphs.invariant_marker, SHARED_COLOUR, SHARED_NAME)):
-        if curve[0]:   # plotext cannot draw the legend of an empty series
-            plt.plot(*curve, marker=marker, color=colour, label=name)
+        # nothing where the series is empty: plotext cannot draw the legend of an empty series
+        plot_within(plt, frame, *curve, marker=marker, color=colour, label=name)
     for x, T in scene.ends:
         plt.scatter([x], [T], marker=glyphs.cursor_marker, color=END_COLOUR)
     for label in scene.labels:

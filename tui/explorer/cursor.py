@@ -16,6 +16,10 @@ TEMPERATURE_STEPS_PER_SPAN = 30   # a coarse temperature step is about 1/30 of t
 COMPOSITION_STEPS_PER_SPAN = 50   # a coarse composition step is about 1/50 of the window
 FINE = 10                         # a fine step is a tenth of a coarse one
 ZOOM_FACTOR = 2.0
+#: The narrowest window zooming in reaches (K; mole fraction, or the isopleth's parameter): finer
+#: is below anything a model means, and the window's floats would collapse to one value.
+SMALLEST_SPAN_K = 1e-3
+SMALLEST_SPAN_X = 1e-7
 
 
 @dataclass(frozen=True)
@@ -37,8 +41,8 @@ class Window:
 
     def zoomed(self, factor: float, T_K: float, x_B: float, limits: "Window") -> "Window":
         """This window scaled by `factor` (below 1 zooms in) about the point, kept in limits."""
-        return Window(*_scaled(self.T_low, self.T_high, T_K, factor, limits.T_low, limits.T_high),
-                      *_scaled(self.x_low, self.x_high, x_B, factor, limits.x_low, limits.x_high))
+        return Window(*_scaled(self.T_low, self.T_high, T_K, factor, limits.T_low, limits.T_high, SMALLEST_SPAN_K),
+                      *_scaled(self.x_low, self.x_high, x_B, factor, limits.x_low, limits.x_high, SMALLEST_SPAN_X))
 
     def following(self, T_K: float, x_B: float) -> "Window":
         """This window, shifted (not resized) just enough to contain the point."""
@@ -48,8 +52,8 @@ class Window:
 
 
 def _scaled(low: float, high: float, centre: float, factor: float,
-            lowest: float, highest: float) -> tuple[float, float]:
-    span = min((high - low) * factor, highest - lowest)
+            lowest: float, highest: float, smallest: float) -> tuple[float, float]:
+    span = min(max((high - low) * factor, smallest), highest - lowest)
     new_low = min(max(centre - span / 2.0, lowest), highest - span)
     return new_low, new_low + span
 

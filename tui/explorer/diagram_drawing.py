@@ -15,7 +15,7 @@ from ladle.tui.phase_names import short_label
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, plot_within, thin_polyline
 from .readout import format_temperature_value
 
 BOUNDARY_COLOUR = "cyan"
@@ -102,15 +102,13 @@ def draw_diagram(plt, scene: DiagramScene, glyphs: Glyphs) -> None:
     """Issue the plot calls: boundaries, invariant lines, labels (the explorer writes the
     cursor over the built picture)."""
     draw_frame(plt, scene.frame, scene.x_title, scene.y_title)
-    draw_lines_and_labels(plt, scene.boundaries, scene.invariants, scene.labels, glyphs)
+    draw_lines_and_labels(plt, scene.frame, scene.boundaries, scene.invariants, scene.labels, glyphs)
 
 
-def draw_lines_and_labels(plt, boundaries, invariants, labels, glyphs: Glyphs) -> None:
+def draw_lines_and_labels(plt, frame: Frame, boundaries, invariants, labels, glyphs: Glyphs) -> None:
     """Issue the plot calls of a drawing's boundaries and invariant lines ((x, y) arrays with NaN
-    gaps; empty where there are none) and its placed labels."""
-    if len(boundaries[0]):
-        plt.plot(*boundaries, marker=glyphs.boundary_marker, color=BOUNDARY_COLOUR)
-    if len(invariants[0]):
-        plt.plot(*invariants, marker=glyphs.invariant_marker, color=INVARIANT_COLOUR)
+    gaps; empty where there are none), cut at the frame, and its placed labels."""
+    plot_within(plt, frame, *boundaries, marker=glyphs.boundary_marker, color=BOUNDARY_COLOUR)
+    plot_within(plt, frame, *invariants, marker=glyphs.invariant_marker, color=INVARIANT_COLOUR)
     for label in labels:
         plt.text(label.text, label.x, label.y, alignment="center")

@@ -15,7 +15,7 @@ import numpy as np
 
 from .exploration import Exploration
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, inside_frame, joined, place_choices, thin_polyline
+from .plotting import Frame, Label, draw_frame, inside_frame, joined, place_choices, plot_within, thin_polyline
 from .diagram_drawing import plot_area
 
 ENVELOPE_POINTS = 120        # envelope samples across the window (drawn: one per cell)
@@ -110,16 +110,15 @@ def draw_energy(plt, scene: EnergyScene, glyphs: Glyphs, colour: bool = True) ->
     draw_frame(plt, frame, scene.x_title)
     for index, (name, xs, ys) in enumerate(scene.curves):
         if colour:
-            plt.plot(xs, ys, marker=glyphs.boundary_marker,
-                     color=CURVE_COLOURS[index % len(CURVE_COLOURS)])
+            plot_within(plt, frame, xs, ys, marker=glyphs.boundary_marker,
+                        color=CURVE_COLOURS[index % len(CURVE_COLOURS)])
         else:
-            plt.plot(xs, ys, marker=PLAIN_CURVE_MARKERS[index % len(PLAIN_CURVE_MARKERS)],
-                     label=name)
-    plt.plot(*scene.envelope, marker=glyphs.envelope_marker, color=ENVELOPE_COLOUR,
-             label=ENVELOPE_LABEL)
-    if scene.tangents[0]:
-        plt.plot(*scene.tangents, marker=glyphs.invariant_marker, color=TANGENT_COLOUR,
-                 label=TANGENT_LABEL)
+            plot_within(plt, frame, xs, ys, marker=PLAIN_CURVE_MARKERS[index % len(PLAIN_CURVE_MARKERS)],
+                        label=name)
+    plot_within(plt, frame, *scene.envelope, marker=glyphs.envelope_marker, color=ENVELOPE_COLOUR,
+                label=ENVELOPE_LABEL)
+    plot_within(plt, frame, *scene.tangents, marker=glyphs.invariant_marker, color=TANGENT_COLOUR,
+                label=TANGENT_LABEL)
     for _, x, y in scene.points:
         plt.scatter([x], [y], marker=glyphs.cursor_marker)
     curve_colour = {name: CURVE_COLOURS[i % len(CURVE_COLOURS)] for i, (name, _, _) in enumerate(scene.curves)}

@@ -53,6 +53,56 @@ def thin_polyline(x: np.ndarray, y: np.ndarray, frame: Frame,
     return x[keep], y[keep]
 
 
+def clipped_to_frame(x: Sequence[float] | np.ndarray, y: Sequence[float] | np.ndarray,
+                     frame: Frame) -> tuple[list[float], list[float]]:
+    """The polyline (x, y; NaN gaps allowed) cut where it leaves the frame widened by one
+    character cell each side (Liang-Barsky clipping of every segment): plotext joins neighbouring
+    points dot by dot on the screen, so a segment reaching far beyond a zoomed-in window costs
+    time and memory in proportion to its length there (twelve zooms on Pb-Sn took 36 s and
+    660 MB to draw, sixteen ran out of memory). What lies inside is unchanged; where the line
+    leaves and comes back, a NaN gap parts the pieces."""
+    p = np.column_stack([np.asarray(x, dtype=float), np.asarray(y, dtype=float)])
+    cell = np.array([(frame.x_high - frame.x_low) / max(frame.columns, 1),
+                     (frame.y_high - frame.y_low) / max(frame.rows, 1)])
+    low = np.array([frame.x_low, frame.y_low]) - cell
+    high = np.array([frame.x_high, frame.y_high]) + cell
+    gap = np.isnan(p).any(axis=1)
+    if not (~gap & ((p < low) | (p > high)).any(axis=1)).any():
+        return p[:, 0].tolist(), p[:, 1].tolist()
+    a, d = p[:-1], p[1:] - p[:-1]
+    t0, t1 = np.zeros(len(d)), np.ones(len(d))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        for axis in (0, 1):
+            for bound, sign in ((low[axis], -1.0), (high[axis], 1.0)):
+                room = sign * (bound - a[:, axis])       # how far inside this bound the start lies
+                rate = sign * d[:, axis]
+                t = room / rate
+                t0 = np.where(rate < 0.0, np.maximum(t0, t), t0)
+                t1 = np.where(rate > 0.0, np.minimum(t1, t), t1)
+                t1 = np.where((rate == 0.0) & (room < 0.0), -1.0, t1)   # beside the bound, outside it
+    k = np.flatnonzero(~(gap[:-1] | gap[1:]) & (t0 <= t1))
+    if not len(k):
+        return [], []
+    starts = np.clip(a[k] + t0[k, None] * d[k], low, high)
+    ends = np.clip(a[k] + t1[k, None] * d[k], low, high)
+    continued = np.zeros(len(k), dtype=bool)     # a segment that goes on from the one before it
+    continued[1:] = (k[1:] == k[:-1] + 1) & (t1[k[:-1]] == 1.0) & (t0[k[1:]] == 0.0)
+    rows = np.stack([np.full_like(starts, np.nan), starts, ends], axis=1)
+    keep = np.column_stack([~continued, ~continued, np.ones(len(k), dtype=bool)])
+    keep[0, 0] = False
+    out = rows[keep]
+    return out[:, 0].tolist(), out[:, 1].tolist()
+
+
+def plot_within(plt, frame: Frame, x: Sequence[float] | np.ndarray, y: Sequence[float] | np.ndarray,
+                **style) -> None:
+    """plt.plot of the polyline's part inside the frame (`clipped_to_frame`); nothing where no
+    part is."""
+    xs, ys = clipped_to_frame(x, y, frame)
+    if xs:
+        plt.plot(xs, ys, **style)
+
+
 def joined(curves: Iterable[tuple[np.ndarray, np.ndarray]]) -> tuple[list[float], list[float]]:
     """Many curves as one series with NaN gaps between them (one plot call draws them all)."""
     xs: list[float] = []

@@ -24,7 +24,7 @@ from ladle.engine.units import kelvin_to
 
 from .diagram_drawing import draw_lines_and_labels, plot_area
 from .glyphs import Glyphs
-from .plotting import Frame, Label, draw_frame, joined, place_labels, thin_polyline
+from .plotting import Frame, Label, draw_frame, joined, place_labels, plot_within, thin_polyline
 
 TIE_LINE_COLOUR = "green"
 _SQRT3_2 = float(np.sqrt(3.0) / 2.0)
@@ -258,6 +258,5 @@ def draw_section(plt, scene: SectionScene, glyphs: Glyphs) -> None:
         plt.xlabel(scene.x_title)
     else:
         draw_frame(plt, frame, scene.x_title, scene.y_title)
-    if scene.thin[0]:
-        plt.plot(*scene.thin, marker=glyphs.crosshair_marker, color=TIE_LINE_COLOUR)
-    draw_lines_and_labels(plt, scene.boundaries, scene.invariants, scene.labels, glyphs)
+    plot_within(plt, frame, *scene.thin, marker=glyphs.crosshair_marker, color=TIE_LINE_COLOUR)
+    draw_lines_and_labels(plt, frame, scene.boundaries, scene.invariants, scene.labels, glyphs)

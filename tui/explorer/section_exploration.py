@@ -34,6 +34,7 @@ from ladle.tui.phase_names import constituent_trade_name, equilibrium_labels
 from ladle.tui.quote import percent
 
 from .alloy_changes import AlloyChanges, alloy_changes, shows_changes
+from .cursor import SMALLEST_SPAN_K, SMALLEST_SPAN_X, ZOOM_FACTOR
 from .entry import TypedPoint
 from .readout import format_temperature_value
 from .saved_state import SavedState
@@ -49,8 +50,6 @@ OPENING_SHARE = 0.05
 #: Arrow keys move the cursor by this share of the window shown (along the section and in
 #: temperature).
 STEP_SHARE = 1.0 / 50.0
-#: Each zoom step halves (or doubles) the window shown about the cursor.
-ZOOM_FACTOR = 2.0
 #: Columns of composition of a binary's whole diagram (as `ladle diagram` maps it: a whole
 #: diagram spans the file's range, wider than a section through one alloy).
 WHOLE_BINARY_COLUMNS = 33
@@ -359,13 +358,14 @@ class SectionExploration:
         factor = 1.0 / ZOOM_FACTOR if zoom_in else ZOOM_FACTOR
         w, c = self.window, self.cursor
 
-        def scaled(low: float, high: float, at: float, bottom: float, top: float) -> tuple[float, float]:
-            span = min((high - low) * factor, top - bottom)
+        def scaled(low: float, high: float, at: float, bottom: float, top: float,
+                   smallest: float) -> tuple[float, float]:
+            span = min(max((high - low) * factor, smallest), top - bottom)
             low = min(max(at - (at - low) * factor, bottom), top - span)
             return low, low + span
 
-        u_low, u_high = scaled(w.u_low, w.u_high, c.u, 0.0, 1.0)
-        T_low, T_high = scaled(w.T_low, w.T_high, c.temperature_K, self.T_low, self.T_high)
+        u_low, u_high = scaled(w.u_low, w.u_high, c.u, 0.0, 1.0, SMALLEST_SPAN_X)
+        T_low, T_high = scaled(w.T_low, w.T_high, c.temperature_K, self.T_low, self.T_high, SMALLEST_SPAN_K)
         self.window = SectionWindow(u_low, u_high, T_low, T_high)
 
     def reset_zoom(self) -> None:
