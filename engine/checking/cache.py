@@ -56,12 +56,18 @@ def _cache_file(system) -> Path | None:
         return None
 
 
-def _read(path: Path) -> tuple[int, int] | None:
+def _read(path: Path, total: int) -> tuple[int, int] | None:
+    """The remembered (passed, total) of a system with `total` independent checks, or None where
+    the file is missing, unreadable or damaged (not a JSON object of two whole counts, passed
+    between 0 and total): the counts are then measured afresh."""
     try:
         data = json.loads(path.read_text(encoding="utf-8"))
-        return int(data["passed"]), int(data["total"])
-    except (OSError, ValueError, KeyError, TypeError):
+        passed, found = data["passed"], data["total"]
+    except (OSError, ValueError, KeyError, TypeError, RecursionError):
         return None
+    if type(passed) is not int or found != total or type(found) is not int or not 0 <= passed <= total:
+        return None
+    return passed, total
 
 
 def check_counts(system) -> tuple[int, int]:
@@ -71,7 +77,7 @@ def check_counts(system) -> tuple[int, int]:
     if not checks:
         return 0, 0
     path = _cache_file(system)
-    counts = _read(path) if path is not None else None
+    counts = _read(path, len(checks)) if path is not None else None
     if counts is None:
         outcomes = evaluate_all(system, checks)
         counts = sum(o.passed for o in outcomes), len(outcomes)

@@ -99,3 +99,17 @@ def test_a_change_to_a_file_built_on_is_evaluated_again(tmp_path, cache_home, mo
     binary.write_text(binary.read_text(encoding="utf-8") + "\n# a changed binary\n", encoding="utf-8")
     measure_cache.check_counts(load_system(ternary))
     assert len(evaluated) == 2
+
+
+@pytest.mark.parametrize("damage", ['{"passed": Infinity, "total": 2}', '{"passed": 5, "total": 2}',
+                                    '{"passed": -1, "total": 2}', '{"passed": 1, "total": 7}',
+                                    '{"passed": 1.5, "total": 2}', '{"passed": true, "total": 2}',
+                                    "[" * 100_000 + "]" * 100_000, "\x00\xff"])
+def test_a_damaged_cache_file_is_measured_afresh(tmp_path, cache_home, damage):
+    """Found by fuzzing: Infinity ended `ladle systems` in an OverflowError, deep nesting in a
+    RecursionError, and a count of passes above the total was shown as read."""
+    system = load_system(write(tmp_path, ideal_text(CHECKS)))
+    assert measure_cache.check_counts(system) == (1, 2)
+    (remembered,) = cache_home.glob("*.json")
+    remembered.write_text(damage, encoding="utf-8", errors="surrogateescape")
+    assert measure_cache.check_counts(system) == (1, 2)
