@@ -82,7 +82,7 @@ def require_liquid(system) -> None:
     --without, or a file of solids only): there is nothing to melt or freeze."""
     if "liquid" not in system.phases:
         raise CommandError(f"{system.name} has no liquid phase here (its phases: {', '.join(system.phases)}); "
-                           f"melting and freezing need one: do not leave it out")
+                           f"melting and freezing need one (if --without left it out, keep it)")
 
 
 def read_alloy(system, specs: str | list[str]):
