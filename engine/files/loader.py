@@ -228,9 +228,9 @@ def load_system(path: Path | str, library: ElementLibrary | None = None, name: s
         lo, hi = (r.number(v, "covers_at_percent") for v in c)
         if not 0 <= lo < hi <= 100:
             raise r.fail("covers_at_percent", "expected 0 <= from < to <= 100 (at%)")
-        if hi - lo < limits.MIN_COVERED_AT_PERCENT:
+        if hi - lo < limits.MIN_ELEMENT_RANGE_AT_PERCENT:
             raise r.fail("covers_at_percent", f"{lo:g}-{hi:g} at% is too narrow a range; expected one of at least "
-                         f"{limits.MIN_COVERED_AT_PERCENT:g} at%")
+                         f"{limits.MIN_ELEMENT_RANGE_AT_PERCENT:g} at%")
         covers = (lo / 100.0, hi / 100.0)
     covers_K = (0.0, float("inf"))
     if "covers_K" in doc:

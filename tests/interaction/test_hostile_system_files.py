@@ -151,3 +151,15 @@ def test_fuzzed_files_are_one_line_and_status_2(tmp_path, what, old, new, words)
     run = _ladle("diagram", str(path), env={"XDG_CACHE_HOME": str(tmp_path / "cache")})
     assert run.returncode == 2 and run.stderr.count("\n") == 1, run.stderr[-2000:]
     assert run.stderr.startswith("ladle diagram: mutant.toml: ") and words in run.stderr, run.stderr
+
+
+def test_a_file_covering_a_hundredth_of_an_at_percent_draws_its_diagram(tmp_path):
+    """A two-element file may cover as little as 0.01 at% (a dilute range): its diagram is drawn,
+    cut at the window (before lines were cut, plotext joined the points of every segment reaching
+    far beyond such a window dot by dot: 46 s for a 0.1 at% range)."""
+    text = (SHIPPED / "pb-sn.toml").read_text(encoding="utf-8")
+    path = tmp_path / "pb-sn-dilute.toml"
+    path.write_text(text.replace('title = "', 'covers_at_percent = [0, 0.01]\ntitle = "', 1), encoding="utf-8")
+    done = _ladle("diagram", str(path), env={"XDG_CACHE_HOME": str(tmp_path / "cache")})
+    assert done.returncode == 0, done.stderr
+    assert "covers 0-0.01 at% Sn only" in done.stdout
