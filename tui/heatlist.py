@@ -262,16 +262,43 @@ def blocks(path: Path, offset: int, line: int, size: int, block_bytes: int = 1 <
             while offset < size:
                 data = carry + f.read(max(0, min(block_bytes, size - offset - len(carry))))
                 cut = _row_end(data, at_end=offset + len(data) >= size)
-                while cut is None:
-                    more = f.read(max(0, min(block_bytes, size - offset - len(data))))
-                    data += more
-                    cut = _row_end(data, at_end=offset + len(data) >= size or not more)
+                if cut is None:
+                    data, cut = _long_row(f, data, block_bytes, size - offset)
                 block, carry = data[:cut], data[cut:]
                 after = line + line_count(block)
                 yield Block(offset + len(block), line, after, block)
                 offset, line = offset + len(block), after
     except OSError as e:
         raise _open_error(path, e) from None
+
+
+_LINE_END = re.compile(rb"[\r\n]")
+
+
+def _long_row(f, data: bytes, block_bytes: int, left: int) -> tuple[bytes, int]:
+    """(data, cut) where `data`, the start of the `left` bytes still to read from `f`, holds no
+    whole row: `block_bytes` more are read at a time until a row ends, as `_row_end` would find,
+    but only the new bytes are searched each time, so that a row of any length costs time in
+    proportion to it (searching all of it again after every read took quadratic time)."""
+    data = bytearray(data)
+    searched, quotes = 0, 0                  # positions before `searched` end no row; quotes before it
+    while True:
+        more = f.read(max(0, min(block_bytes, left - len(data))))
+        data += more
+        if len(data) >= left or not more:
+            return bytes(data), len(data)
+        found = False
+        for m in _LINE_END.finditer(data, searched, len(data) - 1):     # the last byte: a CR whose LF may follow
+            i = m.start()
+            quotes += data.count(b'"', searched, i + 1)
+            searched = i + 1
+            if not quotes % 2 and data[i:i + 2] != b"\r\n":
+                found = True
+                break
+        if found:
+            return bytes(data), _row_end(data, at_end=False)
+        quotes += data.count(b'"', searched, len(data) - 1)
+        searched = len(data) - 1
 
 
 def _row_end(data: bytes, at_end: bool) -> int | None:
@@ -281,11 +308,13 @@ def _row_end(data: bytes, at_end: bool) -> int | None:
     if at_end:
         return len(data)
     end = len(data) - 1                      # the last byte may be a CR whose LF is still to come
+    quotes = data.count(b'"', 0, end)        # quotes before `end`, kept up to date as `end` moves back
     while True:
         i = max(data.rfind(b"\n", 0, end), data.rfind(b"\r", 0, end))
         if i < 0:
             return None
-        if not (data[i:i + 2] == b"\r\n") and not data.count(b'"', 0, i + 1) % 2:
+        quotes -= data.count(b'"', i + 1, end)
+        if not (data[i:i + 2] == b"\r\n") and not quotes % 2:
             return i + 1
         end = i
 

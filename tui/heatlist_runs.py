@@ -478,9 +478,14 @@ def _resumed(plan: Plan, out, state_file: Path, note: Callable[[str], None]):
     partial file cut back to what the state records."""
     try:
         with open_regular(state_file) as f:
-            state = json.loads(f.read().decode("utf-8"))
-    except (OSError, ValueError):
+            text = f.read()
+    except OSError:
         raise CommandError(f"--resume: no readable state of an interrupted run beside {quoted_path(plan.output)}; "
+                           f"run without --resume") from None
+    try:
+        state = json.loads(text.decode("utf-8"))
+    except (ValueError, RecursionError):            # not JSON, or nested deeper than the parser goes
+        raise CommandError(f"--resume: {quoted_path(state_file)} is damaged (not the JSON a run writes); "
                            f"run without --resume") from None
     try:
         totals, offset, line, written = _checked_state(state, plan)
