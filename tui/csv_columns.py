@@ -94,10 +94,32 @@ def may_hold_formulas(text: str, delimiter: str) -> bool:
                                                for start in _FORMULA_STARTS)
 
 
+def holds_controls(text: str, delimiter: str) -> bool:
+    """Whether CSV `text` holds a control character other than its line feeds and separator."""
+    from ladle.engine.files.plain_text import has_controls
+
+    return has_controls(text.replace("\n", "").replace(delimiter, ""))
+
+
+def _escaped(cell: str) -> str:
+    """`cell` with its control characters (escape sequences, CR, tab, ...; a quoted cell's line
+    feed aside) written as backslash escapes, as ladle's messages show text from a file."""
+    from ladle.engine.files.plain_text import has_controls
+
+    return "".join(repr(ch)[1:-1] if ch != "\n" and has_controls(ch) else ch for ch in cell)
+
+
 def neutralised(cells: np.ndarray, quote: bool, delimiter: str) -> np.ndarray:
-    """Text cells ready to write: a cell a spreadsheet would evaluate as a formula (starting
-    with = + - @ or a tab, unless a plain number) gets a leading apostrophe; with `quote`,
-    cells holding the separator, a quote or a line break are quoted as CSV quotes them."""
+    """Text cells ready to write: control characters escaped (`\\x1b`, `\\r`), so that no
+    file can drive the terminal the results are shown on; a cell a spreadsheet would evaluate
+    as a formula (starting with = + - @ or a tab, unless a plain number) gets a leading
+    apostrophe; with `quote`, cells holding the separator, a quote or a line break are quoted
+    as CSV quotes them."""
+    if holds_controls(delimiter.join(cells.tolist()), delimiter):
+        cells = cells.copy()
+        for k in range(cells.size):
+            if holds_controls(str(cells[k]), delimiter):
+                cells[k] = _escaped(str(cells[k]))
     risky = np.zeros(cells.shape, dtype=bool)
     for start in _FORMULA_STARTS:
         risky |= np.strings.startswith(cells, start)

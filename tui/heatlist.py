@@ -27,7 +27,7 @@ from typing import NamedTuple
 
 from ladle.engine.files.regular_files import NotARegularFile, open_regular
 
-from .csv_columns import may_hold_formulas
+from .csv_columns import holds_controls, may_hold_formulas
 from .errors import CommandError
 from .quote import one_line, quoted_path
 
@@ -325,7 +325,7 @@ class Rows:
     starts on, its cells (the header's number of them, padded), its number of cells, the
     composition cells stripped (`raws`, one array per composition column), whether the block
     holds quotes, each row's text where it has none (else None), and whether a cell might start
-    a formula."""
+    a formula or hold a control character (either is rewritten before it is written back)."""
 
     lines: "object"
     cells: list
@@ -388,7 +388,8 @@ def parse_block(layout: Layout, first_line: int, data: bytes) -> Rows:
     quoted = '"' in text
     if quoted:
         raws = [np.strings.strip(cells[c]) for c in layout.columns]
-    return Rows(lines, cells, counts, raws, quoted, rest, quoted or may_hold_formulas(text, layout.delimiter))
+    return Rows(lines, cells, counts, raws, quoted, rest,
+                quoted or may_hold_formulas(text, layout.delimiter) or holds_controls(text, layout.delimiter))
 
 
 def percentages(layout: Layout, rows: Rows) -> tuple["object", "object"]:

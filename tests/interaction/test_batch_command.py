@@ -141,7 +141,8 @@ def test_an_undecodable_file_names_the_encoding_option(tmp_path, capsys):
     assert err.count("\n") == 1 and "--encoding" in err
     out = tmp_path / "out.csv"
     assert main(["batch", "al-si", str(path), "--encoding", "latin-1", "-o", str(out)]) == 0
-    assert out.read_bytes().splitlines()[1].startswith(b"H\x81\xc3,7,")
+    # latin-1 reads 0x81 as U+0081, a control character: written escaped; 0xc3 ('Ã') as it was
+    assert out.read_bytes().splitlines()[1].startswith(b"H\\x81\xc3,7,")
 
 
 def test_blank_and_repeated_identifiers_are_warned_about_and_kept(tmp_path, capsys):
@@ -376,3 +377,18 @@ def test_ternary_headers_that_do_not_make_an_alloy(ideal_ternary, tmp_path, caps
     assert e.value.code == 2
     err = capsys.readouterr().err
     assert message in err and err.count("\n") == 1
+
+
+def test_control_characters_from_the_file_never_reach_the_terminal(tmp_path, capsys):
+    # found by fuzzing: an identifier's escape sequences were written to stdout as they were
+    path = tmp_path / "h.csv"
+    path.write_bytes(b'heat,furnace,Si wt%\n\x1b]0;pwn\x07\x1b[2J id,F1,7.05\n"B\tx",F\xc2\x9b2,7\n')  # U+009B, a C1 control in UTF-8
+    out = tmp_path / "out.csv"
+    for argv in ([], ["-o", str(out)]):
+        assert main(["batch", "al-si", str(path), "--melt-only", *argv]) == 0
+        captured = capsys.readouterr()
+        text = out.read_text() if argv else captured.out
+        assert not any(ord(ch) < 32 and ch != "\n" or 0x7f <= ord(ch) <= 0x9f for ch in text + captured.err)
+        rows = _rows(text)
+        assert [r["heat"] for r in rows] == [r"\x1b]0;pwn\x07\x1b[2J id", r"B\tx"]
+        assert rows[1]["furnace"] == r"F\x9b2" and float(rows[0]["liquidus_C"]) > 600
