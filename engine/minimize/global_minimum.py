@@ -555,6 +555,7 @@ class _Search:
         tol = DRIVING_FORCE_TOLERANCE * max(1.0, 1e-4 * scale)
         added_to = None                         # the number of phases a zero-amount phase was added to
         exchanged = False                       # whether this round's states come from an exchange step
+        best: tuple[float, list[PhaseState], np.ndarray] | None = None    # the lowest state seen
         for _ in range(_ROUNDS):
             if refined:
                 ok, refined = True, False
@@ -568,6 +569,7 @@ class _Search:
             converged = ok and not found
             if not found:
                 break
+            best = _lower(best, states, mu)
             if ok and len(states) >= n_active and not exchanged:
                 # no room: the lowest point enters by one exact exchange step (a phase just below
                 # the plane, within the linear program's tolerance, at a temperature next to an
@@ -614,7 +616,23 @@ class _Search:
             restart = np.array(state_columns) if good and len(state_columns) == n_active else None
             lp.add(np.array(add_X), np.array(add_G), restart)
             states, mu, good = _start_states(lp, cloud, active), lp.mu, False
+        if not converged:
+            # the rounds ran out: the lowest state they reached, not the last one (Fe-C-Si at
+            # 1013 K went round bcc + graphite, fcc alone and bcc alone, and ended on fcc alone,
+            # 222 J/mol above bcc + graphite)
+            _g, states, mu = _lower(best, states, mu)
         return states, mu, converged
+
+
+def _lower(best: tuple[float, list[PhaseState], np.ndarray] | None, states: list[PhaseState],
+           mu: np.ndarray) -> tuple[float, list[PhaseState], np.ndarray]:
+    """`best` (G in J per mole of alloy atoms, states, mu) or `states` with `mu` (copied), whichever
+    has the lower G = sum of the phases' amounts times their G: every state the rounds hold keeps
+    the mass balance, so each is one the alloy can take."""
+    g = float(sum(st.amount * float(st.model.gibbs(st.y)) for st in states))
+    if best is not None and not g < best[0]:
+        return best
+    return g, [PhaseState(st.name, st.model, st.y.copy(), st.amount, st.free) for st in states], mu.copy()
 
 
 def _from_nearby(near, phases: list[_Phase], z: np.ndarray, active: np.ndarray,
