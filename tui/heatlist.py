@@ -325,7 +325,8 @@ class Rows:
     starts on, its cells (the header's number of them, padded), its number of cells, the
     composition cells stripped (`raws`, one array per composition column), whether the block
     holds quotes, each row's text where it has none (else None), and whether a cell might start
-    a formula or hold a control character (either is rewritten before it is written back)."""
+    a formula or hold a control character (either is rewritten before it is written back), and
+    the line of a row whose quoted cell is never closed (it runs to the end of the file), or 0."""
 
     lines: "object"
     cells: list
@@ -334,6 +335,10 @@ class Rows:
     quoted: bool
     text: "object | None"
     formulas: bool
+    unclosed_line: int = 0
+
+    #: The reason given for the row where a quote opens a cell that the file never closes.
+    UNCLOSED = "a quote opens a cell on this line that is never closed: the rest of the file was read into it"
 
     @property
     def count(self) -> int:
@@ -360,10 +365,13 @@ def parse_block(layout: Layout, first_line: int, data: bytes) -> Rows:
         keep = np.array([any(c.strip() for c in r) and not r[0].lstrip().startswith("#") for r in rows], dtype=bool)
         rows = [r for r, k in zip(rows, keep) if k]
         cells = [np.array([r[i] if i < len(r) else "" for r in rows], dtype=text_dtype) for i in range(width)]
+        unclosed = starts[-1] if starts and _never_closed("\n".join(text.split("\n")[starts[-1] - first_line:]),
+                                                        layout.delimiter) else 0
         lines = np.array(starts, dtype=np.int64)[keep]
         counts = counts[keep]
         rest = None
     else:
+        unclosed = 0
         lines_text = text.split("\n")
         if lines_text and lines_text[-1] == "":
             lines_text.pop()
@@ -389,7 +397,17 @@ def parse_block(layout: Layout, first_line: int, data: bytes) -> Rows:
     if quoted:
         raws = [np.strings.strip(cells[c]) for c in layout.columns]
     return Rows(lines, cells, counts, raws, quoted, rest,
-                quoted or may_hold_formulas(text, layout.delimiter) or holds_controls(text, layout.delimiter))
+                quoted or may_hold_formulas(text, layout.delimiter) or holds_controls(text, layout.delimiter), unclosed)
+
+
+def _never_closed(row: str, delimiter: str) -> bool:
+    """Whether the CSV `row` (the last of a block, to its end) opens a quoted cell it never closes."""
+    try:
+        for _ in csv.reader(io.StringIO(row, newline=""), delimiter=delimiter, strict=True):
+            pass
+    except csv.Error as e:
+        return "unexpected end of data" in str(e)
+    return False
 
 
 def percentages(layout: Layout, rows: Rows) -> tuple["object", "object"]:
@@ -419,6 +437,8 @@ def percentages(layout: Layout, rows: Rows) -> tuple["object", "object"]:
             reason[k] = f"{' + '.join(layout.labels)} = {total[k]:g} %, over 100 %"
     for k in np.flatnonzero(rows.counts > len(layout.header)):
         reason[k] = f"{rows.counts[k]} values but the header has {len(layout.header)} columns"
+    if rows.unclosed_line:
+        reason[rows.lines == rows.unclosed_line] = Rows.UNCLOSED
     percent[reason != ""] = np.nan
     return percent, reason
 

@@ -392,3 +392,15 @@ def test_control_characters_from_the_file_never_reach_the_terminal(tmp_path, cap
         rows = _rows(text)
         assert [r["heat"] for r in rows] == [r"\x1b]0;pwn\x07\x1b[2J id", r"B\tx"]
         assert rows[1]["furnace"] == r"F\x9b2" and float(rows[0]["liquidus_C"]) > 600
+
+
+def test_a_quote_never_closed_is_named_by_its_line(tmp_path, capsys):
+    # found by fuzzing: the rows after an open quote vanished into one identifier, and the
+    # message spoke of a missing value four lines further down
+    path = tmp_path / "h.csv"
+    path.write_text('heat,furnace,Si wt%\nD-2400,F1,7\n"D-2401,F1,7.05\nD-2402,F2,7\nD-2403,F2,7\n')
+    assert main(["batch", "al-si", str(path), "--melt-only"]) == 1
+    captured = capsys.readouterr()
+    assert "1 of 2 heats computed" in captured.err
+    assert "line 3: a quote opens a cell on this line that is never closed" in captured.err
+    assert "no Si wt% value" not in captured.err + captured.out
