@@ -51,8 +51,8 @@ def exploration_for(system, scales: Scales | None = None, cursor: Cursor | None 
 
 def first_exploration(asked: str | None, saved: SavedState | None) -> Exploration | SectionExploration:
     """The exploration to open: the system asked for, else the last one used, else FIRST_SYSTEM
-    (the first shipped where it cannot be opened); with the saved cursor and units where the system is the saved one; for a system
-    drawn as an isopleth, its SectionExploration.
+    (the first shipped where it cannot be opened); with the saved cursor and units where the
+    system is the saved one; for a system drawn as an isopleth, its SectionExploration.
     Raises ValueError (one line) when the asked-for system cannot be opened."""
     if asked is not None:
         system, problem = _open(asked)
