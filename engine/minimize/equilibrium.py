@@ -256,13 +256,13 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
     names = tuple([name for name, _x, _amount in state.phases])
     at_T = tuple([sec.phase_at(name) for name in names])
     return PointEquilibrium.deferred(T, z, names, float(state.gibbs), mu, state.converged,
-                                     partial(_binary_details, system, za, zb, state, at_T))
+                                     partial(_binary_details, system, T, za, zb, state, at_T))
 
 
-def _binary_details(system, za: float, zb: float, state: LocalState,
-                    at_T: tuple[SolutionAtT | float, ...]) -> tuple[np.ndarray, tuple[PhaseShare, ...], float]:
-    """The alloy's mass fractions, its phase shares and dG/dT (J/(mol K)) of a binary state:
-    `at_T` holds each phase of the state at T (a solution) or its dG/dT (a compound). Mass
+def _binary_details(system, T: float, za: float, zb: float, state: LocalState,
+                    at_T: tuple[SolutionAtT | CompoundPhase, ...]) -> tuple[np.ndarray, tuple[PhaseShare, ...], float]:
+    """The alloy's mass fractions, its phase shares and dG/dT (J/(mol K)) of a binary state at
+    T (K): `at_T` holds each phase of the state (a solution at T, or a compound). Mass
     fractions are computed in Python floats (two elements: cheaper than numpy on two-element
     arrays)."""
     ma, mb = system.molar_mass.tolist()
@@ -271,7 +271,7 @@ def _binary_details(system, za: float, zb: float, state: LocalState,
     gibbs_dT = 0.0
     for (name, (pa, pb), amount), phase in zip(state.phases, at_T):
         solution = isinstance(phase, SolutionAtT)
-        gibbs_dT += amount * (float(phase.gibbs_dT(pa, pb)) if solution else phase)
+        gibbs_dT += amount * (float(phase.gibbs_dT(pa, pb)) if solution else phase.gibbs_dT(T))
         px = np.array((pa, pb))
         sites = (px,) if solution else _compound_sites(system, name)
         m_sum = pa * ma + pb * mb            # the same sum as m_alloy: a single phase's share is exactly 1

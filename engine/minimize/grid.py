@@ -3,9 +3,9 @@
 x_B = sin^2(pi u / 2) for u evenly spaced on [0, 1]; x_A = cos^2(pi u / 2) is computed on its own
 so that neither fraction loses digits near its pure element. Both ends are exact.
 
-At a new temperature every solution phase's G on the grid is one matrix product: the phase's
-coefficients at T (`SolutionAtT.grid_coefficients`) times the grid's composition basis
-(`gibbs_basis`); a magnetic term is added on its own: where its Tc and beta do not depend on
+At a new temperature every solution phase's G on the grid is one matrix product: the ten terms
+of a temperature piece at T times a table of the phase's coefficients on the grid's composition
+basis (`gibbs_basis`, `gibbs_table`), made once per phase and piece; a magnetic term is added on its own: where its Tc and beta do not depend on
 temperature, another product of a few powers of T with coefficients tabulated on the grid once
 per phase (`MagneticPowers`). The scaled curvature x_A x_B G'' (the sign of the spinodal) is
 formed the same way (`curvature_basis`).
@@ -90,18 +90,18 @@ def scaled_curvature_on_grid(solutions: list, n: int = DEFAULT_POINTS) -> np.nda
     return C
 
 
-def gibbs_on_grid(solutions: list, n: int = DEFAULT_POINTS, coefficients: np.ndarray | None = None) -> np.ndarray:
-    """(len(solutions), n): G (J/mol) of each solution phase at one temperature (`SolutionAtT`)
-    on the n-point grid. `coefficients` may hold their `grid_coefficients` as rows of one matrix
-    (of any order at least the longest Redlich-Kister series), where the caller has them."""
-    if coefficients is None:
-        order = max(len(s.L) for s in solutions)
-        coefficients = np.array([s.grid_coefficients(order) for s in solutions])
-    G = coefficients @ gibbs_basis(n, coefficients.shape[1] - 3)
-    for k, s in enumerate(solutions):
-        if s.phase.magnetic is not None:
-            G[k] += magnetic_on_grid(s, n)
-    return G
+def gibbs_table(rows: np.ndarray, order: int, n: int = DEFAULT_POINTS) -> np.ndarray:
+    """(10, n): a solution's G (J/mol) without its magnetic term on the n-point grid as a linear
+    function of the ten terms of a temperature piece (`polynomials.terms`): the
+    terms at T times it are G on the grid at T. `rows` holds the coefficient rows (in the order
+    of `polynomials.COEFFICIENTS`) of its end members G_A, G_B and Redlich-Kister terms L[0],
+    L[1], ... on one interval where none changes piece; `order` (at least their number) is the
+    basis's (`gibbs_basis`). The ideal-mixing coefficient R T is R times the term T."""
+    C = np.zeros((3 + order, 10))
+    C[0], C[1] = rows[0], rows[1]
+    C[2, 1] = R_GAS
+    C[3:1 + len(rows)] = rows[2:]
+    return C.T @ gibbs_basis(n, order)
 
 
 class MagneticPowers:

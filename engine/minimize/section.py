@@ -20,10 +20,10 @@ from typing import Callable
 
 import numpy as np
 
-from .grid import DEFAULT_POINTS, composition_grid, gibbs_on_grid, grid_list, scaled_curvature_on_grid
+from .grid import DEFAULT_POINTS, composition_grid, gibbs_table, grid_list, magnetic_on_grid, scaled_curvature_on_grid
 from .hull import lower_hull
 from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
-from ..models.polynomials import FunctionStack, TemperatureFunction
+from ..models.polynomials import FunctionStack, TemperatureFunction, terms
 from ..units import GAS_CONSTANT as R
 from .tangent import common_tangent, lowest_against_line, tangent_to_point
 
@@ -68,7 +68,13 @@ class BinaryPhases:
     """A binary system's phases in the order sections use them (solutions, then compounds),
     sorted once per system: `names`, `index` (name to position), the solution and compound
     models, `n_sol` and each compound's (x_A, x_B); every phase's temperature functions stacked
-    (`functions`), each phase's share of them a slice (`slices`, in the order of `names`)."""
+    (`functions`), each phase's share of them a slice (`slices`, in the order of `names`).
+
+    Everything a section needs at a new temperature is linear in the ten terms of a temperature
+    piece (`polynomials.terms`): the solutions' function values, each compound's G and the
+    solutions' G on the composition grid (without a magnetic term). Per interval between piece
+    limits and grid size these are the columns of one matrix (`_tables`), so that `at` is one
+    matrix product."""
 
     def __init__(self, system) -> None:
         solutions = [(n, p) for n, p in system.phases.items() if isinstance(p, SolutionPhase)]
@@ -84,28 +90,69 @@ class BinaryPhases:
         for p in self.solutions + self.compounds:
             self.slices.append(slice(len(functions), len(functions) + len(p.temperature_functions)))
             functions += p.temperature_functions
-        # R T and zero as two more functions: the solutions' grid coefficients (`grid_coefficients`)
-        # are then picked out of the values by one index matrix
-        rt, zero = len(functions), len(functions) + 1
-        functions += [TemperatureFunction.constant_terms({"b": R}), TemperatureFunction.constant_terms({})]
         self.functions = FunctionStack(tuple(functions))
-        order = max((len(p.binary_terms) for p in self.solutions), default=0)
-        self._grid_index = np.array(
-            [[cut.start, cut.start + 1, rt] + [cut.start + 2 + k if k < len(p.binary_terms) else zero for k in range(order)]
-             for p, cut in zip(self.solutions, self.slices)], dtype=np.intp).reshape(self.n_sol, 3 + order)
+        #: the solutions' functions come first in `functions`: this many
+        self._solution_functions = self.slices[self.n_sol].start if self.compounds else len(functions)
+        self._grids: dict[int, _GridTables] = {}
 
-    def at(self, T: float) -> tuple[list[SolutionAtT], list[float], list[float], np.ndarray]:
-        """Every solution at T (K), every compound's G (J/mol) and dG/dT (J/(mol K)) and the
-        solutions' grid coefficients (rows of `SolutionAtT.grid_coefficients`), from one
-        evaluation of the stacked temperature functions and their derivatives."""
-        both = self.functions.values_and_derivatives(T)
-        values, derivatives = both.tolist()
+    def grid(self, n: int) -> "_GridTables":
+        """What sections on the n-point grid share (`_GridTables`), made on first use."""
+        found = self._grids.get(n)
+        if found is None:
+            found = self._grids[n] = _GridTables(self, n)
+        return found
+
+    def _table(self, rows: np.ndarray, n: int) -> np.ndarray:
+        """(10, columns) on one interval whose function coefficients are `rows` (functions, 10):
+        the solutions' functions, each compound's G (its formation energy plus its mole
+        fractions times its references' G, as `CompoundPhase.gibbs_from_values`), then each
+        solution's G on the n-point grid (`grid.gibbs_table`), phase after phase."""
+        columns = [rows[:self._solution_functions].T]
+        for c, cut in zip(self.compounds, self.slices[self.n_sol:]):
+            g = rows[cut.start].copy()
+            for xi, row in zip(c.x.tolist(), rows[cut.start + 1:cut.stop]):
+                g += xi * row
+            columns.append(g[:, None])
+        order = max((len(p.binary_terms) for p in self.solutions), default=0)
+        columns += [gibbs_table(rows[cut.start:cut.start + 2 + len(p.binary_terms)], order, n)
+                    for p, cut in zip(self.solutions, self.slices)]
+        return np.ascontiguousarray(np.hstack(columns))
+
+    def at(self, T: float, n: int) -> tuple[list[SolutionAtT], list[float], np.ndarray]:
+        """Every solution at T (K), every compound's G (J/mol) and the solutions' G (J/mol) on
+        the n-point grid, without their magnetic terms, as rows of one (solutions, n) array: one
+        product of the terms at T with the interval's table. Temperature derivatives are left
+        to first use (`SolutionAtT`, `CompoundPhase.gibbs_dT`): a point answer needs them only
+        for its own phases, and only where they are read."""
+        row = terms(T) @ self.grid(n).tables[self.functions.piece(T)]
+        F = self._solution_functions
+        end = F + len(self.compounds)
+        values = row[:end].tolist()
         cut = self.slices
-        solutions = [SolutionAtT(p, T, values[cut[k]], derivatives[cut[k]]) for k, p in enumerate(self.solutions)]
-        n = self.n_sol
-        compounds = [(c.gibbs_from_values(values[cut[n + k]]), c.gibbs_from_values(derivatives[cut[n + k]]))
-                     for k, c in enumerate(self.compounds)]
-        return solutions, [g for g, _d in compounds], [d for _g, d in compounds], both[0][self._grid_index]
+        solutions = [SolutionAtT(p, T, values[cut[k]]) for k, p in enumerate(self.solutions)]
+        return solutions, values[F:], row[end:].reshape(self.n_sol, n)
+
+
+class _GridTables:
+    """What every section of one system on the n-point grid shares: the matrices of
+    `BinaryPhases.at` per interval between piece limits (`tables`), x_A and x_B repeated once
+    per solution (`lines`, (2, solutions n): a line's value at every grid point of every
+    solution is (mu_A, mu_B) times it), and the hull's candidate compositions: every
+    HULL_STRIDE-th grid point, then each compound (`hull_xb` as an array, `hull_xb_list` and
+    `hull_xa_list` as Python floats, `coarse_xb` the grid points' x_B for bisection)."""
+
+    __slots__ = ("tables", "lines", "hull_xb", "hull_xb_list", "hull_xa_list", "coarse_xb")
+
+    def __init__(self, phases: BinaryPhases, n: int) -> None:
+        self.tables = tuple(phases._table(rows, n) for rows in phases.functions.piece_rows)
+        xa, xb = composition_grid(n)
+        self.lines = np.array((np.tile(xa, phases.n_sol), np.tile(xb, phases.n_sol)))
+        self.lines.setflags(write=False)
+        self.coarse_xb = xb[::HULL_STRIDE].tolist()
+        self.hull_xb_list = self.coarse_xb + [x[1] for x in phases.comp_x]
+        self.hull_xa_list = xa[::HULL_STRIDE].tolist() + [x[0] for x in phases.comp_x]
+        self.hull_xb = np.array(self.hull_xb_list)
+        self.hull_xb.setflags(write=False)
 
 
 def per_system(cache: weakref.WeakKeyDictionary, system, build: Callable):
@@ -138,14 +185,24 @@ class Section:
         phases = binary_phases(system)
         self.names: tuple[str, ...] = phases.names
         self.n_sol = phases.n_sol
-        self.solutions, self.comp_g, self._comp_dT, coefficients = phases.at(self.T)
+        self.solutions, self.comp_g, G = phases.at(self.T, points)
         self.compounds: tuple[CompoundPhase, ...] = phases.compounds
-        self.G = gibbs_on_grid(self.solutions, points, coefficients)
+        for k, sol in enumerate(self.solutions):
+            if sol.phase.magnetic is not None:
+                G[k] += magnetic_on_grid(sol, points)
+        #: (solutions, grid points): every solution's G (J/mol) on the grid
+        self.G = G
+        self._grid = phases.grid(points)
         self.comp_x = phases.comp_x
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
-        coarse = self.G[:, ::HULL_STRIDE]
-        #: The coarse envelope (x_B, x_A, G, phase) the hull is taken over, compounds not included.
-        self._coarse = (self.xb[::HULL_STRIDE], self.xa[::HULL_STRIDE], coarse.min(axis=0), coarse.argmin(axis=0))
+        coarse = G[:, ::HULL_STRIDE]
+        m = coarse.shape[1]
+        #: The hull's candidates' G (J/mol): the coarse envelope of the solutions at the grid's
+        #: `hull_xb`, then each compound's; the lowest solution at each coarse point (`_coarse_phase`).
+        self._hull_g = np.empty(m + len(self.comp_g))
+        coarse.min(axis=0, out=self._hull_g[:m])
+        self._hull_g[m:] = self.comp_g
+        self._coarse_phase = coarse.argmin(axis=0)
         #: Refined tie-lines by the seed points they started from, (phase, grid index or -1) each.
         self._ties: dict[tuple[int, int, int, int], TieLine | None] = {}
         #: Hull edges found by `_bridge`: (right end's x_B, left end's x_B, i, j), sorted. One
@@ -174,8 +231,10 @@ class Section:
         """Candidate points sorted by x_B: the coarse grid envelope, compounds and `extra`
         (phase, xA, xB, G). Returns Python lists (xb, xa, g, phase index, grid index or -1)
         and the hull vertex indices."""
-        xb, xa, g, phase = (a.tolist() for a in self._coarse)
-        grid = list(range(len(xb)))
+        m = len(self._grid.coarse_xb)
+        xb, xa, g = self._grid.coarse_xb.copy(), self._grid.hull_xa_list[:m], self._hull_g[:m].tolist()
+        phase = self._coarse_phase.tolist()
+        grid = list(range(m))
         add = [(self.n_sol + k, cx[0], cx[1], cg) for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g))] + extra
         for ph, pa, pb, pg in add:
             i = bisect_left(xb, pb)
@@ -193,17 +252,12 @@ class Section:
     def _seed(self, k: int) -> tuple[int, int, float, float, float]:
         """Candidate k of the point queries: (phase, grid index or -1, x_A, x_B, G), the coarse
         grid points first, then the compounds."""
-        cxb, cxa, cg, which = self._coarse
-        n = len(cxb)
-        if k < n:
-            return int(which[k]), k, float(cxa[k]), float(cxb[k]), float(cg[k])
-        c = k - n
+        grid = self._grid
+        m = len(grid.coarse_xb)
+        if k < m:
+            return int(self._coarse_phase[k]), k, grid.hull_xa_list[k], grid.hull_xb_list[k], float(self._hull_g[k])
+        c = k - m
         return self.n_sol + c, -1, self.comp_x[c][0], self.comp_x[c][1], self.comp_g[c]
-
-    def _seed_x_B(self, k: int) -> float:
-        """x_B of candidate k of `_seed`."""
-        cxb = self._coarse[0]
-        return float(cxb[k]) if k < len(cxb) else self.comp_x[k - len(cxb)][1]
 
     def _bridge(self, xb0: float) -> tuple[int, int]:
         """The lower hull's edge over x_B = xb0 (0 < xb0 < 1) among the hull's candidates, as
@@ -217,7 +271,8 @@ class Section:
         if k < len(edges) and edges[k][1] < xb0 <= edges[k][0]:     # inside an edge found before
             return edges[k][2], edges[k][3]
         i, j = self._new_bridge(xb0)
-        edge = (self._seed_x_B(j), self._seed_x_B(i), i, j)
+        hull_xb = self._grid.hull_xb_list
+        edge = (hull_xb[j], hull_xb[i], i, j)
         k = bisect_left(edges, edge)
         if k == len(edges) or edges[k] != edge:
             edges.insert(k, edge)
@@ -225,27 +280,20 @@ class Section:
 
     def _new_bridge(self, xb0: float) -> tuple[int, int]:
         """`_bridge` computed afresh."""
-        xb, _xa, g, _which = self._coarse
-        n = len(xb)
-        j = int(xb.searchsorted(xb0))
+        grid = self._grid
+        x, g = grid.hull_xb, self._hull_g
+        xs = grid.hull_xb_list
+        j = bisect_left(grid.coarse_xb, xb0)
         i = j - 1
-        xi, gi, xj, gj = float(xb[i]), float(g[i]), float(xb[j]), float(g[j])
-        for _ in range(n + len(self.comp_g)):
+        xi, gi, xj, gj = xs[i], float(g[i]), xs[j], float(g[j])
+        for _ in range(len(xs)):
             slope = (gj - gi) / (xj - xi)
             level = gi - slope * xi
-            d = g - slope * xb
+            d = g - slope * x
             k = int(d.argmin())
-            lowest = float(d[k])
-            for c, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g)):
-                dc = cg - slope * cx[1]
-                if dc < lowest:
-                    k, lowest = n + c, dc
-            if lowest >= level - 1e-9 * (1.0 + abs(level)):
+            if float(d[k]) >= level - 1e-9 * (1.0 + abs(level)):
                 break
-            if k < n:
-                xk, gk = float(xb[k]), float(g[k])
-            else:
-                xk, gk = self.comp_x[k - n][1], self.comp_g[k - n]
+            xk, gk = xs[k], float(g[k])
             if xk < xb0:
                 i, xi, gi = k, xk, gk
             else:
@@ -302,11 +350,11 @@ class Section:
             self._ties[key] = tie
         return tie
 
-    def phase_at(self, name: str) -> SolutionAtT | float:
+    def phase_at(self, name: str) -> SolutionAtT | CompoundPhase:
         """Phase `name` at the section's temperature: a solution as `SolutionAtT`, a compound as
-        its dG/dT (J/(mol K); its G is `comp_g`)."""
+        its model (its G at T is in `comp_g`)."""
         k = self._index[name]
-        return self.solutions[k] if k < self.n_sol else self._comp_dT[k - self.n_sol]
+        return self.solutions[k] if k < self.n_sol else self.compounds[k - self.n_sol]
 
     # --- driving forces -------------------------------------------------------------------------
     def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
@@ -317,13 +365,13 @@ class Section:
         dip next to it is that touching point and is not refined again."""
         mu_a, mu_b = mu
         found = []
-        df = self.G - (mu_a * self.xa + mu_b * self.xb)
+        # G minus the line at every grid point of every solution, flat (one row per solution)
+        flat = self.G.ravel() - np.dot(mu, self._grid.lines)
         # A dip (a grid point not above either neighbour) counts only below 2e-3 RT, and a pure
         # element or compound only below -skip_tol: only the few grid points below 2e-3 RT are
         # looked at; a neighbour not among them lies higher.
-        n = df.shape[1]
-        flat = df.ravel()
-        low = (flat < 2e-3 * self.RT).nonzero()[0]
+        n = self.G.shape[1]
+        low = np.flatnonzero(flat < 2e-3 * self.RT)
         below = dict(zip(low.tolist(), flat[low].tolist()))
         near = None
         ends = []

@@ -289,11 +289,6 @@ class SolutionAtT:
             g = g + self.magnetic_gibbs(xa, xb)
         return g
 
-    def grid_coefficients(self, order: int) -> list[float]:
-        """G without its magnetic term as coefficients of x_A, x_B, x_A ln x_A + x_B ln x_B and
-        x_A x_B (x_A - x_B)^k for k < order (J/mol; `order` at least len(L))."""
-        return [self.g0a, self.g0b, self.RT] + self.L + [0.0] * (order - len(self.L))
-
     def curvature_coefficients(self, order: int) -> list[float]:
         """xA xB d2G/dx_B2 without its magnetic term as coefficients of 1 and of xA xB times the
         second derivative of (x_A - x_B)^k x_A x_B, k < order (J/mol; `order` at least len(L))."""

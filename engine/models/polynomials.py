@@ -179,13 +179,29 @@ class FunctionStack:
             self._rows.append(np.array([f._row(inside) for f in functions]).reshape(len(functions), len(COEFFICIENTS)))
             lower = upper
 
-    def _piece_rows(self, T: float) -> np.ndarray:
+    @property
+    def piece_rows(self) -> tuple[np.ndarray, ...]:
+        """Per interval between piece limits (in order of temperature): the (functions, 10)
+        coefficient rows each function takes there, in the order of COEFFICIENTS."""
+        return tuple(self._rows)
+
+    def piece(self, T: float) -> int:
+        """The index into `piece_rows` of the interval holding T (K); a temperature outside a
+        function's range raises that function's TemperatureOutOfRange."""
         if not (self.lower_K <= T <= self.upper_K) or T <= 0.0:
             for f in self.functions:        # the first function out of range raises
                 f.value(T)
-        return self._rows[bisect_left(self._uppers, T) if len(self._rows) > 1 else 0]
+        return bisect_left(self._uppers, T) if len(self._rows) > 1 else 0
 
     def values_and_derivatives(self, T: float) -> np.ndarray:
         """(2, functions): every function's value (J/mol) and dG/dT (J/(mol K)) at T (K), in the
         order of `functions`."""
-        return np.array((_terms(T), _terms_dT(T))) @ self._piece_rows(T).T
+        return np.array((_terms(T), _terms_dT(T))) @ self._rows[self.piece(T)].T
+
+
+def terms(T: float) -> np.ndarray:
+    """(10,): the ten terms of a piece at T (K), in the order of COEFFICIENTS: any linear
+    combination of the coefficients (a function's value, or values on a grid) at T is this
+    times a fixed matrix."""
+    return np.array(_terms(T))
+

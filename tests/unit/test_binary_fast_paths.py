@@ -4,9 +4,9 @@
   `scaled_curvature` (the same numbers exactly on Python floats, and to 1e-12 from the array
   path), and its curvature against a central difference of the slope dG/dx_B (step 1e-6: the
   truncation error is of order h^2 times the fourth derivative, far below the tolerance);
-- G and the scaled curvature on the section's grid (one matrix product for every phase, the
-  magnetic term's Tc and beta tabulated once per phase) against each phase's own `gibbs` and
-  `scaled_curvature`;
+- G and the scaled curvature on the section's grid and each compound's G (one matrix product for
+  every phase, the magnetic term's Tc and beta tabulated once per phase) against each phase's
+  own `gibbs` and `scaled_curvature`;
 - a section's driving-force scan (`violations`, which looks only at the grid points close to the
   line) against a dense evaluation of every phase on 20,001 compositions: every phase that lies
   below a line somewhere is reported, and every reported point lies below it;
@@ -26,7 +26,7 @@ import pytest
 from ladle.engine import equilibrate, find_system
 from ladle.engine.files.loader import shipped_folder
 from ladle.engine.minimize.equilibrium import _binary_shortcut, section_at
-from ladle.engine.minimize.grid import composition_grid, gibbs_on_grid, scaled_curvature_on_grid
+from ladle.engine.minimize.grid import composition_grid, scaled_curvature_on_grid
 from ladle.engine.minimize.section import DRIVING_FORCE_TOLERANCE, Section, binary_phases
 from ladle.engine.models.phases import SolutionPhase
 from ladle.engine.models.polynomials import TemperatureOutOfRange
@@ -77,19 +77,25 @@ def test_fused_potentials_and_curvature_equal_the_separate_ones(name):
 
 @pytest.mark.parametrize("name", BINARIES)
 def test_grid_gibbs_and_curvature_equal_each_phases_own(name):
-    """One matrix product for every phase (G with the magnetic term from Tc and beta tabulated
-    once per phase, as Cu-Ni's fcc has it; the scaled curvature) against each phase's own
-    `gibbs` and `scaled_curvature` at the same compositions."""
+    """A section's G on its grid (one matrix product for every phase and compound at a new
+    temperature, the magnetic term from Tc and beta tabulated once per phase, as Cu-Ni's fcc has
+    it) and the scaled curvature against each phase's own `gibbs` and `scaled_curvature` at the
+    same compositions."""
     system = find_system(name)
     xa, xb = composition_grid()
     inner = slice(1, -1)            # the scaled curvature is RT at both pure ends
     for T in _temperatures(system, 3):
-        solutions = [p.at(T) for _n, p in _solutions(system)]
-        G, C = gibbs_on_grid(solutions), scaled_curvature_on_grid(solutions)
+        section = Section(system, T)
+        solutions = section.solutions
+        assert [s.phase for s in solutions] == [p for _n, p in _solutions(system)]
+        G, C = section.G, scaled_curvature_on_grid(solutions)
         for k, sol in enumerate(solutions):
             assert np.allclose(G[k], sol.gibbs(xa, xb), rtol=1e-12, atol=1e-9), (name, k, T)
             expected = sol.scaled_curvature(xa[inner], xb[inner])
             assert np.allclose(C[k, inner], expected, rtol=1e-9, atol=1e-9 * sol.RT), (name, k, T)
+        for name_c, compound in zip(section.names[section.n_sol:], section.compounds):
+            g = section.comp_g[section.names.index(name_c) - section.n_sol]
+            assert g == pytest.approx(compound.gibbs(T), rel=1e-12, abs=1e-9), (name, name_c, T)
 
 
 def _dense_lowest(section: Section, mu: tuple[float, float], points: int = 20001) -> list[float]:
