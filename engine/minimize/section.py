@@ -104,44 +104,47 @@ class BinaryPhases:
 
     def _table(self, rows: np.ndarray, n: int) -> np.ndarray:
         """(10, columns) on one interval whose function coefficients are `rows` (functions, 10):
-        the solutions' functions, each compound's G (its formation energy plus its mole
-        fractions times its references' G, as `CompoundPhase.gibbs_from_values`), then each
+        the solutions' functions; the hull's candidates (`_GridTables`): every HULL_STRIDE-th
+        grid point of each solution, then each compound's G (its formation energy plus its mole
+        fractions times its references' G, as `CompoundPhase.gibbs_from_values`); then each
         solution's G on the n-point grid (`grid.gibbs_table`), phase after phase."""
-        columns = [rows[:self._solution_functions].T]
+        order = max((len(p.binary_terms) for p in self.solutions), default=0)
+        grids = [gibbs_table(rows[cut.start:cut.start + 2 + len(p.binary_terms)], order, n)
+                 for p, cut in zip(self.solutions, self.slices)]
+        columns = [rows[:self._solution_functions].T] + [g[:, ::HULL_STRIDE] for g in grids]
         for c, cut in zip(self.compounds, self.slices[self.n_sol:]):
             g = rows[cut.start].copy()
             for xi, row in zip(c.x.tolist(), rows[cut.start + 1:cut.stop]):
                 g += xi * row
             columns.append(g[:, None])
-        order = max((len(p.binary_terms) for p in self.solutions), default=0)
-        columns += [gibbs_table(rows[cut.start:cut.start + 2 + len(p.binary_terms)], order, n)
-                    for p, cut in zip(self.solutions, self.slices)]
-        return np.ascontiguousarray(np.hstack(columns))
+        return np.ascontiguousarray(np.hstack(columns + grids))
 
-    def at(self, T: float, n: int) -> tuple[list[SolutionAtT], list[float], np.ndarray]:
-        """Every solution at T (K), every compound's G (J/mol) and the solutions' G (J/mol) on
-        the n-point grid, without their magnetic terms, as rows of one (solutions, n) array: one
-        product of the terms at T with the interval's table. Temperature derivatives are left
-        to first use (`SolutionAtT`, `CompoundPhase.gibbs_dT`): a point answer needs them only
-        for its own phases, and only where they are read."""
-        row = terms(T) @ self.grid(n).tables[self.functions.piece(T)]
+    def at(self, T: float, n: int) -> tuple[list[SolutionAtT], np.ndarray, np.ndarray]:
+        """Every solution at T (K), the G (J/mol) of the hull's candidates (`_GridTables`) and
+        the solutions' G (J/mol) on the n-point grid, as rows of one (solutions, n) array, all
+        without magnetic terms: one product of the terms at T with the interval's table.
+        Temperature derivatives are left to first use (`SolutionAtT`, `CompoundPhase.gibbs_dT`):
+        a point answer needs them only for its own phases, and only where they are read."""
+        grid = self.grid(n)
+        row = terms(T) @ grid.tables[self.functions.piece(T)]
         F = self._solution_functions
-        end = F + len(self.compounds)
-        values = row[:end].tolist()
+        end = F + len(grid.hull_xb_list)
+        values = row[:F].tolist()
         cut = self.slices
         solutions = [SolutionAtT(p, T, values[cut[k]]) for k, p in enumerate(self.solutions)]
-        return solutions, values[F:], row[end:].reshape(self.n_sol, n)
+        return solutions, row[F:end], row[end:].reshape(self.n_sol, n)
 
 
 class _GridTables:
     """What every section of one system on the n-point grid shares: the matrices of
-    `BinaryPhases.at` per interval between piece limits (`tables`), x_A and x_B repeated once
+    `BinaryPhases.at` per interval between piece limits (`tables`); x_A and x_B repeated once
     per solution (`lines`, (2, solutions n): a line's value at every grid point of every
-    solution is (mu_A, mu_B) times it), and the hull's candidate compositions: every
-    HULL_STRIDE-th grid point, then each compound (`hull_xb` as an array, `hull_xb_list` and
-    `hull_xa_list` as Python floats, `coarse_xb` the grid points' x_B for bisection)."""
+    solution is (mu_A, mu_B) times it); and the candidates of the hull: every HULL_STRIDE-th
+    grid point (`coarse_xb`, x_B as Python floats, `coarse` of them) of each solution, phase
+    after phase, then each compound (`hull_xb` as an array, `hull_xb_list` and `hull_xa_list`
+    as Python floats)."""
 
-    __slots__ = ("tables", "lines", "hull_xb", "hull_xb_list", "hull_xa_list", "coarse_xb")
+    __slots__ = ("tables", "lines", "hull_xb", "hull_xb_list", "hull_xa_list", "coarse_xb", "coarse")
 
     def __init__(self, phases: BinaryPhases, n: int) -> None:
         self.tables = tuple(phases._table(rows, n) for rows in phases.functions.piece_rows)
@@ -149,8 +152,9 @@ class _GridTables:
         self.lines = np.array((np.tile(xa, phases.n_sol), np.tile(xb, phases.n_sol)))
         self.lines.setflags(write=False)
         self.coarse_xb = xb[::HULL_STRIDE].tolist()
-        self.hull_xb_list = self.coarse_xb + [x[1] for x in phases.comp_x]
-        self.hull_xa_list = xa[::HULL_STRIDE].tolist() + [x[0] for x in phases.comp_x]
+        self.coarse = len(self.coarse_xb)
+        self.hull_xb_list = self.coarse_xb * phases.n_sol + [x[1] for x in phases.comp_x]
+        self.hull_xa_list = xa[::HULL_STRIDE].tolist() * phases.n_sol + [x[0] for x in phases.comp_x]
         self.hull_xb = np.array(self.hull_xb_list)
         self.hull_xb.setflags(write=False)
 
@@ -185,24 +189,20 @@ class Section:
         phases = binary_phases(system)
         self.names: tuple[str, ...] = phases.names
         self.n_sol = phases.n_sol
-        self.solutions, self.comp_g, G = phases.at(self.T, points)
-        self.compounds: tuple[CompoundPhase, ...] = phases.compounds
+        #: The G (J/mol) of the hull's candidates (`_GridTables`: coarse grid points of each
+        #: solution, then the compounds) and (solutions, grid points) every solution's G on the grid
+        self.solutions, self._hull_g, self.G = phases.at(self.T, points)
+        self._grid = grid = phases.grid(points)
+        m = grid.coarse
         for k, sol in enumerate(self.solutions):
             if sol.phase.magnetic is not None:
-                G[k] += magnetic_on_grid(sol, points)
-        #: (solutions, grid points): every solution's G (J/mol) on the grid
-        self.G = G
-        self._grid = phases.grid(points)
+                magnetic = magnetic_on_grid(sol, points)
+                self.G[k] += magnetic
+                self._hull_g[k * m:(k + 1) * m] += magnetic[::HULL_STRIDE]
+        self.compounds: tuple[CompoundPhase, ...] = phases.compounds
         self.comp_x = phases.comp_x
+        self.comp_g: list[float] = self._hull_g[self.n_sol * m:].tolist()
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
-        coarse = G[:, ::HULL_STRIDE]
-        m = coarse.shape[1]
-        #: The hull's candidates' G (J/mol): the coarse envelope of the solutions at the grid's
-        #: `hull_xb`, then each compound's; the lowest solution at each coarse point (`_coarse_phase`).
-        self._hull_g = np.empty(m + len(self.comp_g))
-        coarse.min(axis=0, out=self._hull_g[:m])
-        self._hull_g[m:] = self.comp_g
-        self._coarse_phase = coarse.argmin(axis=0)
         #: Refined tie-lines by the seed points they started from, (phase, grid index or -1) each.
         self._ties: dict[tuple[int, int, int, int], TieLine | None] = {}
         #: Hull edges found by `_bridge`: (right end's x_B, left end's x_B, i, j), sorted. One
@@ -231,10 +231,10 @@ class Section:
         """Candidate points sorted by x_B: the coarse grid envelope, compounds and `extra`
         (phase, xA, xB, G). Returns Python lists (xb, xa, g, phase index, grid index or -1)
         and the hull vertex indices."""
-        m = len(self._grid.coarse_xb)
-        xb, xa, g = self._grid.coarse_xb.copy(), self._grid.hull_xa_list[:m], self._hull_g[:m].tolist()
-        phase = self._coarse_phase.tolist()
-        grid = list(range(m))
+        coarse = self.G[:, ::HULL_STRIDE]
+        xb, xa = self._grid.coarse_xb.copy(), self._grid.hull_xa_list[:coarse.shape[1]]
+        g, phase = coarse.min(axis=0).tolist(), coarse.argmin(axis=0).tolist()
+        grid = list(range(len(xb)))
         add = [(self.n_sol + k, cx[0], cx[1], cg) for k, (cx, cg) in enumerate(zip(self.comp_x, self.comp_g))] + extra
         for ph, pa, pb, pg in add:
             i = bisect_left(xb, pb)
@@ -250,13 +250,13 @@ class Section:
         return xb, xa, g, phase, grid, lower_hull(xb, g)
 
     def _seed(self, k: int) -> tuple[int, int, float, float, float]:
-        """Candidate k of the point queries: (phase, grid index or -1, x_A, x_B, G), the coarse
-        grid points first, then the compounds."""
+        """Candidate k of the point queries: (phase, coarse grid index or -1, x_A, x_B, G): every
+        solution's coarse grid points, phase after phase, then the compounds."""
         grid = self._grid
-        m = len(grid.coarse_xb)
-        if k < m:
-            return int(self._coarse_phase[k]), k, grid.hull_xa_list[k], grid.hull_xb_list[k], float(self._hull_g[k])
-        c = k - m
+        s, c = divmod(k, grid.coarse)
+        if s < self.n_sol:
+            return s, c, grid.hull_xa_list[k], grid.hull_xb_list[k], float(self._hull_g[k])
+        c = k - self.n_sol * grid.coarse
         return self.n_sol + c, -1, self.comp_x[c][0], self.comp_x[c][1], self.comp_g[c]
 
     def _bridge(self, xb0: float) -> tuple[int, int]:
@@ -284,6 +284,9 @@ class Section:
         x, g = grid.hull_xb, self._hull_g
         xs = grid.hull_xb_list
         j = bisect_left(grid.coarse_xb, xb0)
+        # start from the solution lowest at the coarse grid point j
+        at_j = g[j:self.n_sol * grid.coarse:grid.coarse].tolist()
+        j += at_j.index(min(at_j)) * grid.coarse
         i = j - 1
         xi, gi, xj, gj = xs[i], float(g[i]), xs[j], float(g[j])
         for _ in range(len(xs)):
