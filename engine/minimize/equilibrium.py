@@ -20,7 +20,7 @@ from typing import Callable
 import numpy as np
 
 from .global_minimum import global_minimum
-from .section import LocalState, Section, per_system
+from .section import LocalState, PhasesAtT, Section, per_system
 from ..models.phases import CompoundPhase, SolutionAtT, SolutionPhase
 from ..units import mass_from_mole
 
@@ -254,22 +254,21 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
     mu_a, mu_b = state.mu
     mu = np.array((math.nan if mu_a is None else mu_a, math.nan if mu_b is None else mu_b))
     names = tuple([name for name, _x, _amount in state.phases])
-    at_T = tuple([sec.phase_at(name) for name in names])
     return PointEquilibrium.deferred(T, z, names, float(state.gibbs), mu, state.converged,
-                                     partial(_binary_details, system, T, za, zb, state, at_T))
+                                     partial(_binary_details, system, T, za, zb, state, sec.phases_at_T))
 
 
 def _binary_details(system, T: float, za: float, zb: float, state: LocalState,
-                    at_T: tuple[SolutionAtT | CompoundPhase, ...]) -> tuple[np.ndarray, tuple[PhaseShare, ...], float]:
+                    phases_at_T: "PhasesAtT") -> tuple[np.ndarray, tuple[PhaseShare, ...], float]:
     """The alloy's mass fractions, its phase shares and dG/dT (J/(mol K)) of a binary state at
-    T (K): `at_T` holds each phase of the state (a solution at T, or a compound). Mass
-    fractions are computed in Python floats (two elements: cheaper than numpy on two-element
-    arrays)."""
+    T (K): `phases_at_T` holds the section's phases (`Section.phases_at_T`). Mass fractions are
+    computed in Python floats (two elements: cheaper than numpy on two-element arrays)."""
     ma, mb = system.molar_mass.tolist()
     m_alloy = za * ma + zb * mb
     shares = []
     gibbs_dT = 0.0
-    for (name, (pa, pb), amount), phase in zip(state.phases, at_T):
+    for name, (pa, pb), amount in state.phases:
+        phase = phases_at_T.phase(name)
         solution = isinstance(phase, SolutionAtT)
         gibbs_dT += amount * (float(phase.gibbs_dT(pa, pb)) if solution else phase.gibbs_dT(T))
         px = np.array((pa, pb))

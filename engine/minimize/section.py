@@ -14,9 +14,8 @@ from __future__ import annotations
 
 import weakref
 from bisect import bisect_left, bisect_right
-from dataclasses import dataclass
 from functools import cached_property
-from typing import Callable
+from typing import Callable, NamedTuple
 
 import numpy as np
 
@@ -34,8 +33,7 @@ DRIVING_FORCE_TOLERANCE = 1e-7
 _MAX_REPAIRS = 6
 
 
-@dataclass(frozen=True)
-class TieLine:
+class TieLine(NamedTuple):
     """Two phases in equilibrium at one temperature.
 
     `x` holds (x_A, x_B) of each phase (mole fractions), left phase first (smaller x_B);
@@ -52,8 +50,7 @@ class TieLine:
         return self.x[0][1], self.x[1][1]
 
 
-@dataclass(frozen=True)
-class LocalState:
+class LocalState(NamedTuple):
     """The stable state at one overall composition: (phase, (x_A, x_B), mole amount) per phase,
     the chemical potentials (mu_A, mu_B) in J/mol (None where undefined at a pure element) and the
     molar Gibbs energy of the alloy in J/mol."""
@@ -62,6 +59,21 @@ class LocalState:
     mu: tuple[float | None, float | None]
     gibbs: float
     converged: bool
+
+
+class PhasesAtT(NamedTuple):
+    """A section's phases at its temperature, without its grid: what an answer keeps to
+    compute its phases' dG/dT on first access."""
+
+    solutions: list[SolutionAtT]
+    compounds: tuple[CompoundPhase, ...]
+    index: dict[str, int]
+
+    def phase(self, name: str) -> SolutionAtT | CompoundPhase:
+        """Phase `name`: a solution as `SolutionAtT`, a compound as its model."""
+        k = self.index[name]
+        n = len(self.solutions)
+        return self.solutions[k] if k < n else self.compounds[k - n]
 
 
 class BinaryPhases:
@@ -203,6 +215,7 @@ class Section:
         self.comp_x = phases.comp_x
         self.comp_g: list[float] = self._hull_g[self.n_sol * m:].tolist()
         self.RT = self.solutions[0].RT if self.solutions else 8.314462618 * self.T
+        self.phases_at_T = PhasesAtT(self.solutions, self.compounds, phases.index)
         #: Refined tie-lines by the seed points they started from, (phase, grid index or -1) each.
         self._ties: dict[tuple[int, int, int, int], TieLine | None] = {}
         #: Hull edges found by `_bridge`: (right end's x_B, left end's x_B, i, j), sorted. One
@@ -356,8 +369,7 @@ class Section:
     def phase_at(self, name: str) -> SolutionAtT | CompoundPhase:
         """Phase `name` at the section's temperature: a solution as `SolutionAtT`, a compound as
         its model (its G at T is in `comp_g`)."""
-        k = self._index[name]
-        return self.solutions[k] if k < self.n_sol else self.compounds[k - self.n_sol]
+        return self.phases_at_T.phase(name)
 
     # --- driving forces -------------------------------------------------------------------------
     def violations(self, mu: tuple[float, float], touching: tuple[tuple[int, float], ...] = (),
@@ -375,17 +387,20 @@ class Section:
         # looked at; a neighbour not among them lies higher.
         n = self.G.shape[1]
         low = np.flatnonzero(flat < 2e-3 * self.RT)
-        below = dict(zip(low.tolist(), flat[low].tolist()))
+        flat_index, below = low.tolist(), flat[low].tolist()
+        last = len(below) - 1
         near = None
         ends = []
-        for f, d_grid in below.items():
+        for k, f in enumerate(flat_index):
+            d_grid = below[k]
             s, i = divmod(f, n)
             end = i == 0 or i == n - 1
             if end and d_grid < -skip_tol:          # a pure element below the line
                 ends.append((i, s))
                 continue
-            left, right = below.get(f - 1) if i > 0 else None, below.get(f + 1) if i < n - 1 else None
-            if (left is not None and d_grid > left) or (right is not None and d_grid > right):
+            # a lower neighbour on the grid (the neighbours among the low points are next in the list)
+            if (i > 0 and k > 0 and flat_index[k - 1] == f - 1 and d_grid > below[k - 1]) or \
+                    (i < n - 1 and k < last and flat_index[k + 1] == f + 1 and d_grid > below[k + 1]):
                 continue
             if near is None:
                 grid = grid_list(n)

@@ -8,7 +8,7 @@ loses digits next to a pure element.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from ..models.phases import SolutionAtT
 
@@ -43,8 +43,7 @@ def _clip(step: float) -> float:
     return max(-_MAX_STEP, min(_MAX_STEP, step))
 
 
-@dataclass(frozen=True)
-class TangentResult:
+class TangentResult(NamedTuple):
     """Outcome of a tangent solve. `x` holds (xA, xB) of each solution phase solved for; `mu`
     the chemical potentials (mu_A, mu_B) in J/mol of the first phase at exactly x where the
     solve evaluated them there (its last step), else None."""
