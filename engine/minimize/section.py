@@ -611,7 +611,7 @@ class Section:
             k = phase - self.n_sol
             g = self.comp_g[k]
             return LocalState(((self.names[phase], self.comp_x[k], 1.0),), (None, None), g, converged)
-        mu_a, mu_b, _curvature = self.solutions[phase].potentials_and_curvature(xa0, xb0)
+        mu_a, mu_b = self.solutions[phase].potentials(xa0, xb0)
         mu_a, mu_b = float(mu_a), float(mu_b)
         # G = x_A mu_A + x_B mu_B (Euler's theorem for a molar quantity): no second evaluation
         return LocalState(((self.names[phase], (xa0, xb0), 1.0),), (mu_a, mu_b), xa0 * mu_a + xb0 * mu_b, converged)

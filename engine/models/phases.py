@@ -188,8 +188,9 @@ class SolutionAtT:
 
     # --- magnetic part -------------------------------------------------------------------
     def _curie_and_moment(self, xa: np.ndarray, xb: np.ndarray, order: int):
-        """Tc and beta with their derivatives along x_B (order 2, else zeros), antiferromagnetic
-        values divided by the factor, and where the term is active, the safe Tc and tau = T/Tc."""
+        """Tc and beta with their derivatives along x_B up to `order` (0, 1 or 2; zeros beyond
+        it), antiferromagnetic values divided by the factor, and where the term is active, the
+        safe Tc and tau = T/Tc."""
         mag = self.phase.magnetic
         tc, tc1, tc2 = self._linear_plus_excess(self._pure_curie, self.curie_L, xa, xb, order)
         be, be1, be2 = self._linear_plus_excess(self._pure_moment, self.moment_L, xa, xb, order)
@@ -223,40 +224,45 @@ class SolutionAtT:
         active, _u, _u1, _f, _f1, _tau1, g2 = self._magnetic_pieces(xa, xb)
         return xa * xb * where(active, g2, 0.0 * g2)
 
-    def magnetic_shape(self, xa: np.ndarray, xb: np.ndarray) -> tuple:
+    def magnetic_shape(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple:
         """(active, Tc, dTc/dx_B, d2Tc/dx_B2, ln(1 + beta), and its first two derivatives along
         x_B) of the magnetic term at the compositions (K and Bohr magnetons; Tc is 1 where the
         term is not active): all that its value and composition derivatives take besides the
-        temperature. They depend on temperature only where the phase's
-        `magnetic_parameters_constant` is False."""
-        (tc1, tc2), (be, be1, be2), active, tc_safe, _tau = self._curie_and_moment(xa, xb, 2)
+        temperature; with `order` 1 the second derivatives are 0 (not computed). They depend on
+        temperature only where the phase's `magnetic_parameters_constant` is False."""
+        (tc1, tc2), (be, be1, be2), active, tc_safe, _tau = self._curie_and_moment(xa, xb, order)
         u1 = be1 / (1.0 + be)
-        return active, tc_safe, tc1, tc2, _log(1.0 + be), u1, be2 / (1.0 + be) - u1 * u1
+        u2 = be2 / (1.0 + be) - u1 * u1 if order == 2 else 0.0
+        return active, tc_safe, tc1, tc2, _log(1.0 + be), u1, u2
 
-    def _magnetic_pieces(self, xa: np.ndarray, xb: np.ndarray) -> tuple:
+    def _magnetic_pieces(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple:
         """(active, ln(1 + beta), its x_B derivative, f(tau), f'(tau), dtau/dx_B, d2G/dx_B2 where
-        active) of the magnetic term: what its value and derivatives are formed from."""
-        active, tc_safe, tc1, tc2, u, u1, u2 = self.magnetic_shape(xa, xb)
+        active) of the magnetic term: what its value and derivatives are formed from; with
+        `order` 1 the second derivative is None (not computed)."""
+        active, tc_safe, tc1, tc2, u, u1, u2 = self.magnetic_shape(xa, xb, order)
         tau = where(active, self.T / tc_safe, 1e9)
-        f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction)
+        f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, order)
         tau1 = -tau * tc1 / tc_safe
-        tau2 = -tau * tc2 / tc_safe + 2.0 * tau * (tc1 / tc_safe) ** 2
-        g2 = self.RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
+        g2 = None
+        if order == 2:
+            tau2 = -tau * tc2 / tc_safe + 2.0 * tau * (tc1 / tc_safe) ** 2
+            g2 = self.RT * (u2 * f + 2.0 * u1 * f1 * tau1 + u * (f2 * tau1 * tau1 + f1 * tau2))
         return active, u, u1, f, f1, tau1, g2
 
-    def _magnetic(self, xa: np.ndarray, xb: np.ndarray) -> tuple[np.ndarray, ...]:
+    def _magnetic(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, ...]:
         """(G, dG/dx, d2G/dx2) of the magnetic term along x_B (J/mol; arrays, or floats): what
-        chemical potentials and curvatures need, without the temperature derivatives."""
-        active, u, u1, f, f1, tau1, g2 = self._magnetic_pieces(xa, xb)
+        chemical potentials and curvatures need, without the temperature derivatives; with
+        `order` 1 (chemical potentials and slopes) d2G/dx2 is None and not computed."""
+        active, u, u1, f, f1, tau1, g2 = self._magnetic_pieces(xa, xb, order)
         RT = self.RT
         g = RT * u * f
         g1 = RT * (u1 * f + u * f1 * tau1)
-        return tuple(where(active, v, 0.0 * v) for v in (g, g1, g2))
+        return tuple(None if v is None else where(active, v, 0.0 * v) for v in (g, g1, g2))
 
     def _magnetic_dT(self, xa: np.ndarray, xb: np.ndarray, order: int = 2) -> tuple[np.ndarray, np.ndarray]:
         """(dG/dT, d2G/dx dT) of the magnetic term (J/(mol K)); with order 0 the second is 0.
         Tc and beta are taken as independent of T (tau = T/Tc, so d tau/dT = tau/T)."""
-        (tc1, _tc2), (be, be1, _be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, order)
+        (tc1, _tc2), (be, be1, _be2), active, tc_safe, tau = self._curie_and_moment(xa, xb, min(order, 1))
         f, f1, f2 = hillert_jarl(tau, self.phase.magnetic.above_curie_fraction, 1 if order == 0 else 2)
         u = _log(1.0 + be)
         g_dT = R * u * (f + tau * f1)
@@ -269,12 +275,13 @@ class SolutionAtT:
 
     @staticmethod
     def _linear_plus_excess(pure: tuple[float, float], L: list[float], xa: np.ndarray, xb: np.ndarray, order: int):
-        """The composition-dependent Tc or beta and, for order 2, its first two derivatives."""
+        """The composition-dependent Tc or beta and its derivatives along x_B up to `order` (0, 1
+        or 2; zeros beyond it)."""
         value = xa * pure[0] + xb * pure[1] + redlich_kister(L, xa, xb)
         if order == 0:
             return value, 0.0, 0.0
-        return (value, pure[1] - pure[0] + redlich_kister_derivative(L, xa, xb, 1),
-                redlich_kister_derivative(L, xa, xb, 2))
+        first = pure[1] - pure[0] + redlich_kister_derivative(L, xa, xb, 1)
+        return value, first, redlich_kister_derivative(L, xa, xb, 2) if order == 2 else 0.0
 
     # --- public ------------------------------------------------------------------------
     def gibbs(self, xa: np.ndarray, xb: np.ndarray, mixing: np.ndarray | None = None) -> np.ndarray:
@@ -300,7 +307,7 @@ class SolutionAtT:
         mua = self.g0a + self.RT * _log(xa) + mua
         mub = self.g0b + self.RT * _log(xb) + mub
         if self.phase.magnetic is not None:
-            gm, gm1, _gm2 = self._magnetic(xa, xb)
+            gm, gm1, _gm2 = self._magnetic(xa, xb, 1)
             mua = mua + gm - xb * gm1
             mub = mub + gm + xa * gm1
         return mua, mub
@@ -356,7 +363,7 @@ class SolutionAtT:
         g1 = redlich_kister_derivative(self.L, xa, xb, 1)
         s = self.g0b - self.g0a + self.RT * (_log(xb) - _log(xa)) + g1
         if self.phase.magnetic is not None:
-            s = s + self._magnetic(xa, xb)[1]
+            s = s + self._magnetic(xa, xb, 1)[1]
         return s
 
     def scaled_curvature(self, xa: np.ndarray, xb: np.ndarray) -> np.ndarray:
