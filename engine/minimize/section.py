@@ -386,7 +386,7 @@ class Section:
         # element or compound only below -skip_tol: only the few grid points below 2e-3 RT are
         # looked at; a neighbour not among them lies higher.
         n = self.G.shape[1]
-        low = np.flatnonzero(flat < 2e-3 * self.RT)
+        low = (flat < 2e-3 * self.RT).nonzero()[0]
         flat_index, below = low.tolist(), flat[low].tolist()
         last = len(below) - 1
         near = None
