@@ -5,10 +5,11 @@ so that neither fraction loses digits near its pure element. Both ends are exact
 
 At a new temperature every solution phase's G on the grid is one matrix product: the ten terms
 of a temperature piece at T times a table of the phase's coefficients on the grid's composition
-basis (`gibbs_basis`, `gibbs_table`), made once per phase and piece; a magnetic term is added on its own: where its Tc and beta do not depend on
-temperature, another product of a few powers of T with coefficients tabulated on the grid once
-per phase (`MagneticPowers`). The scaled curvature x_A x_B G'' (the sign of the spinodal) is
-formed the same way (`curvature_basis`).
+basis (`gibbs_basis`, `gibbs_table`), made once per phase and piece; a magnetic term is added on
+its own: where its Tc and beta do not depend on temperature, another product of a few powers of
+T with coefficients tabulated on the grid once per phase (`MagneticPowers`). The scaled
+curvature x_A x_B G'' (the sign of the spinodal) is the phase's coefficients at T times another
+basis (`curvature_basis`), plus its magnetic term's.
 """
 
 from __future__ import annotations
