@@ -628,9 +628,9 @@ class _Search:
             settled = self._descend_lp(tol)
             states, mu, good = _start_states(lp, cloud, active), lp.mu, False
         if not converged:
-            # the rounds ran out: the lowest state they reached, not the last one (Fe-C-Si at
-            # 1013 K went round bcc + graphite, fcc alone and bcc alone, and ended on fcc alone,
-            # 222 J/mol above bcc + graphite)
+            # the rounds ran out: the lowest state they reached, not the last one (before Newton's
+            # end states were checked against their starts, Fe-C-Si at 1013 K went round bcc +
+            # graphite, fcc alone and bcc alone, and ended on fcc alone, 222 J/mol higher)
             _g, states, mu = _lower(best, states, mu)
         return states, mu, converged
 
