@@ -29,17 +29,17 @@ from ladle.engine.minimize.multiphase_newton import PhaseState
 
 def _dense_reference(system, T: float, z: np.ndarray, c_top: float, si_top: float) -> float:
     """G (J/mol) of the lowest combination at z (Fe, C, Si) of every phase's states on grids:
-    the liquid over x_C in [0, c_top] and x_Si in [0, si_top] (400 x 400 points); fcc and bcc,
-    [Fe,Si][C,Va] with one and three interstitial sites, over y_Si in [0, si_top] (301 points)
-    and y_C log-spaced from 1e-8 to 0.3 (400 points); graphite and Fe3C as they are."""
+    the liquid over x_C in [0, c_top] and x_Si in [0, si_top] (160 x 160 points); fcc and bcc,
+    [Fe,Si][C,Va] with one and three interstitial sites, over y_Si in [0, si_top] (121 points)
+    and y_C log-spaced from 1e-8 to 0.3 (160 points); graphite and Fe3C as they are."""
     X, G = [np.array([[0.0, 1.0, 0.0]]), np.array([[0.75, 0.25, 0.0]])], [
         system.models["graphite"].at(T).gibbs(np.ones((1, 1))),
         system.models["Fe3C"].at(T).gibbs(np.ones((1, 2))) / 4.0]
-    x_c, x_si = np.meshgrid(np.linspace(0.0, c_top, 400), np.linspace(0.0, si_top, 400), indexing="ij")
+    x_c, x_si = np.meshgrid(np.linspace(0.0, c_top, 160), np.linspace(0.0, si_top, 160), indexing="ij")
     liquid = np.column_stack([1.0 - x_c.ravel() - x_si.ravel(), x_c.ravel(), x_si.ravel()])
     X.append(liquid)
     G.append(system.models["liquid"].at(T).gibbs(liquid))
-    y_si, y_c = np.meshgrid(np.linspace(0.0, si_top, 301), np.logspace(-8.0, np.log10(0.3), 400), indexing="ij")
+    y_si, y_c = np.meshgrid(np.linspace(0.0, si_top, 121), np.logspace(-8.0, np.log10(0.3), 160), indexing="ij")
     y_si, y_c = y_si.ravel(), y_c.ravel()
     for name, carbon_sites in (("fcc", 1.0), ("bcc", 3.0)):
         atoms = 1.0 + carbon_sites * y_c
