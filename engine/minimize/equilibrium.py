@@ -259,7 +259,7 @@ def _binary_equilibrium(system, T: float, z: np.ndarray) -> PointEquilibrium:
 
 
 def _binary_details(system, T: float, za: float, zb: float, state: LocalState,
-                    phases_at_T: "PhasesAtT") -> tuple[np.ndarray, tuple[PhaseShare, ...], float]:
+                    phases_at_T: PhasesAtT) -> tuple[np.ndarray, tuple[PhaseShare, ...], float]:
     """The alloy's mass fractions, its phase shares and dG/dT (J/(mol K)) of a binary state at
     T (K): `phases_at_T` holds the section's phases (`Section.phases_at_T`). Mass fractions are
     computed in Python floats (two elements: cheaper than numpy on two-element arrays)."""

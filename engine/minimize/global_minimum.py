@@ -11,9 +11,12 @@ force of every phase against the refined chemical potentials on its samples, and
 steps from the lowest sample of each phase where sampling could hide a minimum: a point below the
 plane joins the refined phases at zero amount while the phase rule leaves room, else it joins the
 linear program as a new column (with small neighbourhoods of the refined points), which restarts
-from the refined phases' basis; Newton refines again. The linear program's basis has at most N
-points and Newton only removes phases or adds one below N, so Gibbs' phase rule (at most N phases
-at fixed T and P) holds in every answer. Units: J per mole of atoms, mole fractions, K.
+from the refined phases' basis, and adds the lowest points of every phase against its own plane
+until none lies below it (column generation); Newton refines again. A Newton solve that ends with
+the state it started from below its plane (it dropped a phase the minimum needs) is refused and
+the linear program decides. The linear program's basis has at most N points and Newton only
+removes phases or adds one below N, so Gibbs' phase rule (at most N phases at fixed T and P)
+holds in every answer. Units: J per mole of atoms, mole fractions, K.
 
 Elements absent from the alloy (mole fraction exactly 0) are left out: constituents containing
 them are fixed at 0, their chemical potentials are undefined (NaN).
@@ -610,21 +613,11 @@ class _Search:
             added_to = None
             # no room (or no converged state): the linear program decides, from the refined plane
             lp = self.lp
-            add_X, add_G = [], []
             first = len(lp.G)
-            state_columns = []
-            seeds = [(_phase_index(phases, st.name), st.y) for st in states]
-            seeds += [(p, y) for p, y, _df in found]
-            for p, y0 in seeds:
-                for k, y in enumerate(_neighbourhood(phases[p], y0)):
-                    if k == 0 and len(state_columns) < len(states) and good:
-                        state_columns.append(first + len(add_G))
-                    x, g = _per_atom(phases[p].model, y, active)
-                    cloud.add(p, y)
-                    add_X.append(x)
-                    add_G.append(g)
-            restart = np.array(state_columns) if good and len(state_columns) == n_active else None
-            lp.add(np.array(add_X), np.array(add_G), restart)
+            seeds = [(_phase_index(phases, st.name), st.y) for st in states] + [(p, y) for p, y, _df in found]
+            add_X, add_G, centres = self._columns(seeds)
+            restart = first + np.array(centres[:len(states)]) if good and len(states) == n_active else None
+            lp.add(add_X, add_G, restart)
             settled = self._descend_lp(tol)
             states, mu, good = _start_states(lp, cloud, active), lp.mu, False
         if not converged:
@@ -633,7 +626,6 @@ class _Search:
             # graphite, fcc alone and bcc alone, and ended on fcc alone, 222 J/mol higher)
             _g, states, mu = _lower(best, states, mu)
         return states, mu, converged
-
 
     def _descend_lp(self, tol: float) -> bool:
         """Column generation on the linear program, up to LP_PASSES passes: against its own plane,
@@ -645,9 +637,9 @@ class _Search:
         below it between samples next to a basis point), and Newton from its basis far from the
         answer. Returns whether the first pass found no point below the plane (nothing left to
         add)."""
-        lp, cloud, phases, active, elements = self.lp, self.cloud, self.phases, self.active, self.elements
+        lp, cloud, phases, elements = self.lp, self.cloud, self.phases, self.elements
         for passes in range(LP_PASSES):
-            states = _start_states(lp, cloud, active)
+            states = _start_states(lp, cloud, self.active)
             found = _candidates(cloud, states, lp.mu, elements, tol)
             for k in lp.basis[lp.basis >= 0]:
                 p, y = cloud.point(int(k))
@@ -659,20 +651,23 @@ class _Search:
                         found.append((p, y, df))
             if not found:
                 return passes == 0
-            add_X, add_G = [], []
-            for p, y0, _df in found:
-                for y in _neighbourhood(phases[p], y0):
-                    x, g = _per_atom(phases[p].model, y, active)
-                    cloud.add(p, y)
-                    add_X.append(x)
-                    add_G.append(g)
-            lp.add(np.array(add_X), np.array(add_G))
+            add_X, add_G, _centres = self._columns([(p, y) for p, y, _df in found])
+            lp.add(add_X, add_G)
         return False
 
-
-def _gibbs(states: list[PhaseState]) -> float:
-    """G of a state: the sum of its phases' amounts times their G (J per mole of alloy atoms)."""
-    return float(sum(st.amount * float(st.model.gibbs(st.y)) for st in states))
+    def _columns(self, seeds: list[tuple[int, np.ndarray]]) -> tuple[np.ndarray, np.ndarray, list[int]]:
+        """New columns of the linear program: each seed (phase index, site fractions) and its
+        neighbourhood (`_neighbourhood`), added to the cloud as well. Returns their mole fractions
+        (rows), G (J per mole of atoms) and the row of each seed's own point."""
+        add_X, add_G, centres = [], [], []
+        for p, y0 in seeds:
+            centres.append(len(add_G))
+            for y in _neighbourhood(self.phases[p], y0):
+                x, g = _per_atom(self.phases[p].model, y, self.active)
+                self.cloud.add(p, y)
+                add_X.append(x)
+                add_G.append(g)
+        return np.array(add_X), np.array(add_G), centres
 
 
 def _above_plane(states: list[PhaseState], mu: np.ndarray, elements: np.ndarray) -> float:
@@ -689,7 +684,7 @@ def _lower(best: tuple[float, list[PhaseState], np.ndarray] | None, states: list
     """`best` (G in J per mole of alloy atoms, states, mu) or `states` with `mu` (copied), whichever
     has the lower G = sum of the phases' amounts times their G: every state the rounds hold keeps
     the mass balance, so each is one the alloy can take."""
-    g = _gibbs(states)
+    g = float(sum(st.amount * float(st.model.gibbs(st.y)) for st in states))
     if best is not None and not g < best[0]:
         return best
     return g, [PhaseState(st.name, st.model, st.y.copy(), st.amount, st.free) for st in states], mu.copy()
