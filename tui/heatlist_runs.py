@@ -51,6 +51,8 @@ CLUSTER_TIMEOUT_S = 3.0
 CHECKPOINT_S = 2.0
 #: Seconds between two updates of the progress line.
 PROGRESS_S = 0.5
+#: Seconds between a worker process's checks that the main process is still there.
+PARENT_CHECK_S = 0.5
 _STATE_VERSION = 1
 
 
@@ -206,13 +208,25 @@ class _Done:
 _WORKER_JOB: BlockJob | None = None
 
 
-def _start_worker(job: BlockJob) -> None:
-    """In a local worker process: keep the job, and leave signals to the main process (it
-    stops the workers itself)."""
+def _start_worker(job: BlockJob, parent: int) -> None:
+    """In a local worker process: keep the job, leave signals to the main process (it stops the
+    workers itself), and end when that process (pid `parent`) is gone: killed outright, it cannot
+    stop its workers, and these, deaf to signals, would wait for blocks forever and keep its
+    output pipes open."""
+    import threading
+
     global _WORKER_JOB
     _WORKER_JOB = job
     for sig in (signal.SIGINT, signal.SIGTERM, signal.SIGHUP):
         signal.signal(sig, signal.SIG_IGN)
+    threading.Thread(target=_end_with, args=(parent,), daemon=True).start()
+
+
+def _end_with(parent: int) -> None:
+    """Exit this worker process once its parent process is no longer `parent` (it has ended)."""
+    while os.getppid() == parent:
+        time.sleep(PARENT_CHECK_S)
+    os._exit(1)
 
 
 def _compute_in_worker(first_line: int, data: bytes) -> BlockResult:
@@ -236,7 +250,8 @@ class Workers:
             from concurrent.futures import ProcessPoolExecutor
 
             context = multiprocessing.get_context("fork" if "fork" in multiprocessing.get_all_start_methods() else None)
-            self.pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_start_worker, initargs=(job,))
+            self.pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_start_worker,
+                                            initargs=(job, os.getpid()))
             self.window = WINDOW_PER_WORKER * workers
         else:
             self.window = 1

@@ -78,7 +78,11 @@ def _cleanup_on_signals() -> Iterator[None]:
         yield
         return
     for sig in _CLEANUP_SIGNALS:
-        _PREVIOUS_HANDLERS[sig] = signal.signal(sig, _remove_live_temporaries)
+        # recorded before the handler goes in: a signal arriving right after it must find it
+        # (else it acted as the default, and a heat list's run stopped by SIGTERM just as it
+        # saved its state was killed instead of stopping after the block)
+        _PREVIOUS_HANDLERS[sig] = signal.getsignal(sig)
+        signal.signal(sig, _remove_live_temporaries)
     try:
         yield
     finally:

@@ -185,6 +185,34 @@ def test_sigterm_to_a_real_process_then_resume(tmp_path, small_blocks):
     assert out.read_bytes() == whole.read_bytes()
 
 
+def test_workers_end_when_the_run_is_killed_outright(tmp_path):
+    """SIGKILL to the run (no chance to stop its workers): the worker processes, which ignore
+    the stop signals, end on their own within seconds, so that nothing keeps computing or holds
+    the run's output pipes open (they did: the pipes stayed open for good). On Linux the workers
+    are found in /proc, to be killed here should they be left."""
+    heats = _heat_list(tmp_path / "heats.csv", 200000)
+    out = tmp_path / "out.csv"
+    process = _ladle(["batch", "al-si", str(heats), "--workers", "2", "-o", str(out)], block=16384)
+    deadline = time.monotonic() + 60
+    while not runs.state_path(out).exists() and process.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.005)
+    children = Path(f"/proc/{process.pid}/task/{process.pid}/children")
+    workers = [int(pid) for pid in children.read_text().split()] if children.exists() else []
+    process.kill()
+    try:
+        process.communicate(timeout=30)            # returns once every holder of the pipes is gone
+    except subprocess.TimeoutExpired:
+        for pid in workers:
+            try:
+                os.kill(pid, signal.SIGKILL)
+            except ProcessLookupError:
+                pass
+        process.communicate(timeout=30)
+        pytest.fail(f"worker processes {workers} outlived the killed run")
+    if process.returncode != -signal.SIGKILL:
+        pytest.skip("the run ended before it was killed")
+
+
 def test_a_terminal_gets_a_progress_line_with_speed_and_time_left(tmp_path):
     import pty
 

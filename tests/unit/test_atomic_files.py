@@ -158,3 +158,33 @@ def test_a_signal_the_program_handles_lets_the_write_finish(tmp_path, monkeypatc
     assert got == [signal.SIGTERM]
     assert (tmp_path / "state.json").read_text() == '{"done": 3}'
     assert [p.name for p in tmp_path.iterdir()] == ["state.json"]
+
+
+def test_a_signal_just_as_the_write_installs_its_handler_reaches_the_program(tmp_path):
+    """SIGTERM delivered right after the write's own handler goes in (before the write had
+    recorded the program's handler, it acted as the default and killed a heat list's run in the
+    middle of saving its state, leaving its worker processes behind): the program's handler runs
+    and the write finishes. In a child process, which the old behaviour killed."""
+    import subprocess
+    import sys
+
+    script = (
+        "import os, signal, sys\n"
+        "from ladle.engine.files import atomic_files\n"
+        "got = []\n"
+        "signal.signal(signal.SIGTERM, lambda signum, frame: got.append(signum))\n"
+        "real = signal.signal\n"
+        "def install_then_signal(sig, handler):\n"
+        "    old = real(sig, handler)\n"
+        "    if handler is atomic_files._remove_live_temporaries and sig == signal.SIGTERM:\n"
+        "        os.kill(os.getpid(), signal.SIGTERM)       # handled before this returns\n"
+        "    return old\n"
+        "signal.signal = install_then_signal\n"
+        "atomic_files.write_atomic(sys.argv[1], 'whole')\n"
+        "print(got == [signal.SIGTERM], open(sys.argv[1]).read())\n"
+    )
+    child = subprocess.run([sys.executable, "-c", script, str(tmp_path / "state.json")], capture_output=True,
+                           text=True, timeout=60)
+    assert child.returncode == 0, child.stderr
+    assert child.stdout == "True whole\n"
+    assert [p.name for p in tmp_path.iterdir()] == ["state.json"]
