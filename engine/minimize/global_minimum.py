@@ -7,8 +7,10 @@ overall composition, a linear program (`lowest_combination`) whose basis gives t
 approximate compositions and amounts, and the chemical potentials; samples of one phase that are
 separated by a region above the hull's plane (a miscibility gap) start separate composition sets;
 (2) Newton's method on the full equilibrium conditions (`multiphase_newton`); (3) the driving
-force of every phase against the refined chemical potentials on its samples, and a few Newton
-steps from the lowest sample of each phase where sampling could hide a minimum: a point below the
+force of every phase against the refined chemical potentials on its samples, a few Newton
+steps from the lowest sample of each phase where sampling could hide a minimum, and a search
+along the softest direction of a phase nearly flat at a composition set (a miscibility gap near
+its critical point, whose other side lies between the samples): a point below the
 plane joins the refined phases at zero amount while the phase rule leaves room, else it joins the
 linear program as a new column (with small neighbourhoods of the refined points), which restarts
 from the refined phases' basis, and adds the lowest points of every phase against its own plane
@@ -32,7 +34,7 @@ from functools import cached_property
 import numpy as np
 
 from .lowest_combination import LowestCombination
-from .multiphase_newton import PhaseState, free_groups, lowest_driving_force, solve
+from .multiphase_newton import PhaseState, free_groups, lowest_driving_force, solve, sublattice_rows
 from .site_sampling import site_fraction_cloud
 
 #: A phase lying more than this below the equilibrium's tangent plane is missing from the answer
@@ -111,6 +113,13 @@ class _Phase:
     def free_groups(self) -> list[np.ndarray]:
         """Per sublattice, the indices of its free site fractions."""
         return free_groups(self.model, self.free)
+
+    @cached_property
+    def tangent(self) -> np.ndarray:
+        """An orthonormal basis (free site fractions x directions) of the moves that keep every
+        sublattice's sum: the space G's curvature is judged on (`_soft_side`)."""
+        _u, sv, vt = np.linalg.svd(sublattice_rows(self.model, self.free))
+        return vt[len(sv):].T
 
 
 @dataclass
@@ -357,12 +366,35 @@ def _exchange(states: list[PhaseState], entering: PhaseState, elements: np.ndarr
     return kept + [entering]
 
 
+def _along_line(ph: _Phase, y_s: np.ndarray, step: np.ndarray, mu: np.ndarray, elements: np.ndarray,
+                span: float = 1.0) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The phase sampled densely along the line y_s + t step (step of max norm 1 in the free site
+    fractions; `elements`: the indices of the present elements): y_s itself (t = 0) and
+    SPLIT_SAMPLES points each side, as far as every free site fraction stays positive, |t| at
+    most `span`. Returns (t ascending, site fractions, driving force against mu in J per mole of
+    atoms)."""
+    free = ph.free
+
+    def reach(direction: np.ndarray) -> float:
+        falling = direction[free] < 0.0
+        room = float(np.min(y_s[free][falling] / -direction[free][falling])) if falling.any() else 1.0
+        return min(span, (1.0 - 1e-9) * room)
+
+    t = np.concatenate([-np.linspace(0.0, reach(-step), SPLIT_SAMPLES + 1)[:0:-1],
+                        np.linspace(0.0, reach(step), SPLIT_SAMPLES + 1)])
+    Y = np.clip(y_s + t[:, None] * step, 0.0, None)
+    moles = Y @ ph.model.element_matrix
+    atoms = moles.sum(axis=1)
+    with np.errstate(all="ignore"):
+        d = ph.model.gibbs(Y) / atoms - (moles[:, elements] / atoms[:, None]) @ mu
+    return t, Y, d
+
+
 def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray, mu: np.ndarray,
-                 active: np.ndarray) -> list[PhaseState] | None:
+                 elements: np.ndarray) -> list[PhaseState] | None:
     """The state with its largest composition set of phase `ph` split in two along the line from
     the set's site fractions y_s through `y` (a point below the plane mu next to it): the phase is
-    sampled densely along the line (SPLIT_SAMPLES each side, as far as every free site fraction
-    stays positive, at most 1 in the max norm) and the two points whose chord lies lowest over
+    sampled densely along the line (`_along_line`) and the two points whose chord lies lowest over
     y_s (the lower convex hull of the driving force along the line) are the new sets, their
     amounts by the lever rule. A start for Newton where a set lies inside or next to a
     miscibility gap's spinodal, from which a zero-amount second set is dropped again: near the
@@ -373,25 +405,11 @@ def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray, mu: np.nda
         return None
     k = max(mine, key=lambda i: states[i].amount)
     st = states[k]
-    free = ph.free
     step = y - st.y
-    size = float(np.max(np.abs(step[free])))
+    size = float(np.max(np.abs(step[ph.free])))
     if size <= 0.0:
         return None
-    step = step / size
-
-    def reach(direction: np.ndarray) -> float:
-        falling = direction[free] < 0.0
-        room = float(np.min(st.y[free][falling] / -direction[free][falling])) if falling.any() else 1.0
-        return min(1.0, (1.0 - 1e-9) * room)
-
-    t = np.concatenate([-np.linspace(0.0, reach(-step), SPLIT_SAMPLES + 1)[:0:-1],
-                        np.linspace(0.0, reach(step), SPLIT_SAMPLES + 1)[1:]])
-    Y = np.clip(st.y + t[:, None] * step, 0.0, None)
-    moles = Y @ ph.model.element_matrix
-    atoms = moles.sum(axis=1)
-    with np.errstate(all="ignore"):
-        d = ph.model.gibbs(Y) / atoms - (moles[:, active] / atoms[:, None]) @ mu
+    t, Y, d = _along_line(ph, st.y, step / size, mu, elements)
     left, right = t < 0.0, t > 0.0
     ta, tb, da, db = t[left][:, None], t[right][None, :], d[left][:, None], d[right][None, :]
     chord = (da * tb - db * ta) / (tb - ta)                     # each chord's height over y_s
@@ -402,6 +420,58 @@ def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray, mu: np.nda
     one = PhaseState(st.name, st.model, _start_fractions(ph, Y[left][a]), st.amount * t_b / (t_b - t_a), st.free)
     two = PhaseState(st.name, st.model, _start_fractions(ph, Y[right][b]), st.amount * -t_a / (t_b - t_a), st.free)
     return states[:k] + [one, two] + states[k + 1:]
+
+
+def _soft_side(ph: _Phase, st: PhaseState, mu: np.ndarray, elements: np.ndarray) -> np.ndarray | None:
+    """Where a second minimum of the phase may hide next to its composition set `st` (site
+    fractions y_s; its Hessian from Newton's method where it has one): the lowest other dip
+    (local minimum of the driving force) along the phase's softest direction at y_s, sampled to
+    2 GAP_DISTANCE each side; None where the phase is not flat there or has no other
+    dip within NEAR_PLANE (J/mol) of the plane. Flat means that the smallest eigenvalue of G's
+    Hessian over the free site fractions (on the sublattice sums' tangent space, J/mol per unit
+    site fraction squared) lets G rise by less than NEAR_PLANE over GAP_DISTANCE, so that a
+    minimum could lie between the set and the samples searched beyond GAP_DISTANCE. Near a
+    miscibility gap's critical point the gap's sides lie close to that direction (a 14-carat
+    Au-Ag-Cu gold at 933.5-934.1 K: the other side 0.03-0.04 away, 0.03-0.005 J/mol below the
+    plane, and slightly off the line: Newton's steps from the dip find it)."""
+    free, Z, y_s, H = ph.free, ph.tangent, st.y, st.hessian
+    if Z.shape[1] == 0:
+        return None
+    if H is None:
+        with np.errstate(all="ignore"):
+            H = ph.model.hessian(y_s)
+        if len(free) < len(y_s):
+            H = H[np.ix_(free, free)]
+    H = Z.T @ H @ Z
+    if not np.isfinite(H).all() or 0.5 * np.linalg.eigvalsh(H)[0] * GAP_DISTANCE ** 2 >= NEAR_PLANE:
+        return None
+    lam, vec = np.linalg.eigh(H)
+    step = np.zeros(ph.model.n_vars)
+    step[free] = Z @ vec[:, 0]
+    step /= float(np.max(np.abs(step)))
+    t, Y, d = _along_line(ph, y_s, step, mu, elements, span=2.0 * GAP_DISTANCE)
+    if Z.shape[1] > 1:
+        # each point relaxed across the line by one Newton step in the stiff directions (their
+        # curvature taken from y_s): the gap's other side lies a little off the line, where the
+        # stiff curvature (5e4 J/mol for the gold) lifts the line's points above a shallow side
+        Zs = Z @ vec[:, 1:]
+        with np.errstate(all="ignore"):
+            g = ph.model.gradient(Y)[:, free] - (mu @ ph.model.element_matrix[:, elements].T)[free]
+        relaxed = Y.copy()
+        relaxed[:, free] -= ((g @ Zs) / lam[1:]) @ Zs.T
+        ok = (relaxed[:, free] > 0.0).all(axis=1)
+        moles = relaxed[ok] @ ph.model.element_matrix
+        atoms = moles.sum(axis=1)
+        with np.errstate(all="ignore"):
+            d_relaxed = ph.model.gibbs(relaxed[ok]) / atoms - (moles[:, elements] / atoms[:, None]) @ mu
+        lower = np.zeros(len(d), dtype=bool)
+        lower[ok] = d_relaxed < d[ok]
+        Y[lower], d[lower] = relaxed[ok][lower[ok]], d_relaxed[lower[ok]]
+    inner = d[1:-1]
+    dips = np.flatnonzero((inner < d[:-2]) & (inner <= d[2:]) & (t[1:-1] != 0.0) & (inner < NEAR_PLANE)) + 1
+    if len(dips) == 0:
+        return None
+    return Y[dips[np.argmin(d[dips])]]
 
 
 def _merge_duplicates(states: list[PhaseState]) -> list[PhaseState]:
@@ -455,6 +525,14 @@ def _candidates(cloud: _Cloud, states: list[PhaseState], mu: np.ndarray, element
             starts = far_start if d[lowest] >= -tol else [lowest] + [k for k in far_start if k != lowest]
         if freedom == 0:                      # a compound: its one sample is exact
             starts = [k for k in starts if d[k] < -tol]
+        elif mine and d[lowest] >= -tol:       # nothing below next to the sets: are they flat?
+            for st in states:
+                side = _soft_side(ph, st, mu, elements) if st.name == ph.name else None
+                if side is not None:
+                    y1, df = lowest_driving_force(ph.model, _start_fractions(ph, side), mu, elements, ph.free,
+                                                  sets=mine, tolerance=tol)
+                    if np.isfinite(df) and df < -tol:
+                        found.append((p, y1, df))
         for k in starts:
             if d[k] > (LOWEST_SAMPLE_MARGIN * near if k == lowest else near):
                 continue
@@ -603,7 +681,7 @@ class _Search:
                 continue
             if ok and len(states) < n_active:   # dropped again: split a set of that phase about its point
                 p, y, _df = min(found, key=lambda c: c[2])
-                split = _split_about(states, phases[p], y, mu, active)
+                split = _split_about(states, phases[p], y, mu, elements)
                 if split is not None:
                     solved, mu_split, ok_split = solve(split, za, mu, elements)
                     solved = _merge_duplicates(solved) if ok_split else []

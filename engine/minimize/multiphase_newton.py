@@ -20,7 +20,7 @@ constituents) and an increasing one the plain step. A phase whose amount turns n
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -36,13 +36,16 @@ MAX_STEP = 0.05
 class PhaseState:
     """One phase (or one composition set of a phase with a miscibility gap) in a state: its site
     fractions y (full vector; fixed zeros where a constituent is absent), amount n (moles of
-    formula units per mole of alloy atoms)."""
+    formula units per mole of alloy atoms); `hessian`: d2G/dy2 over the free site fractions (J per
+    mole of formula units) where `solve` last evaluated it, one step before its answer (None for a
+    state no solve has refined)."""
 
     name: str
     model: object
     y: np.ndarray
     amount: float
     free: np.ndarray            # indices of the site fractions that vary
+    hessian: np.ndarray | None = field(default=None, repr=False, compare=False)
 
     @property
     def moles_per_formula_unit(self) -> np.ndarray:
@@ -243,6 +246,7 @@ def solve(states: list[PhaseState], z: np.ndarray, mu: np.ndarray, elements: np.
                 r[o + nf:o + nf + ns] = sums - 1.0
                 r[o + nf + ns] = G - n_el @ mu
                 J[o:o + nf, o:o + nf] = H
+                st.hessian = H
                 J[o + nf + ns, o:o + nf] = gA
                 J[o + nf + ns, m0:] = -n_el
                 J[m0:, o:o + nf] = st.amount * A.T
