@@ -23,19 +23,10 @@ THEME = "textual-dark"
 ENVIRONMENT_LEAKS = ("NO_COLOR", "LADLE_ASCII", "TEXTUAL_THEME", "COLORTERM", "FORCE_COLOR")
 
 
-@pytest.fixture(scope="session")
-def shared_check_cache(tmp_path_factory):
-    """One folder of remembered check counts for the whole run, none from outside it: the counts
-    are keyed by the system files' contents and the engine's code, so they hold in every test,
-    and each test that opens the picker no longer measures every shipped system's checks afresh
-    (about 13 s a test)."""
-    return tmp_path_factory.mktemp("check-cache")
-
-
 @pytest.fixture(autouse=True)
 def clean_environment(monkeypatch, tmp_path, shared_check_cache):
     """No colour or theme settings from outside; state and written files in a temporary
-    folder; the run's own cache of check counts."""
+    folder; the run's own cache of check counts (tests/conftest.py)."""
     for name in ENVIRONMENT_LEAKS:
         monkeypatch.delenv(name, raising=False)
     monkeypatch.setenv("XDG_STATE_HOME", str(tmp_path / "state"))

@@ -196,7 +196,6 @@ def test_systems_list_shows_how_many_checks_pass(tmp_path, monkeypatch, capsys):
     folder.mkdir()
     (folder / "a-b.toml").write_text(SYSTEM + FAILING)
     monkeypatch.setenv("LADLE_SYSTEMS", str(folder))
-    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
     for _ in range(2):          # evaluated, then remembered: the same line
         assert main(["systems"]) == 0
         out = capsys.readouterr().out
@@ -209,7 +208,6 @@ def test_systems_list_shows_how_many_checks_pass(tmp_path, monkeypatch, capsys):
 
 def test_systems_list_wraps_to_the_terminal_and_json_keeps_every_text(tmp_path, monkeypatch, capsys):
     monkeypatch.setenv("LADLE_SYSTEMS", str(tmp_path / "none"))
-    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
     monkeypatch.setenv("COLUMNS", "60")
     assert main(["systems"]) == 0
     lines = capsys.readouterr().out.splitlines()

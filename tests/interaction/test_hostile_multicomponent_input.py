@@ -142,15 +142,27 @@ def test_an_output_in_a_missing_folder_names_the_folder_not_resume(tmp_path):
     assert "--resume" not in run.stderr
 
 
-def _interrupted_run(folder: Path) -> dict:
-    """A heat list of four heats, the partial output of its first two and the state an
-    interrupted run leaves (as tui/heatlist_runs.py writes it), made directly: (state)."""
-    from ladle.tui.heatlist import scan_heat_list
+FOUR_HEATS = HEATS + "H4,2.0,0.3\n"
 
-    (folder / "heats.csv").write_text(HEATS + "H4,2.0,0.3\n", encoding="utf-8")
+
+@pytest.fixture(scope="module")
+def uninterrupted(tmp_path_factory) -> str:
+    """The output of one run over the four heats (computed once: a few seconds each time)."""
+    folder = tmp_path_factory.mktemp("uninterrupted")
+    (folder / "heats.csv").write_text(FOUR_HEATS, encoding="utf-8")
     done = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", cwd=folder)
     assert done.returncode == 0, done.stderr
-    written = "".join(done.stdout.splitlines(keepends=True)[:3])        # header and two heats
+    return done.stdout
+
+
+def _interrupted_run(folder: Path, uninterrupted: str) -> dict:
+    """A heat list of four heats, the partial output of its first two (from `uninterrupted`, the
+    whole run's output) and the state an interrupted run leaves (as tui/heatlist_runs.py writes
+    it), made directly: (state)."""
+    from ladle.tui.heatlist import scan_heat_list
+
+    (folder / "heats.csv").write_text(FOUR_HEATS, encoding="utf-8")
+    written = "".join(uninterrupted.splitlines(keepends=True)[:3])        # header and two heats
     (folder / ".out.csv.ladle-partial").write_text(written, encoding="utf-8")
     scan = scan_heat_list(folder / "heats.csv", None)
     state = {"version": 1, "input": str(folder / "heats.csv"), "size": scan.size, "sha256": scan.sha256,
@@ -164,14 +176,13 @@ def _interrupted_run(folder: Path) -> dict:
     return state
 
 
-def test_the_made_interrupted_run_resumes_to_the_uninterrupted_answer(tmp_path):
+def test_the_made_interrupted_run_resumes_to_the_uninterrupted_answer(tmp_path, uninterrupted):
     """The control for the corrupted states below: the state as made is accepted."""
-    _interrupted_run(tmp_path)
+    _interrupted_run(tmp_path, uninterrupted)
     run = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", "-o", "out.csv", "--resume",
                  cwd=tmp_path)
     assert run.returncode == 0, run.stderr
-    whole = _ladle("batch", "ag-cu-sn", "heats.csv", "--melt-only", "--workers", "1", cwd=tmp_path)
-    assert (tmp_path / "out.csv").read_text(encoding="utf-8") == whole.stdout
+    assert (tmp_path / "out.csv").read_text(encoding="utf-8") == uninterrupted
 
 
 CORRUPTIONS = {
@@ -195,8 +206,8 @@ CORRUPTIONS = {
 
 
 @pytest.mark.parametrize("corruption", CORRUPTIONS, ids=list(CORRUPTIONS))
-def test_resume_refuses_a_corrupted_state_file_in_one_line(tmp_path, corruption):
-    state = _interrupted_run(tmp_path)
+def test_resume_refuses_a_corrupted_state_file_in_one_line(tmp_path, corruption, uninterrupted):
+    state = _interrupted_run(tmp_path, uninterrupted)
     table, key, value = CORRUPTIONS[corruption]
     (state[table] if table else state)[key] = value
     (tmp_path / ".out.csv.ladle-state.json").write_text(json.dumps(state), encoding="utf-8")
@@ -206,8 +217,8 @@ def test_resume_refuses_a_corrupted_state_file_in_one_line(tmp_path, corruption)
     assert not (tmp_path / "out.csv").exists()
 
 
-def test_resume_refuses_an_infinite_offset(tmp_path):
-    state = _interrupted_run(tmp_path)
+def test_resume_refuses_an_infinite_offset(tmp_path, uninterrupted):
+    state = _interrupted_run(tmp_path, uninterrupted)
     path = tmp_path / ".out.csv.ladle-state.json"
     path.write_text(json.dumps(state).replace(f'"input_offset": {state["input_offset"]}', '"input_offset": Infinity'),
                     encoding="utf-8")

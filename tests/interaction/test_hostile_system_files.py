@@ -53,7 +53,7 @@ def test_no_control_character_from_a_file_reaches_the_terminal(tmp_path, args):
     folder = tmp_path / "systems"
     folder.mkdir()
     _hostile_copy(folder)
-    run = _ladle(*args, env={"LADLE_SYSTEMS": str(folder), "XDG_CACHE_HOME": str(tmp_path / "cache")})
+    run = _ladle(*args, env={"LADLE_SYSTEMS": str(folder)})
     assert run.returncode in (0, 1), run.stderr
     output = run.stdout + run.stderr
     assert "x-y" in output or "Copper" in output
@@ -72,7 +72,7 @@ def test_no_control_character_from_a_file_name_reaches_the_terminal(tmp_path, ar
     folder.mkdir()
     (folder / "pb-sn.toml").write_text((SHIPPED / "pb-sn.toml").read_text(encoding="utf-8"), encoding="utf-8")
     (folder / "q\x07r.toml").write_text("x =\n", encoding="utf-8")
-    run = _ladle(*args, env={"LADLE_SYSTEMS": str(folder), "XDG_CACHE_HOME": str(tmp_path / "cache")})
+    run = _ladle(*args, env={"LADLE_SYSTEMS": str(folder)})
     assert run.returncode == 0, run.stderr
     assert "u\\x1b[31mx/pb-sn.toml: a system named 'pb-sn' exists already" in run.stderr
     if args[0] == "systems":

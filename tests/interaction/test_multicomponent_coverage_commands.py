@@ -24,12 +24,6 @@ import ideal_ternaries as it  # noqa: E402
 WORDS = "lies outside the range this model covers (Sn 0-30 at%, Bi 5-20 at%); no answer is given there"
 
 
-@pytest.fixture(autouse=True)
-def own_cache(monkeypatch, tmp_path):
-    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
-    monkeypatch.setenv("LADLE_SYSTEMS", str(tmp_path / "no-user-systems"))
-
-
 @pytest.fixture
 def system(tmp_path) -> str:
     return str(it.write_covered_file(tmp_path))

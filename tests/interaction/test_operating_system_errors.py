@@ -68,11 +68,13 @@ def test_unreadable_system_file_and_folder(tmp_path, user_env):
         folder.chmod(0o755)
 
 
-def test_an_unreadable_folder_in_ladle_systems_is_skipped_with_a_note(tmp_path, user_env):
+def test_an_unreadable_folder_in_ladle_systems_is_skipped_with_a_note(tmp_path, user_env, shared_check_cache):
     closed = tmp_path / "closed"
     closed.mkdir()
     closed.chmod(0)
-    env = {**user_env, "LADLE_SYSTEMS": f"{closed / 'sub'}{os.pathsep}{closed}"}
+    # the run's remembered check counts (the listing measures no shipped system afresh)
+    env = {**user_env, "LADLE_SYSTEMS": f"{closed / 'sub'}{os.pathsep}{closed}",
+           "XDG_CACHE_HOME": str(shared_check_cache)}
     try:
         melt = _ladle("melt", "cu-ni", "--comp", "Ni=10wt%", env=env, as_plain_user=True)
         listed = _ladle("systems", env=env, as_plain_user=True)

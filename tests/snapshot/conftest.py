@@ -5,4 +5,4 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "interaction"))
 
-from explorer_harness import clean_environment, shared_check_cache  # noqa: E402,F401  (fixtures; the first autouse)
+from explorer_harness import clean_environment  # noqa: E402,F401  (a fixture, autouse)
