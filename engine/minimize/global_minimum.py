@@ -454,15 +454,16 @@ def _soft_side(ph: _Phase, st: PhaseState, mu: np.ndarray, elements: np.ndarray)
         # each point relaxed across the line by one Newton step in the stiff directions (their
         # curvature taken from y_s): the gap's other side lies a little off the line, where the
         # stiff curvature (5e4 J/mol for the gold) lifts the line's points above a shallow side
+        # (only points that end lower are kept: a stiff direction of low or negative curvature
+        # gives a wild step, dropped here)
         Zs = Z @ vec[:, 1:]
+        relaxed = Y.copy()
         with np.errstate(all="ignore"):
             g = ph.model.gradient(Y)[:, free] - (mu @ ph.model.element_matrix[:, elements].T)[free]
-        relaxed = Y.copy()
-        relaxed[:, free] -= ((g @ Zs) / lam[1:]) @ Zs.T
-        ok = (relaxed[:, free] > 0.0).all(axis=1)
-        moles = relaxed[ok] @ ph.model.element_matrix
-        atoms = moles.sum(axis=1)
-        with np.errstate(all="ignore"):
+            relaxed[:, free] -= ((g @ Zs) / lam[1:]) @ Zs.T
+            ok = np.isfinite(relaxed).all(axis=1) & (relaxed[:, free] > 0.0).all(axis=1)
+            moles = relaxed[ok] @ ph.model.element_matrix
+            atoms = moles.sum(axis=1)
             d_relaxed = ph.model.gibbs(relaxed[ok]) / atoms - (moles[:, elements] / atoms[:, None]) @ mu
         lower = np.zeros(len(d), dtype=bool)
         lower[ok] = d_relaxed < d[ok]
