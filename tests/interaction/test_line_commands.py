@@ -41,7 +41,7 @@ PHASE_KEYS = {"name", "phase_fraction_mol", "phase_fraction_mass", "mole_fractio
 @pytest.fixture(autouse=True)
 def own_folders(monkeypatch, tmp_path, shared_check_cache):
     """No user system files, and no cache from outside the run (the run's own cache of check
-    counts, explorer_harness.shared_check_cache)."""
+    counts, shared_check_cache in tests/conftest.py)."""
     (tmp_path / "user-systems").mkdir()
     monkeypatch.setenv("LADLE_SYSTEMS", str(tmp_path / "user-systems"))
     monkeypatch.setenv("XDG_CACHE_HOME", str(shared_check_cache))
