@@ -383,11 +383,16 @@ def _along_line(ph: _Phase, y_s: np.ndarray, step: np.ndarray, mu: np.ndarray, e
     t = np.concatenate([-np.linspace(0.0, reach(-step), SPLIT_SAMPLES + 1)[:0:-1],
                         np.linspace(0.0, reach(step), SPLIT_SAMPLES + 1)])
     Y = np.clip(y_s + t[:, None] * step, 0.0, None)
-    moles = Y @ ph.model.element_matrix
+    return t, Y, _driving_forces(ph.model, Y, mu, elements)
+
+
+def _driving_forces(model, Y: np.ndarray, mu: np.ndarray, elements: np.ndarray) -> np.ndarray:
+    """The phase's G against the plane mu at the site fractions Y (rows), in J per mole of atoms
+    (`elements`: the indices of the present elements); NaN or inf where G is not finite."""
+    moles = Y @ model.element_matrix
     atoms = moles.sum(axis=1)
     with np.errstate(all="ignore"):
-        d = ph.model.gibbs(Y) / atoms - (moles[:, elements] / atoms[:, None]) @ mu
-    return t, Y, d
+        return model.gibbs(Y) / atoms - (moles[:, elements] / atoms[:, None]) @ mu
 
 
 def _split_about(states: list[PhaseState], ph: _Phase, y: np.ndarray, mu: np.ndarray,
@@ -443,9 +448,11 @@ def _soft_side(ph: _Phase, st: PhaseState, mu: np.ndarray, elements: np.ndarray)
         if len(free) < len(y_s):
             H = H[np.ix_(free, free)]
     H = Z.T @ H @ Z
-    if not np.isfinite(H).all() or 0.5 * np.linalg.eigvalsh(H)[0] * GAP_DISTANCE ** 2 >= NEAR_PLANE:
+    if not np.isfinite(H).all():
         return None
     lam, vec = np.linalg.eigh(H)
+    if 0.5 * lam[0] * GAP_DISTANCE ** 2 >= NEAR_PLANE:
+        return None
     step = np.zeros(ph.model.n_vars)
     step[free] = Z @ vec[:, 0]
     step /= float(np.max(np.abs(step)))
@@ -462,9 +469,7 @@ def _soft_side(ph: _Phase, st: PhaseState, mu: np.ndarray, elements: np.ndarray)
             g = ph.model.gradient(Y)[:, free] - (mu @ ph.model.element_matrix[:, elements].T)[free]
             relaxed[:, free] -= ((g @ Zs) / lam[1:]) @ Zs.T
             ok = np.isfinite(relaxed).all(axis=1) & (relaxed[:, free] > 0.0).all(axis=1)
-            moles = relaxed[ok] @ ph.model.element_matrix
-            atoms = moles.sum(axis=1)
-            d_relaxed = ph.model.gibbs(relaxed[ok]) / atoms - (moles[:, elements] / atoms[:, None]) @ mu
+        d_relaxed = _driving_forces(ph.model, relaxed[ok], mu, elements)
         lower = np.zeros(len(d), dtype=bool)
         lower[ok] = d_relaxed < d[ok]
         Y[lower], d[lower] = relaxed[ok][lower[ok]], d_relaxed[lower[ok]]
